@@ -1,0 +1,17 @@
+/** Jest runs TypeScript through SWC (decorators + metadata for Nest). */
+const swc = {
+  jsc: {
+    parser: { syntax: 'typescript', decorators: true },
+    transform: { legacyDecorator: true, decoratorMetadata: true },
+    target: 'es2022',
+  },
+  module: { type: 'commonjs', ignoreDynamic: true },
+};
+module.exports = {
+  testEnvironment: 'node',
+  roots: ['<rootDir>/libs', '<rootDir>/apps', '<rootDir>/test'],
+  testMatch: ['**/*.spec.ts', '**/*.e2e-spec.ts'],
+  transform: { '^.+\\.ts$': ['@swc/jest', swc] },
+  moduleNameMapper: { '^@leadline/(.*)$': '<rootDir>/libs/$1/src' },
+  testTimeout: 60000,
+};

@@ -1,0 +1,288 @@
+/**
+ * The design input contract: JSON with unit strings, validated with zod, converted once to engine units.
+ * Field names are a contract (see the engine issue): add fields, never rename.
+ */
+import {
+  END_CONDITIONS,
+  THREAD_FORMS,
+  findFrictionEntry,
+  findNutMaterial,
+  findScrewMaterial,
+  findThreadSize,
+  parseQuantity,
+  QuantityError,
+  BUTTRESS_PROFILES,
+  type Design,
+  type Dimension,
+  type FrictionRange,
+} from '@leadline/mechanics';
+import { z } from 'zod';
+
+/** A "<number> <unit>" string of one dimension; checked here, converted in normalizeDesign. */
+function quantity(dimension: Dimension, description: string) {
+  return z
+    .string()
+    .max(64)
+    .describe(description)
+    .superRefine((text, ctx) => {
+      const q = parseQuantity(text, dimension);
+      if (q instanceof QuantityError) ctx.addIssue({ code: 'custom', message: q.message });
+      else if (!(q.si > 0)) ctx.addIssue({ code: 'custom', message: `must be greater than zero, got "${text}"` });
+    });
+}
+
+const length = (d: string) => quantity('length', d);
+const coefficient = z.number().min(0, 'friction coefficient must be within 0..1').max(1, 'friction coefficient must be within 0..1');
+
+export const frictionSourceSchema = z.strictObject({
+  kind: z.enum(['handbook', 'test', 'supplier', 'assumed']),
+  reference: z.string().min(1, 'name the handbook, test report or supplier document').max(500),
+});
+
+/** A friction range typed in, or a reference to a friction-library entry. */
+export const frictionRangeSchema = z.union([
+  z.strictObject({ min: coefficient, max: coefficient, source: frictionSourceSchema }),
+  z.strictObject({ entry: z.string().min(1).max(100).describe('id of a friction-library entry (GET /api/v1/friction-sources)') }),
+]);
+
+export const collarSchema = z.discriminatedUnion('kind', [
+  z.strictObject({ kind: z.literal('plain'), meanDiameter: length('collar mean diameter') }),
+  z.strictObject({
+    kind: z.literal('annular'),
+    outerDiameter: length('collar outer diameter'),
+    innerDiameter: length('collar inner diameter'),
+    model: z.enum(['uniform-wear', 'uniform-pressure']),
+  }),
+  z.strictObject({ kind: z.literal('rolling'), meanDiameter: length('bearing mean diameter') }),
+  z.strictObject({ kind: z.literal('none') }),
+]);
+
+export const designInputSchema = z.strictObject({
+  thread: z.strictObject({
+    form: z.enum(THREAD_FORMS),
+    size: z.string().max(40).optional().describe('standard size, e.g. "Tr 24x5", "1-1/2-4 ACME", "M20" (GET /api/v1/thread-sizes)'),
+    majorDiameter: length('major (nominal) diameter').optional(),
+    pitch: length('pitch (axial distance between adjacent threads)').optional(),
+    starts: z.number().int('starts must be a whole number').min(1, 'starts must be at least 1').max(12).optional(),
+    loadFlankAngle: z.union([z.number(), quantity('angle', 'load-flank angle')]).optional().describe('buttress only: 3 or 7 deg'),
+  }),
+  load: z.strictObject({ axial: quantity('force', 'axial load'), sense: z.enum(['compression', 'tension']) }),
+  friction: z.strictObject({ thread: frictionRangeSchema, collar: frictionRangeSchema.optional() }),
+  collar: collarSchema,
+  nut: z.strictObject({
+    length: length('nut length (engaged)'),
+    material: z.string().max(60).optional().describe('nut material id from the library, e.g. "bronze"'),
+    allowablePressure: quantity('stress', 'allowable mean bearing pressure (overrides the material)').optional(),
+    allowablePv: quantity('pv', 'allowable pV at the mean diameter, e.g. "2.5 MPa*m/s" (overrides the material)').optional(),
+    yieldStrength: quantity('stress', 'nut material yield strength (overrides the material)').optional(),
+  }),
+  screw: z.strictObject({
+    material: z.string().max(60).optional().describe('screw material id from the library; supplies the three values below'),
+    yieldStrength: quantity('stress', 'minimum yield strength').optional(),
+    elasticModulus: quantity('stress', 'elastic modulus').optional(),
+    density: quantity('density', 'mass density').optional(),
+    unsupportedLength: length('unsupported length between supports (column and shaft length)'),
+    ends: z.enum(END_CONDITIONS),
+    endConditionBasis: z.enum(['recommended', 'theoretical']).optional(),
+  }),
+  duty: z.strictObject({
+    kind: z.enum(['lifting', 'positioning', 'clamping']),
+    speed: quantity('rotationalSpeed', 'screw rotational speed').optional(),
+    linearSpeed: quantity('linearSpeed', 'nut travel speed').optional(),
+    brake: z.boolean(),
+    vibration: z.boolean().optional(),
+  }),
+  drive: z.strictObject({ availableTorque: quantity('torque', 'torque the drive can deliver at start') }).optional(),
+});
+
+export type DesignInput = z.input<typeof designInputSchema>;
+
+/** One validation problem, with the dotted path of the field at fault. */
+export interface FieldIssue {
+  readonly path: string;
+  readonly message: string;
+}
+
+export type DesignParseResult =
+  | { readonly success: true; readonly design: Design }
+  | { readonly success: false; readonly issues: readonly FieldIssue[] };
+
+function pathOf(path: readonly PropertyKey[]): string {
+  return path.map(String).join('.');
+}
+
+/** Validates a raw design input and converts it to engine units; never throws on bad input. */
+export function parseDesign(raw: unknown): DesignParseResult {
+  const shape = designInputSchema.safeParse(raw);
+  if (!shape.success) {
+    return {
+      success: false,
+      issues: shape.error.issues.map((i) => ({ path: pathOf(i.path) || '(body)', message: i.message })),
+    };
+  }
+  return normalizeDesign(shape.data);
+}
+
+type Parsed = z.output<typeof designInputSchema>;
+
+/** Converts a shape-valid input into engine units and checks the rules that span fields. */
+function normalizeDesign(input: Parsed): DesignParseResult {
+  const issues: FieldIssue[] = [];
+  let us = 0;
+  let si = 0;
+  const q = (text: string, dimension: Dimension): number => {
+    const r = parseQuantity(text, dimension) as { si: number; usCustomary: boolean };
+    if (r.usCustomary) us++;
+    else if (dimension !== 'rotationalSpeed' && dimension !== 'angle') si++;
+    return r.si;
+  };
+  const opt = (text: string | undefined, dimension: Dimension): number | null => (text === undefined ? null : q(text, dimension));
+
+  // Thread: a named size, or major diameter and pitch
+  const th = input.thread;
+  let majorDiameter = opt(th.majorDiameter, 'length');
+  let pitch = opt(th.pitch, 'length');
+  let size: string | null = null;
+  if (th.size !== undefined) {
+    const found = findThreadSize(th.size);
+    if (!found) issues.push({ path: 'thread.size', message: `unknown standard size "${th.size}" (see GET /api/v1/thread-sizes)` });
+    else if (found.form !== th.form) issues.push({ path: 'thread.size', message: `"${th.size}" is a ${found.form} size, but thread.form is ${th.form}` });
+    else {
+      const agrees = (given: number | null, table: number) => given === null || Math.abs(given - table) <= 1e-9 + 1e-6 * table;
+      if (!agrees(majorDiameter, found.majorDiameter)) issues.push({ path: 'thread.majorDiameter', message: `disagrees with size ${found.designation}; omit it or make it match` });
+      if (!agrees(pitch, found.pitch)) issues.push({ path: 'thread.pitch', message: `disagrees with size ${found.designation}; omit it or make it match` });
+      majorDiameter = found.majorDiameter;
+      pitch = found.pitch;
+      size = found.designation;
+      if (/ACME|UNC/.test(found.designation)) us++;
+      else si++;
+    }
+  } else {
+    if (majorDiameter === null) issues.push({ path: 'thread.majorDiameter', message: 'required unless thread.size is given' });
+    if (pitch === null) issues.push({ path: 'thread.pitch', message: 'required unless thread.size is given' });
+  }
+  if (majorDiameter !== null && pitch !== null && pitch >= majorDiameter) {
+    issues.push({ path: 'thread.pitch', message: 'pitch must be smaller than the major diameter' });
+  }
+  let loadFlankAngle: number | null = null;
+  if (th.form === 'buttress') {
+    if (th.loadFlankAngle === undefined) issues.push({ path: 'thread.loadFlankAngle', message: 'required for a buttress thread: 3 or 7 deg' });
+    else {
+      const deg = typeof th.loadFlankAngle === 'number' ? th.loadFlankAngle : (q(th.loadFlankAngle, 'angle') * 180) / Math.PI;
+      const known = Object.keys(BUTTRESS_PROFILES).map(Number).find((a) => Math.abs(a - deg) < 1e-6);
+      if (known === undefined) issues.push({ path: 'thread.loadFlankAngle', message: 'buttress geometry is tabulated for 3 deg (3/30) and 7 deg (7/45) load flanks' });
+      else loadFlankAngle = known;
+    }
+  } else if (th.loadFlankAngle !== undefined) {
+    issues.push({ path: 'thread.loadFlankAngle', message: 'only a buttress thread takes a load-flank angle' });
+  }
+
+  // Friction ranges, typed in or from the library
+  const friction = (value: Parsed['friction']['thread'], path: string, surface: 'thread' | 'collar'): FrictionRange | null => {
+    if ('entry' in value) {
+      const e = findFrictionEntry(value.entry);
+      if (!e) {
+        issues.push({ path: `${path}.entry`, message: `unknown friction-library entry "${value.entry}" (see GET /api/v1/friction-sources)` });
+        return null;
+      }
+      if (e.surface !== surface) {
+        issues.push({ path: `${path}.entry`, message: `"${value.entry}" is a ${e.surface} entry, not a ${surface} entry` });
+        return null;
+      }
+      return { min: e.min, max: e.max, source: e.source, entry: e.id };
+    }
+    if (value.min > value.max) issues.push({ path: `${path}.min`, message: 'min must not exceed max' });
+    return { min: value.min, max: value.max, source: value.source };
+  };
+  const threadFriction = friction(input.friction.thread, 'friction.thread', 'thread');
+  let collarFriction: FrictionRange | null = null;
+  if (input.collar.kind !== 'none') {
+    if (input.friction.collar === undefined) issues.push({ path: 'friction.collar', message: `required for a ${input.collar.kind} collar` });
+    else collarFriction = friction(input.friction.collar, 'friction.collar', 'collar');
+  }
+
+  // Collar
+  const c = input.collar;
+  let collar: Design['collar'];
+  switch (c.kind) {
+    case 'plain':
+    case 'rolling':
+      collar = { kind: c.kind, meanDiameter: q(c.meanDiameter, 'length') };
+      break;
+    case 'annular': {
+      const outer = q(c.outerDiameter, 'length');
+      const inner = q(c.innerDiameter, 'length');
+      if (inner >= outer) issues.push({ path: 'collar.innerDiameter', message: 'inner diameter must be smaller than the outer diameter' });
+      collar = { kind: 'annular', outerDiameter: outer, innerDiameter: inner, model: c.model };
+      break;
+    }
+    case 'none':
+      collar = { kind: 'none' };
+  }
+
+  // Nut, with its library material
+  const nutMaterial = input.nut.material === undefined ? null : findNutMaterial(input.nut.material);
+  if (nutMaterial === undefined) issues.push({ path: 'nut.material', message: `unknown nut material "${input.nut.material}" (see GET /api/v1/materials)` });
+  const nut: Design['nut'] = {
+    length: q(input.nut.length, 'length'),
+    material: input.nut.material ?? null,
+    allowablePressure: opt(input.nut.allowablePressure, 'stress') ?? nutMaterial?.allowablePressure ?? null,
+    allowablePv: opt(input.nut.allowablePv, 'pv') ?? nutMaterial?.allowablePv ?? null,
+    yieldStrength: opt(input.nut.yieldStrength, 'stress') ?? nutMaterial?.yieldStrength ?? null,
+  };
+  if (pitch !== null && nut.length < pitch) issues.push({ path: 'nut.length', message: 'the nut must engage at least one full pitch' });
+
+  // Screw, with its library material
+  const s = input.screw;
+  const screwMaterial = s.material === undefined ? null : findScrewMaterial(s.material);
+  if (screwMaterial === undefined) issues.push({ path: 'screw.material', message: `unknown screw material "${s.material}" (see GET /api/v1/materials)` });
+  const screwValue = (key: 'yieldStrength' | 'elasticModulus' | 'density', dimension: Dimension): number => {
+    const given = opt(s[key], dimension);
+    if (given !== null) return given;
+    if (screwMaterial) return screwMaterial[key];
+    if (screwMaterial !== undefined) issues.push({ path: `screw.${key}`, message: 'required unless screw.material names a library material' });
+    return NaN;
+  };
+  const screw: Design['screw'] = {
+    material: s.material ?? null,
+    yieldStrength: screwValue('yieldStrength', 'stress'),
+    elasticModulus: screwValue('elasticModulus', 'stress'),
+    density: screwValue('density', 'density'),
+    unsupportedLength: q(s.unsupportedLength, 'length'),
+    ends: s.ends,
+    endConditionBasis: s.endConditionBasis ?? 'recommended',
+  };
+
+  // Duty
+  const d = input.duty;
+  if (d.speed !== undefined && d.linearSpeed !== undefined) {
+    issues.push({ path: 'duty.linearSpeed', message: 'give either duty.speed or duty.linearSpeed, not both' });
+  }
+  const duty: Design['duty'] = {
+    kind: d.kind,
+    speed: opt(d.speed, 'rotationalSpeed'),
+    linearSpeed: opt(d.linearSpeed, 'linearSpeed'),
+    brake: d.brake,
+    vibration: d.vibration ?? false,
+  };
+
+  const axial = q(input.load.axial, 'force');
+  const drive = input.drive ? { availableTorque: q(input.drive.availableTorque, 'torque') } : null;
+  if (issues.length > 0 || majorDiameter === null || pitch === null || threadFriction === null) {
+    return { success: false, issues };
+  }
+  return {
+    success: true,
+    design: {
+      thread: { form: th.form, size, majorDiameter, pitch, starts: th.starts ?? 1, loadFlankAngle },
+      load: { axial, sense: input.load.sense },
+      friction: { thread: threadFriction, collar: collarFriction },
+      collar,
+      nut,
+      screw,
+      duty,
+      drive,
+      unitSystem: us > si ? 'US' : 'SI',
+    },
+  };
+}

@@ -1,0 +1,70 @@
+/**
+ * A design in engine units (SI base units; rotational speed in rev/min), as produced by the
+ * design-input schema in libs/contracts after validation and unit conversion.
+ */
+import type { FrictionSourceKind } from './friction';
+import type { EndCondition } from './mechanics';
+import type { ThreadForm } from './threads';
+
+export interface FrictionRange {
+  readonly min: number;
+  readonly max: number;
+  readonly source: { readonly kind: FrictionSourceKind; readonly reference: string };
+  /** Friction-library entry the range came from, when the design named one */
+  readonly entry?: string;
+}
+
+export type Collar =
+  | { readonly kind: 'plain'; readonly meanDiameter: number }
+  | {
+      readonly kind: 'annular';
+      readonly outerDiameter: number;
+      readonly innerDiameter: number;
+      readonly model: 'uniform-wear' | 'uniform-pressure';
+    }
+  | { readonly kind: 'rolling'; readonly meanDiameter: number }
+  | { readonly kind: 'none' };
+
+export type DutyKind = 'lifting' | 'positioning' | 'clamping';
+
+export interface Design {
+  readonly thread: {
+    readonly form: ThreadForm;
+    readonly size: string | null;
+    readonly majorDiameter: number;
+    readonly pitch: number;
+    readonly starts: number;
+    readonly loadFlankAngle: number | null;
+  };
+  readonly load: { readonly axial: number; readonly sense: 'compression' | 'tension' };
+  readonly friction: { readonly thread: FrictionRange; readonly collar: FrictionRange | null };
+  readonly collar: Collar;
+  readonly nut: {
+    readonly length: number;
+    readonly material: string | null;
+    readonly allowablePressure: number | null;
+    readonly allowablePv: number | null;
+    readonly yieldStrength: number | null;
+  };
+  readonly screw: {
+    readonly material: string | null;
+    readonly yieldStrength: number;
+    readonly elasticModulus: number;
+    readonly density: number;
+    readonly unsupportedLength: number;
+    readonly ends: EndCondition;
+    readonly endConditionBasis: 'recommended' | 'theoretical';
+  };
+  readonly duty: {
+    readonly kind: DutyKind;
+    /** Rotational speed [rev/min] when given */
+    readonly speed: number | null;
+    /** Linear speed [m/s] when given */
+    readonly linearSpeed: number | null;
+    readonly brake: boolean;
+    readonly vibration: boolean;
+  };
+  readonly drive: { readonly availableTorque: number } | null;
+  /** The unit system the design was entered in; reports answer in the same one */
+  readonly unitSystem: 'SI' | 'US';
+}

@@ -1,0 +1,373 @@
+/**
+ * One design in, one complete evaluation out. Pure: no I/O, no clock, no randomness.
+ * Conventions follow the engine issue and docs/formulas.md; every value is traced to its formula.
+ */
+import type { Design } from './design';
+import * as m from './mechanics';
+import { DEG, threadGeometry, threadThicknessAtDepth } from './threads';
+
+export const ENGINE_VERSION = '1.0.0';
+
+/** A pair of values at the two ends of the friction range. */
+export interface AtFriction {
+  readonly atMinFriction: number;
+  readonly atMaxFriction: number;
+}
+
+/** How one result was obtained: formula id and the substituted inputs (SI). */
+export interface TraceEntry {
+  readonly formula: string;
+  readonly inputs: Readonly<Record<string, number>>;
+}
+
+/** Ratio of shear yield to tensile yield by the distortion-energy theory (Shigley 10th ed., Eq. (5-21)). */
+export const SHEAR_YIELD_RATIO = 0.577;
+
+export interface Evaluation {
+  readonly engineVersion: string;
+  readonly geometry: {
+    readonly form: string;
+    readonly size: string | null;
+    readonly standard: string;
+    readonly majorDiameter: number;
+    readonly pitch: number;
+    readonly starts: number;
+    readonly lead: number;
+    readonly meanDiameter: number;
+    readonly minorDiameter: number;
+    readonly threadHeight: number;
+    readonly crestClearance: number;
+    readonly nutMajorDiameter: number;
+    readonly flankAngle: number;
+    readonly leadAngle: number;
+    readonly normalFlankAngle: number;
+    readonly engagedThreads: number;
+    readonly rootThickness: number;
+    readonly nutRootThickness: number;
+  };
+  readonly torque: {
+    readonly raise: AtFriction;
+    readonly lower: AtFriction;
+    readonly collar: AtFriction;
+    readonly threadRaise: AtFriction;
+    readonly threadLower: AtFriction;
+    /** Raise torque with the sec(alpha) approximation, for comparison only */
+    readonly raiseSecAlpha: AtFriction;
+  };
+  readonly efficiency: AtFriction & { readonly thread: AtFriction };
+  readonly selfLocking: {
+    readonly locks: boolean;
+    readonly margin: number;
+    /** Thread friction at which the screw just holds: cos(alpha_n) tan(lambda) */
+    readonly boundaryFriction: number;
+    /** Torque the load exerts on the screw at minimum thread friction when it does not lock [N*m], else null */
+    readonly backDrivingTorque: number | null;
+  };
+  readonly stresses: {
+    readonly body: {
+      readonly axial: number;
+      readonly torsion: number;
+      readonly vonMises: number;
+      readonly atMinFriction: { readonly torsion: number; readonly vonMises: number };
+    };
+    readonly firstThread: { readonly bearing: number; readonly rootBending: number; readonly rootShear: number; readonly vonMises: number };
+    readonly mean: { readonly bearing: number; readonly rootBending: number; readonly rootShear: number; readonly vonMises: number };
+    readonly stripping: { readonly screw: number; readonly nut: number };
+  };
+  readonly buckling: {
+    readonly applies: boolean;
+    readonly endConditionConstant: number;
+    readonly endConditionBasis: 'recommended' | 'theoretical';
+    readonly slenderness: number;
+    readonly transitionSlenderness: number;
+    readonly regime: 'euler' | 'johnson' | null;
+    readonly criticalLoad: number | null;
+    readonly safetyFactor: number | null;
+  };
+  readonly criticalSpeed: {
+    readonly rpm: number;
+    readonly frequencyFactor: number;
+    readonly operatingRpm: number | null;
+    readonly ratio: number | null;
+  };
+  readonly wear: {
+    readonly bearingPressure: number;
+    readonly slidingVelocity: number | null;
+    readonly pv: number | null;
+    readonly allowablePressure: number | null;
+    readonly allowablePv: number | null;
+    readonly pressureRatio: number | null;
+    readonly pvRatio: number | null;
+  };
+  readonly power: { readonly input: number | null; readonly linearSpeed: number | null; readonly rotationalSpeed: number | null };
+  readonly drive: { readonly availableTorque: number; readonly requiredTorque: number; readonly margin: number } | null;
+  /** Capacity over demand for each strength check (yield-based; shear against 0.577 S_y) */
+  readonly safetyFactors: {
+    readonly bodyVonMises: number;
+    readonly firstThreadRoot: number;
+    readonly strippingScrew: number;
+    readonly strippingNut: number | null;
+    readonly buckling: number | null;
+  };
+  /** Filled by the rules module; the engine itself judges nothing */
+  readonly findings: readonly unknown[];
+  /** Formula id and substituted inputs behind each result, keyed by result path */
+  readonly trace: Readonly<Record<string, TraceEntry>>;
+}
+
+/**
+ * Evaluates a validated design in engine units.
+ * Self-locking is judged at the minimum thread friction (thread alone, collar ignored: the safe side);
+ * drive sizing and body torsion use the maximum friction, collar included.
+ */
+export function evaluate(design: Design): Evaluation {
+  const { thread, load, friction, collar, nut, screw, duty } = design;
+  const g = threadGeometry(thread);
+  const F = load.axial;
+  const Fsigned = load.sense === 'compression' ? -F : F;
+  const { lead: l, meanDiameter: dm, minorDiameter: dr, threadHeight: h, pitch: p } = g;
+  const alpha = g.flankAngle * DEG;
+  const lambda = m.leadAngle(l, dm);
+  const alphaN = m.normalFlankAngle(alpha, lambda);
+  const nt = nut.length / p;
+  const trace: Record<string, TraceEntry> = {};
+  const t = (path: string, formula: string, inputs: Record<string, number>): void => {
+    trace[path] = { formula, inputs };
+  };
+
+  t('geometry.lead', 'lead', { n_s: thread.starts, p });
+  t('geometry.meanDiameter', g.meanDiameterFormula, { d: g.majorDiameter, p });
+  t('geometry.minorDiameter', g.minorDiameterFormula, { d: g.majorDiameter, p, a_c: g.crestClearance });
+  t('geometry.leadAngle', 'lead-angle', { l, d_m: dm });
+  t('geometry.normalFlankAngle', 'normal-flank-angle', { alpha: g.flankAngle, lambda: lambda / DEG });
+  t('geometry.engagedThreads', 'engaged-threads', { L_nut: nut.length, p });
+
+  // Torques at both ends of the friction range
+  const fMin = friction.thread.min;
+  const fMax = friction.thread.max;
+  const fc = friction.collar ?? { min: 0, max: 0 };
+  const collarTorque = (f: number): { value: number; formula: string; inputs: Record<string, number> } => {
+    switch (collar.kind) {
+      case 'plain':
+        return { value: m.collarTorqueMeanDiameter(F, f, collar.meanDiameter), formula: 'collar-torque-plain', inputs: { F, f_c: f, d_c: collar.meanDiameter } };
+      case 'rolling':
+        return { value: m.collarTorqueMeanDiameter(F, f, collar.meanDiameter), formula: 'collar-torque-rolling', inputs: { F, f_c: f, d_c: collar.meanDiameter } };
+      case 'annular': {
+        const inputs = { F, f_c: f, D_o: collar.outerDiameter, D_i: collar.innerDiameter };
+        return collar.model === 'uniform-wear'
+          ? { value: m.collarTorqueUniformWear(F, f, collar.outerDiameter, collar.innerDiameter), formula: 'collar-torque-uniform-wear', inputs }
+          : { value: m.collarTorqueUniformPressure(F, f, collar.outerDiameter, collar.innerDiameter), formula: 'collar-torque-uniform-pressure', inputs };
+      }
+      case 'none':
+        return { value: 0, formula: 'collar-torque-plain', inputs: { F, f_c: 0, d_c: 0 } };
+    }
+  };
+  const cMin = collarTorque(fc.min);
+  const cMax = collarTorque(fc.max);
+  const trMin = m.raiseTorque(F, dm, l, fMin, alphaN);
+  const trMax = m.raiseTorque(F, dm, l, fMax, alphaN);
+  const tlMin = m.lowerTorque(F, dm, l, fMin, alphaN);
+  const tlMax = m.lowerTorque(F, dm, l, fMax, alphaN);
+  const raise = { atMinFriction: trMin + cMin.value, atMaxFriction: trMax + cMax.value };
+  const lower = { atMinFriction: tlMin + cMin.value, atMaxFriction: tlMax + cMax.value };
+  const threadInputs = (f: number) => ({ F, d_m: dm, l, f, alpha_n: alphaN / DEG });
+  t('torque.threadRaise.atMinFriction', 'thread-raise-torque', threadInputs(fMin));
+  t('torque.threadRaise.atMaxFriction', 'thread-raise-torque', threadInputs(fMax));
+  t('torque.threadLower.atMinFriction', 'thread-lower-torque', threadInputs(fMin));
+  t('torque.threadLower.atMaxFriction', 'thread-lower-torque', threadInputs(fMax));
+  t('torque.collar.atMinFriction', cMin.formula, cMin.inputs);
+  t('torque.collar.atMaxFriction', cMax.formula, cMax.inputs);
+  t('torque.raise.atMinFriction', 'raise-torque-total', { T_thread: trMin, T_c: cMin.value });
+  t('torque.raise.atMaxFriction', 'raise-torque-total', { T_thread: trMax, T_c: cMax.value });
+  t('torque.lower.atMinFriction', 'lower-torque-total', { T_thread: tlMin, T_c: cMin.value });
+  t('torque.lower.atMaxFriction', 'lower-torque-total', { T_thread: tlMax, T_c: cMax.value });
+  const secInputs = (f: number) => ({ F, d_m: dm, l, f, alpha: g.flankAngle });
+  t('torque.raiseSecAlpha.atMinFriction', 'thread-raise-torque-sec-alpha', secInputs(fMin));
+  t('torque.raiseSecAlpha.atMaxFriction', 'thread-raise-torque-sec-alpha', secInputs(fMax));
+
+  const eff = { atMinFriction: m.efficiency(F, l, raise.atMinFriction), atMaxFriction: m.efficiency(F, l, raise.atMaxFriction) };
+  const effThread = { atMinFriction: m.efficiency(F, l, trMin), atMaxFriction: m.efficiency(F, l, trMax) };
+  t('efficiency.atMinFriction', 'efficiency', { F, l, T: raise.atMinFriction });
+  t('efficiency.atMaxFriction', 'efficiency', { F, l, T: raise.atMaxFriction });
+  t('efficiency.thread.atMinFriction', 'efficiency', { F, l, T: trMin });
+  t('efficiency.thread.atMaxFriction', 'efficiency', { F, l, T: trMax });
+
+  const margin = m.selfLockingMargin(fMin, lambda, alphaN);
+  const locks = margin > 1;
+  t('selfLocking.margin', 'self-locking-margin', { f_min: fMin, lambda: lambda / DEG, alpha_n: alphaN / DEG });
+  if (!locks) t('selfLocking.backDrivingTorque', 'back-driving-torque', threadInputs(fMin));
+
+  // Body stresses: torsion from the total raise torque at maximum friction (conservative)
+  const axial = m.bodyAxialStress(Fsigned, dr);
+  const torsion = m.bodyTorsionStress(raise.atMaxFriction, dr);
+  const torsionMin = m.bodyTorsionStress(raise.atMinFriction, dr);
+  const bodyVm = m.vonMisesAxialTorsion(axial, torsion);
+  t('stresses.body.axial', 'body-axial-stress', { F: Fsigned, d_r: dr });
+  t('stresses.body.torsion', 'body-torsion-stress', { T: raise.atMaxFriction, d_r: dr });
+  t('stresses.body.vonMises', 'von-mises-axial-torsion', { sigma: axial, tau: torsion });
+
+  // Thread stresses: cantilever arm from the pitch line to the root, root thickness on the straight flanks
+  const arm = (dm - dr) / 2;
+  const b = threadThicknessAtDepth(g, arm);
+  const bNut = threadThicknessAtDepth(g, (g.nutMajorDiameter - dm) / 2);
+  const threadStresses = (Ft: number) => {
+    const bending = m.threadRootBending(Ft, dr, arm, b);
+    return {
+      bearing: m.threadBearingStress(Ft, dm, h),
+      rootBending: bending,
+      rootShear: m.threadRootShear(Ft, dr, b),
+      vonMises: m.rootVonMises(bending, axial, torsion),
+    };
+  };
+  const Ffirst = 0.38 * F;
+  const Fmean = F / nt;
+  const first = threadStresses(Ffirst);
+  const mean = threadStresses(Fmean);
+  for (const [key, Ft] of [['firstThread', Ffirst], ['mean', Fmean]] as const) {
+    t(`stresses.${key}.bearing`, 'thread-bearing-stress', { F_t: Ft, d_m: dm, h });
+    t(`stresses.${key}.rootBending`, 'thread-root-bending', { F_t: Ft, d_r: dr, a: arm, b });
+    t(`stresses.${key}.rootShear`, 'thread-root-shear', { F_t: Ft, d_r: dr, b });
+    t(`stresses.${key}.vonMises`, 'thread-root-von-mises', {
+      sigma_b: key === 'firstThread' ? first.rootBending : mean.rootBending,
+      sigma: axial,
+      tau: torsion,
+    });
+  }
+  const stripScrew = m.strippingShear(F, dr, b, nt);
+  const stripNut = m.strippingShear(F, g.nutMajorDiameter, bNut, nt);
+  t('stresses.stripping.screw', 'thread-stripping-screw', { F, d_r: dr, b, n_t: nt });
+  t('stresses.stripping.nut', 'thread-stripping-nut', { F, D: g.nutMajorDiameter, b_n: bNut, n_t: nt });
+
+  // Column
+  const C = m.END_CONDITION_CONSTANT[screw.endConditionBasis][screw.ends];
+  const k = dr / 4;
+  const L = screw.unsupportedLength;
+  const slenderness = L / k;
+  const transition = m.transitionSlenderness(C, screw.elasticModulus, screw.yieldStrength);
+  const area = (Math.PI * dr * dr) / 4;
+  const compressed = load.sense === 'compression';
+  const regime = !compressed ? null : slenderness >= transition ? 'euler' : 'johnson';
+  const criticalLoad =
+    regime === 'euler'
+      ? m.eulerCriticalLoad(C, screw.elasticModulus, area, slenderness)
+      : regime === 'johnson'
+        ? m.johnsonCriticalLoad(C, screw.elasticModulus, screw.yieldStrength, area, slenderness)
+        : null;
+  const bucklingFactor = criticalLoad === null ? null : criticalLoad / F;
+  t('buckling.slenderness', 'slenderness', { l: L, k });
+  t('buckling.transitionSlenderness', 'transition-slenderness', { C, E: screw.elasticModulus, S_y: screw.yieldStrength });
+  if (regime) {
+    t('buckling.criticalLoad', regime === 'euler' ? 'euler-critical-load' : 'johnson-critical-load', {
+      C, E: screw.elasticModulus, S_y: screw.yieldStrength, A: area, 'l/k': slenderness,
+    });
+    t('buckling.safetyFactor', 'buckling-safety-factor', { P_cr: criticalLoad as number, F });
+  }
+
+  // Speeds, whirl, wear and power
+  const rpm = duty.speed ?? (duty.linearSpeed !== null ? (duty.linearSpeed / l) * 60 : null);
+  const n = rpm === null ? null : rpm / 60;
+  const betaL = m.WHIRL_FREQUENCY_FACTOR[screw.ends];
+  const nc = m.criticalSpeedRpm(betaL, dr, L, screw.elasticModulus, screw.density);
+  t('criticalSpeed.rpm', 'critical-speed', { beta_1L: betaL, d_r: dr, L, E: screw.elasticModulus, rho: screw.density });
+  if (rpm !== null) t('criticalSpeed.ratio', 'critical-speed-ratio', { n: rpm, n_c: nc });
+
+  const pressure = m.nutBearingPressure(F, dm, h, nt);
+  const vs = n === null ? null : m.slidingVelocity(dm, n, lambda);
+  const pv = vs === null ? null : pressure * vs;
+  t('wear.bearingPressure', 'nut-bearing-pressure', { F, d_m: dm, h, n_t: nt });
+  if (vs !== null) {
+    t('wear.slidingVelocity', 'sliding-velocity', { d_m: dm, n: n as number, lambda: lambda / DEG });
+    t('wear.pv', 'pv', { p: pressure, v_s: vs });
+  }
+  if (duty.linearSpeed !== null && duty.speed === null) t('power.rotationalSpeed', 'rotational-speed-from-linear', { v: duty.linearSpeed, l });
+  const inputPower = n === null ? null : raise.atMaxFriction * 2 * Math.PI * n;
+  const linearSpeed = n === null ? null : l * n;
+  if (n !== null) {
+    t('power.input', 'input-power', { T_R: raise.atMaxFriction, n });
+    t('power.linearSpeed', 'linear-speed', { l, n });
+  }
+  const drive = design.drive
+    ? { availableTorque: design.drive.availableTorque, requiredTorque: raise.atMaxFriction, margin: design.drive.availableTorque / raise.atMaxFriction }
+    : null;
+  if (drive) t('drive.margin', 'drive-margin', { T_av: drive.availableTorque, T_R: drive.requiredTorque });
+
+  const shearYield = SHEAR_YIELD_RATIO * screw.yieldStrength;
+  return {
+    engineVersion: ENGINE_VERSION,
+    geometry: {
+      form: g.form,
+      size: thread.size,
+      standard: g.standard,
+      majorDiameter: g.majorDiameter,
+      pitch: p,
+      starts: thread.starts,
+      lead: l,
+      meanDiameter: dm,
+      minorDiameter: dr,
+      threadHeight: h,
+      crestClearance: g.crestClearance,
+      nutMajorDiameter: g.nutMajorDiameter,
+      flankAngle: g.flankAngle,
+      leadAngle: lambda / DEG,
+      normalFlankAngle: alphaN / DEG,
+      engagedThreads: nt,
+      rootThickness: b,
+      nutRootThickness: bNut,
+    },
+    torque: {
+      raise,
+      lower,
+      collar: { atMinFriction: cMin.value, atMaxFriction: cMax.value },
+      threadRaise: { atMinFriction: trMin, atMaxFriction: trMax },
+      threadLower: { atMinFriction: tlMin, atMaxFriction: tlMax },
+      raiseSecAlpha: {
+        atMinFriction: m.raiseTorqueSecAlpha(F, dm, l, fMin, alpha),
+        atMaxFriction: m.raiseTorqueSecAlpha(F, dm, l, fMax, alpha),
+      },
+    },
+    efficiency: { ...eff, thread: effThread },
+    selfLocking: {
+      locks,
+      margin,
+      boundaryFriction: Math.cos(alphaN) * Math.tan(lambda),
+      backDrivingTorque: locks ? null : -tlMin,
+    },
+    stresses: {
+      body: { axial, torsion, vonMises: bodyVm, atMinFriction: { torsion: torsionMin, vonMises: m.vonMisesAxialTorsion(axial, torsionMin) } },
+      firstThread: first,
+      mean,
+      stripping: { screw: stripScrew, nut: stripNut },
+    },
+    buckling: {
+      applies: compressed,
+      endConditionConstant: C,
+      endConditionBasis: screw.endConditionBasis,
+      slenderness,
+      transitionSlenderness: transition,
+      regime,
+      criticalLoad,
+      safetyFactor: bucklingFactor,
+    },
+    criticalSpeed: { rpm: nc, frequencyFactor: betaL, operatingRpm: rpm, ratio: rpm === null ? null : rpm / nc },
+    wear: {
+      bearingPressure: pressure,
+      slidingVelocity: vs,
+      pv,
+      allowablePressure: nut.allowablePressure,
+      allowablePv: nut.allowablePv,
+      pressureRatio: nut.allowablePressure === null ? null : pressure / nut.allowablePressure,
+      pvRatio: pv === null || nut.allowablePv === null ? null : pv / nut.allowablePv,
+    },
+    power: { input: inputPower, linearSpeed, rotationalSpeed: rpm },
+    drive,
+    safetyFactors: {
+      bodyVonMises: screw.yieldStrength / bodyVm,
+      firstThreadRoot: screw.yieldStrength / first.vonMises,
+      strippingScrew: shearYield / stripScrew,
+      strippingNut: nut.yieldStrength === null ? null : (SHEAR_YIELD_RATIO * nut.yieldStrength) / stripNut,
+      buckling: bucklingFactor,
+    },
+    findings: [],
+    trace,
+  };
+}

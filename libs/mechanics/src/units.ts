@@ -1,0 +1,133 @@
+/**
+ * Unit strings at the engine's boundary: "<number> <unit>" -> SI base units.
+ *
+ * Conversion factors come from mathjs's unit system (exact definitions: 1 in = 0.0254 m,
+ * 1 lbf = 4.4482216152605 N, 1 lb = 0.45359237 kg, as NIST SP 811 Appendix B). Each distinct
+ * unit text is resolved once and cached, so a request costs a regex match and a map lookup.
+ */
+import { all, create, type Unit } from 'mathjs';
+
+const math = create(all, {});
+// mathjs has psi but no ksi, and no revolution-based speed units; define them from mathjs's own units.
+math.createUnit('ksi', '1000 psi');
+math.createUnit('Mpsi', '1000000 psi');
+math.createUnit('rev', '1 cycle');
+math.createUnit('rpm', '1 cycle/min');
+math.createUnit('rps', '1 cycle/s');
+
+/** Physical dimensions the design input uses. */
+export type Dimension =
+  | 'length'
+  | 'force'
+  | 'stress'
+  | 'torque'
+  | 'density'
+  | 'rotationalSpeed'
+  | 'linearSpeed'
+  | 'angle'
+  | 'pv';
+
+/** mathjs base-dimension exponents: [MASS, LENGTH, TIME, CURRENT, TEMPERATURE, LUMINOUS, AMOUNT, ANGLE, BIT]. */
+const DIMENSIONS: Record<Dimension, number[]> = {
+  length: [0, 1, 0, 0, 0, 0, 0, 0, 0],
+  force: [1, 1, -2, 0, 0, 0, 0, 0, 0],
+  stress: [1, -1, -2, 0, 0, 0, 0, 0, 0],
+  torque: [1, 2, -2, 0, 0, 0, 0, 0, 0],
+  density: [1, -3, 0, 0, 0, 0, 0, 0, 0],
+  rotationalSpeed: [0, 0, -1, 0, 0, 0, 0, 1, 0],
+  linearSpeed: [0, 1, -1, 0, 0, 0, 0, 0, 0],
+  angle: [0, 0, 0, 0, 0, 0, 0, 1, 0],
+  pv: [1, 0, -3, 0, 0, 0, 0, 0, 0],
+};
+
+/** What a dimension is called in error messages, with example units. */
+export const DIMENSION_HINT: Record<Dimension, string> = {
+  length: 'a length such as "24 mm" or "1.5 in"',
+  force: 'a force such as "12 kN" or "2700 lbf"',
+  stress: 'a stress such as "350 MPa" or "30 ksi"',
+  torque: 'a torque such as "40 N*m" or "300 lbf*in"',
+  density: 'a mass density such as "7850 kg/m^3" or "0.283 lb/in^3"',
+  rotationalSpeed: 'a rotational speed such as "120 rpm"',
+  linearSpeed: 'a linear speed such as "2 m/min" or "20 in/min"',
+  angle: 'an angle such as "7 deg"',
+  pv: 'a pressure-velocity product such as "2.5 MPa*m/s" or "75000 psi*ft/min"',
+};
+
+/**
+ * The SI value the engine works in for each dimension: m, N, Pa, N*m, kg/m^3, m/s, rad.
+ * Rotational speed is the one exception: rev/min, the unit the Evaluation reports speeds in.
+ */
+const RAD_PER_S_TO_RPM = 60 / (2 * Math.PI);
+
+/** Units that belong to the US customary system; anything else entered counts as SI. */
+const US_CUSTOMARY = /(^|[^a-z])(in|inch|ft|foot|lbf|lb|lbm|psi|ksi|Mpsi|kip|mil)([^a-z]|$)/;
+
+interface ResolvedUnit {
+  readonly dimension: Dimension | null;
+  readonly factor: number;
+  readonly usCustomary: boolean;
+}
+
+const resolved = new Map<string, ResolvedUnit | Error>();
+
+function resolveUnit(unitText: string): ResolvedUnit | Error {
+  const cached = resolved.get(unitText);
+  if (cached) return cached;
+  let result: ResolvedUnit | Error;
+  try {
+    const unit: Unit = math.unit(1, unitText);
+    const si = unit.toSI();
+    const dims = (unit as unknown as { dimensions: number[] }).dimensions;
+    const dimension =
+      (Object.keys(DIMENSIONS) as Dimension[]).find((d) => DIMENSIONS[d].every((e, i) => e === dims[i])) ?? null;
+    const siValue = si.toNumber();
+    const factor = dimension === 'rotationalSpeed' ? siValue * RAD_PER_S_TO_RPM : siValue;
+    result = { dimension, factor, usCustomary: US_CUSTOMARY.test(unitText) };
+  } catch {
+    result = new Error(`unknown unit "${unitText}"`);
+  }
+  // Bounded: an attacker sending endless distinct unit texts must not grow memory without end.
+  if (resolved.size < 2000) resolved.set(unitText, result);
+  return result;
+}
+
+const QUANTITY = /^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*([^\d\s.+-].*?)\s*$/;
+
+/** A parsed quantity in the engine's units, plus the unit system it was entered in. */
+export interface Quantity {
+  readonly si: number;
+  readonly usCustomary: boolean;
+}
+
+/** Thrown (as a value, not an exception) when a quantity string is not acceptable. */
+export class QuantityError {
+  constructor(readonly message: string) {}
+}
+
+/**
+ * Parses "<number> <unit>" and converts it to the engine's unit for the dimension.
+ * @returns the quantity, or a QuantityError saying what is wrong (unknown unit, wrong dimension, not a number).
+ */
+export function parseQuantity(text: string, dimension: Dimension): Quantity | QuantityError {
+  const match = QUANTITY.exec(text);
+  if (!match) {
+    return new QuantityError(`expected "<number> <unit>", ${DIMENSION_HINT[dimension]}; got "${text}"`);
+  }
+  const value = Number(match[1]);
+  if (!Number.isFinite(value)) return new QuantityError(`"${text}" is not a finite number`);
+  const unit = resolveUnit(match[2]);
+  if (unit instanceof Error) return new QuantityError(`${unit.message}; expected ${DIMENSION_HINT[dimension]}`);
+  if (unit.dimension !== dimension) {
+    return new QuantityError(`"${text}" is not ${DIMENSION_HINT[dimension]}`);
+  }
+  return { si: value * unit.factor, usCustomary: unit.usCustomary };
+}
+
+/** Converts an SI value (engine units) into the given unit text, for reports. */
+export function fromSi(si: number, unitText: string, dimension: Dimension): number {
+  const unit = resolveUnit(unitText);
+  if (unit instanceof Error || unit.dimension !== dimension) {
+    throw new Error(`cannot express ${dimension} in "${unitText}"`);
+  }
+  return si / unit.factor;
+}
