@@ -1,1 +1,2 @@
 export * from './design-input';
+export * from './records';
