@@ -9,6 +9,8 @@ import { all, create, type Unit } from 'mathjs';
 
 const math = create(all, {});
 // mathjs has psi but no ksi, and no revolution-based speed units; define them from mathjs's own units.
+// mathjs's psi is a rounded 6894.75729276459 Pa (off by 6e-11); NIST SP 811 defines it as lbf/in^2 exactly.
+math.createUnit('psi', '1 lbf/in^2', { override: true });
 math.createUnit('ksi', '1000 psi');
 math.createUnit('Mpsi', '1000000 psi');
 math.createUnit('rev', '1 cycle');
