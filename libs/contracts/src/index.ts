@@ -1,2 +1,3 @@
 export * from './design-input';
 export * from './records';
+export * from './api-schemas';

@@ -1,0 +1,37 @@
+/**
+ * Builds the Nest application on Fastify for a configuration. Used by main.ts, the end-to-end tests and the benchmark.
+ */
+import { NestFactory } from '@nestjs/core';
+import { FastifyAdapter, type NestFastifyApplication } from '@nestjs/platform-fastify';
+import type { DestinationStream } from 'pino';
+import { AppModule } from './app.module';
+import { loadConfig, type AppConfig } from './infra/config';
+import { ProblemFilter } from './infra/http/problem';
+import { createLogger, PinoNestLogger } from './infra/logging';
+import { mountOpenApi } from './infra/openapi';
+
+export interface CreateAppOptions {
+  /** Environment to validate (defaults to process.env in main.ts) */
+  env: Record<string, string | undefined>;
+  /** Where JSON logs go (a test captures them) */
+  logDestination?: DestinationStream;
+}
+
+export async function createApp(options: CreateAppOptions): Promise<{ app: NestFastifyApplication; config: AppConfig }> {
+  const config = loadConfig(options.env);
+  const logger = createLogger(config.LOG_LEVEL, options.logDestination);
+  const adapter = new FastifyAdapter({
+    loggerInstance: logger,
+    bodyLimit: config.LEADLINE_BODY_LIMIT,
+    disableRequestLogging: false,
+  });
+  const app = await NestFactory.create<NestFastifyApplication>(AppModule.forRoot(config), adapter, {
+    logger: new PinoNestLogger(logger),
+    bufferLogs: false,
+  });
+  app.useGlobalFilters(new ProblemFilter());
+  app.enableShutdownHooks();
+  mountOpenApi(app);
+  await app.init();
+  return { app, config };
+}

@@ -1,0 +1,35 @@
+import { Module, type DynamicModule } from '@nestjs/common';
+import { ConfigModule } from '@nestjs/config';
+import { CalculationsModule } from './calculations/calculations.module';
+import { EvaluationsModule } from './evaluations/evaluations.module';
+import { HealthModule } from './health/health.module';
+import { APP_CONFIG, type AppConfig } from './infra/config';
+import { DatabaseModule } from './infra/database/database.module';
+import { LibraryModule } from './library/library.module';
+import { ProductsModule } from './products/products.module';
+import { RecordsModule } from './records/records.module';
+import { RulesModule } from './rules/rules.module';
+
+@Module({})
+export class AppModule {
+  /** The whole service for one validated configuration. */
+  static forRoot(config: AppConfig): DynamicModule {
+    return {
+      module: AppModule,
+      global: true,
+      imports: [
+        ConfigModule.forRoot({ isGlobal: true, ignoreEnvFile: true, ignoreEnvVars: true, load: [() => config] }),
+        DatabaseModule.forRoot(config),
+        RecordsModule,
+        RulesModule,
+        EvaluationsModule,
+        ProductsModule,
+        CalculationsModule,
+        LibraryModule,
+        HealthModule,
+      ],
+      providers: [{ provide: APP_CONFIG, useValue: config }],
+      exports: [APP_CONFIG],
+    };
+  }
+}

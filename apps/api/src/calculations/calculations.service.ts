@@ -1,0 +1,170 @@
+/**
+ * Calculations (one screw position of a product) and their immutable revisions.
+ * A durable submission evaluates, judges, and appends the revision and its event to the product's chain
+ * in one transaction.
+ */
+import { Injectable } from '@nestjs/common';
+import { randomUUID } from 'node:crypto';
+import type { Actor, RevisionRecord } from '@leadline/contracts';
+import { z } from 'zod';
+import { Assessment, AssessmentService } from '../evaluations/assessment.service';
+import { Database, type Queryer } from '../infra/database/database.service';
+import { notFound, validate } from '../infra/http/problem';
+import { checkUuid } from '../products/products.service';
+import { TS_TEXT } from '../records/chain';
+import { checkKey, findIdempotent, requestHash, storeIdempotent, type StoredResponse } from '../records/idempotency';
+import { RecordStore, type RevisionRow } from '../records/record-store';
+import { RuleSetsService } from '../rules/rule-sets.service';
+
+export const openCalculationSchema = z.strictObject({
+  title: z.string().min(1).max(200),
+  design: z.unknown(),
+});
+
+export const addRevisionSchema = z.strictObject({
+  design: z.unknown(),
+  note: z.string().max(4000).optional(),
+});
+
+export interface Calculation {
+  id: string;
+  productId: string;
+  title: string;
+  createdAt: string;
+}
+
+const REVISION_COLUMNS = `r.id, r.product_id, r.calculation_id, r.revision, r.seq, r.note, r.input::text AS input, r.normalized, r.evaluation,
+  r.findings, r.verdict, r.engine_version, r.rule_set_version, r.author, ${TS_TEXT('r.created_at')} AS created_at, r.hash, r.previous_hash`;
+
+export function toRevisionRecord(r: RevisionRow): RevisionRecord {
+  return {
+    id: r.id,
+    productId: r.product_id,
+    calculationId: r.calculation_id,
+    revision: Number(r.revision),
+    note: r.note,
+    input: JSON.parse(r.input),
+    normalized: r.normalized as RevisionRecord['normalized'],
+    evaluation: r.evaluation as RevisionRecord['evaluation'],
+    findings: r.findings as RevisionRecord['findings'],
+    verdict: r.verdict as RevisionRecord['verdict'],
+    engineVersion: r.engine_version,
+    ruleSetVersion: r.rule_set_version,
+    author: (r.author as Actor | null) ?? null,
+    createdAt: r.created_at,
+    hash: r.hash,
+    previousHash: r.previous_hash,
+  };
+}
+
+@Injectable()
+export class CalculationsService {
+  constructor(
+    private readonly db: Database,
+    private readonly records: RecordStore,
+    private readonly assessor: AssessmentService,
+    private readonly ruleSets: RuleSetsService,
+  ) {}
+
+  /** Opens a calculation with revision 1. Validation happens before any database work, so bad input stores nothing. */
+  async open(productId: string, body: unknown, actor: Actor | null, idempotencyKey?: string): Promise<StoredResponse> {
+    checkUuid(productId, 'product');
+    const input = validate(openCalculationSchema, body);
+    const assessment = this.assessor.assess(input.design, this.ruleSets.current(), 'design.');
+    return this.idempotent(`open:${productId}:${actor?.id ?? '-'}`, idempotencyKey, body, async (q) => {
+      const cursor = await this.records.lockHead(q, productId);
+      if (!cursor) throw notFound(`product ${productId}`);
+      const calculationId = randomUUID();
+      await q.query(`INSERT INTO calculations (id, product_id, title, created_by, created_at) VALUES ($1, $2, $3, $4, $5::timestamptz)`, [
+        calculationId, productId, input.title, actor?.id ?? null, cursor.now,
+      ]);
+      await this.records.appendEvent(q, cursor, {
+        productId, type: 'calculation-opened', calculationId, revisionId: null, actor, data: { title: input.title },
+      });
+      const revision = await this.records.appendRevision(q, cursor, productId, calculationId, submission(assessment, input.design, null), actor);
+      await this.records.saveHead(q, productId, cursor);
+      return {
+        status: 201,
+        body: { calculationId, revisionId: revision.id, revision: revision.revision, verdict: assessment.verdict, hash: revision.hash },
+      };
+    });
+  }
+
+  /** Adds the next revision of a calculation. */
+  async addRevision(calculationId: string, body: unknown, actor: Actor | null, idempotencyKey?: string): Promise<StoredResponse> {
+    const calc = await this.get(calculationId);
+    const input = validate(addRevisionSchema, body);
+    const assessment = this.assessor.assess(input.design, this.ruleSets.current(), 'design.');
+    return this.idempotent(`revise:${calculationId}:${actor?.id ?? '-'}`, idempotencyKey, body, async (q) => {
+      const cursor = await this.records.lockHead(q, calc.productId);
+      if (!cursor) throw notFound(`product ${calc.productId}`);
+      const revision = await this.records.appendRevision(q, cursor, calc.productId, calculationId, submission(assessment, input.design, input.note ?? null), actor);
+      await this.records.saveHead(q, calc.productId, cursor);
+      return {
+        status: 201,
+        body: { calculationId, revisionId: revision.id, revision: revision.revision, verdict: assessment.verdict, hash: revision.hash },
+      };
+    });
+  }
+
+  private async idempotent(scope: string, rawKey: string | undefined, body: unknown, work: (q: Queryer) => Promise<StoredResponse>): Promise<StoredResponse> {
+    const key = checkKey(rawKey);
+    if (!key) return this.db.transaction(work);
+    const hash = requestHash(body);
+    try {
+      return await this.db.transaction(async (q) => {
+        const earlier = await findIdempotent(q, scope, key, hash);
+        if (earlier) return earlier;
+        const response = await work(q);
+        await storeIdempotent(q, scope, key, hash, response);
+        return response;
+      });
+    } catch (err) {
+      // A concurrent retry with the same key committed first: answer with its result.
+      const earlier = await this.db.transaction((q) => findIdempotent(q, scope, key, hash));
+      if (earlier) return earlier;
+      throw err;
+    }
+  }
+
+  async get(id: string): Promise<Calculation> {
+    const rows = await this.db.query<Calculation>(
+      `SELECT id, product_id AS "productId", title, ${TS_TEXT('created_at')} AS "createdAt" FROM calculations WHERE id = $1`,
+      [checkUuid(id, 'calculation')],
+    );
+    if (rows.length === 0) throw notFound(`calculation ${id}`);
+    return rows[0];
+  }
+
+  async listForProduct(productId: string): Promise<Calculation[]> {
+    return this.db.query<Calculation>(
+      `SELECT id, product_id AS "productId", title, ${TS_TEXT('created_at')} AS "createdAt" FROM calculations WHERE product_id = $1 ORDER BY created_at, id`,
+      [checkUuid(productId, 'product')],
+    );
+  }
+
+  async revisions(calculationId: string): Promise<RevisionRecord[]> {
+    await this.get(calculationId);
+    const rows = await this.db.query<RevisionRow>(`SELECT ${REVISION_COLUMNS} FROM revisions r WHERE r.calculation_id = $1 ORDER BY r.revision`, [calculationId]);
+    return rows.map(toRevisionRecord);
+  }
+
+  async revision(id: string): Promise<RevisionRecord> {
+    const rows = await this.db.query<RevisionRow>(`SELECT ${REVISION_COLUMNS} FROM revisions r WHERE r.id = $1`, [checkUuid(id, 'revision')]);
+    if (rows.length === 0) throw notFound(`revision ${id}`);
+    return toRevisionRecord(rows[0]);
+  }
+}
+
+function submission(a: Assessment, input: unknown, note: string | null) {
+  return {
+    input,
+    normalized: a.design,
+    evaluation: a.evaluation,
+    findings: a.findings,
+    verdict: a.verdict,
+    engineVersion: a.engineVersion,
+    ruleSetVersion: a.ruleSetVersion,
+    note,
+  };
+}

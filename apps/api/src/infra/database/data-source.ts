@@ -1,0 +1,42 @@
+/**
+ * Builds the TypeORM data source for either PostgreSQL (DATABASE_URL) or embedded PGlite (LEADLINE_DATA_DIR).
+ * The same migrations, triggers and constraints run on both.
+ */
+import { mkdirSync } from 'node:fs';
+import { resolve } from 'node:path';
+import { DataSource, type DataSourceOptions } from 'typeorm';
+import { PGliteDriver } from 'typeorm-pglite';
+import { MIGRATIONS } from '../../../../../migrations';
+import type { AppConfig } from '../config';
+
+export interface DataSourceChoice {
+  readonly dataSource: DataSource;
+  readonly embedded: boolean;
+}
+
+/**
+ * @param dataDir - folder for PGlite, or "memory://" for an in-memory database (tests)
+ */
+export function createDataSource(config: Pick<AppConfig, 'DATABASE_URL' | 'LEADLINE_DATA_DIR' | 'LEADLINE_DB_POOL'>): DataSourceChoice {
+  const common = {
+    type: 'postgres' as const,
+    synchronize: false,
+    migrationsRun: false,
+    migrations: MIGRATIONS,
+    migrationsTableName: 'schema_migrations',
+    logging: false,
+  };
+  if (config.DATABASE_URL) {
+    const options: DataSourceOptions = { ...common, url: config.DATABASE_URL, poolSize: config.LEADLINE_DB_POOL };
+    return { dataSource: new DataSource(options), embedded: false };
+  }
+  const dir = config.LEADLINE_DATA_DIR;
+  const dataDir = dir.startsWith('memory://') ? dir : resolve(dir);
+  if (!dir.startsWith('memory://')) mkdirSync(dataDir, { recursive: true });
+  const options: DataSourceOptions = {
+    ...common,
+    driver: new PGliteDriver({ dataDir }).driver,
+    installExtensions: false,
+  } as DataSourceOptions;
+  return { dataSource: new DataSource(options), embedded: true };
+}

@@ -1,0 +1,88 @@
+/**
+ * Errors as RFC 9457 problem details (application/problem+json), with the invalid field paths.
+ * Stack traces and SQL never leave the service.
+ */
+import { ArgumentsHost, Catch, ExceptionFilter, HttpException, HttpStatus, Logger } from '@nestjs/common';
+import type { FastifyReply, FastifyRequest } from 'fastify';
+import type { FieldIssue } from '@leadline/contracts';
+import type { ZodType } from 'zod';
+
+export interface Problem {
+  type: string;
+  title: string;
+  status: number;
+  detail?: string;
+  instance?: string;
+  errors?: readonly FieldIssue[];
+  [extra: string]: unknown;
+}
+
+/** Thrown by services and controllers; the filter renders it as problem+json. */
+export class ProblemError extends Error {
+  constructor(
+    readonly status: number,
+    readonly title: string,
+    readonly detail?: string,
+    readonly extra: Record<string, unknown> = {},
+  ) {
+    super(detail ?? title);
+  }
+}
+
+export class ValidationProblem extends ProblemError {
+  constructor(readonly errors: readonly FieldIssue[]) {
+    super(422, 'The request has invalid fields', errors.map((e) => `${e.path}: ${e.message}`).join('; '), { errors });
+  }
+}
+
+export const notFound = (what: string) => new ProblemError(404, 'Not found', `${what} does not exist`);
+
+const TYPE_BASE = 'https://leadline.invalid/problems/';
+
+/** Validates a request part with a zod schema; field paths are prefixed (e.g. "design."). */
+export function validate<T>(schema: ZodType<T>, value: unknown, prefix = ''): T {
+  const r = schema.safeParse(value);
+  if (r.success) return r.data;
+  throw new ValidationProblem(
+    r.error.issues.map((i) => ({ path: prefix + (i.path.map(String).join('.') || '(body)'), message: i.message })),
+  );
+}
+
+@Catch()
+export class ProblemFilter implements ExceptionFilter {
+  private readonly logger = new Logger('http');
+
+  catch(exception: unknown, host: ArgumentsHost): void {
+    const ctx = host.switchToHttp();
+    const reply = ctx.getResponse<FastifyReply>();
+    const request = ctx.getRequest<FastifyRequest>();
+    const problem = toProblem(exception);
+    problem.instance = request.url.split('?')[0];
+    if (problem.status >= 500) this.logger.error({ err: exception }, 'unhandled error');
+    reply.status(problem.status).header('content-type', 'application/problem+json').send(problem);
+  }
+}
+
+const slug = (title: string) => title.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '');
+
+export function toProblem(exception: unknown): Problem {
+  if (exception instanceof ProblemError) {
+    return { type: TYPE_BASE + slug(exception.title), title: exception.title, status: exception.status, detail: exception.detail, ...exception.extra };
+  }
+  const fastifyCode = (exception as { code?: string; statusCode?: number })?.code;
+  if (fastifyCode === 'FST_ERR_CTP_BODY_TOO_LARGE') {
+    return { type: TYPE_BASE + 'body-too-large', title: 'Request body too large', status: 413 };
+  }
+  if (exception instanceof HttpException) {
+    const status = exception.getStatus();
+    const body = exception.getResponse();
+    const detail = typeof body === 'string' ? body : ((body as { message?: string | string[] }).message ?? exception.message);
+    return { type: TYPE_BASE + slug(exception.name), title: HttpStatus[status]?.replace(/_/g, ' ').toLowerCase() ?? 'error', status, detail: Array.isArray(detail) ? detail.join('; ') : detail };
+  }
+  const statusCode = (exception as { statusCode?: number })?.statusCode;
+  if (statusCode && statusCode >= 400 && statusCode < 500) {
+    // fastify's own client errors: malformed JSON, unsupported media type, ...
+    return { type: TYPE_BASE + 'bad-request', title: 'Bad request', status: statusCode, detail: (exception as Error).message };
+  }
+  return { type: TYPE_BASE + 'internal', title: 'Internal error', status: 500, detail: 'the service could not complete the request' };
+}

@@ -1,0 +1,40 @@
+import { Body, Controller, Get, Param, Post, Query } from '@nestjs/common';
+import type { Actor } from '@leadline/contracts';
+import { CurrentActor } from '../infra/http/actor';
+import { validate } from '../infra/http/problem';
+import { RecordStore } from '../records/record-store';
+import { CalculationsService } from '../calculations/calculations.service';
+import { checkUuid, pageSchema, ProductsService } from './products.service';
+
+@Controller('api/v1/products')
+export class ProductsController {
+  constructor(
+    private readonly products: ProductsService,
+    private readonly calculations: CalculationsService,
+    private readonly records: RecordStore,
+  ) {}
+
+  @Post()
+  create(@Body() body: unknown, @CurrentActor() actor: Actor | null) {
+    return this.products.create(body, actor);
+  }
+
+  @Get()
+  list(@Query() query: unknown) {
+    const page = validate(pageSchema, query);
+    return this.products.list(page.limit, page.offset);
+  }
+
+  @Get(':id')
+  async get(@Param('id') id: string) {
+    const product = await this.products.get(id);
+    return { ...product, calculations: await this.calculations.listForProduct(id) };
+  }
+
+  /** Recomputes the product's hash chain and names the first broken link. */
+  @Get(':id/verify')
+  async verify(@Param('id') id: string) {
+    checkUuid(id, 'product');
+    return this.records.verify(id);
+  }
+}

@@ -1,0 +1,83 @@
+import { Injectable } from '@nestjs/common';
+import { randomUUID } from 'node:crypto';
+import type { Actor } from '@leadline/contracts';
+import { z } from 'zod';
+import { Database, PG_UNIQUE_VIOLATION, pgErrorCode } from '../infra/database/database.service';
+import { ProblemError, notFound, validate } from '../infra/http/problem';
+import { TS_TEXT } from '../records/chain';
+import { RecordStore } from '../records/record-store';
+
+export const createProductSchema = z.strictObject({
+  code: z.string().min(1).max(60).regex(/^[A-Za-z0-9][A-Za-z0-9._-]*$/, 'letters, digits, ".", "_" and "-" only'),
+  name: z.string().min(1).max(200),
+  description: z.string().max(4000).optional(),
+});
+
+export interface Product {
+  id: string;
+  code: string;
+  name: string;
+  description: string | null;
+  createdAt: string;
+}
+
+const PRODUCT_COLUMNS = `id, code, name, description, ${TS_TEXT('created_at')} AS "createdAt"`;
+
+@Injectable()
+export class ProductsService {
+  constructor(
+    private readonly db: Database,
+    private readonly records: RecordStore,
+  ) {}
+
+  async create(body: unknown, actor: Actor | null): Promise<Product> {
+    const input = validate(createProductSchema, body);
+    const id = randomUUID();
+    try {
+      await this.db.transaction(async (q) => {
+        await q.query(`INSERT INTO products (id, code, name, description, created_by) VALUES ($1, $2, $3, $4, $5)`, [
+          id, input.code, input.name, input.description ?? null, actor?.id ?? null,
+        ]);
+        await q.query(`INSERT INTO chain_heads (product_id, seq, hash) VALUES ($1, 0, '')`, [id]);
+        const cursor = await this.records.lockHead(q, id);
+        await this.records.appendEvent(q, cursor!, {
+          productId: id, type: 'product-registered', calculationId: null, revisionId: null, actor,
+          data: { code: input.code, name: input.name, description: input.description ?? null },
+        });
+        await this.records.saveHead(q, id, cursor!);
+      });
+    } catch (err) {
+      if (pgErrorCode(err) === PG_UNIQUE_VIOLATION) throw new ProblemError(409, 'Product code exists', `a product with code "${input.code}" already exists`);
+      throw err;
+    }
+    return this.get(id);
+  }
+
+  async get(id: string): Promise<Product> {
+    const rows = await this.db.query<Product>(`SELECT ${PRODUCT_COLUMNS} FROM products WHERE id = $1`, [checkUuid(id, 'product')]);
+    if (rows.length === 0) throw notFound(`product ${id}`);
+    return rows[0];
+  }
+
+  /** One page of products, oldest first. */
+  async list(limit: number, offset: number): Promise<{ items: Product[]; total: number; limit: number; offset: number }> {
+    const [items, total] = await Promise.all([
+      this.db.query<Product>(`SELECT ${PRODUCT_COLUMNS} FROM products ORDER BY created_at, code LIMIT $1 OFFSET $2`, [limit, offset]),
+      this.db.query<{ n: string }>(`SELECT count(*) AS n FROM products`),
+    ]);
+    return { items, total: Number(total[0].n), limit, offset };
+  }
+}
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+/** Route ids are UUIDs; anything else is simply not found (never a database error). */
+export function checkUuid(id: string, what: string): string {
+  if (!UUID.test(id)) throw notFound(`${what} ${id}`);
+  return id;
+}
+
+export const pageSchema = z.object({
+  limit: z.coerce.number().int().min(1).max(200).default(50),
+  offset: z.coerce.number().int().min(0).default(0),
+});

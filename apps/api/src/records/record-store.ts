@@ -1,0 +1,270 @@
+/**
+ * Appends records to a product's chain inside a transaction and reads them back.
+ * The chain head row is locked FOR UPDATE, so appends to one product are serialized and every link
+ * names the true previous hash; heads are found by primary key, never by scanning history.
+ */
+import { Injectable } from '@nestjs/common';
+import { randomUUID } from 'node:crypto';
+import type { Actor, EventType, Finding, Verdict } from '@leadline/contracts';
+import { Database, type Queryer } from '../infra/database/database.service';
+import { notFound } from '../infra/http/problem';
+import { linkHash, TS_TEXT, type EventLink, type RevisionLink } from './chain';
+
+export interface ChainCursor {
+  seq: number;
+  hash: string | null;
+  /** Transaction time (server clock), exact text */
+  now: string;
+}
+
+export interface RevisionSubmission {
+  input: unknown;
+  normalized: unknown;
+  evaluation: unknown;
+  findings: readonly Finding[];
+  verdict: Verdict;
+  engineVersion: string;
+  ruleSetVersion: string;
+  note: string | null;
+}
+
+export interface AppendedRevision {
+  id: string;
+  revision: number;
+  hash: string;
+  previousHash: string | null;
+  createdAt: string;
+}
+
+@Injectable()
+export class RecordStore {
+  constructor(readonly db: Database) {}
+
+  /** Locks the product's chain head for the rest of the transaction. */
+  async lockHead(q: Queryer, productId: string): Promise<ChainCursor | null> {
+    const rows = await q.query<{ seq: string; hash: string; now: string }>(
+      `SELECT seq, hash, ${TS_TEXT('now()')} AS now FROM chain_heads WHERE product_id = $1 FOR UPDATE`,
+      [productId],
+    );
+    if (rows.length === 0) return null;
+    return { seq: Number(rows[0].seq), hash: rows[0].hash === '' ? null : rows[0].hash, now: rows[0].now };
+  }
+
+  async saveHead(q: Queryer, productId: string, cursor: ChainCursor): Promise<void> {
+    await q.query(`UPDATE chain_heads SET seq = $2, hash = $3 WHERE product_id = $1`, [productId, cursor.seq, cursor.hash ?? '']);
+  }
+
+  /** Appends one event to the chain; advances the cursor. */
+  async appendEvent(
+    q: Queryer,
+    cursor: ChainCursor,
+    e: { productId: string; type: EventType; calculationId: string | null; revisionId: string | null; actor: Actor | null; data: Record<string, unknown> },
+  ): Promise<EventLink & { hash: string; previousHash: string | null }> {
+    const link: EventLink = {
+      kind: 'event',
+      id: randomUUID(),
+      productId: e.productId,
+      seq: cursor.seq + 1,
+      type: e.type,
+      calculationId: e.calculationId,
+      revisionId: e.revisionId,
+      actor: e.actor,
+      data: e.data,
+      createdAt: cursor.now,
+    };
+    const hash = linkHash(link as unknown as Record<string, unknown>, cursor.hash);
+    await q.query(
+      `INSERT INTO events (id, product_id, seq, type, calculation_id, revision_id, actor_id, actor, data, created_at, hash, previous_hash)
+       VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10::timestamptz, $11, $12)`,
+      [link.id, link.productId, link.seq, link.type, link.calculationId, link.revisionId, e.actor?.id ?? null,
+        e.actor ? JSON.stringify(e.actor) : null, JSON.stringify(link.data), link.createdAt, hash, cursor.hash],
+    );
+    const previousHash = cursor.hash;
+    cursor.seq = link.seq;
+    cursor.hash = hash;
+    return { ...link, hash, previousHash };
+  }
+
+  /** Appends the next revision of a calculation and its submission event. */
+  async appendRevision(
+    q: Queryer,
+    cursor: ChainCursor,
+    productId: string,
+    calculationId: string,
+    s: RevisionSubmission,
+    actor: Actor | null,
+  ): Promise<AppendedRevision> {
+    const [{ next }] = await q.query<{ next: number }>(
+      `SELECT coalesce(max(revision), 0) + 1 AS next FROM revisions WHERE calculation_id = $1`,
+      [calculationId],
+    );
+    const link: RevisionLink = {
+      kind: 'revision',
+      id: randomUUID(),
+      productId,
+      calculationId,
+      revision: Number(next),
+      seq: cursor.seq + 1,
+      note: s.note,
+      input: s.input,
+      normalized: s.normalized,
+      evaluation: s.evaluation,
+      findings: s.findings,
+      verdict: s.verdict,
+      engineVersion: s.engineVersion,
+      ruleSetVersion: s.ruleSetVersion,
+      author: actor,
+      createdAt: cursor.now,
+    };
+    const hash = linkHash(link as unknown as Record<string, unknown>, cursor.hash);
+    await q.query(
+      `INSERT INTO revisions (id, calculation_id, product_id, revision, seq, note, input, normalized, evaluation, findings, verdict,
+         engine_version, rule_set_version, author_id, author, created_at, hash, previous_hash)
+       VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13, $14, $15, $16::timestamptz, $17, $18)`,
+      [link.id, calculationId, productId, link.revision, link.seq, link.note, JSON.stringify(s.input), JSON.stringify(s.normalized),
+        JSON.stringify(s.evaluation), JSON.stringify(s.findings), s.verdict, s.engineVersion, s.ruleSetVersion, actor?.id ?? null,
+        actor ? JSON.stringify(actor) : null, link.createdAt, hash, cursor.hash],
+    );
+    const previousHash = cursor.hash;
+    cursor.seq = link.seq;
+    cursor.hash = hash;
+    await this.appendEvent(q, cursor, {
+      productId,
+      type: 'revision-submitted',
+      calculationId,
+      revisionId: link.id,
+      actor,
+      data: { revision: link.revision, revisionHash: hash, verdict: s.verdict, note: s.note },
+    });
+    return { id: link.id, revision: link.revision, hash, previousHash, createdAt: link.createdAt };
+  }
+
+  /**
+   * Recomputes a product's chain from its stored rows and names the first broken link.
+   * Checks: contiguous seq from 1, each previous_hash equals the prior link's hash, each hash matches
+   * its content, and the head points at the last link (a removed tail is caught too).
+   */
+  async verify(productId: string): Promise<ChainVerification> {
+    const head = await this.db.query<{ seq: string; hash: string }>(`SELECT seq, hash FROM chain_heads WHERE product_id = $1`, [productId]);
+    if (head.length === 0) throw notFound(`product ${productId}`);
+    const revisions = await this.db.query<RevisionRow>(
+      `SELECT id, product_id, calculation_id, revision, seq, note, input::text AS input, normalized, evaluation, findings, verdict,
+              engine_version, rule_set_version, author, ${TS_TEXT('created_at')} AS created_at, hash, previous_hash
+         FROM revisions WHERE product_id = $1`,
+      [productId],
+    );
+    const events = await this.db.query<EventRow>(
+      `SELECT id, product_id, seq, type, calculation_id, revision_id, actor, data, ${TS_TEXT('created_at')} AS created_at, hash, previous_hash
+         FROM events WHERE product_id = $1`,
+      [productId],
+    );
+    const links: { seq: number; kind: 'revision' | 'event'; id: string; body: Record<string, unknown>; hash: string; previousHash: string | null }[] = [
+      ...revisions.map((r) => ({ seq: Number(r.seq), kind: 'revision' as const, id: r.id, body: revisionLinkOf(r) as unknown as Record<string, unknown>, hash: r.hash, previousHash: r.previous_hash })),
+      ...events.map((e) => ({ seq: Number(e.seq), kind: 'event' as const, id: e.id, body: eventLinkOf(e) as unknown as Record<string, unknown>, hash: e.hash, previousHash: e.previous_hash })),
+    ].sort((a, b) => a.seq - b.seq);
+
+    let previous: string | null = null;
+    for (let i = 0; i < links.length; i++) {
+      const l = links[i];
+      const at = { seq: l.seq, kind: l.kind, id: l.id };
+      if (l.seq !== i + 1) return broken(productId, links.length, { ...at, reason: `sequence gap: expected link ${i + 1}, found ${l.seq}` });
+      if (l.previousHash !== previous) return broken(productId, links.length, { ...at, reason: 'previous hash does not match the prior link' });
+      if (linkHash(l.body, previous) !== l.hash) return broken(productId, links.length, { ...at, reason: 'content does not match its hash' });
+      previous = l.hash;
+    }
+    if (Number(head[0].seq) !== links.length || (head[0].hash || null) !== previous) {
+      const last = links[links.length - 1];
+      return broken(productId, links.length, { seq: last?.seq ?? 0, kind: last?.kind ?? 'event', id: last?.id ?? '', reason: 'the chain head does not point at the last link (records missing)' });
+    }
+    return { productId, valid: true, links: links.length, headHash: previous, firstBrokenLink: null };
+  }
+}
+
+export interface BrokenLink {
+  seq: number;
+  kind: 'revision' | 'event';
+  id: string;
+  reason: string;
+}
+
+export interface ChainVerification {
+  productId: string;
+  valid: boolean;
+  links: number;
+  headHash: string | null;
+  firstBrokenLink: BrokenLink | null;
+}
+
+function broken(productId: string, links: number, at: BrokenLink): ChainVerification {
+  return { productId, valid: false, links, headHash: null, firstBrokenLink: at };
+}
+
+export interface RevisionRow {
+  id: string;
+  product_id: string;
+  calculation_id: string;
+  revision: number;
+  seq: string;
+  note: string | null;
+  input: string;
+  normalized: unknown;
+  evaluation: unknown;
+  findings: unknown;
+  verdict: string;
+  engine_version: string;
+  rule_set_version: string;
+  author: unknown;
+  created_at: string;
+  hash: string;
+  previous_hash: string | null;
+}
+
+export interface EventRow {
+  id: string;
+  product_id: string;
+  seq: string;
+  type: string;
+  calculation_id: string | null;
+  revision_id: string | null;
+  actor: unknown;
+  data: unknown;
+  created_at: string;
+  hash: string;
+  previous_hash: string | null;
+}
+
+export function revisionLinkOf(r: RevisionRow): RevisionLink {
+  return {
+    kind: 'revision',
+    id: r.id,
+    productId: r.product_id,
+    calculationId: r.calculation_id,
+    revision: Number(r.revision),
+    seq: Number(r.seq),
+    note: r.note,
+    input: typeof r.input === 'string' ? JSON.parse(r.input) : r.input,
+    normalized: r.normalized,
+    evaluation: r.evaluation,
+    findings: r.findings,
+    verdict: r.verdict,
+    engineVersion: r.engine_version,
+    ruleSetVersion: r.rule_set_version,
+    author: r.author ?? null,
+    createdAt: r.created_at,
+  };
+}
+
+export function eventLinkOf(e: EventRow): EventLink {
+  return {
+    kind: 'event',
+    id: e.id,
+    productId: e.product_id,
+    seq: Number(e.seq),
+    type: e.type,
+    calculationId: e.calculation_id,
+    revisionId: e.revision_id,
+    actor: e.actor ?? null,
+    data: e.data,
+    createdAt: e.created_at,
+  };
+}

@@ -1,0 +1,85 @@
+/**
+ * zod schemas of the API's responses. The OpenAPI document at /api/docs is generated from these and from the
+ * request schemas; clients can rely on the field names (add, never rename).
+ */
+import { z } from 'zod';
+
+const num = z.number();
+const nnum = z.number().nullable();
+const atFriction = z.object({ atMinFriction: num, atMaxFriction: num });
+
+export const findingSchema = z.object({
+  ruleId: z.string(),
+  severity: z.enum(['blocking', 'warning', 'info']),
+  measured: z.union([z.number(), z.boolean(), z.string()]).nullable(),
+  limit: z.union([z.number(), z.boolean(), z.string()]).nullable(),
+  unit: z.string().nullable(),
+  message: z.string(),
+  basis: z.string(),
+  subject: z.string().nullable(),
+});
+
+export const evaluationSchema = z.object({
+  engineVersion: z.string(),
+  geometry: z.object({
+    form: z.string(), size: z.string().nullable(), standard: z.string(), majorDiameter: num, pitch: num, starts: num, lead: num,
+    meanDiameter: num, minorDiameter: num, threadHeight: num, crestClearance: num, nutMajorDiameter: num, flankAngle: num,
+    leadAngle: num.describe('degrees'), normalFlankAngle: num.describe('degrees'), engagedThreads: num, rootThickness: num, nutRootThickness: num,
+  }),
+  torque: z.object({ raise: atFriction, lower: atFriction, collar: atFriction, threadRaise: atFriction, threadLower: atFriction, raiseSecAlpha: atFriction }),
+  efficiency: atFriction.extend({ thread: atFriction }),
+  selfLocking: z.object({ locks: z.boolean(), margin: num, boundaryFriction: num, backDrivingTorque: nnum }),
+  stresses: z.object({
+    body: z.object({ axial: num, torsion: num, vonMises: num, atMinFriction: z.object({ torsion: num, vonMises: num }) }),
+    firstThread: z.object({ bearing: num, rootBending: num, rootShear: num, vonMises: num }),
+    mean: z.object({ bearing: num, rootBending: num, rootShear: num, vonMises: num }),
+    stripping: z.object({ screw: num, nut: num }),
+  }),
+  buckling: z.object({
+    applies: z.boolean(), endConditionConstant: num, endConditionBasis: z.enum(['recommended', 'theoretical']), slenderness: num,
+    transitionSlenderness: num, regime: z.enum(['euler', 'johnson']).nullable(), criticalLoad: nnum, safetyFactor: nnum,
+  }),
+  criticalSpeed: z.object({ rpm: num, frequencyFactor: num, operatingRpm: nnum, ratio: nnum }),
+  wear: z.object({ bearingPressure: num, slidingVelocity: nnum, pv: nnum, allowablePressure: nnum, allowablePv: nnum, pressureRatio: nnum, pvRatio: nnum }),
+  power: z.object({ input: nnum, linearSpeed: nnum, rotationalSpeed: nnum }),
+  drive: z.object({ availableTorque: num, requiredTorque: num, margin: num }).nullable(),
+  safetyFactors: z.object({ bodyVonMises: num, firstThreadRoot: num, strippingScrew: num, strippingNut: nnum, buckling: nnum }),
+  findings: z.array(findingSchema),
+  trace: z.record(z.string(), z.object({ formula: z.string(), inputs: z.record(z.string(), num) })),
+});
+
+export const evaluationResponseSchema = evaluationSchema.extend({
+  verdict: z.enum(['blocked', 'needs-acknowledgement', 'clear']),
+  ruleSetVersion: z.string(),
+});
+
+export const actorSchema = z.object({ id: z.string(), name: z.string() });
+
+export const productSchema = z.object({
+  id: z.string().uuid(), code: z.string(), name: z.string(), description: z.string().nullable(), createdAt: z.string(),
+});
+
+export const calculationSchema = z.object({ id: z.string().uuid(), productId: z.string().uuid(), title: z.string(), createdAt: z.string() });
+
+export const submissionResultSchema = z.object({
+  calculationId: z.string().uuid(), revisionId: z.string().uuid(), revision: z.number().int(),
+  verdict: z.enum(['blocked', 'needs-acknowledgement', 'clear']), hash: z.string(),
+});
+
+export const revisionRecordSchema = z.object({
+  id: z.string().uuid(), productId: z.string().uuid(), calculationId: z.string().uuid(), revision: z.number().int(), note: z.string().nullable(),
+  input: z.unknown().describe('the design input exactly as submitted'), normalized: z.unknown().describe('the design in SI units'),
+  evaluation: evaluationSchema, findings: z.array(findingSchema), verdict: z.enum(['blocked', 'needs-acknowledgement', 'clear']),
+  engineVersion: z.string(), ruleSetVersion: z.string(), author: actorSchema.nullable(), createdAt: z.string(), hash: z.string(),
+  previousHash: z.string().nullable(),
+});
+
+export const chainVerificationSchema = z.object({
+  productId: z.string().uuid(), valid: z.boolean(), links: z.number().int(), headHash: z.string().nullable(),
+  firstBrokenLink: z.object({ seq: z.number(), kind: z.enum(['revision', 'event']), id: z.string(), reason: z.string() }).nullable(),
+});
+
+export const problemSchema = z.object({
+  type: z.string(), title: z.string(), status: z.number().int(), detail: z.string().optional(), instance: z.string().optional(),
+  errors: z.array(z.object({ path: z.string(), message: z.string() })).optional(),
+});
