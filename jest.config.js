@@ -11,7 +11,9 @@ module.exports = {
   testEnvironment: 'node',
   roots: ['<rootDir>/libs', '<rootDir>/apps', '<rootDir>/test'],
   testMatch: ['**/*.spec.ts', '**/*.e2e-spec.ts'],
-  transform: { '^.+\\.ts$': ['@swc/jest', swc] },
+  // content-disposition (under @fastify/static) ships ESM only; Node 20 requires it natively, Jest needs it compiled.
+  transform: { '^.+\\.ts$': ['@swc/jest', swc], '^.+/node_modules/content-disposition/.+\\.js$': ['@swc/jest', swc] },
+  transformIgnorePatterns: ['/node_modules/(?!content-disposition/)'],
   moduleNameMapper: { '^@leadline/(.*)$': '<rootDir>/libs/$1/src' },
   testTimeout: 60000,
 };

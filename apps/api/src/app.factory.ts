@@ -23,7 +23,6 @@ export async function createApp(options: CreateAppOptions): Promise<{ app: NestF
   const adapter = new FastifyAdapter({
     loggerInstance: logger,
     bodyLimit: config.LEADLINE_BODY_LIMIT,
-    disableRequestLogging: false,
   });
   const app = await NestFactory.create<NestFastifyApplication>(AppModule.forRoot(config), adapter, {
     logger: new PinoNestLogger(logger),

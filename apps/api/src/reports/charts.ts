@@ -1,0 +1,377 @@
+/**
+ * Report charts, drawn on the server as SVG: vega-lite spec -> vega view (renderer 'none') -> toSVG().
+ * The series are recomputed with the engine's own mechanics functions, so a chart can never disagree with
+ * the tabulated results. Only the loaded vega modules are cached; nothing that depends on a revision is.
+ */
+import type { RevisionRecord } from '@leadline/contracts';
+import {
+  END_CONDITION_CONSTANT,
+  collarTorqueMeanDiameter,
+  collarTorqueUniformPressure,
+  collarTorqueUniformWear,
+  eulerCriticalLoad,
+  johnsonCriticalLoad,
+  lowerTorque,
+  raiseTorque,
+  type Design,
+  type Evaluation,
+} from '@leadline/mechanics';
+import { coefficient, sig, toDisplay, unitSymbol, type UnitSystem } from './format';
+import type { ReportView, SafetyFactorRow } from './report-model';
+
+// ---------------------------------------------------------------------------------------------------------
+// Loading vega from CommonJS
+
+type VegaModule = typeof import('vega');
+type VegaLiteModule = typeof import('vega-lite');
+
+/**
+ * vega and vega-lite are ESM with top-level await, so require() cannot load them. With "module": "commonjs"
+ * tsc rewrites a literal import() into require(); an import() built by the Function constructor is left alone
+ * and works both in compiled output and under Jest (--experimental-vm-modules).
+ */
+const nativeImport = new Function('specifier', 'return import(specifier)') as <T>(specifier: string) => Promise<T>;
+
+let modules: Promise<{ vega: VegaModule; vl: VegaLiteModule }> | null = null;
+function loadVega(): Promise<{ vega: VegaModule; vl: VegaLiteModule }> {
+  modules ??= Promise.all([nativeImport<VegaModule>('vega'), nativeImport<VegaLiteModule>('vega-lite')]).then(([vega, vl]) => ({ vega, vl }));
+  modules.catch(() => (modules = null));
+  return modules;
+}
+
+// ---------------------------------------------------------------------------------------------------------
+// Series (SI), pure
+
+export interface TorqueSweepPoint {
+  /** Thread friction coefficient */
+  readonly f: number;
+  /** Collar friction used with it */
+  readonly fc: number;
+  readonly raise: number;
+  readonly lower: number;
+  readonly lowerThread: number;
+}
+
+export interface TorqueSweep {
+  readonly points: readonly TorqueSweepPoint[];
+  readonly range: { readonly min: number; readonly max: number };
+  readonly boundaryFriction: number;
+}
+
+/**
+ * Collar friction that goes with a thread friction f in the sweep: linear between the two ends of the
+ * design's ranges (f_min -> f_c,min, f_max -> f_c,max), extended beyond them and never negative. With a
+ * single-valued thread range, f_c scales in proportion to f. Either way the sweep passes through the
+ * evaluation's own torques at minimum and maximum friction.
+ */
+export function collarFrictionFor(f: number, design: Design): number {
+  const t = design.friction.thread;
+  const c = design.friction.collar;
+  if (!c) return 0;
+  if (t.max - t.min > 1e-12) return Math.max(0, c.min + ((f - t.min) * (c.max - c.min)) / (t.max - t.min));
+  return t.max > 0 ? (f * c.max) / t.max : c.max;
+}
+
+function collarTorque(design: Design, F: number, fc: number): number {
+  const collar = design.collar;
+  switch (collar.kind) {
+    case 'plain':
+    case 'rolling':
+      return collarTorqueMeanDiameter(F, fc, collar.meanDiameter);
+    case 'annular':
+      return collar.model === 'uniform-wear'
+        ? collarTorqueUniformWear(F, fc, collar.outerDiameter, collar.innerDiameter)
+        : collarTorqueUniformPressure(F, fc, collar.outerDiameter, collar.innerDiameter);
+    case 'none':
+      return 0;
+  }
+}
+
+/** Raise and lowering torque against thread friction from 0 to 1.5 × the maximum of the design's range. */
+export function torqueFrictionSweep(design: Design, evaluation: Evaluation, steps = 60): TorqueSweep {
+  const F = design.load.axial;
+  const { meanDiameter: dm, lead: l } = evaluation.geometry;
+  const alphaN = (evaluation.geometry.normalFlankAngle * Math.PI) / 180;
+  const fEnd = 1.5 * Math.max(design.friction.thread.max, evaluation.selfLocking.boundaryFriction, 0.01);
+  const fs = new Set<number>();
+  for (let i = 0; i <= steps; i++) fs.add((fEnd * i) / steps);
+  fs.add(design.friction.thread.min);
+  fs.add(design.friction.thread.max);
+  const points = [...fs]
+    .sort((a, b) => a - b)
+    .map((f) => {
+      const fc = collarFrictionFor(f, design);
+      const tc = collarTorque(design, F, fc);
+      const lowerThread = lowerTorque(F, dm, l, f, alphaN);
+      return { f, fc, raise: raiseTorque(F, dm, l, f, alphaN) + tc, lower: lowerThread + tc, lowerThread };
+    });
+  return { points, range: { min: design.friction.thread.min, max: design.friction.thread.max }, boundaryFriction: evaluation.selfLocking.boundaryFriction };
+}
+
+export interface ColumnCurve {
+  /** Critical stress P_cr / A [Pa] against slenderness l/k */
+  readonly johnson: readonly { readonly s: number; readonly stress: number }[];
+  readonly euler: readonly { readonly s: number; readonly stress: number }[];
+  /** Euler continued below the transition (where it does not govern) */
+  readonly eulerBelow: readonly { readonly s: number; readonly stress: number }[];
+  readonly transition: number;
+  readonly yieldStrength: number;
+  readonly design: { readonly s: number; readonly stress: number };
+  readonly critical: { readonly s: number; readonly stress: number };
+}
+
+/** Johnson and Euler branches of the column curve, with the design point; null when buckling does not apply. */
+export function columnCurve(design: Design, evaluation: Evaluation, steps = 60): ColumnCurve | null {
+  const b = evaluation.buckling;
+  if (!b.applies || b.criticalLoad === null) return null;
+  const C = END_CONDITION_CONSTANT[design.screw.endConditionBasis][design.screw.ends] ?? b.endConditionConstant;
+  const { elasticModulus: E, yieldStrength: Sy } = design.screw;
+  const dr = evaluation.geometry.minorDiameter;
+  const A = (Math.PI * dr * dr) / 4;
+  const transition = b.transitionSlenderness;
+  const sEnd = Math.max(1.4 * b.slenderness, 1.6 * transition);
+  const johnson = [];
+  for (let i = 0; i <= steps / 2; i++) {
+    const s = (transition * i) / (steps / 2);
+    johnson.push({ s, stress: johnsonCriticalLoad(C, E, Sy, A, s) / A });
+  }
+  const euler = [];
+  for (let i = 0; i <= steps; i++) {
+    const s = transition + ((sEnd - transition) * i) / steps;
+    euler.push({ s, stress: eulerCriticalLoad(C, E, A, s) / A });
+  }
+  // Euler's hyperbola below the transition, drawn only up to 1.5 S_y so the plot keeps its scale.
+  const sStart = Math.sqrt((C * Math.PI ** 2 * E) / (1.5 * Sy));
+  const eulerBelow = [];
+  for (let i = 0; i <= steps / 3; i++) {
+    const s = sStart + ((transition - sStart) * i) / (steps / 3);
+    eulerBelow.push({ s, stress: eulerCriticalLoad(C, E, A, s) / A });
+  }
+  return {
+    johnson,
+    euler,
+    eulerBelow,
+    transition,
+    yieldStrength: Sy,
+    design: { s: b.slenderness, stress: design.load.axial / A },
+    critical: { s: b.slenderness, stress: b.criticalLoad / A },
+  };
+}
+
+// ---------------------------------------------------------------------------------------------------------
+// Specs
+
+const FONT = 'DejaVu Sans, Liberation Sans, sans-serif';
+const WIDTH = 560;
+const INK = '#1d2733';
+const COLORS = { raise: '#1f5fa8', lower: '#b3471d', thread: '#7a5b9a', band: '#9fb8d6', rule: '#2f6b3a', bad: '#b3261e', ok: '#2f6b3a', none: '#8a8f96' };
+
+const baseConfig = {
+  font: FONT,
+  background: '#ffffff',
+  view: { stroke: '#c4c9cf' },
+  axis: { labelFontSize: 10, titleFontSize: 10.5, titleFontWeight: 'normal', labelColor: INK, titleColor: INK, gridColor: '#e6e9ec', domainColor: '#69727d', tickColor: '#69727d' },
+  legend: { labelFontSize: 10, titleFontSize: 10, orient: 'bottom', direction: 'horizontal', symbolStrokeWidth: 2 },
+  text: { font: FONT },
+};
+
+type Spec = Record<string, unknown>;
+
+export function torqueFrictionSpec(sweep: TorqueSweep, system: UnitSystem): Spec {
+  const t = (si: number) => toDisplay(si, 'torque', system);
+  const unit = unitSymbol('torque', system);
+  const SERIES = ['Raise, thread + collar', 'Lower, thread + collar', 'Lower, thread alone'];
+  const values = sweep.points.flatMap((p) => [
+    { f: p.f, series: SERIES[0], torque: t(p.raise) },
+    { f: p.f, series: SERIES[1], torque: t(p.lower) },
+    { f: p.f, series: SERIES[2], torque: t(p.lowerThread) },
+  ]);
+  const ends = sweep.points.filter((p) => p.f === sweep.range.min || p.f === sweep.range.max);
+  const marks = ends.flatMap((p) => [
+    { f: p.f, torque: t(p.raise), label: sig(t(p.raise)) },
+    { f: p.f, torque: t(p.lower), label: sig(t(p.lower)) },
+  ]);
+  const x = { field: 'f', type: 'quantitative', title: 'Thread friction coefficient f', scale: { domain: [0, sweep.points[sweep.points.length - 1].f], nice: false } };
+  return {
+    width: WIDTH,
+    height: 250,
+    config: baseConfig,
+    layer: [
+      {
+        data: { values: [{ a: sweep.range.min, b: sweep.range.max }] },
+        mark: { type: 'rect', color: COLORS.band, opacity: 0.35 },
+        encoding: { x: { field: 'a', type: 'quantitative', scale: x.scale }, x2: { field: 'b' } },
+      },
+      {
+        data: { values: [{ a: (sweep.range.min + sweep.range.max) / 2, label: `design range ${coefficient(sweep.range.min)}–${coefficient(sweep.range.max)}` }] },
+        mark: { type: 'text', baseline: 'top', dy: 4, y: 0, fontSize: 9.5, color: '#3d5a80' },
+        encoding: { x: { field: 'a', type: 'quantitative' }, text: { field: 'label' } },
+      },
+      {
+        data: { values: [{ y: 0 }] },
+        mark: { type: 'rule', color: '#69727d', strokeWidth: 1 },
+        encoding: { y: { field: 'y', type: 'quantitative' } },
+      },
+      {
+        data: { values },
+        mark: { type: 'line', strokeWidth: 2, clip: true },
+        encoding: {
+          x,
+          y: { field: 'torque', type: 'quantitative', title: `Torque [${unit}]` },
+          color: { field: 'series', type: 'nominal', title: null, scale: { domain: SERIES, range: [COLORS.raise, COLORS.lower, COLORS.thread] } },
+          strokeDash: { field: 'series', type: 'nominal', title: null, scale: { domain: SERIES, range: [[1, 0], [1, 0], [5, 3]] } },
+        },
+      },
+      {
+        data: { values: marks },
+        mark: { type: 'point', filled: true, size: 36, color: INK },
+        encoding: { x: { field: 'f', type: 'quantitative' }, y: { field: 'torque', type: 'quantitative' } },
+      },
+      {
+        data: { values: [{ f: sweep.boundaryFriction, label: `self-locking boundary f = cos α_n tan λ = ${sig(sweep.boundaryFriction)}` }] },
+        layer: [
+          { mark: { type: 'rule', color: COLORS.rule, strokeWidth: 1.5, strokeDash: [6, 3] }, encoding: { x: { field: 'f', type: 'quantitative' } } },
+          {
+            mark: { type: 'text', align: 'left', baseline: 'bottom', dx: 4, y: 'height', dy: -4, fontSize: 9.5, color: COLORS.rule },
+            encoding: { x: { field: 'f', type: 'quantitative' }, text: { field: 'label' } },
+          },
+        ],
+      },
+    ],
+    resolve: { scale: { color: 'independent', strokeDash: 'independent' } },
+  };
+}
+
+export function columnSpec(curve: ColumnCurve, system: UnitSystem): Spec {
+  const s = (si: number) => toDisplay(si, 'stress', system);
+  const unit = unitSymbol('stress', system);
+  const SERIES = ['Johnson parabola', 'Euler hyperbola', 'Euler, not governing'];
+  const values = [
+    ...curve.johnson.map((p) => ({ s: p.s, stress: s(p.stress), series: SERIES[0] })),
+    ...curve.euler.map((p) => ({ s: p.s, stress: s(p.stress), series: SERIES[1] })),
+    ...curve.eulerBelow.map((p) => ({ s: p.s, stress: s(p.stress), series: SERIES[2] })),
+  ];
+  const points = [
+    { s: curve.design.s, stress: s(curve.design.stress), label: `design F/A = ${sig(s(curve.design.stress))} ${unit}` },
+    { s: curve.critical.s, stress: s(curve.critical.stress), label: `critical P_cr/A = ${sig(s(curve.critical.stress))} ${unit}` },
+  ];
+  const xDomain = [0, curve.euler[curve.euler.length - 1].s];
+  return {
+    width: WIDTH,
+    height: 240,
+    config: baseConfig,
+    layer: [
+      {
+        data: { values },
+        mark: { type: 'line', strokeWidth: 2, clip: true },
+        encoding: {
+          x: { field: 's', type: 'quantitative', title: 'Slenderness ratio l/k', scale: { domain: xDomain, nice: false } },
+          y: { field: 'stress', type: 'quantitative', title: `Critical stress P_cr/A [${unit}]`, scale: { domain: [0, s(curve.yieldStrength) * 1.1], nice: false } },
+          color: { field: 'series', type: 'nominal', title: null, scale: { domain: SERIES, range: [COLORS.raise, COLORS.lower, '#b7a79e'] } },
+          strokeDash: { field: 'series', type: 'nominal', title: null, scale: { domain: SERIES, range: [[1, 0], [1, 0], [4, 3]] } },
+        },
+      },
+      {
+        data: { values: [{ s: curve.transition, label: `(l/k)₁ = ${sig(curve.transition)}` }] },
+        layer: [
+          { mark: { type: 'rule', color: '#69727d', strokeDash: [3, 3] }, encoding: { x: { field: 's', type: 'quantitative' } } },
+          { mark: { type: 'text', align: 'left', dx: 4, y: 10, fontSize: 9.5, color: '#4a525c' }, encoding: { x: { field: 's', type: 'quantitative' }, text: { field: 'label' } } },
+        ],
+      },
+      {
+        data: { values: [{ s: curve.design.s, a: s(curve.design.stress), b: s(curve.critical.stress) }] },
+        mark: { type: 'rule', color: INK, strokeDash: [2, 2] },
+        encoding: { x: { field: 's', type: 'quantitative' }, y: { field: 'a', type: 'quantitative' }, y2: { field: 'b' } },
+      },
+      {
+        data: { values: points },
+        layer: [
+          { mark: { type: 'point', filled: true, size: 50, color: INK }, encoding: { x: { field: 's', type: 'quantitative' }, y: { field: 'stress', type: 'quantitative' } } },
+          {
+            mark: { type: 'text', align: 'left', dx: 7, dy: -6, fontSize: 9.5, color: INK },
+            encoding: { x: { field: 's', type: 'quantitative' }, y: { field: 'stress', type: 'quantitative' }, text: { field: 'label' } },
+          },
+        ],
+      },
+    ],
+  };
+}
+
+export function safetyFactorSpec(rows: readonly SafetyFactorRow[]): Spec | null {
+  const shown = rows.filter((r) => r.value !== null);
+  if (shown.length === 0) return null;
+  const limits = shown.map((r) => r.limit ?? 0);
+  // Large factors (stripping is often 20+) would flatten the rest: cap the axis and print the true value.
+  const cap = Math.max(5, Math.ceil(Math.max(...limits) * 2.5));
+  const values = shown.map((r) => ({
+    label: r.label,
+    value: Math.min(r.value as number, cap),
+    text: `${r.valueText}${r.limit === null ? '' : `  (min ${r.limitText})`}`,
+    limit: r.limit,
+    status: r.status === 'below' ? 'below the minimum' : r.status === 'meets' ? 'meets the minimum' : 'no minimum recorded',
+  }));
+  const STATUS = ['meets the minimum', 'below the minimum', 'no minimum recorded'];
+  const y = { field: 'label', type: 'nominal', title: null, sort: null, axis: { labelLimit: 230, labelFontSize: 10 } };
+  return {
+    width: 300,
+    height: { step: 26 },
+    config: baseConfig,
+    data: { values },
+    layer: [
+      {
+        mark: { type: 'bar', height: 14 },
+        encoding: {
+          y,
+          x: { field: 'value', type: 'quantitative', title: 'Safety factor (axis capped; true values printed)', scale: { domain: [0, cap], nice: false } },
+          color: { field: 'status', type: 'nominal', title: null, scale: { domain: STATUS, range: [COLORS.ok, COLORS.bad, COLORS.none] } },
+        },
+      },
+      {
+        transform: [{ filter: 'datum.limit != null' }],
+        mark: { type: 'tick', color: INK, thickness: 2.5, size: 22 },
+        encoding: { y, x: { field: 'limit', type: 'quantitative' } },
+      },
+      {
+        mark: { type: 'text', align: 'left', dx: 5, fontSize: 9.5, color: INK },
+        encoding: { y, x: { field: 'value', type: 'quantitative' }, text: { field: 'text' } },
+      },
+    ],
+  };
+}
+
+// ---------------------------------------------------------------------------------------------------------
+// Rendering
+
+/** Compiles a vega-lite spec and renders it headless to an SVG string fit to inline in HTML. */
+export async function specToSvg(spec: Spec): Promise<string> {
+  const { vega, vl } = await loadVega();
+  const compiled = vl.compile(spec as unknown as Parameters<VegaLiteModule['compile']>[0]).spec;
+  const view = new vega.View(vega.parse(compiled), { renderer: 'none' });
+  try {
+    const svg = await view.toSVG();
+    // Inline SVG needs no namespace declarations; dropping them keeps every URL out of the document.
+    return svg.replace(/\s+xmlns(:xlink)?="[^"]*"/g, '').replace(/<svg /, '<svg role="img" ');
+  } finally {
+    view.finalize();
+  }
+}
+
+export interface ReportCharts {
+  readonly torqueFriction: string;
+  readonly column: string | null;
+  readonly safetyFactors: string | null;
+}
+
+/** The report's three charts for one revision, rendered fresh each time. */
+export async function renderReportCharts(revision: RevisionRecord, view: ReportView): Promise<ReportCharts> {
+  const design = revision.normalized;
+  const e = revision.evaluation;
+  const curve = columnCurve(design, e);
+  const sfSpec = safetyFactorSpec(view.safetyFactors);
+  const [torqueFriction, column, safetyFactors] = await Promise.all([
+    specToSvg(torqueFrictionSpec(torqueFrictionSweep(design, e), view.unitSystem)),
+    curve ? specToSvg(columnSpec(curve, view.unitSystem)) : Promise.resolve(null),
+    sfSpec ? specToSvg(sfSpec) : Promise.resolve(null),
+  ]);
+  return { torqueFriction, column, safetyFactors };
+}

@@ -1,0 +1,84 @@
+/**
+ * End to end: the built service (dist/, as `npm start` runs it) on a real port, driven over HTTP.
+ * Runs on the embedded database, seeds the demo, and checks the shared contract examples through the network.
+ */
+import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
+import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+
+const root = join(__dirname, '../..');
+const main = join(root, 'dist/apps/api/src/main.js');
+const port = 3900 + Math.floor(Math.random() * 90);
+const base = `http://127.0.0.1:${port}`;
+let child: ChildProcess;
+let dataDir: string;
+let output = '';
+
+async function waitFor(url: string, ms: number): Promise<void> {
+  const until = Date.now() + ms;
+  while (Date.now() < until) {
+    try {
+      const r = await fetch(url);
+      if (r.ok) return;
+    } catch {
+      /* not up yet */
+    }
+    await new Promise((r) => setTimeout(r, 200));
+  }
+  throw new Error(`service did not come up at ${url}; output:\n${output}`);
+}
+
+beforeAll(async () => {
+  const built = spawnSync('npx', ['tsc', '-p', 'tsconfig.build.json'], { cwd: root, encoding: 'utf8' });
+  if (built.status !== 0) throw new Error(built.stdout + built.stderr);
+  spawnSync('npx', ['tsc-alias', '-p', 'tsconfig.build.json'], { cwd: root });
+  dataDir = mkdtempSync(join(tmpdir(), 'leadline-e2e-'));
+  child = spawn(process.execPath, [main], {
+    cwd: root,
+    env: { PATH: process.env.PATH, PORT: String(port), LEADLINE_DATA_DIR: dataDir, LOG_LEVEL: 'warn' },
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
+  child.stdout!.on('data', (d) => (output += d));
+  child.stderr!.on('data', (d) => (output += d));
+  await waitFor(`${base}/health`, 45000);
+}, 90000);
+
+afterAll(async () => {
+  child?.kill('SIGTERM');
+  await new Promise((r) => setTimeout(r, 300));
+  if (dataDir) rmSync(dataDir, { recursive: true, force: true });
+});
+
+it('starts on the embedded database, seeds the demo and prints how to call it', async () => {
+  expect(output).toContain(`Leadline is listening on ${base}`);
+  expect(output).toContain('Demo data seeded');
+  const products = await (await fetch(`${base}/api/v1/products`)).json();
+  expect(products.items.map((p: { code: string }) => p.code)).toEqual(['CV-400', 'CV-P60']);
+  const product = await (await fetch(`${base}/api/v1/products/${products.items[0].id}`)).json();
+  expect(product.calculations).toHaveLength(3);
+  const verify = await (await fetch(`${base}/api/v1/products/${products.items[0].id}/verify`)).json();
+  expect(verify).toMatchObject({ valid: true });
+});
+
+it('serves the OpenAPI page', async () => {
+  const page = await fetch(`${base}/api/docs`);
+  expect(page.status).toBe(200);
+  expect(await page.text()).toContain('swagger');
+});
+
+it('passes the shared contract examples over HTTP (shared/contract/check-examples.py)', () => {
+  const script = join(root, '../shared/contract/check-examples.py');
+  const r = spawnSync('python3', [script, base], { encoding: 'utf8' });
+  expect(r.stdout).toMatch(/contract examples: \d+ passed, 0 failed/);
+  expect(r.status).toBe(0);
+});
+
+it('evaluates the README example fixture', async () => {
+  const body = readFileSync(join(root, 'test/fixtures/ok/trapezoidal-jack.json'), 'utf8');
+  const res = await fetch(`${base}/api/v1/evaluations`, { method: 'POST', headers: { 'content-type': 'application/json' }, body });
+  expect(res.status).toBe(200);
+  const ev = await res.json();
+  expect(ev.geometry.minorDiameter).toBeCloseTo(0.032, 9); // Tr 40x7: d3 = 32.000 mm (ISO 2904, shared/reference/threads.md §1.2)
+  expect(ev.findings.every((f: { basis: string }) => f.basis.length > 0)).toBe(true);
+});

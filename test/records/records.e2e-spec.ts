@@ -1,0 +1,167 @@
+/**
+ * The record store through HTTP on real databases: PostgreSQL and embedded PGlite run the same suite.
+ */
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { BACKENDS, countRecords, startTestApp, type TestApp } from '../support/harness';
+
+const design = JSON.parse(readFileSync(join(__dirname, '../fixtures/ok/trapezoidal-jack.json'), 'utf8'));
+const badDesign = JSON.parse(readFileSync(join(__dirname, '../fixtures/not-ok/pitch-in-megapascals.json'), 'utf8'));
+
+describe.each(BACKENDS)('records on %s', (backend) => {
+  let t: TestApp;
+  let productId: string;
+
+  beforeAll(async () => {
+    t = await startTestApp(backend);
+    const res = await t.call('POST', '/api/v1/products', { code: 'HX-1', name: 'Hexmoor HX-1 lift table (test product)' });
+    expect(res.status).toBe(201);
+    productId = res.body.id;
+  });
+  afterAll(() => t?.close());
+
+  async function open(title = 'lift screw', body: unknown = { title, design }) {
+    return t.call('POST', `/api/v1/products/${productId}/calculations`, body);
+  }
+
+  it('stores revision 1 and reads back the input exactly as submitted [POST /api/v1/products/:id/calculations]', async () => {
+    const res = await open();
+    expect(res.status).toBe(201);
+    expect(res.body.revision).toBe(1);
+    const rev = await t.call('GET', `/api/v1/revisions/${res.body.revisionId}`);
+    expect(rev.status).toBe(200);
+    expect(JSON.stringify(rev.body.input)).toBe(JSON.stringify(design));
+    const stateless = await t.call('POST', '/api/v1/evaluations', design);
+    const { verdict, ruleSetVersion, ...statelessEvaluation } = stateless.body;
+    expect(rev.body.evaluation).toEqual(statelessEvaluation);
+    expect(rev.body.verdict).toBe(verdict);
+    expect(rev.body.findings).toEqual(stateless.body.findings);
+    expect(rev.body.engineVersion).toBe(stateless.body.engineVersion);
+    expect(rev.body.ruleSetVersion).toBe(stateless.body.ruleSetVersion);
+    expect(rev.body.hash).toMatch(/^[0-9a-f]{64}$/);
+    expect(rev.body.normalized.thread.majorDiameter).toBeCloseTo(0.04, 12);
+  });
+
+  it('numbers revisions contiguously [POST /api/v1/calculations/:id/revisions]', async () => {
+    const first = await open('numbering');
+    for (let i = 0; i < 3; i++) {
+      const r = await t.call('POST', `/api/v1/calculations/${first.body.calculationId}/revisions`, { design, note: `change ${i}` });
+      expect(r.status).toBe(201);
+    }
+    const list = await t.call('GET', `/api/v1/calculations/${first.body.calculationId}/revisions`);
+    expect(list.body.items.map((r: { revision: number }) => r.revision)).toEqual([1, 2, 3, 4]);
+  });
+
+  it('lands 50 concurrent submissions with contiguous revision numbers', async () => {
+    const first = await open('concurrency');
+    const results = await Promise.all(
+      Array.from({ length: 50 }, (_, i) => t.call('POST', `/api/v1/calculations/${first.body.calculationId}/revisions`, { design, note: `burst ${i}` })),
+    );
+    expect(results.map((r) => r.status)).toEqual(Array(50).fill(201));
+    const numbers = results.map((r) => r.body.revision).sort((a, b) => a - b);
+    expect(numbers).toEqual(Array.from({ length: 50 }, (_, i) => i + 2));
+    const list = await t.call('GET', `/api/v1/calculations/${first.body.calculationId}/revisions`);
+    expect(list.body.items.map((r: { revision: number }) => r.revision)).toEqual(Array.from({ length: 51 }, (_, i) => i + 1));
+    expect(new Set(list.body.items.map((r: { note: string }) => r.note)).size).toBe(51);
+    const verify = await t.call('GET', `/api/v1/products/${productId}/verify`);
+    expect(verify.body.valid).toBe(true);
+  });
+
+  it('refuses UPDATE, DELETE and TRUNCATE of records in the database itself', async () => {
+    const r = await open('immutability');
+    for (const sql of [
+      `UPDATE revisions SET note = 'edited' WHERE id = '${r.body.revisionId}'`,
+      `DELETE FROM revisions WHERE id = '${r.body.revisionId}'`,
+      `UPDATE events SET data = '{}' WHERE revision_id = '${r.body.revisionId}'`,
+      `DELETE FROM events WHERE revision_id = '${r.body.revisionId}'`,
+      `TRUNCATE revisions CASCADE`,
+      `UPDATE products SET name = 'renamed' WHERE id = '${productId}'`,
+    ]) {
+      await expect(t.db.query(sql)).rejects.toThrow(/records are immutable/);
+    }
+    const rev = await t.call('GET', `/api/v1/revisions/${r.body.revisionId}`);
+    expect(rev.body.note).toBeNull();
+  });
+
+  it('refuses a revision number that is not the next one', async () => {
+    const r = await open('gap');
+    await expect(
+      t.db.query(
+        `INSERT INTO revisions (id, calculation_id, product_id, revision, seq, input, normalized, evaluation, findings, verdict, engine_version, rule_set_version, created_at, hash)
+         SELECT gen_random_uuid(), calculation_id, product_id, 3, 999999, input, normalized, evaluation, findings, verdict, engine_version, rule_set_version, now(), 'x'
+           FROM revisions WHERE id = $1`,
+        [r.body.revisionId],
+      ),
+    ).rejects.toThrow(/not contiguous/);
+  });
+
+  it('verifies the chain and names a tampered row written with the trigger disabled [GET /api/v1/products/:id/verify]', async () => {
+    const ok = await t.call('GET', `/api/v1/products/${productId}/verify`);
+    expect(ok.body).toMatchObject({ valid: true, firstBrokenLink: null });
+    const r = await open('tamper target');
+    const before = await t.call('GET', `/api/v1/products/${productId}/verify`);
+    expect(before.body.valid).toBe(true);
+    await t.db.query(`ALTER TABLE revisions DISABLE TRIGGER revisions_immutable`);
+    await t.db.query(`UPDATE revisions SET evaluation = jsonb_set(evaluation, '{torque,raise,atMaxFriction}', '1.0') WHERE id = $1`, [r.body.revisionId]);
+    await t.db.query(`ALTER TABLE revisions ENABLE TRIGGER revisions_immutable`);
+    const after = await t.call('GET', `/api/v1/products/${productId}/verify`);
+    expect(after.body.valid).toBe(false);
+    expect(after.body.firstBrokenLink).toMatchObject({ kind: 'revision', id: r.body.revisionId, reason: 'content does not match its hash' });
+  });
+
+  it('returns the first result for a retried submission with the same Idempotency-Key', async () => {
+    const other = await t.call('POST', '/api/v1/products', { code: `IDEM-${backend}`, name: 'idempotency product' });
+    const url = `/api/v1/products/${other.body.id}/calculations`;
+    const body = { title: 'retry me', design };
+    const first = await t.call('POST', url, body, { 'idempotency-key': 'k-123' });
+    const before = await countRecords(t.db);
+    const again = await t.call('POST', url, body, { 'idempotency-key': 'k-123' });
+    expect(again.status).toBe(201);
+    expect(again.body).toEqual(first.body);
+    expect(await countRecords(t.db)).toEqual(before);
+    const changed = await t.call('POST', url, { title: 'something else', design }, { 'idempotency-key': 'k-123' });
+    expect(changed.status).toBe(422);
+    expect(await countRecords(t.db)).toEqual(before);
+  });
+
+  it('answers invalid input with problem+json naming the fields and stores nothing', async () => {
+    const before = await countRecords(t.db);
+    const res = await open('bad', { title: 'bad', design: badDesign });
+    expect(res.status).toBe(422);
+    expect(res.headers['content-type']).toMatch(/application\/problem\+json/);
+    expect(res.body.errors.map((e: { path: string }) => e.path)).toContain('design.thread.pitch');
+    const missing = await open('bad', { design });
+    expect(missing.body.errors.map((e: { path: string }) => e.path)).toContain('title');
+    const product = await t.call('POST', '/api/v1/products', { name: 'no code' });
+    expect(product.status).toBe(422);
+    expect(product.body.errors[0].path).toBe('code');
+    const malformed = await t.call('POST', '/api/v1/products', '{"code": ', { 'content-type': 'application/json' });
+    expect(malformed.status).toBe(400);
+    expect(await countRecords(t.db)).toEqual(before);
+  });
+
+  it('answers 413 for an oversized body and 404 for unknown ids', async () => {
+    const huge = { title: 'x'.repeat(300 * 1024), design };
+    const res = await open('huge', huge);
+    expect(res.status).toBe(413);
+    expect(res.headers['content-type']).toMatch(/problem\+json/);
+    const missing = await t.call('GET', '/api/v1/revisions/00000000-0000-4000-8000-000000000000');
+    expect(missing.status).toBe(404);
+    const notUuid = await t.call('GET', '/api/v1/calculations/not-a-uuid');
+    expect(notUuid.status).toBe(404);
+  });
+
+  it('lists products with paging and serves the library and health', async () => {
+    const page = await t.call('GET', '/api/v1/products?limit=1&offset=0');
+    expect(page.body.items).toHaveLength(1);
+    expect(page.body.total).toBeGreaterThanOrEqual(2);
+    const sizes = await t.call('GET', '/api/v1/thread-sizes?form=trapezoidal');
+    expect(sizes.body.items.find((s: { designation: string }) => s.designation === 'Tr 40x7')).toBeTruthy();
+    const friction = await t.call('GET', '/api/v1/friction-sources');
+    expect(friction.body.items.every((e: { source: { reference: string } }) => e.source.reference.length > 0)).toBe(true);
+    const health = await t.call('GET', '/health');
+    expect(health.body.status).toBe('ok');
+    const docs = await t.call('GET', '/api/docs-json');
+    expect(docs.body.paths['/api/v1/evaluations'].post.requestBody.content['application/json'].schema.properties.thread).toBeTruthy();
+  });
+});
