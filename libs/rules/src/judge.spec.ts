@@ -1,0 +1,218 @@
+/**
+ * judge and verdictOf: the behaviour the review workflow relies on, plus properties over a sample of designs
+ * evaluated by the real engine (thread sizes ISO 2904 via the engine tables; materials and friction from the
+ * engine libraries, sources in shared/reference/friction-and-materials.md).
+ */
+import type { DesignInput, Finding } from '@leadline/contracts';
+import { FRICTION_LIBRARY, NUT_MATERIALS, SCREW_MATERIALS } from '@leadline/mechanics';
+import fc from 'fast-check';
+import { judge, verdictOf } from './judge';
+import { RULE_REGISTRY } from './registry';
+import { DEFAULT_RULE_SET, parseRuleSet, type RuleSet, type Thresholds } from './rule-set';
+import { evaluated, FAST_AXIS_INPUT, JACK_INPUT, withDuty } from './testing/designs';
+
+const f = (severity: Finding['severity']): Finding => ({
+  ruleId: `r-${severity}`, severity, measured: 1, limit: 1, unit: '-', message: 'm', basis: 'common practice', subject: null,
+});
+
+const RANK = { clear: 0, 'needs-acknowledgement': 1, blocked: 2 } as const;
+
+describe('verdictOf', () => {
+  it.each([
+    ['no findings', [], 'clear'],
+    ['information only', [f('info')], 'clear'],
+    ['a warning', [f('info'), f('warning')], 'needs-acknowledgement'],
+    ['a blocking finding among others', [f('warning'), f('blocking'), f('info')], 'blocked'],
+  ] as const)('%s -> %s', (_, findings, verdict) => {
+    expect(verdictOf(findings)).toBe(verdict);
+  });
+});
+
+describe('judge', () => {
+  it('a lifting screw that does not self-lock and has no brake is blocked', () => {
+    const e = evaluated(FAST_AXIS_INPUT);
+    const findings = judge(e.design, e.evaluation);
+    expect(findings.find((x) => x.ruleId === 'lifting-self-locking')?.severity).toBe('blocking');
+    expect(verdictOf(findings)).toBe('blocked');
+  });
+
+  it('the same design on positioning duty does not block', () => {
+    const e = evaluated(withDuty(FAST_AXIS_INPUT, { kind: 'positioning' }));
+    const findings = judge(e.design, e.evaluation);
+    expect(findings.filter((x) => x.severity === 'blocking')).toEqual([]);
+    expect(findings.find((x) => x.ruleId === 'lifting-self-locking')?.severity).toBe('info');
+    expect(verdictOf(findings)).toBe('clear');
+  });
+
+  it('the reference jack is clear under the default rule set, with the lifting reminder as information', () => {
+    const e = evaluated(JACK_INPUT);
+    const findings = judge(e.design, e.evaluation);
+    expect(findings.map((x) => `${x.ruleId}:${x.severity}`)).toEqual(['lifting-self-locking:info']);
+    expect(verdictOf(findings)).toBe('clear');
+  });
+
+  it('reports findings in registry order', () => {
+    const e = evaluated({ ...JACK_INPUT, nut: { length: '21 mm', material: 'nylon' }, duty: { ...JACK_INPUT.duty, speed: undefined } });
+    const order = RULE_REGISTRY.map((r) => r.id);
+    const ids = judge(e.design, e.evaluation).map((x) => x.ruleId);
+    expect(ids.length).toBeGreaterThan(3);
+    expect([...ids].sort((a, b) => order.indexOf(a) - order.indexOf(b))).toEqual(ids);
+  });
+
+  it('a new rule-set version with a stricter buckling factor changes the verdict of a borderline jack', () => {
+    // The jack's buckling factor is about 3.65: above the default lifting minimum 3.5, below 4.0.
+    const e = evaluated(JACK_INPUT);
+    const raw = JSON.parse(JSON.stringify(DEFAULT_RULE_SET)) as RuleSet;
+    const next = parseRuleSet({
+      ...raw,
+      version: '2027.01-1',
+      description: 'Lifting column factor raised to 4.0 after a field report of a bent jack screw.',
+      thresholds: { ...raw.thresholds, buckling: { minSafetyFactor: { ...raw.thresholds.buckling.minSafetyFactor, lifting: 4.0 } } },
+    });
+    if (!next.success) throw new Error(JSON.stringify(next.issues));
+    const before = judge(e.design, e.evaluation, DEFAULT_RULE_SET);
+    const after = judge(e.design, e.evaluation, next.ruleSet);
+    expect(verdictOf(before)).toBe('clear');
+    expect(verdictOf(after)).toBe('blocked');
+    const changed = after.filter((x) => !before.some((y) => JSON.stringify(y) === JSON.stringify(x))).map((x) => x.ruleId);
+    expect(changed).toEqual(['column-buckling']);
+  });
+});
+
+// ---------- properties over a sample of real designs ----------
+
+const SIZES = [
+  { size: 'Tr 16x4', pitch: 4 },
+  { size: 'Tr 24x5', pitch: 5 },
+  { size: 'Tr 32x6', pitch: 6 },
+  { size: 'Tr 40x7', pitch: 7 },
+  { size: 'Tr 60x9', pitch: 9 },
+];
+const threadEntries = FRICTION_LIBRARY.filter((e) => e.surface === 'thread').map((e) => e.id);
+const collarEntries = FRICTION_LIBRARY.filter((e) => e.surface === 'collar').map((e) => e.id);
+
+const designInput: fc.Arbitrary<DesignInput> = fc
+  .record({
+    size: fc.constantFrom(...SIZES),
+    starts: fc.integer({ min: 1, max: 3 }),
+    loadKn: fc.double({ min: 0.5, max: 80, noNaN: true }),
+    sense: fc.constantFrom('compression' as const, 'tension' as const),
+    thread: fc.oneof(
+      fc.constantFrom(...threadEntries).map((entry) => ({ entry })),
+      fc.record({
+        min: fc.double({ min: 0.05, max: 0.2, noNaN: true }),
+        extra: fc.constantFrom(0, 0.01, 0.05),
+        kind: fc.constantFrom('assumed' as const, 'test' as const, 'supplier' as const),
+      }).map(({ min, extra, kind }) => ({ min, max: min + extra, source: { kind, reference: 'property-test sample' } })),
+    ),
+    collar: fc.constantFrom('plain', 'none'),
+    collarEntry: fc.constantFrom(...collarEntries),
+    nutThreads: fc.integer({ min: 2, max: 14 }),
+    nutMaterial: fc.constantFrom(...NUT_MATERIALS.map((m) => m.id)),
+    screwMaterial: fc.constantFrom(...SCREW_MATERIALS.map((m) => m.id)),
+    lengthMm: fc.integer({ min: 100, max: 2000 }),
+    ends: fc.constantFrom('fixed-free' as const, 'pinned-pinned' as const, 'fixed-pinned' as const, 'fixed-fixed' as const),
+    basis: fc.constantFrom('recommended' as const, 'theoretical' as const),
+    kind: fc.constantFrom('lifting' as const, 'positioning' as const, 'clamping' as const),
+    rpm: fc.option(fc.integer({ min: 5, max: 3000 }), { nil: undefined }),
+    brake: fc.boolean(),
+    vibration: fc.boolean(),
+    driveNm: fc.option(fc.integer({ min: 5, max: 800 }), { nil: undefined }),
+  })
+  .map((s): DesignInput => ({
+    thread: { form: 'trapezoidal', size: s.size.size, starts: s.starts },
+    load: { axial: `${s.loadKn} kN`, sense: s.sense },
+    friction: s.collar === 'none' ? { thread: s.thread } : { thread: s.thread, collar: { entry: s.collarEntry } },
+    collar: s.collar === 'none' ? { kind: 'none' } : { kind: 'plain', meanDiameter: '50 mm' },
+    nut: { length: `${s.nutThreads * s.size.pitch} mm`, material: s.nutMaterial },
+    screw: { material: s.screwMaterial, unsupportedLength: `${s.lengthMm} mm`, ends: s.ends, endConditionBasis: s.basis },
+    duty: { kind: s.kind, brake: s.brake, vibration: s.vibration, ...(s.rpm === undefined ? {} : { speed: `${s.rpm} rpm` }) },
+    ...(s.driveNm === undefined ? {} : { drive: { availableTorque: `${s.driveNm} N*m` } }),
+  }));
+
+/** A rule set stricter than the default in every threshold. */
+function stricter(t: Thresholds): Thresholds {
+  const up = (x: number) => x * 1.2;
+  const down = (x: number) => x * 0.8;
+  const duty = (d: Thresholds['strength']['minSafetyFactor']) => ({ lifting: up(d.lifting), positioning: up(d.positioning), clamping: up(d.clamping) });
+  return {
+    selfLocking: { minMargin: up(t.selfLocking.minMargin) },
+    strength: { minSafetyFactor: duty(t.strength.minSafetyFactor) },
+    buckling: { minSafetyFactor: duty(t.buckling.minSafetyFactor) },
+    criticalSpeed: { maxRatio: down(t.criticalSpeed.maxRatio), warnRatio: down(t.criticalSpeed.warnRatio) },
+    wear: {
+      maxPressureRatio: down(t.wear.maxPressureRatio), warnPressureRatio: down(t.wear.warnPressureRatio),
+      maxPvRatio: down(t.wear.maxPvRatio), warnPvRatio: down(t.wear.warnPvRatio),
+    },
+    drive: { minMargin: up(t.drive.minMargin), warnMargin: up(t.drive.warnMargin) },
+    friction: { minThreadSpreadRatio: up(t.friction.minThreadSpreadRatio) },
+    engagedThreads: { min: up(t.engagedThreads.min), max: down(t.engagedThreads.max) },
+  };
+}
+
+describe('judge over a sample of designs (property)', () => {
+  const RUNS = { numRuns: 100, seed: 20261201 } as const;
+  const ids = new Set(RULE_REGISTRY.map((r) => r.id));
+
+  it('every finding is well formed: registered rule id, once each, non-empty basis, message without NaN', () => {
+    fc.assert(
+      fc.property(designInput, (input) => {
+        const e = evaluated(input);
+        const findings = judge(e.design, e.evaluation);
+        const seen = new Set<string>();
+        for (const x of findings) {
+          expect(ids.has(x.ruleId)).toBe(true);
+          expect(seen.has(x.ruleId)).toBe(false);
+          seen.add(x.ruleId);
+          expect(x.basis.trim().length).toBeGreaterThan(0);
+          expect(x.message.trim().length).toBeGreaterThan(0);
+          expect(x.message).not.toMatch(/NaN|undefined|null|Infinity/);
+          expect(['blocking', 'warning', 'info']).toContain(x.severity);
+        }
+      }),
+      RUNS,
+    );
+  });
+
+  it('is deterministic, and judges a stored (JSON round-tripped) record the same', () => {
+    fc.assert(
+      fc.property(designInput, (input) => {
+        const e = evaluated(input);
+        const first = judge(e.design, e.evaluation);
+        expect(judge(e.design, e.evaluation)).toEqual(first);
+        const stored = JSON.parse(JSON.stringify(e)) as typeof e;
+        expect(judge(stored.design, stored.evaluation)).toEqual(first);
+      }),
+      { ...RUNS, numRuns: 50 },
+    );
+  });
+
+  it('the same design on positioning duty is never judged worse than on lifting duty', () => {
+    fc.assert(
+      fc.property(designInput, (input) => {
+        const lifting = evaluated(withDuty(input, { kind: 'lifting' }));
+        const positioning = evaluated(withDuty(input, { kind: 'positioning' }));
+        const vl = verdictOf(judge(lifting.design, lifting.evaluation));
+        const vp = verdictOf(judge(positioning.design, positioning.evaluation));
+        expect(RANK[vp]).toBeLessThanOrEqual(RANK[vl]);
+        const selfLocking = judge(positioning.design, positioning.evaluation).find((x) => x.ruleId === 'lifting-self-locking');
+        expect(selfLocking?.severity ?? 'info').toBe('info');
+      }),
+      RUNS,
+    );
+  });
+
+  it('a stricter rule set never gives a better verdict (what an impact report relies on)', () => {
+    const strict = parseRuleSet({ version: '2027.01-1', description: 'every threshold 20 % stricter', thresholds: stricter(DEFAULT_RULE_SET.thresholds) });
+    if (!strict.success) throw new Error(JSON.stringify(strict.issues));
+    fc.assert(
+      fc.property(designInput, (input) => {
+        const e = evaluated(input);
+        const base = verdictOf(judge(e.design, e.evaluation));
+        const tightened = verdictOf(judge(e.design, e.evaluation, strict.ruleSet));
+        expect(RANK[tightened]).toBeGreaterThanOrEqual(RANK[base]);
+      }),
+      RUNS,
+    );
+  });
+});

@@ -1,0 +1,46 @@
+/**
+ * The one list of design rules. Order is the order findings are reported in; append new rules,
+ * and never reuse an id for a different check (acknowledgements name findings by rule id).
+ */
+import type { Rule, RuleSummary } from './rule';
+import { columnBucklingRule } from './rules/column-buckling.rule';
+import { columnEndFixityRule } from './rules/column-end-fixity.rule';
+import { driveTorqueMarginRule } from './rules/drive-torque-margin.rule';
+import { frictionSourceAssumedRule } from './rules/friction-source-assumed.rule';
+import { liftingSelfLockingRule } from './rules/lifting-self-locking.rule';
+import { nutBearingPressureRule } from './rules/nut-bearing-pressure.rule';
+import { nutEngagedThreadsRule } from './rules/nut-engaged-threads.rule';
+import { nutPvRule } from './rules/nut-pv.rule';
+import { nutThreadStrippingRule } from './rules/nut-thread-stripping.rule';
+import { screwBodyYieldRule } from './rules/screw-body-yield.rule';
+import { screwThreadStrippingRule } from './rules/screw-thread-stripping.rule';
+import { shaftWhirlSpeedRule } from './rules/shaft-whirl-speed.rule';
+import { threadFrictionRangeRule } from './rules/thread-friction-range.rule';
+import { threadRootYieldRule } from './rules/thread-root-yield.rule';
+
+export const RULE_REGISTRY: readonly Rule[] = Object.freeze([
+  liftingSelfLockingRule,
+  screwBodyYieldRule,
+  threadRootYieldRule,
+  screwThreadStrippingRule,
+  nutThreadStrippingRule,
+  columnBucklingRule,
+  columnEndFixityRule,
+  shaftWhirlSpeedRule,
+  nutBearingPressureRule,
+  nutPvRule,
+  driveTorqueMarginRule,
+  frictionSourceAssumedRule,
+  threadFrictionRangeRule,
+  nutEngagedThreadsRule,
+]);
+
+/** The rules as the API lists them: id, title, basis, description. */
+export const RULES: readonly RuleSummary[] = Object.freeze(
+  RULE_REGISTRY.map(({ id, title, basis, description }) => Object.freeze({ id, title, basis, description })),
+);
+
+/** Looks up a registered rule by id. */
+export function findRule(id: string): Rule | undefined {
+  return RULE_REGISTRY.find((r) => r.id === id);
+}

@@ -1,0 +1,161 @@
+/**
+ * A rule set: a version name and every number the design rules judge against. The rules hold no
+ * numbers of their own, so a new rule set (posted by an admin, validated with `ruleSetDefinitionSchema`)
+ * changes limits without a code change, and an impact report can rerun old revisions under it.
+ */
+import { z } from 'zod';
+
+/** A positive, finite number. */
+const positive = (description: string) => z.number().finite().positive().describe(description);
+/** A factor that only makes sense at or above 1 (a margin or a factor of safety). */
+const atLeastOne = (description: string) => z.number().finite().min(1, 'must be at least 1').describe(description);
+/** A fraction of a limit, 0 < x <= 1. */
+const fraction = (description: string) =>
+  z.number().finite().positive().max(1, 'must not exceed 1 (a fraction of the limit)').describe(description);
+
+/** A minimum factor for each duty kind: lifting stricter than positioning and clamping. */
+const byDuty = (what: string) =>
+  z.strictObject({
+    lifting: atLeastOne(`minimum ${what} on lifting duty`),
+    positioning: atLeastOne(`minimum ${what} on positioning duty`),
+    clamping: atLeastOne(`minimum ${what} on clamping duty`),
+  });
+
+export const thresholdsSchema = z
+  .strictObject({
+    selfLocking: z.strictObject({
+      minMargin: atLeastOne('self-locking margin f_min / (cos alpha_n tan lambda) below which self-locking is not relied on'),
+    }),
+    strength: z.strictObject({
+      minSafetyFactor: byDuty('static yield factor of safety (body, first-thread root, thread stripping)'),
+    }),
+    buckling: z.strictObject({
+      minSafetyFactor: byDuty('column buckling factor P_cr / F'),
+    }),
+    criticalSpeed: z.strictObject({
+      maxRatio: fraction('largest operating speed as a fraction of the first critical (whirl) speed; above it blocks'),
+      warnRatio: fraction('fraction of the first critical speed above which a warning is raised'),
+    }),
+    wear: z.strictObject({
+      maxPressureRatio: positive('largest mean bearing pressure as a fraction of the allowable; above it blocks'),
+      warnPressureRatio: positive('bearing-pressure fraction of the allowable above which a warning is raised'),
+      maxPvRatio: positive('largest pV as a fraction of the allowable pV; above it blocks'),
+      warnPvRatio: positive('pV fraction of the allowable above which a warning is raised'),
+    }),
+    drive: z.strictObject({
+      minMargin: atLeastOne('available over required raise torque (maximum friction) below which the drive blocks'),
+      warnMargin: atLeastOne('torque margin below which a warning is raised'),
+    }),
+    friction: z.strictObject({
+      minThreadSpreadRatio: atLeastOne('thread friction max/min below which the range is treated as a single value'),
+    }),
+    engagedThreads: z.strictObject({
+      min: positive('fewest engaged threads before a warning'),
+      max: positive('most engaged threads before a warning'),
+    }),
+  })
+  .superRefine((t, ctx) => {
+    const issue = (path: PropertyKey[], message: string) => ctx.addIssue({ code: 'custom', path, message });
+    if (t.criticalSpeed.warnRatio > t.criticalSpeed.maxRatio) issue(['criticalSpeed', 'warnRatio'], 'must not exceed criticalSpeed.maxRatio');
+    if (t.wear.warnPressureRatio > t.wear.maxPressureRatio) issue(['wear', 'warnPressureRatio'], 'must not exceed wear.maxPressureRatio');
+    if (t.wear.warnPvRatio > t.wear.maxPvRatio) issue(['wear', 'warnPvRatio'], 'must not exceed wear.maxPvRatio');
+    if (t.drive.warnMargin < t.drive.minMargin) issue(['drive', 'warnMargin'], 'must not be below drive.minMargin');
+    if (t.engagedThreads.min > t.engagedThreads.max) issue(['engagedThreads', 'min'], 'must not exceed engagedThreads.max');
+  });
+
+/** Every configurable limit of the design rules. */
+export type Thresholds = z.infer<typeof thresholdsSchema>;
+
+/** Our own version naming: <year>.<month>-<sequence>, e.g. "2026.12-1". */
+export const RULE_SET_VERSION_PATTERN = /^\d{4}\.(0[1-9]|1[0-2])-[1-9]\d*$/;
+
+export const ruleSetDefinitionSchema = z.strictObject({
+  version: z
+    .string()
+    .regex(RULE_SET_VERSION_PATTERN, 'version must look like "2026.12-1" (<year>.<month>-<sequence>)')
+    .describe('rule-set version; stored with every revision judged under it'),
+  description: z.string().trim().min(1, 'say what changed and why').max(2000),
+  thresholds: thresholdsSchema,
+});
+
+export type RuleSet = z.infer<typeof ruleSetDefinitionSchema>;
+
+/**
+ * The rule set the service starts with. Defaults sit on the safe side; each number names its basis.
+ * "From memory" marks a source recalled rather than read during this work.
+ */
+export const DEFAULT_RULE_SET: RuleSet = {
+  version: '2026.12-1',
+  description:
+    'First Leadline rule set: self-locking on lifting duty, static strength, column buckling, whirl speed, nut wear, ' +
+    'drive torque, friction data quality and engaged threads.',
+  thresholds: {
+    selfLocking: {
+      // Common practice. Shigley 9th ed. Table 8-5: a steel/bronze thread specified dry (f >= 0.15) but later oiled
+      // can drop to f = 0.10, a ratio of 1.5 (steel/steel and steel/cast iron 0.15 -> 0.11, 1.36). A margin of 1.5
+      // keeps the screw holding through that change of lubrication, which is the commonest way friction falls.
+      minMargin: 1.5,
+    },
+    strength: {
+      // Common practice on yield, by analogy with ASME BTH-1 (below-the-hook lifting devices) design factors
+      // N_d = 3.00 for Design Category B and 2.00 for Category A (from memory; BTH-1 does not cover screw jacks).
+      // Lifting takes the stricter value because a failure drops the load.
+      minSafetyFactor: { lifting: 3.0, positioning: 2.0, clamping: 2.0 },
+    },
+    buckling: {
+      // Common practice: the strength factor plus 0.5, because the critical load is sensitive to end fixity,
+      // initial crookedness and load eccentricity that the Euler and Johnson formulas leave out; Shigley 9th ed.
+      // Table 4-2 restricts its "recommended" C to use with liberal factors of safety.
+      minSafetyFactor: { lifting: 3.5, positioning: 2.5, clamping: 2.5 },
+    },
+    criticalSpeed: {
+      // Common practice: run at or below 80 % of the first critical speed (shared/reference/columns-and-speed.md 3.4);
+      // warn from 60 %, because end supports seldom fix the screw as fully as the theoretical factors assume.
+      maxRatio: 0.8,
+      warnRatio: 0.6,
+    },
+    wear: {
+      // The allowable pressure and pV are already "safe" handbook values (Shigley 9th ed. Table 8-4, from memory;
+      // Mott Table 16-1), so exceeding them blocks; warn within 20 % of them (common practice), because the
+      // allowables are single values from ranges and depend on lubrication and rubbing speed.
+      maxPressureRatio: 1.0,
+      warnPressureRatio: 0.8,
+      maxPvRatio: 1.0,
+      warnPvRatio: 0.8,
+    },
+    drive: {
+      // Common practice: 25 % torque reserve over the raise torque at maximum friction, for starting friction,
+      // cold lubricant, supply-voltage drop and drive wear; warn below 50 %.
+      minMargin: 1.25,
+      warnMargin: 1.5,
+    },
+    friction: {
+      // Common practice: the narrowest thread range in Shigley 9th ed. Table 8-5 is steel/brass dry, 0.15-0.19
+      // (max/min 1.27). A range narrower than 1.25 is unlikely to cover real scatter unless tested on the actual pair.
+      minThreadSpreadRatio: 1.25,
+    },
+    engagedThreads: {
+      // Shigley 10th ed. Sec. 8-2 after Marshek (from memory): the first three threads carry 0.38, 0.25 and 0.18
+      // of the load. Below 4 threads the first thread must carry more than the 0.38 F the engine assumes, so the
+      // first-thread check becomes unconservative. Beyond about 10 threads the added threads carry little load
+      // while the stripping and mean-pressure checks still share the load over all of them (optimistic).
+      min: 4,
+      max: 10,
+    },
+  },
+};
+
+/** Result of validating a posted rule set: the rule set, or issues with dotted field paths. */
+export type RuleSetParseResult =
+  | { readonly success: true; readonly ruleSet: RuleSet }
+  | { readonly success: false; readonly issues: readonly { readonly path: string; readonly message: string }[] };
+
+/** Validates a raw rule-set definition (e.g. an admin's POST body); never throws on bad input. */
+export function parseRuleSet(raw: unknown): RuleSetParseResult {
+  const r = ruleSetDefinitionSchema.safeParse(raw);
+  if (r.success) return { success: true, ruleSet: r.data };
+  return {
+    success: false,
+    issues: r.error.issues.map((i) => ({ path: i.path.map(String).join('.') || '(body)', message: i.message })),
+  };
+}

@@ -1,0 +1,43 @@
+/** Column buckling of a screw in compression (Euler or J. B. Johnson, as the engine chose). */
+import type { Finding } from '@leadline/contracts';
+import { sig, sigPair } from '../format';
+import { fallsShort, type Rule, type RuleContext } from '../rule';
+
+export const COLUMN_BUCKLING_ID = 'column-buckling';
+const BASIS =
+  'common practice: strength factor plus 0.5 (defaults: lifting 3.5, other duty 2.5), since the critical load is sensitive to end ' +
+  'fixity, crookedness and eccentricity; Shigley 9th ed. Table 4-2 restricts its recommended C to liberal factors of safety; ' +
+  'Euler Eq. (4-43) and Johnson parabola, Shigley 9th ed. Sec. 4-11 ff.';
+
+export function columnBuckling({ design, evaluation, thresholds }: RuleContext): Finding | null {
+  const b = evaluation.buckling;
+  if (!b.applies) return null;
+  const minimum = thresholds.buckling.minSafetyFactor[design.duty.kind];
+  const factor = b.safetyFactor ?? Number.NaN;
+  if (!fallsShort(factor, minimum)) return null;
+  const [n, limit] = sigPair(factor, minimum);
+  const critical = b.criticalLoad === null ? 'not computable' : `${sig(b.criticalLoad / 1000)} kN`;
+  return {
+    ruleId: COLUMN_BUCKLING_ID,
+    severity: 'blocking',
+    measured: b.safetyFactor,
+    limit: minimum,
+    unit: '-',
+    subject: 'buckling.safetyFactor',
+    message:
+      `Screw in compression can buckle: critical load ${critical} (${b.regime ?? 'no'} regime, slenderness ${sig(b.slenderness)}, ` +
+      `end-condition constant C = ${sig(b.endConditionConstant)}, ${b.endConditionBasis}) over the axial load ` +
+      `${sig(design.load.axial / 1000)} kN gives a factor of ${n}, below the minimum ${limit} for ${design.duty.kind} duty. ` +
+      `Buckling gives no warning and real columns fail below the ideal load. Shorten the unsupported length, fix the ends ` +
+      `better, use a larger root diameter, or arrange the load to put the screw in tension.`,
+    basis: BASIS,
+  };
+}
+
+export const columnBucklingRule: Rule = {
+  id: COLUMN_BUCKLING_ID,
+  title: 'Column buckling',
+  basis: BASIS,
+  description: 'Blocks when a compressed screw has a buckling factor P_cr / F below buckling.minSafetyFactor for the duty kind.',
+  check: columnBuckling,
+};

@@ -1,0 +1,53 @@
+/** Drive torque available at start against the raise torque at maximum friction, collar included. */
+import type { Finding } from '@leadline/contracts';
+import { newtonMetres, sig, sigPair } from '../format';
+import { fallsShort, type Rule, type RuleContext } from '../rule';
+
+export const DRIVE_TORQUE_MARGIN_ID = 'drive-torque-margin';
+const BASIS =
+  'common practice: torque reserve over the raise torque at maximum friction for starting friction, cold lubricant, ' +
+  'supply-voltage drop and drive wear (defaults: block below 1.25, warn below 1.5)';
+
+export function driveTorqueMargin({ evaluation, thresholds }: RuleContext): Finding | null {
+  const { minMargin, warnMargin } = thresholds.drive;
+  const base = { ruleId: DRIVE_TORQUE_MARGIN_ID, unit: '-', subject: 'drive.margin', basis: BASIS } as const;
+  const required = evaluation.torque.raise.atMaxFriction;
+  const d = evaluation.drive;
+  if (d === null) {
+    return {
+      ...base,
+      severity: 'info',
+      measured: null,
+      limit: minMargin,
+      message:
+        `No drive was given, so the drive was not checked. The raise torque at maximum friction is ` +
+        `${newtonMetres(required)}; a drive needs at least ${newtonMetres(minMargin * required)} (margin ${sig(minMargin)}). ` +
+        `Give drive.availableTorque to check it.`,
+    };
+  }
+  const blocking = fallsShort(d.margin, minMargin);
+  if (!blocking && !fallsShort(d.margin, warnMargin)) return null;
+  const limit = blocking ? minMargin : warnMargin;
+  const [m, l] = sigPair(d.margin, limit);
+  return {
+    ...base,
+    severity: blocking ? 'blocking' : 'warning',
+    measured: d.margin,
+    limit,
+    message:
+      `Drive torque ${newtonMetres(d.availableTorque)} over the raise torque ${newtonMetres(d.requiredTorque)} ` +
+      `(maximum friction, collar included) gives a margin of ${m}, below the ${blocking ? 'required' : 'recommended'} ${l}. ` +
+      `${blocking ? 'The drive may stall at start or under cold or worn conditions.' : 'Little reserve is left for starting friction and wear.'} ` +
+      `Use a stronger drive or gearing, or reduce the friction torque (lubrication, rolling thrust bearing).`,
+  };
+}
+
+export const driveTorqueMarginRule: Rule = {
+  id: DRIVE_TORQUE_MARGIN_ID,
+  title: 'Drive torque margin',
+  basis: BASIS,
+  description:
+    'Blocks when available over required raise torque is below drive.minMargin, warns below drive.warnMargin; ' +
+    'information when no drive is given.',
+  check: driveTorqueMargin,
+};

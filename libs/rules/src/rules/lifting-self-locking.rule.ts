@@ -1,0 +1,151 @@
+/**
+ * Whether a lifting screw can hold its load, judged at the minimum thread friction (the engine's
+ * selfLocking.margin = f_min / (cos alpha_n tan lambda), collar ignored: the safe side).
+ */
+import type { Finding } from '@leadline/contracts';
+import { newtonMetres, sig, sigPair } from '../format';
+import { fallsShort, type Rule, type RuleContext } from '../rule';
+
+export const LIFTING_SELF_LOCKING_ID = 'lifting-self-locking';
+
+const NO_SUBSTITUTE = 'Self-locking is no substitute for a brake where a fall can hurt someone.';
+const BASIS_CONDITION =
+  'Self-locking condition f > cos(alpha_n) tan(lambda): Juvinall & Marshek 5th ed. Eq. (10.6); Shigley 10th ed. Eq. (8-3)';
+const BASIS_BRAKE = 'common practice: a load that can fall is held by a brake, not by thread friction';
+const BASIS_MARGIN =
+  "common practice: margin covers the fall of thread friction from dry to oiled (Shigley 9th ed. Table 8-5: steel/bronze 0.15 to 0.10, ratio 1.5)";
+const BASIS_VIBRATION = 'common practice: vibration lowers effective thread friction, so self-locking cannot be relied on';
+
+export function liftingSelfLocking({ design, evaluation, thresholds }: RuleContext): Finding | null {
+  const { locks, margin, backDrivingTorque } = evaluation.selfLocking;
+  const { kind, brake, vibration } = design.duty;
+  const minMargin = thresholds.selfLocking.minMargin;
+  const base = { ruleId: LIFTING_SELF_LOCKING_ID, unit: '-', subject: 'selfLocking.margin' } as const;
+  const marginText = sig(margin);
+  const backDriving = backDrivingTorque === null ? '' : ` The load back-drives the screw with ${newtonMetres(backDrivingTorque)} at minimum friction.`;
+
+  if (kind !== 'lifting') {
+    if (locks) return null;
+    return {
+      ...base,
+      severity: 'info',
+      measured: margin,
+      limit: 1,
+      message:
+        `The screw is not self-locking: margin ${marginText} at minimum thread friction, below 1.${backDriving} ` +
+        `On ${kind} duty this is allowed, but ${kind === 'clamping' ? 'the clamp can loosen' : 'the axis will not hold its position'} ` +
+        `when the drive torque is removed; add a brake or a self-locking stage if it must hold. ` +
+        `If this axis carries a load that can fall, treat it as lifting duty: ` +
+        `self-locking is no substitute for a brake where a fall can hurt someone.`,
+      basis: BASIS_CONDITION,
+    };
+  }
+
+  if (!brake) {
+    if (!locks) {
+      return {
+        ...base,
+        severity: 'blocking',
+        measured: margin,
+        limit: 1,
+        message:
+          `Lifting screw without a brake is not self-locking: margin ${marginText} at minimum thread friction, below 1, ` +
+          `so the load can run down on its own.${backDriving} Fit a fail-safe (spring-applied) brake, or choose a smaller ` +
+          `lead or a higher-friction pair and re-check. ${NO_SUBSTITUTE}`,
+        basis: `${BASIS_CONDITION}; ${BASIS_BRAKE}`,
+      };
+    }
+    if (vibration) {
+      return {
+        ...base,
+        severity: 'blocking',
+        measured: true,
+        limit: false,
+        unit: null,
+        subject: 'design.duty.vibration',
+        message:
+          `Lifting screw without a brake under vibration: vibration lowers effective thread friction and can let a ` +
+          `self-locking screw (margin ${marginText}) creep or run down. Fit a fail-safe brake. ${NO_SUBSTITUTE}`,
+        basis: `${BASIS_VIBRATION}; ${BASIS_BRAKE}`,
+      };
+    }
+    if (fallsShort(margin, minMargin)) {
+      const [m, l] = sigPair(margin, minMargin);
+      return {
+        ...base,
+        severity: 'warning',
+        measured: margin,
+        limit: minMargin,
+        message:
+          `Lifting screw without a brake self-locks only narrowly: margin ${m} at minimum thread friction, below the ` +
+          `required ${l}. A change of lubrication, wear or vibration can remove it, so self-locking cannot be relied on. ` +
+          `Fit a brake, or reduce the lead angle. ${NO_SUBSTITUTE}`,
+        basis: `${BASIS_MARGIN}; ${BASIS_CONDITION}`,
+      };
+    }
+    const [m, l] = sigPair(margin, minMargin);
+    return {
+      ...base,
+      severity: 'info',
+      measured: margin,
+      limit: minMargin,
+      message:
+        `Lifting screw without a brake self-locks with margin ${m} at minimum thread friction (required ${l}). ` +
+        `${NO_SUBSTITUTE} Confirm that a runaway load cannot injure anyone, or fit a brake.`,
+      basis: `${BASIS_MARGIN}; ${BASIS_CONDITION}`,
+    };
+  }
+
+  // A brake is fitted: it, not the thread, holds the load.
+  if (!locks) {
+    return {
+      ...base,
+      severity: 'warning',
+      measured: margin,
+      limit: 1,
+      message:
+        `Lifting screw is not self-locking (margin ${marginText} at minimum thread friction, below 1); the brake alone ` +
+        `holds the load.${backDriving} Confirm the brake is fail-safe (spring-applied) and rated for that torque with a margin.`,
+      basis: `${BASIS_CONDITION}; ${BASIS_BRAKE}`,
+    };
+  }
+  if (vibration) {
+    return {
+      ...base,
+      severity: 'warning',
+      measured: true,
+      limit: false,
+      unit: null,
+      subject: 'design.duty.vibration',
+      message:
+        `Lifting screw under vibration: self-locking (margin ${marginText}) cannot be relied on, because vibration ` +
+        `lowers effective thread friction. Confirm the brake alone holds the full load. ${NO_SUBSTITUTE}`,
+      basis: `${BASIS_VIBRATION}; ${BASIS_BRAKE}`,
+    };
+  }
+  if (fallsShort(margin, minMargin)) {
+    const [m, l] = sigPair(margin, minMargin);
+    return {
+      ...base,
+      severity: 'info',
+      measured: margin,
+      limit: minMargin,
+      message:
+        `Self-locking margin ${m} is below ${l}; the brake holds the load, so confirm it is fail-safe and rated to hold ` +
+        `the load without help from thread friction.`,
+      basis: `${BASIS_MARGIN}; ${BASIS_CONDITION}`,
+    };
+  }
+  return null;
+}
+
+export const liftingSelfLockingRule: Rule = {
+  id: LIFTING_SELF_LOCKING_ID,
+  title: 'Self-locking on lifting duty',
+  basis: `${BASIS_CONDITION}; ${BASIS_BRAKE}`,
+  description:
+    'Lifting duty: not self-locking at minimum thread friction without a brake blocks; vibration without a brake blocks; ' +
+    'self-locking margin below selfLocking.minMargin without a brake warns; not self-locking with a brake, or vibration ' +
+    'with a brake, warns. Positioning and clamping duty: not self-locking is information only.',
+  check: liftingSelfLocking,
+};

@@ -1,0 +1,63 @@
+/** Pressure-velocity product at the thread mean diameter against the nut material's pV limit. */
+import type { Finding } from '@leadline/contracts';
+import { mpaMetresPerSecond, percent, sig } from '../format';
+import { exceeds, type Rule, type RuleContext } from '../rule';
+
+export const NUT_PV_ID = 'nut-pv';
+const BASIS =
+  'pV limits for bearing materials in boundary lubrication, Mott, Machine Elements in Mechanical Design, Table 16-1; ' +
+  'velocity at the thread mean diameter; common practice: warn within 20 % of the limit';
+
+export function nutPv({ evaluation, thresholds }: RuleContext): Finding | null {
+  const w = evaluation.wear;
+  const { maxPvRatio, warnPvRatio } = thresholds.wear;
+  const base = { ruleId: NUT_PV_ID, unit: 'Pa*m/s', subject: 'wear.pv', basis: BASIS } as const;
+  if (w.allowablePv === null) {
+    return {
+      ...base,
+      severity: 'warning',
+      measured: w.pv,
+      limit: null,
+      message:
+        `Nut heating and wear (pV) was not checked: no pV limit is on record for the nut material` +
+        `${w.pv === null ? '' : `; the pV is ${mpaMetresPerSecond(w.pv)}`}. Ask the nut supplier for the pV limit, with ` +
+        `the velocity definition it assumes, and give it as nut.allowablePv.`,
+    };
+  }
+  if (w.pv === null || w.pvRatio === null) {
+    return {
+      ...base,
+      severity: 'info',
+      measured: null,
+      limit: maxPvRatio * w.allowablePv,
+      message:
+        `No operating speed was given, so pV was not checked against the limit ${mpaMetresPerSecond(w.allowablePv)}. ` +
+        `Give duty.speed or duty.linearSpeed if the screw runs under power; a hand-operated screw can ignore this.`,
+    };
+  }
+  const blocking = exceeds(w.pvRatio, maxPvRatio);
+  if (!blocking && !exceeds(w.pvRatio, warnPvRatio)) return null;
+  const ratioLimit = blocking ? maxPvRatio : warnPvRatio;
+  const velocity = w.slidingVelocity === null ? '' : ` (rubbing speed ${sig(w.slidingVelocity * 60)} m/min)`;
+  return {
+    ...base,
+    severity: blocking ? 'blocking' : 'warning',
+    measured: w.pv,
+    limit: ratioLimit * w.allowablePv,
+    message:
+      `Nut pV ${mpaMetresPerSecond(w.pv)}${velocity} is ${percent(w.pvRatio)} of the limit ` +
+      `${mpaMetresPerSecond(w.allowablePv)}, above the ${blocking ? 'limit' : 'warning level'} of ${percent(ratioLimit)}. ` +
+      `Above its pV limit the nut overheats and wears rapidly. Reduce the speed or the pressure (longer nut, larger thread), ` +
+      `improve lubrication, or choose a nut material with a higher pV limit.`,
+  };
+}
+
+export const nutPvRule: Rule = {
+  id: NUT_PV_ID,
+  title: 'Nut pV (heating and wear)',
+  basis: BASIS,
+  description:
+    'Blocks when pV exceeds wear.maxPvRatio of the limit, warns above wear.warnPvRatio; warns when no pV limit is known; ' +
+    'information when no operating speed is given.',
+  check: nutPv,
+};

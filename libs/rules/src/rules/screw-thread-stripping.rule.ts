@@ -1,0 +1,32 @@
+/** Shear stripping of the screw threads at the root diameter over the engaged length. */
+import type { Finding } from '@leadline/contracts';
+import { SHEAR_YIELD_RATIO } from '@leadline/mechanics';
+import type { Rule, RuleContext } from '../rule';
+import { STRENGTH_BASIS, strengthFinding } from './strength-check';
+
+export const SCREW_THREAD_STRIPPING_ID = 'screw-thread-stripping';
+const FORMULA_BASIS = 'stripping shear over the engaged threads against 0.577 S_y (distortion energy, Shigley 10th ed. Eq. (5-21))';
+
+export function screwThreadStripping({ design, evaluation, thresholds }: RuleContext): Finding | null {
+  return strengthFinding({
+    ruleId: SCREW_THREAD_STRIPPING_ID,
+    subject: 'safetyFactors.strippingScrew',
+    what: 'Screw thread stripping (shear at the root diameter)',
+    safetyFactor: evaluation.safetyFactors.strippingScrew,
+    minimum: thresholds.strength.minSafetyFactor[design.duty.kind],
+    duty: design.duty.kind,
+    stress: evaluation.stresses.stripping.screw,
+    strength: SHEAR_YIELD_RATIO * design.screw.yieldStrength,
+    strengthName: 'screw shear yield (0.577 S_y)',
+    remedy: 'Lengthen the nut, or use a larger thread or a stronger screw material.',
+    formulaBasis: FORMULA_BASIS,
+  });
+}
+
+export const screwThreadStrippingRule: Rule = {
+  id: SCREW_THREAD_STRIPPING_ID,
+  title: 'Screw thread stripping',
+  basis: `${STRENGTH_BASIS}; ${FORMULA_BASIS}`,
+  description: 'Blocks when the screw-thread stripping factor of safety is below strength.minSafetyFactor for the duty kind.',
+  check: screwThreadStripping,
+};

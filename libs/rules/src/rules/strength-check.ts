@@ -1,0 +1,50 @@
+/**
+ * Shared shape of the static-strength rules: a yield-based factor of safety from the engine
+ * (capacity over demand) held against the rule set's minimum for the duty kind.
+ */
+import type { Finding } from '@leadline/contracts';
+import type { DutyKind } from '@leadline/mechanics';
+import { mpa, sigPair } from '../format';
+import { fallsShort } from '../rule';
+
+/** Common practice behind the minimum static factors of safety. */
+export const STRENGTH_BASIS =
+  'common practice on yield (defaults: lifting 3.0, other duty 2.0), by analogy with ASME BTH-1 design factors ' +
+  'N_d = 3.00 (Category B) and 2.00 (Category A) (from memory; BTH-1 does not itself cover screw jacks)';
+
+export interface StrengthCheck {
+  readonly ruleId: string;
+  readonly subject: string;
+  /** What is checked, e.g. "Screw body (axial + torsion, von Mises)" */
+  readonly what: string;
+  readonly safetyFactor: number;
+  readonly minimum: number;
+  readonly duty: DutyKind;
+  /** Stress and the strength it is held against [Pa], for the message */
+  readonly stress: number;
+  readonly strength: number;
+  readonly strengthName: string;
+  /** What to change when the check fails */
+  readonly remedy: string;
+  /** Formula basis of the engine's stress, appended to the threshold basis */
+  readonly formulaBasis: string;
+}
+
+/** A blocking finding when the factor of safety falls short of the minimum, else null. */
+export function strengthFinding(c: StrengthCheck): Finding | null {
+  if (!fallsShort(c.safetyFactor, c.minimum)) return null;
+  const [n, limit] = sigPair(c.safetyFactor, c.minimum);
+  return {
+    ruleId: c.ruleId,
+    severity: 'blocking',
+    measured: c.safetyFactor,
+    limit: c.minimum,
+    unit: '-',
+    subject: c.subject,
+    message:
+      `${c.what}: stress ${mpa(c.stress)} against ${c.strengthName} ${mpa(c.strength)} gives a factor of safety of ${n}, ` +
+      `below the minimum ${limit} for ${c.duty} duty. Below this margin, load peaks, material scatter and model ` +
+      `simplifications can reach yield. ${c.remedy}`,
+    basis: `${STRENGTH_BASIS}; ${c.formulaBasis}`,
+  };
+}
