@@ -32,6 +32,7 @@ describe('NIST SP 811 App. B conversions through parseQuantity', () => {
     ['lbf*in', 'torque', LBF * IN, 1.129848e-1, true],
     ['lbf*ft', 'torque', LBF * FT, 1.355818, true],
     ['lb/in^3', 'density', LB / IN ** 3, 2.76799e4, true],
+    ['lb/ft^3', 'density', LB / FT ** 3, 1.601846e1, true], // "lb" is the avoirdupois pound (mass), 0.45359237 kg
     ['in/min', 'linearSpeed', IN / 60, null, true], // derived from the exact inch and minute; not a B.8 row
     ['ft/min', 'linearSpeed', FT / 60, 5.08e-3, true],
     ['psi*ft/min', 'pv', ((LBF / IN ** 2) * FT) / 60, null, true], // Mott's pV unit, derived from exact psi and ft/min
