@@ -1,6 +1,7 @@
 /**
  * Builds the Nest application on Fastify for a configuration. Used by main.ts, the end-to-end tests and the benchmark.
  */
+import type { Type } from '@nestjs/common';
 import { NestFactory } from '@nestjs/core';
 import { FastifyAdapter, type NestFastifyApplication } from '@nestjs/platform-fastify';
 import type { DestinationStream } from 'pino';
@@ -15,6 +16,8 @@ export interface CreateAppOptions {
   env: Record<string, string | undefined>;
   /** Where JSON logs go (a test captures them) */
   logDestination?: DestinationStream;
+  /** Extra modules mounted beside the service (the benchmark's baseline routes) */
+  extraModules?: Type[];
 }
 
 export async function createApp(options: CreateAppOptions): Promise<{ app: NestFastifyApplication; config: AppConfig }> {
@@ -24,7 +27,7 @@ export async function createApp(options: CreateAppOptions): Promise<{ app: NestF
     loggerInstance: logger,
     bodyLimit: config.LEADLINE_BODY_LIMIT,
   });
-  const app = await NestFactory.create<NestFastifyApplication>(AppModule.forRoot(config), adapter, {
+  const app = await NestFactory.create<NestFastifyApplication>(AppModule.forRoot(config, options.extraModules ?? []), adapter, {
     logger: new PinoNestLogger(logger),
     bufferLogs: false,
   });

@@ -1,4 +1,4 @@
-import { Module, type DynamicModule } from '@nestjs/common';
+import { Module, type DynamicModule, type Type } from '@nestjs/common';
 import { ConfigModule } from '@nestjs/config';
 import { CalculationsModule } from './calculations/calculations.module';
 import { EvaluationsModule } from './evaluations/evaluations.module';
@@ -13,7 +13,7 @@ import { RulesModule } from './rules/rules.module';
 @Module({})
 export class AppModule {
   /** The whole service for one validated configuration. */
-  static forRoot(config: AppConfig): DynamicModule {
+  static forRoot(config: AppConfig, extraModules: Type[] = []): DynamicModule {
     return {
       module: AppModule,
       global: true,
@@ -27,6 +27,7 @@ export class AppModule {
         CalculationsModule,
         LibraryModule,
         HealthModule,
+        ...extraModules,
       ],
       providers: [{ provide: APP_CONFIG, useValue: config }],
       exports: [APP_CONFIG],

@@ -77,54 +77,54 @@ export interface ThreadSpec {
  */
 export function threadGeometry(spec: ThreadSpec): ThreadGeometry {
   const { form, majorDiameter: d, pitch: p, starts } = spec;
-  const base = { form, majorDiameter: d, pitch: p, starts, lead: starts * p };
+  // One object literal at the end (no spreads): this runs on every request.
+  let dm: number, dr: number, h: number, alpha: number, trailing: number, nutMajor = d, ac = 0;
+  let dmFormula = 'mean-diameter-half-pitch', drFormula = 'minor-diameter-full-pitch', standard: string;
   switch (form) {
     case 'square':
-      return {
-        ...base, meanDiameter: d - p / 2, minorDiameter: d - p, threadHeight: p / 2, flankAngle: 0, trailingFlankAngle: 0,
-        nutMajorDiameter: d, crestClearance: 0, meanDiameterFormula: 'mean-diameter-half-pitch',
-        minorDiameterFormula: 'minor-diameter-full-pitch', standard: 'square thread (Shigley 10th ed., Fig. 8-3a)',
-      };
+      [dm, dr, h, alpha, trailing] = [d - p / 2, d - p, p / 2, 0, 0];
+      standard = 'square thread (Shigley 10th ed., Fig. 8-3a)';
+      break;
     case 'acme':
-      return {
-        ...base, meanDiameter: d - p / 2, minorDiameter: d - p, threadHeight: p / 2, flankAngle: 14.5, trailingFlankAngle: 14.5,
-        nutMajorDiameter: d, crestClearance: 0, meanDiameterFormula: 'mean-diameter-half-pitch',
-        minorDiameterFormula: 'minor-diameter-full-pitch', standard: 'ASME B1.5 general-purpose Acme (29 deg), basic',
-      };
+      [dm, dr, h, alpha, trailing] = [d - p / 2, d - p, p / 2, 14.5, 14.5];
+      standard = 'ASME B1.5 general-purpose Acme (29 deg), basic';
+      break;
     case 'stub-acme':
-      return {
-        ...base, meanDiameter: d - 0.3 * p, minorDiameter: d - 0.6 * p, threadHeight: 0.3 * p, flankAngle: 14.5,
-        trailingFlankAngle: 14.5, nutMajorDiameter: d, crestClearance: 0, meanDiameterFormula: 'mean-diameter-stub-acme',
-        minorDiameterFormula: 'minor-diameter-stub-acme', standard: 'ASME B1.8 stub Acme (29 deg), basic',
-      };
-    case 'trapezoidal': {
-      const ac = trapezoidalCrestClearance(p / MM) * MM;
-      return {
-        ...base, meanDiameter: d - p / 2, minorDiameter: d - p - 2 * ac, threadHeight: p / 2, flankAngle: 15,
-        trailingFlankAngle: 15, nutMajorDiameter: d + 2 * ac, crestClearance: ac, meanDiameterFormula: 'mean-diameter-half-pitch',
-        minorDiameterFormula: 'minor-diameter-trapezoidal', standard: 'ISO 2901/2903/2904 metric trapezoidal (30 deg)',
-      };
-    }
+      [dm, dr, h, alpha, trailing] = [d - 0.3 * p, d - 0.6 * p, 0.3 * p, 14.5, 14.5];
+      dmFormula = 'mean-diameter-stub-acme';
+      drFormula = 'minor-diameter-stub-acme';
+      standard = 'ASME B1.8 stub Acme (29 deg), basic';
+      break;
+    case 'trapezoidal':
+      ac = trapezoidalCrestClearance(p / MM) * MM;
+      [dm, dr, h, alpha, trailing] = [d - p / 2, d - p - 2 * ac, p / 2, 15, 15];
+      nutMajor = d + 2 * ac;
+      drFormula = 'minor-diameter-trapezoidal';
+      standard = 'ISO 2901/2903/2904 metric trapezoidal (30 deg)';
+      break;
     case 'buttress': {
       const profile = BUTTRESS_PROFILES[spec.loadFlankAngle as ButtressLoadFlank];
       if (!profile) throw new Error('buttress geometry is tabulated for 3 deg and 7 deg load flanks only');
-      const h = profile.engagementHeight * p;
-      return {
-        ...base, meanDiameter: d - h, minorDiameter: d - 2 * profile.externalThreadHeight * p, threadHeight: h,
-        flankAngle: spec.loadFlankAngle as number, trailingFlankAngle: profile.trailingFlankAngle, nutMajorDiameter: d,
-        crestClearance: 0, meanDiameterFormula: 'mean-diameter-buttress', minorDiameterFormula: 'minor-diameter-buttress',
-        standard: profile.standard,
-      };
+      h = profile.engagementHeight * p;
+      [dm, dr, alpha, trailing] = [d - h, d - 2 * profile.externalThreadHeight * p, spec.loadFlankAngle as number, profile.trailingFlankAngle];
+      dmFormula = 'mean-diameter-buttress';
+      drFormula = 'minor-diameter-buttress';
+      standard = profile.standard;
+      break;
     }
     case 'unified':
     case 'iso-metric':
-      return {
-        ...base, meanDiameter: d - 0.649519 * p, minorDiameter: d - 1.226869 * p, threadHeight: 0.541266 * p, flankAngle: 30,
-        trailingFlankAngle: 30, nutMajorDiameter: d, crestClearance: 0, meanDiameterFormula: 'mean-diameter-60deg',
-        minorDiameterFormula: 'minor-diameter-60deg',
-        standard: form === 'unified' ? 'ASME B1.1 unified (60 deg), basic' : 'ISO 68-1 metric (60 deg), basic',
-      };
+      [dm, dr, h, alpha, trailing] = [d - 0.649519 * p, d - 1.226869 * p, 0.541266 * p, 30, 30];
+      dmFormula = 'mean-diameter-60deg';
+      drFormula = 'minor-diameter-60deg';
+      standard = form === 'unified' ? 'ASME B1.1 unified (60 deg), basic' : 'ISO 68-1 metric (60 deg), basic';
+      break;
   }
+  return {
+    form, majorDiameter: d, pitch: p, starts, lead: starts * p, meanDiameter: dm, minorDiameter: dr, threadHeight: h,
+    flankAngle: alpha, trailingFlankAngle: trailing, nutMajorDiameter: nutMajor, crestClearance: ac,
+    meanDiameterFormula: dmFormula, minorDiameterFormula: drFormula, standard,
+  };
 }
 
 /**

@@ -145,15 +145,20 @@ export class RecordStore {
    * its content, and the head points at the last link (a removed tail is caught too).
    */
   async verify(productId: string): Promise<ChainVerification> {
-    const head = await this.db.query<{ seq: string; hash: string }>(`SELECT seq, hash FROM chain_heads WHERE product_id = $1`, [productId]);
+    // One snapshot for the head and every link, so concurrent appends cannot make a sound chain look broken.
+    return this.db.transaction((q) => this.verifyIn(q, productId), 'repeatable read');
+  }
+
+  private async verifyIn(q: Queryer, productId: string): Promise<ChainVerification> {
+    const head = await q.query<{ seq: string; hash: string }>(`SELECT seq, hash FROM chain_heads WHERE product_id = $1`, [productId]);
     if (head.length === 0) throw notFound(`product ${productId}`);
-    const revisions = await this.db.query<RevisionRow>(
+    const revisions = await q.query<RevisionRow>(
       `SELECT id, product_id, calculation_id, revision, seq, note, input::text AS input, normalized, evaluation, findings, verdict,
               engine_version, rule_set_version, author, ${TS_TEXT('created_at')} AS created_at, hash, previous_hash
          FROM revisions WHERE product_id = $1`,
       [productId],
     );
-    const events = await this.db.query<EventRow>(
+    const events = await q.query<EventRow>(
       `SELECT id, product_id, seq, type, calculation_id, revision_id, actor, data, ${TS_TEXT('created_at')} AS created_at, hash, previous_hash
          FROM events WHERE product_id = $1`,
       [productId],

@@ -49,13 +49,16 @@ export class Database implements OnApplicationShutdown {
     return this.queue ? this.queue.run(run) : run();
   }
 
-  /** Runs the body in one transaction on one connection; commits on success, rolls back on any error. */
-  transaction<T>(body: (q: Queryer) => Promise<T>): Promise<T> {
+  /**
+   * Runs the body in one transaction on one connection; commits on success, rolls back on any error.
+   * @param isolation - 'repeatable read' gives the body one snapshot (consistent multi-table reads)
+   */
+  transaction<T>(body: (q: Queryer) => Promise<T>, isolation: 'read committed' | 'repeatable read' = 'read committed'): Promise<T> {
     const run = async () => {
       const runner: QueryRunner = this.dataSource.createQueryRunner();
       await runner.connect();
       try {
-        await runner.query('BEGIN');
+        await runner.query(isolation === 'read committed' ? 'BEGIN' : 'BEGIN ISOLATION LEVEL REPEATABLE READ');
         const result = await body({ query: (sql, params = []) => runner.query(sql, params) });
         await runner.query('COMMIT');
         return result;

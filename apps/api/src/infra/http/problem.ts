@@ -58,7 +58,10 @@ export class ProblemFilter implements ExceptionFilter {
     const request = ctx.getRequest<FastifyRequest>();
     const problem = toProblem(exception);
     problem.instance = request.url.split('?')[0];
-    if (problem.status >= 500) this.logger.error({ err: exception }, 'unhandled error');
+    if (problem.status >= 500) {
+      const err = exception instanceof Error ? exception : new Error(String(exception));
+      this.logger.error(`unhandled error: ${err.message}`, err.stack);
+    }
     reply.status(problem.status).header('content-type', 'application/problem+json').send(problem);
   }
 }
