@@ -23,7 +23,10 @@ import type { ReportView, SafetyFactorRow } from './report-model';
 // Loading vega from CommonJS
 
 type VegaModule = typeof import('vega');
-type VegaLiteModule = typeof import('vega-lite');
+/** The one vega-lite function used (its types do not resolve under moduleResolution node10). */
+interface VegaLiteModule {
+  compile(spec: Record<string, unknown>): { spec: import('vega').Spec };
+}
 
 /**
  * vega and vega-lite are ESM with top-level await, so require() cannot load them. With "module": "commonjs"
@@ -34,7 +37,12 @@ const nativeImport = new Function('specifier', 'return import(specifier)') as <T
 
 let modules: Promise<{ vega: VegaModule; vl: VegaLiteModule }> | null = null;
 function loadVega(): Promise<{ vega: VegaModule; vl: VegaLiteModule }> {
-  modules ??= Promise.all([nativeImport<VegaModule>('vega'), nativeImport<VegaLiteModule>('vega-lite')]).then(([vega, vl]) => ({ vega, vl }));
+  // One after the other: Jest's ESM loader fails on two concurrent imports that share dependencies.
+  modules ??= (async () => {
+    const vega = await nativeImport<VegaModule>('vega');
+    const vl = await nativeImport<VegaLiteModule>('vega-lite');
+    return { vega, vl };
+  })();
   modules.catch(() => (modules = null));
   return modules;
 }
@@ -168,10 +176,12 @@ const COLORS = { raise: '#1f5fa8', lower: '#b3471d', thread: '#7a5b9a', band: '#
 
 const baseConfig = {
   font: FONT,
+  // No ARIA attributes: they repeat every datum unrounded; the figure caption describes the chart.
+  aria: false,
   background: '#ffffff',
   view: { stroke: '#c4c9cf' },
   axis: { labelFontSize: 10, titleFontSize: 10.5, titleFontWeight: 'normal', labelColor: INK, titleColor: INK, gridColor: '#e6e9ec', domainColor: '#69727d', tickColor: '#69727d' },
-  legend: { labelFontSize: 10, titleFontSize: 10, orient: 'bottom', direction: 'horizontal', symbolStrokeWidth: 2 },
+  legend: { labelFontSize: 10, titleFontSize: 10, orient: 'bottom', direction: 'horizontal', symbolStrokeWidth: 2, labelLimit: 280, columnPadding: 18 },
   text: { font: FONT },
 };
 
@@ -228,7 +238,7 @@ export function torqueFrictionSpec(sweep: TorqueSweep, system: UnitSystem): Spec
         encoding: { x: { field: 'f', type: 'quantitative' }, y: { field: 'torque', type: 'quantitative' } },
       },
       {
-        data: { values: [{ f: sweep.boundaryFriction, label: `self-locking boundary f = cos α_n tan λ = ${sig(sweep.boundaryFriction)}` }] },
+        data: { values: [{ f: sweep.boundaryFriction, label: `self-locking boundary f = cos αₙ tan λ = ${sig(sweep.boundaryFriction)}` }] },
         layer: [
           { mark: { type: 'rule', color: COLORS.rule, strokeWidth: 1.5, strokeDash: [6, 3] }, encoding: { x: { field: 'f', type: 'quantitative' } } },
           {
@@ -304,17 +314,17 @@ export function safetyFactorSpec(rows: readonly SafetyFactorRow[]): Spec | null 
   // Large factors (stripping is often 20+) would flatten the rest: cap the axis and print the true value.
   const cap = Math.max(5, Math.ceil(Math.max(...limits) * 2.5));
   const values = shown.map((r) => ({
-    label: r.label,
+    label: r.shortLabel,
     value: Math.min(r.value as number, cap),
     text: `${r.valueText}${r.limit === null ? '' : `  (min ${r.limitText})`}`,
     limit: r.limit,
     status: r.status === 'below' ? 'below the minimum' : r.status === 'meets' ? 'meets the minimum' : 'no minimum recorded',
   }));
   const STATUS = ['meets the minimum', 'below the minimum', 'no minimum recorded'];
-  const y = { field: 'label', type: 'nominal', title: null, sort: null, axis: { labelLimit: 230, labelFontSize: 10 } };
+  const y = { field: 'label', type: 'nominal', title: null, sort: null, axis: { labelLimit: 200, labelFontSize: 10 } };
   return {
-    width: 300,
-    height: { step: 26 },
+    width: 400,
+    height: { step: 24 },
     config: baseConfig,
     data: { values },
     layer: [
@@ -342,15 +352,31 @@ export function safetyFactorSpec(rows: readonly SafetyFactorRow[]): Spec | null 
 // ---------------------------------------------------------------------------------------------------------
 // Rendering
 
-/** Compiles a vega-lite spec and renders it headless to an SVG string fit to inline in HTML. */
-export async function specToSvg(spec: Spec): Promise<string> {
+/**
+ * Compiles a vega-lite spec and renders it headless to an SVG string fit to inline in HTML.
+ * @param idPrefix - prefix of the SVG's internal ids (clip paths), unique per chart within one document
+ */
+export async function specToSvg(spec: Spec, idPrefix: string, label: string): Promise<string> {
   const { vega, vl } = await loadVega();
-  const compiled = vl.compile(spec as unknown as Parameters<VegaLiteModule['compile']>[0]).spec;
+  const compiled = vl.compile(spec).spec;
   const view = new vega.View(vega.parse(compiled), { renderer: 'none' });
   try {
     const svg = await view.toSVG();
-    // Inline SVG needs no namespace declarations; dropping them keeps every URL out of the document.
-    return svg.replace(/\s+xmlns(:xlink)?="[^"]*"/g, '').replace(/<svg /, '<svg role="img" ');
+    // vega numbers clip paths with a process-wide counter; renumber them per chart so the same revision
+    // always gives the same document and two charts in one page never share an id.
+    const ids = new Map<string, string>();
+    const local = (id: string): string => {
+      if (!ids.has(id)) ids.set(id, `${idPrefix}-clip-${ids.size + 1}`);
+      return ids.get(id) as string;
+    };
+    return (
+      svg
+        // Inline SVG needs no namespace declarations; dropping them keeps every URL out of the document.
+        .replace(/\s+xmlns(:xlink)?="[^"]*"/g, '')
+        .replace(/id="(clip\d+)"/g, (_m, id: string) => `id="${local(id)}"`)
+        .replace(/url\(#(clip\d+)\)/g, (_m, id: string) => `url(#${local(id)})`)
+        .replace(/<svg /, `<svg role="img" aria-label="${label.replace(/[&<>"]/g, '')}" `)
+    );
   } finally {
     view.finalize();
   }
@@ -369,9 +395,9 @@ export async function renderReportCharts(revision: RevisionRecord, view: ReportV
   const curve = columnCurve(design, e);
   const sfSpec = safetyFactorSpec(view.safetyFactors);
   const [torqueFriction, column, safetyFactors] = await Promise.all([
-    specToSvg(torqueFrictionSpec(torqueFrictionSweep(design, e), view.unitSystem)),
-    curve ? specToSvg(columnSpec(curve, view.unitSystem)) : Promise.resolve(null),
-    sfSpec ? specToSvg(sfSpec) : Promise.resolve(null),
+    specToSvg(torqueFrictionSpec(torqueFrictionSweep(design, e), view.unitSystem), 'torque', 'Torque against thread friction'),
+    curve ? specToSvg(columnSpec(curve, view.unitSystem), 'column', 'Column curve with the design point') : Promise.resolve(null),
+    sfSpec ? specToSvg(sfSpec, 'factors', 'Safety factors against their minimums') : Promise.resolve(null),
   ]);
   return { torqueFriction, column, safetyFactors };
 }

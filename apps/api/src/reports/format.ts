@@ -112,7 +112,7 @@ export function sig(x: number): string {
   const three = a.toPrecision(3);
   const digits = three.replace(/^[0.]+/, '').startsWith('1') ? 4 : 3;
   const exponent = Math.floor(Math.log10(Number(a.toPrecision(digits))));
-  if (exponent >= 7 || exponent <= -4) {
+  if (exponent >= 7 || exponent <= -5) {
     const mantissa = (a / 10 ** exponent).toPrecision(digits);
     return `${sign}${mantissa} × 10${superscript(exponent)}`;
   }
@@ -156,7 +156,9 @@ export function toDisplay(si: number, kind: QuantityKind, system: UnitSystem): n
 /** The number alone, converted and rounded as the report prints it. */
 export function formatNumber(si: number, kind: QuantityKind, system: UnitSystem): string {
   const value = toDisplay(si, kind, system);
-  return kind === 'coefficient' ? coefficient(value) : sig(value);
+  if (kind === 'coefficient') return coefficient(value);
+  if (kind === 'count' && Number.isInteger(value)) return String(value);
+  return sig(value);
 }
 
 /** Number and unit as the report prints them, e.g. "26.2 N·m", "14.97°", "0.15". */

@@ -20,7 +20,6 @@ import {
   formatQuantity,
   siRecord,
   sig,
-  toDisplay,
   unitSymbol,
   type QuantityKind,
   type UnitSystem,
@@ -89,6 +88,8 @@ export interface CalcLine {
   readonly source: string;
   /** "symbol = substituted = result", plain text */
   readonly substitution: string;
+  /** The same as escaped HTML, the symbol with its subscripts */
+  readonly substitutionHtml: string;
   /** Result number as printed, and its unit */
   readonly value: string;
   readonly unit: string;
@@ -110,6 +111,8 @@ export interface CalcSection {
 export interface SafetyFactorRow {
   readonly key: string;
   readonly label: string;
+  /** Few words, for the chart axis */
+  readonly shortLabel: string;
   readonly path: string;
   readonly value: number | null;
   readonly limit: number | null;
@@ -207,6 +210,9 @@ export interface ReportView {
     readonly stateLabel: string;
     readonly verdict: Verdict;
     readonly verdictLabel: string;
+    readonly author: string;
+    readonly reviewer: string;
+    readonly decidedAt: string | null;
     readonly rows: readonly KeyValue[];
   };
   readonly summary: readonly KeyValue[];
@@ -313,6 +319,17 @@ const PATH_LABELS: readonly (readonly [string, string])[] = [
   ['power.linearSpeed', 'Nut travel speed'],
   ['power.input', 'Input power at maximum friction'],
   ['drive.margin', 'Drive torque margin'],
+  ['design.duty.brake', 'Brake fitted'],
+  ['design.duty.vibration', 'Vibration expected'],
+  ['design.friction.thread', 'Thread friction range'],
+  ['design.friction.thread.source', 'Source of the thread friction range'],
+  ['design.friction.collar.source', 'Source of the collar friction range'],
+  ['buckling.endConditionConstant', 'End-condition constant'],
+  ['safetyFactors.bodyVonMises', 'Safety factor of the screw body'],
+  ['safetyFactors.firstThreadRoot', 'Safety factor at the first thread root'],
+  ['safetyFactors.strippingScrew', 'Safety factor against stripping the screw threads'],
+  ['safetyFactors.strippingNut', 'Safety factor against stripping the nut threads'],
+  ['safetyFactors.buckling', 'Buckling safety factor'],
 ];
 const LABEL_OF = new Map(PATH_LABELS);
 const ORDER_OF = new Map(PATH_LABELS.map(([p], i) => [p, i]));
@@ -330,13 +347,13 @@ const SECTIONS: readonly { id: string; title: string; prefixes: readonly string[
 ];
 
 /** Safety factors the report holds against minimums; a finding on any of the paths supplies the minimum. */
-const FACTORS: readonly { key: string; label: string; paths: readonly string[]; value: (e: Evaluation) => number | null }[] = [
-  { key: 'bodyVonMises', label: 'Screw body, S_y / von Mises', paths: ['safetyFactors.bodyVonMises'], value: (e) => e.safetyFactors.bodyVonMises },
-  { key: 'firstThreadRoot', label: 'First thread root, S_y / von Mises', paths: ['safetyFactors.firstThreadRoot'], value: (e) => e.safetyFactors.firstThreadRoot },
-  { key: 'strippingScrew', label: 'Screw thread stripping, 0.577 S_y / τ', paths: ['safetyFactors.strippingScrew'], value: (e) => e.safetyFactors.strippingScrew },
-  { key: 'strippingNut', label: 'Nut thread stripping, 0.577 S_y,nut / τ', paths: ['safetyFactors.strippingNut'], value: (e) => e.safetyFactors.strippingNut },
-  { key: 'buckling', label: 'Column buckling, P_cr / F', paths: ['safetyFactors.buckling', 'buckling.safetyFactor'], value: (e) => e.safetyFactors.buckling },
-  { key: 'drive', label: 'Drive torque, T_av / T_R,max', paths: ['drive.margin'], value: (e) => e.drive?.margin ?? null },
+const FACTORS: readonly { key: string; label: string; shortLabel: string; paths: readonly string[]; value: (e: Evaluation) => number | null }[] = [
+  { key: 'bodyVonMises', label: 'Screw body, S_y / von Mises', shortLabel: 'Screw body', paths: ['safetyFactors.bodyVonMises'], value: (e) => e.safetyFactors.bodyVonMises },
+  { key: 'firstThreadRoot', label: 'First thread root, S_y / von Mises', shortLabel: 'First thread root', paths: ['safetyFactors.firstThreadRoot'], value: (e) => e.safetyFactors.firstThreadRoot },
+  { key: 'strippingScrew', label: 'Screw thread stripping, 0.577 S_y / τ_s', shortLabel: 'Stripping, screw', paths: ['safetyFactors.strippingScrew'], value: (e) => e.safetyFactors.strippingScrew },
+  { key: 'strippingNut', label: 'Nut thread stripping, 0.577 S_y,nut / τ_n', shortLabel: 'Stripping, nut', paths: ['safetyFactors.strippingNut'], value: (e) => e.safetyFactors.strippingNut },
+  { key: 'buckling', label: 'Column buckling, P_cr / F', shortLabel: 'Buckling', paths: ['safetyFactors.buckling', 'buckling.safetyFactor'], value: (e) => e.safetyFactors.buckling },
+  { key: 'drive', label: 'Drive torque, T_av / T_R,max', shortLabel: 'Drive torque', paths: ['drive.margin'], value: (e) => e.drive?.margin ?? null },
 ];
 
 // ---------------------------------------------------------------------------------------------------------
@@ -347,13 +364,25 @@ const escapeHtml = (s: string): string =>
 
 const GREEK: Record<string, string> = { alpha: 'α', lambda: 'λ', sigma: 'σ', tau: 'τ', rho: 'ρ', beta: 'β', pi: 'π', omega: 'ω' };
 
+/** Registry plain text with Greek letters and root signs in place ("alpha_n" -> "α_n"). */
+export function mathText(text: string): string {
+  return text
+    .replace(/(?<![A-Za-z])(alpha|lambda|sigma|tau|rho|beta|pi|omega)(?![A-Za-z])/g, (w) => GREEK[w])
+    .replace(/(?<![A-Za-z])sqrt(?![A-Za-z])/g, '√');
+}
+
 /** Plain-text symbols and equations from the registry ("alpha_n", "d_r^2") as escaped HTML with Greek, sub and sup. */
 export function mathHtml(text: string): string {
-  return escapeHtml(text)
-    .replace(/(?<![A-Za-z])(alpha|lambda|sigma|tau|rho|beta|pi|omega)(?![A-Za-z])/g, (w) => GREEK[w])
-    .replace(/(?<![A-Za-z])sqrt(?![A-Za-z])/g, '√')
-    .replace(/([A-Za-zα-ω)'&#;39]+?)_([A-Za-z0-9,]+)/g, (_m, base: string, sub: string) => `${base}<sub>${sub}</sub>`)
-    .replace(/\^(\d+)/g, '<sup>$1</sup>');
+  return escapeHtml(mathText(text))
+    .replace(/([A-Za-zα-ω)'&#;39]+?)_([A-Za-z0-9]+(?:,[A-Za-z0-9]+)*)/g, (_m, base: string, sub: string) => `${base}<sub>${sub}</sub>`)
+    .replace(/\^(\d+)/g, '<sup>$1</sup>')
+    .replace(/ - /g, ' − ')
+    .replace(/(^|[\s(=])-(?=[\s(/\dA-Za-zα-ω])/g, '$1−');
+}
+
+/** A dotted path as escaped HTML that may break after each dot. */
+export function pathHtml(path: string): string {
+  return escapeHtml(path).replace(/\./g, '.<wbr>');
 }
 
 /** Readable name of a result path, with the friction end as a suffix. */
@@ -445,7 +474,9 @@ function calcLine(path: string, evaluation: Evaluation, system: UnitSystem, find
   const inputsList = Object.entries(substituted)
     .map(([k, v]) => `${k} = ${v}`)
     .join(', ');
-  const substitution = rhs !== null ? `${symbol} = ${rhs} = ${display}` : `${symbol} = ${display}, with ${inputsList}`;
+  const tail = rhs !== null ? ` = ${rhs} = ${display}` : ` = ${display}, with ${mathText(inputsList)}`;
+  const substitution = `${mathText(symbol)}${tail}`;
+  const substitutionHtml = `${mathHtml(symbol)}${escapeHtml(tail)}`;
   const regimeLabel =
     path === 'buckling.criticalLoad' && evaluation.buckling.regime
       ? `Critical load (${evaluation.buckling.regime === 'euler' ? 'Euler' : 'Johnson'})`
@@ -459,6 +490,7 @@ function calcLine(path: string, evaluation: Evaluation, system: UnitSystem, find
     equationHtml: mathHtml(formula?.equation ?? '(formula not in this engine’s registry)'),
     source: formula?.source ?? '—',
     substitution,
+    substitutionHtml,
     value,
     unit,
     display,
@@ -513,7 +545,7 @@ function buildSections(design: Design, e: Evaluation, system: UnitSystem, findin
   const sections: CalcSection[] = [];
   let n = 0;
   for (const s of SECTIONS) {
-    const mine = paths.filter((p) => !taken.has(p) && s.prefixes.some((prefix) => p.startsWith(prefix) || `${p}.` === prefix));
+    const mine = paths.filter((p) => !taken.has(p) && s.prefixes.some((prefix) => p.startsWith(prefix)));
     mine.forEach((p) => taken.add(p));
     if (mine.length === 0 && s.id !== 'column') continue;
     n++;
@@ -547,6 +579,7 @@ function buildSafetyFactors(e: Evaluation, findings: readonly Finding[]): Safety
     return {
       key: factor.key,
       label: factor.label,
+      shortLabel: factor.shortLabel,
       path: factor.paths[0],
       value,
       limit,
@@ -825,7 +858,7 @@ export function buildReportView(input: ReportInput): ReportView {
   const title = `Calculation report: ${calculation.title}`;
   const headerRows: KeyValue[] = [
     { label: 'Product', value: `${product.code}, ${product.name}` },
-    { label: 'Calculation', value: `${calculation.title}`, note: calculation.id, mono: false },
+    { label: 'Calculation', value: calculation.title, note: calculation.id },
     { label: 'Revision', value: String(revision.revision), note: revision.note ?? undefined },
     { label: 'Review state', value: STATE_LABELS[input.state] ?? input.state },
     { label: 'Verdict of the rules', value: VERDICT_LABELS[revision.verdict] ?? revision.verdict },
@@ -854,6 +887,9 @@ export function buildReportView(input: ReportInput): ReportView {
       stateLabel: STATE_LABELS[input.state] ?? input.state,
       verdict: revision.verdict,
       verdictLabel: VERDICT_LABELS[revision.verdict] ?? revision.verdict,
+      author: actorName(revision.author),
+      reviewer: actorName(input.reviewer),
+      decidedAt: input.decidedAt ? formatDate(input.decidedAt) : null,
       rows: headerRows,
     },
     summary: buildSummary(design, e, system, factors),
@@ -898,9 +934,4 @@ export function buildReportView(input: ReportInput): ReportView {
     generatedAt: formatDate(input.generatedAt),
     headerLabel: `${product.code} · ${calculation.title} (${calculation.id}) · revision ${revision.revision}`,
   };
-}
-
-/** Converts an SI value for a chart axis in the view's unit system (charts share the report's units). */
-export function chartValue(si: number, kind: QuantityKind, system: UnitSystem): number {
-  return toDisplay(si, kind, system);
 }

@@ -1,0 +1,239 @@
+/**
+ * HTML -> PDF with one shared headless Chromium and a small pool of pages.
+ *
+ * The browser is launched on first use and reused; at most `pageCount` pages render at once and further
+ * requests wait in a queue, so load never launches more browsers. If the browser crashes or disconnects,
+ * the next request launches a new one (and a request caught mid-render by the crash is retried once).
+ * Pages run without JavaScript and with every network request blocked except data: URLs, so a report
+ * can fetch nothing from anywhere.
+ */
+import puppeteer, { type Browser, type HTTPRequest, type Page } from 'puppeteer-core';
+
+/** Launch flags for Debian's chromium in a container (see docs/STACK-NOTES: never download a browser). */
+export const CHROMIUM_FLAGS: readonly string[] = [
+  '--headless',
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-dev-shm-usage',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+  '--no-first-run',
+];
+
+export interface PdfRendererOptions {
+  /** Chromium binary, e.g. /usr/bin/chromium */
+  readonly executablePath: string;
+  /** Pages rendering at once (default 2) */
+  readonly pageCount?: number;
+  /** Timeout of one page operation (setContent, pdf) [ms], default 30 000 */
+  readonly timeoutMs?: number;
+}
+
+export interface PdfRenderOptions {
+  readonly format: 'A4' | 'Letter';
+  /** Printed at the top of every page, e.g. product, calculation id and revision */
+  readonly headerLabel: string;
+  /** Printed at the bottom left of every page (a caution line, for instance) */
+  readonly footerNote?: string;
+}
+
+/** Page margins; the running header and footer are drawn inside the top and bottom margins. */
+export const PDF_MARGIN = { top: '17mm', bottom: '16mm', left: '15mm', right: '15mm' } as const;
+
+const escapeHtml = (s: string): string =>
+  s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c] as string);
+
+const RUNNING_STYLE =
+  "width:100%;margin:0 15mm;font-family:'Liberation Sans','DejaVu Sans',sans-serif;font-size:7.2pt;color:#3d4650;" +
+  'display:flex;justify-content:space-between;gap:6mm;-webkit-print-color-adjust:exact;';
+
+function headerTemplate(label: string): string {
+  return (
+    `<div style="${RUNNING_STYLE}padding-bottom:1.5mm;border-bottom:0.5pt solid #9aa3ad;">` +
+    `<span style="overflow:hidden;text-overflow:ellipsis;white-space:nowrap;">${escapeHtml(label)}</span>` +
+    `<span style="white-space:nowrap;">Page <span class="pageNumber"></span> of <span class="totalPages"></span></span></div>`
+  );
+}
+
+function footerTemplate(label: string, note: string | undefined): string {
+  return (
+    `<div style="${RUNNING_STYLE}padding-top:1.5mm;border-top:0.5pt solid #9aa3ad;">` +
+    `<span style="flex:1 1 auto;">${escapeHtml(note ?? label)}</span>` +
+    `<span style="white-space:nowrap;flex:0 0 auto;">Page <span class="pageNumber"></span> of <span class="totalPages"></span></span></div>`
+  );
+}
+
+export class PdfRenderer {
+  private readonly executablePath: string;
+  private readonly pageCount: number;
+  private readonly timeoutMs: number;
+  private browser: Browser | null = null;
+  private launching: Promise<Browser> | null = null;
+  private idle: Page[] = [];
+  private slotsInUse = 0;
+  private readonly waiting: (() => void)[] = [];
+  private launches = 0;
+  private closed = false;
+
+  constructor(options: PdfRendererOptions) {
+    this.executablePath = options.executablePath;
+    this.pageCount = Math.max(1, Math.floor(options.pageCount ?? 2));
+    this.timeoutMs = options.timeoutMs ?? 30_000;
+  }
+
+  /** How many times a browser was launched (1 unless one crashed). */
+  get browserLaunches(): number {
+    return this.launches;
+  }
+
+  /** Process id of the current browser, or null before the first launch and after a crash or close. */
+  get pid(): number | null {
+    return this.browser?.connected ? (this.browser.process()?.pid ?? null) : null;
+  }
+
+  /** Requests waiting for a free page. */
+  get queued(): number {
+    return this.waiting.length;
+  }
+
+  /** Prints HTML to PDF with running header and footer ("page X of Y"). */
+  async render(html: string, options: PdfRenderOptions): Promise<Buffer> {
+    return this.withPage(async (page) => {
+      await page.setContent(html, { waitUntil: 'load', timeout: this.timeoutMs });
+      const pdf = await page.pdf({
+        format: options.format,
+        printBackground: true,
+        displayHeaderFooter: true,
+        headerTemplate: headerTemplate(options.headerLabel),
+        footerTemplate: footerTemplate(options.headerLabel, options.footerNote),
+        margin: PDF_MARGIN,
+        timeout: this.timeoutMs,
+      });
+      return Buffer.from(pdf);
+    });
+  }
+
+  /**
+   * Runs `work` on a pooled page (JavaScript off, network blocked except data: URLs). Waits for a free page
+   * when all are busy. If the browser dies during `work`, `work` runs once more on a fresh browser, so it
+   * must be safe to repeat. For tests and benchmarks; leave the page as you found it (viewport, content).
+   */
+  async withPage<T>(work: (page: Page) => Promise<T>): Promise<T> {
+    this.assertOpen();
+    await this.acquireSlot();
+    try {
+      for (let attempt = 0; ; attempt++) {
+        this.assertOpen();
+        const page = await this.takePage();
+        try {
+          const result = await work(page);
+          this.returnPage(page);
+          return result;
+        } catch (err) {
+          const browser = page.browser();
+          const gone = !browser.connected || page.isClosed() || this.processExited(browser);
+          if (gone) this.forget(browser);
+          else await page.close().catch(() => undefined);
+          if (gone && attempt === 0 && !this.closed) continue;
+          throw err;
+        }
+      }
+    } finally {
+      this.releaseSlot();
+    }
+  }
+
+  /** Closes the browser; later renders are refused. */
+  async close(): Promise<void> {
+    this.closed = true;
+    const browser = this.browser ?? (await this.launching?.catch(() => null)) ?? null;
+    this.browser = null;
+    this.idle = [];
+    for (const wake of this.waiting.splice(0)) wake();
+    if (browser) await browser.close().catch(() => browser.process()?.kill('SIGKILL'));
+  }
+
+  // -------------------------------------------------------------------------------------------------------
+
+  private assertOpen(): void {
+    if (this.closed) throw new Error('PdfRenderer is closed');
+  }
+
+  private async acquireSlot(): Promise<void> {
+    if (this.slotsInUse < this.pageCount) {
+      this.slotsInUse++;
+      return;
+    }
+    // The releasing request hands its slot over directly, so the count stays put.
+    await new Promise<void>((wake) => this.waiting.push(wake));
+  }
+
+  private releaseSlot(): void {
+    const next = this.waiting.shift();
+    if (next) next();
+    else this.slotsInUse = Math.max(0, this.slotsInUse - 1);
+  }
+
+  private processExited(browser: Browser): boolean {
+    const proc = browser.process();
+    return proc !== null && (proc.exitCode !== null || proc.signalCode !== null);
+  }
+
+  private async ensureBrowser(): Promise<Browser> {
+    const current = this.browser;
+    if (current && current.connected && !this.processExited(current)) return current;
+    if (current) this.forget(current);
+    this.launching ??= this.launch().finally(() => (this.launching = null));
+    return this.launching;
+  }
+
+  private async launch(): Promise<Browser> {
+    const browser = await puppeteer.launch({
+      executablePath: this.executablePath,
+      headless: true,
+      args: [...CHROMIUM_FLAGS],
+      protocolTimeout: Math.max(this.timeoutMs * 2, 60_000),
+    });
+    this.launches++;
+    browser.once('disconnected', () => this.forget(browser));
+    if (this.closed) {
+      await browser.close().catch(() => undefined);
+      throw new Error('PdfRenderer is closed');
+    }
+    this.browser = browser;
+    return browser;
+  }
+
+  /** Drops a dead (or dying) browser and its pages; the next request launches a new one. */
+  private forget(browser: Browser): void {
+    if (this.browser !== browser) return;
+    this.browser = null;
+    this.idle = [];
+    if (browser.connected) void browser.close().catch(() => undefined);
+    const proc = browser.process();
+    if (proc && proc.exitCode === null && proc.signalCode === null) proc.kill('SIGKILL');
+  }
+
+  private async takePage(): Promise<Page> {
+    const browser = await this.ensureBrowser();
+    while (this.idle.length > 0) {
+      const page = this.idle.pop() as Page;
+      if (!page.isClosed() && page.browser() === browser) return page;
+    }
+    const page = await browser.newPage();
+    page.setDefaultTimeout(this.timeoutMs);
+    await page.setJavaScriptEnabled(false);
+    await page.setRequestInterception(true);
+    page.on('request', (request: HTTPRequest) => {
+      if (request.url().startsWith('data:')) void request.continue();
+      else void request.abort('blockedbyclient');
+    });
+    return page;
+  }
+
+  private returnPage(page: Page): void {
+    if (!this.closed && !page.isClosed() && page.browser() === this.browser) this.idle.push(page);
+    else void page.close().catch(() => undefined);
+  }
+}

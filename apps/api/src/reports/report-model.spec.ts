@@ -1,0 +1,96 @@
+import { FORMULAS } from '@leadline/mechanics';
+import { formatNumber, sig } from './format';
+import { harrowgateReportInput, harrowgateUsReportInput } from './fixtures/harrowgate.fixture';
+import { buildReportView, mathHtml, mathText } from './report-model';
+
+describe('buildReportView', () => {
+  const input = harrowgateReportInput();
+  const e = input.revision.evaluation;
+  const view = buildReportView(input);
+  const lines = view.sections.flatMap((s) => s.lines);
+  const line = (path: string) => {
+    const found = lines.find((l) => l.path === path);
+    if (!found) throw new Error(`no line for ${path}`);
+    return found;
+  };
+
+  it('prints every traced result exactly once, with its registered formula and source', () => {
+    expect(lines.map((l) => l.path).sort()).toEqual(Object.keys(e.trace).sort());
+    for (const l of lines) {
+      const formula = FORMULAS[e.trace[l.path].formula];
+      expect(l.source).toBe(formula.source);
+      expect(l.substitution.startsWith(`${mathText(formula.symbol)} = `)).toBe(true);
+      expect(l.substitution.endsWith(l.display) || l.substitution.includes(`= ${l.display}, with `)).toBe(true);
+      expect(l.substitution).not.toMatch(/undefined|NaN/);
+    }
+  });
+
+  it('rounds each result to engineering figures without drifting from the stored value', () => {
+    for (const l of lines) {
+      const number = Number(l.value.replace('\u2212', '-').replace(/ × 10.*$/, ''));
+      if (!Number.isFinite(number) || / × 10/.test(l.value)) continue;
+      const kind = l.unit === '%' ? 'percent' : null;
+      const raw = (l.path.split('.').reduce<unknown>((node, k) => (node as Record<string, unknown>)[k], e) as number) * (kind ? 100 : 1);
+      if (l.unit === '' || l.unit === 'N·m' || l.unit === '%' || l.unit === '°' || l.unit === 'rpm') {
+        expect(Math.abs(number - raw)).toBeLessThanOrEqual(Math.abs(raw) * 0.005 + 1e-12);
+      }
+    }
+    expect(line('torque.raise.atMaxFriction').value).toBe(sig(e.torque.raise.atMaxFriction));
+    expect(line('stresses.body.vonMises').value).toBe(formatNumber(e.stresses.body.vonMises, 'stress', 'SI'));
+  });
+
+  it('substitutes the traced inputs with units: raise torque at maximum friction', () => {
+    expect(line('torque.threadRaise.atMaxFriction').substitution).toBe(
+      'T_R,thread = 28.0 kN × 29.0 mm/2 × (0.16 × π × 29.0 mm + 6.00 mm × cos 14.97°) / (π × 29.0 mm × cos 14.97° − 0.16 × 6.00 mm) = 95.0 N·m',
+    );
+    expect(line('torque.raise.atMaxFriction').substitution).toBe('T_R = 95.0 N·m + 79.0 N·m = 174.0 N·m');
+    expect(line('buckling.criticalLoad').label).toBe('Critical load (Euler)');
+  });
+
+  it('holds safety factors against the minimums the findings state', () => {
+    const buckling = view.safetyFactors.find((f) => f.key === 'buckling');
+    expect(buckling).toMatchObject({ limit: 3, limitText: '3.00', status: 'meets', limitFrom: 'buckling-margin', valueText: sig(e.safetyFactors.buckling as number) });
+    const body = view.safetyFactors.find((f) => f.key === 'bodyVonMises');
+    expect(body).toMatchObject({ limit: null, status: 'no-limit' });
+    const pressure = view.checks.find((c) => c.ruleId === 'nut-bearing-pressure');
+    expect(pressure).toMatchObject({ measured: '12.81 MPa', limit: '11.03 MPa', ratio: sig((e.wear.pressureRatio as number)) });
+  });
+
+  it('groups findings by severity with the acknowledgements from the review events', () => {
+    expect(view.findingGroups.map((g) => [g.severity, g.findings.length])).toEqual([['blocking', 0], ['warning', 2], ['info', 1]]);
+    expect(view.findingGroups[1].findings.map((f) => f.acknowledgedBy)).toEqual(['Maren Lindqvist', 'Maren Lindqvist']);
+    expect(view.findingCounts).toEqual({ blocking: 0, warning: 2, info: 1 });
+  });
+
+  it('sets registry symbols as HTML with Greek letters, subscripts and true minus signs', () => {
+    expect(mathHtml('tan alpha_n = tan alpha cos lambda')).toBe('tan α<sub>n</sub> = tan α cos λ');
+    expect(mathHtml('d_3 = d - P - 2 a_c')).toBe('d<sub>3</sub> = d − P − 2 a<sub>c</sub>');
+    expect(mathHtml("sigma' = sqrt(sigma^2 + 3 tau^2)")).toBe('σ&#39; = √(σ<sup>2</sup> + 3 τ<sup>2</sup>)');
+    expect(mathHtml('T_R,thread <b>')).toBe('T<sub>R,thread</sub> &lt;b&gt;');
+  });
+
+  it('carries the record header, events, history and hashes', () => {
+    expect(view.header).toMatchObject({ revision: 2, state: 'approved', author: 'Adaeze Okafor', reviewer: 'Maren Lindqvist', decidedAt: '2026-03-11 09:15 UTC' });
+    expect(view.hash).toBe(input.revision.hash);
+    expect(view.previousHash).toBe(input.revision.previousHash);
+    expect(view.events.map((ev) => ev.typeLabel)).toEqual(['Revision submitted', 'Comment', 'Comment', 'Approved']);
+    expect(view.events[1].text).toMatch(/grease schedule/);
+    expect(view.history.map((h) => [h.revision, h.current])).toEqual([[1, false], [2, true]]);
+    expect(view.input.asEntered).toContainEqual({ path: 'thread.size', value: 'Tr 32x6' });
+    expect(view.input.engineUnits).toContainEqual({ path: 'load.axial', value: '28000', unit: 'N' });
+    expect(view.input.friction[0]).toMatchObject({ range: '0.10 to 0.16', sourceKind: 'handbook' });
+  });
+
+  it('answers a US-customary design in US units, and leaves out buckling in tension', () => {
+    const us = buildReportView(harrowgateUsReportInput());
+    const usLines = us.sections.flatMap((s) => s.lines);
+    const units = new Set(usLines.map((l) => l.unit));
+    expect([...units]).toEqual(expect.arrayContaining(['in', 'lbf·in', 'ksi', 'psi', 'hp', 'rpm', 'in/min']));
+    for (const metric of ['mm', 'kN', 'MPa', 'N·m', 'W', 'm/min']) expect(units.has(metric)).toBe(false);
+    expect(usLines.find((l) => l.path === 'torque.collar.atMaxFriction')?.substitution).toMatch(/^T_c = 5200 lbf × 0\.08 × 2\.25 in \/ 2 = /);
+    const column = us.sections.find((s) => s.id === 'column');
+    expect(column?.chart).toBeNull();
+    expect(column?.notes[0]).toMatch(/tension/);
+    expect(us.unitSystemLabel).toBe('US customary');
+  });
+});

@@ -1,0 +1,192 @@
+import { existsSync, mkdirSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { PdfRenderer } from '../infra/pdf/browser-pool';
+import { sig } from './format';
+import { harrowgateReportInput, HARROWGATE_INPUT } from './fixtures/harrowgate.fixture';
+import { CAUTION_SHORT, CAUTION_TEXT } from './report-model';
+import { ReportRenderer, reportPdfLabels, templateCompilations, type RenderedReport } from './report-renderer';
+
+const CHROMIUM = '/usr/bin/chromium';
+const ARTIFACTS = join(__dirname, '..', '..', '..', '..', 'artifacts');
+// eslint-disable-next-line @typescript-eslint/no-require-imports
+const { PDFParse } = require('pdf-parse') as { PDFParse: new (o: { data: Uint8Array }) => { getText(): Promise<{ text: string; total: number }>; destroy(): Promise<void> } };
+
+async function pdfText(pdf: Buffer): Promise<{ text: string; pages: number }> {
+  const parser = new PDFParse({ data: new Uint8Array(pdf) });
+  try {
+    const result = await parser.getText();
+    return { text: result.text.replace(/\s+/g, ' '), pages: result.total };
+  } finally {
+    await parser.destroy();
+  }
+}
+
+describe('calculation report: HTML and PDF in real Chromium', () => {
+  const input = harrowgateReportInput();
+  const e = input.revision.evaluation;
+  let pdfRenderer: PdfRenderer;
+  let report: RenderedReport;
+  let pdf: Buffer;
+  let text: string;
+
+  beforeAll(async () => {
+    if (!existsSync(CHROMIUM)) throw new Error(`${CHROMIUM} is not installed`);
+    pdfRenderer = new PdfRenderer({ executablePath: CHROMIUM });
+    report = await new ReportRenderer().render(input);
+    pdf = await pdfRenderer.render(report.html, { format: 'A4', ...reportPdfLabels(report.view) });
+    mkdirSync(ARTIFACTS, { recursive: true });
+    writeFileSync(join(ARTIFACTS, 'report-a4.pdf'), pdf);
+    writeFileSync(join(ARTIFACTS, 'report.html'), report.html);
+    text = (await pdfText(pdf)).text;
+  });
+
+  afterAll(async () => {
+    await pdfRenderer?.close();
+  });
+
+  it('compiles the templates once however many reports are rendered', async () => {
+    const compiled = templateCompilations();
+    const again = await new ReportRenderer().render(input);
+    expect(templateCompilations()).toBe(compiled);
+    expect(again.html).toBe(report.html); // same record, same report
+  });
+
+  it('references nothing outside the document', () => {
+    expect(report.html).not.toMatch(/\b(?:https?|ftp|file):\/\//i);
+    expect(report.html).not.toMatch(/\b(?:src|href)\s*=\s*["']?(?!data:|#)/i);
+    expect(report.html).not.toMatch(/url\(\s*['"]?(?!data:|#)/i);
+    expect(report.html).not.toMatch(/@import|@font-face/i);
+  });
+
+  it('prints no long run of decimals anywhere in the HTML', () => {
+    const textOnly = report.html
+      .replace(/<style[\s\S]*?<\/style>/g, '')
+      .replace(/<[^>]+>/g, ' ')
+      .replace(/1 lbf (=|&#x3D;) 4\.4482216152605 N/, ''); // the exact definition, quoted on purpose in the conventions
+    expect(textOnly).not.toMatch(/\d\.\d{6,}/);
+  });
+
+  it('carries the safety caution near the top and again at the end, and the footer on every page', () => {
+    const first = report.html.indexOf(CAUTION_TEXT[0]);
+    expect(first).toBeGreaterThan(0);
+    expect(first).toBeLessThan(report.html.indexOf('<h2'));
+    expect(report.html.lastIndexOf(CAUTION_TEXT[0])).toBeGreaterThan(report.html.indexOf('Record integrity'));
+    for (const sentence of CAUTION_TEXT) expect(text).toContain(sentence);
+    expect(text).toContain(CAUTION_SHORT);
+  });
+
+  it('PDF: header of the record (product, calculation, revision, state, people, hash)', () => {
+    expect(text).toContain('HLS-MP-320');
+    expect(text).toContain(input.calculation.title);
+    expect(text).toContain(input.calculation.id);
+    expect(text).toContain('Approved');
+    expect(text).toContain('Adaeze Okafor');
+    expect(text).toContain('Maren Lindqvist');
+    expect(text).toContain('2026-03-11 09:15 UTC');
+    // the hash wraps inside its cell: compare without whitespace
+    const compact = text.replace(/\s/g, '');
+    expect(compact).toContain(input.revision.hash);
+    expect(compact).toContain(input.revision.previousHash as string);
+  });
+
+  it('PDF: key inputs as entered and in engine units, with friction sources', () => {
+    expect(text).toContain(HARROWGATE_INPUT.thread.size);
+    expect(text).toContain(HARROWGATE_INPUT.load.axial);
+    expect(text).toContain(HARROWGATE_INPUT.screw.unsupportedLength);
+    expect(text).toContain('thread/steel-bronze/oil');
+    expect(text).toContain('Harrowgate bench test HLS-TR-117');
+    expect(text).toContain('0.10 to 0.16');
+    expect(text).toContain('28000'); // axial load in N in the engine-units table
+  });
+
+  it('PDF: results as the view formats them, and those match the stored evaluation', () => {
+    const lines = report.view.sections.flatMap((s) => s.lines);
+    const line = (path: string) => {
+      const found = lines.find((l) => l.path === path);
+      if (!found) throw new Error(`no line for ${path}`);
+      return found;
+    };
+    const expected: [string, number][] = [
+      ['torque.raise.atMaxFriction', e.torque.raise.atMaxFriction],
+      ['torque.raise.atMinFriction', e.torque.raise.atMinFriction],
+      ['torque.lower.atMinFriction', e.torque.lower.atMinFriction],
+      ['selfLocking.margin', e.selfLocking.margin],
+      ['buckling.safetyFactor', e.buckling.safetyFactor as number],
+      ['drive.margin', (e.drive as { margin: number }).margin],
+    ];
+    for (const [path, raw] of expected) {
+      const l = line(path);
+      expect(l.value).toBe(sig(raw)); // torques in N·m, ratios plain: SI display of these equals the raw value
+      expect(Math.abs(Number(l.value) - raw) / raw).toBeLessThan(0.005);
+      expect(text).toContain(l.display);
+    }
+    // stresses in MPa, lengths in mm
+    expect(line('stresses.body.vonMises').display).toBe(`${sig(e.stresses.body.vonMises / 1e6)} MPa`);
+    expect(text).toContain(line('stresses.body.vonMises').display);
+    expect(line('geometry.minorDiameter').display).toBe(`${sig(e.geometry.minorDiameter * 1000)} mm`);
+    expect(text).toContain(line('buckling.criticalLoad').display);
+    // a substitution line, with the inputs in place
+    expect(text).toContain('28.0 kN × 29.0 mm/2 × (0.16 × π × 29.0 mm + 6.00 mm × cos 14.97°)');
+  });
+
+  it('PDF: every finding message, grouped by severity, with the review comments', () => {
+    for (const f of input.revision.findings) expect(text).toContain(f.message);
+    expect(text).toContain('Warnings (2)');
+    expect(text).toContain('Information (1)');
+    expect(text).toContain('Blocking findings (0)');
+    expect(text).toContain('Is the grease schedule in the maintenance manual?');
+    expect(text).toContain('Acknowledged by Maren Lindqvist');
+  });
+
+  it('lays out within an A4 page width (794 px): screenshot, and no element wider than its box', async () => {
+    const result = await pdfRenderer.withPage(async (page) => {
+      await page.setViewport({ width: 794, height: 1123 });
+      try {
+        await page.setContent(report.html, { waitUntil: 'load' });
+        const out: Record<string, { page: number; viewport: number; offenders: string[] }> = {};
+        for (const media of ['screen', 'print'] as const) {
+          await page.emulateMediaType(media);
+          if (media === 'screen') {
+            await page.screenshot({ path: join(ARTIFACTS, 'report-a4.png') as `${string}.png`, fullPage: true });
+            await page.screenshot({ path: join(ARTIFACTS, 'report-a4-first-screen.png') as `${string}.png` });
+          }
+          out[media] = await page.evaluate(() => {
+            const offenders: string[] = [];
+            const pageWidth = document.documentElement.clientWidth;
+            for (const el of Array.from(document.querySelectorAll('body *'))) {
+              const name = `${el.tagName.toLowerCase()}${el.id ? `#${el.id}` : ''}${el instanceof HTMLElement && el.className ? `.${el.className}` : ''}`;
+              if (el instanceof HTMLElement && el.clientWidth > 0 && el.scrollWidth > el.clientWidth + 1) offenders.push(`${name}: content ${el.scrollWidth} > box ${el.clientWidth}`);
+              const right = el.getBoundingClientRect().right;
+              if (right > pageWidth + 0.5) offenders.push(`${name} ends at ${right} > ${pageWidth}`);
+            }
+            // chart labels must stay inside their chart
+            for (const svg of Array.from(document.querySelectorAll('svg'))) {
+              const frame = svg.getBoundingClientRect();
+              for (const t of Array.from(svg.querySelectorAll('text'))) {
+                const r = t.getBoundingClientRect();
+                if (r.width > 0 && (r.left < frame.left - 0.5 || r.right > frame.right + 0.5)) offenders.push(`svg text "${t.textContent}" outside its chart`);
+              }
+            }
+            return { page: document.documentElement.scrollWidth, viewport: document.documentElement.clientWidth, offenders };
+          });
+        }
+        return out;
+      } finally {
+        await page.emulateMediaType();
+        await page.setViewport({ width: 800, height: 600 });
+      }
+    });
+    for (const media of ['screen', 'print']) {
+      expect(result[media].offenders).toEqual([]);
+      expect(result[media].page).toBeLessThanOrEqual(794);
+    }
+    expect(existsSync(join(ARTIFACTS, 'report-a4.png'))).toBe(true);
+  });
+
+  it('renders as US Letter too', async () => {
+    const letter = await pdfRenderer.render(report.html, { format: 'Letter', ...reportPdfLabels(report.view) });
+    expect(/\/MediaBox\s*\[\s*0 0 612 792\s*\]/.test(letter.toString('latin1'))).toBe(true);
+    const t = (await pdfText(letter)).text;
+    expect(t).toContain(input.revision.findings[1].message);
+  });
+});
