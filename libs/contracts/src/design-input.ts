@@ -12,23 +12,19 @@ import {
   parseQuantity,
   QuantityError,
   BUTTRESS_PROFILES,
+  DIMENSION_HINT,
   type Design,
   type Dimension,
   type FrictionRange,
 } from '@leadline/mechanics';
 import { z } from 'zod';
 
-/** A "<number> <unit>" string of one dimension; checked here, converted in normalizeDesign. */
+/**
+ * A "<number> <unit>" string of one dimension. The schema checks the shape; the unit, dimension and sign are
+ * checked once, while converting, in normalizeDesign (one parse per value per request).
+ */
 function quantity(dimension: Dimension, description: string) {
-  return z
-    .string()
-    .max(64)
-    .describe(description)
-    .superRefine((text, ctx) => {
-      const q = parseQuantity(text, dimension);
-      if (q instanceof QuantityError) ctx.addIssue({ code: 'custom', message: q.message });
-      else if (!(q.si > 0)) ctx.addIssue({ code: 'custom', message: `must be greater than zero, got "${text}"` });
-    });
+  return z.string().max(64).describe(`${description}: ${DIMENSION_HINT[dimension]}`);
 }
 
 const length = (d: string) => quantity('length', d);
@@ -130,18 +126,28 @@ function normalizeDesign(input: Parsed): DesignParseResult {
   const issues: FieldIssue[] = [];
   let us = 0;
   let si = 0;
-  const q = (text: string, dimension: Dimension): number => {
-    const r = parseQuantity(text, dimension) as { si: number; usCustomary: boolean };
+  /** Converts one quantity; a bad one is reported at its path and yields NaN (the design is refused anyway). */
+  const q = (text: string, dimension: Dimension, path: string): number => {
+    const r = parseQuantity(text, dimension);
+    if (r instanceof QuantityError) {
+      issues.push({ path, message: r.message });
+      return NaN;
+    }
+    if (!(r.si > 0)) {
+      issues.push({ path, message: `must be greater than zero, got "${text}"` });
+      return NaN;
+    }
     if (r.usCustomary) us++;
     else if (dimension !== 'rotationalSpeed' && dimension !== 'angle') si++;
     return r.si;
   };
-  const opt = (text: string | undefined, dimension: Dimension): number | null => (text === undefined ? null : q(text, dimension));
+  const opt = (text: string | undefined, dimension: Dimension, path: string): number | null =>
+    text === undefined ? null : q(text, dimension, path);
 
   // Thread: a named size, or major diameter and pitch
   const th = input.thread;
-  let majorDiameter = opt(th.majorDiameter, 'length');
-  let pitch = opt(th.pitch, 'length');
+  let majorDiameter = opt(th.majorDiameter, 'length', 'thread.majorDiameter');
+  let pitch = opt(th.pitch, 'length', 'thread.pitch');
   let size: string | null = null;
   if (th.size !== undefined) {
     const found = findThreadSize(th.size);
@@ -161,14 +167,14 @@ function normalizeDesign(input: Parsed): DesignParseResult {
     if (majorDiameter === null) issues.push({ path: 'thread.majorDiameter', message: 'required unless thread.size is given' });
     if (pitch === null) issues.push({ path: 'thread.pitch', message: 'required unless thread.size is given' });
   }
-  if (majorDiameter !== null && pitch !== null && pitch >= majorDiameter) {
+  if (majorDiameter !== null && pitch !== null && pitch >= majorDiameter) { // NaN compares false: already reported
     issues.push({ path: 'thread.pitch', message: 'pitch must be smaller than the major diameter' });
   }
   let loadFlankAngle: number | null = null;
   if (th.form === 'buttress') {
     if (th.loadFlankAngle === undefined) issues.push({ path: 'thread.loadFlankAngle', message: 'required for a buttress thread: 3 or 7 deg' });
     else {
-      const deg = typeof th.loadFlankAngle === 'number' ? th.loadFlankAngle : (q(th.loadFlankAngle, 'angle') * 180) / Math.PI;
+      const deg = typeof th.loadFlankAngle === 'number' ? th.loadFlankAngle : (q(th.loadFlankAngle, 'angle', 'thread.loadFlankAngle') * 180) / Math.PI;
       const known = Object.keys(BUTTRESS_PROFILES).map(Number).find((a) => Math.abs(a - deg) < 1e-6);
       if (known === undefined) issues.push({ path: 'thread.loadFlankAngle', message: 'buttress geometry is tabulated for 3 deg (3/30) and 7 deg (7/45) load flanks' });
       else loadFlankAngle = known;
@@ -207,11 +213,11 @@ function normalizeDesign(input: Parsed): DesignParseResult {
   switch (c.kind) {
     case 'plain':
     case 'rolling':
-      collar = { kind: c.kind, meanDiameter: q(c.meanDiameter, 'length') };
+      collar = { kind: c.kind, meanDiameter: q(c.meanDiameter, 'length', 'collar.meanDiameter') };
       break;
     case 'annular': {
-      const outer = q(c.outerDiameter, 'length');
-      const inner = q(c.innerDiameter, 'length');
+      const outer = q(c.outerDiameter, 'length', 'collar.outerDiameter');
+      const inner = q(c.innerDiameter, 'length', 'collar.innerDiameter');
       if (inner >= outer) issues.push({ path: 'collar.innerDiameter', message: 'inner diameter must be smaller than the outer diameter' });
       collar = { kind: 'annular', outerDiameter: outer, innerDiameter: inner, model: c.model };
       break;
@@ -224,11 +230,11 @@ function normalizeDesign(input: Parsed): DesignParseResult {
   const nutMaterial = input.nut.material === undefined ? null : findNutMaterial(input.nut.material);
   if (nutMaterial === undefined) issues.push({ path: 'nut.material', message: `unknown nut material "${input.nut.material}" (see GET /api/v1/materials)` });
   const nut: Design['nut'] = {
-    length: q(input.nut.length, 'length'),
+    length: q(input.nut.length, 'length', 'nut.length'),
     material: input.nut.material ?? null,
-    allowablePressure: opt(input.nut.allowablePressure, 'stress') ?? nutMaterial?.allowablePressure ?? null,
-    allowablePv: opt(input.nut.allowablePv, 'pv') ?? nutMaterial?.allowablePv ?? null,
-    yieldStrength: opt(input.nut.yieldStrength, 'stress') ?? nutMaterial?.yieldStrength ?? null,
+    allowablePressure: opt(input.nut.allowablePressure, 'stress', 'nut.allowablePressure') ?? nutMaterial?.allowablePressure ?? null,
+    allowablePv: opt(input.nut.allowablePv, 'pv', 'nut.allowablePv') ?? nutMaterial?.allowablePv ?? null,
+    yieldStrength: opt(input.nut.yieldStrength, 'stress', 'nut.yieldStrength') ?? nutMaterial?.yieldStrength ?? null,
   };
   if (pitch !== null && nut.length < pitch) issues.push({ path: 'nut.length', message: 'the nut must engage at least one full pitch' });
 
@@ -237,7 +243,7 @@ function normalizeDesign(input: Parsed): DesignParseResult {
   const screwMaterial = s.material === undefined ? null : findScrewMaterial(s.material);
   if (screwMaterial === undefined) issues.push({ path: 'screw.material', message: `unknown screw material "${s.material}" (see GET /api/v1/materials)` });
   const screwValue = (key: 'yieldStrength' | 'elasticModulus' | 'density', dimension: Dimension): number => {
-    const given = opt(s[key], dimension);
+    const given = opt(s[key], dimension, `screw.${key}`);
     if (given !== null) return given;
     if (screwMaterial) return screwMaterial[key];
     if (screwMaterial !== undefined) issues.push({ path: `screw.${key}`, message: 'required unless screw.material names a library material' });
@@ -248,7 +254,7 @@ function normalizeDesign(input: Parsed): DesignParseResult {
     yieldStrength: screwValue('yieldStrength', 'stress'),
     elasticModulus: screwValue('elasticModulus', 'stress'),
     density: screwValue('density', 'density'),
-    unsupportedLength: q(s.unsupportedLength, 'length'),
+    unsupportedLength: q(s.unsupportedLength, 'length', 'screw.unsupportedLength'),
     ends: s.ends,
     endConditionBasis: s.endConditionBasis ?? 'recommended',
   };
@@ -260,14 +266,14 @@ function normalizeDesign(input: Parsed): DesignParseResult {
   }
   const duty: Design['duty'] = {
     kind: d.kind,
-    speed: opt(d.speed, 'rotationalSpeed'),
-    linearSpeed: opt(d.linearSpeed, 'linearSpeed'),
+    speed: opt(d.speed, 'rotationalSpeed', 'duty.speed'),
+    linearSpeed: opt(d.linearSpeed, 'linearSpeed', 'duty.linearSpeed'),
     brake: d.brake,
     vibration: d.vibration ?? false,
   };
 
-  const axial = q(input.load.axial, 'force');
-  const drive = input.drive ? { availableTorque: q(input.drive.availableTorque, 'torque') } : null;
+  const axial = q(input.load.axial, 'force', 'load.axial');
+  const drive = input.drive ? { availableTorque: q(input.drive.availableTorque, 'torque', 'drive.availableTorque') } : null;
   if (issues.length > 0 || majorDiameter === null || pitch === null || threadFriction === null) {
     return { success: false, issues };
   }

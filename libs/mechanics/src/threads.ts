@@ -195,6 +195,7 @@ function sizeKey(text: string): string {
 
 const SIZE_INDEX = new Map<string, ThreadSize>();
 for (const s of THREAD_SIZES) {
+  SIZE_INDEX.set(s.designation, s);
   SIZE_INDEX.set(sizeKey(s.designation), s);
   // "M20x2.5" names the coarse pitch explicitly
   if (s.form === 'iso-metric') SIZE_INDEX.set(sizeKey(`${s.designation}x${s.pitch / MM}`), s);
@@ -202,7 +203,8 @@ for (const s of THREAD_SIZES) {
 
 /** Finds a standard size by designation ("Tr 24x5", "1-1/2-4 ACME", "M20", "1/2-13 UNC"); undefined if unknown. */
 export function findThreadSize(designation: string): ThreadSize | undefined {
-  return SIZE_INDEX.get(sizeKey(designation));
+  const direct = SIZE_INDEX.get(designation); // exact designations skip normalizing
+  return direct ?? SIZE_INDEX.get(sizeKey(designation));
 }
 
 export { DEG, INCH, MM };

@@ -1,4 +1,4 @@
-import { Body, Controller, HttpCode, Post } from '@nestjs/common';
+import { Body, Controller, HttpCode, Post, Query } from '@nestjs/common';
 import { AssessmentService } from './assessment.service';
 import { RuleSetsService } from '../rules/rule-sets.service';
 
@@ -9,11 +9,15 @@ export class EvaluationsController {
     private readonly ruleSets: RuleSetsService,
   ) {}
 
-  /** Stateless: evaluates and judges a design; nothing is stored. Returns the Evaluation with its findings. */
+  /**
+   * Stateless: evaluates and judges a design; nothing is stored. Returns the Evaluation with its findings.
+   * The formula trace (two thirds of the body) comes with `?trace=true`; stored revisions always keep it.
+   */
   @Post()
   @HttpCode(200)
-  evaluate(@Body() body: unknown) {
+  evaluate(@Body() body: unknown, @Query('trace') trace?: string) {
     const a = this.assessor.assess(body, this.ruleSets.current());
-    return { ...a.evaluation, verdict: a.verdict, ruleSetVersion: a.ruleSetVersion };
+    const { trace: formulaTrace, ...evaluation } = a.evaluation;
+    return { ...evaluation, ...(trace === 'true' ? { trace: formulaTrace } : {}), verdict: a.verdict, ruleSetVersion: a.ruleSetVersion };
   }
 }
