@@ -1,5 +1,10 @@
 /** Every migration in order; the data source runs them on start-up. A merged migration is never edited. */
 import { CreatedRecordTables20261201220000 } from './20261201220000-created-record-tables';
 import { CreatedRuleSetsAndIdempotencyKeys20261201220100 } from './20261201220100-created-rule-sets-and-idempotency-keys';
+import { CreatedIdentitiesAndReviewClosures20261201220200 } from './20261201220200-created-identities-and-review-closures';
 
-export const MIGRATIONS = [CreatedRecordTables20261201220000, CreatedRuleSetsAndIdempotencyKeys20261201220100];
+export const MIGRATIONS = [
+  CreatedRecordTables20261201220000,
+  CreatedRuleSetsAndIdempotencyKeys20261201220100,
+  CreatedIdentitiesAndReviewClosures20261201220200,
+];

@@ -31,7 +31,7 @@ describe.each(BACKENDS)('records on %s', (backend) => {
     const rev = await t.call('GET', `/api/v1/revisions/${res.body.revisionId}`);
     expect(rev.status).toBe(200);
     expect(JSON.stringify(rev.body.input)).toBe(JSON.stringify(design));
-    const stateless = await t.call('POST', '/api/v1/evaluations', design);
+    const stateless = await t.call('POST', '/api/v1/evaluations?trace=true', design);
     const { verdict, ruleSetVersion, ...statelessEvaluation } = stateless.body;
     expect(rev.body.evaluation).toEqual(statelessEvaluation);
     expect(rev.body.verdict).toBe(verdict);
@@ -113,13 +113,13 @@ describe.each(BACKENDS)('records on %s', (backend) => {
     const other = await t.call('POST', '/api/v1/products', { code: `IDEM-${backend}`, name: 'idempotency product' });
     const url = `/api/v1/products/${other.body.id}/calculations`;
     const body = { title: 'retry me', design };
-    const first = await t.call('POST', url, body, { 'idempotency-key': 'k-123' });
+    const first = await t.call('POST', url, body, { headers: { 'idempotency-key': 'k-123' } });
     const before = await countRecords(t.db);
-    const again = await t.call('POST', url, body, { 'idempotency-key': 'k-123' });
+    const again = await t.call('POST', url, body, { headers: { 'idempotency-key': 'k-123' } });
     expect(again.status).toBe(201);
     expect(again.body).toEqual(first.body);
     expect(await countRecords(t.db)).toEqual(before);
-    const changed = await t.call('POST', url, { title: 'something else', design }, { 'idempotency-key': 'k-123' });
+    const changed = await t.call('POST', url, { title: 'something else', design }, { headers: { 'idempotency-key': 'k-123' } });
     expect(changed.status).toBe(422);
     expect(await countRecords(t.db)).toEqual(before);
   });
@@ -135,7 +135,7 @@ describe.each(BACKENDS)('records on %s', (backend) => {
     const product = await t.call('POST', '/api/v1/products', { name: 'no code' });
     expect(product.status).toBe(422);
     expect(product.body.errors[0].path).toBe('code');
-    const malformed = await t.call('POST', '/api/v1/products', '{"code": ', { 'content-type': 'application/json' });
+    const malformed = await t.call('POST', '/api/v1/products', '{"code": ', { headers: { 'content-type': 'application/json' } });
     expect(malformed.status).toBe(400);
     expect(await countRecords(t.db)).toEqual(before);
   });

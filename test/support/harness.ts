@@ -31,16 +31,36 @@ async function admin(sql: string): Promise<void> {
   }
 }
 
+export type Who = 'author' | 'author2' | 'reviewer' | 'reviewer2' | 'admin' | 'anonymous';
+
+export interface CallOptions {
+  /** Whose token to send (default: the author) */
+  as?: Who;
+  headers?: Record<string, string>;
+}
+
 export interface TestApp {
   app: NestFastifyApplication;
   db: Database;
   backend: Backend;
-  call(method: string, url: string, body?: unknown, headers?: Record<string, string>): Promise<{ status: number; body: any; headers: Record<string, unknown>; text: string }>;
+  /** Bearer tokens of the test users, and their ids */
+  tokens: Record<Exclude<Who, 'anonymous'>, string>;
+  users: Record<Exclude<Who, 'anonymous'>, string>;
+  call(method: string, url: string, body?: unknown, options?: CallOptions): Promise<{ status: number; body: any; headers: Record<string, unknown>; text: string; raw: Buffer }>;
   close(): Promise<void>;
 }
 
+/** Users every test app gets; named by role, as the demo users are. */
+const TEST_USERS: { who: Exclude<Who, 'anonymous' | 'admin'>; name: string; roles: string[] }[] = [
+  { who: 'author', name: 'Design author (test)', roles: ['author'] },
+  { who: 'author2', name: 'Second author (test)', roles: ['author'] },
+  { who: 'reviewer', name: 'Checking engineer (test)', roles: ['reviewer'] },
+  { who: 'reviewer2', name: 'Second checker (test)', roles: ['reviewer', 'author'] },
+];
+
 export async function startTestApp(backend: Backend, env: Record<string, string> = {}, logDestination?: DestinationStream): Promise<TestApp> {
-  const base: Record<string, string> = { LOG_LEVEL: 'silent', LEADLINE_DEMO_SEED: 'false', ...env };
+  const adminToken = `ll_test_admin_${randomBytes(18).toString('hex')}`;
+  const base: Record<string, string> = { LOG_LEVEL: 'silent', LEADLINE_DEMO_SEED: 'false', LEADLINE_ADMIN_TOKEN: adminToken, ...env };
   let cleanup = async () => undefined as void;
   if (backend === 'postgres') {
     const name = `leadline_test_${randomBytes(6).toString('hex')}`;
@@ -53,15 +73,21 @@ export async function startTestApp(backend: Backend, env: Record<string, string>
   }
   const { app } = await createApp({ env: base, logDestination });
   const fastify = app.getHttpAdapter().getInstance();
-  return {
+  const tokens = { admin: base.LEADLINE_ADMIN_TOKEN } as TestApp['tokens'];
+  const users = {} as TestApp['users'];
+  const t: TestApp = {
     app,
     db: app.get(Database),
     backend,
-    async call(method, url, body, headers = {}) {
+    tokens,
+    users,
+    async call(method, url, body, options = {}) {
+      const who = options.as ?? 'author';
+      const auth: Record<string, string> = who === 'anonymous' ? {} : { authorization: `Bearer ${tokens[who]}` };
       const res = await fastify.inject({
         method: method as 'GET',
         url,
-        headers: { ...(body !== undefined && typeof body !== 'string' ? { 'content-type': 'application/json' } : {}), ...headers },
+        headers: { ...(body !== undefined && typeof body !== 'string' ? { 'content-type': 'application/json' } : {}), ...auth, ...(options.headers ?? {}) },
         payload: body === undefined ? undefined : typeof body === 'string' ? body : JSON.stringify(body),
       });
       let parsed: unknown = res.body;
@@ -70,13 +96,21 @@ export async function startTestApp(backend: Backend, env: Record<string, string>
       } catch {
         /* not JSON */
       }
-      return { status: res.statusCode, body: parsed, headers: res.headers as Record<string, unknown>, text: res.body };
+      return { status: res.statusCode, body: parsed, headers: res.headers as Record<string, unknown>, text: res.body, raw: res.rawPayload };
     },
     async close() {
       await app.close();
       await cleanup();
     },
   };
+  const me = await t.call('GET', '/api/v1/users', undefined, { as: 'admin' });
+  users.admin = me.body.items[0].id;
+  for (const u of TEST_USERS) {
+    const created = await t.call('POST', '/api/v1/users', { name: u.name, roles: u.roles }, { as: 'admin' });
+    users[u.who] = created.body.id;
+    tokens[u.who] = (await t.call('POST', `/api/v1/users/${created.body.id}/tokens`, {}, { as: 'admin' })).body.token;
+  }
+  return t;
 }
 
 /** Counts rows of the record tables, to prove that a refused request stored nothing. */

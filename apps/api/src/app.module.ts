@@ -3,6 +3,9 @@ import { ConfigModule } from '@nestjs/config';
 import { CalculationsModule } from './calculations/calculations.module';
 import { EvaluationsModule } from './evaluations/evaluations.module';
 import { HealthModule } from './health/health.module';
+import { IdentitiesModule } from './identities/identities.module';
+import { ReportsModule } from './reports/reports.module';
+import { ReviewsModule } from './reviews/reviews.module';
 import { APP_CONFIG, type AppConfig } from './infra/config';
 import { DatabaseModule } from './infra/database/database.module';
 import { LibraryModule } from './library/library.module';
@@ -20,12 +23,15 @@ export class AppModule {
       imports: [
         ConfigModule.forRoot({ isGlobal: true, ignoreEnvFile: true, ignoreEnvVars: true, load: [() => config] }),
         DatabaseModule.forRoot(config),
+        IdentitiesModule,
         RecordsModule,
         RulesModule,
         EvaluationsModule,
         ProductsModule,
         CalculationsModule,
         LibraryModule,
+        ReviewsModule,
+        ReportsModule,
         HealthModule,
         ...extraModules,
       ],

@@ -9,16 +9,21 @@ import { seedDemo } from './seed/demo-seed';
 async function main(): Promise<void> {
   const { app, config } = await createApp({ env: process.env });
   const embedded = !config.DATABASE_URL;
-  const seed = (config.LEADLINE_DEMO_SEED ?? embedded) ? await seedDemo(app) : { seeded: false, products: [] };
+  const seed = (config.LEADLINE_DEMO_SEED ?? embedded) ? await seedDemo(app) : { seeded: false, products: [], tokens: [] };
   await app.listen({ port: config.PORT, host: config.HOST });
   const url = `http://${config.HOST}:${config.PORT}`;
   const lines = [
     '',
     `Leadline is listening on ${url}  (${embedded ? `embedded database in ${config.LEADLINE_DATA_DIR}` : 'PostgreSQL'})`,
     seed.seeded ? `Demo data seeded: ${seed.products.map((p) => p.code).join(', ')}` : 'Existing data kept (no demo seed).',
+    ...(seed.tokens.length
+      ? ['Demo tokens (shown once; only their hashes are stored):', ...seed.tokens.map((t) => `  ${t.name.padEnd(28)} ${t.roles.join(',').padEnd(9)} ${t.token}`)]
+      : []),
     `  API docs:      ${url}/api/docs`,
-    `  Products:      curl ${url}/api/v1/products`,
-    `  Evaluate:      curl -X POST ${url}/api/v1/evaluations -H 'content-type: application/json' -d @test/fixtures/ok/trapezoidal-jack.json`,
+    ...(seed.tokens.length ? [`  export LEADLINE_TOKEN=${seed.tokens[0].token}    # the demo author`] : []),
+    `  Products:      curl -H "Authorization: Bearer $LEADLINE_TOKEN" ${url}/api/v1/products`,
+    `  Evaluate:      curl -X POST ${url}/api/v1/evaluations -H "Authorization: Bearer $LEADLINE_TOKEN" -H 'content-type: application/json' -d @test/fixtures/ok/trapezoidal-jack.json`,
+    `  Review queue:  curl -H "Authorization: Bearer $LEADLINE_TOKEN" ${url}/api/v1/reviews/queue`,
     '',
   ];
   process.stdout.write(lines.join('\n') + '\n');

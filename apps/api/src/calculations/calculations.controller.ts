@@ -1,15 +1,21 @@
 import { Body, Controller, Get, Headers, Param, Post, Res } from '@nestjs/common';
 import type { FastifyReply } from 'fastify';
 import type { Actor } from '@leadline/contracts';
+import { Roles } from '../identities/auth.guard';
 import { CurrentActor } from '../infra/http/actor';
+import { ReviewsService } from '../reviews/reviews.service';
 import { CalculationsService } from './calculations.service';
 
 @Controller('api/v1')
 export class CalculationsController {
-  constructor(private readonly calculations: CalculationsService) {}
+  constructor(
+    private readonly calculations: CalculationsService,
+    private readonly reviews: ReviewsService,
+  ) {}
 
   /** Opens a calculation (one screw position) with revision 1. */
   @Post('products/:id/calculations')
+  @Roles('author')
   async open(
     @Param('id') productId: string,
     @Body() body: unknown,
@@ -29,6 +35,7 @@ export class CalculationsController {
 
   /** Adds the next revision; the previous one becomes superseded. */
   @Post('calculations/:id/revisions')
+  @Roles('author')
   async addRevision(
     @Param('id') calculationId: string,
     @Body() body: unknown,
@@ -43,12 +50,15 @@ export class CalculationsController {
 
   @Get('calculations/:id/revisions')
   async revisions(@Param('id') calculationId: string) {
-    return { items: await this.calculations.revisions(calculationId) };
+    const items = await this.calculations.revisions(calculationId);
+    const states = await Promise.all(items.map((r) => this.reviews.state(r.id)));
+    return { items: items.map((r, i) => ({ ...r, review: { state: states[i].state, decidedBy: states[i].decidedBy, decidedAt: states[i].decidedAt } })) };
   }
 
   /** One revision: input as submitted, evaluation, findings, versions and hashes. */
   @Get('revisions/:id')
-  revision(@Param('id') id: string) {
-    return this.calculations.revision(id);
+  async revision(@Param('id') id: string) {
+    const [record, review] = await Promise.all([this.calculations.revision(id), this.reviews.state(id)]);
+    return { ...record, review: { state: review.state, decidedBy: review.decidedBy, decidedAt: review.decidedAt } };
   }
 }

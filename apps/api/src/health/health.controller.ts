@@ -1,4 +1,5 @@
 import { Controller, Get, HttpException } from '@nestjs/common';
+import { Public } from '../identities/auth.guard';
 import { Database } from '../infra/database/database.service';
 
 @Controller('health')
@@ -7,6 +8,7 @@ export class HealthController {
 
   /** Healthy when the database answers. */
   @Get()
+  @Public()
   async health() {
     try {
       await this.db.query('SELECT 1');

@@ -1,5 +1,6 @@
 import { Body, Controller, Get, Param, Post, Query } from '@nestjs/common';
 import type { Actor } from '@leadline/contracts';
+import { Roles } from '../identities/auth.guard';
 import { CurrentActor } from '../infra/http/actor';
 import { validate } from '../infra/http/problem';
 import { RecordStore } from '../records/record-store';
@@ -15,6 +16,7 @@ export class ProductsController {
   ) {}
 
   @Post()
+  @Roles('author', 'admin')
   create(@Body() body: unknown, @CurrentActor() actor: Actor | null) {
     return this.products.create(body, actor);
   }

@@ -605,15 +605,18 @@ function buildChecks(findings: readonly Finding[], system: UnitSystem): CheckRow
     }));
 }
 
-/** Acknowledgements carried by review events: data.acknowledgements or data.acknowledged, as rule ids or { ruleId }. */
+/** Acknowledgements carried by review events: data.acknowledgements as { finding, comment } (or rule ids / { ruleId }). */
 function acknowledgements(events: readonly ProductEvent[]): Map<string, string> {
   const acks = new Map<string, string>();
   for (const ev of events) {
     const list = ev.data.acknowledgements ?? ev.data.acknowledged;
     if (!Array.isArray(list)) continue;
     for (const item of list) {
-      const id = typeof item === 'string' ? item : item && typeof item === 'object' ? (item as Record<string, unknown>).ruleId : null;
-      if (typeof id === 'string') acks.set(id, actorName(ev.actor));
+      const obj = item && typeof item === 'object' ? (item as Record<string, unknown>) : null;
+      // The review workflow writes { finding: ruleId, comment }; older shapes carry { ruleId } or a bare id.
+      const id = typeof item === 'string' ? item : (obj?.finding ?? obj?.ruleId ?? null);
+      const comment = typeof obj?.comment === 'string' ? obj.comment : null;
+      if (typeof id === 'string') acks.set(id, comment ? `${actorName(ev.actor)}: ${comment}` : actorName(ev.actor));
     }
   }
   return acks;

@@ -1,5 +1,6 @@
 import { Body, Controller, Get, Param, Post } from '@nestjs/common';
 import { RULES } from '@leadline/rules';
+import { Roles } from '../identities/auth.guard';
 import { RuleSetsService } from './rule-sets.service';
 
 @Controller('api/v1/rule-sets')
@@ -18,6 +19,7 @@ export class RulesController {
   }
 
   @Post()
+  @Roles('admin')
   create(@Body() body: unknown) {
     return this.ruleSets.create(body);
   }

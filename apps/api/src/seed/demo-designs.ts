@@ -59,13 +59,13 @@ export const DEMO_PRODUCTS = [
   {
     product: { code: 'CV-400', name: 'CV-400 scissor lift table', description: 'Fictional demo product of Corrin Vale Lifting Ltd: 1.8 t scissor lift table.' },
     calculations: [
-      { title: 'Main lift screw', design: liftScrew },
-      { title: 'Platform tilt screw', design: tiltScrew },
-      { title: 'Fast-lift screw (proposal)', design: fastLiftScrew },
+      { title: 'Main lift screw', design: liftScrew, review: 'approve' as const },
+      { title: 'Platform tilt screw', design: tiltScrew, review: null },
+      { title: 'Fast-lift screw (proposal)', design: fastLiftScrew, review: 'reject' as const },
     ],
   },
   {
     product: { code: 'CV-P60', name: 'CV-P60 workshop press', description: 'Fictional demo product of Corrin Vale Lifting Ltd: 3 ton hand press.' },
-    calculations: [{ title: 'Press screw', design: pressScrew }],
+    calculations: [{ title: 'Press screw', design: pressScrew, review: null }],
   },
 ];

@@ -1,0 +1,52 @@
+/** Gathers what a report prints about one revision: product, calculation, record, review state, events, history. */
+import { Injectable } from '@nestjs/common';
+import type { ProductEvent } from '@leadline/contracts';
+import { CalculationsService } from '../calculations/calculations.service';
+import { Database } from '../infra/database/database.service';
+import { ProductsService } from '../products/products.service';
+import { TS_TEXT } from '../records/chain';
+import { ReviewsService } from '../reviews/reviews.service';
+import type { ReportInput } from './report-model';
+
+@Injectable()
+export class ReportInputService {
+  constructor(
+    private readonly db: Database,
+    private readonly calculations: CalculationsService,
+    private readonly products: ProductsService,
+    private readonly reviews: ReviewsService,
+  ) {}
+
+  async forRevision(revisionId: string): Promise<ReportInput> {
+    const revision = await this.calculations.revision(revisionId);
+    const [product, calculation, review, all, events, now] = await Promise.all([
+      this.products.get(revision.productId),
+      this.calculations.get(revision.calculationId),
+      this.reviews.state(revisionId),
+      this.calculations.revisions(revision.calculationId),
+      this.db.query<Record<string, any>>(
+        `SELECT id, product_id, seq, type, calculation_id, revision_id, actor, data, ${TS_TEXT('created_at')} AS created_at, hash, previous_hash
+           FROM events WHERE revision_id = $1 ORDER BY seq`,
+        [revisionId],
+      ),
+      this.db.query<{ now: string }>(`SELECT ${TS_TEXT('now()')} AS now`),
+    ]);
+    const states = await Promise.all(all.map((r) => this.reviews.state(r.id)));
+    return {
+      product: { id: product.id, code: product.code, name: product.name, description: product.description },
+      calculation: { id: calculation.id, title: calculation.title },
+      revision,
+      state: review.state,
+      reviewer: review.decidedBy,
+      decidedAt: review.decidedAt,
+      events: events.map(
+        (e): ProductEvent => ({
+          id: e.id, productId: e.product_id, seq: Number(e.seq), type: e.type, calculationId: e.calculation_id, revisionId: e.revision_id,
+          actor: e.actor ?? null, data: e.data, createdAt: e.created_at, hash: e.hash, previousHash: e.previous_hash,
+        }),
+      ),
+      history: all.map((r, i) => ({ id: r.id, revision: r.revision, createdAt: r.createdAt, verdict: r.verdict, state: states[i].state, author: r.author })),
+      generatedAt: now[0].now,
+    };
+  }
+}

@@ -1,0 +1,39 @@
+import { Controller, Get, Param, Query, Res } from '@nestjs/common';
+import type { FastifyReply } from 'fastify';
+import { PdfRenderer } from '../infra/pdf/browser-pool';
+import { validate } from '../infra/http/problem';
+import { z } from 'zod';
+import { ReportInputService } from './report-input.service';
+import { ReportRenderer, reportPdfLabels } from './report-renderer';
+
+const pdfQuerySchema = z.object({ paper: z.enum(['A4', 'Letter']).default('A4') });
+
+/** The calculation report of a revision, as HTML and as PDF (Chromium, one browser reused). */
+@Controller('api/v1/revisions')
+export class ReportsController {
+  constructor(
+    private readonly inputs: ReportInputService,
+    private readonly renderer: ReportRenderer,
+    private readonly pdf: PdfRenderer,
+  ) {}
+
+  @Get(':id/report.html')
+  async html(@Param('id') id: string, @Res({ passthrough: true }) reply: FastifyReply) {
+    const { html } = await this.renderer.render(await this.inputs.forRevision(id));
+    reply.header('content-type', 'text/html; charset=utf-8');
+    return html;
+  }
+
+  /** ?paper=A4 (default) or Letter. */
+  @Get(':id/report.pdf')
+  async pdfReport(@Param('id') id: string, @Query() query: unknown, @Res({ passthrough: true }) reply: FastifyReply) {
+    const { paper } = validate(pdfQuerySchema, query);
+    const input = await this.inputs.forRevision(id);
+    const { view, html } = await this.renderer.render(input);
+    const buffer = await this.pdf.render(html, { format: paper, ...reportPdfLabels(view) });
+    reply
+      .header('content-type', 'application/pdf')
+      .header('content-disposition', `inline; filename="${input.product.code}-${input.calculation.title.replace(/[^A-Za-z0-9._-]+/g, '-')}-rev${input.revision.revision}.pdf"`);
+    return buffer;
+  }
+}

@@ -1,0 +1,100 @@
+import { Body, Controller, Get, HttpCode, Param, Post, Query, Res } from '@nestjs/common';
+import type { FastifyReply } from 'fastify';
+import type { Actor } from '@leadline/contracts';
+import { CalculationsService } from '../calculations/calculations.service';
+import { Roles } from '../identities/auth.guard';
+import { CurrentActor } from '../infra/http/actor';
+import { ProblemError, validate } from '../infra/http/problem';
+import { ProductsService } from '../products/products.service';
+import { AuditService, auditQuerySchema, changes, flatten } from './audit.service';
+import { ReviewsService } from './reviews.service';
+
+@Controller('api/v1')
+export class ReviewsController {
+  constructor(
+    private readonly reviews: ReviewsService,
+    private readonly audit: AuditService,
+    private readonly calculations: CalculationsService,
+    private readonly products: ProductsService,
+  ) {}
+
+  /** Approve or reject a revision (reviewer, not its author). */
+  @Post('revisions/:id/decisions')
+  @Roles('reviewer')
+  @HttpCode(201)
+  decide(@Param('id') id: string, @Body() body: unknown, @CurrentActor() actor: Actor) {
+    return this.reviews.decide(id, body, actor);
+  }
+
+  /** A comment without a decision, general or on an input field or a finding. */
+  @Post('revisions/:id/comments')
+  @Roles('author', 'reviewer')
+  @HttpCode(201)
+  comment(@Param('id') id: string, @Body() body: unknown, @CurrentActor() actor: Actor) {
+    return this.reviews.comment(id, body, actor);
+  }
+
+  /** The author takes a revision back before a decision. */
+  @Post('revisions/:id/withdraw')
+  @Roles('author')
+  @HttpCode(200)
+  withdraw(@Param('id') id: string, @Body() body: unknown, @CurrentActor() actor: Actor) {
+    return this.reviews.withdraw(id, body, actor);
+  }
+
+  /** Revisions awaiting review, oldest first; filter by productId, calculationId, verdict, authorId. */
+  @Get('reviews/queue')
+  queue(@Query() query: unknown) {
+    return this.audit.queue(query);
+  }
+
+  /** The chronological trail of a product: every revision, finding summary, event, actor, time and hash. */
+  @Get('products/:id/audit')
+  async trail(@Param('id') id: string, @Query() query: unknown, @Res({ passthrough: true }) reply: FastifyReply) {
+    const q = validate(auditQuerySchema, query);
+    if (!q.format) return this.audit.trail(id, q.after, q.limit);
+    const product = await this.products.get(id);
+    const entries = await this.audit.fullTrail(id);
+    const name = `audit-${product.code}`;
+    if (q.format === 'csv') {
+      reply.header('content-type', 'text/csv; charset=utf-8').header('content-disposition', `attachment; filename="${name}.csv"`);
+      return AuditService.toCsv(entries);
+    }
+    reply.header('content-disposition', `attachment; filename="${name}.json"`);
+    return { product, entries };
+  }
+
+  /** What changed in inputs, friction sources, results and findings between two revisions. */
+  @Get('revisions/:id/diff')
+  async diff(@Param('id') id: string, @Query('against') against?: string) {
+    if (!against) throw new ProblemError(422, 'The request has invalid fields', 'against: required', { errors: [{ path: 'against', message: 'the revision id to compare with' }] });
+    const [to, from] = await Promise.all([this.calculations.revision(id), this.calculations.revision(against)]);
+    const results = (r: typeof to) => {
+      const { trace: _t, findings: _f, ...rest } = r.evaluation as unknown as Record<string, unknown>;
+      return flatten(rest);
+    };
+    const friction = (r: typeof to) => ({ thread: r.normalized.friction.thread, collar: r.normalized.friction.collar });
+    const byRule = (r: typeof to) => new Map(r.findings.map((f) => [f.ruleId, f]));
+    const a = byRule(from);
+    const b = byRule(to);
+    return {
+      revision: { id: to.id, revision: to.revision, calculationId: to.calculationId },
+      against: { id: from.id, revision: from.revision, calculationId: from.calculationId },
+      sameCalculation: to.calculationId === from.calculationId,
+      inputs: changes(flatten(from.input), flatten(to.input)),
+      frictionSources: changes(flatten(friction(from)), flatten(friction(to))),
+      results: changes(results(from), results(to)),
+      findings: {
+        added: [...b.values()].filter((f) => !a.has(f.ruleId)),
+        removed: [...a.values()].filter((f) => !b.has(f.ruleId)),
+        changed: [...b.values()]
+          .filter((f) => a.has(f.ruleId) && (a.get(f.ruleId)!.severity !== f.severity || a.get(f.ruleId)!.message !== f.message))
+          .map((f) => ({ ruleId: f.ruleId, from: a.get(f.ruleId), to: f })),
+      },
+      versions: {
+        engine: { from: from.engineVersion, to: to.engineVersion },
+        ruleSet: { from: from.ruleSetVersion, to: to.ruleSetVersion },
+      },
+    };
+  }
+}

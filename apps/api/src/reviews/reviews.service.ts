@@ -1,0 +1,180 @@
+/**
+ * The review workflow: decisions, comments and withdrawals as events on the product's chain, and the review
+ * state of a revision derived from the log (closure row, written in the same transaction, or a newer revision).
+ */
+import { Injectable } from '@nestjs/common';
+import type { Actor, Finding, ReviewState } from '@leadline/contracts';
+import { z } from 'zod';
+import { Database, PG_UNIQUE_VIOLATION, pgErrorCode, type Queryer } from '../infra/database/database.service';
+import { ProblemError, ValidationProblem, notFound, validate } from '../infra/http/problem';
+import { checkUuid } from '../products/products.service';
+import { TS_TEXT } from '../records/chain';
+import { RecordStore } from '../records/record-store';
+
+export const targetSchema = z.union([
+  z.strictObject({ field: z.string().min(1).max(200).describe('input field path, e.g. "thread.pitch"') }),
+  z.strictObject({ finding: z.string().min(1).max(100).describe('rule id of one of the revision\'s findings') }),
+]);
+
+export const commentSchema = z.strictObject({ text: z.string().trim().min(1, 'a comment needs text').max(8000), target: targetSchema.optional() });
+
+export const decisionSchema = z.strictObject({
+  decision: z.enum(['approve', 'reject']),
+  comment: z.string().max(8000).optional(),
+  acknowledgements: z.array(z.strictObject({ finding: z.string().min(1).max(100), comment: z.string().trim().min(1, 'an acknowledgement needs a comment').max(4000) })).max(100).optional(),
+  comments: z.array(commentSchema).max(100).optional().describe('comments attached to input fields or findings'),
+});
+
+export const withdrawSchema = z.strictObject({ comment: z.string().max(8000).optional() }).optional();
+
+export interface RevisionState {
+  id: string;
+  productId: string;
+  calculationId: string;
+  revision: number;
+  authorId: string | null;
+  findings: Finding[];
+  input: unknown;
+  state: ReviewState;
+  decidedBy: Actor | null;
+  decidedAt: string | null;
+}
+
+@Injectable()
+export class ReviewsService {
+  constructor(
+    private readonly db: Database,
+    private readonly records: RecordStore,
+  ) {}
+
+  async state(id: string, q: Queryer = this.db): Promise<RevisionState> {
+    const rows = await q.query<{
+      id: string; product_id: string; calculation_id: string; revision: number; author_id: string | null; findings: Finding[]; input: string;
+      closure: ReviewState | null; superseded: boolean; actor: Actor | null; decided_at: string | null;
+    }>(
+      `SELECT r.id, r.product_id, r.calculation_id, r.revision, r.author_id, r.findings, r.input::text AS input, c.kind AS closure,
+              EXISTS (SELECT 1 FROM revisions n WHERE n.calculation_id = r.calculation_id AND n.revision > r.revision) AS superseded,
+              e.actor, ${TS_TEXT('c.created_at')} AS decided_at
+         FROM revisions r
+         LEFT JOIN revision_closures c ON c.revision_id = r.id
+         LEFT JOIN events e ON e.id = c.event_id
+        WHERE r.id = $1`,
+      [checkUuid(id, 'revision')],
+    );
+    if (rows.length === 0) throw notFound(`revision ${id}`);
+    const r = rows[0];
+    return {
+      id: r.id, productId: r.product_id, calculationId: r.calculation_id, revision: Number(r.revision), authorId: r.author_id,
+      findings: r.findings, input: JSON.parse(r.input),
+      state: r.closure ?? (r.superseded ? 'superseded' : 'submitted'),
+      decidedBy: r.closure ? r.actor : null,
+      decidedAt: r.decided_at,
+    };
+  }
+
+  /** Approve or reject: four-eyes, no blocking findings, every warning acknowledged, exactly one decision. */
+  async decide(revisionId: string, body: unknown, actor: Actor) {
+    const input = validate(decisionSchema, body);
+    const head = await this.state(revisionId);
+    return this.db.transaction(async (q) => {
+      const cursor = (await this.records.lockHead(q, head.productId))!;
+      const rev = await this.state(revisionId, q);
+      if (rev.authorId !== null && rev.authorId === actor.id) {
+        throw new ProblemError(403, 'Four-eyes rule', 'a revision must be decided by a reviewer other than its author');
+      }
+      if (rev.state !== 'submitted') {
+        throw new ProblemError(409, 'Revision is not awaiting review', `revision ${rev.revision} is ${rev.state}`, { state: rev.state });
+      }
+      const comments = input.comments ?? [];
+      this.checkTargets(rev, comments);
+      const acknowledgements = input.acknowledgements ?? [];
+      if (input.decision === 'approve') {
+        const blocking = rev.findings.filter((f) => f.severity === 'blocking');
+        if (blocking.length > 0) {
+          throw new ProblemError(409, 'Blocking findings', `cannot approve while blocking findings stand: ${blocking.map((f) => f.ruleId).join(', ')}`, {
+            blocking: blocking.map((f) => f.ruleId),
+          });
+        }
+        const warnings = new Set(rev.findings.filter((f) => f.severity === 'warning').map((f) => f.ruleId));
+        const issues = acknowledgements
+          .map((a, i) => (warnings.has(a.finding) ? null : { path: `acknowledgements.${i}.finding`, message: `"${a.finding}" is not a warning of this revision` }))
+          .filter((x): x is { path: string; message: string } => x !== null);
+        const acked = new Set(acknowledgements.map((a) => a.finding));
+        for (const w of warnings) if (!acked.has(w)) issues.push({ path: 'acknowledgements', message: `warning "${w}" must be acknowledged with a comment` });
+        if (issues.length) throw new ValidationProblem(issues);
+      } else {
+        if (!input.comment || input.comment.trim() === '') throw new ValidationProblem([{ path: 'comment', message: 'a rejection needs a comment' }]);
+        if (acknowledgements.length) throw new ValidationProblem([{ path: 'acknowledgements', message: 'acknowledgements belong to an approval' }]);
+      }
+      const kind = input.decision === 'approve' ? 'approved' : 'rejected';
+      const event = await this.records.appendEvent(q, cursor, {
+        productId: rev.productId, type: kind, calculationId: rev.calculationId, revisionId: rev.id, actor,
+        data: { revision: rev.revision, comment: input.comment ?? null, acknowledgements, comments },
+      });
+      await this.close(q, rev.id, kind, event.id, actor);
+      await this.records.saveHead(q, rev.productId, cursor);
+      return { revisionId: rev.id, state: kind, eventId: event.id, hash: event.hash, decidedAt: event.createdAt };
+    });
+  }
+
+  async comment(revisionId: string, body: unknown, actor: Actor) {
+    const input = validate(commentSchema, body);
+    const head = await this.state(revisionId);
+    this.checkTargets(head, [input]);
+    return this.db.transaction(async (q) => {
+      const cursor = (await this.records.lockHead(q, head.productId))!;
+      const event = await this.records.appendEvent(q, cursor, {
+        productId: head.productId, type: 'comment', calculationId: head.calculationId, revisionId: head.id, actor,
+        data: { revision: head.revision, text: input.text, target: input.target ?? null },
+      });
+      await this.records.saveHead(q, head.productId, cursor);
+      return { eventId: event.id, hash: event.hash, createdAt: event.createdAt };
+    });
+  }
+
+  /** The author takes a revision back before anyone decides on it. */
+  async withdraw(revisionId: string, body: unknown, actor: Actor) {
+    const input = validate(withdrawSchema, body) ?? {};
+    const head = await this.state(revisionId);
+    return this.db.transaction(async (q) => {
+      const cursor = (await this.records.lockHead(q, head.productId))!;
+      const rev = await this.state(revisionId, q);
+      if (rev.authorId !== actor.id) throw new ProblemError(403, 'Not the author', 'only the author of a revision can withdraw it');
+      if (rev.state !== 'submitted') throw new ProblemError(409, 'Revision is not awaiting review', `revision ${rev.revision} is ${rev.state}`, { state: rev.state });
+      const event = await this.records.appendEvent(q, cursor, {
+        productId: rev.productId, type: 'withdrawn', calculationId: rev.calculationId, revisionId: rev.id, actor,
+        data: { revision: rev.revision, comment: input.comment ?? null },
+      });
+      await this.close(q, rev.id, 'withdrawn', event.id, actor);
+      await this.records.saveHead(q, rev.productId, cursor);
+      return { revisionId: rev.id, state: 'withdrawn', eventId: event.id, hash: event.hash };
+    });
+  }
+
+  private async close(q: Queryer, revisionId: string, kind: string, eventId: string, actor: Actor): Promise<void> {
+    try {
+      await q.query(`INSERT INTO revision_closures (revision_id, kind, event_id, actor_id, created_at) VALUES ($1, $2, $3, $4, now())`, [revisionId, kind, eventId, actor.id]);
+    } catch (err) {
+      if (pgErrorCode(err) === PG_UNIQUE_VIOLATION) throw new ProblemError(409, 'Revision is not awaiting review', 'another decision was recorded first');
+      throw err;
+    }
+  }
+
+  /** Comment targets must name a field of the submitted input or one of the revision's findings. */
+  private checkTargets(rev: RevisionState, comments: readonly z.infer<typeof commentSchema>[]): void {
+    const issues: { path: string; message: string }[] = [];
+    comments.forEach((c, i) => {
+      const t = c.target;
+      if (!t) return;
+      if ('field' in t) {
+        const path = t.field.replace(/^design\./, '');
+        let node: unknown = rev.input;
+        for (const part of path.split('.')) node = node !== null && typeof node === 'object' ? (node as Record<string, unknown>)[part] : undefined;
+        if (node === undefined) issues.push({ path: `comments.${i}.target.field`, message: `"${t.field}" is not a field of revision ${rev.revision}'s input` });
+      } else if (!rev.findings.some((f) => f.ruleId === t.finding)) {
+        issues.push({ path: `comments.${i}.target.finding`, message: `"${t.finding}" is not a finding of revision ${rev.revision}` });
+      }
+    });
+    if (issues.length) throw new ValidationProblem(comments.length === 1 && issues.length === 1 ? [{ path: issues[0].path.replace(/^comments\.0\./, ''), message: issues[0].message }] : issues);
+  }
+}
