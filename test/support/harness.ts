@@ -37,6 +37,8 @@ export interface CallOptions {
   /** Whose token to send (default: the author) */
   as?: Who;
   headers?: Record<string, string>;
+  /** Client address the request comes from (the failed-auth limit counts per address) */
+  ip?: string;
 }
 
 export interface TestApp {
@@ -87,6 +89,7 @@ export async function startTestApp(backend: Backend, env: Record<string, string>
       const res = await fastify.inject({
         method: method as 'GET',
         url,
+        remoteAddress: options.ip ?? '127.0.0.1',
         headers: { ...(body !== undefined && typeof body !== 'string' ? { 'content-type': 'application/json' } : {}), ...auth, ...(options.headers ?? {}) },
         payload: body === undefined ? undefined : typeof body === 'string' ? body : JSON.stringify(body),
       });

@@ -1,7 +1,8 @@
 import { Global, Module } from '@nestjs/common';
+import { ImpactService } from './impact.service';
 import { RuleSetsService } from './rule-sets.service';
 import { RulesController } from './rules.controller';
 
 @Global()
-@Module({ controllers: [RulesController], providers: [RuleSetsService], exports: [RuleSetsService] })
+@Module({ controllers: [RulesController], providers: [RuleSetsService, ImpactService], exports: [RuleSetsService] })
 export class RulesModule {}

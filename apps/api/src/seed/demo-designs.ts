@@ -52,7 +52,7 @@ export const pressScrew: DesignInput = {
   nut: { length: '2.5 in', material: 'bronze' },
   screw: { material: 'steel-1045-cd', unsupportedLength: '14 in', ends: 'fixed-pinned' },
   duty: { kind: 'clamping', speed: '20 rpm', brake: false },
-  drive: { availableTorque: '1800 lbf*in' },
+  drive: { availableTorque: '2400 lbf*in' },
 };
 
 export const DEMO_PRODUCTS = [
