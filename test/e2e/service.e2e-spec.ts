@@ -14,6 +14,8 @@ const base = `http://127.0.0.1:${port}`;
 let child: ChildProcess;
 let dataDir: string;
 let output = '';
+let token = '';
+const authed = (init: RequestInit = {}) => ({ ...init, headers: { ...(init.headers ?? {}), authorization: `Bearer ${token}` } });
 
 async function waitFor(url: string, ms: number): Promise<void> {
   const until = Date.now() + ms;
@@ -42,6 +44,8 @@ beforeAll(async () => {
   child.stdout!.on('data', (d) => (output += d));
   child.stderr!.on('data', (d) => (output += d));
   await waitFor(`${base}/health`, 45000);
+  for (let i = 0; i < 50 && !/export LEADLINE_TOKEN=(\S+)/.test(output); i++) await new Promise((r) => setTimeout(r, 100));
+  token = /export LEADLINE_TOKEN=(\S+)/.exec(output)?.[1] ?? '';
 }, 90000);
 
 afterAll(async () => {
@@ -53,11 +57,15 @@ afterAll(async () => {
 it('starts on the embedded database, seeds the demo and prints how to call it', async () => {
   expect(output).toContain(`Leadline is listening on ${base}`);
   expect(output).toContain('Demo data seeded');
-  const products = await (await fetch(`${base}/api/v1/products`)).json();
+  expect(output).toMatch(/Checking engineer \(demo\)\s+reviewer\s+ll_/);
+  expect((await fetch(`${base}/api/v1/products`)).status).toBe(401);
+  const products = await (await fetch(`${base}/api/v1/products`, authed())).json();
   expect(products.items.map((p: { code: string }) => p.code)).toEqual(['CV-400', 'CV-P60']);
-  const product = await (await fetch(`${base}/api/v1/products/${products.items[0].id}`)).json();
+  const product = await (await fetch(`${base}/api/v1/products/${products.items[0].id}`, authed())).json();
   expect(product.calculations).toHaveLength(3);
-  const verify = await (await fetch(`${base}/api/v1/products/${products.items[0].id}/verify`)).json();
+  const verify = await (await fetch(`${base}/api/v1/products/${products.items[0].id}/verify`, authed())).json();
+  const queue = await (await fetch(`${base}/api/v1/reviews/queue`, authed())).json();
+  expect(queue.items.map((i: { title: string }) => i.title).sort()).toEqual(['Platform tilt screw', 'Press screw']);
   expect(verify).toMatchObject({ valid: true });
 });
 
@@ -69,16 +77,25 @@ it('serves the OpenAPI page', async () => {
 
 it('passes the shared contract examples over HTTP (shared/contract/check-examples.py)', () => {
   const script = join(root, '../shared/contract/check-examples.py');
-  const r = spawnSync('python3', [script, base], { encoding: 'utf8' });
+  const r = spawnSync('python3', [script, base], { encoding: 'utf8', env: { ...process.env, LEADLINE_TOKEN: token } });
   expect(r.stdout).toMatch(/contract examples: \d+ passed, 0 failed/);
   expect(r.status).toBe(0);
 });
 
 it('evaluates the README example fixture', async () => {
   const body = readFileSync(join(root, 'test/fixtures/ok/trapezoidal-jack.json'), 'utf8');
-  const res = await fetch(`${base}/api/v1/evaluations`, { method: 'POST', headers: { 'content-type': 'application/json' }, body });
+  const res = await fetch(`${base}/api/v1/evaluations`, authed({ method: 'POST', headers: { 'content-type': 'application/json' }, body }));
   expect(res.status).toBe(200);
   const ev = await res.json();
   expect(ev.geometry.minorDiameter).toBeCloseTo(0.032, 9); // Tr 40x7: d3 = 32.000 mm (ISO 2904, shared/reference/threads.md §1.2)
   expect(ev.findings.every((f: { basis: string }) => f.basis.length > 0)).toBe(true);
+});
+
+it('serves the PDF report of a seeded revision over the network', async () => {
+  const products = await (await fetch(`${base}/api/v1/products`, authed())).json();
+  const product = await (await fetch(`${base}/api/v1/products/${products.items[0].id}`, authed())).json();
+  const revisions = await (await fetch(`${base}/api/v1/calculations/${product.calculations[0].id}/revisions`, authed())).json();
+  const pdf = await fetch(`${base}/api/v1/revisions/${revisions.items[0].id}/report.pdf`, authed());
+  expect(pdf.status).toBe(200);
+  expect(Buffer.from(await pdf.arrayBuffer()).subarray(0, 5).toString()).toBe('%PDF-');
 });

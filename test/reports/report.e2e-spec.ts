@@ -1,0 +1,105 @@
+/**
+ * Calculation reports through the real service: PostgreSQL records, HTTP routes, Debian's Chromium.
+ * The PDF's text is extracted with pdf-parse and checked against the stored evaluation.
+ */
+import { mkdirSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import puppeteer from 'puppeteer-core';
+import { PdfRenderer, CHROMIUM_FLAGS } from '../../apps/api/src/infra/pdf/browser-pool';
+import { formatQuantity, sig } from '../../apps/api/src/reports/format';
+import { warningDesign } from '../support/designs';
+import { startTestApp, type TestApp } from '../support/harness';
+
+// eslint-disable-next-line @typescript-eslint/no-require-imports
+const { PDFParse } = require('pdf-parse') as { PDFParse: new (o: { data: Uint8Array }) => { getText(): Promise<{ text: string }>; destroy(): Promise<void> } };
+const ARTIFACTS = join(__dirname, '../../artifacts');
+
+async function pdfText(pdf: Buffer): Promise<string> {
+  const parser = new PDFParse({ data: new Uint8Array(pdf) });
+  try {
+    return (await parser.getText()).text.replace(/\s+/g, ' ');
+  } finally {
+    await parser.destroy();
+  }
+}
+
+let t: TestApp;
+let revisionId: string;
+let record: any;
+
+beforeAll(async () => {
+  t = await startTestApp('postgres', { LEADLINE_CHROMIUM_PATH: '/usr/bin/chromium' });
+  const product = (await t.call('POST', '/api/v1/products', { code: 'KL-8', name: 'Kestrel KL-8 vehicle lift (test product)' })).body.id;
+  const opened = await t.call('POST', `/api/v1/products/${product}/calculations`, { title: 'Column screw', design: warningDesign });
+  revisionId = opened.body.revisionId;
+  await t.call('POST', `/api/v1/revisions/${revisionId}/decisions`, {
+    decision: 'approve',
+    comment: 'Checked at both ends of the friction range.',
+    acknowledgements: [{ finding: 'friction-source-assumed', comment: 'Friction test scheduled with the nut supplier.' }],
+  }, { as: 'reviewer' });
+  record = (await t.call('GET', `/api/v1/revisions/${revisionId}`)).body;
+  mkdirSync(ARTIFACTS, { recursive: true });
+});
+afterAll(() => t?.close());
+
+it('renders a stored revision to PDF whose text carries the inputs, results, findings, caution and hash [GET /api/v1/revisions/:id/report.pdf]', async () => {
+  const res = await t.call('GET', `/api/v1/revisions/${revisionId}/report.pdf`);
+  expect(res.status).toBe(200);
+  expect(res.headers['content-type']).toBe('application/pdf');
+  expect(res.raw.subarray(0, 5).toString()).toBe('%PDF-');
+  writeFileSync(join(ARTIFACTS, 'service-report-a4.pdf'), res.raw);
+  const text = await pdfText(res.raw);
+  const e = record.evaluation;
+  // inputs as entered
+  expect(text).toContain('Tr 40x7');
+  expect(text).toContain('18 kN');
+  expect(text).toContain('KL-8');
+  expect(text).toContain('Column screw');
+  // results, formatted from the stored evaluation exactly as the report formats them
+  for (const [si, kind] of [
+    [e.torque.raise.atMaxFriction, 'torque'],
+    [e.torque.lower.atMinFriction, 'torque'],
+    [e.stresses.body.vonMises, 'stress'],
+    [e.buckling.criticalLoad, 'force'],
+  ] as const) {
+    expect(text).toContain(formatQuantity(si, kind, 'SI').replace(/\s+/g, ' '));
+  }
+  expect(text).toContain(sig(e.selfLocking.margin));
+  // findings, review, caution and record hash
+  for (const f of record.findings.filter((x: { severity: string }) => x.severity !== 'info')) expect(text).toContain(f.message.slice(0, 40));
+  expect(text).toContain('Friction test scheduled with the nut supplier.');
+  expect(text).toMatch(/does not replace/);
+  expect(text).toMatch(/no substitute for a brake/);
+  expect(text.replace(/\s/g, '')).toContain(record.hash);
+  const letter = await t.call('GET', `/api/v1/revisions/${revisionId}/report.pdf?paper=Letter`);
+  expect(letter.status).toBe(200);
+  expect((await t.call('GET', `/api/v1/revisions/${revisionId}/report.pdf?paper=A3`)).status).toBe(422);
+});
+
+it('renders the HTML report in Chromium at A4 width without overflow, and saves a screenshot [GET /api/v1/revisions/:id/report.html]', async () => {
+  const res = await t.call('GET', `/api/v1/revisions/${revisionId}/report.html`);
+  expect(res.status).toBe(200);
+  expect(res.headers['content-type']).toMatch(/text\/html/);
+  expect(res.text).not.toMatch(/https?:\/\/(?!leadline\.invalid)[^"' ]*\.(css|js|woff2?|ttf)/); // nothing fetched from outside
+  const browser = await puppeteer.launch({ executablePath: '/usr/bin/chromium', args: [...CHROMIUM_FLAGS], headless: true });
+  try {
+    const page = await browser.newPage();
+    await page.setViewport({ width: 794, height: 1123 });
+    await page.setContent(res.text, { waitUntil: 'load' });
+    const widths = await page.evaluate(() => ({ scroll: document.documentElement.scrollWidth, client: document.documentElement.clientWidth }));
+    expect(widths.scroll).toBeLessThanOrEqual(widths.client);
+    expect(await page.$$eval('svg', (s) => s.length)).toBeGreaterThanOrEqual(2);
+    await page.screenshot({ path: join(ARTIFACTS, 'service-report-a4.png'), fullPage: false });
+  } finally {
+    await browser.close();
+  }
+});
+
+it('serves 10 concurrent PDF requests with one browser process', async () => {
+  const pdf = t.app.get(PdfRenderer);
+  const launchesBefore = pdf.browserLaunches;
+  const results = await Promise.all(Array.from({ length: 10 }, () => t.call('GET', `/api/v1/revisions/${revisionId}/report.pdf`)));
+  expect(results.map((r) => r.status)).toEqual(Array(10).fill(200));
+  for (const r of results) expect(r.raw.subarray(0, 5).toString()).toBe('%PDF-');
+  expect(pdf.browserLaunches).toBe(Math.max(launchesBefore, 1));
+});
