@@ -33,7 +33,9 @@ interface VegaLiteModule {
  * tsc rewrites a literal import() into require(); an import() built by the Function constructor is left alone
  * and works both in compiled output and under Jest (--experimental-vm-modules).
  */
-const nativeImport = new Function('specifier', 'return import(specifier)') as <T>(specifier: string) => Promise<T>;
+// The unique comment keeps V8 from reusing one compiled function across Jest test files (its cached script would
+// import through the first file's torn-down module loader).
+const nativeImport = new Function('specifier', `return import(specifier); /* ${Math.random()} */`) as <T>(specifier: string) => Promise<T>;
 
 let modules: Promise<{ vega: VegaModule; vl: VegaLiteModule }> | null = null;
 function loadVega(): Promise<{ vega: VegaModule; vl: VegaLiteModule }> {
