@@ -3,11 +3,14 @@
  * a hello-world GET and a bare single INSERT of a 2 KB jsonb row on the same database pool.
  */
 import { Body, Controller, Get, HttpCode, Module, Post } from '@nestjs/common';
+import { Public } from '../apps/api/src/identities/auth.guard';
 import { Database } from '../apps/api/src/infra/database/database.service';
 
 const ROW = JSON.stringify({ payload: 'x'.repeat(2000) });
 
+/** Public: a bare baseline pays no authentication (the measured routes do). */
 @Controller('bench')
+@Public()
 class BaselineController {
   constructor(private readonly db: Database) {}
 

@@ -2,9 +2,11 @@
 import { CreatedRecordTables20261201220000 } from './20261201220000-created-record-tables';
 import { CreatedRuleSetsAndIdempotencyKeys20261201220100 } from './20261201220100-created-rule-sets-and-idempotency-keys';
 import { CreatedIdentitiesAndReviewClosures20261201220200 } from './20261201220200-created-identities-and-review-closures';
+import { ChangedRevisionContentToVerbatimJson20261201220300 } from './20261201220300-changed-revision-content-to-verbatim-json';
 
 export const MIGRATIONS = [
   CreatedRecordTables20261201220000,
   CreatedRuleSetsAndIdempotencyKeys20261201220100,
   CreatedIdentitiesAndReviewClosures20261201220200,
+  ChangedRevisionContentToVerbatimJson20261201220300,
 ];

@@ -102,7 +102,7 @@ describe.each(BACKENDS)('records on %s', (backend) => {
     const before = await t.call('GET', `/api/v1/products/${productId}/verify`);
     expect(before.body.valid).toBe(true);
     await t.db.query(`ALTER TABLE revisions DISABLE TRIGGER revisions_immutable`);
-    await t.db.query(`UPDATE revisions SET evaluation = jsonb_set(evaluation, '{torque,raise,atMaxFriction}', '1.0') WHERE id = $1`, [r.body.revisionId]);
+    await t.db.query(`UPDATE revisions SET evaluation = jsonb_set(evaluation::jsonb, '{torque,raise,atMaxFriction}', '1.0')::json WHERE id = $1`, [r.body.revisionId]);
     await t.db.query(`ALTER TABLE revisions ENABLE TRIGGER revisions_immutable`);
     const after = await t.call('GET', `/api/v1/products/${productId}/verify`);
     expect(after.body.valid).toBe(false);

@@ -13,7 +13,7 @@ import { notFound, validate } from '../infra/http/problem';
 import { checkUuid } from '../products/products.service';
 import { TS_TEXT } from '../records/chain';
 import { checkKey, findIdempotent, requestHash, storeIdempotent, type StoredResponse } from '../records/idempotency';
-import { RecordStore, type RevisionRow } from '../records/record-store';
+import { prepareSubmission, RecordStore, type RevisionRow } from '../records/record-store';
 import { RuleSetsService } from '../rules/rule-sets.service';
 
 export const openCalculationSchema = z.strictObject({
@@ -33,8 +33,8 @@ export interface Calculation {
   createdAt: string;
 }
 
-const REVISION_COLUMNS = `r.id, r.product_id, r.calculation_id, r.revision, r.seq, r.note, r.input::text AS input, r.normalized, r.evaluation,
-  r.findings, r.verdict, r.engine_version, r.rule_set_version, r.author, ${TS_TEXT('r.created_at')} AS created_at, r.hash, r.previous_hash`;
+const REVISION_COLUMNS = `r.id, r.product_id, r.calculation_id, r.revision, r.seq, r.note, r.input::text AS input, r.normalized::text AS normalized,
+  r.evaluation::text AS evaluation, r.findings::text AS findings, r.verdict, r.engine_version, r.rule_set_version, r.author, ${TS_TEXT('r.created_at')} AS created_at, r.hash, r.previous_hash`;
 
 export function toRevisionRecord(r: RevisionRow): RevisionRecord {
   return {
@@ -44,9 +44,9 @@ export function toRevisionRecord(r: RevisionRow): RevisionRecord {
     revision: Number(r.revision),
     note: r.note,
     input: JSON.parse(r.input),
-    normalized: r.normalized as RevisionRecord['normalized'],
-    evaluation: r.evaluation as RevisionRecord['evaluation'],
-    findings: r.findings as RevisionRecord['findings'],
+    normalized: JSON.parse(r.normalized) as RevisionRecord['normalized'],
+    evaluation: JSON.parse(r.evaluation) as RevisionRecord['evaluation'],
+    findings: JSON.parse(r.findings) as RevisionRecord['findings'],
     verdict: r.verdict as RevisionRecord['verdict'],
     engineVersion: r.engine_version,
     ruleSetVersion: r.rule_set_version,
@@ -71,6 +71,7 @@ export class CalculationsService {
     checkUuid(productId, 'product');
     const input = validate(openCalculationSchema, body);
     const assessment = this.assessor.assess(input.design, this.ruleSets.current(), 'design.');
+    const prepared = prepareSubmission(submission(assessment, input.design, null));
     return this.idempotent(`open:${productId}:${actor?.id ?? '-'}`, idempotencyKey, body, async (q) => {
       const cursor = await this.records.lockHead(q, productId);
       if (!cursor) throw notFound(`product ${productId}`);
@@ -81,8 +82,7 @@ export class CalculationsService {
       await this.records.appendEvent(q, cursor, {
         productId, type: 'calculation-opened', calculationId, revisionId: null, actor, data: { title: input.title },
       });
-      const revision = await this.records.appendRevision(q, cursor, productId, calculationId, submission(assessment, input.design, null), actor);
-      await this.records.saveHead(q, productId, cursor);
+      const revision = await this.records.appendRevision(q, cursor, productId, calculationId, prepared, actor);
       return {
         status: 201,
         body: { calculationId, revisionId: revision.id, revision: revision.revision, verdict: assessment.verdict, hash: revision.hash },
@@ -95,11 +95,11 @@ export class CalculationsService {
     const calc = await this.get(calculationId);
     const input = validate(addRevisionSchema, body);
     const assessment = this.assessor.assess(input.design, this.ruleSets.current(), 'design.');
+    const prepared = prepareSubmission(submission(assessment, input.design, input.note ?? null));
     return this.idempotent(`revise:${calculationId}:${actor?.id ?? '-'}`, idempotencyKey, body, async (q) => {
       const cursor = await this.records.lockHead(q, calc.productId);
       if (!cursor) throw notFound(`product ${calc.productId}`);
-      const revision = await this.records.appendRevision(q, cursor, calc.productId, calculationId, submission(assessment, input.design, input.note ?? null), actor);
-      await this.records.saveHead(q, calc.productId, cursor);
+      const revision = await this.records.appendRevision(q, cursor, calc.productId, calculationId, prepared, actor);
       return {
         status: 201,
         body: { calculationId, revisionId: revision.id, revision: revision.revision, verdict: assessment.verdict, hash: revision.hash },

@@ -1,6 +1,9 @@
 /**
  * Tamper evidence: each product's records (revisions and events) form one hash chain.
  * hash = SHA-256 over the RFC 8785 canonical JSON of { record, previousHash }.
+ * A revision's large parts (input, normalized input, evaluation, findings) are stored as verbatim JSON text and
+ * enter its record as one SHA-256 digest of those bytes, computed before the chain is locked; a change to any
+ * byte of them changes the link hash.
  */
 import { createHash } from 'node:crypto';
 import canonicalize from 'canonicalize';
@@ -14,6 +17,21 @@ export function linkHash(record: Record<string, unknown>, previousHash: string |
   return createHash('sha256').update(text as string, 'utf8').digest('hex');
 }
 
+/** The large, content-bearing parts of a revision, as the JSON texts stored verbatim in its row. */
+export interface RevisionContentText {
+  input: string;
+  normalized: string;
+  evaluation: string;
+  findings: string;
+}
+
+/** SHA-256 over the stored texts of a revision's content, each length-prefixed so no boundary can shift. */
+export function contentDigest(c: RevisionContentText): string {
+  const h = createHash('sha256');
+  for (const part of [c.input, c.normalized, c.evaluation, c.findings]) h.update(`${Buffer.byteLength(part, 'utf8')}:`).update(part, 'utf8');
+  return h.digest('hex');
+}
+
 /** The fields of a revision that its hash covers. */
 export interface RevisionLink {
   kind: 'revision';
@@ -23,10 +41,8 @@ export interface RevisionLink {
   revision: number;
   seq: number;
   note: string | null;
-  input: unknown;
-  normalized: unknown;
-  evaluation: unknown;
-  findings: unknown;
+  /** contentDigest of input, normalized, evaluation and findings */
+  content: string;
   verdict: string;
   engineVersion: string;
   ruleSetVersion: string;

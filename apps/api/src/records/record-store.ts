@@ -8,7 +8,7 @@ import { randomUUID } from 'node:crypto';
 import type { Actor, EventType, Finding, Verdict } from '@leadline/contracts';
 import { Database, type Queryer } from '../infra/database/database.service';
 import { notFound } from '../infra/http/problem';
-import { linkHash, TS_TEXT, type EventLink, type RevisionLink } from './chain';
+import { contentDigest, linkHash, TS_TEXT, type EventLink, type RevisionLink } from './chain';
 
 export interface ChainCursor {
   seq: number;
@@ -26,6 +26,22 @@ export interface RevisionSubmission {
   engineVersion: string;
   ruleSetVersion: string;
   note: string | null;
+}
+
+/** A submission with its JSON texts and content digest computed ahead, outside the chain lock. */
+export interface PreparedSubmission extends RevisionSubmission {
+  json: { input: string; normalized: string; evaluation: string; findings: string };
+  content: string;
+}
+
+export function prepareSubmission(s: RevisionSubmission): PreparedSubmission {
+  const json = {
+    input: JSON.stringify(s.input),
+    normalized: JSON.stringify(s.normalized),
+    evaluation: JSON.stringify(s.evaluation),
+    findings: JSON.stringify(s.findings),
+  };
+  return { ...s, json, content: contentDigest(json) };
 }
 
 export interface AppendedRevision {
@@ -85,13 +101,16 @@ export class RecordStore {
     return { ...link, hash, previousHash };
   }
 
-  /** Appends the next revision of a calculation and its submission event. */
+  /**
+   * Appends the next revision of a calculation and its submission event, and saves the chain head, in one
+   * statement (the revision number is read after the head is locked, so it is the true next one).
+   */
   async appendRevision(
     q: Queryer,
     cursor: ChainCursor,
     productId: string,
     calculationId: string,
-    s: RevisionSubmission,
+    s: PreparedSubmission,
     actor: Actor | null,
   ): Promise<AppendedRevision> {
     const [{ next }] = await q.query<{ next: number }>(
@@ -106,10 +125,7 @@ export class RecordStore {
       revision: Number(next),
       seq: cursor.seq + 1,
       note: s.note,
-      input: s.input,
-      normalized: s.normalized,
-      evaluation: s.evaluation,
-      findings: s.findings,
+      content: s.content,
       verdict: s.verdict,
       engineVersion: s.engineVersion,
       ruleSetVersion: s.ruleSetVersion,
@@ -117,25 +133,39 @@ export class RecordStore {
       createdAt: cursor.now,
     };
     const hash = linkHash(link as unknown as Record<string, unknown>, cursor.hash);
-    await q.query(
-      `INSERT INTO revisions (id, calculation_id, product_id, revision, seq, note, input, normalized, evaluation, findings, verdict,
-         engine_version, rule_set_version, author_id, author, created_at, hash, previous_hash)
-       VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13, $14, $15, $16::timestamptz, $17, $18)`,
-      [link.id, calculationId, productId, link.revision, link.seq, link.note, JSON.stringify(s.input), JSON.stringify(s.normalized),
-        JSON.stringify(s.evaluation), JSON.stringify(s.findings), s.verdict, s.engineVersion, s.ruleSetVersion, actor?.id ?? null,
-        actor ? JSON.stringify(actor) : null, link.createdAt, hash, cursor.hash],
-    );
-    const previousHash = cursor.hash;
-    cursor.seq = link.seq;
-    cursor.hash = hash;
-    await this.appendEvent(q, cursor, {
+    const event: EventLink = {
+      kind: 'event',
+      id: randomUUID(),
       productId,
+      seq: link.seq + 1,
       type: 'revision-submitted',
       calculationId,
       revisionId: link.id,
       actor,
       data: { revision: link.revision, revisionHash: hash, verdict: s.verdict, note: s.note },
-    });
+      createdAt: cursor.now,
+    };
+    const eventHash = linkHash(event as unknown as Record<string, unknown>, hash);
+    const actorJson = actor ? JSON.stringify(actor) : null;
+    await q.query(
+      `WITH r AS (
+         INSERT INTO revisions (id, calculation_id, product_id, revision, seq, note, input, normalized, evaluation, findings, verdict,
+           engine_version, rule_set_version, author_id, author, created_at, hash, previous_hash)
+         VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13, $14, $15, $16::timestamptz, $17, $18)
+         RETURNING id
+       ), e AS (
+         INSERT INTO events (id, product_id, seq, type, calculation_id, revision_id, actor_id, actor, data, created_at, hash, previous_hash)
+         SELECT $19, $3, $20, 'revision-submitted', $2, r.id, $14, $15, $21, $16::timestamptz, $22, $17 FROM r
+         RETURNING id
+       )
+       UPDATE chain_heads SET seq = $20, hash = $22 WHERE product_id = $3 AND EXISTS (SELECT 1 FROM e)`,
+      [link.id, calculationId, productId, link.revision, link.seq, link.note, s.json.input, s.json.normalized, s.json.evaluation,
+        s.json.findings, s.verdict, s.engineVersion, s.ruleSetVersion, actor?.id ?? null, actorJson, link.createdAt, hash, cursor.hash,
+        event.id, event.seq, JSON.stringify(event.data), eventHash],
+    );
+    const previousHash = cursor.hash;
+    cursor.seq = event.seq;
+    cursor.hash = eventHash;
     return { id: link.id, revision: link.revision, hash, previousHash, createdAt: link.createdAt };
   }
 
@@ -153,7 +183,8 @@ export class RecordStore {
     const head = await q.query<{ seq: string; hash: string }>(`SELECT seq, hash FROM chain_heads WHERE product_id = $1`, [productId]);
     if (head.length === 0) throw notFound(`product ${productId}`);
     const revisions = await q.query<RevisionRow>(
-      `SELECT id, product_id, calculation_id, revision, seq, note, input::text AS input, normalized, evaluation, findings, verdict,
+      `SELECT id, product_id, calculation_id, revision, seq, note, input::text AS input, normalized::text AS normalized,
+              evaluation::text AS evaluation, findings::text AS findings, verdict,
               engine_version, rule_set_version, author, ${TS_TEXT('created_at')} AS created_at, hash, previous_hash
          FROM revisions WHERE product_id = $1`,
       [productId],
@@ -204,6 +235,7 @@ function broken(productId: string, links: number, at: BrokenLink): ChainVerifica
   return { productId, valid: false, links, headHash: null, firstBrokenLink: at };
 }
 
+/** A revision row as read for the chain: the content columns as their stored JSON text. */
 export interface RevisionRow {
   id: string;
   product_id: string;
@@ -212,9 +244,9 @@ export interface RevisionRow {
   seq: string;
   note: string | null;
   input: string;
-  normalized: unknown;
-  evaluation: unknown;
-  findings: unknown;
+  normalized: string;
+  evaluation: string;
+  findings: string;
   verdict: string;
   engine_version: string;
   rule_set_version: string;
@@ -247,10 +279,7 @@ export function revisionLinkOf(r: RevisionRow): RevisionLink {
     revision: Number(r.revision),
     seq: Number(r.seq),
     note: r.note,
-    input: typeof r.input === 'string' ? JSON.parse(r.input) : r.input,
-    normalized: r.normalized,
-    evaluation: r.evaluation,
-    findings: r.findings,
+    content: contentDigest({ input: r.input, normalized: r.normalized, evaluation: r.evaluation, findings: r.findings }),
     verdict: r.verdict,
     engineVersion: r.engine_version,
     ruleSetVersion: r.rule_set_version,
