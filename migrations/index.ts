@@ -3,10 +3,12 @@ import { CreatedRecordTables20261201220000 } from './20261201220000-created-reco
 import { CreatedRuleSetsAndIdempotencyKeys20261201220100 } from './20261201220100-created-rule-sets-and-idempotency-keys';
 import { CreatedIdentitiesAndReviewClosures20261201220200 } from './20261201220200-created-identities-and-review-closures';
 import { ChangedRevisionContentToVerbatimJson20261201220300 } from './20261201220300-changed-revision-content-to-verbatim-json';
+import { CreatedRuleSetAdoptions20261201220400 } from './20261201220400-created-rule-set-adoptions';
 
 export const MIGRATIONS = [
   CreatedRecordTables20261201220000,
   CreatedRuleSetsAndIdempotencyKeys20261201220100,
   CreatedIdentitiesAndReviewClosures20261201220200,
   ChangedRevisionContentToVerbatimJson20261201220300,
+  CreatedRuleSetAdoptions20261201220400,
 ];

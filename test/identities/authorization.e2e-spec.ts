@@ -51,12 +51,15 @@ const TABLE: Row[] = [
   { method: 'GET', url: () => '/api/v1/rule-sets', allowed: ALL },
   { method: 'POST', url: () => '/api/v1/rule-sets', body: () => ({ version: 'bad' }), allowed: ['admin'] },
   { method: 'POST', url: () => '/api/v1/rule-sets/2026.12-1/impact', body: () => ({}), allowed: ['reviewer', 'admin'] },
+  { method: 'POST', url: () => '/api/v1/rule-sets/2099.01-1/adopt', body: () => ({}), allowed: ['admin'] },
   { method: 'GET', url: () => '/api/v1/users', allowed: ['admin'] },
   { method: 'POST', url: () => '/api/v1/users', body: () => ({ name: 'x', roles: ['author'] }), allowed: ['admin'] },
   { method: 'GET', url: () => '/api/v1/thread-sizes', allowed: ALL },
   { method: 'GET', url: () => '/api/v1/friction-sources', allowed: ALL },
   { method: 'GET', url: () => '/api/v1/materials', allowed: ALL },
   { method: 'GET', url: () => `/api/v1/revisions/${ids.revision}/report.html`, allowed: ALL },
+  { method: 'GET', url: () => `/api/v1/revisions/${ids.revision}/report.pdf`, allowed: ALL },
+  { method: 'GET', url: () => `/api/v1/products/${ids.product}/audit?format=csv`, allowed: ALL },
 ];
 
 let client = 0;

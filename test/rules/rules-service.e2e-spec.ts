@@ -86,3 +86,21 @@ it('reports exactly the revisions whose verdict another rule set would change, a
   expect(await t.db.query<{ verdict: string }>(`SELECT verdict FROM revisions WHERE product_id = $1 ORDER BY seq`, [product])).toEqual(verdicts);
   expect((await t.call('GET', `/api/v1/products/${product}/verify`)).body.valid).toBe(true);
 });
+
+it('judges new submissions by an adopted rule set, while earlier revisions keep theirs [POST /api/v1/rule-sets/:version/adopt]', async () => {
+  const product = (await t.call('POST', '/api/v1/products', { code: 'RS-ADOPT', name: 'adoption product (test)' })).body.id;
+  const before = (await t.call('POST', `/api/v1/products/${product}/calculations`, { title: 'before', design: clearDesign })).body;
+  expect(before.verdict).toBe('clear');
+  expect((await t.call('POST', '/api/v1/rule-sets/2027.03-1/adopt', { note: 'test adoption' }, { as: 'reviewer' })).status).toBe(403);
+  const adopted = await t.call('POST', '/api/v1/rule-sets/2027.03-1/adopt', { note: 'test adoption' }, { as: 'admin' });
+  expect(adopted.status).toBe(200);
+  expect(adopted.body.current).toBe('2027.03-1');
+  const after = (await t.call('POST', `/api/v1/calculations/${before.calculationId}/revisions`, { design: clearDesign })).body;
+  expect(after.verdict).toBe('blocked'); // the synthetic strict buckling minimum of 2027.03-1
+  expect((await t.call('GET', `/api/v1/revisions/${after.revisionId}`)).body.ruleSetVersion).toBe('2027.03-1');
+  expect((await t.call('GET', `/api/v1/revisions/${before.revisionId}`)).body.ruleSetVersion).toBe(DEFAULT_RULE_SET.version);
+  expect((await t.call('POST', '/api/v1/rule-sets/2099.01-1/adopt', {}, { as: 'admin' })).status).toBe(404);
+  // back to the default for any later test
+  await t.call('POST', `/api/v1/rule-sets/${DEFAULT_RULE_SET.version}/adopt`, { note: 'restore' }, { as: 'admin' });
+  expect((await t.call('GET', '/api/v1/rule-sets')).body.current).toBe(DEFAULT_RULE_SET.version);
+});

@@ -9,8 +9,13 @@ import {
   revisionRecordSchema, submissionResultSchema,
 } from '@leadline/contracts';
 import { z, type ZodType } from 'zod';
+import { ruleSetDefinitionSchema } from '@leadline/rules';
 import { addRevisionSchema, openCalculationSchema } from '../calculations/calculations.service';
+import { createTokenSchema, createUserSchema } from '../identities/identities.service';
 import { createProductSchema } from '../products/products.service';
+import { commentSchema, decisionSchema, withdrawSchema } from '../reviews/reviews.service';
+import { impactSchema } from '../rules/impact.service';
+import { adoptSchema } from '../rules/rule-sets.service';
 
 const json = (schema: ZodType, io: 'input' | 'output') => z.toJSONSchema(schema, { io, target: 'openapi-3.0', unrepresentable: 'any' });
 
@@ -39,6 +44,24 @@ export const ROUTES: Route[] = [
   { method: 'get', path: '/api/v1/thread-sizes', summary: 'Standard thread sizes', tag: 'library' },
   { method: 'get', path: '/api/v1/friction-sources', summary: 'Friction coefficient ranges with their sources', tag: 'library' },
   { method: 'get', path: '/api/v1/materials', summary: 'Screw and nut materials', tag: 'library' },
+  { method: 'post', path: '/api/v1/revisions/{id}/decisions', summary: 'Approve or reject (reviewer, not the author; warnings acknowledged; no blocking findings)', tag: 'reviews', request: decisionSchema, status: 201 },
+  { method: 'post', path: '/api/v1/revisions/{id}/comments', summary: 'Comment, general or on an input field or a finding', tag: 'reviews', request: commentSchema, status: 201 },
+  { method: 'post', path: '/api/v1/revisions/{id}/withdraw', summary: 'Withdraw by the author before a decision', tag: 'reviews', request: withdrawSchema.unwrap() },
+  { method: 'get', path: '/api/v1/reviews/queue', summary: 'Revisions awaiting review, oldest first (productId, calculationId, verdict, authorId)', tag: 'reviews' },
+  { method: 'get', path: '/api/v1/products/{id}/audit', summary: 'Audit trail (after, limit; format=csv|json downloads the whole trail)', tag: 'reviews' },
+  { method: 'get', path: '/api/v1/revisions/{id}/diff', summary: 'What changed against ?against=<revision id>', tag: 'reviews' },
+  { method: 'get', path: '/api/v1/revisions/{id}/report.html', summary: 'Calculation report, HTML', tag: 'reports' },
+  { method: 'get', path: '/api/v1/revisions/{id}/report.pdf', summary: 'Calculation report, PDF (?paper=A4|Letter)', tag: 'reports' },
+  { method: 'get', path: '/api/v1/rule-sets', summary: 'Rule-set versions, the current one, the rules and adoptions', tag: 'rules' },
+  { method: 'post', path: '/api/v1/rule-sets', summary: 'Create a new rule-set version (never edits one)', tag: 'rules', request: ruleSetDefinitionSchema, status: 201 },
+  { method: 'get', path: '/api/v1/rule-sets/{version}', summary: 'One rule-set version', tag: 'rules' },
+  { method: 'post', path: '/api/v1/rule-sets/{version}/impact', summary: 'Which revisions would change verdict under this version', tag: 'rules', request: impactSchema },
+  { method: 'post', path: '/api/v1/rule-sets/{version}/adopt', summary: 'Judge new submissions by this version', tag: 'rules', request: adoptSchema.unwrap() },
+  { method: 'post', path: '/api/v1/users', summary: 'Create a user with roles (admin)', tag: 'identities', request: createUserSchema, status: 201 },
+  { method: 'get', path: '/api/v1/users', summary: 'List users (admin)', tag: 'identities' },
+  { method: 'post', path: '/api/v1/users/{id}/tokens', summary: 'Issue a token, returned once (admin)', tag: 'identities', request: createTokenSchema.unwrap(), status: 201 },
+  { method: 'get', path: '/api/v1/users/{id}/tokens', summary: "A user's tokens, without secrets (admin)", tag: 'identities' },
+  { method: 'post', path: '/api/v1/users/{id}/tokens/{tokenId}/revoke', summary: 'Revoke a token at once (admin)', tag: 'identities' },
   { method: 'get', path: '/health', summary: 'Database reachable', tag: 'health' },
 ];
 
@@ -46,7 +69,7 @@ export function buildOpenApi(routes: Route[] = ROUTES): OpenAPIObject {
   const paths: Record<string, Record<string, unknown>> = {};
   const problem = { 'application/problem+json': { schema: json(problemSchema, 'output') } };
   for (const r of routes) {
-    const params = [...r.path.matchAll(/\{(\w+)\}/g)].map((m) => ({ name: m[1], in: 'path', required: true, schema: { type: 'string', format: 'uuid' } }));
+    const params = [...r.path.matchAll(/\{(\w+)\}/g)].map((m) => ({ name: m[1], in: 'path', required: true, schema: m[1] === 'version' ? { type: 'string' } : { type: 'string', format: 'uuid' } }));
     if (r.idempotent) params.push({ name: 'Idempotency-Key', in: 'header', required: false, schema: { type: 'string' } } as never);
     paths[r.path] ??= {};
     paths[r.path][r.method] = {

@@ -1,8 +1,12 @@
 /**
  * Rule-set versions: stored once, never edited. The service keeps them in memory (they are immutable)
  * and records every version it judges with, so a revision's rule-set version always resolves.
+ * New submissions are judged by the latest adopted version (the built-in default until an admin adopts another);
+ * another instance of a multi-instance deployment picks an adoption up within ADOPTION_REFRESH_MS.
  */
-import { Injectable, OnModuleInit } from '@nestjs/common';
+import { Injectable, OnModuleDestroy, OnModuleInit } from '@nestjs/common';
+import { randomUUID } from 'node:crypto';
+import { z } from 'zod';
 import { DEFAULT_RULE_SET, ruleSetDefinitionSchema, type RuleSet } from '@leadline/rules';
 import { Database, PG_UNIQUE_VIOLATION, pgErrorCode } from '../infra/database/database.service';
 import { ProblemError, notFound, validate } from '../infra/http/problem';
@@ -14,10 +18,15 @@ export interface StoredRuleSet {
   createdAt: string;
 }
 
+export const ADOPTION_REFRESH_MS = 10_000;
+
+export const adoptSchema = z.strictObject({ note: z.string().max(2000).optional() }).optional();
+
 @Injectable()
-export class RuleSetsService implements OnModuleInit {
+export class RuleSetsService implements OnModuleInit, OnModuleDestroy {
   private readonly cache = new Map<string, StoredRuleSet>();
   private currentVersion = DEFAULT_RULE_SET.version;
+  private timer: NodeJS.Timeout | null = null;
 
   constructor(private readonly db: Database) {}
 
@@ -27,6 +36,35 @@ export class RuleSetsService implements OnModuleInit {
       [DEFAULT_RULE_SET.version, JSON.stringify(DEFAULT_RULE_SET)],
     );
     for (const r of await this.list()) this.cache.set(r.version, r);
+    await this.refreshAdoption();
+    this.timer = setInterval(() => void this.refreshAdoption().catch(() => undefined), ADOPTION_REFRESH_MS);
+    this.timer.unref();
+  }
+
+  onModuleDestroy(): void {
+    if (this.timer) clearInterval(this.timer);
+  }
+
+  private async refreshAdoption(): Promise<void> {
+    const rows = await this.db.query<{ version: string }>(`SELECT version FROM rule_set_adoptions ORDER BY adopted_at DESC, id LIMIT 1`);
+    const version = rows[0]?.version ?? DEFAULT_RULE_SET.version;
+    await this.get(version);
+    this.currentVersion = version;
+  }
+
+  /** Makes a stored version the one new submissions are judged by; the adoption is recorded, never edited. */
+  async adopt(version: string, body: unknown, adoptedBy: string | null) {
+    const input = validate(adoptSchema, body) ?? {};
+    await this.get(version);
+    await this.db.query(`INSERT INTO rule_set_adoptions (id, version, adopted_by, note) VALUES ($1, $2, $3, $4)`, [randomUUID(), version, adoptedBy, input.note ?? null]);
+    await this.refreshAdoption();
+    return { current: this.currentVersion, adoptions: await this.adoptions() };
+  }
+
+  async adoptions() {
+    return this.db.query(
+      `SELECT version, adopted_by AS "adoptedBy", note, ${TS_TEXT('adopted_at')} AS "adoptedAt" FROM rule_set_adoptions ORDER BY adopted_at, id`,
+    );
   }
 
   /** The rule set new submissions are judged by. */

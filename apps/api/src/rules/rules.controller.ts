@@ -1,5 +1,7 @@
 import { Body, Controller, Get, HttpCode, Param, Post } from '@nestjs/common';
+import type { Actor } from '@leadline/contracts';
 import { RULES } from '@leadline/rules';
+import { CurrentActor } from '../infra/http/actor';
 import { Roles } from '../identities/auth.guard';
 import { ImpactService } from './impact.service';
 import { RuleSetsService } from './rule-sets.service';
@@ -14,7 +16,15 @@ export class RulesController {
   @Get()
   async list() {
     const sets = await this.ruleSets.list();
-    return { current: this.ruleSets.current().version, items: sets, rules: RULES };
+    return { current: this.ruleSets.current().version, items: sets, rules: RULES, adoptions: await this.ruleSets.adoptions() };
+  }
+
+  /** Judge new submissions by this version from now on (stored revisions keep the version they were judged by). */
+  @Post(':version/adopt')
+  @Roles('admin')
+  @HttpCode(200)
+  adopt(@Param('version') version: string, @Body() body: unknown, @CurrentActor() actor: Actor | null) {
+    return this.ruleSets.adopt(version, body, actor?.id ?? null);
   }
 
   @Get(':version')
