@@ -9,19 +9,10 @@ import { PdfRenderer, CHROMIUM_FLAGS } from '../../apps/api/src/infra/pdf/browse
 import { formatQuantity, sig } from '../../apps/api/src/reports/format';
 import { warningDesign } from '../support/designs';
 import { startTestApp, type TestApp } from '../support/harness';
+import { pdfText } from '../support/pdf-text';
 
-// eslint-disable-next-line @typescript-eslint/no-require-imports
-const { PDFParse } = require('pdf-parse') as { PDFParse: new (o: { data: Uint8Array }) => { getText(): Promise<{ text: string }>; destroy(): Promise<void> } };
 const ARTIFACTS = join(__dirname, '../../artifacts');
 
-async function pdfText(pdf: Buffer): Promise<string> {
-  const parser = new PDFParse({ data: new Uint8Array(pdf) });
-  try {
-    return (await parser.getText()).text.replace(/\s+/g, ' ');
-  } finally {
-    await parser.destroy();
-  }
-}
 
 let t: TestApp;
 let revisionId: string;
@@ -48,7 +39,7 @@ it('renders a stored revision to PDF whose text carries the inputs, results, fin
   expect(res.headers['content-type']).toBe('application/pdf');
   expect(res.raw.subarray(0, 5).toString()).toBe('%PDF-');
   writeFileSync(join(ARTIFACTS, 'service-report-a4.pdf'), res.raw);
-  const text = await pdfText(res.raw);
+  const { text } = await pdfText(res.raw);
   const e = record.evaluation;
   // inputs as entered
   expect(text).toContain('Tr 40x7');

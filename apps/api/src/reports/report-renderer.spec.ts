@@ -5,21 +5,11 @@ import { sig } from './format';
 import { harrowgateReportInput, HARROWGATE_INPUT } from './fixtures/harrowgate.fixture';
 import { CAUTION_SHORT, CAUTION_TEXT } from './report-model';
 import { ReportRenderer, reportPdfLabels, templateCompilations, type RenderedReport } from './report-renderer';
+import { pdfText } from '../../../../test/support/pdf-text';
 
 const CHROMIUM = '/usr/bin/chromium';
 const ARTIFACTS = join(__dirname, '..', '..', '..', '..', 'artifacts');
-// eslint-disable-next-line @typescript-eslint/no-require-imports
-const { PDFParse } = require('pdf-parse') as { PDFParse: new (o: { data: Uint8Array }) => { getText(): Promise<{ text: string; total: number }>; destroy(): Promise<void> } };
 
-async function pdfText(pdf: Buffer): Promise<{ text: string; pages: number }> {
-  const parser = new PDFParse({ data: new Uint8Array(pdf) });
-  try {
-    const result = await parser.getText();
-    return { text: result.text.replace(/\s+/g, ' '), pages: result.total };
-  } finally {
-    await parser.destroy();
-  }
-}
 
 describe('calculation report: HTML and PDF in real Chromium', () => {
   const input = harrowgateReportInput();

@@ -2,20 +2,10 @@ import { createServer, type Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { existsSync } from 'node:fs';
 import { PdfRenderer } from './browser-pool';
+import { pdfText } from '../../../../../test/support/pdf-text';
 
 const CHROMIUM = '/usr/bin/chromium';
-// eslint-disable-next-line @typescript-eslint/no-require-imports
-const { PDFParse } = require('pdf-parse') as { PDFParse: new (o: { data: Uint8Array }) => { getText(): Promise<{ text: string; total: number }>; destroy(): Promise<void> } };
 
-async function pdfText(pdf: Buffer): Promise<{ text: string; pages: number }> {
-  const parser = new PDFParse({ data: new Uint8Array(pdf) });
-  try {
-    const result = await parser.getText();
-    return { text: result.text.replace(/\s+/g, ' '), pages: result.total };
-  } finally {
-    await parser.destroy();
-  }
-}
 
 /** Page size in points from the first MediaBox of the file. */
 function mediaBox(pdf: Buffer): [number, number] {

@@ -1,0 +1,15 @@
+/** Text of a PDF, extracted with pdf-parse (a general-purpose PDF library), whitespace collapsed. */
+// eslint-disable-next-line @typescript-eslint/no-require-imports
+const { PDFParse } = require('pdf-parse') as {
+  PDFParse: new (o: { data: Uint8Array }) => { getText(): Promise<{ text: string; total: number }>; destroy(): Promise<void> };
+};
+
+export async function pdfText(pdf: Buffer): Promise<{ text: string; pages: number }> {
+  const parser = new PDFParse({ data: new Uint8Array(pdf) });
+  try {
+    const result = await parser.getText();
+    return { text: result.text.replace(/\s+/g, ' '), pages: result.total };
+  } finally {
+    await parser.destroy();
+  }
+}
