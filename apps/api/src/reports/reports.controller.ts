@@ -1,7 +1,10 @@
 import { Controller, Get, Param, Query, Res } from '@nestjs/common';
 import type { FastifyReply } from 'fastify';
 import { PdfRenderer } from '../infra/pdf/browser-pool';
-import { validate } from '../infra/http/problem';
+import { existsSync } from 'node:fs';
+import { Inject } from '@nestjs/common';
+import { APP_CONFIG, type AppConfig } from '../infra/config';
+import { ProblemError, validate } from '../infra/http/problem';
 import { z } from 'zod';
 import { ReportInputService } from './report-input.service';
 import { ReportRenderer, reportPdfLabels } from './report-renderer';
@@ -15,6 +18,7 @@ export class ReportsController {
     private readonly inputs: ReportInputService,
     private readonly renderer: ReportRenderer,
     private readonly pdf: PdfRenderer,
+    @Inject(APP_CONFIG) private readonly config: AppConfig,
   ) {}
 
   @Get(':id/report.html')
@@ -28,6 +32,9 @@ export class ReportsController {
   @Get(':id/report.pdf')
   async pdfReport(@Param('id') id: string, @Query() query: unknown, @Res({ passthrough: true }) reply: FastifyReply) {
     const { paper } = validate(pdfQuerySchema, query);
+    if (!existsSync(this.config.LEADLINE_CHROMIUM_PATH)) {
+      throw new ProblemError(503, 'PDF rendering unavailable', `no Chromium at ${this.config.LEADLINE_CHROMIUM_PATH} (LEADLINE_CHROMIUM_PATH); the HTML report works without it`);
+    }
     const input = await this.inputs.forRevision(id);
     const { view, html } = await this.renderer.render(input);
     const buffer = await this.pdf.render(html, { format: paper, ...reportPdfLabels(view) });
