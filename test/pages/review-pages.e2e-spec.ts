@@ -1,0 +1,284 @@
+/**
+ * The reviewer pages in real Chromium against the real service on real PostgreSQL: sign-in, queue, one revision
+ * with its report and a warning, a refused and then an accepted approval, the audit trail with its chain check,
+ * downloads, the four-eyes refusal, and where the token may (sessionStorage, Authorization header) and may not
+ * (URL, cookie, log) go. One browser for the file; screenshots go to artifacts/.
+ */
+import { mkdirSync, mkdtempSync, readFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { Writable } from 'node:stream';
+import puppeteer, { type Browser, type CDPSession, type Frame, type Page } from 'puppeteer-core';
+import { CHROMIUM_FLAGS } from '../../apps/api/src/infra/pdf/browser-pool';
+import { CAUTION_TEXT } from '../../apps/api/src/reports/report-model';
+import { clearDesign, warningDesign } from '../support/designs';
+import { startPagesApp, type PagesApp } from './pages-app';
+
+const ARTIFACTS = join(__dirname, '../../artifacts');
+const WARNING = 'friction-source-assumed';
+// Markup in a stored name must come out as text, never as elements.
+const PRODUCT_NAME = 'Kestrel KL-8 vehicle lift <img src=x> (test product)';
+
+const logLines: string[] = [];
+const capture = new Writable({
+  write(chunk, _enc, done) {
+    logLines.push(String(chunk));
+    done();
+  },
+});
+
+let t: PagesApp;
+let browser: Browser;
+let productId: string;
+let revisionId: string; // the warning design, authored by the author
+let ownRevisionId: string; // a clear design authored by the checker who also designs
+const visitedUrls: string[] = [];
+const documentHeaders: { url: string; csp: string | undefined }[] = [];
+const consoleProblems: string[] = [];
+
+/** A tab that records every URL it requests or navigates to, the CSP of each page, and console errors. */
+async function newTab(): Promise<Page> {
+  const page = await browser.newPage();
+  await page.setViewport({ width: 1280, height: 900 });
+  page.on('request', (r) => visitedUrls.push(r.url()));
+  page.on('framenavigated', (f) => visitedUrls.push(f.url()));
+  page.on('response', (r) => {
+    if (r.request().resourceType() === 'document') documentHeaders.push({ url: r.url(), csp: r.headers()['content-security-policy'] });
+  });
+  page.on('console', (m) => {
+    if (m.type() === 'error' || /Content Security Policy/i.test(m.text())) consoleProblems.push(m.text());
+  });
+  page.on('pageerror', (e) => consoleProblems.push(String(e)));
+  return page;
+}
+
+async function signIn(page: Page, token: string): Promise<void> {
+  await page.waitForSelector('#sign-in:not([hidden])');
+  await page.type('#token-input', token);
+  await page.click('#sign-in-form button[type=submit]');
+  await page.waitForSelector('#content:not([hidden])');
+}
+
+/** Nothing wider than the window (a table that does not fit would scroll sideways). */
+const fitsWidth = (page: Page) => page.evaluate(() => document.documentElement.scrollWidth <= document.documentElement.clientWidth);
+
+const text = (page: Page | Frame, selector: string) => page.$eval(selector, (e) => (e as HTMLElement).innerText);
+
+/** Downloads land in a fresh folder; resolves with the file's bytes once Chromium reports it complete. */
+async function downloadsTo(page: Page): Promise<{ cdp: CDPSession; dir: string; next(): Promise<{ name: string; bytes: Buffer }> }> {
+  const dir = mkdtempSync(join(tmpdir(), 'leadline-pages-'));
+  const cdp = await page.createCDPSession();
+  await cdp.send('Browser.setDownloadBehavior', { behavior: 'allowAndName', downloadPath: dir, eventsEnabled: true });
+  return {
+    cdp,
+    dir,
+    next: () =>
+      new Promise((resolve, reject) => {
+        let suggested = '';
+        const begin = (e: { suggestedFilename: string }) => (suggested = e.suggestedFilename);
+        const progress = (e: { guid: string; state: string }) => {
+          if (e.state === 'inProgress') return;
+          cdp.off('Browser.downloadWillBegin', begin);
+          cdp.off('Browser.downloadProgress', progress);
+          if (e.state !== 'completed') return reject(new Error(`download ${e.state}`));
+          resolve({ name: suggested, bytes: readFileSync(join(dir, e.guid)) });
+        };
+        cdp.on('Browser.downloadWillBegin', begin);
+        cdp.on('Browser.downloadProgress', progress);
+      }),
+  };
+}
+
+beforeAll(async () => {
+  mkdirSync(ARTIFACTS, { recursive: true });
+  t = await startPagesApp({ LOG_LEVEL: 'info', LEADLINE_CHROMIUM_PATH: '/usr/bin/chromium' }, capture);
+  productId = (await t.call('POST', '/api/v1/products', { code: 'KL-8', name: PRODUCT_NAME })).body.id;
+  revisionId = (await t.call('POST', `/api/v1/products/${productId}/calculations`, { title: 'Column screw', design: warningDesign })).body.revisionId;
+  ownRevisionId = (await t.call('POST', `/api/v1/products/${productId}/calculations`, { title: 'Platform screw', design: clearDesign }, 'checkerAuthor')).body.revisionId;
+  // enough comments that the trail needs a second page (the page loads 25 entries at a time)
+  for (let i = 1; i <= 20; i++) {
+    expect((await t.call('POST', `/api/v1/revisions/${revisionId}/comments`, { text: `Checked sheet ${i} of the drawing set.` }, 'reviewer')).status).toBe(201);
+  }
+  browser = await puppeteer.launch({ executablePath: '/usr/bin/chromium', args: [...CHROMIUM_FLAGS], headless: true });
+});
+
+afterAll(async () => {
+  await browser?.close();
+  await t?.close();
+});
+
+it('serves the page shells without data, with a strict Content-Security-Policy and the safety caution [GET /review/**]', async () => {
+  for (const path of ['/review', `/review/revisions/${revisionId}`, `/review/products/${productId}/audit`]) {
+    const res = await fetch(t.baseUrl + path);
+    const html = await res.text();
+    expect({ path, status: res.status, type: res.headers.get('content-type') }).toEqual({ path, status: 200, type: 'text/html; charset=utf-8' });
+    const csp = res.headers.get('content-security-policy') ?? '';
+    for (const directive of ["default-src 'self'", "script-src 'self'", "img-src 'self' data:", "frame-src 'self' data: about:", "font-src 'none'", "form-action 'none'"]) {
+      expect(csp).toContain(directive);
+    }
+    expect(csp).toMatch(/style-src 'self'( 'nonce-[0-9a-f]{32}')?;/);
+    expect(csp).not.toMatch(/unsafe-inline|unsafe-eval|https?:/);
+    expect(res.headers.get('referrer-policy')).toBe('no-referrer');
+    expect(html).not.toContain('KL-8'); // data comes from the API, never with the shell
+    expect(html).not.toMatch(/<style|style=|<script>|https?:\/\//);
+    for (const sentence of CAUTION_TEXT) expect(html).toContain(sentence);
+  }
+  const nonces = await Promise.all([1, 2].map(async () => (await fetch(`${t.baseUrl}/review/revisions/${revisionId}`)).headers.get('content-security-policy')));
+  expect(nonces[0]).not.toBe(nonces[1]); // a fresh nonce per response
+  const script = await fetch(`${t.baseUrl}/review/assets/review.js`);
+  expect(script.headers.get('content-type')).toBe('text/javascript; charset=utf-8');
+  expect(await script.text()).not.toMatch(/innerHTML|insertAdjacentHTML|document\.write|localStorage|document\.cookie/);
+  expect((await fetch(`${t.baseUrl}/review/assets/review.css`)).headers.get('content-type')).toBe('text/css; charset=utf-8');
+  expect((await fetch(`${t.baseUrl}/review/assets/app.js`)).status).toBe(404);
+  expect((await fetch(`${t.baseUrl}/review/revisions/not-a-uuid`)).status).toBe(404);
+});
+
+it('lets a checking engineer sign in, find the revision in the queue, read its report, and approve it once the warning is acknowledged [POST /api/v1/revisions/:id/decisions]', async () => {
+  const page = await newTab();
+  await page.goto(`${t.baseUrl}/review`);
+  await page.waitForSelector('#sign-in:not([hidden])');
+  await page.type('#token-input', 'll_not-a-real-token');
+  await page.click('#sign-in-form button[type=submit]');
+  await page.waitForSelector('#sign-in-problem .problem');
+  expect(await text(page, '#sign-in-problem')).toMatch(/Authentication required[\s\S]*unknown or revoked/);
+  await page.$eval('#token-input', (e) => ((e as HTMLInputElement).value = ''));
+  await signIn(page, t.tokens.reviewer);
+
+  // the queue, oldest first
+  await page.waitForSelector(`#queue tr[data-revision="${revisionId}"]`);
+  const rows = await page.$$eval('#queue tbody tr', (trs) => trs.map((tr) => ({ id: tr.getAttribute('data-revision'), cells: Array.from(tr.cells).map((c) => c.innerText) })));
+  expect(rows.map((r) => r.id)).toEqual([revisionId, ownRevisionId]);
+  expect(rows[0].cells[0]).toContain('KL-8');
+  expect(rows[0].cells[0]).toContain('<img src=x>');
+  expect(rows[0].cells.slice(1, 4)).toEqual(['Column screw', '1', 'Needs acknowledgement']);
+  expect(rows[0].cells[4]).toMatch(/0 blocking\s*1 warning/);
+  expect(rows[0].cells[5]).toBe('Design author (test)');
+  expect(await page.$$eval('main img', (imgs) => imgs.length)).toBe(0);
+  expect(await fitsWidth(page)).toBe(true);
+  await page.screenshot({ path: join(ARTIFACTS, 'pages-queue.png'), fullPage: true });
+
+  // one revision: header, report in its frame, findings
+  await Promise.all([page.waitForNavigation(), page.click(`#queue tr[data-revision="${revisionId}"] a[href$="${revisionId}"]`)]);
+  expect(page.url()).toBe(`${t.baseUrl}/review/revisions/${revisionId}`);
+  await page.waitForSelector('#revision:not([hidden])');
+  expect(await text(page, '#revision-heading')).toBe('KL-8 · Column screw · revision 1');
+  const header = await text(page, '#revision-header');
+  expect(header).toContain(PRODUCT_NAME);
+  expect(header).toMatch(/Review state\s+Awaiting review/);
+  expect(header).toMatch(/Author\s+Design author \(test\)/);
+  const record = (await t.call('GET', `/api/v1/revisions/${revisionId}`)).body;
+  expect(header).toContain(record.hash);
+  const report = await page.waitForFrame((f) => f.url() === 'about:srcdoc');
+  await report.waitForSelector('h2');
+  expect(await text(report, 'body')).toContain('Column screw');
+  // the report's own styles apply inside the frame (its <style> and column widths carry the page's nonce)
+  const styled = await report.evaluate(() => ({
+    h2Border: getComputedStyle(document.querySelector('h2')!).borderBottomStyle,
+    widths: document.querySelectorAll('[data-ll-style]').length,
+    scripts: document.scripts.length,
+  }));
+  expect(styled).toEqual({ h2Border: 'solid', widths: expect.any(Number), scripts: 0 });
+  expect(styled.widths).toBeGreaterThan(10);
+  expect(await page.$eval('#report-frame', (f) => f.getAttribute('sandbox'))).toBe('');
+  const warning = await text(page, `#findings li[data-rule="${WARNING}"]`);
+  expect(warning).toMatch(/^Warning/);
+  expect(warning).toContain('assumed');
+
+  // the PDF report, fetched with the token and saved from a blob: address
+  const downloads = await downloadsTo(page);
+  const pdfDone = downloads.next();
+  await page.click('#download-pdf');
+  const pdf = await pdfDone;
+  expect(pdf.name).toBe('KL-8-Column-screw-rev1.pdf');
+  expect(pdf.bytes.subarray(0, 5).toString()).toBe('%PDF-');
+  expect(await fitsWidth(page)).toBe(true);
+  await page.screenshot({ path: join(ARTIFACTS, 'pages-revision.png'), fullPage: true });
+
+  // approving without acknowledging the warning is refused, with the field path shown
+  await page.type('#decision-comment', 'Checked at both ends of the friction range.');
+  await page.click('#decision-submit');
+  await page.waitForSelector('#decision-problem .problem');
+  const refusal = await text(page, '#decision-problem');
+  expect(refusal).toContain('The request has invalid fields');
+  expect(refusal).toContain('HTTP 422');
+  expect(refusal).toMatch(/acknowledgements\s+warning "friction-source-assumed" must be acknowledged with a comment/);
+  expect(await page.$eval('#ack-0', (e) => e.getAttribute('aria-invalid'))).toBe('true');
+  expect((await t.call('GET', `/api/v1/revisions/${revisionId}`)).body.review.state).toBe('submitted');
+  const decisionPanel = await page.$('#decision');
+  await decisionPanel!.screenshot({ path: join(ARTIFACTS, 'pages-approve-refused.png') });
+
+  // acknowledged: approved
+  await page.type('#ack-0', 'Friction test scheduled with the nut supplier; the range covers it.');
+  await page.click('#decision-submit');
+  await page.waitForSelector('#decision-done:not([hidden])');
+  expect(await text(page, '#decision-done')).toMatch(/^Revision 1 approved at /);
+  await page.waitForFunction(() => document.getElementById('revision-header')!.innerText.includes('Approved by Checking engineer (test)'));
+  const after = (await t.call('GET', `/api/v1/revisions/${revisionId}`)).body;
+  expect(after.review).toMatchObject({ state: 'approved', decidedBy: { name: 'Checking engineer (test)' } });
+  await page.screenshot({ path: join(ARTIFACTS, 'pages-approved.png'), fullPage: false });
+
+  // the product's audit trail: second page, the approval, an intact chain, and the CSV download
+  await Promise.all([page.waitForNavigation(), page.click('#audit-link')]);
+  await page.waitForSelector('#audit:not([hidden])');
+  const links = (await t.call('GET', `/api/v1/products/${productId}/audit?limit=500`)).body.items.length;
+  expect(links).toBeGreaterThan(25);
+  await page.waitForSelector('#chain[data-valid]');
+  expect(await page.$eval('#chain', (e) => (e as HTMLElement).dataset.valid)).toBe('true');
+  expect(await text(page, '#chain')).toMatch(new RegExp(`^Hash chain intact: ${links} links recomputed`));
+  await page.waitForSelector('#trail tbody tr');
+  expect(await page.$$eval('#trail tbody tr', (trs) => trs.length)).toBe(25);
+  expect(await page.$('#trail tr[data-type="approved"]')).toBeNull();
+  await page.click('#load-more');
+  await page.waitForSelector('#trail tr[data-type="approved"]');
+  expect(await page.$$eval('#trail tbody tr', (trs) => trs.map((tr) => Number(tr.getAttribute('data-seq'))))).toEqual(Array.from({ length: links }, (_, i) => i + 1));
+  expect(await page.$eval('#load-more', (b) => (b as HTMLElement).hidden)).toBe(true);
+  const approvedRow = await text(page, '#trail tr[data-type="approved"]');
+  expect(approvedRow).toContain('Checking engineer (test)');
+  expect(approvedRow).toContain('revision 1 approved acknowledging friction-source-assumed');
+  const audit = await downloadsTo(page);
+  const csvDone = audit.next();
+  await page.click('#download-csv');
+  const csv = await csvDone;
+  expect(csv.name).toBe('audit-KL-8.csv');
+  expect(csv.bytes.toString('utf8')).toMatch(new RegExp(`\r\n${links},[^,]+,event,approved,Checking engineer \\(test\\),`));
+  expect(await fitsWidth(page)).toBe(true);
+  await page.screenshot({ path: join(ARTIFACTS, 'pages-audit.png'), fullPage: true });
+});
+
+it('shows the four-eyes refusal when a checker tries to approve their own revision [POST /api/v1/revisions/:id/decisions]', async () => {
+  const page = await newTab();
+  await page.goto(`${t.baseUrl}/review/revisions/${ownRevisionId}`);
+  await signIn(page, t.tokens.checkerAuthor); // the sign-in is on every page
+  await page.waitForSelector('#decision:not([hidden])');
+  expect(await text(page, '#revision-header')).toMatch(/Author\s+Checker who also designs \(test\)/);
+  expect(await page.$$('#acknowledgements textarea')).toHaveLength(0); // a clear design has no warning
+  await page.click('#decision-submit');
+  await page.waitForSelector('#decision-problem .problem');
+  const refusal = await text(page, '#decision-problem');
+  expect(refusal).toContain('Four-eyes rule');
+  expect(refusal).toContain('HTTP 403');
+  expect(refusal).toContain('a revision must be decided by a reviewer other than its author');
+  expect((await t.call('GET', `/api/v1/revisions/${ownRevisionId}`)).body.review.state).toBe('submitted');
+  await (await page.$('#decision'))!.screenshot({ path: join(ARTIFACTS, 'pages-four-eyes.png') });
+  // the token is in this tab's sessionStorage and nowhere else in the browser
+  const storage = await page.evaluate(() => ({ session: Object.keys(sessionStorage), local: localStorage.length, cookie: document.cookie }));
+  expect(storage).toEqual({ session: ['leadline.reviewToken'], local: 0, cookie: '' });
+});
+
+it('never puts a token in a URL, a cookie or a log line, sends the CSP with every page, and violates none of it', async () => {
+  expect(visitedUrls.length).toBeGreaterThan(20);
+  const tokens = Object.values(t.tokens);
+  const leaks = visitedUrls.filter((u) => tokens.some((tok) => u.includes(tok) || u.includes(encodeURIComponent(tok))));
+  expect(leaks).toEqual([]);
+  const foreign = visitedUrls.filter((u) => !u.startsWith(t.baseUrl + '/') && !/^(about:|blob:http:\/\/127\.0\.0\.1|data:)/.test(u));
+  expect(foreign).toEqual([]);
+  expect(await browser.defaultBrowserContext().cookies()).toEqual([]);
+  const pages = documentHeaders.filter((d) => d.url.startsWith(`${t.baseUrl}/review`));
+  expect(pages.length).toBeGreaterThanOrEqual(4);
+  for (const d of pages) expect({ url: d.url, csp: d.csp }).toEqual({ url: d.url, csp: expect.stringContaining("default-src 'self'") });
+  // the refused sign-in and the 422/403 refusals are logged by Chromium as failed loads; nothing else may be
+  expect(consoleProblems.filter((m) => !/status of (401|403|422)/.test(m))).toEqual([]);
+  const logs = logLines.join('');
+  expect(logs).toContain('/api/v1/revisions/'); // requests were logged
+  for (const tok of tokens) expect(logs.includes(tok)).toBe(false);
+});
