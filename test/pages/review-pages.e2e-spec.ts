@@ -4,7 +4,7 @@
  * downloads, the four-eyes refusal, and where the token may (sessionStorage, Authorization header) and may not
  * (URL, cookie, log) go. One browser for the file; screenshots go to artifacts/.
  */
-import { mkdirSync, mkdtempSync, readFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { Writable } from 'node:stream';
@@ -35,6 +35,7 @@ let ownRevisionId: string; // a clear design authored by the checker who also de
 const visitedUrls: string[] = [];
 const documentHeaders: { url: string; csp: string | undefined }[] = [];
 const consoleProblems: string[] = [];
+const downloadDirs: string[] = [];
 
 /** A tab that records every URL it requests or navigates to, the CSP of each page, and console errors. */
 async function newTab(): Promise<Page> {
@@ -67,6 +68,7 @@ const text = (page: Page | Frame, selector: string) => page.$eval(selector, (e) 
 /** Downloads land in a fresh folder; resolves with the file's bytes once Chromium reports it complete. */
 async function downloadsTo(page: Page): Promise<{ cdp: CDPSession; dir: string; next(): Promise<{ name: string; bytes: Buffer }> }> {
   const dir = mkdtempSync(join(tmpdir(), 'leadline-pages-'));
+  downloadDirs.push(dir);
   const cdp = await page.createCDPSession();
   await cdp.send('Browser.setDownloadBehavior', { behavior: 'allowAndName', downloadPath: dir, eventsEnabled: true });
   return {
@@ -104,6 +106,7 @@ beforeAll(async () => {
 
 afterAll(async () => {
   await browser?.close();
+  for (const dir of downloadDirs) rmSync(dir, { recursive: true, force: true });
   await t?.close();
 });
 
