@@ -9,6 +9,7 @@ import { ReviewsModule } from './reviews/reviews.module';
 import { APP_CONFIG, type AppConfig } from './infra/config';
 import { DatabaseModule } from './infra/database/database.module';
 import { LibraryModule } from './library/library.module';
+import { PagesModule } from './pages/pages.module';
 import { ProductsModule } from './products/products.module';
 import { RecordsModule } from './records/records.module';
 import { RulesModule } from './rules/rules.module';
@@ -33,6 +34,7 @@ export class AppModule {
         ReviewsModule,
         ReportsModule,
         HealthModule,
+        PagesModule,
         ...extraModules,
       ],
       providers: [{ provide: APP_CONFIG, useValue: config }],
