@@ -26,6 +26,7 @@ export async function createApp(options: CreateAppOptions): Promise<{ app: NestF
   const adapter = new FastifyAdapter({
     loggerInstance: logger,
     bodyLimit: config.LEADLINE_BODY_LIMIT,
+    trustProxy: config.LEADLINE_TRUST_PROXY,
   });
   const app = await NestFactory.create<NestFastifyApplication>(AppModule.forRoot(config, options.extraModules ?? []), adapter, {
     logger: new PinoNestLogger(logger),

@@ -24,6 +24,8 @@ export const configSchema = z.object({
   LEADLINE_BODY_LIMIT: z.coerce.number().int().min(1024).default(256 * 1024),
   /** Pool size for PostgreSQL */
   LEADLINE_DB_POOL: z.coerce.number().int().min(1).max(100).default(10),
+  /** Behind a reverse proxy: take the client address from X-Forwarded-For (the failed-auth limit counts per address) */
+  LEADLINE_TRUST_PROXY: flag.default(false),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 
