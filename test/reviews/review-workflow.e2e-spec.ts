@@ -162,4 +162,11 @@ it('validates comment targets against the revision', async () => {
   expect(bad.body.errors[0].path).toBe('target.field');
   const badFinding = await t.call('POST', `/api/v1/revisions/${opened.body.revisionId}/comments`, { text: 'x', target: { finding: 'no-such-rule' } });
   expect(badFinding.status).toBe(422);
+  expect(badFinding.body.errors[0].path).toBe('target.finding');
+  const inDecision = await t.call('POST', `/api/v1/revisions/${opened.body.revisionId}/decisions`, {
+    decision: 'reject', comment: 'see field', comments: [{ text: 'x', target: { field: 'nut.colour' } }],
+  }, { as: 'reviewer' });
+  expect(inDecision.status).toBe(422);
+  expect(inDecision.body.errors[0].path).toBe('comments.0.target.field');
+  expect((await t.call('GET', `/api/v1/revisions/${opened.body.revisionId}`)).body.review.state).toBe('submitted');
 });

@@ -86,7 +86,7 @@ export class ReviewsService {
         throw new ProblemError(409, 'Revision is not awaiting review', `revision ${rev.revision} is ${rev.state}`, { state: rev.state });
       }
       const comments = input.comments ?? [];
-      this.checkTargets(rev, comments);
+      this.checkTargets(rev, comments.map((c, i) => ({ comment: c, path: `comments.${i}.target` })));
       const acknowledgements = input.acknowledgements ?? [];
       if (input.decision === 'approve') {
         const blocking = rev.findings.filter((f) => f.severity === 'blocking');
@@ -120,7 +120,7 @@ export class ReviewsService {
   async comment(revisionId: string, body: unknown, actor: Actor) {
     const input = validate(commentSchema, body);
     const head = await this.state(revisionId);
-    this.checkTargets(head, [input]);
+    this.checkTargets(head, [{ comment: input, path: 'target' }]);
     return this.db.transaction(async (q) => {
       const cursor = (await this.records.lockHead(q, head.productId))!;
       const event = await this.records.appendEvent(q, cursor, {
@@ -161,20 +161,21 @@ export class ReviewsService {
   }
 
   /** Comment targets must name a field of the submitted input or one of the revision's findings. */
-  private checkTargets(rev: RevisionState, comments: readonly z.infer<typeof commentSchema>[]): void {
+  private checkTargets(rev: RevisionState, comments: readonly { comment: z.infer<typeof commentSchema>; path: string }[]): void {
     const issues: { path: string; message: string }[] = [];
-    comments.forEach((c, i) => {
-      const t = c.target;
-      if (!t) return;
+    for (const { comment, path } of comments) {
+      const t = comment.target;
+      if (!t) continue;
       if ('field' in t) {
-        const path = t.field.replace(/^design\./, '');
         let node: unknown = rev.input;
-        for (const part of path.split('.')) node = node !== null && typeof node === 'object' ? (node as Record<string, unknown>)[part] : undefined;
-        if (node === undefined) issues.push({ path: `comments.${i}.target.field`, message: `"${t.field}" is not a field of revision ${rev.revision}'s input` });
+        for (const part of t.field.replace(/^design\./, '').split('.')) {
+          node = node !== null && typeof node === 'object' ? (node as Record<string, unknown>)[part] : undefined;
+        }
+        if (node === undefined) issues.push({ path: `${path}.field`, message: `"${t.field}" is not a field of revision ${rev.revision}'s input` });
       } else if (!rev.findings.some((f) => f.ruleId === t.finding)) {
-        issues.push({ path: `comments.${i}.target.finding`, message: `"${t.finding}" is not a finding of revision ${rev.revision}` });
+        issues.push({ path: `${path}.finding`, message: `"${t.finding}" is not a finding of revision ${rev.revision}` });
       }
-    });
-    if (issues.length) throw new ValidationProblem(comments.length === 1 && issues.length === 1 ? [{ path: issues[0].path.replace(/^comments\.0\./, ''), message: issues[0].message }] : issues);
+    }
+    if (issues.length) throw new ValidationProblem(issues);
   }
 }
