@@ -4,6 +4,7 @@ import { CreatedRuleSetsAndIdempotencyKeys20261201220100 } from './2026120122010
 import { CreatedIdentitiesAndReviewClosures20261201220200 } from './20261201220200-created-identities-and-review-closures';
 import { ChangedRevisionContentToVerbatimJson20261201220300 } from './20261201220300-changed-revision-content-to-verbatim-json';
 import { CreatedRuleSetAdoptions20261201220400 } from './20261201220400-created-rule-set-adoptions';
+import { GuardedChainHeadsAndRuleTables20261201220500 } from './20261201220500-guarded-chain-heads-and-rule-tables';
 
 export const MIGRATIONS = [
   CreatedRecordTables20261201220000,
@@ -11,4 +12,5 @@ export const MIGRATIONS = [
   CreatedIdentitiesAndReviewClosures20261201220200,
   ChangedRevisionContentToVerbatimJson20261201220300,
   CreatedRuleSetAdoptions20261201220400,
+  GuardedChainHeadsAndRuleTables20261201220500,
 ];

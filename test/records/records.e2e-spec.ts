@@ -81,6 +81,11 @@ describe.each(BACKENDS)('records on %s', (backend) => {
     }
     const rev = await t.call('GET', `/api/v1/revisions/${r.body.revisionId}`);
     expect(rev.body.note).toBeNull();
+    // the chain head may only move forward, and never disappear
+    await expect(t.db.query(`DELETE FROM chain_heads WHERE product_id = $1`, [productId])).rejects.toThrow(/not allowed/);
+    await expect(t.db.query(`UPDATE chain_heads SET seq = seq - 1 WHERE product_id = $1`, [productId])).rejects.toThrow(/only moves forward/);
+    await expect(t.db.query(`TRUNCATE chain_heads CASCADE`)).rejects.toThrow(/immutable/);
+    expect((await t.call('GET', `/api/v1/products/${productId}/verify`)).body.valid).toBe(true);
   });
 
   it('refuses a revision number that is not the next one', async () => {
