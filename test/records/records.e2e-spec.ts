@@ -39,7 +39,7 @@ describe.each(BACKENDS)('records on %s', (backend) => {
     expect(rev.body.engineVersion).toBe(stateless.body.engineVersion);
     expect(rev.body.ruleSetVersion).toBe(stateless.body.ruleSetVersion);
     expect(rev.body.hash).toMatch(/^[0-9a-f]{64}$/);
-    expect(rev.body.normalized.thread.majorDiameter).toBeCloseTo(0.04, 12);
+    expect(rev.body.normalized.thread.majorDiameter).toBeCloseTo(0.04, 12); // Tr 40x7: d = 40 mm (ISO 2904 designation)
   });
 
   it('numbers revisions contiguously [POST /api/v1/calculations/:id/revisions]', async () => {
