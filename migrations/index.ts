@@ -5,6 +5,7 @@ import { CreatedIdentitiesAndReviewClosures20261201220200 } from './202612012202
 import { ChangedRevisionContentToVerbatimJson20261201220300 } from './20261201220300-changed-revision-content-to-verbatim-json';
 import { CreatedRuleSetAdoptions20261201220400 } from './20261201220400-created-rule-set-adoptions';
 import { GuardedChainHeadsAndRuleTables20261201220500 } from './20261201220500-guarded-chain-heads-and-rule-tables';
+import { CreatedAppendRevisionFunction20261201220600 } from './20261201220600-created-append-revision-function';
 
 export const MIGRATIONS = [
   CreatedRecordTables20261201220000,
@@ -13,4 +14,5 @@ export const MIGRATIONS = [
   ChangedRevisionContentToVerbatimJson20261201220300,
   CreatedRuleSetAdoptions20261201220400,
   GuardedChainHeadsAndRuleTables20261201220500,
+  CreatedAppendRevisionFunction20261201220600,
 ];

@@ -52,6 +52,15 @@ describe.each(BACKENDS)('records on %s', (backend) => {
     expect(list.body.items.map((r: { revision: number }) => r.revision)).toEqual([1, 2, 3, 4]);
   });
 
+  it('hashes in the database exactly as verification does, whatever the note contains', async () => {
+    const first = await open('awkward notes');
+    const note = 'quote " backslash \\ tab \t newline \n control \u0001 \u001f DEL \u007f slash / \u2028 é 😀 日本';
+    const r = await t.call('POST', `/api/v1/calculations/${first.body.calculationId}/revisions`, { design, note });
+    expect(r.status).toBe(201);
+    expect((await t.call('GET', `/api/v1/revisions/${r.body.revisionId}`)).body.note).toBe(note);
+    expect((await t.call('GET', `/api/v1/products/${productId}/verify`)).body).toMatchObject({ valid: true, firstBrokenLink: null });
+  });
+
   it('lands 50 concurrent submissions with contiguous revision numbers', async () => {
     const first = await open('concurrency');
     const results = await Promise.all(

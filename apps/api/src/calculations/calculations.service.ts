@@ -82,7 +82,8 @@ export class CalculationsService {
       await this.records.appendEvent(q, cursor, {
         productId, type: 'calculation-opened', calculationId, revisionId: null, actor, data: { title: input.title },
       });
-      const revision = await this.records.appendRevision(q, cursor, productId, calculationId, prepared, actor);
+      await this.records.saveHead(q, productId, cursor);
+      const revision = await this.records.appendRevision(q, productId, calculationId, prepared, actor, cursor);
       return {
         status: 201,
         body: { calculationId, revisionId: revision.id, revision: revision.revision, verdict: assessment.verdict, hash: revision.hash },
@@ -97,19 +98,24 @@ export class CalculationsService {
     const assessment = this.assessor.assess(input.design, this.ruleSets.current(), 'design.');
     const prepared = prepareSubmission(submission(assessment, input.design, input.note ?? null));
     return this.idempotent(`revise:${calculationId}:${actor?.id ?? '-'}`, idempotencyKey, body, async (q) => {
-      const cursor = await this.records.lockHead(q, calc.productId);
-      if (!cursor) throw notFound(`product ${calc.productId}`);
-      const revision = await this.records.appendRevision(q, cursor, calc.productId, calculationId, prepared, actor);
+      const revision = await this.records.appendRevision(q, calc.productId, calculationId, prepared, actor);
       return {
         status: 201,
         body: { calculationId, revisionId: revision.id, revision: revision.revision, verdict: assessment.verdict, hash: revision.hash },
       };
-    });
+    }, true);
   }
 
-  private async idempotent(scope: string, rawKey: string | undefined, body: unknown, work: (q: Queryer) => Promise<StoredResponse>): Promise<StoredResponse> {
+  private async idempotent(
+    scope: string,
+    rawKey: string | undefined,
+    body: unknown,
+    work: (q: Queryer) => Promise<StoredResponse>,
+    singleStatement = false,
+  ): Promise<StoredResponse> {
     const key = checkKey(rawKey);
-    if (!key) return this.db.transaction(work);
+    // One statement is atomic on its own: without a key, a single-call body needs no explicit transaction.
+    if (!key) return singleStatement ? work(this.db) : this.db.transaction(work);
     const hash = requestHash(body);
     try {
       return await this.db.transaction(async (q) => {

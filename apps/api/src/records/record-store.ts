@@ -6,7 +6,7 @@
 import { Injectable } from '@nestjs/common';
 import { randomUUID } from 'node:crypto';
 import type { Actor, EventType, Finding, Verdict } from '@leadline/contracts';
-import { Database, type Queryer } from '../infra/database/database.service';
+import { Database, PG_NO_DATA_FOUND, pgErrorCode, type Queryer } from '../infra/database/database.service';
 import { notFound } from '../infra/http/problem';
 import { contentDigest, linkHash, TS_TEXT, type EventLink, type RevisionLink } from './chain';
 
@@ -102,71 +102,37 @@ export class RecordStore {
   }
 
   /**
-   * Appends the next revision of a calculation and its submission event, and saves the chain head, in one
-   * statement (the revision number is read after the head is locked, so it is the true next one).
+   * Appends the next revision of a calculation and its submission event and moves the chain head, in one
+   * database call (leadline_append_revision, migrations/20261201220600): it locks the head, numbers the revision
+   * after the lock and computes both link hashes exactly as chain.ts does. Works inside a transaction or alone.
+   * @param cursor - when given (inside a transaction that already holds the head), it is advanced past the new links
    */
   async appendRevision(
     q: Queryer,
-    cursor: ChainCursor,
     productId: string,
     calculationId: string,
     s: PreparedSubmission,
     actor: Actor | null,
+    cursor?: ChainCursor,
   ): Promise<AppendedRevision> {
-    const [{ next }] = await q.query<{ next: number }>(
-      `SELECT coalesce(max(revision), 0) + 1 AS next FROM revisions WHERE calculation_id = $1`,
-      [calculationId],
-    );
-    const link: RevisionLink = {
-      kind: 'revision',
-      id: randomUUID(),
-      productId,
-      calculationId,
-      revision: Number(next),
-      seq: cursor.seq + 1,
-      note: s.note,
-      content: s.content,
-      verdict: s.verdict,
-      engineVersion: s.engineVersion,
-      ruleSetVersion: s.ruleSetVersion,
-      author: actor,
-      createdAt: cursor.now,
-    };
-    const hash = linkHash(link as unknown as Record<string, unknown>, cursor.hash);
-    const event: EventLink = {
-      kind: 'event',
-      id: randomUUID(),
-      productId,
-      seq: link.seq + 1,
-      type: 'revision-submitted',
-      calculationId,
-      revisionId: link.id,
-      actor,
-      data: { revision: link.revision, revisionHash: hash, verdict: s.verdict, note: s.note },
-      createdAt: cursor.now,
-    };
-    const eventHash = linkHash(event as unknown as Record<string, unknown>, hash);
-    const actorJson = actor ? JSON.stringify(actor) : null;
-    await q.query(
-      `WITH r AS (
-         INSERT INTO revisions (id, calculation_id, product_id, revision, seq, note, input, normalized, evaluation, findings, verdict,
-           engine_version, rule_set_version, author_id, author, created_at, hash, previous_hash)
-         VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13, $14, $15, $16::timestamptz, $17, $18)
-         RETURNING id
-       ), e AS (
-         INSERT INTO events (id, product_id, seq, type, calculation_id, revision_id, actor_id, actor, data, created_at, hash, previous_hash)
-         SELECT $19, $3, $20, 'revision-submitted', $2, r.id, $14, $15, $21, $16::timestamptz, $22, $17 FROM r
-         RETURNING id
-       )
-       UPDATE chain_heads SET seq = $20, hash = $22 WHERE product_id = $3 AND EXISTS (SELECT 1 FROM e)`,
-      [link.id, calculationId, productId, link.revision, link.seq, link.note, s.json.input, s.json.normalized, s.json.evaluation,
-        s.json.findings, s.verdict, s.engineVersion, s.ruleSetVersion, actor?.id ?? null, actorJson, link.createdAt, hash, cursor.hash,
-        event.id, event.seq, JSON.stringify(event.data), eventHash],
-    );
-    const previousHash = cursor.hash;
-    cursor.seq = event.seq;
-    cursor.hash = eventHash;
-    return { id: link.id, revision: link.revision, hash, previousHash, createdAt: link.createdAt };
+    const id = randomUUID();
+    let rows: { revision: number; seq: string; hash: string; previous_hash: string | null; created_at: string; event_hash: string }[];
+    try {
+      rows = await q.query(
+        `SELECT * FROM leadline_append_revision($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13, $14, $15)`,
+        [productId, calculationId, id, randomUUID(), s.note, s.json.input, s.json.normalized, s.json.evaluation, s.json.findings, s.content,
+          s.verdict, s.engineVersion, s.ruleSetVersion, actor?.id ?? null, actor?.name ?? null],
+      );
+    } catch (err) {
+      if (pgErrorCode(err) === PG_NO_DATA_FOUND) throw notFound(`product ${productId}`);
+      throw err;
+    }
+    const r = rows[0];
+    if (cursor) {
+      cursor.seq = Number(r.seq);
+      cursor.hash = r.event_hash;
+    }
+    return { id, revision: Number(r.revision), hash: r.hash, previousHash: r.previous_hash, createdAt: r.created_at };
   }
 
   /**
