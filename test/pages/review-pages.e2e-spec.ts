@@ -253,7 +253,7 @@ it('shows the four-eyes refusal when a checker tries to approve their own revisi
   await page.goto(`${t.baseUrl}/review/revisions/${ownRevisionId}`);
   await signIn(page, t.tokens.checkerAuthor); // the sign-in is on every page
   await page.waitForSelector('#decision:not([hidden])');
-  expect(await text(page, '#revision-header')).toMatch(/Author\s+Checker who also designs \(test\)/);
+  expect(await text(page, '#revision-header')).toMatch(/Author\s+Second checker \(test\)/);
   expect(await page.$$('#acknowledgements textarea')).toHaveLength(0); // a clear design has no warning
   await page.click('#decision-submit');
   await page.waitForSelector('#decision-problem .problem');

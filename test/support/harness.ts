@@ -45,6 +45,8 @@ export interface TestApp {
   app: NestFastifyApplication;
   db: Database;
   backend: Backend;
+  /** http://127.0.0.1:<port> when started with { listen: true } (for a browser), else null */
+  baseUrl: string | null;
   /** Bearer tokens of the test users, and their ids */
   tokens: Record<Exclude<Who, 'anonymous'>, string>;
   users: Record<Exclude<Who, 'anonymous'>, string>;
@@ -60,7 +62,12 @@ const TEST_USERS: { who: Exclude<Who, 'anonymous' | 'admin'>; name: string; role
   { who: 'reviewer2', name: 'Second checker (test)', roles: ['reviewer', 'author'] },
 ];
 
-export async function startTestApp(backend: Backend, env: Record<string, string> = {}, logDestination?: DestinationStream): Promise<TestApp> {
+export async function startTestApp(
+  backend: Backend,
+  env: Record<string, string> = {},
+  logDestination?: DestinationStream,
+  options: { listen?: boolean } = {},
+): Promise<TestApp> {
   const adminToken = `ll_test_admin_${randomBytes(18).toString('hex')}`;
   const base: Record<string, string> = { LOG_LEVEL: 'silent', LEADLINE_DEMO_SEED: 'false', LEADLINE_ADMIN_TOKEN: adminToken, ...env };
   let cleanup = async () => undefined as void;
@@ -74,6 +81,11 @@ export async function startTestApp(backend: Backend, env: Record<string, string>
     base.LEADLINE_DATA_DIR = 'memory://';
   }
   const { app } = await createApp({ env: base, logDestination });
+  let baseUrl: string | null = null;
+  if (options.listen) {
+    await app.listen({ port: 0, host: '127.0.0.1' });
+    baseUrl = `http://127.0.0.1:${(app.getHttpServer().address() as { port: number }).port}`;
+  }
   const fastify = app.getHttpAdapter().getInstance();
   const tokens = { admin: base.LEADLINE_ADMIN_TOKEN } as TestApp['tokens'];
   const users = {} as TestApp['users'];
@@ -81,6 +93,7 @@ export async function startTestApp(backend: Backend, env: Record<string, string>
     app,
     db: app.get(Database),
     backend,
+    baseUrl,
     tokens,
     users,
     async call(method, url, body, options = {}) {
