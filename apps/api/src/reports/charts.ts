@@ -322,7 +322,9 @@ export function safetyFactorSpec(rows: readonly SafetyFactorRow[]): Spec | null 
     limit: r.limit,
     status: r.status === 'below' ? 'below the minimum' : r.status === 'meets' ? 'meets the minimum' : 'no minimum recorded',
   }));
-  const STATUS = ['meets the minimum', 'below the minimum', 'no minimum recorded'];
+  // The legend lists only the statuses that occur, in a fixed order and colour
+  const ALL_STATUS: readonly [string, string][] = [['meets the minimum', COLORS.ok], ['below the minimum', COLORS.bad], ['no minimum recorded', COLORS.none]];
+  const present = ALL_STATUS.filter(([status]) => values.some((v) => v.status === status));
   const y = { field: 'label', type: 'nominal', title: null, sort: null, axis: { labelLimit: 200, labelFontSize: 10 } };
   return {
     width: 400,
@@ -335,7 +337,7 @@ export function safetyFactorSpec(rows: readonly SafetyFactorRow[]): Spec | null 
         encoding: {
           y,
           x: { field: 'value', type: 'quantitative', title: 'Safety factor (axis capped; true values printed)', scale: { domain: [0, cap], nice: false } },
-          color: { field: 'status', type: 'nominal', title: null, scale: { domain: STATUS, range: [COLORS.ok, COLORS.bad, COLORS.none] } },
+          color: { field: 'status', type: 'nominal', title: null, scale: { domain: present.map(([status]) => status), range: present.map(([, colour]) => colour) } },
         },
       },
       {

@@ -6,6 +6,7 @@ import { Database } from '../infra/database/database.service';
 import { ProductsService } from '../products/products.service';
 import { TS_TEXT } from '../records/chain';
 import { ReviewsService } from '../reviews/reviews.service';
+import { RuleSetsService } from '../rules/rule-sets.service';
 import type { ReportInput } from './report-model';
 
 @Injectable()
@@ -15,6 +16,7 @@ export class ReportInputService {
     private readonly calculations: CalculationsService,
     private readonly products: ProductsService,
     private readonly reviews: ReviewsService,
+    private readonly ruleSets: RuleSetsService,
   ) {}
 
   async forRevision(revisionId: string): Promise<ReportInput> {
@@ -32,6 +34,18 @@ export class ReportInputService {
       this.db.query<{ now: string }>(`SELECT ${TS_TEXT('now()')} AS now`),
     ]);
     const states = await Promise.all(all.map((r) => this.reviews.state(r.id)));
+    // The minimums of the rule set this revision was judged by, on its duty (they print beside passing checks too)
+    const { thresholds } = (await this.ruleSets.get(revision.ruleSetVersion)).definition;
+    const duty = revision.normalized.duty.kind;
+    const strength = thresholds.strength.minSafetyFactor[duty];
+    const minimums: ReportInput['minimums'] = {
+      bodyVonMises: { limit: strength, ruleId: 'screw-body-yield' },
+      firstThreadRoot: { limit: strength, ruleId: 'thread-root-yield' },
+      strippingScrew: { limit: strength, ruleId: 'screw-thread-stripping' },
+      strippingNut: { limit: strength, ruleId: 'nut-thread-stripping' },
+      buckling: { limit: thresholds.buckling.minSafetyFactor[duty], ruleId: 'column-buckling' },
+      drive: { limit: thresholds.drive.minMargin, ruleId: 'drive-torque-margin' },
+    };
     return {
       product: { id: product.id, code: product.code, name: product.name, description: product.description },
       calculation: { id: calculation.id, title: calculation.title },
@@ -47,6 +61,7 @@ export class ReportInputService {
       ),
       history: all.map((r, i) => ({ id: r.id, revision: r.revision, createdAt: r.createdAt, verdict: r.verdict, state: states[i].state, author: r.author })),
       generatedAt: now[0].now,
+      minimums,
     };
   }
 }

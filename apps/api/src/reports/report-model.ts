@@ -50,7 +50,14 @@ export interface ReportInput {
   /** All revisions of the calculation */
   readonly history: readonly ReportHistoryEntry[];
   readonly generatedAt: string;
+  /**
+   * Minimum safety factors of the rule set the revision was judged by, for the checks that passed
+   * (a finding's own limit, when there is one, takes precedence)
+   */
+  readonly minimums?: Readonly<Partial<Record<SafetyFactorKey, { readonly limit: number; readonly ruleId: string }>>>;
 }
+
+export type SafetyFactorKey = 'bodyVonMises' | 'firstThreadRoot' | 'strippingScrew' | 'strippingNut' | 'buckling' | 'drive';
 
 // ---------------------------------------------------------------------------------------------------------
 // View
@@ -347,7 +354,7 @@ const SECTIONS: readonly { id: string; title: string; prefixes: readonly string[
 ];
 
 /** Safety factors the report holds against minimums; a finding on any of the paths supplies the minimum. */
-const FACTORS: readonly { key: string; label: string; shortLabel: string; paths: readonly string[]; value: (e: Evaluation) => number | null }[] = [
+const FACTORS: readonly { key: SafetyFactorKey; label: string; shortLabel: string; paths: readonly string[]; value: (e: Evaluation) => number | null }[] = [
   { key: 'bodyVonMises', label: 'Screw body, S_y / von Mises', shortLabel: 'Screw body', paths: ['safetyFactors.bodyVonMises'], value: (e) => e.safetyFactors.bodyVonMises },
   { key: 'firstThreadRoot', label: 'First thread root, S_y / von Mises', shortLabel: 'First thread root', paths: ['safetyFactors.firstThreadRoot'], value: (e) => e.safetyFactors.firstThreadRoot },
   { key: 'strippingScrew', label: 'Screw thread stripping, 0.577 S_y / τ_s', shortLabel: 'Stripping, screw', paths: ['safetyFactors.strippingScrew'], value: (e) => e.safetyFactors.strippingScrew },
@@ -569,11 +576,13 @@ function buildSections(design: Design, e: Evaluation, system: UnitSystem, findin
 // ---------------------------------------------------------------------------------------------------------
 // Safety factors, checks and findings
 
-function buildSafetyFactors(e: Evaluation, findings: readonly Finding[]): SafetyFactorRow[] {
+function buildSafetyFactors(e: Evaluation, findings: readonly Finding[], minimums: ReportInput['minimums'] = {}): SafetyFactorRow[] {
   return FACTORS.map((factor) => {
     const value = factor.value(e);
-    const source = findings.find((f) => f.subject !== null && factor.paths.includes(f.subject) && typeof f.limit === 'number' && (f.unit === null || f.unit === '-' || f.unit === ''));
-    const limit = source ? (source.limit as number) : null;
+    const finding = findings.find((f) => f.subject !== null && factor.paths.includes(f.subject) && typeof f.limit === 'number' && (f.unit === null || f.unit === '-' || f.unit === ''));
+    const fromRuleSet = minimums[factor.key];
+    const source = finding ? { limit: finding.limit as number, ruleId: finding.ruleId } : fromRuleSet;
+    const limit = source ? source.limit : null;
     const status: SafetyFactorRow['status'] = value === null ? 'not-applicable' : limit === null ? 'no-limit' : value >= limit ? 'meets' : 'below';
     const statusText = { meets: 'meets the minimum', below: 'below the minimum', 'no-limit': 'no minimum recorded by the rules', 'not-applicable': 'not applicable' }[status];
     return {
@@ -836,7 +845,7 @@ function conventions(design: Design, system: UnitSystem): string[] {
     'Torques use the exact normal-plane form with tan α_n = tan α cos λ; the sec α approximation is printed for comparison only.',
     'Sign: axial stress is negative in compression. A negative lowering torque means the load drives the screw down by itself and must be held by the drive or a brake.',
     'Thread stresses: the first engaged thread carries 0.38 F; the thread is a cantilever of root thickness b loaded at the pitch line. Stripping shear is held against 0.577 S_y (distortion energy).',
-    'Safety factors are capacity over demand on yield. Minimum values come from the rule findings recorded with this revision; where no finding states a minimum, none is printed.',
+    'Safety factors are capacity over demand on yield. Minimum values are those of the rule set this revision was judged by, for its duty; a finding that states its own limit takes precedence.',
     'Column: k = d_r / 4 on the root diameter; Johnson parabola below the transition slenderness, Euler above it; the end-condition constant follows the design’s basis (recommended or theoretical).',
     'Whirling: first bending mode of a uniform shaft on the root diameter with the column’s end conditions; axial load and gyroscopic effects are neglected.',
     'Nut wear: mean bearing pressure over all engaged threads; pV with the sliding velocity along the helix at the mean diameter.',
@@ -856,7 +865,7 @@ export function buildReportView(input: ReportInput): ReportView {
   const e = revision.evaluation;
   const system: UnitSystem = design.unitSystem === 'US' ? 'US' : 'SI';
   const findings = revision.findings;
-  const factors = buildSafetyFactors(e, findings);
+  const factors = buildSafetyFactors(e, findings, input.minimums);
   const count = (s: Severity) => findings.filter((f) => f.severity === s).length;
   const title = `Calculation report: ${calculation.title}`;
   const headerRows: KeyValue[] = [
