@@ -17,7 +17,7 @@ import { evaluate } from '@leadline/mechanics';
 import { judge, DEFAULT_RULE_SET } from '@leadline/rules';
 import { createApp } from '../apps/api/src/app.factory';
 import { Database } from '../apps/api/src/infra/database/database.service';
-import { BaselineModule } from './baseline.module';
+import { BaselineModule, setFixedResponse } from './baseline.module';
 
 const root = join(__dirname, '../..');
 const design = readFileSync(join(root, 'test/fixtures/ok/trapezoidal-jack.json'), 'utf8');
@@ -117,6 +117,10 @@ async function main() {
       const db = app.get(Database);
       await db.query(`CREATE TABLE bench_rows (id bigserial PRIMARY KEY, body jsonb NOT NULL, created_at timestamptz NOT NULL DEFAULT now())`);
       results.push(await sideBySide('POST /api/v1/evaluations vs hello-world', () => load(`${base}/bench/hello`, 'GET'), () => load(`${base}/api/v1/evaluations`, 'POST', design)));
+      // The floor: the same request body parsed, the same-sized response sent, no evaluation at all
+      setFixedResponse(JSON.stringify(await post(`${base}/api/v1/evaluations`, JSON.parse(design))));
+      results.push(await sideBySide('I/O floor (same body in, same-size body out, no work) vs hello-world', () => load(`${base}/bench/hello`, 'GET'), () => load(`${base}/bench/io-floor`, 'POST', design)));
+      results.push(await sideBySide('POST /api/v1/evaluations vs the I/O floor', () => load(`${base}/bench/io-floor`, 'POST', design), () => load(`${base}/api/v1/evaluations`, 'POST', design)));
       // Durable submissions: spread over 50 products (engineers working on different equipment), and all on one
       // calculation (the worst case: every append waits for the same product's chain head).
       const calcs: string[] = [];
