@@ -2,6 +2,7 @@
  * `npm run bench`: performance as ratios against baselines measured side by side in the same run.
  *   1. POST /api/v1/evaluations vs GET /bench/hello (same app, same Fastify adapter)      goal >= 0.8x
  *   2. durable submission (POST /api/v1/calculations/:id/revisions) vs bare INSERT route   goal >= 0.5x, p99 reported
+ *      plus the floors: an I/O-only POST of the same sizes, and the database append call alone
  *   3. engine alone: one evaluation (parse + evaluate + judge) in microseconds
  *   4. PDF report render with a warm browser vs bare page.pdf of the same HTML             goal <= 1.5x
  * Rounds alternate baseline and subject so machine noise hits both alike. Requires PostgreSQL for (2):
@@ -18,6 +19,8 @@ import { judge, DEFAULT_RULE_SET } from '@leadline/rules';
 import { createApp } from '../apps/api/src/app.factory';
 import { Database } from '../apps/api/src/infra/database/database.service';
 import { BaselineModule, setFixedResponse } from './baseline.module';
+import { benchDbFloor } from './db-floor';
+import { verdictOf } from '@leadline/rules';
 
 const root = join(__dirname, '../..');
 const design = readFileSync(join(root, 'test/fixtures/ok/trapezoidal-jack.json'), 'utf8');
@@ -138,6 +141,19 @@ async function main() {
       const verify = await (await fetch(`${base}/api/v1/products/${products[0]}/verify`, { headers: { authorization: `Bearer ${token}` } })).json();
       console.log(JSON.stringify({ name: 'chain after the benchmark', valid: verify.valid, links: verify.links, firstBrokenLink: verify.firstBrokenLink }));
       await app.close();
+
+      // The database side alone (no HTTP, no engine): the floor of a durable submission
+      const raw = JSON.parse(design);
+      const parsed = parseDesign(raw);
+      if (!parsed.success) throw new Error('fixture invalid');
+      const evaluation = evaluate(parsed.design);
+      const findings = judge(parsed.design, evaluation, DEFAULT_RULE_SET);
+      const floor = await benchDbFloor(u.toString(), {
+        input: raw, normalized: parsed.design, evaluation: { ...evaluation, findings }, findings, verdict: verdictOf(findings),
+        engineVersion: '1', ruleSetVersion: DEFAULT_RULE_SET.version, note: 'db floor',
+      }, seconds, rounds);
+      console.log(JSON.stringify({ name: 'database alone: append call vs bare INSERT (same pool)', ...floor }));
+      results.push(floor);
     } finally {
       await admin.query(`DROP DATABASE IF EXISTS ${name} WITH (FORCE)`);
       await admin.end();
