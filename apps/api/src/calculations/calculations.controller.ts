@@ -51,8 +51,13 @@ export class CalculationsController {
   @Get('calculations/:id/revisions')
   async revisions(@Param('id') calculationId: string) {
     const items = await this.calculations.revisions(calculationId);
-    const states = await Promise.all(items.map((r) => this.reviews.state(r.id)));
-    return { items: items.map((r, i) => ({ ...r, review: { state: states[i].state, decidedBy: states[i].decidedBy, decidedAt: states[i].decidedAt } })) };
+    const states = await this.reviews.statesOfCalculation(calculationId);
+    return {
+      items: items.map((r) => {
+        const s = states.get(r.id)!;
+        return { ...r, review: { state: s.state, decidedBy: s.decidedBy, decidedAt: s.decidedAt } };
+      }),
+    };
   }
 
   /** One revision: input as submitted, evaluation, findings, versions and hashes. */

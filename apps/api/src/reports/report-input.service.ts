@@ -33,7 +33,7 @@ export class ReportInputService {
       ),
       this.db.query<{ now: string }>(`SELECT ${TS_TEXT('now()')} AS now`),
     ]);
-    const states = await Promise.all(all.map((r) => this.reviews.state(r.id)));
+    const states = await this.reviews.statesOfCalculation(revision.calculationId);
     // The minimums of the rule set this revision was judged by, on its duty (they print beside passing checks too)
     const { thresholds } = (await this.ruleSets.get(revision.ruleSetVersion)).definition;
     const duty = revision.normalized.duty.kind;
@@ -59,7 +59,7 @@ export class ReportInputService {
           actor: e.actor ?? null, data: e.data, createdAt: e.created_at, hash: e.hash, previousHash: e.previous_hash,
         }),
       ),
-      history: all.map((r, i) => ({ id: r.id, revision: r.revision, createdAt: r.createdAt, verdict: r.verdict, state: states[i].state, author: r.author })),
+      history: all.map((r) => ({ id: r.id, revision: r.revision, createdAt: r.createdAt, verdict: r.verdict, state: states.get(r.id)!.state, author: r.author })),
       generatedAt: now[0].now,
       minimums,
     };

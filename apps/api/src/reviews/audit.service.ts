@@ -9,6 +9,7 @@ import { Database } from '../infra/database/database.service';
 import { notFound, validate } from '../infra/http/problem';
 import { checkUuid } from '../products/products.service';
 import { TS_TEXT } from '../records/chain';
+import { SUPERSEDED } from './reviews.service';
 
 export const queueQuerySchema = z.object({
   productId: z.string().uuid().optional(),
@@ -79,7 +80,7 @@ export class AuditService {
     const params: unknown[] = [];
     const where: string[] = [
       'NOT EXISTS (SELECT 1 FROM revision_closures x WHERE x.revision_id = r.id)',
-      'NOT EXISTS (SELECT 1 FROM revisions n WHERE n.calculation_id = r.calculation_id AND n.revision > r.revision)',
+      `NOT ${SUPERSEDED('r')}`,
     ];
     const add = (sql: string, value: unknown) => {
       params.push(value);

@@ -27,6 +27,10 @@ export const decisionSchema = z.strictObject({
 
 export const withdrawSchema = z.strictObject({ comment: z.string().max(8000).optional() }).optional();
 
+/** SQL: a newer revision of the same calculation exists (the revision aliased `alias` is superseded). */
+export const SUPERSEDED = (alias: string) =>
+  `EXISTS (SELECT 1 FROM revisions n WHERE n.calculation_id = ${alias}.calculation_id AND n.revision > ${alias}.revision)`;
+
 export interface RevisionState {
   id: string;
   productId: string;
@@ -48,28 +52,37 @@ export class ReviewsService {
   ) {}
 
   async state(id: string, q: Queryer = this.db): Promise<RevisionState> {
+    const [r] = await this.states(q, 'r.id = $1', [checkUuid(id, 'revision')]);
+    if (!r) throw notFound(`revision ${id}`);
+    return r;
+  }
+
+  /** Review states of every revision of a calculation, in one query, by revision id. */
+  async statesOfCalculation(calculationId: string): Promise<Map<string, RevisionState>> {
+    const rows = await this.states(this.db, 'r.calculation_id = $1', [checkUuid(calculationId, 'calculation')]);
+    return new Map(rows.map((r) => [r.id, r]));
+  }
+
+  private async states(q: Queryer, where: string, params: unknown[]): Promise<RevisionState[]> {
     const rows = await q.query<{
       id: string; product_id: string; calculation_id: string; revision: number; author_id: string | null; findings: Finding[]; input: string;
       closure: ReviewState | null; superseded: boolean; actor: Actor | null; decided_at: string | null;
     }>(
       `SELECT r.id, r.product_id, r.calculation_id, r.revision, r.author_id, r.findings, r.input::text AS input, c.kind AS closure,
-              EXISTS (SELECT 1 FROM revisions n WHERE n.calculation_id = r.calculation_id AND n.revision > r.revision) AS superseded,
-              e.actor, ${TS_TEXT('c.created_at')} AS decided_at
+              ${SUPERSEDED('r')} AS superseded, e.actor, ${TS_TEXT('c.created_at')} AS decided_at
          FROM revisions r
          LEFT JOIN revision_closures c ON c.revision_id = r.id
          LEFT JOIN events e ON e.id = c.event_id
-        WHERE r.id = $1`,
-      [checkUuid(id, 'revision')],
+        WHERE ${where}`,
+      params,
     );
-    if (rows.length === 0) throw notFound(`revision ${id}`);
-    const r = rows[0];
-    return {
+    return rows.map((r) => ({
       id: r.id, productId: r.product_id, calculationId: r.calculation_id, revision: Number(r.revision), authorId: r.author_id,
       findings: r.findings, input: JSON.parse(r.input),
       state: r.closure ?? (r.superseded ? 'superseded' : 'submitted'),
       decidedBy: r.closure ? r.actor : null,
       decidedAt: r.decided_at,
-    };
+    }));
   }
 
   /** Approve or reject: four-eyes, no blocking findings, every warning acknowledged, exactly one decision. */

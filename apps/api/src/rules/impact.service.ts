@@ -9,6 +9,7 @@ import { judge, verdictOf } from '@leadline/rules';
 import { z } from 'zod';
 import { Database } from '../infra/database/database.service';
 import { validate } from '../infra/http/problem';
+import { SUPERSEDED } from '../reviews/reviews.service';
 import { RuleSetsService } from './rule-sets.service';
 
 export const impactSchema = z
@@ -31,7 +32,7 @@ export class ImpactService {
     const where =
       input.scope === 'approved'
         ? `EXISTS (SELECT 1 FROM revision_closures x WHERE x.revision_id = r.id AND x.kind = 'approved')`
-        : `NOT EXISTS (SELECT 1 FROM revisions n WHERE n.calculation_id = r.calculation_id AND n.revision > r.revision)`;
+        : `NOT ${SUPERSEDED('r')}`;
     const params: unknown[] = [];
     let filter = '';
     if (input.productId) {
