@@ -25,7 +25,6 @@ class SerialQueue {
 
 /** PostgreSQL error codes the services translate into HTTP answers */
 export const PG_UNIQUE_VIOLATION = '23505';
-export const PG_RAISE_EXCEPTION = 'P0001';
 export const PG_NO_DATA_FOUND = 'P0002';
 
 export function pgErrorCode(err: unknown): string | undefined {
