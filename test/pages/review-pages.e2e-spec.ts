@@ -11,6 +11,7 @@ import { Writable } from 'node:stream';
 import puppeteer, { type Browser, type CDPSession, type Frame, type Page } from 'puppeteer-core';
 import { CHROMIUM_FLAGS } from '../../apps/api/src/infra/pdf/browser-pool';
 import { CAUTION_TEXT } from '../../apps/api/src/reports/report-model';
+import { seriousViolations } from '../support/axe';
 import { clearDesign, warningDesign } from '../support/designs';
 import { startPagesApp, type PagesApp } from './pages-app';
 
@@ -128,9 +129,11 @@ it('serves the page shells without data, with a strict Content-Security-Policy a
   }
   const nonces = await Promise.all([1, 2].map(async () => (await fetch(`${t.baseUrl}/review/revisions/${revisionId}`)).headers.get('content-security-policy')));
   expect(nonces[0]).not.toBe(nonces[1]); // a fresh nonce per response
-  const script = await fetch(`${t.baseUrl}/review/assets/review.js`);
-  expect(script.headers.get('content-type')).toBe('text/javascript; charset=utf-8');
-  expect(await script.text()).not.toMatch(/innerHTML|insertAdjacentHTML|document\.write|localStorage|document\.cookie/);
+  for (const name of ['lib-api.js', 'lib-dom.js', 'lib-problem.js', 'lib-format.js', 'lib-session.js', 'review-queue.js', 'review-revision.js', 'review-audit.js']) {
+    const script = await fetch(`${t.baseUrl}/review/assets/${name}`);
+    expect(script.headers.get('content-type')).toBe('text/javascript; charset=utf-8');
+    expect(await script.text()).not.toMatch(/innerHTML|insertAdjacentHTML|document\.write|localStorage|document\.cookie/);
+  }
   expect((await fetch(`${t.baseUrl}/review/assets/review.css`)).headers.get('content-type')).toBe('text/css; charset=utf-8');
   expect((await fetch(`${t.baseUrl}/review/assets/app.js`)).status).toBe(404);
   expect((await fetch(`${t.baseUrl}/review/revisions/not-a-uuid`)).status).toBe(404);
@@ -159,6 +162,7 @@ it('lets a checking engineer sign in, find the revision in the queue, read its r
   expect(await page.$$eval('main img', (imgs) => imgs.length)).toBe(0);
   expect(await fitsWidth(page)).toBe(true);
   await page.screenshot({ path: join(ARTIFACTS, 'pages-queue.png'), fullPage: true });
+  expect(await seriousViolations(page)).toEqual([]);
 
   // one revision: header, report in its frame, findings
   await Promise.all([page.waitForNavigation(), page.click(`#queue tr[data-revision="${revisionId}"] a[href$="${revisionId}"]`)]);
@@ -196,6 +200,7 @@ it('lets a checking engineer sign in, find the revision in the queue, read its r
   expect(pdf.bytes.subarray(0, 5).toString()).toBe('%PDF-');
   expect(await fitsWidth(page)).toBe(true);
   await page.screenshot({ path: join(ARTIFACTS, 'pages-revision.png'), fullPage: true });
+  expect(await seriousViolations(page)).toEqual([]);
 
   // approving without acknowledging the warning is refused, with the field path shown
   await page.type('#decision-comment', 'Checked at both ends of the friction range.');
@@ -209,6 +214,7 @@ it('lets a checking engineer sign in, find the revision in the queue, read its r
   expect((await t.call('GET', `/api/v1/revisions/${revisionId}`)).body.review.state).toBe('submitted');
   const decisionPanel = await page.$('#decision');
   await decisionPanel!.screenshot({ path: join(ARTIFACTS, 'pages-approve-refused.png') });
+  expect(await seriousViolations(page)).toEqual([]);
 
   // acknowledged: approved
   await page.type('#ack-0', 'Friction test scheduled with the nut supplier; the range covers it.');
@@ -246,6 +252,7 @@ it('lets a checking engineer sign in, find the revision in the queue, read its r
   expect(csv.bytes.toString('utf8')).toMatch(new RegExp(`\r\n${links},[^,]+,event,approved,Checking engineer \\(test\\),`));
   expect(await fitsWidth(page)).toBe(true);
   await page.screenshot({ path: join(ARTIFACTS, 'pages-audit.png'), fullPage: true });
+  expect(await seriousViolations(page)).toEqual([]);
 });
 
 it('shows the four-eyes refusal when a checker tries to approve their own revision [POST /api/v1/revisions/:id/decisions]', async () => {
@@ -263,6 +270,7 @@ it('shows the four-eyes refusal when a checker tries to approve their own revisi
   expect(refusal).toContain('a revision must be decided by a reviewer other than its author');
   expect((await t.call('GET', `/api/v1/revisions/${ownRevisionId}`)).body.review.state).toBe('submitted');
   await (await page.$('#decision'))!.screenshot({ path: join(ARTIFACTS, 'pages-four-eyes.png') });
+  expect(await seriousViolations(page)).toEqual([]);
   // the token is in this tab's sessionStorage and nowhere else in the browser
   const storage = await page.evaluate(() => ({ session: Object.keys(sessionStorage), local: localStorage.length, cookie: document.cookie }));
   expect(storage).toEqual({ session: ['leadline.reviewToken'], local: 0, cookie: '' });

@@ -13,6 +13,7 @@ import { PagesModule } from './pages/pages.module';
 import { ProductsModule } from './products/products.module';
 import { RecordsModule } from './records/records.module';
 import { RulesModule } from './rules/rules.module';
+import { WorkbenchModule } from './workbench/workbench.module';
 
 @Module({})
 export class AppModule {
@@ -35,6 +36,7 @@ export class AppModule {
         ReportsModule,
         HealthModule,
         PagesModule,
+        WorkbenchModule,
         ...extraModules,
       ],
       providers: [{ provide: APP_CONFIG, useValue: config }],

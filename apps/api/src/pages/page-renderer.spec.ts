@@ -1,6 +1,6 @@
 import { join } from 'node:path';
 import { CAUTION_TEXT } from '../reports/report-model';
-import { contentSecurityPolicy, findAssetsDir, PAGES, PageRenderer } from './page-renderer';
+import { contentSecurityPolicy, findAssetsDir, PAGE_SPECS, PAGES, PageRenderer } from './page-renderer';
 
 describe('PageRenderer', () => {
   const renderer = new PageRenderer();
@@ -9,7 +9,7 @@ describe('PageRenderer', () => {
     for (const page of PAGES) {
       const html = renderer.render(page);
       expect(html).toContain(`<body data-page="${page}">`);
-      expect(html).toContain('<script src="/review/assets/review.js" defer></script>');
+      expect(html).toContain(`<script type="module" src="/review/assets/${PAGE_SPECS[page].script}"></script>`);
       for (const sentence of CAUTION_TEXT) expect(html).toContain(sentence);
       expect(html).not.toMatch(/<style|style=|<script>|\son[a-z]+=/);
     }
@@ -20,8 +20,9 @@ describe('PageRenderer', () => {
     expect(renderer.render('queue')).not.toContain('leadline-style-nonce');
   });
 
-  it('serves only its two assets', () => {
-    expect(renderer.asset('review.js')?.contentType).toBe('text/javascript; charset=utf-8');
+  it('serves the script modules and stylesheets of the assets folder, and nothing else', () => {
+    for (const page of PAGES) expect(renderer.asset(PAGE_SPECS[page].script)?.contentType).toBe('text/javascript; charset=utf-8');
+    expect(renderer.asset('lib-api.js')?.contentType).toBe('text/javascript; charset=utf-8');
     expect(renderer.asset('review.css')?.contentType).toBe('text/css; charset=utf-8');
     expect(renderer.asset('../pages.module.ts')).toBeUndefined();
     expect(renderer.asset('toString')).toBeUndefined();

@@ -1,6 +1,7 @@
 /**
- * The reviewer pages: Handlebars shells compiled once, and the one script and stylesheet they load, read from
- * disk once. The shells carry no data; the script fetches everything from the JSON API with the user's token.
+ * The web pages (/review for the checking engineer, /design for the design author): Handlebars shells compiled
+ * once, and the script modules and stylesheets they load, read from disk once. The shells carry no data; each
+ * page's module fetches everything from the JSON API with the user's token.
  */
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { basename, dirname, join } from 'node:path';
@@ -8,15 +9,31 @@ import Handlebars from 'handlebars';
 import { CAUTION_TEXT } from '../reports/report-model';
 import { findTemplatesDir } from '../reports/report-renderer';
 
-export const PAGES = ['queue', 'revision', 'audit'] as const;
-export type PageName = (typeof PAGES)[number];
+/** One page: its shell (templates/pages/<name>.hbs), window title and script module (pages/assets). */
+interface PageSpec {
+  readonly title: string;
+  readonly script: string;
+}
 
-const TITLES: Record<PageName, string> = { queue: 'Review queue', revision: 'Revision under review', audit: 'Audit trail' };
+/** Every page. Adding one: a template, a script module, an entry here and a route in a pages controller. */
+export const PAGE_SPECS = {
+  queue: { title: 'Review queue', script: 'review-queue.js' },
+  revision: { title: 'Revision under review', script: 'review-revision.js' },
+  audit: { title: 'Audit trail', script: 'review-audit.js' },
+} as const satisfies Record<string, PageSpec>;
+
+export type PageName = keyof typeof PAGE_SPECS;
+export const PAGES = Object.keys(PAGE_SPECS) as PageName[];
+
+/** Where the pages' assets are served (one place for /review and /design). */
+export const ASSET_BASE = '/review/assets/';
 
 export interface Asset {
   readonly body: string;
   readonly contentType: string;
 }
+
+const CONTENT_TYPES: Record<string, string> = { '.js': 'text/javascript; charset=utf-8', '.css': 'text/css; charset=utf-8' };
 
 /**
  * The pages' Content-Security-Policy: nothing from outside, no inline script or style, no plugins, no form
@@ -39,19 +56,21 @@ export function contentSecurityPolicy(styleNonce?: string): string {
   ].join('; ');
 }
 
+const MARKER = 'lib-api.js';
+
 /** Finds pages/assets beside this file (source) or in the repository above it (dist, where tsc copies no assets). */
 export function findAssetsDir(start: string = __dirname): string {
   const beside = join(start, 'assets');
-  if (existsSync(join(beside, 'review.js'))) return beside;
+  if (existsSync(join(beside, MARKER))) return beside;
   for (let dir = start; dirname(dir) !== dir; dir = dirname(dir)) {
     const candidate = join(dir, 'apps', 'api', 'src', 'pages', 'assets');
-    if (existsSync(join(candidate, 'review.js'))) return candidate;
+    if (existsSync(join(candidate, MARKER))) return candidate;
   }
-  throw new Error(`apps/api/src/pages/assets/review.js not found above ${start}`);
+  throw new Error(`apps/api/src/pages/assets/${MARKER} not found above ${start}`);
 }
 
 export class PageRenderer {
-  private readonly pages: Record<PageName, Handlebars.TemplateDelegate>;
+  private readonly pages: Record<string, Handlebars.TemplateDelegate>;
   private readonly assets: Record<string, Asset>;
 
   constructor(options: { templatesDir?: string; assetsDir?: string } = {}) {
@@ -62,20 +81,28 @@ export class PageRenderer {
     for (const file of readdirSync(partialsDir)) {
       if (file.endsWith('.hbs')) hbs.registerPartial(basename(file, '.hbs'), readFileSync(join(partialsDir, file), 'utf8'));
     }
-    const compile = (name: PageName) => hbs.compile(readFileSync(join(pagesDir, `${name}.hbs`), 'utf8'), { strict: true });
-    this.pages = { queue: compile('queue'), revision: compile('revision'), audit: compile('audit') };
+    this.pages = Object.fromEntries(
+      PAGES.map((name) => [name, hbs.compile(readFileSync(join(pagesDir, `${name}.hbs`), 'utf8'), { strict: true })]),
+    );
     const assetsDir = options.assetsDir ?? findAssetsDir();
-    this.assets = {
-      'review.js': { body: readFileSync(join(assetsDir, 'review.js'), 'utf8'), contentType: 'text/javascript; charset=utf-8' },
-      'review.css': { body: readFileSync(join(assetsDir, 'review.css'), 'utf8'), contentType: 'text/css; charset=utf-8' },
-    };
+    this.assets = {};
+    for (const file of readdirSync(assetsDir)) {
+      const type = CONTENT_TYPES[file.slice(file.lastIndexOf('.'))];
+      if (type && /^[a-z0-9-]+\.(js|css)$/.test(file)) this.assets[file] = { body: readFileSync(join(assetsDir, file), 'utf8'), contentType: type };
+    }
   }
 
   render(page: PageName, styleNonce?: string): string {
-    return this.pages[page]({ page, title: TITLES[page], caution: CAUTION_TEXT, styleNonce: styleNonce ?? null });
+    const spec: PageSpec = PAGE_SPECS[page];
+    return this.pages[page]({ page, title: spec.title, script: ASSET_BASE + spec.script, caution: CAUTION_TEXT, styleNonce: styleNonce ?? null });
   }
 
   asset(name: string): Asset | undefined {
     return Object.hasOwn(this.assets, name) ? this.assets[name] : undefined;
+  }
+
+  /** Names of every served asset. */
+  assetNames(): string[] {
+    return Object.keys(this.assets);
   }
 }

@@ -35,7 +35,7 @@ export class PagesController {
     return this.html(reply, 'audit');
   }
 
-  /** review.js and review.css. */
+  /** The pages' script modules and stylesheets (pages/assets), for /review and /design alike. */
   @Get('assets/:name')
   asset(@Param('name') name: string, @Res({ passthrough: true }) reply: FastifyReply) {
     const asset = this.pages.asset(name);

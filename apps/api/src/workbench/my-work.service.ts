@@ -1,0 +1,89 @@
+/**
+ * The design author's own work: every revision they submitted, with its review state, the decision and the
+ * reviewer's comments on it (a rejection's reasons), newest first.
+ */
+import { Injectable } from '@nestjs/common';
+import type { Finding, ReviewState } from '@leadline/contracts';
+import { z } from 'zod';
+import { Database } from '../infra/database/database.service';
+import { validate } from '../infra/http/problem';
+import { TS_TEXT } from '../records/chain';
+import { SUPERSEDED } from '../reviews/reviews.service';
+
+export const myRevisionsQuerySchema = z.object({
+  state: z.enum(['submitted', 'approved', 'rejected', 'withdrawn', 'superseded']).optional().describe('only revisions in this review state'),
+  limit: z.coerce.number().int().min(1).max(500).default(200),
+});
+
+export interface ReviewerComment {
+  by: { id: string; name: string } | null;
+  at: string;
+  kind: 'decision' | 'comment';
+  text: string;
+  target: { field?: string; finding?: string } | null;
+}
+
+export interface MyRevision {
+  revisionId: string;
+  revision: number;
+  calculationId: string;
+  title: string;
+  productId: string;
+  productCode: string;
+  productName: string;
+  note: string | null;
+  verdict: string;
+  findings: { blocking: number; warning: number; info: number };
+  submittedAt: string;
+  hash: string;
+  state: ReviewState;
+  decidedBy: { id: string; name: string } | null;
+  decidedAt: string | null;
+  /** The decision's comment and every comment by someone other than the author, oldest first */
+  comments: ReviewerComment[];
+  /** True while the revision awaits review: its author may withdraw it */
+  canWithdraw: boolean;
+}
+
+@Injectable()
+export class MyWorkService {
+  constructor(private readonly db: Database) {}
+
+  async revisions(authorId: string, query: unknown): Promise<{ items: MyRevision[] }> {
+    const q = validate(myRevisionsQuerySchema, query);
+    const rows = await this.db.query<Record<string, any>>(
+      `SELECT r.id, r.revision, r.calculation_id, c.title, r.product_id, p.code, p.name, r.note, r.verdict, r.findings, r.hash,
+              ${TS_TEXT('r.created_at')} AS created_at, x.kind AS closure, ${SUPERSEDED('r')} AS superseded, d.actor AS decided_by,
+              ${TS_TEXT('x.created_at')} AS decided_at,
+              (SELECT coalesce(json_agg(json_build_object('type', e.type, 'actor', e.actor, 'at', ${TS_TEXT('e.created_at')}, 'data', e.data) ORDER BY e.seq), '[]'::json)
+                 FROM events e WHERE e.revision_id = r.id AND e.type IN ('comment', 'approved', 'rejected')
+                  AND e.actor_id IS DISTINCT FROM r.author_id) AS remarks
+         FROM revisions r JOIN calculations c ON c.id = r.calculation_id JOIN products p ON p.id = r.product_id
+         LEFT JOIN revision_closures x ON x.revision_id = r.id
+         LEFT JOIN events d ON d.id = x.event_id
+        WHERE r.author_id = $1
+        ORDER BY r.created_at DESC, r.seq DESC
+        LIMIT $2`,
+      [authorId, q.state ? 500 : q.limit],
+    );
+    const items = rows.map((r): MyRevision => {
+      const state: ReviewState = r.closure ?? (r.superseded ? 'superseded' : 'submitted');
+      const comments: ReviewerComment[] = [];
+      for (const e of (typeof r.remarks === 'string' ? JSON.parse(r.remarks) : r.remarks) as { type: string; actor: any; at: string; data: any }[]) {
+        if (e.type === 'comment') comments.push({ by: e.actor, at: e.at, kind: 'comment', text: e.data.text, target: e.data.target ?? null });
+        else {
+          if (e.data.comment) comments.push({ by: e.actor, at: e.at, kind: 'decision', text: e.data.comment, target: null });
+          for (const c of e.data.comments ?? []) comments.push({ by: e.actor, at: e.at, kind: 'comment', text: c.text, target: c.target ?? null });
+        }
+      }
+      const findings = { blocking: 0, warning: 0, info: 0 };
+      for (const f of r.findings as Finding[]) findings[f.severity]++;
+      return {
+        revisionId: r.id, revision: Number(r.revision), calculationId: r.calculation_id, title: r.title, productId: r.product_id, productCode: r.code,
+        productName: r.name, note: r.note, verdict: r.verdict, findings, submittedAt: r.created_at, hash: r.hash, state,
+        decidedBy: r.closure ? (r.decided_by ?? null) : null, decidedAt: r.closure ? r.decided_at : null, comments, canWithdraw: state === 'submitted',
+      };
+    });
+    return { items: (q.state ? items.filter((i) => i.state === q.state) : items).slice(0, q.limit) };
+  }
+}
