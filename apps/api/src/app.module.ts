@@ -13,7 +13,9 @@ import { PagesModule } from './pages/pages.module';
 import { ProductsModule } from './products/products.module';
 import { RecordsModule } from './records/records.module';
 import { RulesModule } from './rules/rules.module';
+import { SizingModule } from './sizing/sizing.module';
 import { WorkbenchModule } from './workbench/workbench.module';
+import { DesignFileModule } from './design-file/design-file.module';
 
 @Module({})
 export class AppModule {
@@ -36,7 +38,9 @@ export class AppModule {
         ReportsModule,
         HealthModule,
         PagesModule,
+        SizingModule,
         WorkbenchModule,
+        DesignFileModule,
         ...extraModules,
       ],
       providers: [{ provide: APP_CONFIG, useValue: config }],

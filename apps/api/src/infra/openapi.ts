@@ -8,6 +8,7 @@ import {
   calculationSchema, chainVerificationSchema, designInputSchema, evaluationResponseSchema, problemSchema, productSchema,
   revisionRecordSchema, submissionResultSchema,
 } from '@leadline/contracts';
+import { sizingRequestSchema, sizingResponseSchema } from '@leadline/contracts';
 import { z, type ZodType } from 'zod';
 import { ruleSetDefinitionSchema } from '@leadline/rules';
 import { addRevisionSchema, openCalculationSchema } from '../calculations/calculations.service';
@@ -32,9 +33,14 @@ interface Route {
 
 export const ROUTES: Route[] = [
   { method: 'post', path: '/api/v1/evaluations', summary: 'Evaluate a design (stateless, nothing stored)', tag: 'evaluations', request: designInputSchema, response: evaluationResponseSchema, status: 200 },
+  { method: 'post', path: '/api/v1/sizing', summary: 'Search the standard sizes for screws that pass stated requirements, ranked, with the rules that stopped the rest (stateless)', tag: 'sizing', request: sizingRequestSchema, response: sizingResponseSchema, status: 200 },
   { method: 'post', path: '/api/v1/products', summary: 'Register a product', tag: 'products', request: createProductSchema, response: productSchema, status: 201 },
-  { method: 'get', path: '/api/v1/products', summary: 'List products (limit, offset)', tag: 'products', response: z.object({ items: z.array(productSchema), total: z.number(), limit: z.number(), offset: z.number() }) },
+  { method: 'get', path: '/api/v1/products', summary: 'List products (limit, offset; q: code or name contains)', tag: 'products', response: z.object({ items: z.array(productSchema), total: z.number(), limit: z.number(), offset: z.number() }) },
   { method: 'get', path: '/api/v1/products/{id}', summary: 'One product with its calculations', tag: 'products', response: productSchema.extend({ calculations: z.array(calculationSchema) }) },
+  { method: 'post', path: '/api/v1/evaluations/charts', summary: "The report's torque-friction and column charts (SVG) of an unsaved design (?units=SI|US); nothing stored", tag: 'evaluations', request: designInputSchema, response: z.object({ unitSystem: z.enum(['SI', 'US']), torqueFriction: z.string(), column: z.string().nullable() }), status: 200 },
+  { method: 'get', path: '/api/v1/products/{id}/design-file.pdf', summary: "Design file, PDF: cover sheet, each calculation's latest approved report, audit trail, hash-chain check (?paper=A4|Letter)", tag: 'reports' },
+  { method: 'get', path: '/api/v1/me', summary: 'The signed-in user: id, name, roles', tag: 'identities', response: z.object({ id: z.string().uuid(), name: z.string(), roles: z.array(z.string()) }) },
+  { method: 'get', path: '/api/v1/me/revisions', summary: "The signed-in author's revisions, newest first, with review state, decision and reviewers' comments (?state=, ?limit=)", tag: 'reviews' },
   { method: 'get', path: '/api/v1/products/{id}/verify', summary: "Recompute the product's hash chain", tag: 'records', response: chainVerificationSchema },
   { method: 'post', path: '/api/v1/products/{id}/calculations', summary: 'Open a calculation with revision 1', tag: 'calculations', request: openCalculationSchema.extend({ design: designInputSchema }), response: submissionResultSchema, status: 201, idempotent: true },
   { method: 'get', path: '/api/v1/calculations/{id}', summary: 'One calculation', tag: 'calculations', response: calculationSchema },

@@ -5,7 +5,7 @@ import { CurrentActor } from '../infra/http/actor';
 import { validate } from '../infra/http/problem';
 import { RecordStore } from '../records/record-store';
 import { CalculationsService } from '../calculations/calculations.service';
-import { checkUuid, pageSchema, ProductsService } from './products.service';
+import { checkUuid, productListSchema, ProductsService } from './products.service';
 
 @Controller('api/v1/products')
 export class ProductsController {
@@ -23,8 +23,8 @@ export class ProductsController {
 
   @Get()
   list(@Query() query: unknown) {
-    const page = validate(pageSchema, query);
-    return this.products.list(page.limit, page.offset);
+    const page = validate(productListSchema, query);
+    return this.products.list(page.limit, page.offset, page.q || undefined);
   }
 
   @Get(':id')

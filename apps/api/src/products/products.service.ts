@@ -60,10 +60,14 @@ export class ProductsService {
   }
 
   /** One page of products, oldest first. */
-  async list(limit: number, offset: number): Promise<{ items: Product[]; total: number; limit: number; offset: number }> {
+  async list(limit: number, offset: number, q?: string): Promise<{ items: Product[]; total: number; limit: number; offset: number }> {
+    // ?q= matches code or name, case-insensitively, anywhere in the text (LIKE wildcards in q are taken literally)
+    const pattern = q ? `%${q.replace(/[\\%_]/g, (c) => '\\' + c)}%` : null;
+    const where = pattern ? `WHERE code ILIKE $1 OR name ILIKE $1` : '';
+    const args = pattern ? [pattern] : [];
     const [items, total] = await Promise.all([
-      this.db.query<Product>(`SELECT ${PRODUCT_COLUMNS} FROM products ORDER BY created_at, code LIMIT $1 OFFSET $2`, [limit, offset]),
-      this.db.query<{ n: string }>(`SELECT count(*) AS n FROM products`),
+      this.db.query<Product>(`SELECT ${PRODUCT_COLUMNS} FROM products ${where} ORDER BY created_at, code LIMIT $${args.length + 1} OFFSET $${args.length + 2}`, [...args, limit, offset]),
+      this.db.query<{ n: string }>(`SELECT count(*) AS n FROM products ${where}`, args),
     ]);
     return { items, total: Number(total[0].n), limit, offset };
   }
@@ -81,3 +85,6 @@ export const pageSchema = z.object({
   limit: z.coerce.number().int().min(1).max(200).default(50),
   offset: z.coerce.number().int().min(0).default(0),
 });
+
+/** GET /products: a page, optionally only products whose code or name contains q. */
+export const productListSchema = pageSchema.extend({ q: z.string().trim().max(200).optional().describe('search: code or name contains this text (any case)') });

@@ -394,14 +394,20 @@ export interface ReportCharts {
 
 /** The report's three charts for one revision, rendered fresh each time. */
 export async function renderReportCharts(revision: RevisionRecord, view: ReportView): Promise<ReportCharts> {
-  const design = revision.normalized;
-  const e = revision.evaluation;
-  const curve = columnCurve(design, e);
   const sfSpec = safetyFactorSpec(view.safetyFactors);
-  const [torqueFriction, column, safetyFactors] = await Promise.all([
-    specToSvg(torqueFrictionSpec(torqueFrictionSweep(design, e), view.unitSystem), 'torque', 'Torque against thread friction'),
-    curve ? specToSvg(columnSpec(curve, view.unitSystem), 'column', 'Column curve with the design point') : Promise.resolve(null),
+  const [design, safetyFactors] = await Promise.all([
+    renderDesignCharts(revision.normalized, revision.evaluation, view.unitSystem),
     sfSpec ? specToSvg(sfSpec, 'factors', 'Safety factors against their minimums') : Promise.resolve(null),
   ]);
-  return { torqueFriction, column, safetyFactors };
+  return { ...design, safetyFactors };
+}
+
+/** The torque-friction chart and the column chart of any evaluated design, saved or not (the report's own charts). */
+export async function renderDesignCharts(design: Design, e: Evaluation, system: UnitSystem): Promise<Omit<ReportCharts, 'safetyFactors'>> {
+  const curve = columnCurve(design, e);
+  const [torqueFriction, column] = await Promise.all([
+    specToSvg(torqueFrictionSpec(torqueFrictionSweep(design, e), system), 'torque', 'Torque against thread friction'),
+    curve ? specToSvg(columnSpec(curve, system), 'column', 'Column curve with the design point') : Promise.resolve(null),
+  ]);
+  return { torqueFriction, column };
 }

@@ -6,10 +6,11 @@ import { ProductsModule } from '../products/products.module';
 import { ReportInputService } from './report-input.service';
 import { ReportRenderer } from './report-renderer';
 import { ReportsController } from './reports.controller';
+import { DesignChartsController } from './design-charts.controller';
 
 @Module({
   imports: [CalculationsModule, ProductsModule],
-  controllers: [ReportsController],
+  controllers: [ReportsController, DesignChartsController],
   providers: [
     ReportInputService,
     { provide: ReportRenderer, useFactory: () => new ReportRenderer() },

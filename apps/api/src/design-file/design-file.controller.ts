@@ -1,0 +1,35 @@
+import { Controller, Get, Inject, Param, Query, Res } from '@nestjs/common';
+import type { FastifyReply } from 'fastify';
+import { existsSync } from 'node:fs';
+import { z } from 'zod';
+import { APP_CONFIG, type AppConfig } from '../infra/config';
+import { ProblemError, validate } from '../infra/http/problem';
+import { PdfRenderer } from '../infra/pdf/browser-pool';
+import { checkUuid } from '../products/products.service';
+import { DesignFileService } from './design-file.service';
+
+const paperSchema = z.object({ paper: z.enum(['A4', 'Letter']).default('A4') });
+
+/** A product's design file as one PDF (for a technical file or an auditor). */
+@Controller('api/v1/products')
+export class DesignFileController {
+  constructor(
+    private readonly files: DesignFileService,
+    private readonly pdf: PdfRenderer,
+    @Inject(APP_CONFIG) private readonly config: AppConfig,
+  ) {}
+
+  /** ?paper=A4 (default) or Letter. */
+  @Get(':id/design-file.pdf')
+  async designFile(@Param('id') id: string, @Query() query: unknown, @Res({ passthrough: true }) reply: FastifyReply) {
+    checkUuid(id, 'product');
+    const { paper } = validate(paperSchema, query);
+    if (!existsSync(this.config.LEADLINE_CHROMIUM_PATH)) {
+      throw new ProblemError(503, 'PDF rendering unavailable', `no Chromium at ${this.config.LEADLINE_CHROMIUM_PATH} (LEADLINE_CHROMIUM_PATH)`);
+    }
+    const file = await this.files.build(id);
+    const buffer = await this.pdf.render(file.html, { format: paper, headerLabel: file.headerLabel, footerNote: file.footerNote });
+    reply.header('content-type', 'application/pdf').header('content-disposition', `inline; filename="${file.fileName.replace(/[^A-Za-z0-9._-]+/g, '-')}"`);
+    return buffer;
+  }
+}

@@ -1,0 +1,111 @@
+/**
+ * A product's design file: one HTML document printed to one PDF through the pooled browser, so page numbers
+ * run through the whole file. Cover sheet (product, date, each calculation's latest revision, state and
+ * verdict), the calculation report of each calculation's latest approved revision, the product's audit trail
+ * as a compact table, and the hash-chain verification with the head hash.
+ */
+import { Injectable } from '@nestjs/common';
+import { readdirSync, readFileSync } from 'node:fs';
+import { basename, join } from 'node:path';
+import Handlebars from 'handlebars';
+import { CalculationsService } from '../calculations/calculations.service';
+import { Database } from '../infra/database/database.service';
+import { ProductsService } from '../products/products.service';
+import { TS_TEXT } from '../records/chain';
+import { RecordStore } from '../records/record-store';
+import { CAUTION_SHORT, CAUTION_TEXT, formatDate } from '../reports/report-model';
+import { ReportInputService } from '../reports/report-input.service';
+import { findTemplatesDir, ReportRenderer } from '../reports/report-renderer';
+import { AuditService } from '../reviews/audit.service';
+import { ReviewsService } from '../reviews/reviews.service';
+
+const STATE_WORDS: Record<string, string> = { submitted: 'awaiting review', approved: 'approved', rejected: 'rejected', withdrawn: 'withdrawn', superseded: 'superseded' };
+const VERDICT_WORDS: Record<string, string> = { clear: 'clear', 'needs-acknowledgement': 'needs acknowledgement', blocked: 'blocked' };
+
+/**
+ * The <body> of a rendered report with every id (and each reference to one) prefixed, so that several reports
+ * can share one document without their chart clip paths or section anchors colliding.
+ */
+export function reportBody(html: string, prefix: string): string {
+  const start = html.search(/<body[^>]*>/i);
+  const end = html.search(/<\/body>/i);
+  const body = start >= 0 && end > start ? html.slice(html.indexOf('>', start) + 1, end) : html;
+  return body
+    .replace(/\sid="([^"]+)"/g, (_m, id: string) => ` id="${prefix}-${id}"`)
+    .replace(/url\(#([^)]+)\)/g, (_m, id: string) => `url(#${prefix}-${id})`)
+    .replace(/href="#([^"]+)"/g, (_m, id: string) => `href="#${prefix}-${id}"`);
+}
+
+export interface DesignFile {
+  readonly html: string;
+  readonly headerLabel: string;
+  readonly footerNote: string;
+  readonly fileName: string;
+}
+
+@Injectable()
+export class DesignFileService {
+  private readonly template: Handlebars.TemplateDelegate;
+
+  constructor(
+    private readonly db: Database,
+    private readonly products: ProductsService,
+    private readonly calculations: CalculationsService,
+    private readonly reviews: ReviewsService,
+    private readonly audit: AuditService,
+    private readonly records: RecordStore,
+    private readonly inputs: ReportInputService,
+    private readonly renderer: ReportRenderer,
+  ) {
+    const dir = findTemplatesDir();
+    const hbs = Handlebars.create();
+    for (const file of readdirSync(join(dir, 'partials'))) {
+      if (file.endsWith('.hbs')) hbs.registerPartial(basename(file, '.hbs'), readFileSync(join(dir, 'partials', file), 'utf8'));
+    }
+    this.template = hbs.compile(readFileSync(join(dir, 'reports', 'design-file.hbs'), 'utf8'), { strict: false });
+  }
+
+  async build(productId: string): Promise<DesignFile> {
+    const product = await this.products.get(productId);
+    const [calcs, chain, trail, now] = await Promise.all([
+      this.calculations.listForProduct(productId),
+      this.records.verify(productId),
+      this.audit.fullTrail(productId),
+      this.db.query<{ now: string }>(`SELECT ${TS_TEXT('now()')} AS now`),
+    ]);
+    const calculations = [];
+    const reports: { body: string }[] = [];
+    for (const calc of calcs) {
+      const [revisions, states] = await Promise.all([this.calculations.revisions(calc.id), this.reviews.statesOfCalculation(calc.id)]);
+      const latest = revisions[revisions.length - 1];
+      const approved = [...revisions].reverse().find((r) => states.get(r.id)?.state === 'approved') ?? null;
+      calculations.push({
+        title: calc.title,
+        latest: latest ? { revision: latest.revision, state: STATE_WORDS[states.get(latest.id)!.state], verdict: VERDICT_WORDS[latest.verdict] } : { revision: '—', state: '—', verdict: '—' },
+        approved: approved ? { revision: approved.revision, hash: approved.hash } : null,
+      });
+      if (approved) {
+        const { html } = await this.renderer.render(await this.inputs.forRevision(approved.id));
+        reports.push({ body: reportBody(html, `r${reports.length + 1}`) });
+      }
+    }
+    const summary = chain.valid
+      ? `intact: ${chain.links} links recomputed from the stored records`
+      : `BROKEN: ${chain.links} links, first broken link at seq. ${chain.firstBrokenLink?.seq}`;
+    const html = this.template({
+      product,
+      generatedAt: formatDate(now[0].now),
+      calculations,
+      reports,
+      caution: CAUTION_TEXT,
+      trail: trail.map((e) => ({ seq: e.seq, time: e.time.replace('T', ' ').replace(/(\.\d+)?Z$/, ''), type: e.type, actor: e.actor?.name ?? '—', revision: e.revision ?? '', summary: e.summary, hash: e.hash })),
+      chain: {
+        result: chain.valid ? 'intact' : 'BROKEN',
+        summary,
+        headHash: chain.headHash ?? '—',
+        broken: chain.firstBrokenLink ? `seq. ${chain.firstBrokenLink.seq} (${chain.firstBrokenLink.kind} ${chain.firstBrokenLink.id}): ${chain.firstBrokenLink.reason}` : null,
+      },
+    });
+    return { html, headerLabel: `Design file · ${product.code} · ${product.name}`, footerNote: CAUTION_SHORT, fileName: `design-file-${product.code}.pdf` };
+  }
+}
