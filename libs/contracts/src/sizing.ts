@@ -1,0 +1,140 @@
+/**
+ * The screw-selection contract (POST /api/v1/sizing): requirements for one screw position and the search over the
+ * standard size tables. The requirement pieces are the design input's own schemas (imported, never copied), so a
+ * field a design accepts is accepted here with the same name and the same validation.
+ * Field names are a contract (issue 9): add fields, never rename.
+ */
+import { z } from 'zod';
+import { collarSchema, designInputSchema } from './design-input';
+
+const design = designInputSchema.shape;
+
+/** Forms the search can take sizes from (forms with a standard size table). */
+export const SIZING_FORMS = ['trapezoidal', 'acme', 'stub-acme', 'iso-metric', 'unified'] as const;
+export type SizingForm = (typeof SIZING_FORMS)[number];
+
+export const SIZING_OBJECTIVES = ['smallest-diameter', 'lowest-torque', 'highest-efficiency', 'lightest'] as const;
+export type SizingObjective = (typeof SIZING_OBJECTIVES)[number];
+
+export const SIZING_DEFAULTS = {
+  forms: ['trapezoidal', 'acme'] as SizingForm[],
+  starts: [1, 2, 3, 4],
+  /** Nut length as a multiple of the major diameter; common practice puts power-screw nuts at 1.5 d to 3 d */
+  nutLengthRatios: [1.5, 2, 2.5, 3],
+  objective: 'smallest-diameter' as SizingObjective,
+  limit: 20,
+} as const;
+
+/** Collar whose mean diameter follows the screw: ratio x major diameter of each candidate. */
+export const collarRatioSchema = z.strictObject({
+  kind: z.enum(['plain', 'rolling']),
+  meanDiameterRatio: z
+    .number()
+    .finite()
+    .min(1, 'the collar mean diameter must be at least the screw major diameter (ratio >= 1)')
+    .max(10, 'a collar mean diameter above 10 x the major diameter is not a screw collar (ratio <= 10)')
+    .describe('collar (or bearing) mean diameter as a multiple of the screw major diameter, e.g. 1.6'),
+});
+
+export const sizingRequirementsSchema = z.strictObject({
+  load: design.load,
+  duty: design.duty,
+  friction: design.friction,
+  collar: z.union([collarRatioSchema, collarSchema]).describe('a collar as in a design, or { kind, meanDiameterRatio }'),
+  nut: design.nut.omit({ length: true }).describe('nut material and optional allowables as in a design; the search sets the length'),
+  screw: design.screw,
+  drive: design.drive,
+});
+
+export const sizingSearchSchema = z.strictObject({
+  forms: z.array(z.enum(SIZING_FORMS)).min(1, 'name at least one thread form').max(SIZING_FORMS.length).optional()
+    .describe('thread forms to search (default trapezoidal and acme)'),
+  starts: z.array(z.number().int('starts must be a whole number').min(1, 'starts must be at least 1').max(12, 'at most 12 starts'))
+    .min(1, 'name at least one number of starts').max(12).optional().describe('numbers of starts to try (default 1 to 4)'),
+  majorDiameter: z
+    .strictObject({
+      min: z.string().max(64).optional().describe('smallest major diameter to consider, e.g. "10 mm"'),
+      max: z.string().max(64).optional().describe('largest major diameter to consider, e.g. "80 mm"'),
+    })
+    .optional(),
+  nutLength: z
+    .strictObject({
+      ratios: z.array(z.number().finite().min(0.5, 'a nut shorter than half the diameter is not a power-screw nut (ratio >= 0.5)').max(10, 'ratio <= 10'))
+        .min(1, 'name at least one ratio').max(12).optional()
+        .describe('nut lengths to try as multiples of the major diameter (default 1.5, 2, 2.5, 3)'),
+    })
+    .optional(),
+  objective: z.enum(SIZING_OBJECTIVES).optional().describe('how candidates are ranked (default smallest-diameter)'),
+  limit: z.number().int('limit must be a whole number').min(1, 'limit must be at least 1').max(500, 'limit must not exceed 500').optional()
+    .describe('most candidates listed (default 20)'),
+});
+
+export const sizingRequestSchema = z.strictObject({
+  requirements: sizingRequirementsSchema,
+  search: sizingSearchSchema.optional(),
+});
+
+export type SizingRequest = z.input<typeof sizingRequestSchema>;
+export type SizingRequirements = z.output<typeof sizingRequirementsSchema>;
+export type SizingSearch = z.output<typeof sizingSearchSchema>;
+
+const nnum = z.number().nullable();
+const verdict = z.enum(['blocked', 'needs-acknowledgement', 'clear']);
+
+export const sizingGoverningSchema = z.object({
+  check: z.string().describe('the check closest to its blocking limit'),
+  ruleId: z.string(),
+  ratio: z.number().describe('value / limit; a minimum-type check passes above 1, a maximum-type check below 1'),
+  value: z.number(),
+  limit: z.number(),
+  limitKind: z.enum(['minimum', 'maximum']),
+});
+
+export const sizingFiguresSchema = z.object({
+  raiseTorque: z.number().describe('raise torque at maximum friction, collar included [N*m]'),
+  efficiency: z.number().describe('efficiency at minimum friction, collar included [-]'),
+  selfLockingMargin: z.number().describe('f_min / (cos alpha_n tan lambda) [-]'),
+  lowestStrengthSafetyFactor: z.number().describe('lowest static factor of safety of body, first-thread root and stripping [-]'),
+  lowestStrengthCheck: z.string().describe('which strength check gives the lowest factor'),
+  bucklingFactor: nnum.describe('P_cr / F; null in tension'),
+  speedRatio: nnum.describe('operating over first critical speed; null without a speed'),
+  nutPressureRatio: nnum.describe('mean bearing pressure over the allowable; null without an allowable'),
+  pvRatio: nnum.describe('pV over the allowable pV; null without speed or allowable'),
+  massPerMetre: z.number().describe('screw mass per metre of length [kg/m]'),
+});
+
+export const sizingCandidateSchema = z.object({
+  rank: z.number().int(),
+  size: z.string(),
+  form: z.string(),
+  starts: z.number().int(),
+  nutLength: z.string().describe('as in the design, e.g. "54 mm"'),
+  nutLengthRatio: z.number(),
+  verdict,
+  governing: sizingGoverningSchema.nullable(),
+  figures: sizingFiguresSchema,
+  design: z.unknown().describe('a complete design input: POST it to /api/v1/evaluations for the same verdict and figures'),
+});
+
+export const sizingHeadroomSchema = z.object({
+  rank: z.number().int(),
+  size: z.string(),
+  starts: z.number().int(),
+  nutLength: z.string(),
+  axialLoad: z.string().nullable().describe('largest axial load at which the candidate still passes, e.g. "15321 N"'),
+  factor: nnum.describe('axialLoad over the stated load'),
+  blockedBy: z.string().nullable().describe('rule that blocks just above axialLoad'),
+});
+
+export const sizingResponseSchema = z.object({
+  ruleSetVersion: z.string(),
+  engineVersion: z.string(),
+  objective: z.enum(SIZING_OBJECTIVES),
+  searched: z.number().int().describe('candidates judged (size x starts x nut length), pruned ones included'),
+  evaluations: z.number().int().describe('engine evaluations run by the search'),
+  pruned: z.number().int().describe('candidates judged without an evaluation of their own (their screw fails a check that does not depend on the nut)'),
+  passed: z.number().int().describe('candidates not blocked (some may lie beyond the limit)'),
+  candidates: z.array(sizingCandidateSchema),
+  rejected: z.record(z.string(), z.number().int()).describe('rule id: count of candidates blocked first by that rule'),
+  headroom: z.array(sizingHeadroomSchema),
+});

@@ -1,0 +1,237 @@
+/**
+ * Screw selection through HTTP on PostgreSQL: POST /api/v1/sizing answers are checked against POST /api/v1/evaluations
+ * (the same engine and adopted rule set on the path any client uses) and against the standard size tables
+ * (GET /api/v1/thread-sizes). Requirement sets and their sources: test/support/sizing.ts.
+ */
+import fc from 'fast-check';
+import { countRecords, startTestApp, type TestApp } from '../support/harness';
+import { IMPOSSIBLE, LEAD_SCREW, OBJECTIVES, PRESS, propertySeed, requirementsArbitrary, TEXTBOOK_JACK } from '../support/sizing';
+
+let t: TestApp;
+let sizes: { designation: string; form: string; majorDiameter: number }[];
+let densities: Record<string, number>;
+
+beforeAll(async () => {
+  t = await startTestApp('postgres');
+  sizes = (await t.call('GET', '/api/v1/thread-sizes')).body.items;
+  densities = Object.fromEntries((await t.call('GET', '/api/v1/materials')).body.screws.map((m: { id: string; density: number }) => [m.id, m.density]));
+});
+afterAll(() => t?.close());
+
+const majorOf = (designation: string) => {
+  const s = sizes.find((x) => x.designation === designation);
+  if (!s) throw new Error(`unknown size ${designation}`);
+  return s.majorDiameter;
+};
+
+async function size(body: unknown) {
+  const r = await t.call('POST', '/api/v1/sizing', body);
+  expect(r.status).toBe(200);
+  return r.body;
+}
+
+async function evaluation(design: unknown) {
+  const r = await t.call('POST', '/api/v1/evaluations', design);
+  expect(r.status).toBe(200);
+  return r.body;
+}
+
+const blockingRules = (e: { findings: { ruleId: string; severity: string }[] }) => e.findings.filter((f) => f.severity === 'blocking').map((f) => f.ruleId);
+
+/** Where each governing check's value sits in an evaluation (the contract's field names). */
+function governingValue(ruleId: string, e: any): number {
+  switch (ruleId) {
+    case 'lifting-self-locking': return e.selfLocking.margin;
+    case 'screw-body-yield': return e.safetyFactors.bodyVonMises;
+    case 'thread-root-yield': return e.safetyFactors.firstThreadRoot;
+    case 'screw-thread-stripping': return e.safetyFactors.strippingScrew;
+    case 'nut-thread-stripping': return e.safetyFactors.strippingNut;
+    case 'column-buckling': return e.buckling.safetyFactor;
+    case 'shaft-whirl-speed': return e.criticalSpeed.ratio;
+    case 'nut-bearing-pressure': return e.wear.pressureRatio;
+    case 'nut-pv': return e.wear.pvRatio;
+    case 'drive-torque-margin': return e.drive.margin;
+    default: throw new Error(`no governing value for ${ruleId}`);
+  }
+}
+
+/** Every listed candidate, POSTed to /evaluations, gives the stated verdict and figures. */
+async function expectCandidatesHold(answer: any, density: number) {
+  for (const c of answer.candidates) {
+    const e = await evaluation(c.design);
+    expect({ size: c.size, verdict: e.verdict }).toEqual({ size: c.size, verdict: c.verdict });
+    expect(c.verdict).not.toBe('blocked');
+    expect(e.ruleSetVersion).toBe(answer.ruleSetVersion);
+    const f = c.figures;
+    expect(f.raiseTorque).toBe(e.torque.raise.atMaxFriction);
+    expect(f.efficiency).toBe(e.efficiency.atMinFriction);
+    expect(f.selfLockingMargin).toBe(e.selfLocking.margin);
+    const sf = e.safetyFactors;
+    expect(f.lowestStrengthSafetyFactor).toBe(Math.min(...[sf.bodyVonMises, sf.firstThreadRoot, sf.strippingScrew, sf.strippingNut].filter((x) => x !== null)));
+    expect(f.bucklingFactor).toBe(e.buckling.applies ? e.buckling.safetyFactor : null);
+    expect(f.speedRatio).toBe(e.criticalSpeed.ratio);
+    expect(f.nutPressureRatio).toBe(e.wear.pressureRatio);
+    expect(f.pvRatio).toBe(e.wear.pvRatio);
+    // Mass per metre of a round bar at the mean diameter, rho pi d_m^2 / 4 (basic-profile geometry, docs/sizing.md)
+    expect(f.massPerMetre).toBeCloseTo((density * Math.PI * e.geometry.meanDiameter ** 2) / 4, 9);
+    expect(e.geometry.size).toBe(c.size);
+    expect(e.geometry.starts).toBe(c.starts);
+    if (c.governing) {
+      expect(c.governing.value).toBe(governingValue(c.governing.ruleId, e));
+      expect(c.governing.ratio).toBeCloseTo(c.governing.value / c.governing.limit, 12);
+    }
+  }
+}
+
+/** For the smallest listed size of each form and starts, every size of the next smaller standard diameter is blocked. */
+async function expectNextSmallerBlocked(answer: any, requirements: any, ratios: number[], dMin = 0) {
+  const smallest = new Map<string, any>();
+  for (const c of answer.candidates) {
+    const key = `${c.form}/${c.starts}`;
+    const prev = smallest.get(key);
+    if (!prev || majorOf(c.size) < majorOf(prev.size)) smallest.set(key, c);
+  }
+  expect(smallest.size).toBeGreaterThan(0);
+  let checked = 0;
+  for (const c of smallest.values()) {
+    const d = majorOf(c.size);
+    const smaller = sizes.filter((s) => s.form === c.form && s.majorDiameter < d - 1e-9 && s.majorDiameter >= dMin - 1e-9);
+    if (smaller.length === 0) continue;
+    const next = Math.max(...smaller.map((s) => s.majorDiameter));
+    for (const s of smaller.filter((x) => Math.abs(x.majorDiameter - next) < 1e-9)) {
+      for (const ratio of ratios) {
+        const mm = (x: number) => `${+(x * 1000).toFixed(6)} mm`;
+        const collar = 'meanDiameterRatio' in requirements.collar
+          ? { kind: requirements.collar.kind, meanDiameter: mm(requirements.collar.meanDiameterRatio * s.majorDiameter) }
+          : requirements.collar;
+        const design = { ...requirements, thread: { form: s.form, size: s.designation, starts: c.starts }, collar, nut: { ...requirements.nut, length: mm(ratio * s.majorDiameter) } };
+        const e = await evaluation(design);
+        expect({ size: s.designation, starts: c.starts, ratio, verdict: e.verdict }).toEqual({ size: s.designation, starts: c.starts, ratio, verdict: 'blocked' });
+        expect(blockingRules(e).some((id) => (answer.rejected[id] ?? 0) > 0)).toBe(true);
+        checked++;
+      }
+    }
+  }
+  return checked;
+}
+
+/** How far a check is from its limit, as a factor on the load (every load-dependent check scales linearly with it). */
+const closeness = (g: { value: number; limit: number; limitKind: string }) => (g.limitKind === 'minimum' ? g.value / g.limit : g.limit / g.value);
+const LOAD_INDEPENDENT = new Set(['lifting-self-locking', 'shaft-whirl-speed']);
+
+async function expectHeadroom(answer: any) {
+  expect(answer.headroom).toHaveLength(Math.min(3, answer.candidates.length));
+  for (const h of answer.headroom) {
+    const c = answer.candidates.find((x: any) => x.rank === h.rank);
+    expect(h.axialLoad).toMatch(/^\d+(\.\d+)? N$/);
+    const F = parseFloat(h.axialLoad);
+    const at = (load: number) => evaluation({ ...c.design, load: { ...c.design.load, axial: `${load} N` } });
+    const passes = await at(F);
+    expect(passes.verdict).not.toBe('blocked');
+    const above = await at(F * 1.01);
+    expect(above.verdict).toBe('blocked');
+    expect(blockingRules(above)).toContain(h.blockedBy);
+    if (c.governing && !LOAD_INDEPENDENT.has(c.governing.ruleId)) {
+      // The governing check blocks first, at its own closeness factor times the stated load
+      expect(h.blockedBy).toBe(c.governing.ruleId);
+      expect(h.factor).toBeCloseTo(closeness(c.governing), 3);
+    }
+  }
+}
+
+const sum = (r: Record<string, number>) => Object.values(r).reduce((a, b) => a + b, 0);
+
+describe('POST /api/v1/sizing', () => {
+  const sets: [string, any, any, number][] = [
+    ['textbook screw jack (Khurmi & Gupta, 14th ed., Ch. 17, 80 kN through 400 mm; from memory)', TEXTBOOK_JACK, { limit: 500 }, 7850],
+    ['positioning lead screw in tension (invented)', LEAD_SCREW, { limit: 500, objective: 'lowest-torque' }, 0],
+    ['clamping press with a fixed annular collar (invented)', PRESS, { limit: 500, objective: 'highest-efficiency', starts: [1, 2], majorDiameter: { min: '12 mm', max: '60 mm' } }, 0],
+  ];
+
+  it.each(sets)('%s: every candidate passes as stated, the next smaller size is blocked, headroom holds', async (_name, requirements, search, density) => {
+    const answer = await size({ requirements, search });
+    expect(answer.candidates.length).toBeGreaterThan(2);
+    expect(answer.searched).toBe(answer.evaluations + answer.pruned);
+    expect(sum(answer.rejected) + answer.passed).toBe(answer.searched);
+    expect(answer.candidates.map((c: any) => c.rank)).toEqual(answer.candidates.map((_: unknown, i: number) => i + 1));
+    const rho = density || densities[requirements.screw.material];
+    await expectCandidatesHold(answer, rho);
+    const dMin = search.majorDiameter?.min ? parseFloat(search.majorDiameter.min) / 1000 : 0;
+    expect(await expectNextSmallerBlocked(answer, requirements, [1.5, 2, 2.5, 3], dMin)).toBeGreaterThan(0);
+    await expectHeadroom(answer);
+  });
+
+  it('the textbook jack with the default search: ranked by diameter, at most 20, with headroom for the best three', async () => {
+    const answer = await size({ requirements: TEXTBOOK_JACK });
+    expect(answer.objective).toBe('smallest-diameter');
+    expect(answer.candidates).toHaveLength(20);
+    expect(answer.pruned).toBeGreaterThan(0);
+    expect(answer.headroom).toHaveLength(3);
+    expect(answer.ruleSetVersion).toBe((await t.call('GET', '/api/v1/rule-sets')).body.current);
+  });
+
+  it('impossible requirements (2 MN over 6 m, fixed-free): no candidates, and rejected covers every candidate searched', async () => {
+    const answer = await size({ requirements: IMPOSSIBLE });
+    expect(answer.candidates).toEqual([]);
+    expect(answer.headroom).toEqual([]);
+    expect(answer.searched).toBeGreaterThan(0);
+    expect(sum(answer.rejected)).toBe(answer.searched);
+    expect(answer.passed).toBe(0);
+  });
+
+  it('ranking follows the objective (property over random requirements, seeded)', async () => {
+    const seed = propertySeed();
+    await fc.assert(
+      fc.asyncProperty(
+        requirementsArbitrary,
+        fc.constantFrom(...OBJECTIVES),
+        fc.subarray([1, 2, 3, 4], { minLength: 1 }),
+        fc.constantFrom(['trapezoidal'], ['acme'], ['trapezoidal', 'acme']),
+        async (requirements, objective, starts, forms) => {
+          const answer = await size({ requirements, search: { objective, starts, forms, limit: 500, majorDiameter: { max: '70 mm' } } });
+          const key = (c: any) =>
+            objective === 'smallest-diameter' ? majorOf(c.size)
+              : objective === 'lowest-torque' ? c.figures.raiseTorque
+                : objective === 'highest-efficiency' ? -c.figures.efficiency
+                  : c.figures.massPerMetre;
+          for (let i = 1; i < answer.candidates.length; i++) {
+            expect(key(answer.candidates[i])).toBeGreaterThanOrEqual(key(answer.candidates[i - 1]));
+          }
+          for (const c of answer.candidates) {
+            expect(forms).toContain(c.form);
+            expect(starts).toContain(c.starts);
+            expect(c.verdict).not.toBe('blocked');
+          }
+          expect(sum(answer.rejected) + answer.passed).toBe(answer.searched);
+        },
+      ),
+      { seed, numRuns: 12 },
+    );
+  });
+
+  it('refuses invalid requirements with 422 naming the field, and stores nothing', async () => {
+    const before = await countRecords(t.db);
+    const r = await t.call('POST', '/api/v1/sizing', {
+      requirements: { ...TEXTBOOK_JACK, load: { axial: '80 kg', sense: 'compression' }, collar: { kind: 'plain', meanDiameterRatio: 0.5 } },
+    });
+    expect(r.status).toBe(422);
+    expect(r.headers['content-type']).toContain('application/problem+json');
+    expect(r.body.errors.map((e: { path: string }) => e.path)).toEqual(['requirements.collar.meanDiameterRatio']);
+    const units = await t.call('POST', '/api/v1/sizing', { requirements: { ...TEXTBOOK_JACK, load: { axial: '80 kg', sense: 'compression' } }, search: { forms: ['buttress'] } });
+    expect(units.status).toBe(422);
+    expect(units.body.errors.map((e: { path: string }) => e.path)).toEqual(['search.forms.0']);
+    const load = await t.call('POST', '/api/v1/sizing', { requirements: { ...TEXTBOOK_JACK, load: { axial: '80 kg', sense: 'compression' } } });
+    expect(load.status).toBe(422);
+    expect(load.body.errors).toEqual([{ path: 'requirements.load.axial', message: expect.stringContaining('kg') }]);
+    const missing = await t.call('POST', '/api/v1/sizing', { requirements: { ...TEXTBOOK_JACK, screw: { unsupportedLength: '400 mm', ends: 'fixed-free' } } });
+    expect(missing.status).toBe(422);
+    expect(missing.body.errors.map((e: { path: string }) => e.path)).toContain('requirements.screw.yieldStrength');
+    expect(await countRecords(t.db)).toEqual(before);
+  });
+
+  it('is in the OpenAPI document', async () => {
+    const doc = await t.call('GET', '/api/docs-json');
+    expect(doc.status).toBe(200);
+    expect(Object.keys(doc.body.paths)).toContain('/api/v1/sizing');
+  });
+});
