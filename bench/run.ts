@@ -160,6 +160,8 @@ async function main() {
     }
   }
 
+  if (!only || only === 'sizing') results.push(await (await import('./sizing.bench')).benchSizing());
+
   if (!only || only === 'pdf') {
     try {
       const { benchPdf } = await import('./pdf.bench');

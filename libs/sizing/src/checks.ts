@@ -60,6 +60,9 @@ export function screwBlockingRule(findings: readonly Finding[]): string | null {
   return null;
 }
 
+/** Checks whose value does not change with the axial load (the self-locking margin and the whirl-speed ratio). */
+export const LOAD_INDEPENDENT_RULES: ReadonlySet<string> = new Set([LIFTING_SELF_LOCKING_ID, SHAFT_WHIRL_SPEED_ID]);
+
 export interface CheckMargin {
   readonly check: string;
   readonly ruleId: string;

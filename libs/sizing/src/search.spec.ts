@@ -66,6 +66,30 @@ describe('pruning', () => {
   });
 });
 
+describe('headroom', () => {
+  it('passes at the headroom load and blocks at 1 % more (property over random requirements, seeded)', () => {
+    fc.assert(
+      fc.property(requirementsArbitrary, (requirements) => {
+        const p = plan({ requirements, search: { majorDiameter: { max: '50 mm' } } });
+        const r = searchScrews(p, DEFAULT_RULE_SET);
+        expect(r.headroom).toHaveLength(Math.min(3, r.candidates.length));
+        for (const h of r.headroom) {
+          const c = r.candidates[h.rank - 1];
+          const at = (load: number) => {
+            const parsed = parseDesign({ ...c.design, load: { ...c.design.load, axial: `${load} N` } });
+            if (!parsed.success) throw new Error(JSON.stringify(parsed.issues));
+            return judge(parsed.design, evaluate(parsed.design), DEFAULT_RULE_SET);
+          };
+          const F = parseFloat(h.axialLoad as string);
+          expect(at(F).some((f) => f.severity === 'blocking')).toBe(false);
+          expect(at(F * 1.01).filter((f) => f.severity === 'blocking').map((f) => f.ruleId)).toContain(h.blockedBy);
+        }
+      }),
+      { seed: propertySeed(), numRuns: 25 },
+    );
+  });
+});
+
 describe('request validation', () => {
   it('names the leaf field inside a choice and in the search', () => {
     const p = parseSizingRequest({ requirements: { ...LEAD_SCREW, collar: { kind: 'rolling', meanDiameterRatio: 0.4 } } });

@@ -7,10 +7,12 @@
  * not depend on the nut (NUT_INDEPENDENT_RULES) blocks it there, it blocks at every nut length, so the screw's other
  * nut lengths are counted under that rule without being evaluated.
  */
-import { parseDesign, type DesignInput, type Finding, type Verdict } from '@leadline/contracts';
-import { ENGINE_VERSION, evaluate, type Design, type Evaluation, type ThreadSize } from '@leadline/mechanics';
+import type { DesignInput, Finding, Verdict } from '@leadline/contracts';
+import { ENGINE_VERSION, evaluate, parseQuantity, QuantityError, type Design, type Evaluation, type ThreadSize } from '@leadline/mechanics';
 import { judge, verdictOf, type RuleSet } from '@leadline/rules';
-import { figuresOf, firstBlockingRule, governingCheck, screwBlockingRule, type CheckMargin, type Figures } from './checks';
+import {
+  checkMargins, closeness, figuresOf, firstBlockingRule, governingCheck, LOAD_INDEPENDENT_RULES, screwBlockingRule, type CheckMargin, type Figures,
+} from './checks';
 import { candidateInput, lengthText, type SizingPlan } from './request';
 
 export interface SizingCandidate {
@@ -50,17 +52,41 @@ export interface SizingResult {
   readonly headroom: readonly SizingHeadroom[];
 }
 
-/** One candidate's design in engine units: the requirements with this thread, nut length and collar. */
+/**
+ * One candidate's design in engine units: the requirements with this thread, nut length and collar. The nut length
+ * and collar diameter are converted from the very text the candidate's design input carries (lengthText), so the
+ * design equals what parsing that input gives and POST /evaluations reproduces the search's verdict and figures.
+ */
 export function candidateDesign(plan: SizingPlan, size: ThreadSize, starts: number, nutLengthRatio: number): Design {
-  const b = plan.base;
+  return withThread(plan.base, size, starts, nutLength(size, nutLengthRatio), collarFor(plan, size));
+}
+
+/** The nut length of a candidate [m], read from its text. */
+function nutLength(size: ThreadSize, ratio: number): number {
+  return textLength(lengthText(ratio * size.majorDiameter, size));
+}
+
+/** The collar of a candidate: the requirements' own, or ratio x major diameter read from its text. */
+function collarFor(plan: SizingPlan, size: ThreadSize): Design['collar'] {
+  const c = plan.base.collar;
+  if (plan.collarRatio === null || (c.kind !== 'plain' && c.kind !== 'rolling')) return c;
+  return { kind: c.kind, meanDiameter: textLength(lengthText(plan.collarRatio * size.majorDiameter, size)) };
+}
+
+function withThread(base: Design, size: ThreadSize, starts: number, length: number, collar: Design['collar']): Design {
   return {
-    ...b,
+    ...base,
     thread: { form: size.form, size: size.designation, majorDiameter: size.majorDiameter, pitch: size.pitch, starts, loadFlankAngle: null },
-    nut: { ...b.nut, length: nutLengthRatio * size.majorDiameter },
-    collar: plan.collarRatio === null || (b.collar.kind !== 'plain' && b.collar.kind !== 'rolling')
-      ? b.collar
-      : { kind: b.collar.kind, meanDiameter: plan.collarRatio * size.majorDiameter },
+    nut: { ...base.nut, length },
+    collar,
   };
+}
+
+/** A length text as the design input's conversion reads it [m]. */
+function textLength(text: string): number {
+  const q = parseQuantity(text, 'length');
+  if (q instanceof QuantityError) throw new Error(`sizing wrote an invalid length "${text}": ${q.message}`);
+  return q.si;
 }
 
 interface Judged {
@@ -116,11 +142,13 @@ export function searchScrews(plan: SizingPlan, ruleSet: RuleSet): SizingResult {
   const ratios = plan.nutLengthRatios;
 
   for (const size of plan.sizes) {
+    const collar = collarFor(plan, size);
+    const lengths = ratios.map((r) => nutLength(size, r));
     for (const starts of plan.starts) {
       searched += ratios.length;
       let pick: Passing | null = null;
       for (let k = 0; k < ratios.length; k++) {
-        const j = judged(candidateDesign(plan, size, starts, ratios[k]), ruleSet);
+        const j = judged(withThread(plan.base, size, starts, lengths[k], collar), ruleSet);
         evaluations++;
         const blockedBy = firstBlockingRule(j.findings);
         if (blockedBy !== null) {
@@ -150,39 +178,26 @@ export function searchScrews(plan: SizingPlan, ruleSet: RuleSet): SizingResult {
       a.p.starts - b.p.starts,
   );
 
-  // Listed candidates are re-derived from their own design input, so that the answer is exactly what POST
-  // /evaluations gives for it (the search itself works on the converted requirements).
-  const candidates: SizingCandidate[] = [];
-  const listedDesigns: Design[] = [];
-  for (const { p } of keyed) {
-    if (candidates.length >= plan.limit) break;
-    const input = candidateInput(plan, p.size, p.starts, p.ratio);
-    const parsed = parseDesign(input);
-    if (!parsed.success) throw new Error(`sizing built an invalid design for ${p.size.designation}: ${parsed.issues.map((i) => `${i.path}: ${i.message}`).join('; ')}`);
-    const j = judged(parsed.design, ruleSet);
-    if (j.verdict === 'blocked') continue; // float noise at a limit: the submitted form decides
-    const governing = governingCheck(j.design, j.evaluation, ruleSet.thresholds);
-    candidates.push({
-      rank: candidates.length + 1,
-      size: p.size.designation,
-      form: p.size.form,
-      starts: p.starts,
-      nutLength: lengthText(p.ratio * p.size.majorDiameter, p.size),
-      nutLengthRatio: p.ratio,
-      verdict: j.verdict,
-      governing,
-      figures: figuresOf(j.design, j.evaluation),
-      design: input,
-    });
-    listedDesigns.push(j.design);
-  }
+  const candidates: SizingCandidate[] = keyed.slice(0, plan.limit).map(({ p }, i) => ({
+    rank: i + 1,
+    size: p.size.designation,
+    form: p.size.form,
+    starts: p.starts,
+    nutLength: lengthText(p.ratio * p.size.majorDiameter, p.size),
+    nutLengthRatio: p.ratio,
+    verdict: p.verdict,
+    governing: governingCheck(p.design, p.evaluation, ruleSet.thresholds),
+    figures: figuresOf(p.design, p.evaluation),
+    design: candidateInput(plan, p.size, p.starts, p.ratio),
+  }));
+  const best3 = keyed.slice(0, Math.min(3, candidates.length)).map(({ p }) => p);
 
   const headroom = candidates.slice(0, 3).map((c, i) => ({
     rank: c.rank,
     size: c.size,
     starts: c.starts,
     nutLength: c.nutLength,
-    ...loadHeadroom(listedDesigns[i], ruleSet),
+    ...loadHeadroom(best3[i].design, ruleSet, best3[i].evaluation),
   }));
 
   return {
@@ -212,32 +227,52 @@ const HEADROOM_DIGITS = 5;
 
 /**
  * The largest axial load at which a passing design still passes, by bisection on the load with the engine and the
- * rule set: the load is doubled until the design blocks, then the bracket is halved geometrically until it is
- * narrower than 0.01 %. The answer is rounded down to 5 significant figures, so the design passes at it and blocks
- * at 1 % more (the checks only get worse as the load grows: stresses, pressures and drive demand rise with it,
- * the buckling factor falls, and self-locking, whirl and friction do not depend on it).
+ * rule set. The bracket starts around a first guess, the stated load times the closeness of the nearest
+ * load-dependent check (exact when that check scales with the load, as stresses, pressures and drive demand do), and
+ * widens by doubling steps until one end passes and the other blocks; it is then halved geometrically until it is
+ * narrower than 0.01 %. The answer is rounded down to 5 significant figures, so the design passes at it and blocks at
+ * 1 % more (the checks only get worse as the load grows; self-locking and whirl do not depend on it).
  */
-export function loadHeadroom(design: Design, ruleSet: RuleSet): { axialLoad: string | null; factor: number | null; blockedBy: string | null } {
-  const at = (F: number) => judged({ ...design, load: { ...design.load, axial: F } }, ruleSet);
+export function loadHeadroom(design: Design, ruleSet: RuleSet, evaluation: Evaluation = evaluate(design)): { axialLoad: string | null; factor: number | null; blockedBy: string | null } {
+  const at = (F: number) => firstBlockingRule(judged({ ...design, load: { ...design.load, axial: F } }, ruleSet).findings);
   const F0 = design.load.axial;
-  let lo = F0;
-  let hi = F0 * 2;
-  let blockedAtHi = firstBlockingRule(at(hi).findings);
-  for (let i = 0; blockedAtHi === null && i < 60; i++) {
-    lo = hi;
-    hi *= 2;
-    blockedAtHi = firstBlockingRule(at(hi).findings);
+  const dependent = checkMargins(design, evaluation, ruleSet.thresholds).filter((c) => !LOAD_INDEPENDENT_RULES.has(c.ruleId));
+  const factors = dependent.map(closeness).filter((x) => x > 0 && Number.isFinite(x));
+  const guess = F0 * (factors.length > 0 ? Math.max(1, Math.min(...factors)) : 2);
+  let lo: number;
+  let hi: number;
+  let step = 0.9 * HEADROOM_TOLERANCE; // the guess is usually exact: the first bracket is already narrow enough
+  let blockedBy = at(guess);
+  if (blockedBy === null) {
+    lo = guess;
+    hi = guess * (1 + step);
+    blockedBy = at(hi);
+    while (blockedBy === null) {
+      if (hi > F0 * 2 ** 40) return { axialLoad: null, factor: null, blockedBy: null };
+      lo = hi;
+      step *= 2;
+      hi = lo * (1 + step);
+      blockedBy = at(hi);
+    }
+  } else {
+    hi = guess;
+    lo = Math.max(F0, guess / (1 + step));
+    for (let b = at(lo); lo > F0 && b !== null; b = at(lo)) {
+      hi = lo;
+      blockedBy = b;
+      step *= 2;
+      lo = Math.max(F0, lo / (1 + step));
+    }
   }
-  if (blockedAtHi === null) return { axialLoad: null, factor: null, blockedBy: null };
   while (hi / lo > 1 + HEADROOM_TOLERANCE) {
     const mid = Math.sqrt(lo * hi);
-    const b = firstBlockingRule(at(mid).findings);
+    const b = at(mid);
     if (b === null) lo = mid;
     else {
       hi = mid;
-      blockedAtHi = b;
+      blockedBy = b;
     }
   }
   const load = floorSignificant(lo, HEADROOM_DIGITS);
-  return { axialLoad: `${load} N`, factor: load / F0, blockedBy: blockedAtHi };
+  return { axialLoad: `${load} N`, factor: load / F0, blockedBy };
 }
