@@ -1,0 +1,194 @@
+/**
+ * The screw-selection page (/design/sizing) in real Chromium against the real service on real PostgreSQL, by
+ * keyboard only: sign in, see the caution, get a field error at the field and fix it, read the ranked screws with
+ * the governing check of each row (the same as POST /api/v1/sizing answers for the request the page sent), and open
+ * one as a new calculation of a product: the design form's page starts with that screw's complete design input
+ * handed over in sessionStorage (never in a web address). axe-core on each state, at 1280 px and 768 px;
+ * screenshots in artifacts/sizing/.
+ */
+import { mkdirSync } from 'node:fs';
+import { join } from 'node:path';
+import puppeteer, { type Browser, type Page } from 'puppeteer-core';
+import { CHROMIUM_FLAGS } from '../../apps/api/src/infra/pdf/browser-pool';
+import { CAUTION_TEXT } from '../../apps/api/src/reports/report-model';
+import { seriousViolations } from '../support/axe';
+import { startPagesApp, type PagesApp } from './pages-app';
+
+const ARTIFACTS = join(__dirname, '../../artifacts/sizing');
+
+let t: PagesApp;
+let browser: Browser;
+let productId: string;
+const consoleProblems: string[] = [];
+const visitedUrls: string[] = [];
+const sizingBodies: string[] = [];
+
+beforeAll(async () => {
+  mkdirSync(ARTIFACTS, { recursive: true });
+  t = await startPagesApp();
+  const product = await t.call('POST', '/api/v1/products', { code: 'HJ-20', name: 'Hollin Works 2 t bench jack (test product)' });
+  expect(product.status).toBe(201);
+  productId = product.body.id;
+  browser = await puppeteer.launch({ executablePath: '/usr/bin/chromium', args: [...CHROMIUM_FLAGS], headless: true });
+});
+
+afterAll(async () => {
+  await browser?.close();
+  await t?.close();
+});
+
+async function newTab(): Promise<Page> {
+  const page = await browser.newPage();
+  await page.setViewport({ width: 1280, height: 900 });
+  page.on('request', (r) => {
+    visitedUrls.push(r.url());
+    if (r.url().endsWith('/api/v1/sizing') && r.method() === 'POST') sizingBodies.push(r.postData() ?? '');
+  });
+  page.on('framenavigated', (f) => visitedUrls.push(f.url()));
+  page.on('console', (m) => {
+    if (m.type() === 'error' || /Content Security Policy/i.test(m.text())) consoleProblems.push(m.text());
+  });
+  page.on('pageerror', (e) => consoleProblems.push(String(e)));
+  return page;
+}
+
+/** Presses Tab until the element matching `selector` has the focus (it must be reachable by keyboard). */
+async function tabTo(page: Page, selector: string, max = 200): Promise<void> {
+  for (let i = 0; i < max; i++) {
+    if (await page.evaluate((s) => document.activeElement?.matches(s) ?? false, selector)) return;
+    await page.keyboard.press('Tab');
+  }
+  throw new Error(`${selector} not reached by Tab`);
+}
+
+async function typeInto(page: Page, selector: string, text: string): Promise<void> {
+  await tabTo(page, selector);
+  await page.keyboard.down('Control');
+  await page.keyboard.press('a');
+  await page.keyboard.up('Control');
+  await page.keyboard.press('Backspace');
+  await page.keyboard.type(text);
+}
+
+async function chooseOption(page: Page, selector: string, value: string): Promise<void> {
+  await tabTo(page, selector);
+  const index = await page.$eval(selector, (s, v) => Array.from((s as HTMLSelectElement).options).findIndex((o) => o.value === v), value);
+  expect(index).toBeGreaterThanOrEqual(0);
+  await page.keyboard.press('Home');
+  for (let i = 0; i < index; i++) await page.keyboard.press('ArrowDown');
+  expect(await page.$eval(selector, (s) => (s as HTMLSelectElement).value)).toBe(value);
+}
+
+const fitsWidth = (page: Page) => page.evaluate(() => document.documentElement.scrollWidth <= document.documentElement.clientWidth);
+const text = (page: Page, selector: string) => page.$eval(selector, (e) => (e as HTMLElement).innerText);
+
+async function checkPage(page: Page, name: string): Promise<void> {
+  await page.bringToFront();
+  expect({ name, violations: await seriousViolations(page) }).toEqual({ name, violations: [] });
+  expect({ name, fits: await fitsWidth(page) }).toEqual({ name, fits: true });
+  await page.screenshot({ path: join(ARTIFACTS, `${name}-1280.png`), fullPage: true });
+  await page.setViewport({ width: 768, height: 1000 });
+  expect({ name, violations768: await seriousViolations(page) }).toEqual({ name, violations768: [] });
+  await page.screenshot({ path: join(ARTIFACTS, `${name}-768.png`), fullPage: true });
+  await page.setViewport({ width: 1280, height: 900 });
+}
+
+it('finds a screw for a stated duty and opens it as a new calculation, by keyboard only [GET /design/sizing]', async () => {
+  const page = await newTab();
+  // What the next document finds in sessionStorage before any of its scripts run: the hand-over to the design form.
+  await page.evaluateOnNewDocument(() => {
+    (window as unknown as { draftAtLoad: string | null }).draftAtLoad = sessionStorage.getItem('leadline.designDraft');
+  });
+  const response = await page.goto(`${t.baseUrl}/design/sizing`);
+  const csp = response?.headers()['content-security-policy'] ?? '';
+  expect(csp).toContain("script-src 'self'");
+  expect(csp).toContain("style-src 'self'");
+  expect(csp).toContain("form-action 'none'");
+  expect(csp).not.toContain('unsafe-inline');
+
+  await page.waitForSelector('#sign-in:not([hidden])');
+  await tabTo(page, '#token-input');
+  await page.keyboard.type(t.tokens.author);
+  await page.keyboard.press('Enter');
+  await page.waitForSelector('#content:not([hidden])');
+  await page.waitForFunction(() => (document.getElementById('s-thread-friction') as HTMLSelectElement).options.length > 0);
+  expect(await text(page, '.caution')).toContain(CAUTION_TEXT[0]);
+  expect(await page.$eval('nav.pages a[aria-current="page"]', (a) => a.getAttribute('href')).catch(() => null)).toBe('/design/sizing');
+  // Every input, select and checkbox of the form has a label.
+  const unlabelled = await page.$$eval('#sizing-form input, #sizing-form select', (inputs) =>
+    inputs.filter((i) => !(i as HTMLInputElement).labels?.length).map((i) => i.id || i.outerHTML.slice(0, 80)));
+  expect(unlabelled).toEqual([]);
+  await checkPage(page, 'sizing-form');
+
+  // A unit of the wrong kind: the refusal is shown at the field and the field gets the focus.
+  await typeInto(page, '#s-load', '20 kg');
+  await typeInto(page, '#s-length', '800 mm');
+  await chooseOption(page, '#s-ends', 'fixed-free');
+  await chooseOption(page, '#s-duty', 'lifting');
+  await typeInto(page, '#s-torque', '200 N*m');
+  await typeInto(page, '#s-limit', '12');
+  await tabTo(page, '#sizing-submit');
+  await page.keyboard.press('Enter');
+  await page.waitForSelector('#s-load[aria-invalid="true"]');
+  expect(await page.evaluate(() => document.activeElement?.id)).toBe('s-load');
+  const fieldMessage = await page.$eval('#s-load', (input) => document.getElementById(input.getAttribute('aria-describedby')!.split(' ').find((id) => id.endsWith('-error'))!)!.textContent);
+  expect(fieldMessage).toMatch(/Error:.*kg/);
+  expect(await text(page, '#sizing-problem')).toContain('requirements.load.axial');
+  await checkPage(page, 'sizing-field-error');
+
+  await page.keyboard.down('Control');
+  await page.keyboard.press('a');
+  await page.keyboard.up('Control');
+  await page.keyboard.type('20 kN');
+  await tabTo(page, '#sizing-submit');
+  await page.keyboard.press('Enter');
+  await page.waitForSelector('#candidates:not([hidden])');
+  expect(await page.$('#s-load[aria-invalid="true"]')).toBeNull();
+
+  // The table is the API's answer to the request the page sent: same screws, verdicts in words, governing checks.
+  const sent = JSON.parse(sizingBodies[sizingBodies.length - 1]);
+  expect(sent.requirements.load.axial).toBe('20 kN');
+  expect(sent.search.limit).toBe(12);
+  const answer = (await t.call('POST', '/api/v1/sizing', sent)).body;
+  expect(answer.candidates.length).toBeGreaterThan(0);
+  const rows = await page.$$eval('#candidates tbody tr', (trs) =>
+    trs.map((tr) => Array.from(tr.children).map((td) => (td as HTMLElement).innerText.trim())));
+  expect(rows).toHaveLength(answer.candidates.length);
+  const VERDICT_WORDS: Record<string, string> = { clear: 'Clear', 'needs-acknowledgement': 'Needs acknowledgement' };
+  answer.candidates.forEach((c: any, i: number) => {
+    expect(rows[i].slice(0, 5)).toEqual([String(c.rank), c.size, String(c.starts), c.nutLength, VERDICT_WORDS[c.verdict]]);
+    expect(rows[i][5]).toContain(c.governing.check);
+    expect(rows[i][5]).toContain(c.governing.ruleId);
+  });
+  expect(await text(page, '#answer-status')).toContain(`${answer.passed} of ${answer.searched} candidates pass`);
+  const rejectedRows = await page.$$eval('#rejected tbody tr', (trs) => trs.map((tr) => [tr.getAttribute('data-rule'), (tr.lastElementChild as HTMLElement).innerText]));
+  expect(Object.fromEntries(rejectedRows)).toEqual(Object.fromEntries(Object.entries(answer.rejected).map(([k, v]) => [k, String(v)])));
+  expect(await page.$$eval('#headroom li', (lis) => lis.length)).toBe(answer.headroom.length);
+  await checkPage(page, 'sizing-answer');
+
+  // Open the second-ranked screw as a new calculation of the product, by keyboard.
+  const chosen = answer.candidates[Math.min(1, answer.candidates.length - 1)];
+  await tabTo(page, `#candidates tbody tr[data-rank="${chosen.rank}"] button`);
+  await page.keyboard.press('Enter');
+  await page.waitForSelector('#open:not([hidden])');
+  await page.waitForFunction(() => (document.getElementById('open-product') as HTMLSelectElement).options.length > 0);
+  expect(await page.evaluate(() => document.activeElement?.id)).toBe('open-product');
+  expect(await text(page, '#open-what')).toContain(chosen.size);
+  await checkPage(page, 'sizing-open');
+  await chooseOption(page, '#open-product', productId);
+  await tabTo(page, '#open-submit');
+  await Promise.all([page.waitForNavigation(), page.keyboard.press('Enter')]);
+  expect(new URL(page.url()).pathname).toBe(`/design/products/${productId}/new`);
+  const handed = await page.evaluate(() => (window as unknown as { draftAtLoad: string | null }).draftAtLoad);
+  expect(handed).not.toBeNull();
+  const draft = JSON.parse(handed as string);
+  expect(draft.design).toEqual(chosen.design);
+  expect(draft.origin).toContain(chosen.size);
+  // The handed-over design is complete: the API evaluates it to the verdict the table showed.
+  const evaluation = await t.call('POST', '/api/v1/evaluations', draft.design);
+  expect(evaluation.body.verdict).toBe(chosen.verdict);
+
+  for (const token of Object.values(t.tokens)) expect(visitedUrls.filter((u) => u.includes(token))).toEqual([]);
+  expect(consoleProblems.filter((m) => !/status of 422/.test(m))).toEqual([]);
+  await page.close();
+});
