@@ -89,7 +89,6 @@ it("prints the product's design file: cover, the approved revision's report, the
   expect(res.headers['content-disposition']).toBe('inline; filename="design-file-WB-1.pdf"');
   const { text, pages } = await pdfText(res.raw);
   const approved = (await t.call('GET', `/api/v1/revisions/${approvedId}`)).body;
-  const rejected = (await t.call('GET', `/api/v1/revisions/${rejectedId}`)).body;
   const chain = (await t.call('GET', `/api/v1/products/${productId}/verify`)).body;
   expect(chain.valid).toBe(true);
   expect(text).toContain('Design file · WB-1');

@@ -20,6 +20,11 @@ export const PAGE_SPECS = {
   queue: { title: 'Review queue', script: 'review-queue.js' },
   revision: { title: 'Revision under review', script: 'review-revision.js' },
   audit: { title: 'Audit trail', script: 'review-audit.js' },
+  'design-products': { title: 'Products', script: 'design-products.js' },
+  'design-product': { title: 'Product', script: 'design-product.js' },
+  'design-calculation': { title: 'Calculation', script: 'design-calculation.js' },
+  'design-my-work': { title: 'My work', script: 'design-my-work.js' },
+  'design-form': { title: 'Screw design', script: 'design-form.js' },
 } as const satisfies Record<string, PageSpec>;
 
 export type PageName = keyof typeof PAGE_SPECS;
@@ -94,7 +99,10 @@ export class PageRenderer {
 
   render(page: PageName, styleNonce?: string): string {
     const spec: PageSpec = PAGE_SPECS[page];
-    return this.pages[page]({ page, title: spec.title, script: ASSET_BASE + spec.script, caution: CAUTION_TEXT, styleNonce: styleNonce ?? null });
+    return this.pages[page]({
+      page, title: spec.title, script: ASSET_BASE + spec.script, caution: CAUTION_TEXT, styleNonce: styleNonce ?? null,
+      frictionSurfaces: [{ surface: 'thread' }, { surface: 'collar' }],
+    });
   }
 
   asset(name: string): Asset | undefined {

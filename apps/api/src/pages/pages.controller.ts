@@ -45,12 +45,17 @@ export class PagesController {
   }
 
   private html(reply: FastifyReply, page: PageName, styleNonce?: string): string {
-    reply
-      .header('content-type', 'text/html; charset=utf-8')
-      .header('content-security-policy', contentSecurityPolicy(styleNonce))
-      .header('x-content-type-options', 'nosniff')
-      .header('referrer-policy', 'no-referrer')
-      .header('cache-control', 'no-store');
-    return this.pages.render(page, styleNonce);
+    return sendPage(reply, this.pages.render(page, styleNonce), styleNonce);
   }
+}
+
+/** A page shell with the pages' headers: strict CSP, no sniffing, no referrer, never cached. */
+export function sendPage(reply: FastifyReply, html: string, styleNonce?: string): string {
+  reply
+    .header('content-type', 'text/html; charset=utf-8')
+    .header('content-security-policy', contentSecurityPolicy(styleNonce))
+    .header('x-content-type-options', 'nosniff')
+    .header('referrer-policy', 'no-referrer')
+    .header('cache-control', 'no-store');
+  return html;
 }

@@ -1,0 +1,188 @@
+/*
+ * The design form's fields and the API's design input: readDesign builds exactly the body POST /evaluations
+ * takes (empty optional fields left out), fillDesign puts a design input back into the fields, and fieldFor
+ * finds the input a problem+json path names. Which fields show follows the choices made (size or diameter
+ * and pitch, library entry or typed range, kind of collar, buttress).
+ */
+import { $ } from './lib-dom.js';
+
+const SURFACES = ['thread', 'collar'];
+
+function text(id) {
+  return $(id).value.trim();
+}
+
+function radio(name) {
+  const checked = document.querySelector('input[name="' + name + '"]:checked');
+  return checked ? checked.value : '';
+}
+
+function setRadio(name, value) {
+  document.querySelectorAll('input[name="' + name + '"]').forEach(function (r) {
+    r.checked = r.value === value;
+  });
+}
+
+/** Adds key: value when the field holds something (optional fields). */
+function optional(target, key, value) {
+  if (value !== '') target[key] = value;
+}
+
+/** A coefficient typed as a plain number; anything else goes to the API as typed so that it names the field. */
+function coefficient(value) {
+  if (value === '') return undefined;
+  const n = Number(value);
+  return Number.isFinite(n) ? n : value;
+}
+
+function friction(surface) {
+  if (radio('friction-' + surface + '-mode') === 'entry') return { entry: text('f-' + surface + '-entry') };
+  const range = { min: coefficient(text('f-' + surface + '-min')), max: coefficient(text('f-' + surface + '-max')), source: { kind: $('f-' + surface + '-source-kind').value, reference: text('f-' + surface + '-ref') } };
+  return range;
+}
+
+/** The design input of the form, in the API's field names. */
+export function readDesign() {
+  const form = $('f-form').value;
+  const thread = { form: form };
+  if (radio('size-mode') === 'standard') thread.size = text('f-size');
+  else {
+    thread.majorDiameter = text('f-major');
+    thread.pitch = text('f-pitch');
+  }
+  const starts = text('f-starts');
+  if (starts !== '') thread.starts = Number.isFinite(Number(starts)) ? Number(starts) : starts;
+  if (form === 'buttress') thread.loadFlankAngle = $('f-flank').value;
+  const collarKind = $('f-collar-kind').value;
+  const design = {
+    thread: thread,
+    load: { axial: text('f-load'), sense: $('f-sense').value },
+    friction: { thread: friction('thread') },
+    collar: { kind: collarKind },
+    nut: { length: text('f-nut-length') },
+    screw: {},
+    duty: { kind: $('f-duty').value },
+  };
+  if (collarKind !== 'none') design.friction.collar = friction('collar');
+  if (collarKind === 'plain' || collarKind === 'rolling') design.collar.meanDiameter = text('f-collar-mean');
+  if (collarKind === 'annular') {
+    design.collar.outerDiameter = text('f-collar-outer');
+    design.collar.innerDiameter = text('f-collar-inner');
+    design.collar.model = $('f-collar-model').value;
+  }
+  optional(design.nut, 'material', text('f-nut-material'));
+  optional(design.nut, 'allowablePressure', text('f-nut-p'));
+  optional(design.nut, 'allowablePv', text('f-nut-pv'));
+  optional(design.nut, 'yieldStrength', text('f-nut-yield'));
+  optional(design.screw, 'material', text('f-screw-material'));
+  optional(design.screw, 'yieldStrength', text('f-screw-yield'));
+  optional(design.screw, 'elasticModulus', text('f-screw-modulus'));
+  optional(design.screw, 'density', text('f-screw-density'));
+  design.screw.unsupportedLength = text('f-length');
+  design.screw.ends = $('f-ends').value;
+  design.screw.endConditionBasis = $('f-basis').value;
+  optional(design.duty, 'speed', text('f-speed'));
+  optional(design.duty, 'linearSpeed', text('f-linear'));
+  design.duty.brake = $('f-brake').checked;
+  design.duty.vibration = $('f-vibration').checked;
+  const drive = text('f-drive');
+  if (drive !== '') design.drive = { availableTorque: drive };
+  return design;
+}
+
+function set(id, value) {
+  $(id).value = value === undefined || value === null ? '' : String(value);
+}
+
+/** Puts a design input (as the API takes it) into the fields. */
+export function fillDesign(d) {
+  d = d || {};
+  const th = d.thread || {};
+  set('f-form', th.form || 'trapezoidal');
+  setRadio('size-mode', th.size !== undefined || (th.majorDiameter === undefined && th.pitch === undefined) ? 'standard' : 'custom');
+  set('f-size', th.size);
+  set('f-major', th.majorDiameter);
+  set('f-pitch', th.pitch);
+  set('f-starts', th.starts === undefined ? 1 : th.starts);
+  if (th.loadFlankAngle !== undefined) set('f-flank', typeof th.loadFlankAngle === 'number' ? th.loadFlankAngle + ' deg' : th.loadFlankAngle);
+  const load = d.load || {};
+  set('f-load', load.axial);
+  set('f-sense', load.sense || 'compression');
+  SURFACES.forEach(function (surface) {
+    const f = (d.friction || {})[surface];
+    if (!f) return;
+    if (f.entry !== undefined) {
+      setRadio('friction-' + surface + '-mode', 'entry');
+      set('f-' + surface + '-entry', f.entry);
+    } else {
+      setRadio('friction-' + surface + '-mode', 'range');
+      set('f-' + surface + '-min', f.min);
+      set('f-' + surface + '-max', f.max);
+      set('f-' + surface + '-source-kind', (f.source && f.source.kind) || 'handbook');
+      set('f-' + surface + '-ref', f.source && f.source.reference);
+    }
+  });
+  const c = d.collar || { kind: 'none' };
+  set('f-collar-kind', c.kind);
+  set('f-collar-mean', c.meanDiameter);
+  set('f-collar-outer', c.outerDiameter);
+  set('f-collar-inner', c.innerDiameter);
+  set('f-collar-model', c.model || 'uniform-wear');
+  const nut = d.nut || {};
+  set('f-nut-length', nut.length);
+  set('f-nut-material', nut.material);
+  set('f-nut-p', nut.allowablePressure);
+  set('f-nut-pv', nut.allowablePv);
+  set('f-nut-yield', nut.yieldStrength);
+  const s = d.screw || {};
+  set('f-screw-material', s.material);
+  set('f-screw-yield', s.yieldStrength);
+  set('f-screw-modulus', s.elasticModulus);
+  set('f-screw-density', s.density);
+  set('f-length', s.unsupportedLength);
+  set('f-ends', s.ends || 'fixed-free');
+  set('f-basis', s.endConditionBasis || 'recommended');
+  const duty = d.duty || {};
+  set('f-duty', duty.kind || 'lifting');
+  set('f-speed', duty.speed);
+  set('f-linear', duty.linearSpeed);
+  $('f-brake').checked = duty.brake === true;
+  $('f-vibration').checked = duty.vibration === true;
+  set('f-drive', d.drive && d.drive.availableTorque);
+  syncVisibility();
+}
+
+/** Shows the fields that the choices made call for. */
+export function syncVisibility() {
+  const standard = radio('size-mode') === 'standard';
+  $('f-size-field').hidden = !standard;
+  $('f-custom-size').hidden = standard;
+  $('f-flank-field').hidden = $('f-form').value !== 'buttress';
+  SURFACES.forEach(function (surface) {
+    const entry = radio('friction-' + surface + '-mode') === 'entry';
+    $('f-' + surface + '-entry-field').hidden = !entry;
+    $('f-' + surface + '-range').hidden = entry;
+  });
+  const kind = $('f-collar-kind').value;
+  $('f-collar-mean-field').hidden = !(kind === 'plain' || kind === 'rolling');
+  $('f-collar-annular').hidden = kind !== 'annular';
+  $('f-friction-collar').hidden = kind === 'none';
+}
+
+/**
+ * The visible input a problem path names ("design." prefix allowed), or the nearest one above it
+ * ("friction.collar" -> the collar friction's first field); null when the path is no field of the form.
+ */
+export function fieldFor(path) {
+  let p = String(path).replace(/^design\./, '');
+  while (p) {
+    const exact = document.querySelector('[data-path="' + p + '"]');
+    if (exact && !exact.closest('[hidden]')) return exact;
+    const below = Array.from(document.querySelectorAll('[data-path^="' + p + '."]')).find(function (node) {
+      return !node.closest('[hidden]');
+    });
+    if (below) return below;
+    p = p.includes('.') ? p.slice(0, p.lastIndexOf('.')) : '';
+  }
+  return null;
+}

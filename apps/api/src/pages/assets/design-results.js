@@ -1,0 +1,75 @@
+/*
+ * The design form's results panel: the figures an engineer reads first, from one POST /evaluations answer,
+ * in SI or US customary units; the findings by severity with their basis; the report's charts as SVG images.
+ * Every status is said in words (within / ABOVE the allowable, locks / does NOT lock), colour only follows.
+ */
+import { el } from './lib-dom.js';
+import { badge, countFindings, findingCounts, percent, quantity, sig, VERDICTS } from './lib-format.js';
+import { renderFindings } from './lib-findings.js';
+
+const CHECKS = {
+  bodyVonMises: 'screw body (von Mises)',
+  firstThreadRoot: 'first engaged thread root',
+  strippingScrew: 'screw thread stripping',
+  strippingNut: 'nut thread stripping',
+  buckling: 'column buckling',
+};
+
+/** The strength or stability check with the lowest safety factor: { key, label, value } or null. */
+export function lowestSafetyFactor(factors) {
+  let lowest = null;
+  for (const [key, value] of Object.entries(factors || {})) {
+    if (value === null || value === undefined || !CHECKS[key]) continue;
+    if (!lowest || value < lowest.value) lowest = { key: key, label: CHECKS[key], value: value };
+  }
+  return lowest;
+}
+
+function value(figure, text) {
+  return el('span', { 'data-figure': figure }, text);
+}
+
+function status(ok, good, bad) {
+  return ok === null ? el('span', { class: 'muted' }, 'not checked') : el('span', { class: ok ? 'ok-word' : 'bad-word' }, ok ? good : bad);
+}
+
+function row(label, values, against, verdict) {
+  return el('tr', {}, el('th', { scope: 'row' }, label), el('td', {}, values), el('td', {}, against || ''), el('td', {}, verdict || ''));
+}
+
+/** Fills the panel from one evaluation answer (SI) in the chosen display system ('SI' or 'US'). */
+export function renderResults(panel, e, system) {
+  const q = function (si, kind) {
+    return quantity(si, kind, system);
+  };
+  panel.verdict.replaceChildren('Verdict of the rules: ', badge('verdict', e.verdict, VERDICTS), ' ', findingCounts(countFindings(e.findings)), el('span', { class: 'muted small' }, ' · rule set ' + e.ruleSetVersion + ' · engine ' + e.engineVersion));
+  const lowest = lowestSafetyFactor(e.safetyFactors);
+  const w = e.wear;
+  const rows = [
+    row('Raising torque (thread + collar)', [value('raise-min', q(e.torque.raise.atMinFriction, 'torque')), ' at lowest friction; ', value('raise-max', q(e.torque.raise.atMaxFriction, 'torque')), ' at highest']),
+    row('Lowering torque (thread + collar)', [value('lower-min', q(e.torque.lower.atMinFriction, 'torque')), ' at lowest friction; ', value('lower-max', q(e.torque.lower.atMaxFriction, 'torque')), ' at highest'], 'negative: the load drives the screw back'),
+    row('Efficiency', [value('efficiency-min', percent(e.efficiency.atMinFriction)), ' at lowest friction; ', value('efficiency-max', percent(e.efficiency.atMaxFriction)), ' at highest']),
+    row('Self-locking (thread, lowest friction)', [value('locking-margin', sig(e.selfLocking.margin)), ' margin f / (cos αₙ tan λ)'], 'locks above 1', status(e.selfLocking.locks, 'locks', 'does NOT lock')),
+    row('Lowest safety factor', lowest ? [value('lowest-factor', sig(lowest.value)), ' — ', value('lowest-check', lowest.label)] : 'none computed'),
+    row('Buckling safety factor', e.buckling.applies ? [value('buckling-factor', sig(e.buckling.safetyFactor)), e.buckling.regime ? ' (' + e.buckling.regime + ' column)' : ''] : value('buckling-factor', 'does not apply (screw in tension)')),
+    row('Whirl (critical speed)', [value('critical-speed', sig(e.criticalSpeed.rpm) + ' rpm'), ' critical; operating / critical = ', value('speed-ratio', e.criticalSpeed.ratio === null ? 'no speed given' : sig(e.criticalSpeed.ratio))]),
+    row('Nut bearing pressure', value('nut-pressure', q(w.bearingPressure, 'pressure')), w.allowablePressure === null ? 'no allowable given' : ['allowable ', value('nut-pressure-allowable', q(w.allowablePressure, 'pressure'))], w.pressureRatio === null ? status(null) : status(w.pressureRatio <= 1, 'within the allowable', 'ABOVE the allowable')),
+    row('Nut pV', value('nut-pv', w.pv === null ? 'no speed given' : q(w.pv, 'pv')), w.allowablePv === null ? 'no allowable given' : ['allowable ', value('nut-pv-allowable', q(w.allowablePv, 'pv'))], w.pvRatio === null ? status(null) : status(w.pvRatio <= 1, 'within the allowable', 'ABOVE the allowable')),
+    row('Drive margin', e.drive ? [value('drive-margin', sig(e.drive.margin)), ' = available / required'] : value('drive-margin', 'no drive torque given'), e.drive ? ['required ', value('drive-required', q(e.drive.requiredTorque, 'torque')), ', available ', q(e.drive.availableTorque, 'torque')] : ''),
+  ];
+  panel.figures.tBodies[0].replaceChildren(...rows);
+  renderFindings(panel.findings, e.findings);
+}
+
+/** Shows a server-drawn SVG chart as an image (no markup from the API enters the page), or hides its figure. */
+export function showChart(img, svg) {
+  const figure = img.closest('figure');
+  if (!svg) {
+    figure.hidden = true;
+    img.removeAttribute('src');
+    return;
+  }
+  const standalone = svg.replace(/^<svg /, '<svg xmlns="http://www.w3.org/2000/svg" xmlns:xlink="http://www.w3.org/1999/xlink" ');
+  img.src = 'data:image/svg+xml;charset=utf-8,' + encodeURIComponent(standalone);
+  figure.hidden = false;
+}

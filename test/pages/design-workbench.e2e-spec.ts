@@ -1,0 +1,397 @@
+/**
+ * The design workbench in real Chromium against the real service on real PostgreSQL, by keyboard only: the
+ * author signs in, registers a product, enters a design with a standard size and a library friction entry,
+ * watches the live results follow the load, corrects a field error shown at the field, saves (a double Enter
+ * stores one calculation); the reviewer rejects with a comment; the author reads the rejection in "my work",
+ * makes revision 2 from revision 1, saves, compares 1 and 2 side by side; the reviewer approves; the product's
+ * design file holds every approved revision's hash and the chain result. Every page: screenshot at 1280 px and
+ * 768 px (artifacts/), axe-core without serious or critical violations, nothing wider than the window.
+ */
+import { mkdirSync } from 'node:fs';
+import { join } from 'node:path';
+import puppeteer, { type Browser, type Page } from 'puppeteer-core';
+import { CHROMIUM_FLAGS } from '../../apps/api/src/infra/pdf/browser-pool';
+import { seriousViolations } from '../support/axe';
+import { pdfText } from '../support/pdf-text';
+import { startPagesApp, type PagesApp } from './pages-app';
+
+const ARTIFACTS = join(__dirname, '../../artifacts/design');
+
+let t: PagesApp;
+let browser: Browser;
+const consoleProblems: string[] = [];
+const visitedUrls: string[] = [];
+
+async function newTab(): Promise<Page> {
+  const page = await browser.newPage();
+  await page.setViewport({ width: 1280, height: 900 });
+  page.on('request', (r) => visitedUrls.push(r.url()));
+  page.on('console', (m) => {
+    if (m.type() === 'error' || /Content Security Policy/i.test(m.text())) consoleProblems.push(m.text());
+  });
+  page.on('pageerror', (e) => consoleProblems.push(String(e)));
+  return page;
+}
+
+/** Presses Tab until the element matching `selector` has the focus (it must be reachable by keyboard). */
+async function tabTo(page: Page, selector: string, max = 150): Promise<void> {
+  for (let i = 0; i < max; i++) {
+    if (await page.evaluate((s) => document.activeElement?.matches(s) ?? false, selector)) return;
+    await page.keyboard.press('Tab');
+  }
+  const seen: string[] = [];
+  for (let i = 0; i < 60; i++) {
+    seen.push(await page.evaluate(() => document.activeElement?.id || document.activeElement?.tagName || '?'));
+    await page.keyboard.press('Tab');
+  }
+  const state = await page.evaluate(() => JSON.stringify({ kind: (document.getElementById('f-collar-kind') as HTMLSelectElement)?.value, a: document.getElementById('f-collar-annular')?.hidden, m: document.getElementById('f-collar-mean-field')?.hidden, html: document.getElementById('f-collar-annular')?.outerHTML.slice(0, 300) }));
+  throw new Error(`${state} ${selector} not reached by Tab; focus went through ${[...new Set(seen)].join(' ')}`);
+}
+
+/** Tabs to a field, selects what it holds and types the new text. */
+async function typeInto(page: Page, selector: string, text: string): Promise<void> {
+  await tabTo(page, selector);
+  await page.keyboard.down('Control');
+  await page.keyboard.press('a');
+  await page.keyboard.up('Control');
+  await page.keyboard.press('Backspace');
+  await page.keyboard.type(text);
+}
+
+/** Chooses an option of a select by keyboard (Home, then ArrowDown to its index). */
+async function chooseOption(page: Page, selector: string, value: string): Promise<void> {
+  await tabTo(page, selector);
+  const index = await page.$eval(selector, (s, v) => Array.from((s as HTMLSelectElement).options).findIndex((o) => o.value === v), value);
+  expect(index).toBeGreaterThanOrEqual(0);
+  await page.keyboard.press('Home');
+  for (let i = 0; i < index; i++) await page.keyboard.press('ArrowDown');
+  expect(await page.$eval(selector, (s) => (s as HTMLSelectElement).value)).toBe(value);
+}
+
+/** Follows a link (or presses a button) by keyboard and waits for the next page when it navigates. */
+async function enterOn(page: Page, selector: string, navigates = true): Promise<void> {
+  await tabTo(page, selector);
+  if (navigates) await Promise.all([page.waitForNavigation(), page.keyboard.press('Enter')]);
+  else await page.keyboard.press('Enter');
+}
+
+async function signIn(page: Page, token: string): Promise<void> {
+  await page.waitForSelector('#sign-in:not([hidden])');
+  await tabTo(page, '#token-input');
+  await page.keyboard.type(token);
+  await page.keyboard.press('Enter');
+  await page.waitForSelector('#content:not([hidden])');
+}
+
+const fitsWidth = (page: Page) => page.evaluate(() => document.documentElement.scrollWidth <= document.documentElement.clientWidth);
+const text = (page: Page, selector: string) => page.$eval(selector, (e) => (e as HTMLElement).innerText);
+
+/** Screenshots at 1280 px and 768 px, axe-core and the width check, for the page as it stands. */
+async function checkPage(page: Page, name: string): Promise<void> {
+  await page.bringToFront(); // a background tab cannot be captured
+  expect({ name, violations: await seriousViolations(page) }).toEqual({ name, violations: [] });
+  expect({ name, fits: await fitsWidth(page) }).toEqual({ name, fits: true });
+  await page.screenshot({ path: join(ARTIFACTS, `${name}-1280.png`), fullPage: true });
+  await page.setViewport({ width: 768, height: 1000 });
+  expect({ name, fits768: await fitsWidth(page) }).toEqual({ name, fits768: true });
+  expect({ name, violations768: await seriousViolations(page) }).toEqual({ name, violations768: [] });
+  await page.screenshot({ path: join(ARTIFACTS, `${name}-768.png`), fullPage: true });
+  await page.setViewport({ width: 1280, height: 900 });
+}
+
+/** A figure of the results panel as a number ("−1.234 N·m" -> -1.234). */
+async function figure(page: Page, name: string): Promise<number> {
+  const raw = await text(page, `[data-figure="${name}"]`);
+  return Number(raw.replace('\u2212', '-').replace(/[^0-9.eE+-].*$/, ''));
+}
+
+const evaluationNumber = (page: Page) => page.$eval('#results-status', (e) => Number((e as HTMLElement).dataset.evaluation ?? 0));
+
+/** Waits until the panel shows an evaluation newer than n of what the form holds now (no edit pending). */
+async function waitForEvaluationAfter(page: Page, n: number): Promise<void> {
+  await page.waitForFunction(
+    (k) => {
+      const s = document.getElementById('results-status')!;
+      return Number(s.dataset.evaluation ?? 0) > k && s.dataset.current === 'true';
+    },
+    {},
+    n,
+  );
+}
+
+/** The reviewer decides a revision on the /review page, by keyboard. */
+async function decide(page: Page, revisionId: string, decision: 'approve' | 'reject', comment: string): Promise<void> {
+  expect({ decision, state: (await t.call('GET', `/api/v1/revisions/${revisionId}`)).body.review.state }).toEqual({ decision, state: 'submitted' });
+  await page.bringToFront();
+  await page.goto(`${t.baseUrl}/review/revisions/${revisionId}`);
+  await page.waitForSelector('#decision:not([hidden]), #revision-problem .problem');
+  expect(await text(page, '#revision-problem')).toBe('');
+  if (decision === 'reject') {
+    await tabTo(page, 'input[name="decision"][value="approve"]');
+    await page.keyboard.press('ArrowDown'); // radio group: to "Reject"
+    expect(await page.$eval('input[value="reject"]', (r) => (r as HTMLInputElement).checked)).toBe(true);
+  }
+  await typeInto(page, '#decision-comment', comment);
+  await enterOn(page, '#decision-submit', false);
+  await page.waitForSelector('#decision-done:not([hidden]), #decision-problem .problem');
+  expect(await text(page, '#decision-problem')).toBe('');
+}
+
+beforeAll(async () => {
+  mkdirSync(ARTIFACTS, { recursive: true });
+  t = await startPagesApp({ LEADLINE_CHROMIUM_PATH: '/usr/bin/chromium' });
+  browser = await puppeteer.launch({ executablePath: '/usr/bin/chromium', args: [...CHROMIUM_FLAGS], headless: true });
+}, 60_000);
+
+afterAll(async () => {
+  await browser?.close();
+  await t?.close();
+});
+
+it('serves the /design shells without data, with the strict CSP and the caution, and refuses ids that are not uuids [GET /design/**]', async () => {
+  const uuid = '00000000-0000-4000-8000-000000000000';
+  for (const path of ['/design', '/design/my-work', `/design/products/${uuid}`, `/design/products/${uuid}/new`, `/design/calculations/${uuid}`, `/design/calculations/${uuid}/revise`]) {
+    const res = await fetch(t.baseUrl + path);
+    const html = await res.text();
+    expect({ path, status: res.status }).toEqual({ path, status: 200 });
+    expect(res.headers.get('content-security-policy')).toContain("script-src 'self'");
+    expect(res.headers.get('content-security-policy')).not.toMatch(/unsafe-inline|unsafe-eval/);
+    expect(html).not.toMatch(/<style|style=|<script>|https?:\/\//);
+    expect(html).toContain('Safety caution');
+  }
+  expect((await fetch(`${t.baseUrl}/design/products/not-a-uuid`)).status).toBe(404);
+  for (const name of ['design-form.js', 'design-fields.js', 'design-results.js', 'design-products.js', 'design-product.js', 'design-calculation.js', 'design-my-work.js']) {
+    const res = await fetch(`${t.baseUrl}/review/assets/${name}`);
+    expect({ name, type: res.headers.get('content-type') }).toEqual({ name, type: 'text/javascript; charset=utf-8' });
+    expect(await res.text()).not.toMatch(/innerHTML|insertAdjacentHTML|document\.write|localStorage|document\.cookie/);
+  }
+});
+
+it('takes a design from a new product to an approved second revision and its design file, by keyboard only', async () => {
+  const author = await newTab();
+  // ---- products: sign in, register ----
+  await author.goto(`${t.baseUrl}/design`);
+  await signIn(author, t.tokens.author);
+  await author.waitForSelector('#products-count:not(:empty)');
+  expect(await author.$eval('nav a[aria-current="page"]', (a) => a.textContent)).toBe('Products and calculations');
+  await typeInto(author, '#p-code', 'bad code!');
+  await typeInto(author, '#p-name', 'Brackwater scissor table (test product)');
+  await enterOn(author, '#register-submit', false);
+  await author.waitForSelector('#p-code[aria-invalid="true"]');
+  expect(await text(author, '#p-code-error')).toContain('letters, digits');
+  await typeInto(author, '#p-code', 'BW-40');
+  await enterOn(author, '#register-submit');
+  await author.waitForSelector('#product:not([hidden])');
+  expect(await text(author, '#product-heading')).toBe('BW-40 — Brackwater scissor table (test product)');
+  const productId = author.url().split('/').pop()!;
+  await checkPage(author, 'product-empty');
+
+  await author.goto(`${t.baseUrl}/design`);
+  await author.waitForSelector('#products tr');
+  await typeInto(author, '#search', 'brackwater');
+  await author.waitForFunction(() => document.getElementById('products-count')!.textContent!.includes('match "brackwater"'));
+  expect(await author.$$eval('#products tbody tr', (rows) => rows.map((r) => (r as HTMLElement).innerText.split('\t')[0]))).toEqual(['BW-40']);
+  await checkPage(author, 'products');
+
+  // ---- the design form ----
+  await author.goto(`${t.baseUrl}/design/products/${productId}`);
+  await author.waitForSelector('#product:not([hidden])');
+  await enterOn(author, '#new-calculation');
+  await author.waitForSelector('#design:not([hidden])');
+  await tabTo(author, '#f-size');
+  await author.keyboard.type('Tr 40');
+  const offered = await author.$$eval('#f-size-list option', (os) => os.map((o) => (o as HTMLOptionElement).value));
+  expect(offered).toContain('Tr 40x7');
+  expect(offered.every((v) => v.startsWith('Tr '))).toBe(true);
+  await author.keyboard.type('x7');
+  await typeInto(author, '#f-load', '18 kN');
+  await chooseOption(author, '#f-thread-entry', 'thread/steel-bronze/oil');
+  expect(await text(author, '#f-thread-entry-about')).toMatch(/Range f = 0\.1 to 0\.16 · source \(handbook\): Shigley's Mechanical Engineering Design, 9th ed\., Table 8-5/);
+  await typeInto(author, '#f-collar-outer', '70 mm');
+  await typeInto(author, '#f-collar-inner', '42 mm');
+  await typeInto(author, '#f-nut-length', '60 mm');
+  await typeInto(author, '#f-nut-material', 'bronze');
+  await typeInto(author, '#f-screw-material', 'steel-1045-cd');
+  await typeInto(author, '#f-length', '520 mm');
+  await chooseOption(author, '#f-ends', 'fixed-pinned');
+  await typeInto(author, '#f-speed', '60 rpm');
+  await tabTo(author, '#f-brake');
+  await author.keyboard.press('Space');
+  await typeInto(author, '#f-drive', '220 N*m');
+  await waitForEvaluationAfter(author, 0);
+  expect(await text(author, '#results-status')).toMatch(/^Results of the design/);
+  await author.waitForSelector('#chart-torque[src^="data:image/svg+xml"]');
+  const raiseAt18 = await figure(author, 'raise-max');
+
+  // the live results follow the load
+  let n = await evaluationNumber(author);
+  await typeInto(author, '#f-load', '24 kN');
+  await waitForEvaluationAfter(author, n);
+  expect(await text(author, '#results-status')).toMatch(/^Results of the design/);
+  const raiseAt24 = await figure(author, 'raise-max');
+  // torque is proportional to the load at fixed geometry and friction (Shigley 9th ed., Eq. 8-1 and 8-6)
+  expect(raiseAt24 / raiseAt18).toBeCloseTo(24 / 18, 2);
+
+  // a wrong unit: the error appears at the field, and goes once corrected
+  n = await evaluationNumber(author);
+  await typeInto(author, '#f-load', '24 MPa');
+  await waitForEvaluationAfter(author, n);
+  await author.waitForSelector('#f-load[aria-invalid="true"]');
+  expect(await text(author, '#f-load-error')).toMatch(/^Error: "24 MPa" is not a force/);
+  expect(await text(author, '#results-status')).toMatch(/Not evaluated: 1 field to correct/);
+  await checkPage(author, 'design-form-field-error');
+  n = await evaluationNumber(author);
+  await typeInto(author, '#f-load', '18 kN');
+  await waitForEvaluationAfter(author, n);
+  await author.waitForFunction(() => !document.querySelector('#f-load[aria-invalid]') && !document.getElementById('f-load-error'));
+  expect(await figure(author, 'raise-max')).toBe(raiseAt18);
+
+  // US customary display of the same figures
+  await tabTo(author, 'input[name="units"][value="SI"]');
+  await author.keyboard.press('ArrowDown');
+  expect(await text(author, '[data-figure="raise-max"]')).toMatch(/lbf·in$/);
+  await author.keyboard.press('ArrowUp');
+  expect(await text(author, '[data-figure="raise-max"]')).toMatch(/N·m$/);
+  await checkPage(author, 'design-form');
+
+  // save: a double Enter stores one calculation
+  await typeInto(author, '#f-title', 'Lift screw');
+  await tabTo(author, '#save-submit');
+  await author.keyboard.press('Enter');
+  await author.keyboard.press('Enter');
+  await author.waitForSelector('#saved:not([hidden])');
+  await new Promise((r) => setTimeout(r, 300)); // let a second request, if any was sent, land before counting
+  const product = (await t.call('GET', `/api/v1/products/${productId}`)).body;
+  expect(product.calculations).toHaveLength(1);
+  const calcId = product.calculations[0].id;
+  const revs = (await t.call('GET', `/api/v1/calculations/${calcId}/revisions`)).body.items;
+  expect(revs).toHaveLength(1);
+  const rev1 = revs[0];
+  expect(await text(author, '#saved')).toContain('Stored as revision 1.');
+  expect(await text(author, '#saved-hash')).toBe(rev1.hash);
+  expect(await author.$eval('#saved-report', (a) => a.getAttribute('href'))).toBe(`/review/revisions/${rev1.id}`);
+  expect(rev1.input).toMatchObject({ thread: { form: 'trapezoidal', size: 'Tr 40x7', starts: 1 }, load: { axial: '18 kN' }, friction: { thread: { entry: 'thread/steel-bronze/oil' } } });
+
+  // the numbers in the panel are the stored evaluation's (rounded to engineering figures: rtol 5e-3)
+  const e = rev1.evaluation;
+  const close = (shown: number, si: number, factor = 1) => expect(Math.abs(shown - si * factor)).toBeLessThanOrEqual(5e-3 * Math.abs(si * factor));
+  close(await figure(author, 'raise-min'), e.torque.raise.atMinFriction);
+  close(await figure(author, 'raise-max'), e.torque.raise.atMaxFriction);
+  close(await figure(author, 'lower-min'), e.torque.lower.atMinFriction);
+  close(await figure(author, 'lower-max'), e.torque.lower.atMaxFriction);
+  close(await figure(author, 'efficiency-min'), e.efficiency.atMinFriction, 100);
+  close(await figure(author, 'efficiency-max'), e.efficiency.atMaxFriction, 100);
+  close(await figure(author, 'locking-margin'), e.selfLocking.margin);
+  close(await figure(author, 'buckling-factor'), e.safetyFactors.buckling);
+  close(await figure(author, 'critical-speed'), e.criticalSpeed.rpm);
+  close(await figure(author, 'speed-ratio'), e.criticalSpeed.ratio);
+  close(await figure(author, 'nut-pressure'), e.wear.bearingPressure, 1e-6);
+  close(await figure(author, 'nut-pressure-allowable'), e.wear.allowablePressure, 1e-6);
+  close(await figure(author, 'nut-pv'), e.wear.pv, 1e-6);
+  close(await figure(author, 'drive-margin'), e.drive.margin);
+  const factors = Object.entries(e.safetyFactors as Record<string, number | null>).filter((x): x is [string, number] => x[1] !== null);
+  const lowest = factors.reduce((a, b) => (b[1] < a[1] ? b : a));
+  close(await figure(author, 'lowest-factor'), lowest[1]);
+  expect(await text(author, '#results-findings')).toContain(rev1.findings.length ? rev1.findings[0].message : 'No findings.');
+  await checkPage(author, 'design-form-saved');
+
+  // ---- the reviewer rejects revision 1 ----
+  const reviewer = await newTab();
+  await reviewer.goto(`${t.baseUrl}/review`);
+  await signIn(reviewer, t.tokens.reviewer);
+  await decide(reviewer, rev1.id, 'reject', 'State the collar friction source you will test against.');
+  await author.bringToFront(); // headless Chromium runs a background tab's page scripts only when it comes to the front
+  expect((await t.call('GET', `/api/v1/revisions/${rev1.id}`)).body.review.state).toBe('rejected');
+
+  // ---- my work: the rejection and its reason ----
+  await author.goto(`${t.baseUrl}/design`);
+  await author.waitForSelector('#products tr');
+  await enterOn(author, 'nav a[href="/design/my-work"]');
+  await author.waitForSelector(`#work-rejected li[data-revision="${rev1.id}"]`);
+  const rejected = await text(author, `#work-rejected li[data-revision="${rev1.id}"]`);
+  expect(rejected).toContain('BW-40 · Lift screw · revision 1');
+  expect(rejected).toMatch(/Rejected/);
+  expect(rejected).toContain('Decision comment (Checking engineer (test)): State the collar friction source you will test against.');
+  await checkPage(author, 'my-work');
+
+  // ---- the calculation: revision 2 from revision 1 ----
+  await enterOn(author, `#work-rejected li[data-revision="${rev1.id}"] a[href="/design/calculations/${calcId}"]`);
+  await author.waitForSelector('#calculation:not([hidden])');
+  expect(await text(author, `#revisions tr[data-revision="${rev1.id}"]`)).toMatch(/^1\s+Rejected\s+(Clear|Needs acknowledgement|Blocked)\s/);
+  await enterOn(author, `a[href="/design/calculations/${calcId}/revise?from=${rev1.id}"]`);
+  await author.waitForSelector('#design:not([hidden])');
+  expect(await text(author, '#design-heading')).toBe('BW-40 · Lift screw · revision 2');
+  expect(await author.$eval('#f-size', (i) => (i as HTMLInputElement).value)).toBe('Tr 40x7');
+  expect(await author.$eval('#f-load', (i) => (i as HTMLInputElement).value)).toBe('18 kN');
+  await waitForEvaluationAfter(author, 0);
+  expect(await text(author, '#results-status')).toMatch(/^Results of the design/);
+  await tabTo(author, 'input[name="friction-collar-mode"][value="entry"]');
+  await author.keyboard.press('ArrowDown'); // to "a range I type"
+  await typeInto(author, '#f-collar-min', '0.08');
+  await typeInto(author, '#f-collar-max', '0.1');
+  await chooseOption(author, '#f-collar-source-kind', 'test');
+  await typeInto(author, '#f-collar-ref', 'Friction test report FT-112, thrust washer on bronze');
+  await typeInto(author, '#f-nut-length', '70 mm');
+  await typeInto(author, '#f-note', 'Collar friction from our test FT-112; longer nut.');
+  await waitForEvaluationAfter(author, 0);
+  await enterOn(author, '#save-submit', false);
+  await author.waitForSelector('#saved:not([hidden])');
+  expect(await text(author, '#saved')).toContain('Stored as revision 2.');
+  const rev2 = (await t.call('GET', `/api/v1/calculations/${calcId}/revisions`)).body.items[1];
+  expect(rev2.note).toBe('Collar friction from our test FT-112; longer nut.');
+  expect(rev2.input.friction.collar).toEqual({ min: 0.08, max: 0.1, source: { kind: 'test', reference: 'Friction test report FT-112, thrust washer on bronze' } });
+
+  // ---- compare 1 and 2 side by side ----
+  await enterOn(author, '#saved-calculation');
+  await author.waitForSelector('#calculation:not([hidden])');
+  expect(await author.$eval('#compare-from', (s) => (s as HTMLSelectElement).value)).toBe(rev1.id);
+  expect(await author.$eval('#compare-to', (s) => (s as HTMLSelectElement).value)).toBe(rev2.id);
+  await enterOn(author, '#compare-submit', false);
+  await author.waitForSelector('#comparison:not([hidden])');
+  const nutRow = await text(author, '#compare-inputs tr[data-path="nut.length"]');
+  expect(nutRow).toMatch(/nut\.length\s+60 mm\s+70 mm\s+Changed/);
+  expect(await text(author, '#compare-inputs tr[data-path="load.axial"]')).toMatch(/18 kN\s+18 kN\s+same/);
+  expect(await text(author, '#compare-inputs tr[data-path="friction.collar.source.kind"]')).toMatch(/\(not given\)\s+test\s+Changed/);
+  expect(await text(author, '#compare-results tr[data-path="wear.bearingPressure"]')).toContain('Changed');
+  expect(await text(author, '#compare-verdict')).toMatch(new RegExp(`Verdict of the rules\\s+${rev1.verdict === 'clear' ? 'Clear\\s+Clear\\s+same' : '\\S.*\\s+Clear\\s+Changed'}`));
+  await checkPage(author, 'calculation-compare');
+
+  // ---- the reviewer approves revision 2 ----
+  await decide(reviewer, rev2.id, 'approve', 'Collar friction now backed by test FT-112.');
+  await author.bringToFront();
+  expect((await t.call('GET', `/api/v1/revisions/${rev2.id}`)).body.review.state).toBe('approved');
+
+  // ---- the product page and its design file ----
+  await author.goto(`${t.baseUrl}/design/products/${productId}`);
+  await author.waitForSelector('#product:not([hidden])');
+  expect(await text(author, `#calculations tr[data-calculation="${calcId}"]`)).toMatch(/Lift screw\s+2\s+Approved\s+Clear/);
+  await checkPage(author, 'product');
+  const file = await t.call('GET', `/api/v1/products/${productId}/design-file.pdf`);
+  expect(file.status).toBe(200);
+  const pdf = await pdfText(file.raw);
+  const compact = pdf.text.replace(/\s/g, '');
+  const chain = (await t.call('GET', `/api/v1/products/${productId}/verify`)).body;
+  expect(compact).toContain(rev2.hash);
+  expect(compact).toContain(chain.headHash);
+  expect(pdf.text).toContain('Hash-chain verification: intact');
+  expect(pdf.text).toContain(`Page ${pdf.pages} of ${pdf.pages}`);
+
+  // ---- my work again, and a clean print of the calculation page ----
+  await author.goto(`${t.baseUrl}/design/my-work`);
+  await author.waitForSelector(`#work-approved li[data-revision="${rev2.id}"]`);
+  await author.goto(`${t.baseUrl}/design/calculations/${calcId}`);
+  await author.waitForSelector('#calculation:not([hidden])');
+  await author.emulateMediaType('print');
+  expect(await author.$eval('.bar', (b) => getComputedStyle(b).display)).toBe('none');
+  expect(await author.$eval('.caution', (b) => getComputedStyle(b).display)).not.toBe('none');
+  await author.screenshot({ path: join(ARTIFACTS, 'calculation-print.png'), fullPage: true });
+  await author.emulateMediaType('screen');
+}, 240_000);
+
+it('never puts a token in a URL, and the pages raise no script or policy error', () => {
+  const tokens = Object.values(t.tokens);
+  expect(visitedUrls.filter((u) => tokens.some((tok) => u.includes(tok)))).toEqual([]);
+  expect(visitedUrls.filter((u) => !u.startsWith(t.baseUrl + '/') && !/^(about:|blob:|data:)/.test(u))).toEqual([]);
+  // refused requests (422 while a field is wrong) are logged by Chromium as failed loads; nothing else may be
+  expect(consoleProblems.filter((m) => !/status of (401|403|422)/.test(m))).toEqual([]);
+});
