@@ -4,6 +4,8 @@
  * (GET /api/v1/thread-sizes). Requirement sets and their sources: test/support/sizing.ts.
  */
 import fc from 'fast-check';
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
 import { countRecords, startTestApp, type TestApp } from '../support/harness';
 import { IMPOSSIBLE, LEAD_SCREW, OBJECTIVES, PRESS, propertySeed, requirementsArbitrary, TEXTBOOK_JACK } from '../support/sizing';
 
@@ -227,6 +229,14 @@ describe('POST /api/v1/sizing', () => {
     expect(missing.status).toBe(422);
     expect(missing.body.errors.map((e: { path: string }) => e.path)).toContain('requirements.screw.yieldStrength');
     expect(await countRecords(t.db)).toEqual(before);
+  });
+
+  it("answers the README's request (test/fixtures/ok/sizing-jack.json) with five ranked screws that pass when submitted", async () => {
+    const body = JSON.parse(readFileSync(join(__dirname, '../fixtures/ok/sizing-jack.json'), 'utf8'));
+    const answer = await size(body);
+    expect(answer.candidates).toHaveLength(5);
+    for (const c of answer.candidates) expect((await evaluation(c.design)).verdict).toBe(c.verdict);
+    expect(answer.candidates.every((c: any) => c.verdict !== 'blocked')).toBe(true);
   });
 
   it('is in the OpenAPI document', async () => {
