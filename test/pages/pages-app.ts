@@ -16,7 +16,7 @@ export interface PagesApp {
   /** http://127.0.0.1:<port> */
   baseUrl: string;
   tokens: Record<PageUser, string>;
-  call(method: string, url: string, body?: unknown, as?: PageUser): Promise<{ status: number; body: any; headers: Record<string, unknown> }>;
+  call(method: string, url: string, body?: unknown, as?: PageUser): Promise<{ status: number; body: any; headers: Record<string, unknown>; raw: Buffer }>;
   close(): Promise<void>;
 }
 
