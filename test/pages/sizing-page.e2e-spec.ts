@@ -187,6 +187,19 @@ it('finds a screw for a stated duty and opens it as a new calculation, by keyboa
   // The handed-over design is complete: the API evaluates it to the verdict the table showed.
   const evaluation = await t.call('POST', '/api/v1/evaluations', draft.design);
   expect(evaluation.body.verdict).toBe(chosen.verdict);
+  // The design form took it (once) and filled its fields; its live results show the same verdict.
+  await page.waitForSelector('#design:not([hidden])');
+  const value = (id: string) => page.$eval(`#${id}`, (e) => (e as HTMLInputElement).value);
+  expect(await value('f-size')).toBe(chosen.design.thread.size);
+  expect(await value('f-starts')).toBe(String(chosen.starts));
+  expect(await value('f-nut-length')).toBe(chosen.design.nut.length);
+  expect(await value('f-load')).toBe('20 kN');
+  expect(await value('f-collar-mean')).toBe(chosen.design.collar.meanDiameter);
+  expect(await text(page, '#design-context')).toContain(chosen.size);
+  expect(await page.evaluate(() => sessionStorage.getItem('leadline.designDraft'))).toBeNull();
+  const VERDICT_LINE: Record<string, string> = { clear: 'Clear', 'needs-acknowledgement': 'Needs acknowledgement' };
+  await page.waitForFunction((w) => (document.getElementById('verdict')?.textContent ?? '').includes(w), {}, VERDICT_LINE[chosen.verdict]);
+  await checkPage(page, 'sizing-design-form');
 
   for (const token of Object.values(t.tokens)) expect(visitedUrls.filter((u) => u.includes(token))).toEqual([]);
   expect(consoleProblems.filter((m) => !/status of 422/.test(m))).toEqual([]);

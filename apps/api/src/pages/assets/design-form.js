@@ -11,6 +11,7 @@ import { clearFieldErrors, clearProblem, fieldErrors, showFieldErrors, showProbl
 import { startPage } from './lib-session.js';
 import { fieldFor, fillDesign, readDesign, syncVisibility } from './design-fields.js';
 import { renderResults, showChart } from './design-results.js';
+import { takeDraft } from './lib-draft.js';
 
 const DEBOUNCE_MS = 150;
 
@@ -102,7 +103,10 @@ async function designPage() {
     return;
   }
   showContext(ctx);
+  const draft = ctx.mode === 'open' ? takeDraft() : null; // a design handed over by another page (screw selection)
+  if (draft) $('design-context').textContent = 'Filled from ' + draft.origin + '. ' + $('design-context').textContent;
   if (ctx.from) fillDesign(ctx.from.input);
+  else if (draft) fillDesign(draft.design);
   else fillDesign({ thread: { form: 'trapezoidal', starts: 1 }, friction: { thread: { entry: $('f-thread-entry').value }, collar: { entry: $('f-collar-entry').value } }, collar: { kind: 'annular', model: 'uniform-wear' }, screw: { ends: 'fixed-free' }, duty: { kind: 'lifting', brake: false } });
   $('f-thread-entry').describe();
   $('f-collar-entry').describe();
@@ -297,7 +301,7 @@ async function designPage() {
     return $('f-title').value.trim();
   }
 
-  if (ctx.from) {
+  if (ctx.from || draft) {
     form.querySelectorAll('[data-path]').forEach(function (input) {
       touched.add(input.id);
     });
