@@ -5,6 +5,7 @@
  *      plus the floors: an I/O-only POST of the same sizes, and the database append call alone
  *   3. engine alone: one evaluation (parse + evaluate + judge) in microseconds
  *   4. PDF report render with a warm browser vs bare page.pdf of the same HTML             goal <= 1.5x
+ *   workbench: in Chromium, input change in the design form to results panel updated, p50/p95 over 50 edits
  * Rounds alternate baseline and subject so machine noise hits both alike. Requires PostgreSQL for (2):
  * DATABASE_URL (default postgres://postgres@127.0.0.1:5432/postgres); a scratch database is created and dropped.
  */
@@ -160,6 +161,7 @@ async function main() {
     }
   }
 
+  if (!only || only === 'workbench') results.push(await (await import('./workbench.bench')).benchWorkbench());
   if (!only || only === 'sizing') results.push(await (await import('./sizing.bench')).benchSizing());
 
   if (!only || only === 'pdf') {

@@ -19,7 +19,7 @@ function flatten(value, prefix, out) {
 
 function show(value) {
   if (value === null || value === undefined) return el('span', { class: 'muted' }, '(not given)');
-  if (typeof value === 'number') return sig(value);
+  if (typeof value === 'number') return Number.isInteger(value) ? String(value) : sig(value);
   return String(value);
 }
 
