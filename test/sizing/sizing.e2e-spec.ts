@@ -6,6 +6,7 @@
 import fc from 'fast-check';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
+import { DEFAULT_RULE_SET } from '@leadline/rules';
 import { countRecords, startTestApp, type TestApp } from '../support/harness';
 import { IMPOSSIBLE, LEAD_SCREW, OBJECTIVES, PRESS, propertySeed, requirementsArbitrary, TEXTBOOK_JACK } from '../support/sizing';
 
@@ -243,5 +244,27 @@ describe('POST /api/v1/sizing', () => {
     const doc = await t.call('GET', '/api/docs-json');
     expect(doc.status).toBe(200);
     expect(Object.keys(doc.body.paths)).toContain('/api/v1/sizing');
+  });
+
+  // Last in the file: it changes the adopted rule set for this database.
+  it('judges by the adopted rule set: after adopting a stricter one, fewer screws pass and each still agrees with /evaluations', async () => {
+    const before = await size({ requirements: TEXTBOOK_JACK, search: { limit: 500 } });
+    const strict = {
+      version: '2026.12-9',
+      description: 'Test only: lifting strength factor 4 instead of 3',
+      thresholds: { ...DEFAULT_RULE_SET.thresholds, strength: { minSafetyFactor: { ...DEFAULT_RULE_SET.thresholds.strength.minSafetyFactor, lifting: 4 } } },
+    };
+    expect((await t.call('POST', '/api/v1/rule-sets', strict, { as: 'admin' })).status).toBe(201);
+    expect((await t.call('POST', '/api/v1/rule-sets/2026.12-9/adopt', { note: 'sizing test' }, { as: 'admin' })).status).toBe(200);
+    const after = await size({ requirements: TEXTBOOK_JACK, search: { limit: 500 } });
+    expect(after.ruleSetVersion).toBe('2026.12-9');
+    expect(before.ruleSetVersion).not.toBe('2026.12-9');
+    expect(after.passed).toBeLessThan(before.passed);
+    expect(after.searched).toBe(before.searched);
+    for (const c of after.candidates.slice(0, 10)) {
+      const e = await evaluation(c.design);
+      expect(e.ruleSetVersion).toBe('2026.12-9');
+      expect(e.verdict).toBe(c.verdict);
+    }
   });
 });
