@@ -19,6 +19,7 @@ async function main(): Promise<void> {
     ...(seed.tokens.length
       ? ['Demo tokens (shown once; only their hashes are stored):', ...seed.tokens.map((t) => `  ${t.name.padEnd(28)} ${t.roles.join(',').padEnd(9)} ${t.token}`)]
       : []),
+    `  Design pages:  ${url}/design   (paste the design author's token)`,
     `  Review pages:  ${url}/review   (paste the checking engineer's token)`,
     `  API docs:      ${url}/api/docs`,
     ...(seed.tokens.length ? [`  export LEADLINE_TOKEN=${seed.tokens[0].token}    # the demo author`] : []),
