@@ -7,7 +7,8 @@
  * design file holds every approved revision's hash and the chain result. Every page: screenshot at 1280 px and
  * 768 px (artifacts/), axe-core without serious or critical violations, nothing wider than the window.
  */
-import { mkdirSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import puppeteer, { type Browser, type Page } from 'puppeteer-core';
 import { CHROMIUM_FLAGS } from '../../apps/api/src/infra/pdf/browser-pool';
@@ -366,9 +367,25 @@ it('takes a design from a new product to an approved second revision and its des
   await author.waitForSelector('#product:not([hidden])');
   expect(await text(author, `#calculations tr[data-calculation="${calcId}"]`)).toMatch(/Lift screw\s+2\s+Approved\s+Clear/);
   await checkPage(author, 'product');
-  const file = await t.call('GET', `/api/v1/products/${productId}/design-file.pdf`);
-  expect(file.status).toBe(200);
-  const pdf = await pdfText(file.raw);
+  // the design file, downloaded from the product page (fetched with the token, saved from a blob: address)
+  const dir = mkdtempSync(join(tmpdir(), 'leadline-design-file-'));
+  const cdp = await author.createCDPSession();
+  await cdp.send('Browser.setDownloadBehavior', { behavior: 'allowAndName', downloadPath: dir, eventsEnabled: true });
+  const done = new Promise<{ name: string; guid: string }>((resolve, reject) => {
+    let name = '';
+    cdp.on('Browser.downloadWillBegin', (e: { suggestedFilename: string }) => (name = e.suggestedFilename));
+    cdp.on('Browser.downloadProgress', (e: { guid: string; state: string }) => {
+      if (e.state === 'completed') resolve({ name, guid: e.guid });
+      else if (e.state === 'canceled') reject(new Error('download canceled'));
+    });
+  });
+  await enterOn(author, '#download-design-file', false);
+  const saved = await done;
+  expect(saved.name).toBe('design-file-BW-40.pdf');
+  expect(await text(author, '#download-status')).toBe('Downloaded design-file-BW-40.pdf.');
+  const bytes = readFileSync(join(dir, saved.guid));
+  rmSync(dir, { recursive: true, force: true });
+  const pdf = await pdfText(bytes);
   const compact = pdf.text.replace(/\s/g, '');
   const chain = (await t.call('GET', `/api/v1/products/${productId}/verify`)).body;
   expect(compact).toContain(rev2.hash);
