@@ -105,3 +105,12 @@ it("prints the product's design file: cover, the approved revision's report, the
   expect(text).not.toContain(`Page 1 of ${pages - 1}`);
   expect((await t.call('GET', `/api/v1/products/00000000-0000-4000-8000-000000000000/design-file.pdf`)).status).toBe(404);
 }, 60_000);
+
+it('documents the routes the workbench added in the OpenAPI description [GET /api/docs-json]', async () => {
+  const paths = (await t.call('GET', '/api/docs-json')).body.paths;
+  expect(paths['/api/v1/me'].get).toBeTruthy();
+  expect(paths['/api/v1/me/revisions'].get).toBeTruthy();
+  expect(paths['/api/v1/evaluations/charts'].post.requestBody.content['application/json'].schema.properties.thread).toBeTruthy();
+  expect(paths['/api/v1/products/{id}/design-file.pdf'].get).toBeTruthy();
+  expect(paths['/api/v1/products'].get.summary).toContain('q:');
+});
