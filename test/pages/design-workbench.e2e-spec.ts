@@ -7,7 +7,7 @@
  * design file holds every approved revision's hash and the chain result. Every page: screenshot at 1280 px and
  * 768 px (artifacts/), axe-core without serious or critical violations, nothing wider than the window.
  */
-import { mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import puppeteer, { type Browser, type Page } from 'puppeteer-core';
@@ -255,6 +255,13 @@ it('takes a design from a new product to an approved second revision and its des
   expect(await text(author, '[data-figure="raise-max"]')).toMatch(/N·m$/);
   await checkPage(author, 'design-form');
 
+  // saving without a title: refused, the message at the title field, which takes the focus
+  await enterOn(author, '#save-submit', false);
+  await author.waitForSelector('#f-title[aria-invalid="true"]');
+  expect(await text(author, '#f-title-error')).toMatch(/^Error: /);
+  expect(await author.evaluate(() => document.activeElement?.id)).toBe('f-title');
+  expect((await t.call('GET', `/api/v1/products/${productId}`)).body.calculations).toHaveLength(0);
+
   // save: a double Enter stores one calculation
   await typeInto(author, '#f-title', 'Lift screw');
   await tabTo(author, '#save-submit');
@@ -404,6 +411,66 @@ it('takes a design from a new product to an approved second revision and its des
   await author.screenshot({ path: join(ARTIFACTS, 'calculation-print.png'), fullPage: true });
   await author.emulateMediaType('screen');
 }, 240_000);
+
+it('exports the design input exactly as the API takes it, and imports one from a file [design form]', async () => {
+  const design = JSON.parse(readFileSync(join(__dirname, '../fixtures/ok/trapezoidal-jack.json'), 'utf8'));
+  const product = (await t.call('POST', '/api/v1/products', { code: 'BW-41', name: 'Brackwater platform (test product)' })).body;
+  const opened = (await t.call('POST', `/api/v1/products/${product.id}/calculations`, { title: 'Platform screw', design })).body;
+  const page = await newTab();
+  await page.goto(`${t.baseUrl}/design/calculations/${opened.calculationId}/revise`);
+  await signIn(page, t.tokens.author);
+  await page.waitForSelector('#design:not([hidden])');
+  await waitForEvaluationAfter(page, 0);
+  const dir = mkdtempSync(join(tmpdir(), 'leadline-export-'));
+  try {
+    const cdp = await page.createCDPSession();
+    await cdp.send('Browser.setDownloadBehavior', { behavior: 'allowAndName', downloadPath: dir, eventsEnabled: true });
+    const done = new Promise<string>((resolve) => cdp.on('Browser.downloadProgress', (e: { guid: string; state: string }) => e.state === 'completed' && resolve(e.guid)));
+    await enterOn(page, '#export-json', false);
+    const exported = JSON.parse(readFileSync(join(dir, await done), 'utf8'));
+    // the form reads back exactly the stored input, plus the defaults it states (end-condition basis, vibration)
+    expect(exported).toEqual({ ...design, screw: { ...design.screw, endConditionBasis: 'recommended' } });
+    const check = await t.call('POST', '/api/v1/evaluations', exported);
+    expect(check.status).toBe(200);
+
+    // import: a different design from a file fills the form and is evaluated
+    const other = { ...design, load: { axial: '4000 lbf', sense: 'compression' }, nut: { length: '2.5 in', material: 'bronze' } };
+    const file = join(dir, 'other-design.json');
+    writeFileSync(file, JSON.stringify(other));
+    const n = await evaluationNumber(page);
+    const input = await page.$('#import-json');
+    await (input as unknown as { uploadFile(p: string): Promise<void> }).uploadFile(file);
+    await waitForEvaluationAfter(page, n);
+    expect(await text(page, '#file-status')).toBe('Imported other-design.json.');
+    expect(await page.$eval('#f-load', (i) => (i as HTMLInputElement).value)).toBe('4000 lbf');
+    expect(await page.$eval('#f-nut-length', (i) => (i as HTMLInputElement).value)).toBe('2.5 in');
+    const expected = (await t.call('POST', '/api/v1/evaluations', other)).body;
+    // the panel shows the imported design's evaluation (torque in N·m at SI display; engineering figures, rtol 5e-3)
+    expect(Math.abs((await figure(page, 'raise-max')) - expected.torque.raise.atMaxFriction)).toBeLessThanOrEqual(5e-3 * expected.torque.raise.atMaxFriction);
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+});
+
+it('lets the author withdraw a revision awaiting review from "my work" [POST /api/v1/revisions/:id/withdraw]', async () => {
+  const design = JSON.parse(readFileSync(join(__dirname, '../fixtures/ok/trapezoidal-jack.json'), 'utf8'));
+  const product = (await t.call('POST', '/api/v1/products', { code: 'BW-42', name: 'Brackwater hoist (test product)' })).body;
+  const opened = (await t.call('POST', `/api/v1/products/${product.id}/calculations`, { title: 'Hoist screw', design })).body;
+  const page = await newTab();
+  await page.goto(`${t.baseUrl}/design/my-work`);
+  await signIn(page, t.tokens.author);
+  await page.waitForSelector(`#work-submitted li[data-revision="${opened.revisionId}"]`);
+  await enterOn(page, `#work-submitted li[data-revision="${opened.revisionId}"] button.withdraw`, false);
+  await page.waitForSelector(`#work-other li[data-revision="${opened.revisionId}"]`);
+  expect(await text(page, '#work-status')).toBe('BW-42 · Hoist screw revision 1 withdrawn.');
+  expect(await text(page, `#work-other li[data-revision="${opened.revisionId}"]`)).toMatch(/Withdrawn/);
+  expect((await t.call('GET', `/api/v1/revisions/${opened.revisionId}`)).body.review.state).toBe('withdrawn');
+  // another author's revision offers no withdrawal to this author
+  const foreign = (await t.call('POST', `/api/v1/products/${product.id}/calculations`, { title: 'Brake screw', design }, 'checkerAuthor')).body;
+  await page.goto(`${t.baseUrl}/design/calculations/${foreign.calculationId}`);
+  await page.waitForSelector('#calculation:not([hidden])');
+  expect(await page.$$('#revisions button.withdraw')).toHaveLength(0);
+});
 
 it('never puts a token in a URL, and the pages raise no script or policy error', () => {
   const tokens = Object.values(t.tokens);
