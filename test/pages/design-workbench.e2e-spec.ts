@@ -452,6 +452,37 @@ it('exports the design input exactly as the API takes it, and imports one from a
   }
 });
 
+it('drops a late answer to an earlier edit: the panel shows the evaluation of what the form holds [POST /api/v1/evaluations]', async () => {
+  const design = JSON.parse(readFileSync(join(__dirname, '../fixtures/ok/trapezoidal-jack.json'), 'utf8'));
+  const product = (await t.call('POST', '/api/v1/products', { code: 'BW-43', name: 'Brackwater ram (test product)' })).body;
+  const opened = (await t.call('POST', `/api/v1/products/${product.id}/calculations`, { title: 'Ram screw', design })).body;
+  const page = await newTab();
+  await page.goto(`${t.baseUrl}/design/calculations/${opened.calculationId}/revise`);
+  await signIn(page, t.tokens.author);
+  await waitForEvaluationAfter(page, 0);
+  // hold back the answer to the 20 kN edit for 1.5 s; the 22 kN edit after it is answered at once
+  await page.setRequestInterception(true);
+  let held = 0;
+  page.on('request', (r) => {
+    if (r.method() === 'POST' && r.url().endsWith('/api/v1/evaluations') && (r.postData() ?? '').includes('"20 kN"')) {
+      held++;
+      setTimeout(() => r.continue().catch(() => undefined), 1500);
+    } else r.continue().catch(() => undefined);
+  });
+  await typeInto(page, '#f-load', '20 kN');
+  await page.waitForFunction(() => document.getElementById('results-status')!.textContent === 'Evaluating…');
+  const n = await evaluationNumber(page);
+  await typeInto(page, '#f-load', '22 kN');
+  await waitForEvaluationAfter(page, n);
+  await new Promise((r) => setTimeout(r, 1800)); // the held answer, if the page still wanted it, has arrived by now
+  expect(held).toBe(1);
+  const at22 = (await t.call('POST', '/api/v1/evaluations', { ...design, load: { axial: '22 kN', sense: 'compression' } })).body;
+  // engineering figures (3 or 4 significant): rtol 5e-3
+  expect(Math.abs((await figure(page, 'raise-max')) - at22.torque.raise.atMaxFriction)).toBeLessThanOrEqual(5e-3 * at22.torque.raise.atMaxFriction);
+  expect(await page.$eval('#results-status', (e) => (e as HTMLElement).dataset.current)).toBe('true');
+  await page.setRequestInterception(false);
+});
+
 it('lets the author withdraw a revision awaiting review from "my work" [POST /api/v1/revisions/:id/withdraw]', async () => {
   const design = JSON.parse(readFileSync(join(__dirname, '../fixtures/ok/trapezoidal-jack.json'), 'utf8'));
   const product = (await t.call('POST', '/api/v1/products', { code: 'BW-42', name: 'Brackwater hoist (test product)' })).body;
