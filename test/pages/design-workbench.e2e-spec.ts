@@ -251,6 +251,9 @@ it('takes a design from a new product to an approved second revision and its des
   await tabTo(author, 'input[name="units"][value="SI"]');
   await author.keyboard.press('ArrowDown');
   expect(await text(author, '[data-figure="raise-max"]')).toMatch(/lbf·in$/);
+  // 1 lbf·in = 0.1129848 N·m (NIST SP 811, 2008, B.8); both figures rounded to engineering figures: rtol 1e-2
+  expect((await figure(author, 'raise-max')) * 0.1129848 / raiseAt18).toBeCloseTo(1, 2);
+  expect(await text(author, '[data-figure="nut-pressure"]')).toMatch(/psi$/);
   await author.keyboard.press('ArrowUp');
   expect(await text(author, '[data-figure="raise-max"]')).toMatch(/N·m$/);
   await checkPage(author, 'design-form');
