@@ -305,6 +305,12 @@ it('takes a design from a new product to an approved second revision and its des
   close(await figure(author, 'lowest-factor'), lowest[1]);
   expect(await text(author, '#results-findings')).toContain(rev1.findings.length ? rev1.findings[0].message : 'No findings.');
   await checkPage(author, 'design-form-saved');
+  // the report link: the author reads the report; the decision form is the checking engineer's alone
+  await enterOn(author, '#saved-report');
+  await author.waitForSelector('#revision:not([hidden])');
+  await author.waitForFunction(() => document.getElementById('report-frame')!.getAttribute('srcdoc') !== null);
+  expect(await text(author, '#decision-done')).toBe('This revision awaits review; a checking engineer records the decision.');
+  expect(await author.$eval('#decision', (d) => (d as HTMLElement).hidden)).toBe(true);
 
   // ---- the reviewer rejects revision 1 ----
   const reviewer = await newTab();

@@ -4,7 +4,7 @@ import { $, el, pathId } from './lib-dom.js';
 import { badge, STATES, time, VERDICTS } from './lib-format.js';
 import { renderFindings, sortedFindings } from './lib-findings.js';
 import { clearProblem, showProblem } from './lib-problem.js';
-import { startPage } from './lib-session.js';
+import { currentUser, startPage } from './lib-session.js';
 
 /**
  * The report goes into a sandboxed frame (no scripts, opaque origin) through srcdoc, which inherits this page's
@@ -170,7 +170,12 @@ async function revisionPage() {
     $('audit-link').setAttribute('href', '/review/products/' + encodeURIComponent(rev.productId) + '/audit');
     renderFindings($('findings'), rev.findings);
     $('revision').hidden = false;
-    if (rev.review.state === 'submitted') {
+    const me = currentUser();
+    if (rev.review.state === 'submitted' && me && !me.roles.includes('reviewer')) {
+      const done = $('decision-done');
+      done.textContent = 'This revision awaits review; a checking engineer records the decision.';
+      done.hidden = false;
+    } else if (rev.review.state === 'submitted') {
       setUpDecision(rev, function () {
         loadHeader().catch(function (err) {
           showProblem(problemSlot, err);
