@@ -114,3 +114,17 @@ it('documents the routes the workbench added in the OpenAPI description [GET /ap
   expect(paths['/api/v1/products/{id}/design-file.pdf'].get).toBeTruthy();
   expect(paths['/api/v1/products'].get.summary).toContain('q:');
 });
+
+it('answers "my revisions" by state on the embedded database too (PGlite) [GET /api/v1/me/revisions]', async () => {
+  const p = await startTestApp('pglite');
+  try {
+    const product = (await p.call('POST', '/api/v1/products', { code: 'WB-P', name: 'Embedded check (test product)' })).body;
+    const opened = (await p.call('POST', `/api/v1/products/${product.id}/calculations`, { title: 'Screw', design: clearDesign })).body;
+    await p.call('POST', `/api/v1/revisions/${opened.revisionId}/decisions`, { decision: 'reject', comment: 'Too short a nut.' }, { as: 'reviewer' });
+    const rejected = (await p.call('GET', '/api/v1/me/revisions?state=rejected')).body.items;
+    expect(rejected.map((i: { revisionId: string; comments: { text: string }[] }) => [i.revisionId, i.comments.map((c) => c.text)])).toEqual([[opened.revisionId, ['Too short a nut.']]]);
+    expect((await p.call('GET', '/api/v1/me/revisions?state=submitted')).body.items).toEqual([]);
+  } finally {
+    await p.close();
+  }
+}, 60_000);

@@ -51,23 +51,28 @@ export class MyWorkService {
 
   async revisions(authorId: string, query: unknown): Promise<{ items: MyRevision[] }> {
     const q = validate(myRevisionsQuerySchema, query);
+    // The review state is derived as everywhere else (closure, else superseded, else submitted), then filtered.
     const rows = await this.db.query<Record<string, any>>(
-      `SELECT r.id, r.revision, r.calculation_id, c.title, r.product_id, p.code, p.name, r.note, r.verdict, r.findings, r.hash,
-              ${TS_TEXT('r.created_at')} AS created_at, x.kind AS closure, ${SUPERSEDED('r')} AS superseded, d.actor AS decided_by,
-              ${TS_TEXT('x.created_at')} AS decided_at,
-              (SELECT coalesce(json_agg(json_build_object('type', e.type, 'actor', e.actor, 'at', ${TS_TEXT('e.created_at')}, 'data', e.data) ORDER BY e.seq), '[]'::json)
-                 FROM events e WHERE e.revision_id = r.id AND e.type IN ('comment', 'approved', 'rejected')
-                  AND e.actor_id IS DISTINCT FROM r.author_id) AS remarks
-         FROM revisions r JOIN calculations c ON c.id = r.calculation_id JOIN products p ON p.id = r.product_id
-         LEFT JOIN revision_closures x ON x.revision_id = r.id
-         LEFT JOIN events d ON d.id = x.event_id
-        WHERE r.author_id = $1
-        ORDER BY r.created_at DESC, r.seq DESC
-        LIMIT $2`,
-      [authorId, q.state ? 500 : q.limit],
+      `SELECT * FROM (
+         SELECT r.id, r.revision, r.calculation_id, c.title, r.product_id, p.code, p.name, r.note, r.verdict, r.findings, r.hash, r.seq,
+                r.created_at AS created, ${TS_TEXT('r.created_at')} AS created_at, x.kind AS closure, d.actor AS decided_by,
+                ${TS_TEXT('x.created_at')} AS decided_at,
+                coalesce(x.kind, CASE WHEN ${SUPERSEDED('r')} THEN 'superseded' ELSE 'submitted' END) AS state,
+                (SELECT coalesce(json_agg(json_build_object('type', e.type, 'actor', e.actor, 'at', ${TS_TEXT('e.created_at')}, 'data', e.data) ORDER BY e.seq), '[]'::json)
+                   FROM events e WHERE e.revision_id = r.id AND e.type IN ('comment', 'approved', 'rejected')
+                    AND e.actor_id IS DISTINCT FROM r.author_id) AS remarks
+           FROM revisions r JOIN calculations c ON c.id = r.calculation_id JOIN products p ON p.id = r.product_id
+           LEFT JOIN revision_closures x ON x.revision_id = r.id
+           LEFT JOIN events d ON d.id = x.event_id
+          WHERE r.author_id = $1
+       ) mine
+       WHERE $2::text IS NULL OR state = $2
+       ORDER BY created DESC, seq DESC
+       LIMIT $3`,
+      [authorId, q.state ?? null, q.limit],
     );
     const items = rows.map((r): MyRevision => {
-      const state: ReviewState = r.closure ?? (r.superseded ? 'superseded' : 'submitted');
+      const state = r.state as ReviewState;
       const comments: ReviewerComment[] = [];
       for (const e of (typeof r.remarks === 'string' ? JSON.parse(r.remarks) : r.remarks) as { type: string; actor: any; at: string; data: any }[]) {
         if (e.type === 'comment') comments.push({ by: e.actor, at: e.at, kind: 'comment', text: e.data.text, target: e.data.target ?? null });
@@ -84,6 +89,6 @@ export class MyWorkService {
         decidedBy: r.closure ? (r.decided_by ?? null) : null, decidedAt: r.closure ? r.decided_at : null, comments, canWithdraw: state === 'submitted',
       };
     });
-    return { items: (q.state ? items.filter((i) => i.state === q.state) : items).slice(0, q.limit) };
+    return { items };
   }
 }
