@@ -33,8 +33,11 @@ function status(ok, good, bad) {
   return ok === null ? el('span', { class: 'muted' }, 'not checked') : el('span', { class: ok ? 'ok-word' : 'bad-word' }, ok ? good : bad);
 }
 
+/** One figure: what it is, its values, and beside them what it is held against and the status in words. */
 function row(label, values, against, verdict) {
-  return el('tr', {}, el('th', { scope: 'row' }, label), el('td', {}, values), el('td', {}, against || ''), el('td', {}, verdict || ''));
+  const note = el('td', { class: 'against' }, against || '');
+  if (verdict) note.append(against ? el('br') : '', verdict);
+  return el('tr', {}, el('th', { scope: 'row' }, label), el('td', {}, values), note);
 }
 
 /** Fills the panel from one evaluation answer (SI) in the chosen display system ('SI' or 'US'). */
