@@ -53,6 +53,14 @@ export const thresholdsSchema = z
       min: positive('fewest engaged threads before a warning'),
       max: positive('most engaged threads before a warning'),
     }),
+    // Added in 2026.12-2. Optional so that earlier definitions (2026.12-1) still parse unchanged; a rule reads an
+    // absent group through its accessor below, which falls back to the safe default named there.
+    nutThreads: z
+      .strictObject({
+        minSafetyFactor: byDuty("static yield factor of safety of the nut's own threads (root bending, shear)"),
+      })
+      .optional()
+      .describe('added in 2026.12-2; absent in earlier versions (the screw-thread strength minimum then applies)'),
   })
   .superRefine((t, ctx) => {
     const issue = (path: PropertyKey[], message: string) => ctx.addIssue({ code: 'custom', path, message });
@@ -81,10 +89,11 @@ export const ruleSetDefinitionSchema = z.strictObject({
 export type RuleSet = z.infer<typeof ruleSetDefinitionSchema>;
 
 /**
- * The rule set the service starts with. Defaults sit on the safe side; each number names its basis.
+ * The first rule set, kept as data: revisions judged under it name it, and it must keep parsing and meaning
+ * what it meant. Never change this definition; a change is a new version (below).
  * "From memory" marks a source recalled rather than read during this work.
  */
-export const DEFAULT_RULE_SET: RuleSet = {
+export const RULE_SET_2026_12_1: RuleSet = {
   version: '2026.12-1',
   description:
     'First Leadline rule set: self-locking on lifting duty, static strength, column buckling, whirl speed, nut wear, ' +
@@ -144,6 +153,40 @@ export const DEFAULT_RULE_SET: RuleSet = {
     },
   },
 };
+
+/**
+ * The rule set the service starts with (issue 13 corrections): every 2026.12-1 threshold unchanged, plus the
+ * thresholds of the checks added with it. Defaults sit on the safe side; each number names its basis.
+ */
+export const RULE_SET_2026_12_2: RuleSet = {
+  version: '2026.12-2',
+  description:
+    'Engineering corrections: nut bearing pressure against the rubbing speed, worse root fillet, short-nut first-thread ' +
+    "share, stripping on the standard shear planes, the nut's own threads, minimum material values, tolerance classes, " +
+    'missing values block on lifting duty; every 2026.12-1 threshold kept.',
+  thresholds: {
+    ...RULE_SET_2026_12_1.thresholds,
+    nutThreads: {
+      // Issue 13 item 5: the nut's threads carry the same load as the screw's, so they take the same factors as the
+      // screw threads (strength.minSafetyFactor above, common practice by analogy with ASME BTH-1, from memory).
+      minSafetyFactor: { ...RULE_SET_2026_12_1.thresholds.strength.minSafetyFactor },
+    },
+  },
+};
+
+/** Rule sets built into the service, oldest first; the service stores each of them at start. */
+export const BUILT_IN_RULE_SETS: readonly RuleSet[] = Object.freeze([RULE_SET_2026_12_1, RULE_SET_2026_12_2]);
+
+/** The rule set new submissions are judged by until an admin adopts another. */
+export const DEFAULT_RULE_SET: RuleSet = RULE_SET_2026_12_2;
+
+/**
+ * Minimum factors for the nut's own threads. A definition without the group (2026.12-1) falls back to the
+ * screw-thread strength minimum, the same factor the group's default carries.
+ */
+export function nutThreadMinSafetyFactor(t: Thresholds): Thresholds['strength']['minSafetyFactor'] {
+  return t.nutThreads?.minSafetyFactor ?? t.strength.minSafetyFactor;
+}
 
 /** Result of validating a posted rule set: the rule set, or issues with dotted field paths. */
 export type RuleSetParseResult =
