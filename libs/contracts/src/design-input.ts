@@ -16,6 +16,7 @@ import {
   type Design,
   type Dimension,
   type FrictionRange,
+  type PressureSpeedPoint,
 } from '@leadline/mechanics';
 import { z } from 'zod';
 
@@ -67,8 +68,23 @@ export const designInputSchema = z.strictObject({
   collar: collarSchema,
   nut: z.strictObject({
     length: length('nut length (engaged)'),
-    material: z.string().max(60).optional().describe('nut material id from the library, e.g. "bronze"'),
-    allowablePressure: quantity('stress', 'allowable mean bearing pressure (overrides the material)').optional(),
+    material: z
+      .string()
+      .max(60)
+      .optional()
+      .describe('nut material: a library id, e.g. "bronze", or a name of the design\'s own (then give the allowables the checks need)'),
+    allowablePressure: quantity('stress', 'allowable mean bearing pressure, used at any rubbing speed (overrides the material)').optional(),
+    allowablePressureBySpeed: z
+      .array(
+        z.strictObject({
+          upToRubbingSpeed: quantity('linearSpeed', 'highest rubbing speed at the mean diameter this allowable covers (omit on the last: any higher speed)').optional(),
+          allowablePressure: quantity('stress', 'allowable mean bearing pressure up to that rubbing speed'),
+        }),
+      )
+      .min(1)
+      .max(12)
+      .optional()
+      .describe('allowable pressure against rubbing speed, slowest first (overrides the material)'),
     allowablePv: quantity('pv', 'allowable pV at the mean diameter, e.g. "2.5 MPa*m/s" (overrides the material)').optional(),
     yieldStrength: quantity('stress', 'nut material yield strength (overrides the material)').optional(),
   }),
@@ -107,14 +123,41 @@ function pathOf(path: readonly PropertyKey[]): string {
   return path.map(String).join('.');
 }
 
+interface RawIssue {
+  readonly code?: string;
+  readonly path: readonly PropertyKey[];
+  readonly message: string;
+  readonly errors?: readonly (readonly RawIssue[])[];
+}
+
+/**
+ * Field issues from zod's, with a failed choice (a union such as a friction range typed in or a library entry)
+ * replaced by the issues of the branch the input meant: the one whose failures are fewest, counting a wrong or
+ * unknown key at the branch's own level as a mismatch of shape. So `"min": "NaN"` is reported at friction.collar.min.
+ */
+function fieldIssues(issues: readonly RawIssue[], prefix: readonly PropertyKey[] = []): FieldIssue[] {
+  const out: FieldIssue[] = [];
+  for (const issue of issues) {
+    const path = [...prefix, ...issue.path];
+    if (issue.code === 'invalid_union' && issue.errors && issue.errors.length > 0) {
+      const score = (branch: readonly RawIssue[]) =>
+        branch.reduce((n, i) => n + (i.path.length === 0 || i.code === 'unrecognized_keys' ? 100 : 1), 0);
+      const best = [...issue.errors].sort((a, b) => score(a) - score(b))[0];
+      if (best.length > 0 && score(best) < 100) {
+        out.push(...fieldIssues(best, path));
+        continue;
+      }
+    }
+    out.push({ path: pathOf(path) || '(body)', message: issue.message });
+  }
+  return out;
+}
+
 /** Validates a raw design input and converts it to engine units; never throws on bad input. */
 export function parseDesign(raw: unknown): DesignParseResult {
   const shape = designInputSchema.safeParse(raw);
   if (!shape.success) {
-    return {
-      success: false,
-      issues: shape.error.issues.map((i) => ({ path: pathOf(i.path) || '(body)', message: i.message })),
-    };
+    return { success: false, issues: fieldIssues(shape.error.issues as readonly RawIssue[]) };
   }
   return normalizeDesign(shape.data);
 }
@@ -226,15 +269,58 @@ function normalizeDesign(input: Parsed): DesignParseResult {
       collar = { kind: 'none' };
   }
 
-  // Nut, with its library material
-  const nutMaterial = input.nut.material === undefined ? null : findNutMaterial(input.nut.material);
-  if (nutMaterial === undefined) issues.push({ path: 'nut.material', message: `unknown nut material "${input.nut.material}" (see GET /api/v1/materials)` });
+  // Nut: a library material supplies what the design does not give; any other name is the design's own material,
+  // accepted when the design gives the values the wear checks need (allowable pressure; pV too when a speed is given)
+  const n = input.nut;
+  const nutMaterial = n.material === undefined ? null : findNutMaterial(n.material);
+  const speedGiven = input.duty.speed !== undefined || input.duty.linearSpeed !== undefined;
+  if (nutMaterial === undefined) {
+    const needs = [
+      n.allowablePressure === undefined && n.allowablePressureBySpeed === undefined ? 'nut.allowablePressure (or nut.allowablePressureBySpeed)' : null,
+      speedGiven && n.allowablePv === undefined ? 'nut.allowablePv (a speed is given)' : null,
+    ].filter((x): x is string => x !== null);
+    if (needs.length > 0) {
+      issues.push({
+        path: 'nut.material',
+        message: `"${n.material}" is not a library nut material (see GET /api/v1/materials); as a material of the design's own it needs ${needs.join(' and ')}`,
+      });
+    }
+  }
+  if (n.allowablePressure !== undefined && n.allowablePressureBySpeed !== undefined) {
+    issues.push({ path: 'nut.allowablePressureBySpeed', message: 'give either nut.allowablePressure (any speed) or nut.allowablePressureBySpeed, not both' });
+  }
+  let ownSteps: PressureSpeedPoint[] | null = null;
+  if (n.allowablePressureBySpeed !== undefined) {
+    ownSteps = n.allowablePressureBySpeed.map((step, i) => {
+      const at = `nut.allowablePressureBySpeed.${i}`;
+      const upTo = opt(step.upToRubbingSpeed, 'linearSpeed', `${at}.upToRubbingSpeed`);
+      if (upTo === null && i < n.allowablePressureBySpeed!.length - 1) {
+        issues.push({ path: `${at}.upToRubbingSpeed`, message: 'only the last step may omit its speed (it then covers any higher speed)' });
+      }
+      return { upToRubbingSpeed: upTo, allowablePressure: q(step.allowablePressure, 'stress', `${at}.allowablePressure`), application: upTo === null ? 'design value, any higher speed' : 'design value', source: `design input (${at})` };
+    });
+    ownSteps.forEach((step, i) => {
+      const before = ownSteps![i - 1];
+      if (!before) return;
+      const at = `nut.allowablePressureBySpeed.${i}`;
+      if (before.upToRubbingSpeed !== null && step.upToRubbingSpeed !== null && !(step.upToRubbingSpeed > before.upToRubbingSpeed)) {
+        issues.push({ path: `${at}.upToRubbingSpeed`, message: 'steps must run from low to high speed' });
+      }
+      if ((step.allowablePressure ?? 0) > (before.allowablePressure ?? 0)) {
+        issues.push({ path: `${at}.allowablePressure`, message: 'must not exceed the allowable at a lower speed (the allowable never rises with speed)' });
+      }
+    });
+    ownSteps = ownSteps.map((step) => ({ ...step, application: `the design's own value up to ${step.upToRubbingSpeed === null ? 'any speed' : `${Number((step.upToRubbingSpeed * 60).toPrecision(4))} m/min`}` }));
+  }
+  const ownPressure = opt(n.allowablePressure, 'stress', 'nut.allowablePressure');
   const nut: Design['nut'] = {
-    length: q(input.nut.length, 'length', 'nut.length'),
-    material: input.nut.material ?? null,
-    allowablePressure: opt(input.nut.allowablePressure, 'stress', 'nut.allowablePressure') ?? nutMaterial?.allowablePressure ?? null,
-    allowablePv: opt(input.nut.allowablePv, 'pv', 'nut.allowablePv') ?? nutMaterial?.allowablePv ?? null,
-    yieldStrength: opt(input.nut.yieldStrength, 'stress', 'nut.yieldStrength') ?? nutMaterial?.yieldStrength ?? null,
+    length: q(n.length, 'length', 'nut.length'),
+    material: n.material ?? null,
+    materialSource: n.material === undefined ? null : nutMaterial ? 'library' : 'design',
+    allowablePressure: ownPressure,
+    pressureBySpeed: ownPressure !== null ? null : (ownSteps ?? (nutMaterial && nutMaterial.pressureBySpeed.length > 0 ? nutMaterial.pressureBySpeed : null)),
+    allowablePv: opt(n.allowablePv, 'pv', 'nut.allowablePv') ?? nutMaterial?.allowablePv ?? null,
+    yieldStrength: opt(n.yieldStrength, 'stress', 'nut.yieldStrength') ?? nutMaterial?.yieldStrength ?? null,
   };
   if (pitch !== null && nut.length < pitch) issues.push({ path: 'nut.length', message: 'the nut must engage at least one full pitch' });
 

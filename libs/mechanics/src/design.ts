@@ -3,6 +3,7 @@
  * design-input schema in libs/contracts after validation and unit conversion.
  */
 import type { FrictionSourceKind } from './friction';
+import type { PressureSpeedPoint } from './materials';
 import type { EndCondition } from './mechanics';
 import type { ThreadForm } from './threads';
 
@@ -41,8 +42,14 @@ export interface Design {
   readonly collar: Collar;
   readonly nut: {
     readonly length: number;
+    /** The material as entered: a library id, or a name of the design's own */
     readonly material: string | null;
+    /** 'library' when material is a library id (it supplies the values not given), 'design' when it is the design's own */
+    readonly materialSource?: 'library' | 'design' | null;
+    /** A single allowable pressure of the design's own, used at any rubbing speed [Pa] */
     readonly allowablePressure: number | null;
+    /** Allowable pressure by rubbing speed (library classes or the design's own pairs); used when allowablePressure is null */
+    readonly pressureBySpeed?: readonly PressureSpeedPoint[] | null;
     readonly allowablePv: number | null;
     readonly yieldStrength: number | null;
   };

@@ -4,9 +4,10 @@
  */
 import type { Design } from './design';
 import * as m from './mechanics';
+import { pressureStepAt } from './materials';
 import { DEG, threadGeometry, threadThicknessAtDepth } from './threads';
 
-export const ENGINE_VERSION = '1.0.0';
+export const ENGINE_VERSION = '1.1.0';
 
 /** A pair of values at the two ends of the friction range. */
 export interface AtFriction {
@@ -44,6 +45,12 @@ export interface Evaluation {
     readonly engagedThreads: number;
     readonly rootThickness: number;
     readonly nutRootThickness: number;
+    /** Basic minor diameter of the nut (internal) thread D1 [m]: where the screw's threads strip */
+    readonly nutMinorDiameter: number;
+    /** Area of the minor-diameter section the strength checks use, pi d_r^2 / 4 [m^2] */
+    readonly minorDiameterArea: number;
+    /** 60 deg threads: tensile stress area of ISO 898-1 / ASME B1.1, for reference only [m^2]; null for other forms */
+    readonly tensileStressArea: number | null;
   };
   readonly torque: {
     readonly raise: AtFriction;
@@ -70,9 +77,13 @@ export interface Evaluation {
       readonly vonMises: number;
       readonly atMinFriction: { readonly torsion: number; readonly vonMises: number };
     };
-    readonly firstThread: { readonly bearing: number; readonly rootBending: number; readonly rootShear: number; readonly vonMises: number };
+    /** vonMises: the worse of the two root fillets; load: max(0.38 F, F / n_t) [N] */
+    readonly firstThread: { readonly bearing: number; readonly rootBending: number; readonly rootShear: number; readonly vonMises: number; readonly load: number };
+    /** The nut's own threads at their root (first-thread load): bending and transverse shear [Pa] */
+    readonly nutThread: { readonly rootBending: number; readonly rootShear: number };
     readonly mean: { readonly bearing: number; readonly rootBending: number; readonly rootShear: number; readonly vonMises: number };
-    readonly stripping: { readonly screw: number; readonly nut: number };
+    /** Stripping shear on the standard planes; areas over the engaged length [m^2] */
+    readonly stripping: { readonly screw: number; readonly nut: number; readonly screwArea: number; readonly nutArea: number };
   };
   readonly buckling: {
     readonly applies: boolean;
@@ -94,7 +105,13 @@ export interface Evaluation {
     readonly bearingPressure: number;
     readonly slidingVelocity: number | null;
     readonly pv: number | null;
+    /** Allowable mean pressure at the actual rubbing speed [Pa] (the design's single value at any speed) */
     readonly allowablePressure: number | null;
+    /** Which allowable applied: the class of a speed-rated table, or the design's single value at any speed */
+    readonly allowablePressureClass: string | null;
+    readonly allowablePressureSource: string | null;
+    /** 'speed-rated': chosen for the rubbing speed (or the lowest-speed class when no speed is given); 'any-speed': a single value */
+    readonly allowablePressureBasis: 'speed-rated' | 'any-speed' | null;
     readonly allowablePv: number | null;
     readonly pressureRatio: number | null;
     readonly pvRatio: number | null;
@@ -107,6 +124,8 @@ export interface Evaluation {
     readonly firstThreadRoot: number;
     readonly strippingScrew: number;
     readonly strippingNut: number | null;
+    /** Nut's own threads: root bending against S_y and root shear against 0.577 S_y of the nut, the lower; null without a nut yield */
+    readonly nutThreadRoot: number | null;
     readonly buckling: number | null;
   };
   /** Filled by the rules module; the engine itself judges nothing */
@@ -216,10 +235,10 @@ export function evaluate(design: Design): Evaluation {
       bearing: m.threadBearingStress(Ft, dm, h),
       rootBending: bending,
       rootShear: m.threadRootShear(Ft, dr, b),
-      vonMises: m.rootVonMises(bending, axial, torsion),
+      vonMises: m.rootVonMisesWorseFillet(bending, axial, torsion),
     };
   };
-  const Ffirst = 0.38 * F;
+  const Ffirst = m.firstThreadLoad(F, nt);
   const Fmean = F / nt;
   const first = threadStresses(Ffirst);
   const mean = threadStresses(Fmean);
@@ -233,10 +252,23 @@ export function evaluate(design: Design): Evaluation {
       tau: torsion,
     });
   }
-  const stripScrew = m.strippingShear(F, dr, b, nt);
-  const stripNut = m.strippingShear(F, g.nutMajorDiameter, bNut, nt);
-  t('stresses.stripping.screw', 'thread-stripping-screw', { F, d_r: dr, b, n_t: nt });
-  t('stresses.stripping.nut', 'thread-stripping-nut', { F, D: g.nutMajorDiameter, b_n: bNut, n_t: nt });
+  t('stresses.firstThread.load', 'thread-load-share-first', { F, n_t: nt });
+  // Stripping on the standard shear planes: the screw's threads at the nut's minor diameter, the nut's at the screw's major
+  const D1 = g.nutMinorDiameter;
+  const tScrew = threadThicknessAtDepth(g, (dm - D1) / 2);
+  const tNut = threadThicknessAtDepth(g, (g.majorDiameter - dm) / 2);
+  const stripScrewArea = m.strippingArea(D1, tScrew, nt);
+  const stripNutArea = m.strippingArea(g.majorDiameter, tNut, nt);
+  const stripScrew = F / stripScrewArea;
+  const stripNut = F / stripNutArea;
+  t('stresses.stripping.screw', 'thread-stripping-screw', { F, D_1: D1, t_s: tScrew, n_t: nt });
+  t('stresses.stripping.nut', 'thread-stripping-nut', { F, d: g.majorDiameter, t_n: tNut, n_t: nt });
+  // The nut's own threads: a cantilever of width pi D4 from the nut root to the pitch line, first-thread load
+  const nutArm = (g.nutMajorDiameter - dm) / 2;
+  const nutBending = m.threadRootBending(Ffirst, g.nutMajorDiameter, nutArm, bNut);
+  const nutShear = m.threadRootShear(Ffirst, g.nutMajorDiameter, bNut);
+  t('stresses.nutThread.rootBending', 'nut-thread-root-bending', { F_t: Ffirst, D_4: g.nutMajorDiameter, a_n: nutArm, b_n: bNut });
+  t('stresses.nutThread.rootShear', 'nut-thread-root-shear', { F_t: Ffirst, D_4: g.nutMajorDiameter, b_n: bNut });
 
   // Column
   const C = m.END_CONDITION_CONSTANT[screw.endConditionBasis][screw.ends];
@@ -274,6 +306,19 @@ export function evaluate(design: Design): Evaluation {
   const pressure = m.nutBearingPressure(F, dm, h, nt);
   const vs = n === null ? null : m.slidingVelocity(dm, n, lambda);
   const pv = vs === null ? null : pressure * vs;
+  // Allowable pressure: the design's single value at any speed, else the speed-rated step for the actual rubbing speed
+  const step = nut.allowablePressure === null && nut.pressureBySpeed ? pressureStepAt(nut.pressureBySpeed, vs) : null;
+  const allowablePressure = nut.allowablePressure ?? step?.allowablePressure ?? null;
+  const allowablePressureBasis = nut.allowablePressure !== null ? 'any-speed' : step ? 'speed-rated' : null;
+  const allowablePressureClass =
+    nut.allowablePressure !== null
+      ? "the design's own value, used at any rubbing speed"
+      : step === null
+        ? null
+        : vs === null
+          ? `${step.application}; no operating speed was given, so the lowest-speed class is assumed`
+          : step.application;
+  const allowablePressureSource = nut.allowablePressure !== null ? 'design input (nut.allowablePressure)' : (step?.source ?? null);
   t('wear.bearingPressure', 'nut-bearing-pressure', { F, d_m: dm, h, n_t: nt });
   if (vs !== null) {
     t('wear.slidingVelocity', 'sliding-velocity', { d_m: dm, n: n as number, lambda: lambda / DEG });
@@ -313,6 +358,9 @@ export function evaluate(design: Design): Evaluation {
       engagedThreads: nt,
       rootThickness: b,
       nutRootThickness: bNut,
+      nutMinorDiameter: g.nutMinorDiameter,
+      minorDiameterArea: area,
+      tensileStressArea: g.form === 'iso-metric' || g.form === 'unified' ? m.tensileStressArea60(g.majorDiameter, p, g.form) : null,
     },
     torque: {
       raise,
@@ -334,9 +382,10 @@ export function evaluate(design: Design): Evaluation {
     },
     stresses: {
       body: { axial, torsion, vonMises: bodyVm, atMinFriction: { torsion: torsionMin, vonMises: m.vonMisesAxialTorsion(axial, torsionMin) } },
-      firstThread: first,
+      firstThread: { ...first, load: Ffirst },
+      nutThread: { rootBending: nutBending, rootShear: nutShear },
       mean,
-      stripping: { screw: stripScrew, nut: stripNut },
+      stripping: { screw: stripScrew, nut: stripNut, screwArea: stripScrewArea, nutArea: stripNutArea },
     },
     buckling: {
       applies: compressed,
@@ -353,9 +402,12 @@ export function evaluate(design: Design): Evaluation {
       bearingPressure: pressure,
       slidingVelocity: vs,
       pv,
-      allowablePressure: nut.allowablePressure,
+      allowablePressure,
+      allowablePressureClass,
+      allowablePressureSource,
+      allowablePressureBasis,
       allowablePv: nut.allowablePv,
-      pressureRatio: nut.allowablePressure === null ? null : pressure / nut.allowablePressure,
+      pressureRatio: allowablePressure === null ? null : pressure / allowablePressure,
       pvRatio: pv === null || nut.allowablePv === null ? null : pv / nut.allowablePv,
     },
     power: { input: inputPower, linearSpeed, rotationalSpeed: rpm },
@@ -365,6 +417,8 @@ export function evaluate(design: Design): Evaluation {
       firstThreadRoot: screw.yieldStrength / first.vonMises,
       strippingScrew: shearYield / stripScrew,
       strippingNut: nut.yieldStrength === null ? null : (SHEAR_YIELD_RATIO * nut.yieldStrength) / stripNut,
+      nutThreadRoot:
+        nut.yieldStrength === null ? null : Math.min(nut.yieldStrength / nutBending, (SHEAR_YIELD_RATIO * nut.yieldStrength) / nutShear),
       buckling: bucklingFactor,
     },
     findings: [],
