@@ -96,6 +96,8 @@ export const designInputSchema = z.strictObject({
     unsupportedLength: length('unsupported length between supports (column and shaft length)'),
     ends: z.enum(END_CONDITIONS),
     endConditionBasis: z.enum(['recommended', 'theoretical']).optional(),
+    whirlSpan: length('rotating span between the bearings, for whirl (default: screw.unsupportedLength)').optional(),
+    whirlEnds: z.enum(END_CONDITIONS).optional().describe('end conditions of the rotating span, for whirl (default: screw.ends)'),
   }),
   duty: z.strictObject({
     kind: z.enum(['lifting', 'positioning', 'clamping']),
@@ -103,8 +105,24 @@ export const designInputSchema = z.strictObject({
     linearSpeed: quantity('linearSpeed', 'nut travel speed').optional(),
     brake: z.boolean(),
     vibration: z.boolean().optional(),
+    brakeTorque: quantity('torque', 'rated static torque of the brake, at the shaft it sits on (needs duty.brake true)').optional(),
+    brakeLocation: z.enum(['screw', 'motor']).optional().describe('shaft the brake sits on: "screw" (default) or "motor" (ahead of drive.gearbox)'),
   }),
-  drive: z.strictObject({ availableTorque: quantity('torque', 'torque the drive can deliver at start') }).optional(),
+  drive: z
+    .strictObject({
+      availableTorque: quantity('torque', 'torque the drive can deliver at start (at the motor shaft when drive.gearbox is given)'),
+      loadMass: quantity('mass', 'mass moved with the nut (default on lifting duty: load.axial / g)').optional(),
+      accelerationTime: quantity('time', 'time to reach the operating speed (needs duty.speed or duty.linearSpeed)').optional(),
+      acceleration: quantity('linearAcceleration', 'linear acceleration of the nut').optional(),
+      gearbox: z
+        .strictObject({
+          ratio: z.number().finite().positive('ratio must be greater than zero').max(10000).describe('motor speed over screw speed'),
+          efficiency: z.number().finite().positive('efficiency must be within 0..1 (above 0)').max(1, 'efficiency must be within 0..1').describe('forward efficiency, motor driving'),
+          reverseEfficiency: z.number().finite().positive('efficiency must be within 0..1 (above 0)').max(1, 'efficiency must be within 0..1').describe('reverse efficiency, load driving the gearbox backwards'),
+        })
+        .optional(),
+    })
+    .optional(),
 });
 
 export type DesignInput = z.input<typeof designInputSchema>;
@@ -181,7 +199,7 @@ function normalizeDesign(input: Parsed): DesignParseResult {
       return NaN;
     }
     if (r.usCustomary) us++;
-    else if (dimension !== 'rotationalSpeed' && dimension !== 'angle') si++;
+    else if (dimension !== 'rotationalSpeed' && dimension !== 'angle' && dimension !== 'time') si++;
     return r.si;
   };
   const opt = (text: string | undefined, dimension: Dimension, path: string): number | null =>
@@ -343,6 +361,8 @@ function normalizeDesign(input: Parsed): DesignParseResult {
     unsupportedLength: q(s.unsupportedLength, 'length', 'screw.unsupportedLength'),
     ends: s.ends,
     endConditionBasis: s.endConditionBasis ?? 'recommended',
+    whirlSpan: opt(s.whirlSpan, 'length', 'screw.whirlSpan'),
+    whirlEnds: s.whirlEnds ?? null,
   };
 
   // Duty
@@ -356,10 +376,29 @@ function normalizeDesign(input: Parsed): DesignParseResult {
     linearSpeed: opt(d.linearSpeed, 'linearSpeed', 'duty.linearSpeed'),
     brake: d.brake,
     vibration: d.vibration ?? false,
+    brakeTorque: opt(d.brakeTorque, 'torque', 'duty.brakeTorque'),
+    brakeLocation: d.brakeLocation ?? 'screw',
   };
 
   const axial = q(input.load.axial, 'force', 'load.axial');
-  const drive = input.drive ? { availableTorque: q(input.drive.availableTorque, 'torque', 'drive.availableTorque') } : null;
+  if (d.brakeTorque !== undefined && !d.brake) issues.push({ path: 'duty.brakeTorque', message: 'a brake torque needs duty.brake true' });
+  if (d.brakeLocation === 'motor' && !d.brake) issues.push({ path: 'duty.brakeLocation', message: 'a brake location needs duty.brake true' });
+  const dr = input.drive;
+  if (dr?.accelerationTime !== undefined && dr.acceleration !== undefined) {
+    issues.push({ path: 'drive.acceleration', message: 'give either drive.accelerationTime or drive.acceleration, not both' });
+  }
+  if (dr?.accelerationTime !== undefined && d.speed === undefined && d.linearSpeed === undefined) {
+    issues.push({ path: 'drive.accelerationTime', message: 'a time to speed needs the operating speed: give duty.speed or duty.linearSpeed' });
+  }
+  const drive: Design['drive'] = dr
+    ? {
+        availableTorque: q(dr.availableTorque, 'torque', 'drive.availableTorque'),
+        loadMass: opt(dr.loadMass, 'mass', 'drive.loadMass'),
+        accelerationTime: opt(dr.accelerationTime, 'time', 'drive.accelerationTime'),
+        acceleration: opt(dr.acceleration, 'linearAcceleration', 'drive.acceleration'),
+        gearbox: dr.gearbox ?? null,
+      }
+    : null;
   if (issues.length > 0 || majorDiameter === null || pitch === null || threadFriction === null) {
     return { success: false, issues };
   }

@@ -61,6 +61,10 @@ export interface Design {
     readonly unsupportedLength: number;
     readonly ends: EndCondition;
     readonly endConditionBasis: 'recommended' | 'theoretical';
+    /** Rotating span between the bearings for whirl [m]; absent or null: the column's unsupported length */
+    readonly whirlSpan?: number | null;
+    /** End conditions of the rotating span for whirl; absent or null: the column's ends */
+    readonly whirlEnds?: EndCondition | null;
   };
   readonly duty: {
     readonly kind: DutyKind;
@@ -70,8 +74,23 @@ export interface Design {
     readonly linearSpeed: number | null;
     readonly brake: boolean;
     readonly vibration: boolean;
+    /** Rated static torque of the brake [N*m] at the shaft it sits on, when given */
+    readonly brakeTorque?: number | null;
+    /** Shaft the brake sits on: the screw (default) or the motor, ahead of the gearbox */
+    readonly brakeLocation?: 'screw' | 'motor';
   };
-  readonly drive: { readonly availableTorque: number } | null;
+  readonly drive: {
+    /** Torque the drive delivers at start [N*m]: at the motor shaft when a gearbox is given, else at the screw */
+    readonly availableTorque: number;
+    /** Mass moved with the nut [kg]; absent or null: F / g on lifting duty, not included otherwise */
+    readonly loadMass?: number | null;
+    /** Time to reach the operating speed [s] */
+    readonly accelerationTime?: number | null;
+    /** Linear acceleration of the nut [m/s^2] */
+    readonly acceleration?: number | null;
+    /** Gearbox between motor and screw: ratio motor/screw speed, forward and reverse efficiency */
+    readonly gearbox?: { readonly ratio: number; readonly efficiency: number; readonly reverseEfficiency: number } | null;
+  } | null;
   /** The unit system the design was entered in; reports answer in the same one */
   readonly unitSystem: 'SI' | 'US';
 }

@@ -4,6 +4,9 @@
  */
 import type { Design } from './design';
 import * as m from './mechanics';
+import * as brakeMath from './brake';
+import * as driveMath from './drive';
+import * as whirl from './whirl';
 import { pressureStepAt } from './materials';
 import { DEG, threadGeometry, threadThicknessAtDepth } from './threads';
 
@@ -100,6 +103,22 @@ export interface Evaluation {
     readonly frequencyFactor: number;
     readonly operatingRpm: number | null;
     readonly ratio: number | null;
+    /** Rotating span between bearings [m] (the column's unsupported length unless stated) */
+    readonly span: number;
+    /** End conditions of the rotating span (the column's unless stated) */
+    readonly ends: m.EndCondition;
+    /**
+     * Fixed ends taken as only partly fixed (common practice), where the column uses the recommended basis and an
+     * end is fixed: simply supported shaft over L / sqrt(C_recommended); null otherwise
+     */
+    readonly partlyFixed: {
+      readonly rpm: number;
+      readonly frequencyFactor: number;
+      /** n_c' / n_c [-] */
+      readonly factor: number;
+      readonly endConditionConstant: number;
+      readonly ratio: number | null;
+    } | null;
   };
   readonly wear: {
     readonly bearingPressure: number;
@@ -117,7 +136,47 @@ export interface Evaluation {
     readonly pvRatio: number | null;
   };
   readonly power: { readonly input: number | null; readonly linearSpeed: number | null; readonly rotationalSpeed: number | null };
-  readonly drive: { readonly availableTorque: number; readonly requiredTorque: number; readonly margin: number } | null;
+  /** Holding the load: always reported (whether or not a brake is fitted) */
+  readonly brake: {
+    /** Torque the load exerts with thread friction lost (f -> 0): F l / (2 pi) [N*m] */
+    readonly holdingTorqueNoFriction: number;
+    /** Torque a brake must hold at minimum thread friction, collar ignored (0 when self-locking) [N*m] */
+    readonly holdingTorqueMinFriction: number;
+    /** Reverse (back-driving) efficiency at minimum thread friction; <= 0 means the load cannot drive the screw */
+    readonly reverseEfficiency: number;
+    readonly location: 'screw' | 'motor';
+    /** Zero-friction holding torque at the brake's shaft (through the gearbox's reverse efficiency on the motor) [N*m] */
+    readonly requiredTorque: number;
+    /** Rated brake torque as stated [N*m], else null */
+    readonly ratedTorque: number | null;
+    /** ratedTorque / requiredTorque, else null */
+    readonly ratio: number | null;
+  };
+  readonly drive: {
+    readonly availableTorque: number;
+    /** Torque the drive must deliver: peak torque at the motor (steady raise torque when nothing accelerates and no gearbox) */
+    readonly requiredTorque: number;
+    readonly margin: number;
+    /** Raise torque at maximum friction, collar included, at the screw [N*m] */
+    readonly steadyTorque: number;
+    /** Mass moved with the nut [kg]: stated, F / g on lifting duty, else null (not included) */
+    readonly loadMass: number | null;
+    readonly loadMassBasis: 'stated' | 'weight' | 'not-included';
+    /** Angular acceleration of the screw [rad/s^2], null when none is given */
+    readonly angularAcceleration: number | null;
+    readonly screwInertia: number;
+    /** Load inertia referred to the screw [kg*m^2], null without a load mass */
+    readonly loadInertia: number | null;
+    /** Torque to accelerate screw and load, at the screw [N*m] (0 when no acceleration is given) */
+    readonly accelerationTorque: number;
+    /** Steady plus acceleration torque at the screw [N*m] */
+    readonly peakTorque: number;
+    readonly gearbox: { readonly ratio: number; readonly efficiency: number; readonly reverseEfficiency: number } | null;
+    /** Peak torque referred to the motor through the gearbox [N*m] (= peakTorque without one) */
+    readonly peakTorqueAtMotor: number;
+    /** Zero-friction holding torque referred to the motor through the gearbox's reverse efficiency [N*m] */
+    readonly holdingTorqueAtMotor: number;
+  } | null;
   /** Capacity over demand for each strength check (yield-based; shear against 0.577 S_y) */
   readonly safetyFactors: {
     readonly bodyVonMises: number;
@@ -216,6 +275,23 @@ export function evaluate(design: Design): Evaluation {
   t('selfLocking.margin', 'self-locking-margin', { f_min: fMin, lambda: lambda / DEG, alpha_n: alphaN / DEG });
   if (!locks) t('selfLocking.backDrivingTorque', 'back-driving-torque', threadInputs(fMin));
 
+  // Holding the load: always reported; the brake's requirement takes thread friction as lost (f -> 0)
+  const gearbox = design.drive?.gearbox ?? null;
+  const holdNoFriction = brakeMath.holdingTorqueNoFriction(F, l);
+  const holdMinFriction = brakeMath.holdingTorqueAtFriction(F, dm, l, fMin, alphaN);
+  const reverseEff = brakeMath.reverseEfficiency(F, dm, l, fMin, alphaN);
+  const holdAtMotor = gearbox ? driveMath.motorHoldingTorqueThroughGearbox(holdNoFriction, gearbox.ratio, gearbox.reverseEfficiency) : holdNoFriction;
+  const brakeLocation = duty.brakeLocation ?? 'screw';
+  const brakeRequired = brakeLocation === 'motor' ? holdAtMotor : holdNoFriction;
+  const brakeRated = duty.brakeTorque ?? null;
+  t('brake.holdingTorqueNoFriction', 'brake-holding-torque-no-friction', { F, l });
+  t('brake.holdingTorqueMinFriction', 'brake-holding-torque-min-friction', threadInputs(fMin));
+  t('brake.reverseEfficiency', 'reverse-efficiency', threadInputs(fMin));
+  if (brakeLocation === 'motor' && gearbox) {
+    t('brake.requiredTorque', 'motor-holding-torque-through-gearbox', { T: holdNoFriction, i: gearbox.ratio, eta_r: gearbox.reverseEfficiency });
+  }
+  if (brakeRated !== null) t('brake.ratio', 'brake-torque-ratio', { T_brake: brakeRated, T_0: brakeRequired });
+
   // Body stresses: torsion from the total raise torque at maximum friction (conservative)
   const axial = m.bodyAxialStress(Fsigned, dr);
   const torsion = m.bodyTorsionStress(raise.atMaxFriction, dr);
@@ -298,10 +374,24 @@ export function evaluate(design: Design): Evaluation {
   // Speeds, whirl, wear and power
   const rpm = duty.speed ?? (duty.linearSpeed !== null ? (duty.linearSpeed / l) * 60 : null);
   const n = rpm === null ? null : rpm / 60;
-  const betaL = m.WHIRL_FREQUENCY_FACTOR[screw.ends];
-  const nc = m.criticalSpeedRpm(betaL, dr, L, screw.elasticModulus, screw.density);
-  t('criticalSpeed.rpm', 'critical-speed', { beta_1L: betaL, d_r: dr, L, E: screw.elasticModulus, rho: screw.density });
+  const whirlSpan = screw.whirlSpan ?? L;
+  const whirlEnds = screw.whirlEnds ?? screw.ends;
+  const betaL = m.WHIRL_FREQUENCY_FACTOR[whirlEnds];
+  const nc = m.criticalSpeedRpm(betaL, dr, whirlSpan, screw.elasticModulus, screw.density);
+  t('criticalSpeed.rpm', 'critical-speed', { beta_1L: betaL, d_r: dr, L: whirlSpan, E: screw.elasticModulus, rho: screw.density });
   if (rpm !== null) t('criticalSpeed.ratio', 'critical-speed-ratio', { n: rpm, n_c: nc });
+  // Fixed ends only partly fixed, with the partial fixity the recommended column constants assume (common practice)
+  let partlyFixed: Evaluation['criticalSpeed']['partlyFixed'] = null;
+  if (screw.endConditionBasis === 'recommended' && whirlEnds.startsWith('fixed')) {
+    const Cw = m.END_CONDITION_CONSTANT.recommended[whirlEnds];
+    const betaLp = whirl.partlyFixedFrequencyFactor(Cw);
+    const ncp = m.criticalSpeedRpm(betaLp, dr, whirlSpan, screw.elasticModulus, screw.density);
+    partlyFixed = { rpm: ncp, frequencyFactor: betaLp, factor: whirl.partlyFixedSpeedFactor(Cw, betaL), endConditionConstant: Cw, ratio: rpm === null ? null : rpm / ncp };
+    t('criticalSpeed.partlyFixed.frequencyFactor', 'critical-speed-partly-fixed', { C: Cw });
+    t('criticalSpeed.partlyFixed.rpm', 'critical-speed', { beta_1L: betaLp, d_r: dr, L: whirlSpan, E: screw.elasticModulus, rho: screw.density });
+    t('criticalSpeed.partlyFixed.factor', 'critical-speed-partly-fixed-factor', { C: Cw, beta_1L: betaL });
+    if (rpm !== null) t('criticalSpeed.partlyFixed.ratio', 'critical-speed-ratio', { n: rpm, n_c: ncp });
+  }
 
   const pressure = m.nutBearingPressure(F, dm, h, nt);
   const vs = n === null ? null : m.slidingVelocity(dm, n, lambda);
@@ -331,10 +421,56 @@ export function evaluate(design: Design): Evaluation {
     t('power.input', 'input-power', { T_R: raise.atMaxFriction, n });
     t('power.linearSpeed', 'linear-speed', { l, n });
   }
-  const drive = design.drive
-    ? { availableTorque: design.drive.availableTorque, requiredTorque: raise.atMaxFriction, margin: design.drive.availableTorque / raise.atMaxFriction }
-    : null;
-  if (drive) t('drive.margin', 'drive-margin', { T_av: drive.availableTorque, T_R: drive.requiredTorque });
+  let drive: Evaluation['drive'] = null;
+  if (design.drive) {
+    const dd = design.drive;
+    const steady = raise.atMaxFriction;
+    const statedMass = dd.loadMass ?? null;
+    const loadMass = statedMass ?? (duty.kind === 'lifting' ? driveMath.loadMassFromWeight(F) : null);
+    const loadMassBasis = statedMass !== null ? 'stated' : loadMass !== null ? 'weight' : 'not-included';
+    if (loadMassBasis === 'weight') t('drive.loadMass', 'load-mass-from-weight', { F });
+    const Js = driveMath.screwInertia(screw.density, whirlSpan, dr, g.majorDiameter);
+    t('drive.screwInertia', 'screw-inertia', { rho: screw.density, L: whirlSpan, d_r: dr, d: g.majorDiameter });
+    const JL = loadMass === null ? null : driveMath.reflectedLoadInertia(loadMass, l);
+    if (JL !== null && loadMass !== null) t('drive.loadInertia', 'load-inertia-reflected', { m: loadMass, l });
+    // Either is accepted by the contract, never both; time to speed needs an operating speed (checked at input)
+    let alphaAcc: number | null = null;
+    if (dd.accelerationTime != null && n !== null) {
+      alphaAcc = driveMath.angularAccelerationFromTime(n, dd.accelerationTime);
+      t('drive.angularAcceleration', 'angular-acceleration-from-time', { n, t_a: dd.accelerationTime });
+    } else if (dd.acceleration != null) {
+      alphaAcc = driveMath.angularAccelerationFromLinear(dd.acceleration, l);
+      t('drive.angularAcceleration', 'angular-acceleration-from-linear', { a_nut: dd.acceleration, l });
+    }
+    const accTorque = alphaAcc === null ? 0 : driveMath.accelerationTorque(Js, JL ?? 0, eff.atMaxFriction, alphaAcc);
+    if (alphaAcc !== null) {
+      t('drive.accelerationTorque', 'acceleration-torque', { J_s: Js, J_L: JL ?? 0, e: eff.atMaxFriction, alpha_acc: alphaAcc });
+    }
+    const peak = steady + accTorque;
+    t('drive.peakTorque', 'peak-torque', { T_R: steady, T_a: accTorque });
+    const peakAtMotor = gearbox ? driveMath.motorTorqueThroughGearbox(peak, gearbox.ratio, gearbox.efficiency) : peak;
+    if (gearbox) {
+      t('drive.peakTorqueAtMotor', 'motor-torque-through-gearbox', { T: peak, i: gearbox.ratio, eta_g: gearbox.efficiency });
+      t('drive.holdingTorqueAtMotor', 'motor-holding-torque-through-gearbox', { T: holdNoFriction, i: gearbox.ratio, eta_r: gearbox.reverseEfficiency });
+    }
+    drive = {
+      availableTorque: dd.availableTorque,
+      requiredTorque: peakAtMotor,
+      margin: dd.availableTorque / peakAtMotor,
+      steadyTorque: steady,
+      loadMass,
+      loadMassBasis,
+      angularAcceleration: alphaAcc,
+      screwInertia: Js,
+      loadInertia: JL,
+      accelerationTorque: accTorque,
+      peakTorque: peak,
+      gearbox,
+      peakTorqueAtMotor: peakAtMotor,
+      holdingTorqueAtMotor: holdAtMotor,
+    };
+    t('drive.margin', 'drive-margin', { T_av: drive.availableTorque, T_R: drive.requiredTorque });
+  }
 
   const shearYield = SHEAR_YIELD_RATIO * screw.yieldStrength;
   return {
@@ -397,7 +533,7 @@ export function evaluate(design: Design): Evaluation {
       criticalLoad,
       safetyFactor: bucklingFactor,
     },
-    criticalSpeed: { rpm: nc, frequencyFactor: betaL, operatingRpm: rpm, ratio: rpm === null ? null : rpm / nc },
+    criticalSpeed: { rpm: nc, frequencyFactor: betaL, operatingRpm: rpm, ratio: rpm === null ? null : rpm / nc, span: whirlSpan, ends: whirlEnds, partlyFixed },
     wear: {
       bearingPressure: pressure,
       slidingVelocity: vs,
@@ -411,6 +547,15 @@ export function evaluate(design: Design): Evaluation {
       pvRatio: pv === null || nut.allowablePv === null ? null : pv / nut.allowablePv,
     },
     power: { input: inputPower, linearSpeed, rotationalSpeed: rpm },
+    brake: {
+      holdingTorqueNoFriction: holdNoFriction,
+      holdingTorqueMinFriction: holdMinFriction,
+      reverseEfficiency: reverseEff,
+      location: brakeLocation,
+      requiredTorque: brakeRequired,
+      ratedTorque: brakeRated,
+      ratio: brakeRated === null ? null : brakeRated / brakeRequired,
+    },
     drive,
     safetyFactors: {
       bodyVonMises: screw.yieldStrength / bodyVm,

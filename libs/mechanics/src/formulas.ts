@@ -81,7 +81,25 @@ const list: readonly Formula[] = [
   { id: 'rotational-speed-from-linear', symbol: 'n', equation: 'n = v / l', source: `${SHIGLEY}, Sec. 8-2 (one turn advances one lead)` },
   { id: 'linear-speed', symbol: 'v', equation: 'v = l n', source: `${SHIGLEY}, Sec. 8-2 (one turn advances one lead)` },
   { id: 'input-power', symbol: 'P', equation: 'P = T_R omega, omega = 2 pi n', source: `${SHIGLEY}, Eq. (3-40) (power = torque x angular speed)` },
-  { id: 'drive-margin', symbol: 'T_av/T_R', equation: 'T_av / T_R,max', source: 'common practice: the drive must exceed the starting raise torque at maximum friction' },
+  { id: 'drive-margin', symbol: 'T_av/T_R', equation: 'T_av / T_R,max (T_R,max: peak torque at the motor when acceleration or a gearbox is given)', source: 'common practice: the drive must exceed the starting raise torque at maximum friction' },
+  // brake and back-driving (issue 13 item 10)
+  { id: 'brake-holding-torque-no-friction', symbol: 'T_0', equation: 'T_0 = F l / (2 pi)', source: `${SHIGLEY}, Eq. (8-4) with e = 1; the limit f -> 0 of -T_L, ${JUVINALL}, Eq. (10.5)` },
+  { id: 'brake-holding-torque-min-friction', symbol: 'T_h', equation: 'T_h = max(0, -T_L,thread) at f_min, collar ignored', source: `${JUVINALL}, Eq. (10.5) (lowering torque; equation number from memory)` },
+  { id: 'reverse-efficiency', symbol: "e'", equation: "e' = -2 pi T_L,thread / (F l) at f_min; square thread tan(lambda - phi) / tan lambda", source: `energy balance on ${JUVINALL}, Eq. (10.5), the inverse of ${SHIGLEY}, Eq. (8-4); square-thread form from memory` },
+  { id: 'brake-torque-ratio', symbol: 'T_brake/T_0', equation: 'T_brake / T_0 at the brake shaft', source: 'common practice: the brake holds the load with thread friction lost (f -> 0), with a factor from the rule set' },
+  // whirl with partly fixed ends (issue 13 item 9)
+  { id: 'critical-speed-partly-fixed', symbol: "(beta_1 L)'", equation: "(beta_1 L)' = pi sqrt(C), C the recommended end-condition constant", source: `common practice: simply supported shaft over the column's effective length L / sqrt(C) (Budynas & Nisbett, Shigley's Mechanical Engineering Design, 9th ed., Table 4-2 recommended C; Thomson, Theory of Vibration with Applications, Table 9.5-1)` },
+  { id: 'critical-speed-partly-fixed-factor', symbol: "n_c'/n_c", equation: "n_c' / n_c = pi^2 C / (beta_1 L)^2", source: 'common practice: ratio of the partly fixed to the classical first-mode frequency factor squared (speed scales with (beta_1 L)^2, Thomson Sec. 9.5)' },
+  // drive (issue 13 item 11)
+  { id: 'load-mass-from-weight', symbol: 'm', equation: 'm = F / g_n, g_n = 9.80665 m/s^2', source: 'NIST SP 811 (2008), Sec. 8.2: standard acceleration of gravity (3rd CGPM, 1901)' },
+  { id: 'screw-inertia', symbol: 'J_s', equation: 'J_s = (pi rho L / 32) (d_r^4 + d^4) / 2', source: 'solid cylinder J = pi rho L d^4 / 32 (Meriam & Kraige, Engineering Mechanics: Dynamics, 7th ed., Table D/4, from memory); thread ridges as half the annulus between d_r and d: common practice' },
+  { id: 'load-inertia-reflected', symbol: 'J_L', equation: 'J_L = m (l / (2 pi))^2', source: `kinetic energy balance m v^2/2 = J_L omega^2/2 with v = omega l / (2 pi) (${SHIGLEY}, Sec. 8-2 kinematics)` },
+  { id: 'angular-acceleration-from-time', symbol: 'alpha_acc', equation: 'alpha_acc = 2 pi n / t_a', source: 'uniform angular acceleration omega = alpha t (Meriam & Kraige, Engineering Mechanics: Dynamics, 7th ed., Sec. 5/2, from memory)' },
+  { id: 'angular-acceleration-from-linear', symbol: 'alpha_acc', equation: 'alpha_acc = 2 pi a / l', source: `${SHIGLEY}, Sec. 8-2 (one turn advances one lead), differentiated in time` },
+  { id: 'acceleration-torque', symbol: 'T_a', equation: 'T_a = (J_s + J_L / e) alpha_acc, e at maximum friction', source: 'T = J alpha (Meriam & Kraige, Engineering Mechanics: Dynamics, 7th ed., Eq. 6/1, from memory); load share through the screw efficiency: common practice' },
+  { id: 'peak-torque', symbol: 'T_peak', equation: 'T_peak = T_R,max + T_a', source: 'common practice: the drive must supply the steady raise torque and the acceleration torque at once' },
+  { id: 'motor-torque-through-gearbox', symbol: 'T_m', equation: 'T_m = T / (i eta_g)', source: `power balance through a gear train (${SHIGLEY}, Sec. 13-13, from memory)` },
+  { id: 'motor-holding-torque-through-gearbox', symbol: 'T_h,m', equation: 'T_h,m = T_0 eta_r / i', source: `power balance with power flowing from the output, reverse efficiency eta_r (${SHIGLEY}, Sec. 13-13, from memory)` },
 ];
 
 /** The formula registry, by id. */

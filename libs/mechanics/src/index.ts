@@ -6,3 +6,6 @@ export * from './materials';
 export * from './friction';
 export * from './design';
 export * from './evaluate';
+export * from './brake';
+export * from './drive';
+export * from './whirl';

@@ -29,7 +29,10 @@ export type Dimension =
   | 'rotationalSpeed'
   | 'linearSpeed'
   | 'angle'
-  | 'pv';
+  | 'pv'
+  | 'mass'
+  | 'time'
+  | 'linearAcceleration';
 
 /** mathjs base-dimension exponents: [MASS, LENGTH, TIME, CURRENT, TEMPERATURE, LUMINOUS, AMOUNT, ANGLE, BIT]. */
 const DIMENSIONS: Record<Dimension, number[]> = {
@@ -42,6 +45,9 @@ const DIMENSIONS: Record<Dimension, number[]> = {
   linearSpeed: [0, 1, -1, 0, 0, 0, 0, 0, 0],
   angle: [0, 0, 0, 0, 0, 0, 0, 1, 0],
   pv: [1, 0, -3, 0, 0, 0, 0, 0, 0],
+  mass: [1, 0, 0, 0, 0, 0, 0, 0, 0],
+  time: [0, 0, 1, 0, 0, 0, 0, 0, 0],
+  linearAcceleration: [0, 1, -2, 0, 0, 0, 0, 0, 0],
 };
 
 /** What a dimension is called in error messages, with example units. */
@@ -55,6 +61,9 @@ export const DIMENSION_HINT: Record<Dimension, string> = {
   linearSpeed: 'a linear speed such as "2 m/min" or "20 in/min"',
   angle: 'an angle such as "7 deg"',
   pv: 'a pressure-velocity product such as "2.5 MPa*m/s" or "75000 psi*ft/min"',
+  mass: 'a mass such as "250 kg" or "550 lb"',
+  time: 'a time such as "0.5 s" or "200 ms"',
+  linearAcceleration: 'a linear acceleration such as "0.5 m/s^2" or "20 in/s^2"',
 };
 
 /**

@@ -21,3 +21,4 @@ export * from './rules/drive-torque-margin.rule';
 export * from './rules/friction-source-assumed.rule';
 export * from './rules/thread-friction-range.rule';
 export * from './rules/nut-engaged-threads.rule';
+export * from './rules/brake-holding-torque.rule';

@@ -17,6 +17,7 @@ import { screwThreadStrippingRule } from './rules/screw-thread-stripping.rule';
 import { shaftWhirlSpeedRule } from './rules/shaft-whirl-speed.rule';
 import { threadFrictionRangeRule } from './rules/thread-friction-range.rule';
 import { threadRootYieldRule } from './rules/thread-root-yield.rule';
+import { brakeHoldingTorqueRule } from './rules/brake-holding-torque.rule';
 
 export const RULE_REGISTRY: readonly Rule[] = Object.freeze([
   liftingSelfLockingRule,
@@ -33,6 +34,7 @@ export const RULE_REGISTRY: readonly Rule[] = Object.freeze([
   frictionSourceAssumedRule,
   threadFrictionRangeRule,
   nutEngagedThreadsRule,
+  brakeHoldingTorqueRule,
 ]);
 
 /** The rules as the API lists them: id, title, basis, description. */

@@ -61,6 +61,12 @@ export const thresholdsSchema = z
       })
       .optional()
       .describe('added in 2026.12-2; absent in earlier versions (the screw-thread strength minimum then applies)'),
+    brake: z
+      .strictObject({
+        minHoldingFactor: atLeastOne('rated brake torque over the zero-friction holding torque F l / (2 pi) at the brake shaft, below which the brake check fails'),
+      })
+      .optional()
+      .describe('added in 2026.12-2; absent in earlier versions (the brake-holding-torque rule then does not run)'),
   })
   .superRefine((t, ctx) => {
     const issue = (path: PropertyKey[], message: string) => ctx.addIssue({ code: 'custom', path, message });
@@ -171,6 +177,13 @@ export const RULE_SET_2026_12_2: RuleSet = {
       // screw threads (strength.minSafetyFactor above, common practice by analogy with ASME BTH-1, from memory).
       minSafetyFactor: { ...RULE_SET_2026_12_1.thresholds.strength.minSafetyFactor },
     },
+    brake: {
+      // Issue 13 item 10, common practice: the brake alone holds the load with thread friction lost (f -> 0), with a
+      // factor of 2 for lining fade, wear and the dynamic torque of stopping a moving load. For comparison, hoist codes
+      // ask holding brakes for at least 125 % of the hoisting torque at the brake (ASME B30.16, from memory), a torque
+      // that includes friction; against the frictionless F l / (2 pi) the factor 2 is the stricter reading here.
+      minHoldingFactor: 2,
+    },
   },
 };
 
@@ -186,6 +199,11 @@ export const DEFAULT_RULE_SET: RuleSet = RULE_SET_2026_12_2;
  */
 export function nutThreadMinSafetyFactor(t: Thresholds): Thresholds['strength']['minSafetyFactor'] {
   return t.nutThreads?.minSafetyFactor ?? t.strength.minSafetyFactor;
+}
+
+/** Minimum brake factor, or null when the rule set has no brake group (2026.12-1: the brake rule does not run). */
+export function brakeMinHoldingFactor(t: Thresholds): number | null {
+  return t.brake?.minHoldingFactor ?? null;
 }
 
 /** Result of validating a posted rule set: the rule set, or issues with dotted field paths. */

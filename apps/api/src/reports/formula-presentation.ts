@@ -111,4 +111,26 @@ export const PRESENTATION: Readonly<Record<string, FormulaPresentation>> = {
   'input-power': { result: 'power', substitute: (v) => `${v.T_R} × 2π × ${v.n}` },
   'linear-speed': { result: 'travelSpeed', substitute: (v) => `${v.l} × ${v.n}` },
   'drive-margin': { result: 'ratio', substitute: (v) => `${v.T_av} / ${v.T_R}` },
+  // brake and back-driving
+  'brake-holding-torque-no-friction': { result: 'torque', substitute: (v) => `${v.F} × ${v.l} / (2π)` },
+  'brake-holding-torque-min-friction': { result: 'torque', substitute: (v) => `max(0, −[${threadTorque('−', '+')(v)}])` },
+  'reverse-efficiency': { result: 'percent' },
+  'brake-torque-ratio': { inputs: { T_brake: 'torque', T_0: 'torque' }, result: 'ratio', substitute: (v) => `${v.T_brake} / ${v.T_0}` },
+  // whirl, partly fixed ends
+  'critical-speed-partly-fixed': { inputs: { C: 'ratio' }, result: 'ratio', substitute: (v) => `π × √${v.C}` },
+  'critical-speed-partly-fixed-factor': { inputs: { C: 'ratio', beta_1L: 'ratio' }, result: 'ratio', substitute: (v) => `π² × ${v.C} / ${sq(v.beta_1L)}` },
+  // drive: inertia, acceleration, gearbox
+  'load-mass-from-weight': { result: 'mass', substitute: (v) => `${v.F} / 9.80665 m/s²` },
+  'screw-inertia': { inputs: { rho: 'density', L: 'length', d_r: 'length', d: 'length' }, result: 'inertia' },
+  'load-inertia-reflected': { inputs: { m: 'mass', l: 'length' }, result: 'inertia', substitute: (v) => `${v.m} × (${v.l} / (2π))²` },
+  'angular-acceleration-from-time': { inputs: { n: 'revPerSecond', t_a: 'time' }, result: 'angularAcceleration', substitute: (v) => `2π × ${v.n} / ${v.t_a}` },
+  'angular-acceleration-from-linear': { inputs: { a_nut: 'linearAcceleration', l: 'length' }, result: 'angularAcceleration', substitute: (v) => `2π × ${v.a_nut} / ${v.l}` },
+  'acceleration-torque': {
+    inputs: { J_s: 'inertia', J_L: 'inertia', e: 'percent', alpha_acc: 'angularAcceleration' },
+    result: 'torque',
+    substitute: (v) => `(${v.J_s} + ${v.J_L} / ${v.e}) × ${v.alpha_acc}`,
+  },
+  'peak-torque': { inputs: { T_R: 'torque', T_a: 'torque' }, result: 'torque', substitute: (v) => `${v.T_R} + ${v.T_a}` },
+  'motor-torque-through-gearbox': { inputs: { T: 'torque', i: 'ratio', eta_g: 'percent' }, result: 'torque', substitute: (v) => `${v.T} / (${v.i} × ${v.eta_g})` },
+  'motor-holding-torque-through-gearbox': { inputs: { T: 'torque', i: 'ratio', eta_r: 'percent' }, result: 'torque', substitute: (v) => `${v.T} × ${v.eta_r} / ${v.i}` },
 };

@@ -300,6 +300,11 @@ const PATH_LABELS: readonly (readonly [string, string])[] = [
   ['efficiency.thread', 'Efficiency, thread alone'],
   ['selfLocking.margin', 'Self-locking margin, thread alone at minimum friction'],
   ['selfLocking.backDrivingTorque', 'Back-driving torque of the load at minimum friction'],
+  ['brake.holdingTorqueNoFriction', 'Holding torque with thread friction lost (f → 0)'],
+  ['brake.holdingTorqueMinFriction', 'Holding torque at minimum thread friction'],
+  ['brake.reverseEfficiency', 'Reverse (back-driving) efficiency at minimum friction'],
+  ['brake.requiredTorque', 'Zero-friction holding torque at the brake on the motor'],
+  ['brake.ratio', 'Rated brake torque over the zero-friction holding torque'],
   ['stresses.body.axial', 'Axial stress on the root area'],
   ['stresses.body.torsion', 'Torsional shear on the root diameter (raise torque at maximum friction)'],
   ['stresses.body.vonMises', 'von Mises stress in the screw body'],
@@ -319,12 +324,24 @@ const PATH_LABELS: readonly (readonly [string, string])[] = [
   ['buckling.safetyFactor', 'Buckling safety factor'],
   ['criticalSpeed.rpm', 'First critical (whirling) speed'],
   ['criticalSpeed.ratio', 'Operating speed over critical speed'],
+  ['criticalSpeed.partlyFixed.frequencyFactor', 'Frequency factor with fixed ends only partly fixed'],
+  ['criticalSpeed.partlyFixed.factor', 'Partly fixed over classical critical speed'],
+  ['criticalSpeed.partlyFixed.rpm', 'Critical speed with fixed ends only partly fixed'],
+  ['criticalSpeed.partlyFixed.ratio', 'Operating speed over the partly fixed critical speed'],
   ['wear.bearingPressure', 'Mean bearing pressure on the nut flanks'],
   ['wear.slidingVelocity', 'Sliding velocity at the mean diameter'],
   ['wear.pv', 'pV at the mean diameter'],
   ['power.rotationalSpeed', 'Screw speed from the travel speed'],
   ['power.linearSpeed', 'Nut travel speed'],
   ['power.input', 'Input power at maximum friction'],
+  ['drive.loadMass', 'Load mass from its weight'],
+  ['drive.screwInertia', 'Screw inertia'],
+  ['drive.loadInertia', 'Load inertia referred to the screw'],
+  ['drive.angularAcceleration', 'Angular acceleration of the screw'],
+  ['drive.accelerationTorque', 'Acceleration torque at the screw'],
+  ['drive.peakTorque', 'Peak torque at the screw (steady + acceleration)'],
+  ['drive.peakTorqueAtMotor', 'Peak torque at the motor through the gearbox'],
+  ['drive.holdingTorqueAtMotor', 'Zero-friction holding torque at the motor through the gearbox'],
   ['drive.margin', 'Drive torque margin'],
   ['design.duty.brake', 'Brake fitted'],
   ['design.duty.vibration', 'Vibration expected'],
@@ -345,6 +362,7 @@ const SECTIONS: readonly { id: string; title: string; prefixes: readonly string[
   { id: 'geometry', title: 'Thread geometry', prefixes: ['geometry.'], chart: null },
   { id: 'torque', title: 'Torque and efficiency', prefixes: ['torque.', 'efficiency.'], chart: 'torqueFriction' },
   { id: 'self-locking', title: 'Self-locking', prefixes: ['selfLocking.'], chart: null },
+  { id: 'brake', title: 'Brake and back-driving', prefixes: ['brake.'], chart: null },
   { id: 'body', title: 'Screw body stresses', prefixes: ['stresses.body.'], chart: null },
   { id: 'threads', title: 'Thread stresses and stripping', prefixes: ['stresses.'], chart: null },
   { id: 'column', title: 'Column buckling', prefixes: ['buckling.'], chart: 'column' },
@@ -533,14 +551,40 @@ function sectionNotes(id: string, design: Design, e: Evaluation, system: UnitSys
         `Regime: ${b.regime === 'euler' ? 'Euler, since l/k is at or above the transition slenderness' : 'Johnson, since l/k is below the transition slenderness'}.`,
       ];
     }
-    case 'whirl':
-      return [`Uniform shaft on the root diameter between supports L = ${q(design.screw.unsupportedLength, 'length')}, ends ${design.screw.ends}, β₁L = ${sig(e.criticalSpeed.frequencyFactor)}. Axial load and gyroscopic effects are neglected.`];
+    case 'brake': {
+      const b = e.brake;
+      if (!b) return ['This evaluation was made by an engine version that did not report brake figures.'];
+      return [
+        'The brake must hold the load when thread friction is lost (vibration, lubrication, wear): T_0 = F l / (2π), the lowering torque in the limit f → 0; collar friction is ignored (the safe side).',
+        `Brake fitted: ${design.duty.brake ? 'yes' : 'no'}${design.duty.brake ? `, on the ${b.location}` : ''}; rated torque ${b.ratedTorque === null ? 'not stated' : q(b.ratedTorque, 'torque')}. A reverse efficiency at or below zero means the load cannot drive the screw at minimum friction.`,
+      ];
+    }
+    case 'whirl': {
+      const cs = e.criticalSpeed;
+      const span = cs.span ?? design.screw.unsupportedLength;
+      const ends = cs.ends ?? design.screw.ends;
+      const notes = [`Uniform shaft on the root diameter between supports L = ${q(span, 'length')}${design.screw.whirlSpan != null ? ' (stated whirl span)' : ' (the column length)'}, ends ${ends}${design.screw.whirlEnds != null ? ' (stated for whirl)' : ''}, β₁L = ${sig(cs.frequencyFactor)}. Axial load and gyroscopic effects are neglected.`];
+      if (cs.partlyFixed) {
+        notes.push(`Fixed ends taken as only partly fixed (common practice, the same partial fixity as the recommended column constant C = ${sig(cs.partlyFixed.endConditionConstant)}): a simply supported shaft over L / √C, (β₁L)′ = π√C = ${sig(cs.partlyFixed.frequencyFactor)}, ${sig(cs.partlyFixed.factor)} × the classical critical speed. The whirl check uses the lower speed.`);
+      }
+      return notes;
+    }
     case 'wear':
       return [
         `Nut material: ${design.nut.material ?? 'not named'}; allowable pressure ${design.nut.allowablePressure === null ? 'not known' : q(design.nut.allowablePressure, 'pressure')}, allowable pV ${design.nut.allowablePv === null ? 'not known' : q(design.nut.allowablePv, 'pv')}.`,
       ];
-    case 'power':
-      return design.drive ? [`Drive torque available at start: ${q(design.drive.availableTorque, 'torque')}.`] : ['No drive torque given.'];
+    case 'power': {
+      if (!design.drive) return ['No drive torque given.'];
+      const d = e.drive;
+      const gb = design.drive.gearbox ?? null;
+      const notes = [`Drive torque available at start: ${q(design.drive.availableTorque, 'torque')}${gb ? ' at the motor' : ''}.`];
+      if (d?.loadMassBasis === 'not-included') notes.push('Load mass not given and not lifting duty: the load inertia is not included in the acceleration torque.');
+      if (d?.loadMassBasis === 'weight') notes.push('Load mass taken from the lifted weight, m = F / g_n.');
+      if (d && d.angularAcceleration === null) notes.push('No acceleration given: the peak torque is the steady raise torque.');
+      if (gb) notes.push(`Gearbox ratio ${sig(gb.ratio)}, forward efficiency ${sig(gb.efficiency)}, reverse efficiency ${sig(gb.reverseEfficiency)}; motor and gearbox inertia are not included.`);
+      notes.push('The drive check uses the peak torque at the motor, not the steady torque.');
+      return notes;
+    }
     default:
       return [];
   }
@@ -710,6 +754,7 @@ const SI_UNIT_OF: Record<string, string> = {
   majorDiameter: 'm', pitch: 'm', meanDiameter: 'm', outerDiameter: 'm', innerDiameter: 'm', length: 'm', unsupportedLength: 'm',
   axial: 'N', allowablePressure: 'Pa', yieldStrength: 'Pa', elasticModulus: 'Pa', allowablePv: 'Pa·m/s', density: 'kg/m³',
   speed: 'rpm', linearSpeed: 'm/s', availableTorque: 'N·m', loadFlankAngle: '°',
+  whirlSpan: 'm', brakeTorque: 'N·m', loadMass: 'kg', accelerationTime: 's', acceleration: 'm/s²',
 };
 
 function engineUnitRows(design: Design): InputRow[] {
@@ -828,7 +873,20 @@ function buildSummary(design: Design, e: Evaluation, system: UnitSystem, factors
     note: e.buckling.applies ? `${e.buckling.regime === 'euler' ? 'Euler' : 'Johnson'} column, l/k = ${sig(e.buckling.slenderness)}` : 'screw in tension',
   });
   if (e.criticalSpeed.ratio !== null) rows.push({ label: 'Operating / critical speed', value: sig(e.criticalSpeed.ratio), note: `critical speed ${q(e.criticalSpeed.rpm, 'rpm')}` });
-  if (e.drive) rows.push({ label: 'Drive torque margin', value: sig(e.drive.margin), note: `${q(e.drive.availableTorque, 'torque')} available` });
+  if (e.brake) {
+    rows.push({
+      label: 'Brake holding torque, thread friction lost (f → 0)',
+      value: q(e.brake.holdingTorqueNoFriction, 'torque'),
+      note: `at minimum friction ${q(e.brake.holdingTorqueMinFriction, 'torque')}; reverse efficiency ${sig(e.brake.reverseEfficiency)}; brake rated ${e.brake.ratedTorque === null ? 'not stated' : q(e.brake.ratedTorque, 'torque')}`,
+    });
+  }
+  if (e.criticalSpeed.partlyFixed?.ratio != null) {
+    rows.push({ label: 'Operating / critical speed, ends partly fixed', value: sig(e.criticalSpeed.partlyFixed.ratio), note: `critical speed ${q(e.criticalSpeed.partlyFixed.rpm, 'rpm')}` });
+  }
+  if (e.drive) {
+    const peakNote = e.drive.peakTorqueAtMotor !== undefined ? `; peak torque ${q(e.drive.peakTorqueAtMotor, 'torque')} at the motor` : '';
+    rows.push({ label: 'Drive torque margin', value: sig(e.drive.margin), note: `${q(e.drive.availableTorque, 'torque')} available${peakNote}` });
+  }
   return rows;
 }
 

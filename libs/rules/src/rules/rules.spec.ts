@@ -326,7 +326,8 @@ describe('shaft-whirl-speed', () => {
   /** SYNTHETIC: the operating fraction of critical speed replaced (operating speed made consistent with it). */
   function withRatio(e: Evaluated, ratio: number): Evaluated {
     const cs = e.evaluation.criticalSpeed;
-    return { ...e, evaluation: { ...e.evaluation, criticalSpeed: { ...cs, ratio, operatingRpm: ratio * cs.rpm } } };
+    // partly fixed figure removed, so the classical ratio is the one judged (the lower speed is tested in shaft-whirl-partly-fixed.spec.ts)
+    return { ...e, evaluation: { ...e.evaluation, criticalSpeed: { ...cs, ratio, operatingRpm: ratio * cs.rpm, partlyFixed: null } } };
   }
 
   const jack = evaluated(JACK_INPUT);
