@@ -11,6 +11,7 @@ import { liftingSelfLockingRule } from './rules/lifting-self-locking.rule';
 import { nutBearingPressureRule } from './rules/nut-bearing-pressure.rule';
 import { nutEngagedThreadsRule } from './rules/nut-engaged-threads.rule';
 import { nutPvRule } from './rules/nut-pv.rule';
+import { nutThreadRootYieldRule } from './rules/nut-thread-root-yield.rule';
 import { nutThreadStrippingRule } from './rules/nut-thread-stripping.rule';
 import { screwBodyYieldRule } from './rules/screw-body-yield.rule';
 import { screwThreadStrippingRule } from './rules/screw-thread-stripping.rule';
@@ -25,6 +26,7 @@ export const RULE_REGISTRY: readonly Rule[] = Object.freeze([
   threadRootYieldRule,
   screwThreadStrippingRule,
   nutThreadStrippingRule,
+  nutThreadRootYieldRule,
   columnBucklingRule,
   columnEndFixityRule,
   shaftWhirlSpeedRule,
