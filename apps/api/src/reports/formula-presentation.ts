@@ -84,10 +84,13 @@ export const PRESENTATION: Readonly<Record<string, FormulaPresentation>> = {
   'thread-root-shear': { ...threadStress, result: 'stress', substitute: (v) => `3 × ${v.F_t} / (2π × ${v.d_r} × ${v.b})` },
   'thread-root-von-mises': {
     result: 'stress',
-    substitute: (v) => `√(${sq(v.sigma_b)} + ${sq(v.sigma)} − (${v.sigma_b}) × (${v.sigma}) + 3 × ${sq(v.tau)})`,
+    substitute: (v) => `√(${sq(v.sigma_b)} + ${sq(v.sigma)} + |(${v.sigma_b}) × (${v.sigma})| + 3 × ${sq(v.tau)})`,
   },
-  'thread-stripping-screw': { result: 'stress', substitute: (v) => `${v.F} / (π × ${v.d_r} × ${v.b} × ${v.n_t})` },
-  'thread-stripping-nut': { result: 'stress', substitute: (v) => `${v.F} / (π × ${v.D} × ${v.b_n} × ${v.n_t})` },
+  'thread-load-share-first': { inputs: { n_t: 'ratio' }, result: 'force', substitute: (v) => `max(0.38 × ${v.F}, ${v.F} / ${v.n_t})` },
+  'thread-stripping-screw': { inputs: { D_1: 'length', t_s: 'length' }, result: 'stress', substitute: (v) => `${v.F} / (π × ${v.D_1} × ${v.t_s} × ${v.n_t})` },
+  'thread-stripping-nut': { inputs: { d: 'length', t_n: 'length' }, result: 'stress', substitute: (v) => `${v.F} / (π × ${v.d} × ${v.t_n} × ${v.n_t})` },
+  'nut-thread-root-bending': { inputs: { D_4: 'length', a_n: 'length', b_n: 'length' }, result: 'stress', substitute: (v) => `6 × ${v.F_t} × ${v.a_n} / (π × ${v.D_4} × ${sq(v.b_n)})` },
+  'nut-thread-root-shear': { inputs: { D_4: 'length', b_n: 'length' }, result: 'stress', substitute: (v) => `3 × ${v.F_t} / (2π × ${v.D_4} × ${v.b_n})` },
   // column
   slenderness: { result: 'ratio', substitute: (v) => `${v.l} / ${v.k}` },
   'transition-slenderness': { result: 'ratio', substitute: (v) => `√(2π² × ${v.C} × ${v.E} / ${v.S_y})` },

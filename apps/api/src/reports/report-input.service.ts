@@ -1,6 +1,7 @@
 /** Gathers what a report prints about one revision: product, calculation, record, review state, events, history. */
 import { Injectable } from '@nestjs/common';
 import type { ProductEvent } from '@leadline/contracts';
+import { nutThreadMinSafetyFactor } from '@leadline/rules';
 import { CalculationsService } from '../calculations/calculations.service';
 import { Database } from '../infra/database/database.service';
 import { ProductsService } from '../products/products.service';
@@ -43,6 +44,7 @@ export class ReportInputService {
       firstThreadRoot: { limit: strength, ruleId: 'thread-root-yield' },
       strippingScrew: { limit: strength, ruleId: 'screw-thread-stripping' },
       strippingNut: { limit: strength, ruleId: 'nut-thread-stripping' },
+      nutThreadRoot: { limit: nutThreadMinSafetyFactor(thresholds)[duty], ruleId: 'nut-thread-root-yield' },
       buckling: { limit: thresholds.buckling.minSafetyFactor[duty], ruleId: 'column-buckling' },
       drive: { limit: thresholds.drive.minMargin, ruleId: 'drive-torque-margin' },
     };

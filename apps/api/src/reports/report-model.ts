@@ -57,7 +57,7 @@ export interface ReportInput {
   readonly minimums?: Readonly<Partial<Record<SafetyFactorKey, { readonly limit: number; readonly ruleId: string }>>>;
 }
 
-export type SafetyFactorKey = 'bodyVonMises' | 'firstThreadRoot' | 'strippingScrew' | 'strippingNut' | 'buckling' | 'drive';
+export type SafetyFactorKey = 'bodyVonMises' | 'firstThreadRoot' | 'strippingScrew' | 'strippingNut' | 'nutThreadRoot' | 'buckling' | 'drive';
 
 // ---------------------------------------------------------------------------------------------------------
 // View
@@ -308,16 +308,19 @@ const PATH_LABELS: readonly (readonly [string, string])[] = [
   ['stresses.body.axial', 'Axial stress on the root area'],
   ['stresses.body.torsion', 'Torsional shear on the root diameter (raise torque at maximum friction)'],
   ['stresses.body.vonMises', 'von Mises stress in the screw body'],
-  ['stresses.firstThread.bearing', 'Flank bearing stress, first thread (0.38 F)'],
+  ['stresses.firstThread.load', 'Load on the first thread, max(0.38 F, F / n_t)'],
+  ['stresses.firstThread.bearing', 'Flank bearing stress, first thread'],
   ['stresses.firstThread.rootBending', 'Root bending stress, first thread'],
   ['stresses.firstThread.rootShear', 'Root transverse shear, first thread'],
-  ['stresses.firstThread.vonMises', 'von Mises stress at the root, first thread'],
+  ['stresses.firstThread.vonMises', 'von Mises stress at the root, first thread (worse fillet)'],
   ['stresses.mean.bearing', 'Flank bearing stress, even sharing (F / n_t)'],
   ['stresses.mean.rootBending', 'Root bending stress, even sharing'],
   ['stresses.mean.rootShear', 'Root transverse shear, even sharing'],
   ['stresses.mean.vonMises', 'von Mises stress at the root, even sharing'],
-  ['stresses.stripping.screw', 'Stripping shear of the screw threads'],
-  ['stresses.stripping.nut', 'Stripping shear of the nut threads'],
+  ['stresses.stripping.screw', "Stripping shear of the screw threads (at the nut's minor diameter)"],
+  ['stresses.stripping.nut', "Stripping shear of the nut threads (at the screw's major diameter)"],
+  ['stresses.nutThread.rootBending', "Root bending stress of the nut's own thread, first thread"],
+  ['stresses.nutThread.rootShear', "Root transverse shear of the nut's own thread, first thread"],
   ['buckling.slenderness', 'Slenderness ratio'],
   ['buckling.transitionSlenderness', 'Transition slenderness (Johnson to Euler)'],
   ['buckling.criticalLoad', 'Critical load'],
@@ -353,6 +356,7 @@ const PATH_LABELS: readonly (readonly [string, string])[] = [
   ['safetyFactors.firstThreadRoot', 'Safety factor at the first thread root'],
   ['safetyFactors.strippingScrew', 'Safety factor against stripping the screw threads'],
   ['safetyFactors.strippingNut', 'Safety factor against stripping the nut threads'],
+  ['safetyFactors.nutThreadRoot', "Safety factor of the nut's own thread root"],
   ['safetyFactors.buckling', 'Buckling safety factor'],
 ];
 const LABEL_OF = new Map(PATH_LABELS);
@@ -377,6 +381,7 @@ const FACTORS: readonly { key: SafetyFactorKey; label: string; shortLabel: strin
   { key: 'firstThreadRoot', label: 'First thread root, S_y / von Mises', shortLabel: 'First thread root', paths: ['safetyFactors.firstThreadRoot'], value: (e) => e.safetyFactors.firstThreadRoot },
   { key: 'strippingScrew', label: 'Screw thread stripping, 0.577 S_y / τ_s', shortLabel: 'Stripping, screw', paths: ['safetyFactors.strippingScrew'], value: (e) => e.safetyFactors.strippingScrew },
   { key: 'strippingNut', label: 'Nut thread stripping, 0.577 S_y,nut / τ_n', shortLabel: 'Stripping, nut', paths: ['safetyFactors.strippingNut'], value: (e) => e.safetyFactors.strippingNut },
+  { key: 'nutThreadRoot', label: 'Nut thread root, lower of S_y,nut / σ_b,n and 0.577 S_y,nut / τ_r,n', shortLabel: 'Nut thread root', paths: ['safetyFactors.nutThreadRoot'], value: (e) => e.safetyFactors.nutThreadRoot ?? null },
   { key: 'buckling', label: 'Column buckling, P_cr / F', shortLabel: 'Buckling', paths: ['safetyFactors.buckling', 'buckling.safetyFactor'], value: (e) => e.safetyFactors.buckling },
   { key: 'drive', label: 'Drive torque, T_av / T_R,max', shortLabel: 'Drive torque', paths: ['drive.margin'], value: (e) => e.drive?.margin ?? null },
 ];
@@ -542,7 +547,7 @@ function sectionNotes(id: string, design: Design, e: Evaluation, system: UnitSys
         `Collar friction is ignored here (the safe side). Brake fitted: ${design.duty.brake ? 'yes' : 'no'}. Vibration expected: ${design.duty.vibration ? 'yes' : 'no'}.`,
       ];
     case 'threads':
-      return ['First thread carries 0.38 F (Marshek); even sharing F / n_t is printed for comparison. Stripping is judged against 0.577 S_y.'];
+      return threadNotes(design, e, system);
     case 'column': {
       const b = e.buckling;
       if (!b.applies) return ['The screw is in tension: column buckling does not apply.'];
@@ -570,9 +575,7 @@ function sectionNotes(id: string, design: Design, e: Evaluation, system: UnitSys
       return notes;
     }
     case 'wear':
-      return [
-        `Nut material: ${design.nut.material ?? 'not named'}; allowable pressure ${design.nut.allowablePressure === null ? 'not known' : q(design.nut.allowablePressure, 'pressure')}, allowable pV ${design.nut.allowablePv === null ? 'not known' : q(design.nut.allowablePv, 'pv')}.`,
-      ];
+      return wearNotes(design, e, system);
     case 'power': {
       if (!design.drive) return ['No drive torque given.'];
       const d = e.drive;
@@ -588,6 +591,65 @@ function sectionNotes(id: string, design: Design, e: Evaluation, system: UnitSys
     default:
       return [];
   }
+}
+
+/** Thread-stress notes: load share, root fillet, stripping planes and the nut's own threads (issue 13 items 2-5). */
+function threadNotes(design: Design, e: Evaluation, system: UnitSystem): string[] {
+  const notes = [
+    'First thread carries max(0.38 F, F / n_t) (after Marshek; the mean share governs below 2.6 engaged threads); even sharing F / n_t is printed for comparison. ' +
+      'The root von Mises stress is taken at the worse of the two root fillets (the bending stress has one sign on each).',
+  ];
+  const st = e.stresses.stripping as Partial<Evaluation['stresses']['stripping']>;
+  if (st.screwArea !== undefined && st.nutArea !== undefined) {
+    notes.push(
+      `Stripping on the standard shear planes: the screw's threads on the cylinder at the nut's minor diameter D1 = ${formatQuantity(e.geometry.nutMinorDiameter, 'length', system)} ` +
+        `(area ${formatQuantity(st.screwArea, 'area', system)}), the nut's threads at the screw's major diameter (area ${formatQuantity(st.nutArea, 'area', system)}); both judged against 0.577 S_y of their own material.`,
+    );
+  } else {
+    notes.push('Stripping is judged against 0.577 S_y (this evaluation was made by an engine version with the earlier shear planes).');
+  }
+  if (e.stresses.nutThread) {
+    notes.push(
+      design.nut.yieldStrength === null
+        ? "The nut's own threads (root bending and shear) cannot be judged: the nut has no yield strength on record."
+        : `The nut's own threads are judged against the nut's yield strength ${formatQuantity(design.nut.yieldStrength, 'stress', system)} with the same minimum factors as the screw threads.`,
+    );
+  }
+  return notes;
+}
+
+/** Nut-wear notes: the material as entered, and which allowable pressure applied at which rubbing speed (issue 13 item 1). */
+function wearNotes(design: Design, e: Evaluation, system: UnitSystem): string[] {
+  const q = (si: number, kind: QuantityKind) => formatQuantity(si, kind, system);
+  const w = e.wear;
+  const material =
+    design.nut.material === null
+      ? 'not named'
+      : design.nut.materialSource === 'design'
+        ? `${design.nut.material} (the design's own material, as entered)`
+        : design.nut.material;
+  const notes = [`Nut material: ${material}; allowable pV ${design.nut.allowablePv === null ? 'not known' : q(design.nut.allowablePv, 'pv')}.`];
+  if (w.allowablePressureBasis === 'any-speed') {
+    notes.push(`Allowable pressure ${q(w.allowablePressure as number, 'pressure')}: the design's own single value, used at any rubbing speed (handbook allowables fall steeply with speed).`);
+  } else if (w.allowablePressureBasis === 'speed-rated') {
+    notes.push(
+      `Allowable pressure ${w.allowablePressure === null ? 'not known' : q(w.allowablePressure, 'pressure')} for the class "${w.allowablePressureClass}"` +
+        `${w.slidingVelocity === null ? '' : ` at a rubbing speed of ${q(w.slidingVelocity, 'slidingSpeed')}`} (${w.allowablePressureSource}).`,
+    );
+    const steps = design.nut.pressureBySpeed ?? [];
+    if (steps.length > 0) {
+      notes.push(
+        'Allowable against rubbing speed: ' +
+          steps
+            .map((s) => `${s.allowablePressure === null ? 'none published' : q(s.allowablePressure, 'pressure')} ${s.upToRubbingSpeed === null ? 'above' : `up to ${q(s.upToRubbingSpeed, 'slidingSpeed')}`}`)
+            .join('; ') +
+          '.',
+      );
+    }
+  } else {
+    notes.push(`Allowable pressure ${w.allowablePressure === null ? 'not known' : q(w.allowablePressure, 'pressure')}.`);
+  }
+  return notes;
 }
 
 function buildSections(design: Design, e: Evaluation, system: UnitSystem, findings: readonly Finding[]): CalcSection[] {
@@ -627,8 +689,12 @@ function buildSafetyFactors(e: Evaluation, findings: readonly Finding[], minimum
     const fromRuleSet = minimums[factor.key];
     const source = finding ? { limit: finding.limit as number, ruleId: finding.ruleId } : fromRuleSet;
     const limit = source ? source.limit : null;
-    const status: SafetyFactorRow['status'] = value === null ? 'not-applicable' : limit === null ? 'no-limit' : value >= limit ? 'meets' : 'below';
-    const statusText = { meets: 'meets the minimum', below: 'below the minimum', 'no-limit': 'no minimum recorded by the rules', 'not-applicable': 'not applicable' }[status];
+    // A factor that could not be computed for want of a value, where the rules block on it, is not "not applicable"
+    const missingBlocks = value === null && finding?.severity === 'blocking';
+    const status: SafetyFactorRow['status'] = missingBlocks ? 'below' : value === null ? 'not-applicable' : limit === null ? 'no-limit' : value >= limit ? 'meets' : 'below';
+    const statusText = missingBlocks
+      ? 'not computed: a value is missing (blocking)'
+      : { meets: 'meets the minimum', below: 'below the minimum', 'no-limit': 'no minimum recorded by the rules', 'not-applicable': 'not applicable' }[status];
     return {
       key: factor.key,
       label: factor.label,
@@ -812,8 +878,17 @@ function materialRows(design: Design, input: unknown, system: UnitSystem): Mater
     { part: 'Screw', property: 'Yield strength S_y', value: q(design.screw.yieldStrength, 'stress'), origin: origin('screw.yieldStrength', screw?.source) },
     { part: 'Screw', property: 'Elastic modulus E', value: q(design.screw.elasticModulus, 'modulus'), origin: origin('screw.elasticModulus', screw?.source) },
     { part: 'Screw', property: 'Density ρ', value: q(design.screw.density, 'density'), origin: origin('screw.density', screw?.source) },
-    { part: 'Nut', property: 'Material', value: nutName, origin: nut ? 'material library' : 'as entered' },
-    { part: 'Nut', property: 'Allowable bearing pressure', value: q(design.nut.allowablePressure, 'pressure'), origin: origin('nut.allowablePressure', nut?.allowablePressureSource) },
+    { part: 'Nut', property: 'Material', value: nutName, origin: nut ? 'material library' : design.nut.material ? "as entered (the design's own material)" : 'as entered' },
+    design.nut.allowablePressure !== null || !design.nut.pressureBySpeed
+      ? { part: 'Nut', property: 'Allowable bearing pressure (used at any rubbing speed)', value: q(design.nut.allowablePressure, 'pressure'), origin: origin('nut.allowablePressure', nut?.allowablePressureSource) }
+      : {
+          part: 'Nut',
+          property: 'Allowable bearing pressure by rubbing speed',
+          value: design.nut.pressureBySpeed
+            .map((s) => `${q(s.allowablePressure, 'pressure')} ${s.upToRubbingSpeed === null ? 'above' : `to ${formatQuantity(s.upToRubbingSpeed, 'slidingSpeed', system)}`}`)
+            .join('; '),
+          origin: entered(input, 'nut.allowablePressureBySpeed') ? 'as entered' : 'Shigley 9th ed. Table 8-4 after Rothbart (from memory), low end of each class',
+        },
     { part: 'Nut', property: 'Allowable pV', value: q(design.nut.allowablePv, 'pv'), origin: origin('nut.allowablePv', nut?.allowablePvSource) },
     { part: 'Nut', property: 'Yield strength', value: q(design.nut.yieldStrength, 'stress'), origin: origin('nut.yieldStrength', nut?.yieldSource) },
   ];
@@ -831,7 +906,12 @@ function geometryRows(e: Evaluation, system: UnitSystem): KeyValue[] {
     { label: 'Starts n_s', value: String(g.starts) },
     { label: 'Lead l', value: L(g.lead) },
     { label: 'Mean diameter d_m', value: L(g.meanDiameter) },
-    { label: 'Minor diameter d_r', value: L(g.minorDiameter) },
+    { label: 'Minor diameter d_r (the section of the body, column and whirl checks)', value: L(g.minorDiameter) },
+    ...(g.minorDiameterArea === undefined ? [] : [{ label: 'Minor-diameter area π d_r² / 4', value: formatQuantity(g.minorDiameterArea, 'area', system) }]),
+    ...(g.tensileStressArea == null
+      ? []
+      : [{ label: 'Tensile stress area A_s (ISO 898-1 / ASME B1.1), for reference only: no check uses it', value: formatQuantity(g.tensileStressArea, 'area', system) }]),
+    ...(g.nutMinorDiameter === undefined ? [] : [{ label: "Nut minor diameter D1 (the screw threads' stripping plane)", value: L(g.nutMinorDiameter) }]),
     { label: 'Engaged flank height h', value: L(g.threadHeight) },
     { label: 'Crest clearance a_c', value: L(g.crestClearance) },
     { label: 'Nut major diameter D', value: L(g.nutMajorDiameter) },
