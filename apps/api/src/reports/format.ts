@@ -72,7 +72,7 @@ const UNITS: Readonly<Record<UnitSystem, Readonly<Record<QuantityKind, DisplayUn
     percent: { symbol: '%', convert: (x) => x * 100 },
     count: { symbol: '', convert: identity },
     mass: { symbol: 'kg', convert: identity },
-    inertia: { symbol: 'kg·m²', convert: identity },
+    inertia: { symbol: 'kg·cm²', convert: (si) => si * 1e4 },
     angularAcceleration: { symbol: 'rad/s²', convert: identity },
     linearAcceleration: { symbol: 'm/s²', convert: identity },
     time: { symbol: 's', convert: identity },
