@@ -1,13 +1,13 @@
 /** Gathers what a report prints about one revision: product, calculation, record, review state, events, history. */
 import { Injectable } from '@nestjs/common';
 import type { ProductEvent } from '@leadline/contracts';
-import { nutThreadMinSafetyFactor } from '@leadline/rules';
 import { CalculationsService } from '../calculations/calculations.service';
 import { Database } from '../infra/database/database.service';
 import { ProductsService } from '../products/products.service';
 import { TS_TEXT } from '../records/chain';
 import { ReviewsService } from '../reviews/reviews.service';
 import { RuleSetsService } from '../rules/rule-sets.service';
+import { ruleSetMinimums } from './minimums';
 import type { ReportInput } from './report-model';
 
 @Injectable()
@@ -37,17 +37,7 @@ export class ReportInputService {
     const states = await this.reviews.statesOfCalculation(revision.calculationId);
     // The minimums of the rule set this revision was judged by, on its duty (they print beside passing checks too)
     const { thresholds } = (await this.ruleSets.get(revision.ruleSetVersion)).definition;
-    const duty = revision.normalized.duty.kind;
-    const strength = thresholds.strength.minSafetyFactor[duty];
-    const minimums: ReportInput['minimums'] = {
-      bodyVonMises: { limit: strength, ruleId: 'screw-body-yield' },
-      firstThreadRoot: { limit: strength, ruleId: 'thread-root-yield' },
-      strippingScrew: { limit: strength, ruleId: 'screw-thread-stripping' },
-      strippingNut: { limit: strength, ruleId: 'nut-thread-stripping' },
-      nutThreadRoot: { limit: nutThreadMinSafetyFactor(thresholds)[duty], ruleId: 'nut-thread-root-yield' },
-      buckling: { limit: thresholds.buckling.minSafetyFactor[duty], ruleId: 'column-buckling' },
-      drive: { limit: thresholds.drive.minMargin, ruleId: 'drive-torque-margin' },
-    };
+    const minimums = ruleSetMinimums(thresholds, revision.normalized.duty.kind);
     return {
       product: { id: product.id, code: product.code, name: product.name, description: product.description },
       calculation: { id: calculation.id, title: calculation.title },

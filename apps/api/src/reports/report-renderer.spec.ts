@@ -121,8 +121,8 @@ describe('calculation report: HTML and PDF in real Chromium', () => {
 
   it('PDF: every finding message, grouped by severity, with the review comments', () => {
     for (const f of input.revision.findings) expect(text).toContain(f.message);
-    expect(text).toContain('Warnings (2)');
-    expect(text).toContain('Information (1)');
+    expect(text).toContain('Warnings (3)');
+    expect(text).toContain('Information (0)');
     expect(text).toContain('Blocking findings (0)');
     expect(text).toContain('Is the grease schedule in the maintenance manual?');
     expect(text).toContain('Acknowledged by Maren Lindqvist');
