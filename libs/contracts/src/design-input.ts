@@ -12,6 +12,8 @@ import {
   parseQuantity,
   QuantityError,
   BUTTRESS_PROFILES,
+  TOLERANCE_CLASSES,
+  iso2903Row,
   DIMENSION_HINT,
   type Design,
   type Dimension,
@@ -62,6 +64,11 @@ export const designInputSchema = z.strictObject({
     pitch: length('pitch (axial distance between adjacent threads)').optional(),
     starts: z.number().int('starts must be a whole number').min(1, 'starts must be at least 1').max(12).optional(),
     loadFlankAngle: z.union([z.number(), quantity('angle', 'load-flank angle')]).optional().describe('buttress only: 3 or 7 deg'),
+    toleranceClass: z
+      .string()
+      .max(20)
+      .optional()
+      .describe('tolerance class, nut/screw: "7H/7e" (ISO 2903, trapezoidal) or "2G", "3G", "4G" (ASME B1.5, Acme); the checks then use its minimum-material diameters'),
   }),
   load: z.strictObject({ axial: quantity('force', 'axial load'), sense: z.enum(['compression', 'tension']) }),
   friction: z.strictObject({ thread: frictionRangeSchema, collar: frictionRangeSchema.optional() }),
@@ -244,6 +251,20 @@ function normalizeDesign(input: Parsed): DesignParseResult {
     issues.push({ path: 'thread.loadFlankAngle', message: 'only a buttress thread takes a load-flank angle' });
   }
 
+  // Tolerance class: the checks use its minimum-material diameters
+  let toleranceClass: string | null = null;
+  if (th.toleranceClass !== undefined) {
+    const held = TOLERANCE_CLASSES[th.form] ?? [];
+    if (!held.includes(th.toleranceClass)) {
+      issues.push({
+        path: 'thread.toleranceClass',
+        message: held.length > 0 ? `${th.form} threads take one of ${held.map((c) => `"${c}"`).join(', ')}` : `no tolerance class is held for ${th.form} threads; omit it (the basic profile is used)`,
+      });
+    } else if (th.form === 'trapezoidal' && majorDiameter !== null && pitch !== null && !iso2903Row(majorDiameter, pitch)) {
+      issues.push({ path: 'thread.toleranceClass', message: 'ISO 2903 7H/7e limits are held for the standard sizes Tr 8x1.5 to Tr 120x22 only' });
+    } else toleranceClass = th.toleranceClass;
+  }
+
   // Friction ranges, typed in or from the library
   const friction = (value: Parsed['friction']['thread'], path: string, surface: 'thread' | 'collar'): FrictionRange | null => {
     if ('entry' in value) {
@@ -405,7 +426,7 @@ function normalizeDesign(input: Parsed): DesignParseResult {
   return {
     success: true,
     design: {
-      thread: { form: th.form, size, majorDiameter, pitch, starts: th.starts ?? 1, loadFlankAngle },
+      thread: { form: th.form, size, majorDiameter, pitch, starts: th.starts ?? 1, loadFlankAngle, toleranceClass },
       load: { axial, sense: input.load.sense },
       friction: { thread: threadFriction, collar: collarFriction },
       collar,

@@ -36,6 +36,8 @@ export interface Design {
     readonly pitch: number;
     readonly starts: number;
     readonly loadFlankAngle: number | null;
+    /** Tolerance class (ISO 2903 "7H/7e", ASME B1.5 "2G"/"3G"/"4G"); absent or null: basic profile */
+    readonly toleranceClass?: string | null;
   };
   readonly load: { readonly axial: number; readonly sense: 'compression' | 'tension' };
   readonly friction: { readonly thread: FrictionRange; readonly collar: FrictionRange | null };

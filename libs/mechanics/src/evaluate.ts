@@ -8,6 +8,7 @@ import * as brakeMath from './brake';
 import * as driveMath from './drive';
 import * as whirl from './whirl';
 import { pressureStepAt } from './materials';
+import { minimumMaterial, type MinimumMaterial } from './tolerances';
 import { DEG, threadGeometry, threadThicknessAtDepth } from './threads';
 
 export const ENGINE_VERSION = '1.1.0';
@@ -50,7 +51,9 @@ export interface Evaluation {
     readonly nutRootThickness: number;
     /** Basic minor diameter of the nut (internal) thread D1 [m]: where the screw's threads strip */
     readonly nutMinorDiameter: number;
-    /** Area of the minor-diameter section the strength checks use, pi d_r^2 / 4 [m^2] */
+    /** The diameters the strength, bearing and stripping checks use: a tolerance class's minimum material, else basic */
+    readonly minimumMaterial: MinimumMaterial;
+    /** Area of the minor-diameter section the strength checks use, pi d_r^2 / 4 (minimum material with a class) [m^2] */
     readonly minorDiameterArea: number;
     /** 60 deg threads: tensile stress area of ISO 898-1 / ASME B1.1, for reference only [m^2]; null for other forms */
     readonly tensileStressArea: number | null;
@@ -203,7 +206,11 @@ export function evaluate(design: Design): Evaluation {
   const g = threadGeometry(thread);
   const F = load.axial;
   const Fsigned = load.sense === 'compression' ? -F : F;
-  const { lead: l, meanDiameter: dm, minorDiameter: dr, threadHeight: h, pitch: p } = g;
+  const { lead: l, meanDiameter: dm, pitch: p } = g;
+  // Strength, bearing and stripping use the minimum-material diameters of a named tolerance class (basic without one)
+  const mm = minimumMaterial(g, thread.toleranceClass ?? null);
+  const dr = mm.minorDiameter;
+  const h = mm.engagedHeight;
   const alpha = g.flankAngle * DEG;
   const lambda = m.leadAngle(l, dm);
   const alphaN = m.normalFlankAngle(alpha, lambda);
@@ -302,9 +309,12 @@ export function evaluate(design: Design): Evaluation {
   t('stresses.body.vonMises', 'von-mises-axial-torsion', { sigma: axial, tau: torsion });
 
   // Thread stresses: cantilever arm from the pitch line to the root, root thickness on the straight flanks
-  const arm = (dm - dr) / 2;
-  const b = threadThicknessAtDepth(g, arm);
-  const bNut = threadThicknessAtDepth(g, (g.nutMajorDiameter - dm) / 2);
+  // The flank load acts mid-way up the contact band (the mean diameter on the basic profile; moved with the band's
+  // edges, the screw's major and the nut's minor diameter, at minimum material); thicknesses follow each part's pitch diameter
+  const loadDiameter = dm + (mm.majorDiameter - g.majorDiameter + (mm.nutMinorDiameter - g.nutMinorDiameter)) / 2;
+  const arm = (loadDiameter - dr) / 2;
+  const b = threadThicknessAtDepth(g, (mm.pitchDiameter - dr) / 2);
+  const bNut = threadThicknessAtDepth(g, (g.nutMajorDiameter - mm.nutPitchDiameter) / 2);
   const threadStresses = (Ft: number) => {
     const bending = m.threadRootBending(Ft, dr, arm, b);
     return {
@@ -330,17 +340,17 @@ export function evaluate(design: Design): Evaluation {
   }
   t('stresses.firstThread.load', 'thread-load-share-first', { F, n_t: nt });
   // Stripping on the standard shear planes: the screw's threads at the nut's minor diameter, the nut's at the screw's major
-  const D1 = g.nutMinorDiameter;
-  const tScrew = threadThicknessAtDepth(g, (dm - D1) / 2);
-  const tNut = threadThicknessAtDepth(g, (g.majorDiameter - dm) / 2);
+  const D1 = mm.nutMinorDiameter;
+  const tScrew = threadThicknessAtDepth(g, (mm.pitchDiameter - D1) / 2);
+  const tNut = threadThicknessAtDepth(g, (mm.majorDiameter - mm.nutPitchDiameter) / 2);
   const stripScrewArea = m.strippingArea(D1, tScrew, nt);
-  const stripNutArea = m.strippingArea(g.majorDiameter, tNut, nt);
+  const stripNutArea = m.strippingArea(mm.majorDiameter, tNut, nt);
   const stripScrew = F / stripScrewArea;
   const stripNut = F / stripNutArea;
   t('stresses.stripping.screw', 'thread-stripping-screw', { F, D_1: D1, t_s: tScrew, n_t: nt });
-  t('stresses.stripping.nut', 'thread-stripping-nut', { F, d: g.majorDiameter, t_n: tNut, n_t: nt });
+  t('stresses.stripping.nut', 'thread-stripping-nut', { F, d: mm.majorDiameter, t_n: tNut, n_t: nt });
   // The nut's own threads: a cantilever of width pi D4 from the nut root to the pitch line, first-thread load
-  const nutArm = (g.nutMajorDiameter - dm) / 2;
+  const nutArm = (g.nutMajorDiameter - loadDiameter) / 2;
   const nutBending = m.threadRootBending(Ffirst, g.nutMajorDiameter, nutArm, bNut);
   const nutShear = m.threadRootShear(Ffirst, g.nutMajorDiameter, bNut);
   t('stresses.nutThread.rootBending', 'nut-thread-root-bending', { F_t: Ffirst, D_4: g.nutMajorDiameter, a_n: nutArm, b_n: bNut });
@@ -484,8 +494,8 @@ export function evaluate(design: Design): Evaluation {
       starts: thread.starts,
       lead: l,
       meanDiameter: dm,
-      minorDiameter: dr,
-      threadHeight: h,
+      minorDiameter: g.minorDiameter,
+      threadHeight: g.threadHeight,
       crestClearance: g.crestClearance,
       nutMajorDiameter: g.nutMajorDiameter,
       flankAngle: g.flankAngle,
@@ -495,6 +505,7 @@ export function evaluate(design: Design): Evaluation {
       rootThickness: b,
       nutRootThickness: bNut,
       nutMinorDiameter: g.nutMinorDiameter,
+      minimumMaterial: mm,
       minorDiameterArea: area,
       tensileStressArea: g.form === 'iso-metric' || g.form === 'unified' ? m.tensileStressArea60(g.majorDiameter, p, g.form) : null,
     },

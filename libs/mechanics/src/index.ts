@@ -3,6 +3,7 @@ export * from './formulas';
 export * from './threads';
 export * from './mechanics';
 export * from './materials';
+export * from './tolerances';
 export * from './friction';
 export * from './design';
 export * from './evaluate';

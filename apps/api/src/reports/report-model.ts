@@ -894,6 +894,22 @@ function materialRows(design: Design, input: unknown, system: UnitSystem): Mater
   ];
 }
 
+/** Tolerance class and the minimum-material diameters the checks used, or the statement that the basic profile was used. */
+function minimumMaterialRows(g: Evaluation['geometry'], system: UnitSystem): KeyValue[] {
+  const mm = g.minimumMaterial;
+  if (!mm) return [];
+  if (mm.toleranceClass === null) {
+    return [{ label: 'Tolerance class', value: 'none named: the checks use the basic profile; the minimum-material diameters of any class are lower for the screw and higher for the nut, so real stresses are somewhat higher' }];
+  }
+  const L = (si: number) => formatQuantity(si, 'length', system);
+  return [
+    { label: 'Tolerance class (the strength, bearing and stripping checks use its minimum-material diameters)', value: `${mm.toleranceClass}: ${mm.basis}` },
+    { label: 'Minimum-material screw diameters: major, pitch, minor', value: `${L(mm.majorDiameter)}, ${L(mm.pitchDiameter)}, ${L(mm.minorDiameter)}` },
+    { label: 'Minimum-material nut diameters: minor D1, pitch D2', value: `${L(mm.nutMinorDiameter)}, ${L(mm.nutPitchDiameter)}` },
+    { label: 'Flank engagement at minimum material (d_min − D1_max) / 2', value: L(mm.engagedHeight) },
+  ];
+}
+
 function geometryRows(e: Evaluation, system: UnitSystem): KeyValue[] {
   const g = e.geometry;
   const L = (si: number) => formatQuantity(si, 'length', system);
@@ -912,6 +928,7 @@ function geometryRows(e: Evaluation, system: UnitSystem): KeyValue[] {
       ? []
       : [{ label: 'Tensile stress area A_s (ISO 898-1 / ASME B1.1), for reference only: no check uses it', value: formatQuantity(g.tensileStressArea, 'area', system) }]),
     ...(g.nutMinorDiameter === undefined ? [] : [{ label: "Nut minor diameter D1 (the screw threads' stripping plane)", value: L(g.nutMinorDiameter) }]),
+    ...minimumMaterialRows(g, system),
     { label: 'Engaged flank height h', value: L(g.threadHeight) },
     { label: 'Crest clearance a_c', value: L(g.crestClearance) },
     { label: 'Nut major diameter D', value: L(g.nutMajorDiameter) },

@@ -72,4 +72,15 @@ describe('report: thread corrections (issue 13)', () => {
     expect(rows.find((r) => r.label.startsWith('Tensile stress area'))?.label).toMatch(/no check uses it/);
     expect(buildReportView(harrowgateUsReportInput()).input.geometry.some((r) => r.label.startsWith('Tensile stress area'))).toBe(false);
   });
+
+  it('names a tolerance class and its minimum-material diameters, or says the basic profile was used (issue 13 item 8)', () => {
+    const basic = buildReportView(harrowgateReportInput()).input.geometry.find((r) => r.label === 'Tolerance class');
+    expect(basic?.value).toMatch(/basic profile; the minimum-material diameters of any class are lower/);
+    const input = withDesign({ ...HARROWGATE_INPUT, thread: { form: 'trapezoidal', size: 'Tr 32x6', toleranceClass: '7H/7e' } });
+    const rows = buildReportView(input).input.geometry;
+    expect(rows.find((r) => r.label.startsWith('Tolerance class'))?.value).toMatch(/^7H\/7e: ISO 2903/);
+    // threadlib design/TR.csv, Tr 32x6 7e: d min 31.575, d2 min 28.54, d3 min 24.463; 7H: D1 max 26.56, D2 max 29.45 (mm)
+    expect(rows.find((r) => r.label.startsWith('Minimum-material screw'))?.value).toBe('31.6 mm, 28.5 mm, 24.5 mm');
+    expect(rows.find((r) => r.label.startsWith('Minimum-material nut'))?.value).toBe('26.6 mm, 29.4 mm');
+  });
 });
