@@ -225,6 +225,26 @@ describe('item 1: nut bearing pressure against rubbing speed (Shigley 9th ed. Ta
     expect(e.wear.allowablePressureSource).toMatch(/no steel\/cast-iron class above 40 ft\/min/);
   });
 
+  it("law (fast-check): with a design's own valid steps, the allowable the evaluation applies never increases with speed", () => {
+    fc.assert(
+      fc.property(
+        fc.uniqueArray(fc.integer({ min: 1, max: 60 }), { minLength: 1, maxLength: 4 }),
+        fc.array(fc.integer({ min: 1, max: 30 }), { minLength: 5, maxLength: 5 }),
+        fc.integer({ min: 1, max: 400 }),
+        fc.integer({ min: 1, max: 400 }),
+        (speeds, pressures, rpmA, rpmB) => {
+          const ups = [...speeds].sort((a, b) => a - b);
+          const ps = [...pressures].sort((a, b) => b - a); // non-increasing, as the contract requires
+          const steps = [...ups.map((v, i) => ({ upToRubbingSpeed: `${v} m/min`, allowablePressure: `${ps[i]} MPa` })), { allowablePressure: `${ps[ups.length]} MPa` }];
+          const at = (rpm: number) => run(trTwoStart(`${rpm} rpm`, { length: '42 mm', material: 'bronze', allowablePressureBySpeed: steps })).wear;
+          const [slow, fast] = rpmA <= rpmB ? [at(rpmA), at(rpmB)] : [at(rpmB), at(rpmA)];
+          return (fast.allowablePressure ?? 0) <= (slow.allowablePressure ?? 0);
+        },
+      ),
+      { numRuns: 60 },
+    );
+  });
+
   it('law (fast-check): for every library nut material the allowable never increases with speed', () => {
     fc.assert(
       fc.property(fc.constantFrom(...NUT_MATERIALS), fc.double({ min: 0, max: 5, noNaN: true }), fc.double({ min: 0, max: 5, noNaN: true }), (mat, a, b) => {
