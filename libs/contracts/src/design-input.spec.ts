@@ -146,6 +146,28 @@ describe('parseDesign: library entries and standard sizes', () => {
     expectClose(design.thread.majorDiameter, 1.5 * IN, { rtol: 1e-15 });
     expectClose(design.thread.pitch, IN / 4, { rtol: 1e-15 });
     expect(design.thread.starts).toBe(1);
+    // the size is one US vote against the rest of the design in SI (11 quantities): SI by majority
+    expect(design.unitSystem).toBe('SI');
+  });
+
+  it('unit-system vote: the design is reported in the system most of its quantities were entered in; the size is a vote', () => {
+    const mixed = (thread: DesignInput['thread'], collarDiameter: string): DesignInput => ({
+      thread,
+      load: { axial: '6.4 kN', sense: 'compression' }, // SI
+      friction: { thread: { min: 0.1, max: 0.15, source }, collar: { min: 0.1, max: 0.15, source } },
+      collar: { kind: 'plain', meanDiameter: collarDiameter },
+      nut: { length: '2 in' }, // US
+      screw: { material: 'steel-1045-cd', unsupportedLength: '12 in', ends: 'pinned-pinned' }, // US (library material: no vote)
+      duty: { kind: 'positioning', speed: '60 rpm', brake: false }, // rev/min counts for neither
+    });
+    // inch size: US 3 (size, nut, span) against SI 2 (load, collar)
+    expect(parsed(mixed({ form: 'acme', size: '1-1/2-4 ACME' }, '40 mm')).unitSystem).toBe('US');
+    // metric size instead: US 2 against SI 3
+    expect(parsed(mixed({ form: 'trapezoidal', size: 'Tr 40x7' }, '40 mm')).unitSystem).toBe('SI');
+    // a tie is reported in SI (US only when more quantities are in US units): US 3 (d, nut, span), SI 3 (p, load, collar)
+    expect(parsed(mixed({ form: 'acme', majorDiameter: '1.5 in', pitch: '6.35 mm' }, '40 mm')).unitSystem).toBe('SI');
+    // one more US quantity tips it: the collar in inches makes US 4 against SI 2
+    expect(parsed(mixed({ form: 'acme', majorDiameter: '1.5 in', pitch: '6.35 mm' }, '1.6 in')).unitSystem).toBe('US');
   });
 
   it('a friction-library entry supplies its Shigley Table 8-5 range and source (public source, read: friction-and-materials.md §1)', () => {
