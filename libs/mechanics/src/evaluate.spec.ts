@@ -106,6 +106,7 @@ describe('Juvinall & Marshek, Fundamentals of Machine Component Design, 5th ed.,
     expectClose(e.efficiency.atMinFriction, 0.136, { rtol: 0, atol: 0.0005 });
   });
 
+  // A law comparing two engine formulas (not a check value): each is checked against the book's figures above
   it('the sec(alpha) approximation of Shigley 10th ed., Eq. (8-5) lies within 0.05 % of the exact form here (common practice: "negligible")', () => {
     expectClose(e.torque.raiseSecAlpha.atMinFriction, e.torque.threadRaise.atMinFriction, { rtol: 5e-4 });
   });
