@@ -172,6 +172,10 @@ function fieldIssues(issues: readonly RawIssue[], prefix: readonly PropertyKey[]
         out.push(...fieldIssues(best, path));
         continue;
       }
+      // No branch is clearly meant: say what each accepted form found wrong
+      const forms = issue.errors.map((branch) => branch.map((i) => `${i.path.length > 0 ? `${pathOf(i.path)}: ` : ''}${i.message}`).join(', '));
+      out.push({ path: pathOf(path) || '(body)', message: `matches none of the accepted forms: ${forms.join('; or ')}` });
+      continue;
     }
     out.push({ path: pathOf(path) || '(body)', message: issue.message });
   }
