@@ -98,3 +98,21 @@ describe('re-check of stored revisions [POST /api/v1/rule-sets/recheck]', () => 
     expect(bad.body.errors[0].path).toBe('scope');
   });
 });
+
+describe('on the embedded database (the demo default of npm start)', () => {
+  let p: TestApp;
+  beforeAll(async () => {
+    p = await startTestApp('pglite');
+    await seedDemo(p.app);
+  });
+  afterAll(() => p?.close());
+
+  it('seeds the recorded approval and the re-check flags it, writing nothing', async () => {
+    const before = await countRecords(p.db);
+    const res = await p.call('POST', RECHECK, { scope: 'approved' }, { as: 'reviewer' });
+    expect(res.body).toMatchObject({ examined: 1, changed: 1 });
+    expect(res.body.revisions[0].judged).toMatchObject({ engineVersion: '1.0.0', ruleSetVersion: '2026.12-1', verdict: 'clear' });
+    expect(res.body.revisions[0].recheck.verdict).toBe('blocked');
+    expect(await countRecords(p.db)).toEqual(before);
+  });
+});
