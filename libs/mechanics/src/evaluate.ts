@@ -226,6 +226,9 @@ export function evaluate(design: Design): Evaluation {
   t('geometry.leadAngle', 'lead-angle', { l, d_m: dm });
   t('geometry.normalFlankAngle', 'normal-flank-angle', { alpha: g.flankAngle, lambda: lambda / DEG });
   t('geometry.engagedThreads', 'engaged-threads', { L_nut: nut.length, p });
+  if (g.form === 'iso-metric' || g.form === 'unified') {
+    t('geometry.tensileStressArea', g.form === 'iso-metric' ? 'tensile-stress-area-iso' : 'tensile-stress-area-unified', { d: g.majorDiameter, p });
+  }
 
   // Torques at both ends of the friction range
   const fMin = friction.thread.min;

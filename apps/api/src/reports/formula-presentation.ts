@@ -55,6 +55,8 @@ export const PRESENTATION: Readonly<Record<string, FormulaPresentation>> = {
   'lead-angle': { result: 'angle', substitute: (v) => `atan(${v.l} / (π × ${v.d_m}))` },
   'normal-flank-angle': { result: 'angle', substitute: (v) => `atan(tan ${v.alpha} × cos ${v.lambda})` },
   'engaged-threads': { result: 'ratio', substitute: (v) => `${v.L_nut} / ${v.p}` },
+  'tensile-stress-area-iso': { result: 'area', substitute: (v) => `(π/4) × (${v.d} − 0.938194 × ${v.p})²` },
+  'tensile-stress-area-unified': { result: 'area', substitute: (v) => `0.7854 × (${v.d} − 0.9743 × ${v.p})²` },
   // torque
   'thread-raise-torque': { result: 'torque', substitute: threadTorque('+', '−') },
   'thread-lower-torque': { result: 'torque', substitute: threadTorque('−', '+') },

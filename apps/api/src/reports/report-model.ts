@@ -290,6 +290,7 @@ const PATH_LABELS: readonly (readonly [string, string])[] = [
   ['geometry.leadAngle', 'Lead angle at the mean diameter'],
   ['geometry.normalFlankAngle', 'Flank angle in the normal plane'],
   ['geometry.engagedThreads', 'Engaged threads'],
+  ['geometry.tensileStressArea', 'Tensile stress area (for reference only: no check uses it)'],
   ['torque.threadRaise', 'Thread torque to raise'],
   ['torque.threadLower', 'Thread torque to lower'],
   ['torque.collar', 'Collar torque'],

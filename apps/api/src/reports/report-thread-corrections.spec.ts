@@ -71,6 +71,9 @@ describe('report: thread corrections (issue 13)', () => {
     expect(rows.find((r) => r.label.startsWith('Tensile stress area'))?.value).toMatch(/^245 mm²$/);
     expect(rows.find((r) => r.label.startsWith('Tensile stress area'))?.label).toMatch(/no check uses it/);
     expect(buildReportView(harrowgateUsReportInput()).input.geometry.some((r) => r.label.startsWith('Tensile stress area'))).toBe(false);
+    const line = buildReportView(input).sections.flatMap((x) => x.lines).find((l) => l.path === 'geometry.tensileStressArea');
+    expect(line?.source).toMatch(/ISO 898-1/);
+    expect(line?.substitution).toBe('A_s = (π/4) × (20.0 mm − 0.938194 × 2.50 mm)² = 245 mm²');
   });
 
   it('names a tolerance class and its minimum-material diameters, or says the basic profile was used (issue 13 item 8)', () => {
