@@ -160,6 +160,7 @@ function stricter(t: Thresholds): Thresholds {
     engagedThreads: { min: up(t.engagedThreads.min), max: down(t.engagedThreads.max) },
     ...(t.nutThreads ? { nutThreads: { minSafetyFactor: duty(t.nutThreads.minSafetyFactor) } } : {}),
     ...(t.brake ? { brake: { minHoldingFactor: up(t.brake.minHoldingFactor) } } : {}),
+    ...(t.missingValues ? { missingValues: t.missingValues } : {}), // a policy, not a number: kept as it is
   };
 }
 

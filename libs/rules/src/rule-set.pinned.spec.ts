@@ -39,6 +39,8 @@ describe('default thresholds, pinned with their basis', () => {
       ...PINNED_2026_12_1,
       // issue 13 item 5: the nut's own threads take the screw threads' factors (common practice, as strength above)
       nutThreads: { minSafetyFactor: { lifting: 3.0, positioning: 2.0, clamping: 2.0 } },
+      // issue 13 item 12: on lifting duty a strength check that cannot be computed blocks (the safe side)
+      missingValues: { onLifting: 'blocking' },
       // issue 13 item 10: brake rated torque at least 2 x F l / (2 pi) at its shaft (common practice)
       brake: { minHoldingFactor: 2 },
     });

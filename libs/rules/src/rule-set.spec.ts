@@ -12,6 +12,7 @@ describe('rule-set definition', () => {
     expect(BUILT_IN_RULE_SETS.map((r) => r.version)).toEqual(['2026.12-1', '2026.12-2']);
     const stored = clone(RULE_SET_2026_12_1); // as stored in rule_sets.definition (JSON)
     expect(Object.keys(stored.thresholds)).not.toContain('nutThreads');
+    expect(Object.keys(stored.thresholds)).not.toContain('missingValues');
     const parsed = parseRuleSet(stored);
     expect(parsed.success).toBe(true);
     if (parsed.success) expect(parsed.ruleSet).toEqual(stored);

@@ -53,14 +53,22 @@ export const thresholdsSchema = z
       min: positive('fewest engaged threads before a warning'),
       max: positive('most engaged threads before a warning'),
     }),
-    // Added in 2026.12-2. Optional so that earlier definitions (2026.12-1) still parse unchanged; a rule reads an
-    // absent group through its accessor below, which falls back to the safe default named there.
+    // Added in 2026.12-2. Optional so that earlier definitions (2026.12-1) still parse unchanged and judge as before:
+    // where a group is absent, the check it brought is not part of that version (see the accessors below).
     nutThreads: z
       .strictObject({
         minSafetyFactor: byDuty("static yield factor of safety of the nut's own threads (root bending, shear)"),
       })
       .optional()
-      .describe('added in 2026.12-2; absent in earlier versions (the screw-thread strength minimum then applies)'),
+      .describe("added in 2026.12-2; absent in earlier versions (the nut-thread-root-yield rule then does not run)"),
+    missingValues: z
+      .strictObject({
+        onLifting: z
+          .enum(['blocking', 'info'])
+          .describe('severity on lifting duty of a strength check that cannot be computed because a value is missing'),
+      })
+      .optional()
+      .describe('added in 2026.12-2; absent in earlier versions (a missing value is then information, as 2026.12-1 judged)'),
     brake: z
       .strictObject({
         minHoldingFactor: atLeastOne('rated brake torque over the zero-friction holding torque F l / (2 pi) at the brake shaft, below which the brake check fails'),
@@ -177,6 +185,11 @@ export const RULE_SET_2026_12_2: RuleSet = {
       // screw threads (strength.minSafetyFactor above, common practice by analogy with ASME BTH-1, from memory).
       minSafetyFactor: { ...RULE_SET_2026_12_1.thresholds.strength.minSafetyFactor },
     },
+    missingValues: {
+      // Issue 13 item 12, the safe side: on lifting duty a strength check that cannot be computed (e.g. no nut yield
+      // strength) is never passed as "not applicable"; it blocks and names the value to give.
+      onLifting: 'blocking',
+    },
     brake: {
       // Issue 13 item 10, common practice: the brake alone holds the load with thread friction lost (f -> 0), with a
       // factor of 2 for lining fade, wear and the dynamic torque of stopping a moving load. For comparison, hoist codes
@@ -194,11 +207,16 @@ export const BUILT_IN_RULE_SETS: readonly RuleSet[] = Object.freeze([RULE_SET_20
 export const DEFAULT_RULE_SET: RuleSet = RULE_SET_2026_12_2;
 
 /**
- * Minimum factors for the nut's own threads. A definition without the group (2026.12-1) falls back to the
- * screw-thread strength minimum, the same factor the group's default carries.
+ * Minimum factors for the nut's own threads, for reports and margins. A definition without the group (2026.12-1, where
+ * the nut-thread-root-yield rule does not run) falls back to the screw-thread strength minimum for display.
  */
 export function nutThreadMinSafetyFactor(t: Thresholds): Thresholds['strength']['minSafetyFactor'] {
   return t.nutThreads?.minSafetyFactor ?? t.strength.minSafetyFactor;
+}
+
+/** Severity on lifting duty of a strength check that cannot be computed for want of a value ('info' before 2026.12-2). */
+export function missingValueSeverityOnLifting(t: Thresholds): 'blocking' | 'info' {
+  return t.missingValues?.onLifting ?? 'info';
 }
 
 /** Minimum brake factor, or null when the rule set has no brake group (2026.12-1: the brake rule does not run). */

@@ -7,7 +7,7 @@
 import type { Finding } from '@leadline/contracts';
 import { mpa } from '../format';
 import type { Rule, RuleContext } from '../rule';
-import { nutThreadMinSafetyFactor } from '../rule-set';
+import { missingValueSeverityOnLifting, nutThreadMinSafetyFactor } from '../rule-set';
 import { missingValueFinding, STRENGTH_BASIS, strengthFinding } from './strength-check';
 
 export const NUT_THREAD_ROOT_YIELD_ID = 'nut-thread-root-yield';
@@ -16,12 +16,14 @@ const FORMULA_BASIS =
   'first-thread load max(0.38 F, F / n_t); bending against S_y, shear against 0.577 S_y (Shigley 10th ed. Eq. (5-21))';
 
 export function nutThreadRootYield({ design, evaluation, thresholds }: RuleContext): Finding | null {
+  // Not part of rule sets before 2026.12-2, which judge as they always did
+  if (thresholds.nutThreads === undefined) return null;
   const minimum = nutThreadMinSafetyFactor(thresholds)[design.duty.kind];
   const factor = evaluation.safetyFactors.nutThreadRoot;
   const basis = `${STRENGTH_BASIS}; ${FORMULA_BASIS}`;
   const subject = 'safetyFactors.nutThreadRoot';
   if (factor === null || design.nut.yieldStrength === null) {
-    return missingValueFinding(NUT_THREAD_ROOT_YIELD_ID, subject, "The nut's own threads (root bending and shear)", 'nut.yieldStrength', minimum, design.duty.kind, basis);
+    return missingValueFinding(NUT_THREAD_ROOT_YIELD_ID, subject, "The nut's own threads (root bending and shear)", 'nut.yieldStrength', minimum, design.duty.kind, basis, missingValueSeverityOnLifting(thresholds));
   }
   const Sy = design.nut.yieldStrength;
   const { rootBending, rootShear } = evaluation.stresses.nutThread;
@@ -47,7 +49,7 @@ export const nutThreadRootYieldRule: Rule = {
   basis: `${STRENGTH_BASIS}; ${FORMULA_BASIS}`,
   description:
     "Blocks when the nut thread root factor of safety (bending against S_y, shear against 0.577 S_y, the lower) is below " +
-    'nutThreads.minSafetyFactor for the duty kind (strength.minSafetyFactor in rule sets without it); without a nut yield ' +
-    'strength it blocks on lifting duty and is information otherwise.',
+    'nutThreads.minSafetyFactor for the duty kind (rule sets without the group, such as 2026.12-1, do not run it); without ' +
+    'a nut yield strength it blocks on lifting duty (missingValues.onLifting) and is information otherwise.',
   check: nutThreadRootYield,
 };

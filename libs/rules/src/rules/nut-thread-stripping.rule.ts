@@ -2,6 +2,7 @@
 import type { Finding } from '@leadline/contracts';
 import { SHEAR_YIELD_RATIO } from '@leadline/mechanics';
 import type { Rule, RuleContext } from '../rule';
+import { missingValueSeverityOnLifting } from '../rule-set';
 import { missingValueFinding, STRENGTH_BASIS, strengthFinding } from './strength-check';
 
 export const NUT_THREAD_STRIPPING_ID = 'nut-thread-stripping';
@@ -13,7 +14,7 @@ export function nutThreadStripping({ design, evaluation, thresholds }: RuleConte
   const factor = evaluation.safetyFactors.strippingNut;
   if (factor === null || design.nut.yieldStrength === null) {
     // Lifting duty: a check that cannot be computed for want of a value blocks (issue 13 item 12)
-    return missingValueFinding(NUT_THREAD_STRIPPING_ID, 'safetyFactors.strippingNut', "Nut thread stripping (shear at the screw's major diameter)", 'nut.yieldStrength', minimum, design.duty.kind, `${STRENGTH_BASIS}; ${FORMULA_BASIS}`);
+    return missingValueFinding(NUT_THREAD_STRIPPING_ID, 'safetyFactors.strippingNut', "Nut thread stripping (shear at the screw's major diameter)", 'nut.yieldStrength', minimum, design.duty.kind, `${STRENGTH_BASIS}; ${FORMULA_BASIS}`, missingValueSeverityOnLifting(thresholds));
   }
   return strengthFinding({
     ruleId: NUT_THREAD_STRIPPING_ID,
@@ -36,6 +37,6 @@ export const nutThreadStrippingRule: Rule = {
   basis: `${STRENGTH_BASIS}; ${FORMULA_BASIS}`,
   description:
     'Blocks when the nut-thread stripping factor of safety is below strength.minSafetyFactor for the duty kind; ' +
-    'without a nut yield strength it blocks on lifting duty and is information otherwise.',
+    'without a nut yield strength it blocks on lifting duty (missingValues.onLifting, 2026.12-2) and is information otherwise.',
   check: nutThreadStripping,
 };

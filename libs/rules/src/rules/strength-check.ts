@@ -49,9 +49,15 @@ export function strengthFinding(c: StrengthCheck): Finding | null {
   };
 }
 
-/** The finding for a strength check that cannot be computed for want of a value: blocking on lifting duty. */
-export function missingValueFinding(ruleId: string, subject: string, what: string, missing: string, minimum: number, duty: DutyKind, basis: string): Finding {
-  const lifting = duty === 'lifting';
+/**
+ * The finding for a strength check that cannot be computed for want of a value: blocking on lifting duty under a rule
+ * set that says so (missingValues.onLifting, 2026.12-2), information otherwise.
+ */
+export function missingValueFinding(
+  ruleId: string, subject: string, what: string, missing: string, minimum: number, duty: DutyKind, basis: string,
+  onLifting: 'blocking' | 'info',
+): Finding {
+  const lifting = duty === 'lifting' && onLifting === 'blocking';
   return {
     ruleId,
     severity: lifting ? 'blocking' : 'info',

@@ -32,9 +32,8 @@ describe("nut-thread-root-yield (the nut's own threads)", () => {
     expect(f?.message).toMatch(/bending governs/);
   });
 
-  it('rule set 2026.12-1 (no nutThreads group) judges it with the screw-thread minimum, the same 3.0 on lifting', () => {
-    const f = nutThreadRootYield(contextOf(evaluated(tinBronzeJack), RULE_SET_2026_12_1.thresholds));
-    expect(f?.limit).toBe(RULE_SET_2026_12_1.thresholds.strength.minSafetyFactor.lifting);
+  it('rule set 2026.12-1 (no nutThreads group) judges as it always did: the check is not part of it', () => {
+    expect(nutThreadRootYield(contextOf(evaluated(tinBronzeJack), RULE_SET_2026_12_1.thresholds))).toBeNull();
   });
 
   it('the minimum comes from the rule set: just below the measured factor passes, just above blocks', () => {
@@ -54,6 +53,12 @@ describe('a strength check that cannot be computed (issue 13 item 12)', () => {
     const findings = judge(e.design, e.evaluation).filter((f) => f.ruleId === 'nut-thread-root-yield' || f.ruleId === 'nut-thread-stripping');
     expect(findings.map((f) => f.severity)).toEqual(['blocking', 'blocking']);
     for (const f of findings) expect(f.message).toMatch(/nut\.yieldStrength is missing/);
+  });
+
+  it('rule set 2026.12-1 (no missingValues group) keeps its information finding on lifting duty, as before', () => {
+    const e = evaluated(iron);
+    const findings = judge(e.design, e.evaluation, RULE_SET_2026_12_1).filter((f) => f.ruleId.startsWith('nut-thread-'));
+    expect(findings.map((f) => `${f.ruleId}:${f.severity}`)).toEqual(['nut-thread-stripping:info']);
   });
 
   it('on positioning duty the same nut is information, still naming the value', () => {
