@@ -5,6 +5,7 @@
  */
 import { ENGINE_VERSION } from '@leadline/mechanics';
 import { DEFAULT_RULE_SET } from '@leadline/rules';
+import { recheckResponseSchema } from '../../apps/api/src/rules/recheck.service';
 import { seedDemo } from '../../apps/api/src/seed/demo-seed';
 import { countRecords, startTestApp, type TestApp } from '../support/harness';
 
@@ -23,6 +24,7 @@ describe('re-check of stored revisions [POST /api/v1/rule-sets/recheck]', () => 
     const before = await countRecords(t.db);
     const res = await t.call('POST', RECHECK, {}, { as: 'reviewer' });
     expect(res.status).toBe(200);
+    expect(recheckResponseSchema.parse(res.body)).toEqual(res.body); // the documented shape, nothing more (unknown keys would be stripped)
     expect(res.body).toMatchObject({ engineVersion: ENGINE_VERSION, ruleSetVersion: DEFAULT_RULE_SET.version, scope: 'latest-and-approved' });
     expect(ENGINE_VERSION).not.toBe('1.0.0');
     // 4 demo calculations, each latest (the main lift screw is also the approved one)

@@ -26,6 +26,36 @@ export const recheckSchema = z
   })
   .default({ scope: 'latest-and-approved' });
 
+const verdictEnum = z.enum(['blocked', 'needs-acknowledgement', 'clear']);
+const scalar = z.union([z.number(), z.boolean(), z.string()]).nullable();
+const marginSchema = z
+  .object({ subject: z.string(), measured: z.number(), limit: z.number(), kind: z.enum(['min', 'max']), margin: z.number() })
+  .nullable()
+  .describe('the check that meets its limit by the smallest factor (margin >= 1 meets it)');
+const figuresSchema = z.object({ severity: z.enum(['blocking', 'warning', 'info']), measured: scalar, limit: scalar, unit: z.string().nullable(), subject: z.string().nullable() });
+
+/** The re-check's answer, as the OpenAPI document describes it. */
+export const recheckResponseSchema = z.object({
+  engineVersion: z.string(),
+  ruleSetVersion: z.string(),
+  scope: z.enum(['latest-and-approved', 'latest', 'approved']),
+  examined: z.number().int(),
+  changed: z.number().int(),
+  revisions: z.array(
+    z.object({
+      revisionId: z.string().uuid(), productId: z.string().uuid(), calculationId: z.string().uuid(), revision: z.number().int(),
+      approved: z.boolean(), latest: z.boolean(),
+      reasons: z.array(z.enum(['verdict-changed', 'margin-below-limit', 'input-refused'])),
+      judged: z.object({ engineVersion: z.string(), ruleSetVersion: z.string(), verdict: verdictEnum, governing: marginSchema }),
+      recheck: z.object({
+        engineVersion: z.string(), ruleSetVersion: z.string(), verdict: verdictEnum.nullable(), governing: marginSchema,
+        issues: z.array(z.object({ path: z.string(), message: z.string() })).optional().describe('only when the stored input is now refused'),
+      }),
+      findingChanges: z.array(z.object({ ruleId: z.string(), from: figuresSchema.nullable(), to: figuresSchema.extend({ message: z.string() }).nullable() })),
+    }),
+  ),
+});
+
 interface Judged {
   readonly engineVersion: string;
   readonly ruleSetVersion: string;
