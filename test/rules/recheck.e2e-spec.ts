@@ -5,6 +5,7 @@
  */
 import { ENGINE_VERSION } from '@leadline/mechanics';
 import { DEFAULT_RULE_SET } from '@leadline/rules';
+import { prepareSubmission, RecordStore } from '../../apps/api/src/records/record-store';
 import { recheckResponseSchema } from '../../apps/api/src/rules/recheck.service';
 import { seedDemo } from '../../apps/api/src/seed/demo-seed';
 import { countRecords, startTestApp, type TestApp } from '../support/harness';
@@ -90,6 +91,35 @@ describe('re-check of stored revisions [POST /api/v1/rule-sets/recheck]', () => 
     expect(hit.recheck.ruleSetVersion).toBe(DEFAULT_RULE_SET.version);
     expect(hit.findingChanges.map((c: { ruleId: string }) => c.ruleId)).toContain('brake-holding-torque');
     expect(hit.reasons).toContain('verdict-changed');
+  });
+
+  it('a stored input that the contract now refuses is listed as input-refused, with the field it names', async () => {
+    const product = (await t.call('POST', '/api/v1/products', { code: 'RC-2', name: 'refused input (test)' })).body.id;
+    const design = {
+      thread: { form: 'trapezoidal', size: 'Tr 40x7' },
+      load: { axial: '10 kN', sense: 'compression' },
+      friction: { thread: { entry: 'thread/steel-bronze/oil' } },
+      collar: { kind: 'none' },
+      nut: { length: '70 mm', material: 'aluminum-bronze' },
+      screw: { material: 'steel-1045-cd', unsupportedLength: '300 mm', ends: 'fixed-free' },
+      duty: { kind: 'positioning', speed: '10 rpm', brake: false },
+    };
+    const opened = await t.call('POST', `/api/v1/products/${product}/calculations`, { title: 'refused later', design });
+    const stored = (await t.call('GET', `/api/v1/revisions/${opened.body.revisionId}`)).body;
+    // A second revision whose stored input carries a brake torque without a brake: the contract refuses that today, as
+    // an earlier contract might not have. Appended through the record store as a submission of that time would be.
+    const refused = { ...design, duty: { ...design.duty, brakeTorque: '10 N*m' } };
+    const store = t.app.get(RecordStore);
+    const appended = await store.appendRevision(t.db, product, opened.body.calculationId, prepareSubmission({
+      input: refused, normalized: stored.normalized, evaluation: stored.evaluation, findings: stored.findings, verdict: stored.verdict,
+      engineVersion: stored.engineVersion, ruleSetVersion: stored.ruleSetVersion, note: 'accepted by an earlier contract (test)',
+    }), null);
+    const res = await t.call('POST', RECHECK, { productId: product, scope: 'latest' }, { as: 'reviewer' });
+    expect(res.body).toMatchObject({ examined: 1, changed: 1 });
+    const [r] = res.body.revisions;
+    expect(r).toMatchObject({ revisionId: appended.id, reasons: ['input-refused'], recheck: { verdict: null, governing: null } });
+    expect(r.recheck.issues).toEqual([{ path: 'duty.brakeTorque', message: 'a brake torque needs duty.brake true' }]);
+    expect(r.judged.verdict).toBe(stored.verdict);
   });
 
   it('is for reviewers and admins; a bad scope is a 422 naming the field', async () => {
