@@ -123,7 +123,8 @@ export function liftingSelfLocking({ design, evaluation, thresholds }: RuleConte
       limit: 1,
       message:
         `Lifting screw is not self-locking (margin ${marginText} at minimum thread friction, below 1); the brake alone ` +
-        `holds the load.${backDriving} Confirm the brake is fail-safe (spring-applied) and rated for that torque with a margin.`,
+        `holds the load.${backDriving} Confirm the brake is fail-safe (spring-applied) and rated for that torque with a margin ` +
+        `(the brake-holding-torque check holds a stated duty.brakeTorque against F l / (2π), the torque with thread friction lost).`,
       basis: `${BASIS_CONDITION}; ${BASIS_BRAKE}`,
     };
   }
