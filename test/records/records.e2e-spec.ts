@@ -170,12 +170,18 @@ describe.each(BACKENDS)('records on %s', (backend) => {
     expect(page.body.items).toHaveLength(1);
     expect(page.body.total).toBeGreaterThanOrEqual(2);
     const sizes = await t.call('GET', '/api/v1/thread-sizes?form=trapezoidal');
-    expect(sizes.body.items.find((s: { designation: string }) => s.designation === 'Tr 40x7')).toBeTruthy();
+    // ISO 2904 Tr 40x7: d = 40 mm, P = 7 mm (the designation states both)
+    const tr40 = sizes.body.items.find((s: { designation: string }) => s.designation === 'Tr 40x7');
+    expect(tr40).toMatchObject({ form: 'trapezoidal', majorDiameter: 0.04, pitch: 0.007 });
+    expect(sizes.body.items.every((s: { form: string }) => s.form === 'trapezoidal')).toBe(true);
     const friction = await t.call('GET', '/api/v1/friction-sources');
     expect(friction.body.items.every((e: { source: { reference: string } }) => e.source.reference.length > 0)).toBe(true);
     const health = await t.call('GET', '/health');
     expect(health.body.status).toBe('ok');
     const docs = await t.call('GET', '/api/docs-json');
-    expect(docs.body.paths['/api/v1/evaluations'].post.requestBody.content['application/json'].schema.properties.thread).toBeTruthy();
+    const schema = docs.body.paths['/api/v1/evaluations'].post.requestBody.content['application/json'].schema;
+    expect(schema.properties.thread).toMatchObject({ type: 'object' });
+    expect(schema.properties.thread.required).toEqual(['form']);
+    expect(schema.required).toEqual(expect.arrayContaining(['thread', 'load', 'friction', 'collar', 'nut', 'screw', 'duty']));
   });
 });

@@ -46,7 +46,8 @@ it('renders a stored revision to PDF whose text carries the inputs, results, fin
   expect(text).toContain('18 kN');
   expect(text).toContain('KL-8');
   expect(text).toContain('Column screw');
-  // results, formatted from the stored evaluation exactly as the report formats them
+  // Wiring test: the PDF served by the real service carries the stored record's results, formatted as the report formats
+  // them (the formatter is checked on literal values in apps/api/src/reports/format.spec.ts, the figures in the engine specs)
   for (const [si, kind] of [
     [e.torque.raise.atMaxFriction, 'torque'],
     [e.torque.lower.atMinFriction, 'torque'],

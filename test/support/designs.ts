@@ -2,7 +2,19 @@
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 
-export const clearDesign = JSON.parse(readFileSync(join(__dirname, '../fixtures/ok/trapezoidal-jack.json'), 'utf8'));
+/** The README example jack as entered (test/fixtures/ok): the corrected thread checks of engine 1.1 flag it. */
+export const readmeJack = JSON.parse(readFileSync(join(__dirname, '../fixtures/ok/trapezoidal-jack.json'), 'utf8'));
+
+/**
+ * The same jack made clear under rule set 2026.12-2: an aluminium-bronze nut (ASTM B148 C95400, 30 ksi minimum; the
+ * tin-bronze nut's own threads reach only 2.98 of the lifting factor 3), turned at 20 rpm (2.3 m/min: the screw-jack
+ * class of Shigley Table 8-4) and a stated brake torque of 60 N*m (2 x F l / (2 pi) = 40 N*m needed).
+ */
+export const clearDesign = {
+  ...readmeJack,
+  nut: { ...readmeJack.nut, material: 'aluminum-bronze' },
+  duty: { ...readmeJack.duty, speed: '20 rpm', brakeTorque: '60 N*m' },
+};
 
 /** Same jack, but the thread friction is only an assumption: one warning (friction-source-assumed). */
 export const warningDesign = {
@@ -14,7 +26,7 @@ export const warningDesign = {
 export const blockedDesign = {
   ...clearDesign,
   thread: { form: 'trapezoidal', majorDiameter: '40 mm', pitch: '7 mm', starts: 3 },
-  duty: { ...clearDesign.duty, brake: false },
+  duty: { ...readmeJack.duty, speed: '20 rpm', brake: false }, // no brake, so no brake torque
 };
 
 /** The blocked design on positioning duty: not self-locking is only information there. */

@@ -39,10 +39,27 @@ export const evaluationSchema = z.object({
     applies: z.boolean(), endConditionConstant: num, endConditionBasis: z.enum(['recommended', 'theoretical']), slenderness: num,
     transitionSlenderness: num, regime: z.enum(['euler', 'johnson']).nullable(), criticalLoad: nnum, safetyFactor: nnum,
   }),
-  criticalSpeed: z.object({ rpm: num, frequencyFactor: num, operatingRpm: nnum, ratio: nnum }),
+  criticalSpeed: z.object({
+    rpm: num, frequencyFactor: num, operatingRpm: nnum, ratio: nnum,
+    // added with issue 13 (absent from evaluations stored by earlier engine versions)
+    span: num.optional().describe('rotating span for whirl [m]'), ends: z.string().optional().describe('end conditions of the rotating span'),
+    partlyFixed: z.object({ rpm: num, frequencyFactor: num, factor: num, endConditionConstant: num, ratio: nnum }).nullable().optional()
+      .describe('fixed ends taken as only partly fixed (recommended basis); null when no end is fixed or the basis is theoretical'),
+  }),
   wear: z.object({ bearingPressure: num, slidingVelocity: nnum, pv: nnum, allowablePressure: nnum, allowablePv: nnum, pressureRatio: nnum, pvRatio: nnum }),
   power: z.object({ input: nnum, linearSpeed: nnum, rotationalSpeed: nnum }),
-  drive: z.object({ availableTorque: num, requiredTorque: num, margin: num }).nullable(),
+  brake: z.object({
+    holdingTorqueNoFriction: num.describe('F l / (2 pi) [N*m]'), holdingTorqueMinFriction: num, reverseEfficiency: num,
+    location: z.enum(['screw', 'motor']), requiredTorque: num, ratedTorque: nnum, ratio: nnum,
+  }).optional().describe('added with issue 13 (absent from evaluations stored by earlier engine versions)'),
+  drive: z.object({
+    availableTorque: num, requiredTorque: num, margin: num,
+    // added with issue 13 (absent from evaluations stored by earlier engine versions)
+    steadyTorque: num.optional(), loadMass: nnum.optional(), loadMassBasis: z.enum(['stated', 'weight', 'not-included']).optional(),
+    angularAcceleration: nnum.optional(), screwInertia: num.optional(), loadInertia: nnum.optional(), accelerationTorque: num.optional(),
+    peakTorque: num.optional(), gearbox: z.object({ ratio: num, efficiency: num, reverseEfficiency: num }).nullable().optional(),
+    peakTorqueAtMotor: num.optional(), holdingTorqueAtMotor: num.optional(),
+  }).nullable(),
   safetyFactors: z.object({ bodyVonMises: num, firstThreadRoot: num, strippingScrew: num, strippingNut: nnum, buckling: nnum }),
   findings: z.array(findingSchema),
   trace: z.record(z.string(), z.object({ formula: z.string(), inputs: z.record(z.string(), num) })),

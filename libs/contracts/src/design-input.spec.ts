@@ -146,6 +146,28 @@ describe('parseDesign: library entries and standard sizes', () => {
     expectClose(design.thread.majorDiameter, 1.5 * IN, { rtol: 1e-15 });
     expectClose(design.thread.pitch, IN / 4, { rtol: 1e-15 });
     expect(design.thread.starts).toBe(1);
+    // the size is one US vote against the rest of the design in SI (11 quantities): SI by majority
+    expect(design.unitSystem).toBe('SI');
+  });
+
+  it('unit-system vote: the design is reported in the system most of its quantities were entered in; the size is a vote', () => {
+    const mixed = (thread: DesignInput['thread'], collarDiameter: string): DesignInput => ({
+      thread,
+      load: { axial: '6.4 kN', sense: 'compression' }, // SI
+      friction: { thread: { min: 0.1, max: 0.15, source }, collar: { min: 0.1, max: 0.15, source } },
+      collar: { kind: 'plain', meanDiameter: collarDiameter },
+      nut: { length: '2 in' }, // US
+      screw: { material: 'steel-1045-cd', unsupportedLength: '12 in', ends: 'pinned-pinned' }, // US (library material: no vote)
+      duty: { kind: 'positioning', speed: '60 rpm', brake: false }, // rev/min counts for neither
+    });
+    // inch size: US 3 (size, nut, span) against SI 2 (load, collar)
+    expect(parsed(mixed({ form: 'acme', size: '1-1/2-4 ACME' }, '40 mm')).unitSystem).toBe('US');
+    // metric size instead: US 2 against SI 3
+    expect(parsed(mixed({ form: 'trapezoidal', size: 'Tr 40x7' }, '40 mm')).unitSystem).toBe('SI');
+    // a tie is reported in SI (US only when more quantities are in US units): US 3 (d, nut, span), SI 3 (p, load, collar)
+    expect(parsed(mixed({ form: 'acme', majorDiameter: '1.5 in', pitch: '6.35 mm' }, '40 mm')).unitSystem).toBe('SI');
+    // one more US quantity tips it: the collar in inches makes US 4 against SI 2
+    expect(parsed(mixed({ form: 'acme', majorDiameter: '1.5 in', pitch: '6.35 mm' }, '1.6 in')).unitSystem).toBe('US');
   });
 
   it('a friction-library entry supplies its Shigley Table 8-5 range and source (public source, read: friction-and-materials.md §1)', () => {
@@ -174,8 +196,13 @@ describe('parseDesign: library entries and standard sizes', () => {
     });
     expect(design.screw.yieldStrength).toBe(400e6);
     expect(design.screw.elasticModulus).toBe(207e9);
-    expectClose(design.nut.allowablePressure ?? NaN, 1600 * PSI, { rtol: 1e-15 }); // Shigley Table 8-4, 1600 psi (from memory)
+    // Shigley 9th ed. Table 8-4 (from memory), steel/bronze by rubbing speed: 1600 psi (jack), 800 psi (hoist), 150 psi (lead screw)
+    expect(design.nut.allowablePressure).toBeNull(); // no single value: the speed-rated steps apply
+    expect(design.nut.materialSource).toBe('library');
+    expect((design.nut.pressureBySpeed ?? []).map((s) => s.allowablePressure)).toEqual([1600 * PSI, 800 * PSI, 150 * PSI]);
+    expectClose(design.nut.yieldStrength ?? NaN, 14000 * PSI, { rtol: 1e-15 }); // ASTM B584 C93200 minimum 14 ksi (from memory)
   });
+
 });
 
 describe('parseDesign: every validation error names the field at fault', () => {
@@ -205,7 +232,17 @@ describe('parseDesign: every validation error names the field at fault', () => {
     ['size of another form', 'thread.size', /is a trapezoidal size, but thread.form is acme/, (d) => (d.thread = { form: 'acme', size: 'Tr 24x5' })],
     ['size disagreeing with a given major diameter', 'thread.majorDiameter', /disagrees with size Tr 24x5/, (d) => (d.thread = { form: 'trapezoidal', size: 'Tr 24x5', majorDiameter: '25 mm' })],
     ['neither size nor major diameter', 'thread.majorDiameter', /required unless thread.size/, (d) => delete d.thread.majorDiameter],
-    ['unknown nut material', 'nut.material', /unknown nut material "unobtainium"/, (d) => (d.nut.material = 'unobtainium')],
+    ['nut material of its own without an allowable pressure', 'nut.material', /"unobtainium" is not a library nut material.*needs nut.allowablePressure/, (d) => { d.nut.material = 'unobtainium'; delete d.nut.allowablePressure; }],
+    ['nut material of its own without a pV limit at speed', 'nut.material', /needs nut.allowablePv \(a speed is given\)/, (d) => { d.nut.material = 'unobtainium'; delete d.nut.allowablePv; }],
+    ['a value overflowing on conversion ("1e308 GPa")', 'screw.elasticModulus', /too large to compute with/, (d) => (d.screw.elasticModulus = '1e308 GPa')],
+    ['friction range inside the choice with "min": "NaN"', 'friction.collar.min', /expected number, received string/, (d) => (d.friction.collar = { min: 'NaN', max: 0.2, source: otherSource })],
+    ['friction range inside the choice with a bad source kind', 'friction.thread.source.kind', /expected one of/, (d) => (d.friction.thread = { min: 0.1, max: 0.2, source: { kind: 'guess', reference: 'x' } })],
+    ['friction entry inside the choice that is not a string', 'friction.thread.entry', /expected string/, (d) => (d.friction.thread = { entry: 5 })],
+    ['a choice no form matches says what each form found', 'thread.loadFlankAngle', /matches none of the accepted forms: .*expected number, received boolean; or .*expected string, received boolean/, (d) => { d.thread.form = 'buttress'; d.thread.loadFlankAngle = true; }],
+    ['both a single allowable and steps', 'nut.allowablePressureBySpeed', /not both/, (d) => (d.nut.allowablePressureBySpeed = [{ allowablePressure: '5 MPa' }])],
+    ['steps whose allowable rises with speed', 'nut.allowablePressureBySpeed.1.allowablePressure', /never rises with speed/, (d) => { delete d.nut.allowablePressure; d.nut.allowablePressureBySpeed = [{ upToRubbingSpeed: '3 m/min', allowablePressure: '5 MPa' }, { allowablePressure: '8 MPa' }]; }],
+    ['steps out of speed order', 'nut.allowablePressureBySpeed.1.upToRubbingSpeed', /low to high speed/, (d) => { delete d.nut.allowablePressure; d.nut.allowablePressureBySpeed = [{ upToRubbingSpeed: '6 m/min', allowablePressure: '5 MPa' }, { upToRubbingSpeed: '3 m/min', allowablePressure: '4 MPa' }]; }],
+    ['an open step before the last', 'nut.allowablePressureBySpeed.0.upToRubbingSpeed', /only the last step/, (d) => { delete d.nut.allowablePressure; d.nut.allowablePressureBySpeed = [{ allowablePressure: '5 MPa' }, { upToRubbingSpeed: '3 m/min', allowablePressure: '4 MPa' }]; }],
     ['unknown screw material', 'screw.material', /unknown screw material/, (d) => (d.screw = { material: 'unobtainium', unsupportedLength: '600 mm', ends: 'fixed-free' })],
     ['screw data missing without a material', 'screw.yieldStrength', /required unless screw.material/, (d) => delete d.screw.yieldStrength],
     ['unknown friction entry', 'friction.thread.entry', /unknown friction-library entry/, (d) => (d.friction.thread = { entry: 'thread/teflon-on-ice' })],
@@ -245,8 +282,52 @@ describe('parseDesign: every validation error names the field at fault', () => {
     const input = shigleySi() as Record<string, any>; // eslint-disable-line @typescript-eslint/no-explicit-any
     input.collar = { kind: 'annular', outerDiameter: '20 mm', innerDiameter: '50 mm', model: 'uniform-wear' };
     input.nut.material = 'unobtainium';
+    delete input.nut.allowablePressure;
     input.duty.linearSpeed = '1 m/min';
     const result = parseDesign(input);
     expect(result.success ? [] : result.issues.map((i) => i.path).sort()).toEqual(['collar.innerDiameter', 'duty.linearSpeed', 'nut.material']);
+  });
+});
+
+describe("parseDesign: a nut material of the design's own (issue 10 item 7)", () => {
+  it('a name that is not a library id is accepted when the design gives the allowables, and kept as entered', () => {
+    const input = shigleySi();
+    const design = parsed({ ...input, nut: { ...input.nut, material: 'CuSn12 centrifugal cast (our spec N-12)' } });
+    expect(design.nut.material).toBe('CuSn12 centrifugal cast (our spec N-12)');
+    expect(design.nut.materialSource).toBe('design');
+    expect(design.nut.allowablePressure).toBe(10e6);
+    expect(design.nut.allowablePv).toBe(1.5e6);
+    expect(design.nut.yieldStrength).toBe(120e6);
+  });
+
+  it('without a speed, pV is not needed', () => {
+    const input = shigleySi();
+    const design = parsed({ ...input, duty: { kind: 'lifting', brake: true }, nut: { length: '24 mm', material: 'own bronze', allowablePressure: '10 MPa' } });
+    expect(design.nut.allowablePv).toBeNull();
+  });
+
+  it('a library id still supplies its values', () => {
+    const design = parsed({ ...shigleySi(), nut: { length: '24 mm', material: 'manganese-bronze' } });
+    expect(design.nut.materialSource).toBe('library');
+    expectClose(design.nut.yieldStrength ?? NaN, 45000 * PSI, { rtol: 1e-15 }); // ASTM B584 C86200 minimum 45 ksi (from memory)
+    expectClose(design.nut.allowablePv ?? NaN, 150000 * PSI * (0.3048 / 60), { rtol: 1e-12 }); // Mott Table 16-1
+  });
+
+  it("the design's own pressure-speed steps replace the library's, in engine units", () => {
+    const input = shigleySi();
+    const design = parsed({
+      ...input,
+      nut: { length: '24 mm', material: 'bronze', allowablePressureBySpeed: [{ upToRubbingSpeed: '3 m/min', allowablePressure: '12 MPa' }, { allowablePressure: '2 MPa' }] },
+    });
+    expect(design.nut.pressureBySpeed?.map((s) => [s.upToRubbingSpeed, s.allowablePressure])).toEqual([[0.05, 12e6], [null, 2e6]]);
+  });
+});
+
+describe('parseDesign: units (issue 13 item 12)', () => {
+  it('"kpsi" is accepted as ksi (1 kpsi = 1000 lbf/in^2, NIST SP 811 B.8)', () => {
+    const input = shigleySi();
+    const design = parsed({ ...input, screw: { ...input.screw, yieldStrength: '54 kpsi' } });
+    expectClose(design.screw.yieldStrength, 54000 * PSI, { rtol: 1e-15 });
+    expect(parsed({ ...input, screw: { ...input.screw, yieldStrength: '54 ksi' } }).screw.yieldStrength).toBe(design.screw.yieldStrength);
   });
 });

@@ -12,10 +12,13 @@ import {
   parseQuantity,
   QuantityError,
   BUTTRESS_PROFILES,
+  TOLERANCE_CLASSES,
+  iso2903Row,
   DIMENSION_HINT,
   type Design,
   type Dimension,
   type FrictionRange,
+  type PressureSpeedPoint,
 } from '@leadline/mechanics';
 import { z } from 'zod';
 
@@ -61,14 +64,34 @@ export const designInputSchema = z.strictObject({
     pitch: length('pitch (axial distance between adjacent threads)').optional(),
     starts: z.number().int('starts must be a whole number').min(1, 'starts must be at least 1').max(12).optional(),
     loadFlankAngle: z.union([z.number(), quantity('angle', 'load-flank angle')]).optional().describe('buttress only: 3 or 7 deg'),
+    toleranceClass: z
+      .string()
+      .max(20)
+      .optional()
+      .describe('tolerance class, nut/screw: "7H/7e" (ISO 2903, trapezoidal) or "2G", "3G", "4G" (ASME B1.5, Acme); the checks then use its minimum-material diameters'),
   }),
   load: z.strictObject({ axial: quantity('force', 'axial load'), sense: z.enum(['compression', 'tension']) }),
   friction: z.strictObject({ thread: frictionRangeSchema, collar: frictionRangeSchema.optional() }),
   collar: collarSchema,
   nut: z.strictObject({
     length: length('nut length (engaged)'),
-    material: z.string().max(60).optional().describe('nut material id from the library, e.g. "bronze"'),
-    allowablePressure: quantity('stress', 'allowable mean bearing pressure (overrides the material)').optional(),
+    material: z
+      .string()
+      .max(60)
+      .optional()
+      .describe('nut material: a library id, e.g. "bronze", or a name of the design\'s own (then give the allowables the checks need)'),
+    allowablePressure: quantity('stress', 'allowable mean bearing pressure, used at any rubbing speed (overrides the material)').optional(),
+    allowablePressureBySpeed: z
+      .array(
+        z.strictObject({
+          upToRubbingSpeed: quantity('linearSpeed', 'highest rubbing speed at the mean diameter this allowable covers (omit on the last: any higher speed)').optional(),
+          allowablePressure: quantity('stress', 'allowable mean bearing pressure up to that rubbing speed'),
+        }),
+      )
+      .min(1)
+      .max(12)
+      .optional()
+      .describe('allowable pressure against rubbing speed, slowest first (overrides the material)'),
     allowablePv: quantity('pv', 'allowable pV at the mean diameter, e.g. "2.5 MPa*m/s" (overrides the material)').optional(),
     yieldStrength: quantity('stress', 'nut material yield strength (overrides the material)').optional(),
   }),
@@ -80,6 +103,8 @@ export const designInputSchema = z.strictObject({
     unsupportedLength: length('unsupported length between supports (column and shaft length)'),
     ends: z.enum(END_CONDITIONS),
     endConditionBasis: z.enum(['recommended', 'theoretical']).optional(),
+    whirlSpan: length('rotating span between the bearings, for whirl (default: screw.unsupportedLength)').optional(),
+    whirlEnds: z.enum(END_CONDITIONS).optional().describe('end conditions of the rotating span, for whirl (default: screw.ends)'),
   }),
   duty: z.strictObject({
     kind: z.enum(['lifting', 'positioning', 'clamping']),
@@ -87,8 +112,24 @@ export const designInputSchema = z.strictObject({
     linearSpeed: quantity('linearSpeed', 'nut travel speed').optional(),
     brake: z.boolean(),
     vibration: z.boolean().optional(),
+    brakeTorque: quantity('torque', 'rated static torque of the brake, at the shaft it sits on (needs duty.brake true)').optional(),
+    brakeLocation: z.enum(['screw', 'motor']).optional().describe('shaft the brake sits on: "screw" (default) or "motor" (ahead of drive.gearbox)'),
   }),
-  drive: z.strictObject({ availableTorque: quantity('torque', 'torque the drive can deliver at start') }).optional(),
+  drive: z
+    .strictObject({
+      availableTorque: quantity('torque', 'torque the drive can deliver at start (at the motor shaft when drive.gearbox is given)'),
+      loadMass: quantity('mass', 'mass moved with the nut (default on lifting duty: load.axial / g)').optional(),
+      accelerationTime: quantity('time', 'time to reach the operating speed (needs duty.speed or duty.linearSpeed)').optional(),
+      acceleration: quantity('linearAcceleration', 'linear acceleration of the nut').optional(),
+      gearbox: z
+        .strictObject({
+          ratio: z.number().finite().positive('ratio must be greater than zero').max(10000).describe('motor speed over screw speed'),
+          efficiency: z.number().finite().positive('efficiency must be within 0..1 (above 0)').max(1, 'efficiency must be within 0..1').describe('forward efficiency, motor driving'),
+          reverseEfficiency: z.number().finite().positive('efficiency must be within 0..1 (above 0)').max(1, 'efficiency must be within 0..1').describe('reverse efficiency, load driving the gearbox backwards'),
+        })
+        .optional(),
+    })
+    .optional(),
 });
 
 export type DesignInput = z.input<typeof designInputSchema>;
@@ -107,14 +148,45 @@ function pathOf(path: readonly PropertyKey[]): string {
   return path.map(String).join('.');
 }
 
+interface RawIssue {
+  readonly code?: string;
+  readonly path: readonly PropertyKey[];
+  readonly message: string;
+  readonly errors?: readonly (readonly RawIssue[])[];
+}
+
+/**
+ * Field issues from zod's, with a failed choice (a union such as a friction range typed in or a library entry)
+ * replaced by the issues of the branch the input meant: the one whose failures are fewest, counting a wrong or
+ * unknown key at the branch's own level as a mismatch of shape. So `"min": "NaN"` is reported at friction.collar.min.
+ */
+function fieldIssues(issues: readonly RawIssue[], prefix: readonly PropertyKey[] = []): FieldIssue[] {
+  const out: FieldIssue[] = [];
+  for (const issue of issues) {
+    const path = [...prefix, ...issue.path];
+    if (issue.code === 'invalid_union' && issue.errors && issue.errors.length > 0) {
+      const score = (branch: readonly RawIssue[]) =>
+        branch.reduce((n, i) => n + (i.path.length === 0 || i.code === 'unrecognized_keys' ? 100 : 1), 0);
+      const best = [...issue.errors].sort((a, b) => score(a) - score(b))[0];
+      if (best.length > 0 && score(best) < 100) {
+        out.push(...fieldIssues(best, path));
+        continue;
+      }
+      // No branch is clearly meant: say what each accepted form found wrong
+      const forms = issue.errors.map((branch) => branch.map((i) => `${i.path.length > 0 ? `${pathOf(i.path)}: ` : ''}${i.message}`).join(', '));
+      out.push({ path: pathOf(path) || '(body)', message: `matches none of the accepted forms: ${forms.join('; or ')}` });
+      continue;
+    }
+    out.push({ path: pathOf(path) || '(body)', message: issue.message });
+  }
+  return out;
+}
+
 /** Validates a raw design input and converts it to engine units; never throws on bad input. */
 export function parseDesign(raw: unknown): DesignParseResult {
   const shape = designInputSchema.safeParse(raw);
   if (!shape.success) {
-    return {
-      success: false,
-      issues: shape.error.issues.map((i) => ({ path: pathOf(i.path) || '(body)', message: i.message })),
-    };
+    return { success: false, issues: fieldIssues(shape.error.issues as readonly RawIssue[]) };
   }
   return normalizeDesign(shape.data);
 }
@@ -138,7 +210,7 @@ function normalizeDesign(input: Parsed): DesignParseResult {
       return NaN;
     }
     if (r.usCustomary) us++;
-    else if (dimension !== 'rotationalSpeed' && dimension !== 'angle') si++;
+    else if (dimension !== 'rotationalSpeed' && dimension !== 'angle' && dimension !== 'time') si++;
     return r.si;
   };
   const opt = (text: string | undefined, dimension: Dimension, path: string): number | null =>
@@ -181,6 +253,20 @@ function normalizeDesign(input: Parsed): DesignParseResult {
     }
   } else if (th.loadFlankAngle !== undefined) {
     issues.push({ path: 'thread.loadFlankAngle', message: 'only a buttress thread takes a load-flank angle' });
+  }
+
+  // Tolerance class: the checks use its minimum-material diameters
+  let toleranceClass: string | null = null;
+  if (th.toleranceClass !== undefined) {
+    const held = TOLERANCE_CLASSES[th.form] ?? [];
+    if (!held.includes(th.toleranceClass)) {
+      issues.push({
+        path: 'thread.toleranceClass',
+        message: held.length > 0 ? `${th.form} threads take one of ${held.map((c) => `"${c}"`).join(', ')}` : `no tolerance class is held for ${th.form} threads; omit it (the basic profile is used)`,
+      });
+    } else if (th.form === 'trapezoidal' && majorDiameter !== null && pitch !== null && !iso2903Row(majorDiameter, pitch)) {
+      issues.push({ path: 'thread.toleranceClass', message: 'ISO 2903 7H/7e limits are held for the standard sizes Tr 8x1.5 to Tr 120x22 only' });
+    } else toleranceClass = th.toleranceClass;
   }
 
   // Friction ranges, typed in or from the library
@@ -226,15 +312,58 @@ function normalizeDesign(input: Parsed): DesignParseResult {
       collar = { kind: 'none' };
   }
 
-  // Nut, with its library material
-  const nutMaterial = input.nut.material === undefined ? null : findNutMaterial(input.nut.material);
-  if (nutMaterial === undefined) issues.push({ path: 'nut.material', message: `unknown nut material "${input.nut.material}" (see GET /api/v1/materials)` });
+  // Nut: a library material supplies what the design does not give; any other name is the design's own material,
+  // accepted when the design gives the values the wear checks need (allowable pressure; pV too when a speed is given)
+  const n = input.nut;
+  const nutMaterial = n.material === undefined ? null : findNutMaterial(n.material);
+  const speedGiven = input.duty.speed !== undefined || input.duty.linearSpeed !== undefined;
+  if (nutMaterial === undefined) {
+    const needs = [
+      n.allowablePressure === undefined && n.allowablePressureBySpeed === undefined ? 'nut.allowablePressure (or nut.allowablePressureBySpeed)' : null,
+      speedGiven && n.allowablePv === undefined ? 'nut.allowablePv (a speed is given)' : null,
+    ].filter((x): x is string => x !== null);
+    if (needs.length > 0) {
+      issues.push({
+        path: 'nut.material',
+        message: `"${n.material}" is not a library nut material (see GET /api/v1/materials); as a material of the design's own it needs ${needs.join(' and ')}`,
+      });
+    }
+  }
+  if (n.allowablePressure !== undefined && n.allowablePressureBySpeed !== undefined) {
+    issues.push({ path: 'nut.allowablePressureBySpeed', message: 'give either nut.allowablePressure (any speed) or nut.allowablePressureBySpeed, not both' });
+  }
+  let ownSteps: PressureSpeedPoint[] | null = null;
+  if (n.allowablePressureBySpeed !== undefined) {
+    ownSteps = n.allowablePressureBySpeed.map((step, i) => {
+      const at = `nut.allowablePressureBySpeed.${i}`;
+      const upTo = opt(step.upToRubbingSpeed, 'linearSpeed', `${at}.upToRubbingSpeed`);
+      if (upTo === null && i < n.allowablePressureBySpeed!.length - 1) {
+        issues.push({ path: `${at}.upToRubbingSpeed`, message: 'only the last step may omit its speed (it then covers any higher speed)' });
+      }
+      return { upToRubbingSpeed: upTo, allowablePressure: q(step.allowablePressure, 'stress', `${at}.allowablePressure`), application: upTo === null ? 'design value, any higher speed' : 'design value', source: `design input (${at})` };
+    });
+    ownSteps.forEach((step, i) => {
+      const before = ownSteps![i - 1];
+      if (!before) return;
+      const at = `nut.allowablePressureBySpeed.${i}`;
+      if (before.upToRubbingSpeed !== null && step.upToRubbingSpeed !== null && !(step.upToRubbingSpeed > before.upToRubbingSpeed)) {
+        issues.push({ path: `${at}.upToRubbingSpeed`, message: 'steps must run from low to high speed' });
+      }
+      if ((step.allowablePressure ?? 0) > (before.allowablePressure ?? 0)) {
+        issues.push({ path: `${at}.allowablePressure`, message: 'must not exceed the allowable at a lower speed (the allowable never rises with speed)' });
+      }
+    });
+    ownSteps = ownSteps.map((step) => ({ ...step, application: `the design's own value up to ${step.upToRubbingSpeed === null ? 'any speed' : `${Number((step.upToRubbingSpeed * 60).toPrecision(4))} m/min`}` }));
+  }
+  const ownPressure = opt(n.allowablePressure, 'stress', 'nut.allowablePressure');
   const nut: Design['nut'] = {
-    length: q(input.nut.length, 'length', 'nut.length'),
-    material: input.nut.material ?? null,
-    allowablePressure: opt(input.nut.allowablePressure, 'stress', 'nut.allowablePressure') ?? nutMaterial?.allowablePressure ?? null,
-    allowablePv: opt(input.nut.allowablePv, 'pv', 'nut.allowablePv') ?? nutMaterial?.allowablePv ?? null,
-    yieldStrength: opt(input.nut.yieldStrength, 'stress', 'nut.yieldStrength') ?? nutMaterial?.yieldStrength ?? null,
+    length: q(n.length, 'length', 'nut.length'),
+    material: n.material ?? null,
+    materialSource: n.material === undefined ? null : nutMaterial ? 'library' : 'design',
+    allowablePressure: ownPressure,
+    pressureBySpeed: ownPressure !== null ? null : (ownSteps ?? (nutMaterial && nutMaterial.pressureBySpeed.length > 0 ? nutMaterial.pressureBySpeed : null)),
+    allowablePv: opt(n.allowablePv, 'pv', 'nut.allowablePv') ?? nutMaterial?.allowablePv ?? null,
+    yieldStrength: opt(n.yieldStrength, 'stress', 'nut.yieldStrength') ?? nutMaterial?.yieldStrength ?? null,
   };
   if (pitch !== null && nut.length < pitch) issues.push({ path: 'nut.length', message: 'the nut must engage at least one full pitch' });
 
@@ -257,6 +386,8 @@ function normalizeDesign(input: Parsed): DesignParseResult {
     unsupportedLength: q(s.unsupportedLength, 'length', 'screw.unsupportedLength'),
     ends: s.ends,
     endConditionBasis: s.endConditionBasis ?? 'recommended',
+    whirlSpan: opt(s.whirlSpan, 'length', 'screw.whirlSpan'),
+    whirlEnds: s.whirlEnds ?? null,
   };
 
   // Duty
@@ -270,17 +401,36 @@ function normalizeDesign(input: Parsed): DesignParseResult {
     linearSpeed: opt(d.linearSpeed, 'linearSpeed', 'duty.linearSpeed'),
     brake: d.brake,
     vibration: d.vibration ?? false,
+    brakeTorque: opt(d.brakeTorque, 'torque', 'duty.brakeTorque'),
+    brakeLocation: d.brakeLocation ?? 'screw',
   };
 
   const axial = q(input.load.axial, 'force', 'load.axial');
-  const drive = input.drive ? { availableTorque: q(input.drive.availableTorque, 'torque', 'drive.availableTorque') } : null;
+  if (d.brakeTorque !== undefined && !d.brake) issues.push({ path: 'duty.brakeTorque', message: 'a brake torque needs duty.brake true' });
+  if (d.brakeLocation === 'motor' && !d.brake) issues.push({ path: 'duty.brakeLocation', message: 'a brake location needs duty.brake true' });
+  const dr = input.drive;
+  if (dr?.accelerationTime !== undefined && dr.acceleration !== undefined) {
+    issues.push({ path: 'drive.acceleration', message: 'give either drive.accelerationTime or drive.acceleration, not both' });
+  }
+  if (dr?.accelerationTime !== undefined && d.speed === undefined && d.linearSpeed === undefined) {
+    issues.push({ path: 'drive.accelerationTime', message: 'a time to speed needs the operating speed: give duty.speed or duty.linearSpeed' });
+  }
+  const drive: Design['drive'] = dr
+    ? {
+        availableTorque: q(dr.availableTorque, 'torque', 'drive.availableTorque'),
+        loadMass: opt(dr.loadMass, 'mass', 'drive.loadMass'),
+        accelerationTime: opt(dr.accelerationTime, 'time', 'drive.accelerationTime'),
+        acceleration: opt(dr.acceleration, 'linearAcceleration', 'drive.acceleration'),
+        gearbox: dr.gearbox ?? null,
+      }
+    : null;
   if (issues.length > 0 || majorDiameter === null || pitch === null || threadFriction === null) {
     return { success: false, issues };
   }
   return {
     success: true,
     design: {
-      thread: { form: th.form, size, majorDiameter, pitch, starts: th.starts ?? 1, loadFlankAngle },
+      thread: { form: th.form, size, majorDiameter, pitch, starts: th.starts ?? 1, loadFlankAngle, toleranceClass },
       load: { axial, sense: input.load.sense },
       friction: { thread: threadFriction, collar: collarFriction },
       collar,

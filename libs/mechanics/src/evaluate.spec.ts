@@ -106,13 +106,15 @@ describe('Juvinall & Marshek, Fundamentals of Machine Component Design, 5th ed.,
     expectClose(e.efficiency.atMinFriction, 0.136, { rtol: 0, atol: 0.0005 });
   });
 
+  // A law comparing two engine formulas (not a check value): each is checked against the book's figures above
   it('the sec(alpha) approximation of Shigley 10th ed., Eq. (8-5) lies within 0.05 % of the exact form here (common practice: "negligible")', () => {
     expectClose(e.torque.raiseSecAlpha.atMinFriction, e.torque.threadRaise.atMinFriction, { rtol: 5e-4 });
   });
 });
 
-describe('V. B. Bhandari, Design of Machine Elements, 3rd ed., power-screw example (from memory)', () => {
-  // Double-start square thread, 25 mm nominal, 5 mm pitch, W = 10 kN, collar 50 mm outer / 20 mm inner, uniform wear,
+describe('computed, hand check shown: inputs after a power-screw example of V. B. Bhandari, Design of Machine Elements, 3rd ed. (example number not recorded, from memory)', () => {
+  // The expected values are the hand arithmetic below (computed), not read from the book; they agree with the figures
+  // recalled from it. Double-start square thread, 25 mm nominal, 5 mm pitch, W = 10 kN, collar 50 mm outer / 20 mm inner, uniform wear,
   // f = 0.2, f_c = 0.15. Hand check: d_m = 22.5 mm, l = 10 mm, tan lambda = 10 / (22.5 pi) = 0.14147;
   // T_thread = 10 000 x 11.25 x (0.2 + 0.14147) / (1 - 0.2 x 0.14147) = 39 534 N*mm; T_c = 0.15 x 10 000 x (50 + 20) / 4 = 26 250 N*mm;
   // total 65 784 N*mm; threads for 5.8 N/mm^2: n = 10 000 / (pi x 22.5 x 2.5 x 5.8) = 9.757. Agrees with the recalled figures.
@@ -127,11 +129,11 @@ describe('V. B. Bhandari, Design of Machine Elements, 3rd ed., power-screw examp
     duty: { kind: 'lifting', brake: false },
   });
 
-  it('collar torque 26 250 N*mm (book prints whole N*mm)', () => {
+  it('collar torque 26 250 N*mm (hand check, whole N*mm)', () => {
     expectClose(e.torque.collar.atMinFriction * 1000, 26250, { rtol: 0, atol: 0.5 });
   });
 
-  it('thread torque 39.5 N*m and total 65.8 N*m (0.1 N*m)', () => {
+  it('thread torque 39.5 N*m and total 65.8 N*m (hand check, 0.1 N*m)', () => {
     expectClose(e.torque.threadRaise.atMinFriction, 39.5, { rtol: 0, atol: 0.05 });
     expectClose(e.torque.raise.atMinFriction, 65.8, { rtol: 0, atol: 0.05 });
   });

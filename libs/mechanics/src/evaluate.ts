@@ -4,9 +4,14 @@
  */
 import type { Design } from './design';
 import * as m from './mechanics';
+import * as brakeMath from './brake';
+import * as driveMath from './drive';
+import * as whirl from './whirl';
+import { pressureStepAt } from './materials';
+import { minimumMaterial, type MinimumMaterial } from './tolerances';
 import { DEG, threadGeometry, threadThicknessAtDepth } from './threads';
 
-export const ENGINE_VERSION = '1.0.0';
+export const ENGINE_VERSION = '1.1.0';
 
 /** A pair of values at the two ends of the friction range. */
 export interface AtFriction {
@@ -44,6 +49,14 @@ export interface Evaluation {
     readonly engagedThreads: number;
     readonly rootThickness: number;
     readonly nutRootThickness: number;
+    /** Basic minor diameter of the nut (internal) thread D1 [m]: where the screw's threads strip */
+    readonly nutMinorDiameter: number;
+    /** The diameters the strength, bearing and stripping checks use: a tolerance class's minimum material, else basic */
+    readonly minimumMaterial: MinimumMaterial;
+    /** Area of the minor-diameter section the strength checks use, pi d_r^2 / 4 (minimum material with a class) [m^2] */
+    readonly minorDiameterArea: number;
+    /** 60 deg threads: tensile stress area of ISO 898-1 / ASME B1.1, for reference only [m^2]; null for other forms */
+    readonly tensileStressArea: number | null;
   };
   readonly torque: {
     readonly raise: AtFriction;
@@ -70,9 +83,13 @@ export interface Evaluation {
       readonly vonMises: number;
       readonly atMinFriction: { readonly torsion: number; readonly vonMises: number };
     };
-    readonly firstThread: { readonly bearing: number; readonly rootBending: number; readonly rootShear: number; readonly vonMises: number };
+    /** vonMises: the worse of the two root fillets; load: max(0.38 F, F / n_t) [N] */
+    readonly firstThread: { readonly bearing: number; readonly rootBending: number; readonly rootShear: number; readonly vonMises: number; readonly load: number };
+    /** The nut's own threads at their root (first-thread load): bending and transverse shear [Pa] */
+    readonly nutThread: { readonly rootBending: number; readonly rootShear: number };
     readonly mean: { readonly bearing: number; readonly rootBending: number; readonly rootShear: number; readonly vonMises: number };
-    readonly stripping: { readonly screw: number; readonly nut: number };
+    /** Stripping shear on the standard planes; areas over the engaged length [m^2] */
+    readonly stripping: { readonly screw: number; readonly nut: number; readonly screwArea: number; readonly nutArea: number };
   };
   readonly buckling: {
     readonly applies: boolean;
@@ -89,24 +106,88 @@ export interface Evaluation {
     readonly frequencyFactor: number;
     readonly operatingRpm: number | null;
     readonly ratio: number | null;
+    /** Rotating span between bearings [m] (the column's unsupported length unless stated) */
+    readonly span: number;
+    /** End conditions of the rotating span (the column's unless stated) */
+    readonly ends: m.EndCondition;
+    /**
+     * Fixed ends taken as only partly fixed (common practice), where the column uses the recommended basis and an
+     * end is fixed: simply supported shaft over L / sqrt(C_recommended); null otherwise
+     */
+    readonly partlyFixed: {
+      readonly rpm: number;
+      readonly frequencyFactor: number;
+      /** n_c' / n_c [-] */
+      readonly factor: number;
+      readonly endConditionConstant: number;
+      readonly ratio: number | null;
+    } | null;
   };
   readonly wear: {
     readonly bearingPressure: number;
     readonly slidingVelocity: number | null;
     readonly pv: number | null;
+    /** Allowable mean pressure at the actual rubbing speed [Pa] (the design's single value at any speed) */
     readonly allowablePressure: number | null;
+    /** Which allowable applied: the class of a speed-rated table, or the design's single value at any speed */
+    readonly allowablePressureClass: string | null;
+    readonly allowablePressureSource: string | null;
+    /** 'speed-rated': chosen for the rubbing speed (or the lowest-speed class when no speed is given); 'any-speed': a single value */
+    readonly allowablePressureBasis: 'speed-rated' | 'any-speed' | null;
     readonly allowablePv: number | null;
     readonly pressureRatio: number | null;
     readonly pvRatio: number | null;
   };
   readonly power: { readonly input: number | null; readonly linearSpeed: number | null; readonly rotationalSpeed: number | null };
-  readonly drive: { readonly availableTorque: number; readonly requiredTorque: number; readonly margin: number } | null;
+  /** Holding the load: always reported (whether or not a brake is fitted) */
+  readonly brake: {
+    /** Torque the load exerts with thread friction lost (f -> 0): F l / (2 pi) [N*m] */
+    readonly holdingTorqueNoFriction: number;
+    /** Torque a brake must hold at minimum thread friction, collar ignored (0 when self-locking) [N*m] */
+    readonly holdingTorqueMinFriction: number;
+    /** Reverse (back-driving) efficiency at minimum thread friction; <= 0 means the load cannot drive the screw */
+    readonly reverseEfficiency: number;
+    readonly location: 'screw' | 'motor';
+    /** Zero-friction holding torque at the brake's shaft (through the gearbox's reverse efficiency on the motor) [N*m] */
+    readonly requiredTorque: number;
+    /** Rated brake torque as stated [N*m], else null */
+    readonly ratedTorque: number | null;
+    /** ratedTorque / requiredTorque, else null */
+    readonly ratio: number | null;
+  };
+  readonly drive: {
+    readonly availableTorque: number;
+    /** Torque the drive must deliver: peak torque at the motor (steady raise torque when nothing accelerates and no gearbox) */
+    readonly requiredTorque: number;
+    readonly margin: number;
+    /** Raise torque at maximum friction, collar included, at the screw [N*m] */
+    readonly steadyTorque: number;
+    /** Mass moved with the nut [kg]: stated, F / g on lifting duty, else null (not included) */
+    readonly loadMass: number | null;
+    readonly loadMassBasis: 'stated' | 'weight' | 'not-included';
+    /** Angular acceleration of the screw [rad/s^2], null when none is given */
+    readonly angularAcceleration: number | null;
+    readonly screwInertia: number;
+    /** Load inertia referred to the screw [kg*m^2], null without a load mass */
+    readonly loadInertia: number | null;
+    /** Torque to accelerate screw and load, at the screw [N*m] (0 when no acceleration is given) */
+    readonly accelerationTorque: number;
+    /** Steady plus acceleration torque at the screw [N*m] */
+    readonly peakTorque: number;
+    readonly gearbox: { readonly ratio: number; readonly efficiency: number; readonly reverseEfficiency: number } | null;
+    /** Peak torque referred to the motor through the gearbox [N*m] (= peakTorque without one) */
+    readonly peakTorqueAtMotor: number;
+    /** Zero-friction holding torque referred to the motor through the gearbox's reverse efficiency [N*m] */
+    readonly holdingTorqueAtMotor: number;
+  } | null;
   /** Capacity over demand for each strength check (yield-based; shear against 0.577 S_y) */
   readonly safetyFactors: {
     readonly bodyVonMises: number;
     readonly firstThreadRoot: number;
     readonly strippingScrew: number;
     readonly strippingNut: number | null;
+    /** Nut's own threads: root bending against S_y and root shear against 0.577 S_y of the nut, the lower; null without a nut yield */
+    readonly nutThreadRoot: number | null;
     readonly buckling: number | null;
   };
   /** Filled by the rules module; the engine itself judges nothing */
@@ -125,7 +206,11 @@ export function evaluate(design: Design): Evaluation {
   const g = threadGeometry(thread);
   const F = load.axial;
   const Fsigned = load.sense === 'compression' ? -F : F;
-  const { lead: l, meanDiameter: dm, minorDiameter: dr, threadHeight: h, pitch: p } = g;
+  const { lead: l, meanDiameter: dm, pitch: p } = g;
+  // Strength, bearing and stripping use the minimum-material diameters of a named tolerance class (basic without one)
+  const mm = minimumMaterial(g, thread.toleranceClass ?? null);
+  const dr = mm.minorDiameter;
+  const h = mm.engagedHeight;
   const alpha = g.flankAngle * DEG;
   const lambda = m.leadAngle(l, dm);
   const alphaN = m.normalFlankAngle(alpha, lambda);
@@ -141,6 +226,9 @@ export function evaluate(design: Design): Evaluation {
   t('geometry.leadAngle', 'lead-angle', { l, d_m: dm });
   t('geometry.normalFlankAngle', 'normal-flank-angle', { alpha: g.flankAngle, lambda: lambda / DEG });
   t('geometry.engagedThreads', 'engaged-threads', { L_nut: nut.length, p });
+  if (g.form === 'iso-metric' || g.form === 'unified') {
+    t('geometry.tensileStressArea', g.form === 'iso-metric' ? 'tensile-stress-area-iso' : 'tensile-stress-area-unified', { d: g.majorDiameter, p });
+  }
 
   // Torques at both ends of the friction range
   const fMin = friction.thread.min;
@@ -197,6 +285,23 @@ export function evaluate(design: Design): Evaluation {
   t('selfLocking.margin', 'self-locking-margin', { f_min: fMin, lambda: lambda / DEG, alpha_n: alphaN / DEG });
   if (!locks) t('selfLocking.backDrivingTorque', 'back-driving-torque', threadInputs(fMin));
 
+  // Holding the load: always reported; the brake's requirement takes thread friction as lost (f -> 0)
+  const gearbox = design.drive?.gearbox ?? null;
+  const holdNoFriction = brakeMath.holdingTorqueNoFriction(F, l);
+  const holdMinFriction = brakeMath.holdingTorqueAtFriction(F, dm, l, fMin, alphaN);
+  const reverseEff = brakeMath.reverseEfficiency(F, dm, l, fMin, alphaN);
+  const holdAtMotor = gearbox ? driveMath.motorHoldingTorqueThroughGearbox(holdNoFriction, gearbox.ratio, gearbox.reverseEfficiency) : holdNoFriction;
+  const brakeLocation = duty.brakeLocation ?? 'screw';
+  const brakeRequired = brakeLocation === 'motor' ? holdAtMotor : holdNoFriction;
+  const brakeRated = duty.brakeTorque ?? null;
+  t('brake.holdingTorqueNoFriction', 'brake-holding-torque-no-friction', { F, l });
+  t('brake.holdingTorqueMinFriction', 'brake-holding-torque-min-friction', threadInputs(fMin));
+  t('brake.reverseEfficiency', 'reverse-efficiency', threadInputs(fMin));
+  if (brakeLocation === 'motor' && gearbox) {
+    t('brake.requiredTorque', 'motor-holding-torque-through-gearbox', { T: holdNoFriction, i: gearbox.ratio, eta_r: gearbox.reverseEfficiency });
+  }
+  if (brakeRated !== null) t('brake.ratio', 'brake-torque-ratio', { T_brake: brakeRated, T_0: brakeRequired });
+
   // Body stresses: torsion from the total raise torque at maximum friction (conservative)
   const axial = m.bodyAxialStress(Fsigned, dr);
   const torsion = m.bodyTorsionStress(raise.atMaxFriction, dr);
@@ -207,19 +312,22 @@ export function evaluate(design: Design): Evaluation {
   t('stresses.body.vonMises', 'von-mises-axial-torsion', { sigma: axial, tau: torsion });
 
   // Thread stresses: cantilever arm from the pitch line to the root, root thickness on the straight flanks
-  const arm = (dm - dr) / 2;
-  const b = threadThicknessAtDepth(g, arm);
-  const bNut = threadThicknessAtDepth(g, (g.nutMajorDiameter - dm) / 2);
+  // The flank load acts mid-way up the contact band (the mean diameter on the basic profile; moved with the band's
+  // edges, the screw's major and the nut's minor diameter, at minimum material); thicknesses follow each part's pitch diameter
+  const loadDiameter = dm + (mm.majorDiameter - g.majorDiameter + (mm.nutMinorDiameter - g.nutMinorDiameter)) / 2;
+  const arm = (loadDiameter - dr) / 2;
+  const b = threadThicknessAtDepth(g, (mm.pitchDiameter - dr) / 2);
+  const bNut = threadThicknessAtDepth(g, (g.nutMajorDiameter - mm.nutPitchDiameter) / 2);
   const threadStresses = (Ft: number) => {
     const bending = m.threadRootBending(Ft, dr, arm, b);
     return {
       bearing: m.threadBearingStress(Ft, dm, h),
       rootBending: bending,
       rootShear: m.threadRootShear(Ft, dr, b),
-      vonMises: m.rootVonMises(bending, axial, torsion),
+      vonMises: m.rootVonMisesWorseFillet(bending, axial, torsion),
     };
   };
-  const Ffirst = 0.38 * F;
+  const Ffirst = m.firstThreadLoad(F, nt);
   const Fmean = F / nt;
   const first = threadStresses(Ffirst);
   const mean = threadStresses(Fmean);
@@ -233,10 +341,23 @@ export function evaluate(design: Design): Evaluation {
       tau: torsion,
     });
   }
-  const stripScrew = m.strippingShear(F, dr, b, nt);
-  const stripNut = m.strippingShear(F, g.nutMajorDiameter, bNut, nt);
-  t('stresses.stripping.screw', 'thread-stripping-screw', { F, d_r: dr, b, n_t: nt });
-  t('stresses.stripping.nut', 'thread-stripping-nut', { F, D: g.nutMajorDiameter, b_n: bNut, n_t: nt });
+  t('stresses.firstThread.load', 'thread-load-share-first', { F, n_t: nt });
+  // Stripping on the standard shear planes: the screw's threads at the nut's minor diameter, the nut's at the screw's major
+  const D1 = mm.nutMinorDiameter;
+  const tScrew = threadThicknessAtDepth(g, (mm.pitchDiameter - D1) / 2);
+  const tNut = threadThicknessAtDepth(g, (mm.majorDiameter - mm.nutPitchDiameter) / 2);
+  const stripScrewArea = m.strippingArea(D1, tScrew, nt);
+  const stripNutArea = m.strippingArea(mm.majorDiameter, tNut, nt);
+  const stripScrew = F / stripScrewArea;
+  const stripNut = F / stripNutArea;
+  t('stresses.stripping.screw', 'thread-stripping-screw', { F, D_1: D1, t_s: tScrew, n_t: nt });
+  t('stresses.stripping.nut', 'thread-stripping-nut', { F, d: mm.majorDiameter, t_n: tNut, n_t: nt });
+  // The nut's own threads: a cantilever of width pi D4 from the nut root to the pitch line, first-thread load
+  const nutArm = (g.nutMajorDiameter - loadDiameter) / 2;
+  const nutBending = m.threadRootBending(Ffirst, g.nutMajorDiameter, nutArm, bNut);
+  const nutShear = m.threadRootShear(Ffirst, g.nutMajorDiameter, bNut);
+  t('stresses.nutThread.rootBending', 'nut-thread-root-bending', { F_t: Ffirst, D_4: g.nutMajorDiameter, a_n: nutArm, b_n: bNut });
+  t('stresses.nutThread.rootShear', 'nut-thread-root-shear', { F_t: Ffirst, D_4: g.nutMajorDiameter, b_n: bNut });
 
   // Column
   const C = m.END_CONDITION_CONSTANT[screw.endConditionBasis][screw.ends];
@@ -266,14 +387,41 @@ export function evaluate(design: Design): Evaluation {
   // Speeds, whirl, wear and power
   const rpm = duty.speed ?? (duty.linearSpeed !== null ? (duty.linearSpeed / l) * 60 : null);
   const n = rpm === null ? null : rpm / 60;
-  const betaL = m.WHIRL_FREQUENCY_FACTOR[screw.ends];
-  const nc = m.criticalSpeedRpm(betaL, dr, L, screw.elasticModulus, screw.density);
-  t('criticalSpeed.rpm', 'critical-speed', { beta_1L: betaL, d_r: dr, L, E: screw.elasticModulus, rho: screw.density });
+  const whirlSpan = screw.whirlSpan ?? L;
+  const whirlEnds = screw.whirlEnds ?? screw.ends;
+  const betaL = m.WHIRL_FREQUENCY_FACTOR[whirlEnds];
+  const nc = m.criticalSpeedRpm(betaL, dr, whirlSpan, screw.elasticModulus, screw.density);
+  t('criticalSpeed.rpm', 'critical-speed', { beta_1L: betaL, d_r: dr, L: whirlSpan, E: screw.elasticModulus, rho: screw.density });
   if (rpm !== null) t('criticalSpeed.ratio', 'critical-speed-ratio', { n: rpm, n_c: nc });
+  // Fixed ends only partly fixed, with the partial fixity the recommended column constants assume (common practice)
+  let partlyFixed: Evaluation['criticalSpeed']['partlyFixed'] = null;
+  if (screw.endConditionBasis === 'recommended' && whirlEnds.startsWith('fixed')) {
+    const Cw = m.END_CONDITION_CONSTANT.recommended[whirlEnds];
+    const betaLp = whirl.partlyFixedFrequencyFactor(Cw);
+    const ncp = m.criticalSpeedRpm(betaLp, dr, whirlSpan, screw.elasticModulus, screw.density);
+    partlyFixed = { rpm: ncp, frequencyFactor: betaLp, factor: whirl.partlyFixedSpeedFactor(Cw, betaL), endConditionConstant: Cw, ratio: rpm === null ? null : rpm / ncp };
+    t('criticalSpeed.partlyFixed.frequencyFactor', 'critical-speed-partly-fixed', { C: Cw });
+    t('criticalSpeed.partlyFixed.rpm', 'critical-speed', { beta_1L: betaLp, d_r: dr, L: whirlSpan, E: screw.elasticModulus, rho: screw.density });
+    t('criticalSpeed.partlyFixed.factor', 'critical-speed-partly-fixed-factor', { C: Cw, beta_1L: betaL });
+    if (rpm !== null) t('criticalSpeed.partlyFixed.ratio', 'critical-speed-ratio', { n: rpm, n_c: ncp });
+  }
 
   const pressure = m.nutBearingPressure(F, dm, h, nt);
   const vs = n === null ? null : m.slidingVelocity(dm, n, lambda);
   const pv = vs === null ? null : pressure * vs;
+  // Allowable pressure: the design's single value at any speed, else the speed-rated step for the actual rubbing speed
+  const step = nut.allowablePressure === null && nut.pressureBySpeed ? pressureStepAt(nut.pressureBySpeed, vs) : null;
+  const allowablePressure = nut.allowablePressure ?? step?.allowablePressure ?? null;
+  const allowablePressureBasis = nut.allowablePressure !== null ? 'any-speed' : step ? 'speed-rated' : null;
+  const allowablePressureClass =
+    nut.allowablePressure !== null
+      ? "the design's own value, used at any rubbing speed"
+      : step === null
+        ? null
+        : vs === null
+          ? `${step.application}; no operating speed was given, so the lowest-speed class is assumed`
+          : step.application;
+  const allowablePressureSource = nut.allowablePressure !== null ? 'design input (nut.allowablePressure)' : (step?.source ?? null);
   t('wear.bearingPressure', 'nut-bearing-pressure', { F, d_m: dm, h, n_t: nt });
   if (vs !== null) {
     t('wear.slidingVelocity', 'sliding-velocity', { d_m: dm, n: n as number, lambda: lambda / DEG });
@@ -286,10 +434,56 @@ export function evaluate(design: Design): Evaluation {
     t('power.input', 'input-power', { T_R: raise.atMaxFriction, n });
     t('power.linearSpeed', 'linear-speed', { l, n });
   }
-  const drive = design.drive
-    ? { availableTorque: design.drive.availableTorque, requiredTorque: raise.atMaxFriction, margin: design.drive.availableTorque / raise.atMaxFriction }
-    : null;
-  if (drive) t('drive.margin', 'drive-margin', { T_av: drive.availableTorque, T_R: drive.requiredTorque });
+  let drive: Evaluation['drive'] = null;
+  if (design.drive) {
+    const dd = design.drive;
+    const steady = raise.atMaxFriction;
+    const statedMass = dd.loadMass ?? null;
+    const loadMass = statedMass ?? (duty.kind === 'lifting' ? driveMath.loadMassFromWeight(F) : null);
+    const loadMassBasis = statedMass !== null ? 'stated' : loadMass !== null ? 'weight' : 'not-included';
+    if (loadMassBasis === 'weight') t('drive.loadMass', 'load-mass-from-weight', { F });
+    const Js = driveMath.screwInertia(screw.density, whirlSpan, dr, g.majorDiameter);
+    t('drive.screwInertia', 'screw-inertia', { rho: screw.density, L: whirlSpan, d_r: dr, d: g.majorDiameter });
+    const JL = loadMass === null ? null : driveMath.reflectedLoadInertia(loadMass, l);
+    if (JL !== null && loadMass !== null) t('drive.loadInertia', 'load-inertia-reflected', { m: loadMass, l });
+    // Either is accepted by the contract, never both; time to speed needs an operating speed (checked at input)
+    let alphaAcc: number | null = null;
+    if (dd.accelerationTime != null && n !== null) {
+      alphaAcc = driveMath.angularAccelerationFromTime(n, dd.accelerationTime);
+      t('drive.angularAcceleration', 'angular-acceleration-from-time', { n, t_a: dd.accelerationTime });
+    } else if (dd.acceleration != null) {
+      alphaAcc = driveMath.angularAccelerationFromLinear(dd.acceleration, l);
+      t('drive.angularAcceleration', 'angular-acceleration-from-linear', { a_nut: dd.acceleration, l });
+    }
+    const accTorque = alphaAcc === null ? 0 : driveMath.accelerationTorque(Js, JL ?? 0, eff.atMaxFriction, alphaAcc);
+    if (alphaAcc !== null) {
+      t('drive.accelerationTorque', 'acceleration-torque', { J_s: Js, J_L: JL ?? 0, e: eff.atMaxFriction, alpha_acc: alphaAcc });
+    }
+    const peak = steady + accTorque;
+    t('drive.peakTorque', 'peak-torque', { T_R: steady, T_a: accTorque });
+    const peakAtMotor = gearbox ? driveMath.motorTorqueThroughGearbox(peak, gearbox.ratio, gearbox.efficiency) : peak;
+    if (gearbox) {
+      t('drive.peakTorqueAtMotor', 'motor-torque-through-gearbox', { T: peak, i: gearbox.ratio, eta_g: gearbox.efficiency });
+      t('drive.holdingTorqueAtMotor', 'motor-holding-torque-through-gearbox', { T: holdNoFriction, i: gearbox.ratio, eta_r: gearbox.reverseEfficiency });
+    }
+    drive = {
+      availableTorque: dd.availableTorque,
+      requiredTorque: peakAtMotor,
+      margin: dd.availableTorque / peakAtMotor,
+      steadyTorque: steady,
+      loadMass,
+      loadMassBasis,
+      angularAcceleration: alphaAcc,
+      screwInertia: Js,
+      loadInertia: JL,
+      accelerationTorque: accTorque,
+      peakTorque: peak,
+      gearbox,
+      peakTorqueAtMotor: peakAtMotor,
+      holdingTorqueAtMotor: holdAtMotor,
+    };
+    t('drive.margin', 'drive-margin', { T_av: drive.availableTorque, T_R: drive.requiredTorque });
+  }
 
   const shearYield = SHEAR_YIELD_RATIO * screw.yieldStrength;
   return {
@@ -303,8 +497,8 @@ export function evaluate(design: Design): Evaluation {
       starts: thread.starts,
       lead: l,
       meanDiameter: dm,
-      minorDiameter: dr,
-      threadHeight: h,
+      minorDiameter: g.minorDiameter,
+      threadHeight: g.threadHeight,
       crestClearance: g.crestClearance,
       nutMajorDiameter: g.nutMajorDiameter,
       flankAngle: g.flankAngle,
@@ -313,6 +507,10 @@ export function evaluate(design: Design): Evaluation {
       engagedThreads: nt,
       rootThickness: b,
       nutRootThickness: bNut,
+      nutMinorDiameter: g.nutMinorDiameter,
+      minimumMaterial: mm,
+      minorDiameterArea: area,
+      tensileStressArea: g.form === 'iso-metric' || g.form === 'unified' ? m.tensileStressArea60(g.majorDiameter, p, g.form) : null,
     },
     torque: {
       raise,
@@ -334,9 +532,10 @@ export function evaluate(design: Design): Evaluation {
     },
     stresses: {
       body: { axial, torsion, vonMises: bodyVm, atMinFriction: { torsion: torsionMin, vonMises: m.vonMisesAxialTorsion(axial, torsionMin) } },
-      firstThread: first,
+      firstThread: { ...first, load: Ffirst },
+      nutThread: { rootBending: nutBending, rootShear: nutShear },
       mean,
-      stripping: { screw: stripScrew, nut: stripNut },
+      stripping: { screw: stripScrew, nut: stripNut, screwArea: stripScrewArea, nutArea: stripNutArea },
     },
     buckling: {
       applies: compressed,
@@ -348,23 +547,37 @@ export function evaluate(design: Design): Evaluation {
       criticalLoad,
       safetyFactor: bucklingFactor,
     },
-    criticalSpeed: { rpm: nc, frequencyFactor: betaL, operatingRpm: rpm, ratio: rpm === null ? null : rpm / nc },
+    criticalSpeed: { rpm: nc, frequencyFactor: betaL, operatingRpm: rpm, ratio: rpm === null ? null : rpm / nc, span: whirlSpan, ends: whirlEnds, partlyFixed },
     wear: {
       bearingPressure: pressure,
       slidingVelocity: vs,
       pv,
-      allowablePressure: nut.allowablePressure,
+      allowablePressure,
+      allowablePressureClass,
+      allowablePressureSource,
+      allowablePressureBasis,
       allowablePv: nut.allowablePv,
-      pressureRatio: nut.allowablePressure === null ? null : pressure / nut.allowablePressure,
+      pressureRatio: allowablePressure === null ? null : pressure / allowablePressure,
       pvRatio: pv === null || nut.allowablePv === null ? null : pv / nut.allowablePv,
     },
     power: { input: inputPower, linearSpeed, rotationalSpeed: rpm },
+    brake: {
+      holdingTorqueNoFriction: holdNoFriction,
+      holdingTorqueMinFriction: holdMinFriction,
+      reverseEfficiency: reverseEff,
+      location: brakeLocation,
+      requiredTorque: brakeRequired,
+      ratedTorque: brakeRated,
+      ratio: brakeRated === null ? null : brakeRated / brakeRequired,
+    },
     drive,
     safetyFactors: {
       bodyVonMises: screw.yieldStrength / bodyVm,
       firstThreadRoot: screw.yieldStrength / first.vonMises,
       strippingScrew: shearYield / stripScrew,
       strippingNut: nut.yieldStrength === null ? null : (SHEAR_YIELD_RATIO * nut.yieldStrength) / stripNut,
+      nutThreadRoot:
+        nut.yieldStrength === null ? null : Math.min(nut.yieldStrength / nutBending, (SHEAR_YIELD_RATIO * nut.yieldStrength) / nutShear),
       buckling: bucklingFactor,
     },
     findings: [],

@@ -27,8 +27,9 @@ function threadOf(t: { dm: number; leadRatio: number; alphaDeg: number }) {
 }
 
 describe('columns: Euler and J. B. Johnson', () => {
-  it("Shigley 9th/10th ed., Ch. 4 column examples (from memory): solid round, E = 207 GPa, Sy = 500 MPa, C = 1 gives (l/k)_1 = 90.4", () => {
-    // the book prints one decimal: half a unit of 0.1
+  it('computed: (l/k)_1 = sqrt(2 pi^2 C E / Sy) (Shigley 9th ed., Sec. 4-13, Eq. (4-45)) for E = 207 GPa, Sy = 500 MPa, C = 1 is 90.4', () => {
+    // hand arithmetic: sqrt(2 x 9.8696 x 207e9 / 500e6) = sqrt(8171.99) = 90.40; the same figure is recalled from the chapter's
+    // column examples (from memory; edition's example number not recorded), so it is marked computed. Tolerance: 0.05
     expectClose(m.transitionSlenderness(1, 207e9, 500e6), 90.4, { rtol: 0, atol: 0.05 });
   });
 

@@ -200,11 +200,12 @@ export function threadRootShear(Ft: number, dr: number, b: number): number {
 /**
  * Mean shear stress over a cylinder of threads that would strip.
  * tau = F / (pi D b n_t)
- * @param D - shear diameter: screw minor diameter, or nut major diameter [m]
- * @param b - thread thickness at that diameter [m]
+ * @param D - shear diameter: the nut's minor diameter for the screw's threads, the screw's major diameter for the nut's [m]
+ * @param b - thickness of the stripping thread at that diameter [m]
  * @param nt - engaged threads [-]
  * @returns stress [Pa]
- * Source: Bhandari, Design of Machine Elements, 3rd ed., Sec. 6.10 (from memory). Id: thread-stripping-screw / -nut.
+ * Source: Bhandari, Design of Machine Elements, 3rd ed., Sec. 6.10 (from memory), on the shear planes of
+ * Machinery's Handbook "Strength of screw threads" (see strippingArea). Id: thread-stripping-screw / -nut.
  */
 export function strippingShear(F: number, D: number, b: number, nt: number): number {
   return F / (Math.PI * D * b * nt);
@@ -302,4 +303,64 @@ export function nutBearingPressure(F: number, dm: number, h: number, nt: number)
  */
 export function slidingVelocity(dm: number, n: number, lambda: number): number {
   return (Math.PI * dm * n) / Math.cos(lambda);
+}
+
+/**
+ * von Mises stress at the worse of the two thread-root fillets. The root bending stress acts with opposite signs
+ * on the two fillets; with the signed body axial stress, the fillet where they combine worse governs.
+ * sigma' = max over s = +1, -1 of sqrt((s sigma_b)^2 + sigma^2 - s sigma_b sigma + 3 tau^2)
+ *        = sqrt(sigma_b^2 + sigma^2 + |sigma_b sigma| + 3 tau^2)
+ * @param sigmaB - root bending stress magnitude [Pa]
+ * @param sigma - body axial stress, signed (tension positive) [Pa]
+ * @param tau - body torsional shear stress [Pa]
+ * @returns stress [Pa]; equals rootVonMises(sigma_b, sigma, tau) in compression, larger in tension.
+ * Source: Shigley 10th ed., Sec. 8-2, stress element of Ex. 8-1(g) taken with both signs of sigma_x, Eq. (5-14). Id: thread-root-von-mises.
+ */
+export function rootVonMisesWorseFillet(sigmaB: number, sigma: number, tau: number): number {
+  return Math.max(rootVonMises(sigmaB, sigma, tau), rootVonMises(-sigmaB, sigma, tau));
+}
+
+/** Share of the axial load on the first engaged thread, after Marshek (from memory): 0.38. */
+export const FIRST_THREAD_SHARE = 0.38;
+
+/**
+ * Load on the first engaged thread, never below the mean load per thread.
+ * F_1 = max(0.38 F, F / n_t)
+ * @param F - axial load [N]
+ * @param nt - engaged threads [-]
+ * @returns load [N]; below about 2.6 engaged threads F / n_t governs.
+ * Source: Shigley 10th ed., Sec. 8-2 after Marshek (0.38 F on the first thread, from memory); the first thread cannot
+ * carry less than the mean share (statics). Id: thread-load-share-first.
+ */
+export function firstThreadLoad(F: number, nt: number): number {
+  return Math.max(FIRST_THREAD_SHARE * F, F / nt);
+}
+
+/**
+ * Shear area of threads stripping on a cylinder, per the standard shear planes.
+ * A = pi D t n_t, with t the thread thickness at the diameter D
+ * @param D - shear diameter: the nut's minor diameter for the screw's threads, the screw's major diameter for the nut's [m]
+ * @param t - thickness, at D, of the thread that strips [m]
+ * @param nt - engaged threads [-]
+ * @returns area [m^2]
+ * Source: Machinery's Handbook, "Strength of screw threads" (A_s = pi n L_e D_n [1/(2n) + 0.57735 (E_s - D_n)] for
+ * 60 deg threads, from memory); FED-STD-H28/2 uses the same planes. Id: thread-stripping-screw / -nut.
+ */
+export function strippingArea(D: number, t: number, nt: number): number {
+  return Math.PI * D * t * nt;
+}
+
+/**
+ * Tensile stress area of a 60 deg thread, for reference beside the minor-diameter section.
+ * ISO: A_s = (pi/4) ((d_2 + d_3)/2)^2 = (pi/4) (d - 0.938194 P)^2; unified: A_s = 0.7854 (d - 0.9743/n)^2
+ * @param d - major diameter [m]
+ * @param p - pitch [m]
+ * @param form - 'iso-metric' or 'unified'
+ * @returns area [m^2]
+ * Source: ISO 898-1 (stress area A_s,nom) and ASME B1.1 (tensile stress area), formulas as in
+ * shared/reference/threads.md sections 4 and 5 (from memory). Id: tensile-stress-area-iso / -unified.
+ */
+export function tensileStressArea60(d: number, p: number, form: 'iso-metric' | 'unified'): number {
+  const k = form === 'iso-metric' ? (0.649519 + 1.226869) / 2 : 0.9743;
+  return (Math.PI / 4) * (d - k * p) ** 2;
 }

@@ -50,8 +50,13 @@ export interface ThreadGeometry {
   readonly flankAngle: number;
   /** The other flank's angle [deg] */
   readonly trailingFlankAngle: number;
-  /** Major diameter of the nut (internal) thread, where the nut's threads shear off [m] */
+  /** Major diameter of the nut (internal) thread, at the nut thread's root [m] */
   readonly nutMajorDiameter: number;
+  /**
+   * Minor diameter of the nut (internal) thread, basic [m]: the cylinder on which the screw's threads strip
+   * (d - p square and Acme, d - 0.6p stub Acme, D1 = d - P trapezoidal, d - 2h buttress, D1 = d - 1.082532p 60 deg)
+   */
+  readonly nutMinorDiameter: number;
   /** Crest clearance (trapezoidal a_c) [m], 0 where the form has none */
   readonly crestClearance: number;
   /** Formula ids behind mean and minor diameters, for the trace */
@@ -78,19 +83,22 @@ export interface ThreadSpec {
 export function threadGeometry(spec: ThreadSpec): ThreadGeometry {
   const { form, majorDiameter: d, pitch: p, starts } = spec;
   // One object literal at the end (no spreads): this runs on every request.
-  let dm: number, dr: number, h: number, alpha: number, trailing: number, nutMajor = d, ac = 0;
+  let dm: number, dr: number, h: number, alpha: number, trailing: number, nutMajor = d, ac = 0, nutMinor: number;
   let dmFormula = 'mean-diameter-half-pitch', drFormula = 'minor-diameter-full-pitch', standard: string;
   switch (form) {
     case 'square':
       [dm, dr, h, alpha, trailing] = [d - p / 2, d - p, p / 2, 0, 0];
+      nutMinor = d - p;
       standard = 'square thread (Shigley 10th ed., Fig. 8-3a)';
       break;
     case 'acme':
       [dm, dr, h, alpha, trailing] = [d - p / 2, d - p, p / 2, 14.5, 14.5];
+      nutMinor = d - p; // ASME B1.5 internal minor diameter minimum, basic (from memory)
       standard = 'ASME B1.5 general-purpose Acme (29 deg), basic';
       break;
     case 'stub-acme':
       [dm, dr, h, alpha, trailing] = [d - 0.3 * p, d - 0.6 * p, 0.3 * p, 14.5, 14.5];
+      nutMinor = d - 0.6 * p;
       dmFormula = 'mean-diameter-stub-acme';
       drFormula = 'minor-diameter-stub-acme';
       standard = 'ASME B1.8 stub Acme (29 deg), basic';
@@ -99,6 +107,7 @@ export function threadGeometry(spec: ThreadSpec): ThreadGeometry {
       ac = trapezoidalCrestClearance(p / MM) * MM;
       [dm, dr, h, alpha, trailing] = [d - p / 2, d - p - 2 * ac, p / 2, 15, 15];
       nutMajor = d + 2 * ac;
+      nutMinor = d - p; // ISO 2901 D1 = d - 2 H1 = d - P
       drFormula = 'minor-diameter-trapezoidal';
       standard = 'ISO 2901/2903/2904 metric trapezoidal (30 deg)';
       break;
@@ -107,6 +116,7 @@ export function threadGeometry(spec: ThreadSpec): ThreadGeometry {
       if (!profile) throw new Error('buttress geometry is tabulated for 3 deg and 7 deg load flanks only');
       h = profile.engagementHeight * p;
       [dm, dr, alpha, trailing] = [d - h, d - 2 * profile.externalThreadHeight * p, spec.loadFlankAngle as number, profile.trailingFlankAngle];
+      nutMinor = d - 2 * h; // the engaged height h reaches from the major diameter to the nut's minor diameter
       dmFormula = 'mean-diameter-buttress';
       drFormula = 'minor-diameter-buttress';
       standard = profile.standard;
@@ -115,6 +125,7 @@ export function threadGeometry(spec: ThreadSpec): ThreadGeometry {
     case 'unified':
     case 'iso-metric':
       [dm, dr, h, alpha, trailing] = [d - 0.649519 * p, d - 1.226869 * p, 0.541266 * p, 30, 30];
+      nutMinor = d - 1.082532 * p; // ISO 724 / ASME B1.1 D1 = d - (5/8) H x 2
       dmFormula = 'mean-diameter-60deg';
       drFormula = 'minor-diameter-60deg';
       standard = form === 'unified' ? 'ASME B1.1 unified (60 deg), basic' : 'ISO 68-1 metric (60 deg), basic';
@@ -122,7 +133,7 @@ export function threadGeometry(spec: ThreadSpec): ThreadGeometry {
   }
   return {
     form, majorDiameter: d, pitch: p, starts, lead: starts * p, meanDiameter: dm, minorDiameter: dr, threadHeight: h,
-    flankAngle: alpha, trailingFlankAngle: trailing, nutMajorDiameter: nutMajor, crestClearance: ac,
+    flankAngle: alpha, trailingFlankAngle: trailing, nutMajorDiameter: nutMajor, nutMinorDiameter: nutMinor, crestClearance: ac,
     meanDiameterFormula: dmFormula, minorDiameterFormula: drFormula, standard,
   };
 }

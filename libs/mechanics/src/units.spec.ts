@@ -29,6 +29,7 @@ describe('NIST SP 811 App. B conversions through parseQuantity', () => {
     ['lbf', 'force', LBF, 4.448222, true],
     ['psi', 'stress', LBF / IN ** 2, 6.894757e3, true],
     ['ksi', 'stress', (1000 * LBF) / IN ** 2, 6.894757e6, true],
+    ['kpsi', 'stress', (1000 * LBF) / IN ** 2, 6.894757e6, true], // Shigley's spelling of ksi (its tables print kpsi)
     ['lbf*in', 'torque', LBF * IN, 1.129848e-1, true],
     ['lbf*ft', 'torque', LBF * FT, 1.355818, true],
     ['lb/in^3', 'density', LB / IN ** 3, 2.76799e4, true],
@@ -78,6 +79,8 @@ describe('NIST SP 811 App. B conversions through parseQuantity', () => {
     ['NaN mm', 'length', /expected "<number> <unit>"/],
     ['12', 'length', /expected "<number> <unit>"/],
     ['1e999 mm', 'length', /not a finite number/],
+    ['1e308 GPa', 'stress', /too large to compute with/], // finite as typed, 1e317 Pa after conversion (IEEE 754 max ~1.8e308)
+    ['1e306 kN*m', 'torque', /too large to compute with/],
     ['1 Hz', 'rotationalSpeed', /is not a rotational speed/], // Hz carries no angle: cycles, not revolutions, are ambiguous
     ['5 lbf', 'torque', /is not a torque/],
   ] as const)('rejects "%s" as a %s', (text, dimension, message) => {

@@ -12,6 +12,8 @@ const math = create(all, {});
 // mathjs's psi is a rounded 6894.75729276459 Pa (off by 6e-11); NIST SP 811 defines it as lbf/in^2 exactly.
 math.createUnit('psi', '1 lbf/in^2', { override: true });
 math.createUnit('ksi', '1000 psi');
+// "kpsi" is the same unit (Shigley's tables print kpsi); accepted as a spelling of ksi.
+math.createUnit('kpsi', '1000 psi');
 math.createUnit('Mpsi', '1000000 psi');
 math.createUnit('rev', '1 cycle');
 math.createUnit('rpm', '1 cycle/min');
@@ -27,7 +29,10 @@ export type Dimension =
   | 'rotationalSpeed'
   | 'linearSpeed'
   | 'angle'
-  | 'pv';
+  | 'pv'
+  | 'mass'
+  | 'time'
+  | 'linearAcceleration';
 
 /** mathjs base-dimension exponents: [MASS, LENGTH, TIME, CURRENT, TEMPERATURE, LUMINOUS, AMOUNT, ANGLE, BIT]. */
 const DIMENSIONS: Record<Dimension, number[]> = {
@@ -40,6 +45,9 @@ const DIMENSIONS: Record<Dimension, number[]> = {
   linearSpeed: [0, 1, -1, 0, 0, 0, 0, 0, 0],
   angle: [0, 0, 0, 0, 0, 0, 0, 1, 0],
   pv: [1, 0, -3, 0, 0, 0, 0, 0, 0],
+  mass: [1, 0, 0, 0, 0, 0, 0, 0, 0],
+  time: [0, 0, 1, 0, 0, 0, 0, 0, 0],
+  linearAcceleration: [0, 1, -2, 0, 0, 0, 0, 0, 0],
 };
 
 /** What a dimension is called in error messages, with example units. */
@@ -53,6 +61,9 @@ export const DIMENSION_HINT: Record<Dimension, string> = {
   linearSpeed: 'a linear speed such as "2 m/min" or "20 in/min"',
   angle: 'an angle such as "7 deg"',
   pv: 'a pressure-velocity product such as "2.5 MPa*m/s" or "75000 psi*ft/min"',
+  mass: 'a mass such as "250 kg" or "550 lb"',
+  time: 'a time such as "0.5 s" or "200 ms"',
+  linearAcceleration: 'a linear acceleration such as "0.5 m/s^2" or "20 in/s^2"',
 };
 
 /**
@@ -62,7 +73,7 @@ export const DIMENSION_HINT: Record<Dimension, string> = {
 const RAD_PER_S_TO_RPM = 60 / (2 * Math.PI);
 
 /** Units that belong to the US customary system; anything else entered counts as SI. */
-const US_CUSTOMARY = /(^|[^a-z])(in|inch|ft|foot|lbf|lb|lbm|psi|ksi|Mpsi|kip|mil)([^a-z]|$)/;
+const US_CUSTOMARY = /(^|[^a-z])(in|inch|ft|foot|lbf|lb|lbm|psi|ksi|kpsi|Mpsi|kip|mil)([^a-z]|$)/;
 
 interface ResolvedUnit {
   readonly dimension: Dimension | null;
@@ -122,7 +133,10 @@ export function parseQuantity(text: string, dimension: Dimension): Quantity | Qu
   if (unit.dimension !== dimension) {
     return new QuantityError(`"${text}" is not ${DIMENSION_HINT[dimension]}`);
   }
-  return { si: value * unit.factor, usCustomary: unit.usCustomary };
+  const si = value * unit.factor;
+  // A finite number can still overflow in conversion ("1e308 GPa" is 1e317 Pa): refuse it rather than compute with Infinity
+  if (!Number.isFinite(si)) return new QuantityError(`"${text}" converts to a number too large to compute with`);
+  return { si, usCustomary: unit.usCustomary };
 }
 
 /** Converts an SI value (engine units) into the given unit text, for reports. */

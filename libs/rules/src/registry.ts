@@ -11,12 +11,14 @@ import { liftingSelfLockingRule } from './rules/lifting-self-locking.rule';
 import { nutBearingPressureRule } from './rules/nut-bearing-pressure.rule';
 import { nutEngagedThreadsRule } from './rules/nut-engaged-threads.rule';
 import { nutPvRule } from './rules/nut-pv.rule';
+import { nutThreadRootYieldRule } from './rules/nut-thread-root-yield.rule';
 import { nutThreadStrippingRule } from './rules/nut-thread-stripping.rule';
 import { screwBodyYieldRule } from './rules/screw-body-yield.rule';
 import { screwThreadStrippingRule } from './rules/screw-thread-stripping.rule';
 import { shaftWhirlSpeedRule } from './rules/shaft-whirl-speed.rule';
 import { threadFrictionRangeRule } from './rules/thread-friction-range.rule';
 import { threadRootYieldRule } from './rules/thread-root-yield.rule';
+import { brakeHoldingTorqueRule } from './rules/brake-holding-torque.rule';
 
 export const RULE_REGISTRY: readonly Rule[] = Object.freeze([
   liftingSelfLockingRule,
@@ -24,6 +26,7 @@ export const RULE_REGISTRY: readonly Rule[] = Object.freeze([
   threadRootYieldRule,
   screwThreadStrippingRule,
   nutThreadStrippingRule,
+  nutThreadRootYieldRule,
   columnBucklingRule,
   columnEndFixityRule,
   shaftWhirlSpeedRule,
@@ -33,6 +36,7 @@ export const RULE_REGISTRY: readonly Rule[] = Object.freeze([
   frictionSourceAssumedRule,
   threadFrictionRangeRule,
   nutEngagedThreadsRule,
+  brakeHoldingTorqueRule,
 ]);
 
 /** The rules as the API lists them: id, title, basis, description. */

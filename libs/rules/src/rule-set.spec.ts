@@ -1,11 +1,32 @@
-import { DEFAULT_RULE_SET, parseRuleSet, ruleSetDefinitionSchema } from './rule-set';
+import { BUILT_IN_RULE_SETS, DEFAULT_RULE_SET, RULE_SET_2026_12_1, nutThreadMinSafetyFactor, parseRuleSet, ruleSetDefinitionSchema } from './rule-set';
 
 const clone = <T>(x: T): T => JSON.parse(JSON.stringify(x)) as T;
 
 describe('rule-set definition', () => {
-  it('the default rule set is version 2026.12-1 and passes its own schema', () => {
-    expect(DEFAULT_RULE_SET.version).toBe('2026.12-1');
+  it('the default rule set is version 2026.12-2 and passes its own schema', () => {
+    expect(DEFAULT_RULE_SET.version).toBe('2026.12-2');
     expect(ruleSetDefinitionSchema.parse(DEFAULT_RULE_SET)).toEqual(DEFAULT_RULE_SET);
+  });
+
+  it('2026.12-1 stays built in and parses to itself, without the groups added in 2026.12-2', () => {
+    expect(BUILT_IN_RULE_SETS.map((r) => r.version)).toEqual(['2026.12-1', '2026.12-2']);
+    const stored = clone(RULE_SET_2026_12_1); // as stored in rule_sets.definition (JSON)
+    expect(Object.keys(stored.thresholds)).not.toContain('nutThreads');
+    expect(Object.keys(stored.thresholds)).not.toContain('missingValues');
+    const parsed = parseRuleSet(stored);
+    expect(parsed.success).toBe(true);
+    if (parsed.success) expect(parsed.ruleSet).toEqual(stored);
+  });
+
+  it('2026.12-2 keeps every 2026.12-1 threshold', () => {
+    for (const [group, values] of Object.entries(RULE_SET_2026_12_1.thresholds)) {
+      expect((DEFAULT_RULE_SET.thresholds as Record<string, unknown>)[group]).toEqual(values);
+    }
+  });
+
+  it("nut-thread factors fall back to the screw-thread strength minimum where a version lacks them", () => {
+    expect(nutThreadMinSafetyFactor(RULE_SET_2026_12_1.thresholds)).toEqual(RULE_SET_2026_12_1.thresholds.strength.minSafetyFactor);
+    expect(nutThreadMinSafetyFactor(DEFAULT_RULE_SET.thresholds)).toEqual(DEFAULT_RULE_SET.thresholds.nutThreads?.minSafetyFactor);
   });
 
   it('lifting limits are stricter than positioning and clamping limits by default', () => {

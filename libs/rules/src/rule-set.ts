@@ -53,6 +53,28 @@ export const thresholdsSchema = z
       min: positive('fewest engaged threads before a warning'),
       max: positive('most engaged threads before a warning'),
     }),
+    // Added in 2026.12-2. Optional so that earlier definitions (2026.12-1) still parse unchanged and judge as before:
+    // where a group is absent, the check it brought is not part of that version (see the accessors below).
+    nutThreads: z
+      .strictObject({
+        minSafetyFactor: byDuty("static yield factor of safety of the nut's own threads (root bending, shear)"),
+      })
+      .optional()
+      .describe("added in 2026.12-2; absent in earlier versions (the nut-thread-root-yield rule then does not run)"),
+    missingValues: z
+      .strictObject({
+        onLifting: z
+          .enum(['blocking', 'info'])
+          .describe('severity on lifting duty of a strength check that cannot be computed because a value is missing'),
+      })
+      .optional()
+      .describe('added in 2026.12-2; absent in earlier versions (a missing value is then information, as 2026.12-1 judged)'),
+    brake: z
+      .strictObject({
+        minHoldingFactor: atLeastOne('rated brake torque over the zero-friction holding torque F l / (2 pi) at the brake shaft, below which the brake check fails'),
+      })
+      .optional()
+      .describe('added in 2026.12-2; absent in earlier versions (the brake-holding-torque rule then does not run)'),
   })
   .superRefine((t, ctx) => {
     const issue = (path: PropertyKey[], message: string) => ctx.addIssue({ code: 'custom', path, message });
@@ -81,10 +103,11 @@ export const ruleSetDefinitionSchema = z.strictObject({
 export type RuleSet = z.infer<typeof ruleSetDefinitionSchema>;
 
 /**
- * The rule set the service starts with. Defaults sit on the safe side; each number names its basis.
+ * The first rule set, kept as data: revisions judged under it name it, and it must keep parsing and meaning
+ * what it meant. Never change this definition; a change is a new version (below).
  * "From memory" marks a source recalled rather than read during this work.
  */
-export const DEFAULT_RULE_SET: RuleSet = {
+export const RULE_SET_2026_12_1: RuleSet = {
   version: '2026.12-1',
   description:
     'First Leadline rule set: self-locking on lifting duty, static strength, column buckling, whirl speed, nut wear, ' +
@@ -144,6 +167,62 @@ export const DEFAULT_RULE_SET: RuleSet = {
     },
   },
 };
+
+/**
+ * The rule set the service starts with (issue 13 corrections): every 2026.12-1 threshold unchanged, plus the
+ * thresholds of the checks added with it. Defaults sit on the safe side; each number names its basis.
+ */
+export const RULE_SET_2026_12_2: RuleSet = {
+  version: '2026.12-2',
+  description:
+    'Engineering corrections: nut bearing pressure against the rubbing speed, worse root fillet, short-nut first-thread ' +
+    "share, stripping on the standard shear planes, the nut's own threads, minimum material values, tolerance classes, " +
+    'missing values block on lifting duty; every 2026.12-1 threshold kept.',
+  thresholds: {
+    ...RULE_SET_2026_12_1.thresholds,
+    nutThreads: {
+      // Issue 13 item 5: the nut's threads carry the same load as the screw's, so they take the same factors as the
+      // screw threads (strength.minSafetyFactor above, common practice by analogy with ASME BTH-1, from memory).
+      minSafetyFactor: { ...RULE_SET_2026_12_1.thresholds.strength.minSafetyFactor },
+    },
+    missingValues: {
+      // Issue 13 item 12, the safe side: on lifting duty a strength check that cannot be computed (e.g. no nut yield
+      // strength) is never passed as "not applicable"; it blocks and names the value to give.
+      onLifting: 'blocking',
+    },
+    brake: {
+      // Issue 13 item 10, common practice: the brake alone holds the load with thread friction lost (f -> 0), with a
+      // factor of 2 for lining fade, wear and the dynamic torque of stopping a moving load. For comparison, hoist codes
+      // ask holding brakes for at least 125 % of the hoisting torque at the brake (ASME B30.16, from memory), a torque
+      // that includes friction; against the frictionless F l / (2 pi) the factor 2 is the stricter reading here.
+      minHoldingFactor: 2,
+    },
+  },
+};
+
+/** Rule sets built into the service, oldest first; the service stores each of them at start. */
+export const BUILT_IN_RULE_SETS: readonly RuleSet[] = Object.freeze([RULE_SET_2026_12_1, RULE_SET_2026_12_2]);
+
+/** The rule set new submissions are judged by until an admin adopts another. */
+export const DEFAULT_RULE_SET: RuleSet = RULE_SET_2026_12_2;
+
+/**
+ * Minimum factors for the nut's own threads, for reports and margins. A definition without the group (2026.12-1, where
+ * the nut-thread-root-yield rule does not run) falls back to the screw-thread strength minimum for display.
+ */
+export function nutThreadMinSafetyFactor(t: Thresholds): Thresholds['strength']['minSafetyFactor'] {
+  return t.nutThreads?.minSafetyFactor ?? t.strength.minSafetyFactor;
+}
+
+/** Severity on lifting duty of a strength check that cannot be computed for want of a value ('info' before 2026.12-2). */
+export function missingValueSeverityOnLifting(t: Thresholds): 'blocking' | 'info' {
+  return t.missingValues?.onLifting ?? 'info';
+}
+
+/** Minimum brake factor, or null when the rule set has no brake group (2026.12-1: the brake rule does not run). */
+export function brakeMinHoldingFactor(t: Thresholds): number | null {
+  return t.brake?.minHoldingFactor ?? null;
+}
 
 /** Result of validating a posted rule set: the rule set, or issues with dotted field paths. */
 export type RuleSetParseResult =

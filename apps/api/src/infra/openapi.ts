@@ -16,6 +16,7 @@ import { createTokenSchema, createUserSchema } from '../identities/identities.se
 import { createProductSchema } from '../products/products.service';
 import { commentSchema, decisionSchema, withdrawSchema } from '../reviews/reviews.service';
 import { impactSchema } from '../rules/impact.service';
+import { recheckResponseSchema, recheckSchema } from '../rules/recheck.service';
 import { adoptSchema } from '../rules/rule-sets.service';
 
 const json = (schema: ZodType, io: 'input' | 'output') => z.toJSONSchema(schema, { io, target: 'openapi-3.0', unrepresentable: 'any' });
@@ -62,6 +63,7 @@ export const ROUTES: Route[] = [
   { method: 'post', path: '/api/v1/rule-sets', summary: 'Create a new rule-set version (never edits one)', tag: 'rules', request: ruleSetDefinitionSchema, status: 201 },
   { method: 'get', path: '/api/v1/rule-sets/{version}', summary: 'One rule-set version', tag: 'rules' },
   { method: 'post', path: '/api/v1/rule-sets/{version}/impact', summary: 'Which revisions would change verdict under this version', tag: 'rules', request: impactSchema },
+  { method: 'post', path: '/api/v1/rule-sets/recheck', summary: 'Re-check latest and approved revisions with the current engine and adopted rule set (nothing is written)', tag: 'rules', request: recheckSchema, response: recheckResponseSchema },
   { method: 'post', path: '/api/v1/rule-sets/{version}/adopt', summary: 'Judge new submissions by this version', tag: 'rules', request: adoptSchema.unwrap() },
   { method: 'post', path: '/api/v1/users', summary: 'Create a user with roles (admin)', tag: 'identities', request: createUserSchema, status: 201 },
   { method: 'get', path: '/api/v1/users', summary: 'List users (admin)', tag: 'identities' },

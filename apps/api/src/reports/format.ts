@@ -27,7 +27,12 @@ export type QuantityKind =
   | 'coefficient'
   | 'ratio'
   | 'percent'
-  | 'count';
+  | 'count'
+  | 'mass'
+  | 'inertia'
+  | 'angularAcceleration'
+  | 'linearAcceleration'
+  | 'time';
 
 interface DisplayUnit {
   /** Unit as printed */
@@ -42,6 +47,8 @@ const via = (unitText: string, dimension: Parameters<typeof fromSi>[2]) => (si: 
 const IN2 = 0.0254 * 0.0254;
 /** Mechanical horsepower, 550 ft*lbf/s = 745.69987158227022 W (NIST SP 811, B.8) */
 const HP = 745.69987158227022;
+/** 1 lb = 0.45359237 kg exactly (NIST SP 811, B.8), so 1 lb*in^2 = 0.45359237 x 6.4516e-4 kg*m^2 */
+const LB = 0.45359237;
 
 const UNITS: Readonly<Record<UnitSystem, Readonly<Record<QuantityKind, DisplayUnit>>>> = {
   SI: {
@@ -64,6 +71,11 @@ const UNITS: Readonly<Record<UnitSystem, Readonly<Record<QuantityKind, DisplayUn
     ratio: { symbol: '', convert: identity },
     percent: { symbol: '%', convert: (x) => x * 100 },
     count: { symbol: '', convert: identity },
+    mass: { symbol: 'kg', convert: identity },
+    inertia: { symbol: 'kg·cm²', convert: (si) => si * 1e4 },
+    angularAcceleration: { symbol: 'rad/s²', convert: identity },
+    linearAcceleration: { symbol: 'm/s²', convert: identity },
+    time: { symbol: 's', convert: identity },
   },
   US: {
     length: { symbol: 'in', convert: via('in', 'length') },
@@ -85,6 +97,11 @@ const UNITS: Readonly<Record<UnitSystem, Readonly<Record<QuantityKind, DisplayUn
     ratio: { symbol: '', convert: identity },
     percent: { symbol: '%', convert: (x) => x * 100 },
     count: { symbol: '', convert: identity },
+    mass: { symbol: 'lb', convert: (si) => si / LB },
+    inertia: { symbol: 'lb·in²', convert: (si) => si / (LB * IN2) },
+    angularAcceleration: { symbol: 'rad/s²', convert: identity },
+    linearAcceleration: { symbol: 'in/s²', convert: (si) => si / 0.0254 },
+    time: { symbol: 's', convert: identity },
   },
 };
 

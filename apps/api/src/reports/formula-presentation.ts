@@ -55,6 +55,8 @@ export const PRESENTATION: Readonly<Record<string, FormulaPresentation>> = {
   'lead-angle': { result: 'angle', substitute: (v) => `atan(${v.l} / (π × ${v.d_m}))` },
   'normal-flank-angle': { result: 'angle', substitute: (v) => `atan(tan ${v.alpha} × cos ${v.lambda})` },
   'engaged-threads': { result: 'ratio', substitute: (v) => `${v.L_nut} / ${v.p}` },
+  'tensile-stress-area-iso': { result: 'area', substitute: (v) => `(π/4) × (${v.d} − 0.938194 × ${v.p})²` },
+  'tensile-stress-area-unified': { result: 'area', substitute: (v) => `0.7854 × (${v.d} − 0.9743 × ${v.p})²` },
   // torque
   'thread-raise-torque': { result: 'torque', substitute: threadTorque('+', '−') },
   'thread-lower-torque': { result: 'torque', substitute: threadTorque('−', '+') },
@@ -84,10 +86,13 @@ export const PRESENTATION: Readonly<Record<string, FormulaPresentation>> = {
   'thread-root-shear': { ...threadStress, result: 'stress', substitute: (v) => `3 × ${v.F_t} / (2π × ${v.d_r} × ${v.b})` },
   'thread-root-von-mises': {
     result: 'stress',
-    substitute: (v) => `√(${sq(v.sigma_b)} + ${sq(v.sigma)} − (${v.sigma_b}) × (${v.sigma}) + 3 × ${sq(v.tau)})`,
+    substitute: (v) => `√(${sq(v.sigma_b)} + ${sq(v.sigma)} + |(${v.sigma_b}) × (${v.sigma})| + 3 × ${sq(v.tau)})`,
   },
-  'thread-stripping-screw': { result: 'stress', substitute: (v) => `${v.F} / (π × ${v.d_r} × ${v.b} × ${v.n_t})` },
-  'thread-stripping-nut': { result: 'stress', substitute: (v) => `${v.F} / (π × ${v.D} × ${v.b_n} × ${v.n_t})` },
+  'thread-load-share-first': { inputs: { n_t: 'ratio' }, result: 'force', substitute: (v) => `max(0.38 × ${v.F}, ${v.F} / ${v.n_t})` },
+  'thread-stripping-screw': { inputs: { D_1: 'length', t_s: 'length' }, result: 'stress', substitute: (v) => `${v.F} / (π × ${v.D_1} × ${v.t_s} × ${v.n_t})` },
+  'thread-stripping-nut': { inputs: { d: 'length', t_n: 'length' }, result: 'stress', substitute: (v) => `${v.F} / (π × ${v.d} × ${v.t_n} × ${v.n_t})` },
+  'nut-thread-root-bending': { inputs: { D_4: 'length', a_n: 'length', b_n: 'length' }, result: 'stress', substitute: (v) => `6 × ${v.F_t} × ${v.a_n} / (π × ${v.D_4} × ${sq(v.b_n)})` },
+  'nut-thread-root-shear': { inputs: { D_4: 'length', b_n: 'length' }, result: 'stress', substitute: (v) => `3 × ${v.F_t} / (2π × ${v.D_4} × ${v.b_n})` },
   // column
   slenderness: { result: 'ratio', substitute: (v) => `${v.l} / ${v.k}` },
   'transition-slenderness': { result: 'ratio', substitute: (v) => `√(2π² × ${v.C} × ${v.E} / ${v.S_y})` },
@@ -111,4 +116,26 @@ export const PRESENTATION: Readonly<Record<string, FormulaPresentation>> = {
   'input-power': { result: 'power', substitute: (v) => `${v.T_R} × 2π × ${v.n}` },
   'linear-speed': { result: 'travelSpeed', substitute: (v) => `${v.l} × ${v.n}` },
   'drive-margin': { result: 'ratio', substitute: (v) => `${v.T_av} / ${v.T_R}` },
+  // brake and back-driving
+  'brake-holding-torque-no-friction': { result: 'torque', substitute: (v) => `${v.F} × ${v.l} / (2π)` },
+  'brake-holding-torque-min-friction': { result: 'torque', substitute: (v) => `max(0, −[${threadTorque('−', '+')(v)}])` },
+  'reverse-efficiency': { result: 'percent' },
+  'brake-torque-ratio': { inputs: { T_brake: 'torque', T_0: 'torque' }, result: 'ratio', substitute: (v) => `${v.T_brake} / ${v.T_0}` },
+  // whirl, partly fixed ends
+  'critical-speed-partly-fixed': { inputs: { C: 'ratio' }, result: 'ratio', substitute: (v) => `π × √${v.C}` },
+  'critical-speed-partly-fixed-factor': { inputs: { C: 'ratio', beta_1L: 'ratio' }, result: 'ratio', substitute: (v) => `π² × ${v.C} / ${sq(v.beta_1L)}` },
+  // drive: inertia, acceleration, gearbox
+  'load-mass-from-weight': { result: 'mass', substitute: (v) => `${v.F} / 9.80665 m/s²` },
+  'screw-inertia': { inputs: { rho: 'density', L: 'length', d_r: 'length', d: 'length' }, result: 'inertia' },
+  'load-inertia-reflected': { inputs: { m: 'mass', l: 'length' }, result: 'inertia', substitute: (v) => `${v.m} × (${v.l} / (2π))²` },
+  'angular-acceleration-from-time': { inputs: { n: 'revPerSecond', t_a: 'time' }, result: 'angularAcceleration', substitute: (v) => `2π × ${v.n} / ${v.t_a}` },
+  'angular-acceleration-from-linear': { inputs: { a_nut: 'linearAcceleration', l: 'length' }, result: 'angularAcceleration', substitute: (v) => `2π × ${v.a_nut} / ${v.l}` },
+  'acceleration-torque': {
+    inputs: { J_s: 'inertia', J_L: 'inertia', e: 'percent', alpha_acc: 'angularAcceleration' },
+    result: 'torque',
+    substitute: (v) => `(${v.J_s} + ${v.J_L} / ${v.e}) × ${v.alpha_acc}`,
+  },
+  'peak-torque': { inputs: { T_R: 'torque', T_a: 'torque' }, result: 'torque', substitute: (v) => `${v.T_R} + ${v.T_a}` },
+  'motor-torque-through-gearbox': { inputs: { T: 'torque', i: 'ratio', eta_g: 'percent' }, result: 'torque', substitute: (v) => `${v.T} / (${v.i} × ${v.eta_g})` },
+  'motor-holding-torque-through-gearbox': { inputs: { T: 'torque', i: 'ratio', eta_r: 'percent' }, result: 'torque', substitute: (v) => `${v.T} × ${v.eta_r} / ${v.i}` },
 };

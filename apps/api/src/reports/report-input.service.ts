@@ -7,6 +7,7 @@ import { ProductsService } from '../products/products.service';
 import { TS_TEXT } from '../records/chain';
 import { ReviewsService } from '../reviews/reviews.service';
 import { RuleSetsService } from '../rules/rule-sets.service';
+import { ruleSetMinimums } from './minimums';
 import type { ReportInput } from './report-model';
 
 @Injectable()
@@ -36,16 +37,7 @@ export class ReportInputService {
     const states = await this.reviews.statesOfCalculation(revision.calculationId);
     // The minimums of the rule set this revision was judged by, on its duty (they print beside passing checks too)
     const { thresholds } = (await this.ruleSets.get(revision.ruleSetVersion)).definition;
-    const duty = revision.normalized.duty.kind;
-    const strength = thresholds.strength.minSafetyFactor[duty];
-    const minimums: ReportInput['minimums'] = {
-      bodyVonMises: { limit: strength, ruleId: 'screw-body-yield' },
-      firstThreadRoot: { limit: strength, ruleId: 'thread-root-yield' },
-      strippingScrew: { limit: strength, ruleId: 'screw-thread-stripping' },
-      strippingNut: { limit: strength, ruleId: 'nut-thread-stripping' },
-      buckling: { limit: thresholds.buckling.minSafetyFactor[duty], ruleId: 'column-buckling' },
-      drive: { limit: thresholds.drive.minMargin, ruleId: 'drive-torque-margin' },
-    };
+    const minimums = ruleSetMinimums(thresholds, revision.normalized.duty.kind);
     return {
       product: { id: product.id, code: product.code, name: product.name, description: product.description },
       calculation: { id: calculation.id, title: calculation.title },

@@ -57,7 +57,7 @@ export interface ReportInput {
   readonly minimums?: Readonly<Partial<Record<SafetyFactorKey, { readonly limit: number; readonly ruleId: string }>>>;
 }
 
-export type SafetyFactorKey = 'bodyVonMises' | 'firstThreadRoot' | 'strippingScrew' | 'strippingNut' | 'buckling' | 'drive';
+export type SafetyFactorKey = 'bodyVonMises' | 'firstThreadRoot' | 'strippingScrew' | 'strippingNut' | 'nutThreadRoot' | 'buckling' | 'drive';
 
 // ---------------------------------------------------------------------------------------------------------
 // View
@@ -290,6 +290,7 @@ const PATH_LABELS: readonly (readonly [string, string])[] = [
   ['geometry.leadAngle', 'Lead angle at the mean diameter'],
   ['geometry.normalFlankAngle', 'Flank angle in the normal plane'],
   ['geometry.engagedThreads', 'Engaged threads'],
+  ['geometry.tensileStressArea', 'Tensile stress area (for reference only: no check uses it)'],
   ['torque.threadRaise', 'Thread torque to raise'],
   ['torque.threadLower', 'Thread torque to lower'],
   ['torque.collar', 'Collar torque'],
@@ -300,31 +301,51 @@ const PATH_LABELS: readonly (readonly [string, string])[] = [
   ['efficiency.thread', 'Efficiency, thread alone'],
   ['selfLocking.margin', 'Self-locking margin, thread alone at minimum friction'],
   ['selfLocking.backDrivingTorque', 'Back-driving torque of the load at minimum friction'],
+  ['brake.holdingTorqueNoFriction', 'Holding torque with thread friction lost (f → 0)'],
+  ['brake.holdingTorqueMinFriction', 'Holding torque at minimum thread friction'],
+  ['brake.reverseEfficiency', 'Reverse (back-driving) efficiency at minimum friction'],
+  ['brake.requiredTorque', 'Zero-friction holding torque at the brake on the motor'],
+  ['brake.ratio', 'Rated brake torque over the zero-friction holding torque'],
   ['stresses.body.axial', 'Axial stress on the root area'],
   ['stresses.body.torsion', 'Torsional shear on the root diameter (raise torque at maximum friction)'],
   ['stresses.body.vonMises', 'von Mises stress in the screw body'],
-  ['stresses.firstThread.bearing', 'Flank bearing stress, first thread (0.38 F)'],
+  ['stresses.firstThread.load', 'Load on the first thread, max(0.38 F, F / n_t)'],
+  ['stresses.firstThread.bearing', 'Flank bearing stress, first thread'],
   ['stresses.firstThread.rootBending', 'Root bending stress, first thread'],
   ['stresses.firstThread.rootShear', 'Root transverse shear, first thread'],
-  ['stresses.firstThread.vonMises', 'von Mises stress at the root, first thread'],
+  ['stresses.firstThread.vonMises', 'von Mises stress at the root, first thread (worse fillet)'],
   ['stresses.mean.bearing', 'Flank bearing stress, even sharing (F / n_t)'],
   ['stresses.mean.rootBending', 'Root bending stress, even sharing'],
   ['stresses.mean.rootShear', 'Root transverse shear, even sharing'],
   ['stresses.mean.vonMises', 'von Mises stress at the root, even sharing'],
-  ['stresses.stripping.screw', 'Stripping shear of the screw threads'],
-  ['stresses.stripping.nut', 'Stripping shear of the nut threads'],
+  ['stresses.stripping.screw', "Stripping shear of the screw threads (at the nut's minor diameter)"],
+  ['stresses.stripping.nut', "Stripping shear of the nut threads (at the screw's major diameter)"],
+  ['stresses.nutThread.rootBending', "Root bending stress of the nut's own thread, first thread"],
+  ['stresses.nutThread.rootShear', "Root transverse shear of the nut's own thread, first thread"],
   ['buckling.slenderness', 'Slenderness ratio'],
   ['buckling.transitionSlenderness', 'Transition slenderness (Johnson to Euler)'],
   ['buckling.criticalLoad', 'Critical load'],
   ['buckling.safetyFactor', 'Buckling safety factor'],
   ['criticalSpeed.rpm', 'First critical (whirling) speed'],
   ['criticalSpeed.ratio', 'Operating speed over critical speed'],
+  ['criticalSpeed.partlyFixed.frequencyFactor', 'Frequency factor with fixed ends only partly fixed'],
+  ['criticalSpeed.partlyFixed.factor', 'Partly fixed over classical critical speed'],
+  ['criticalSpeed.partlyFixed.rpm', 'Critical speed with fixed ends only partly fixed'],
+  ['criticalSpeed.partlyFixed.ratio', 'Operating speed over the partly fixed critical speed'],
   ['wear.bearingPressure', 'Mean bearing pressure on the nut flanks'],
   ['wear.slidingVelocity', 'Sliding velocity at the mean diameter'],
   ['wear.pv', 'pV at the mean diameter'],
   ['power.rotationalSpeed', 'Screw speed from the travel speed'],
   ['power.linearSpeed', 'Nut travel speed'],
   ['power.input', 'Input power at maximum friction'],
+  ['drive.loadMass', 'Load mass from its weight'],
+  ['drive.screwInertia', 'Screw inertia'],
+  ['drive.loadInertia', 'Load inertia referred to the screw'],
+  ['drive.angularAcceleration', 'Angular acceleration of the screw'],
+  ['drive.accelerationTorque', 'Acceleration torque at the screw'],
+  ['drive.peakTorque', 'Peak torque at the screw (steady + acceleration)'],
+  ['drive.peakTorqueAtMotor', 'Peak torque at the motor through the gearbox'],
+  ['drive.holdingTorqueAtMotor', 'Zero-friction holding torque at the motor through the gearbox'],
   ['drive.margin', 'Drive torque margin'],
   ['design.duty.brake', 'Brake fitted'],
   ['design.duty.vibration', 'Vibration expected'],
@@ -336,6 +357,7 @@ const PATH_LABELS: readonly (readonly [string, string])[] = [
   ['safetyFactors.firstThreadRoot', 'Safety factor at the first thread root'],
   ['safetyFactors.strippingScrew', 'Safety factor against stripping the screw threads'],
   ['safetyFactors.strippingNut', 'Safety factor against stripping the nut threads'],
+  ['safetyFactors.nutThreadRoot', "Safety factor of the nut's own thread root"],
   ['safetyFactors.buckling', 'Buckling safety factor'],
 ];
 const LABEL_OF = new Map(PATH_LABELS);
@@ -345,6 +367,7 @@ const SECTIONS: readonly { id: string; title: string; prefixes: readonly string[
   { id: 'geometry', title: 'Thread geometry', prefixes: ['geometry.'], chart: null },
   { id: 'torque', title: 'Torque and efficiency', prefixes: ['torque.', 'efficiency.'], chart: 'torqueFriction' },
   { id: 'self-locking', title: 'Self-locking', prefixes: ['selfLocking.'], chart: null },
+  { id: 'brake', title: 'Brake and back-driving', prefixes: ['brake.'], chart: null },
   { id: 'body', title: 'Screw body stresses', prefixes: ['stresses.body.'], chart: null },
   { id: 'threads', title: 'Thread stresses and stripping', prefixes: ['stresses.'], chart: null },
   { id: 'column', title: 'Column buckling', prefixes: ['buckling.'], chart: 'column' },
@@ -359,6 +382,7 @@ const FACTORS: readonly { key: SafetyFactorKey; label: string; shortLabel: strin
   { key: 'firstThreadRoot', label: 'First thread root, S_y / von Mises', shortLabel: 'First thread root', paths: ['safetyFactors.firstThreadRoot'], value: (e) => e.safetyFactors.firstThreadRoot },
   { key: 'strippingScrew', label: 'Screw thread stripping, 0.577 S_y / τ_s', shortLabel: 'Stripping, screw', paths: ['safetyFactors.strippingScrew'], value: (e) => e.safetyFactors.strippingScrew },
   { key: 'strippingNut', label: 'Nut thread stripping, 0.577 S_y,nut / τ_n', shortLabel: 'Stripping, nut', paths: ['safetyFactors.strippingNut'], value: (e) => e.safetyFactors.strippingNut },
+  { key: 'nutThreadRoot', label: 'Nut thread root, lower of S_y,nut / σ_b,n and 0.577 S_y,nut / τ_r,n', shortLabel: 'Nut thread root', paths: ['safetyFactors.nutThreadRoot'], value: (e) => e.safetyFactors.nutThreadRoot ?? null },
   { key: 'buckling', label: 'Column buckling, P_cr / F', shortLabel: 'Buckling', paths: ['safetyFactors.buckling', 'buckling.safetyFactor'], value: (e) => e.safetyFactors.buckling },
   { key: 'drive', label: 'Drive torque, T_av / T_R,max', shortLabel: 'Drive torque', paths: ['drive.margin'], value: (e) => e.drive?.margin ?? null },
 ];
@@ -524,7 +548,7 @@ function sectionNotes(id: string, design: Design, e: Evaluation, system: UnitSys
         `Collar friction is ignored here (the safe side). Brake fitted: ${design.duty.brake ? 'yes' : 'no'}. Vibration expected: ${design.duty.vibration ? 'yes' : 'no'}.`,
       ];
     case 'threads':
-      return ['First thread carries 0.38 F (Marshek); even sharing F / n_t is printed for comparison. Stripping is judged against 0.577 S_y.'];
+      return threadNotes(design, e, system);
     case 'column': {
       const b = e.buckling;
       if (!b.applies) return ['The screw is in tension: column buckling does not apply.'];
@@ -533,17 +557,100 @@ function sectionNotes(id: string, design: Design, e: Evaluation, system: UnitSys
         `Regime: ${b.regime === 'euler' ? 'Euler, since l/k is at or above the transition slenderness' : 'Johnson, since l/k is below the transition slenderness'}.`,
       ];
     }
-    case 'whirl':
-      return [`Uniform shaft on the root diameter between supports L = ${q(design.screw.unsupportedLength, 'length')}, ends ${design.screw.ends}, β₁L = ${sig(e.criticalSpeed.frequencyFactor)}. Axial load and gyroscopic effects are neglected.`];
-    case 'wear':
+    case 'brake': {
+      const b = e.brake;
+      if (!b) return ['This evaluation was made by an engine version that did not report brake figures.'];
       return [
-        `Nut material: ${design.nut.material ?? 'not named'}; allowable pressure ${design.nut.allowablePressure === null ? 'not known' : q(design.nut.allowablePressure, 'pressure')}, allowable pV ${design.nut.allowablePv === null ? 'not known' : q(design.nut.allowablePv, 'pv')}.`,
+        'The brake must hold the load when thread friction is lost (vibration, lubrication, wear): T_0 = F l / (2π), the lowering torque in the limit f → 0; collar friction is ignored (the safe side).',
+        `Brake fitted: ${design.duty.brake ? 'yes' : 'no'}${design.duty.brake ? `, on the ${b.location}` : ''}; rated torque ${b.ratedTorque === null ? 'not stated' : q(b.ratedTorque, 'torque')}. A reverse efficiency at or below zero means the load cannot drive the screw at minimum friction.`,
       ];
-    case 'power':
-      return design.drive ? [`Drive torque available at start: ${q(design.drive.availableTorque, 'torque')}.`] : ['No drive torque given.'];
+    }
+    case 'whirl': {
+      const cs = e.criticalSpeed;
+      const span = cs.span ?? design.screw.unsupportedLength;
+      const ends = cs.ends ?? design.screw.ends;
+      const notes = [`Uniform shaft on the root diameter between supports L = ${q(span, 'length')}${design.screw.whirlSpan != null ? ' (stated whirl span)' : ' (the column length)'}, ends ${ends}${design.screw.whirlEnds != null ? ' (stated for whirl)' : ''}, β₁L = ${sig(cs.frequencyFactor)}. Axial load and gyroscopic effects are neglected.`];
+      if (cs.partlyFixed) {
+        notes.push(`Fixed ends taken as only partly fixed (common practice, the same partial fixity as the recommended column constant C = ${sig(cs.partlyFixed.endConditionConstant)}): a simply supported shaft over L / √C, (β₁L)′ = π√C = ${sig(cs.partlyFixed.frequencyFactor)}, ${sig(cs.partlyFixed.factor)} × the classical critical speed. The whirl check uses the lower speed.`);
+      }
+      return notes;
+    }
+    case 'wear':
+      return wearNotes(design, e, system);
+    case 'power': {
+      if (!design.drive) return ['No drive torque given.'];
+      const d = e.drive;
+      const gb = design.drive.gearbox ?? null;
+      const notes = [`Drive torque available at start: ${q(design.drive.availableTorque, 'torque')}${gb ? ' at the motor' : ''}.`];
+      if (d?.loadMassBasis === 'not-included') notes.push('Load mass not given and not lifting duty: the load inertia is not included in the acceleration torque.');
+      if (d?.loadMassBasis === 'weight') notes.push('Load mass taken from the lifted weight, m = F / g_n.');
+      if (d && d.angularAcceleration === null) notes.push('No acceleration given: the peak torque is the steady raise torque.');
+      if (gb) notes.push(`Gearbox ratio ${sig(gb.ratio)}, forward efficiency ${sig(gb.efficiency)}, reverse efficiency ${sig(gb.reverseEfficiency)}; motor and gearbox inertia are not included.`);
+      notes.push('The drive check uses the peak torque at the motor, not the steady torque.');
+      return notes;
+    }
     default:
       return [];
   }
+}
+
+/** Thread-stress notes: load share, root fillet, stripping planes and the nut's own threads (issue 13 items 2-5). */
+function threadNotes(design: Design, e: Evaluation, system: UnitSystem): string[] {
+  const notes = [
+    'First thread carries max(0.38 F, F / n_t) (after Marshek; the mean share governs below 2.6 engaged threads); even sharing F / n_t is printed for comparison. ' +
+      'The root von Mises stress is taken at the worse of the two root fillets (the bending stress has one sign on each).',
+  ];
+  const st = e.stresses.stripping as Partial<Evaluation['stresses']['stripping']>;
+  if (st.screwArea !== undefined && st.nutArea !== undefined) {
+    notes.push(
+      `Stripping on the standard shear planes: the screw's threads on the cylinder at the nut's minor diameter D1 = ${formatQuantity(e.geometry.nutMinorDiameter, 'length', system)} ` +
+        `(area ${formatQuantity(st.screwArea, 'area', system)}), the nut's threads at the screw's major diameter (area ${formatQuantity(st.nutArea, 'area', system)}); both judged against 0.577 S_y of their own material.`,
+    );
+  } else {
+    notes.push('Stripping is judged against 0.577 S_y (this evaluation was made by an engine version with the earlier shear planes).');
+  }
+  if (e.stresses.nutThread) {
+    notes.push(
+      design.nut.yieldStrength === null
+        ? "The nut's own threads (root bending and shear) cannot be judged: the nut has no yield strength on record."
+        : `The nut's own threads are judged against the nut's yield strength ${formatQuantity(design.nut.yieldStrength, 'stress', system)} with the same minimum factors as the screw threads.`,
+    );
+  }
+  return notes;
+}
+
+/** Nut-wear notes: the material as entered, and which allowable pressure applied at which rubbing speed (issue 13 item 1). */
+function wearNotes(design: Design, e: Evaluation, system: UnitSystem): string[] {
+  const q = (si: number, kind: QuantityKind) => formatQuantity(si, kind, system);
+  const w = e.wear;
+  const material =
+    design.nut.material === null
+      ? 'not named'
+      : design.nut.materialSource === 'design'
+        ? `${design.nut.material} (the design's own material, as entered)`
+        : design.nut.material;
+  const notes = [`Nut material: ${material}; allowable pV ${design.nut.allowablePv === null ? 'not known' : q(design.nut.allowablePv, 'pv')}.`];
+  if (w.allowablePressureBasis === 'any-speed') {
+    notes.push(`Allowable pressure ${q(w.allowablePressure as number, 'pressure')}: the design's own single value, used at any rubbing speed (handbook allowables fall steeply with speed).`);
+  } else if (w.allowablePressureBasis === 'speed-rated') {
+    notes.push(
+      `Allowable pressure ${w.allowablePressure === null ? 'not known' : q(w.allowablePressure, 'pressure')} for the class "${w.allowablePressureClass}"` +
+        `${w.slidingVelocity === null ? '' : ` at a rubbing speed of ${q(w.slidingVelocity, 'slidingSpeed')}`} (${w.allowablePressureSource}).`,
+    );
+    const steps = design.nut.pressureBySpeed ?? [];
+    if (steps.length > 0) {
+      notes.push(
+        'Allowable against rubbing speed: ' +
+          steps
+            .map((s) => `${s.allowablePressure === null ? 'none published' : q(s.allowablePressure, 'pressure')} ${s.upToRubbingSpeed === null ? 'above' : `up to ${q(s.upToRubbingSpeed, 'slidingSpeed')}`}`)
+            .join('; ') +
+          '.',
+      );
+    }
+  } else {
+    notes.push(`Allowable pressure ${w.allowablePressure === null ? 'not known' : q(w.allowablePressure, 'pressure')}.`);
+  }
+  return notes;
 }
 
 function buildSections(design: Design, e: Evaluation, system: UnitSystem, findings: readonly Finding[]): CalcSection[] {
@@ -583,8 +690,12 @@ function buildSafetyFactors(e: Evaluation, findings: readonly Finding[], minimum
     const fromRuleSet = minimums[factor.key];
     const source = finding ? { limit: finding.limit as number, ruleId: finding.ruleId } : fromRuleSet;
     const limit = source ? source.limit : null;
-    const status: SafetyFactorRow['status'] = value === null ? 'not-applicable' : limit === null ? 'no-limit' : value >= limit ? 'meets' : 'below';
-    const statusText = { meets: 'meets the minimum', below: 'below the minimum', 'no-limit': 'no minimum recorded by the rules', 'not-applicable': 'not applicable' }[status];
+    // A factor that could not be computed for want of a value, where the rules block on it, is not "not applicable"
+    const missingBlocks = value === null && finding?.severity === 'blocking';
+    const status: SafetyFactorRow['status'] = missingBlocks ? 'below' : value === null ? 'not-applicable' : limit === null ? 'no-limit' : value >= limit ? 'meets' : 'below';
+    const statusText = missingBlocks
+      ? 'not computed: a value is missing (blocking)'
+      : { meets: 'meets the minimum', below: 'below the minimum', 'no-limit': 'no minimum recorded by the rules', 'not-applicable': 'not applicable' }[status];
     return {
       key: factor.key,
       label: factor.label,
@@ -710,6 +821,7 @@ const SI_UNIT_OF: Record<string, string> = {
   majorDiameter: 'm', pitch: 'm', meanDiameter: 'm', outerDiameter: 'm', innerDiameter: 'm', length: 'm', unsupportedLength: 'm',
   axial: 'N', allowablePressure: 'Pa', yieldStrength: 'Pa', elasticModulus: 'Pa', allowablePv: 'Pa·m/s', density: 'kg/m³',
   speed: 'rpm', linearSpeed: 'm/s', availableTorque: 'N·m', loadFlankAngle: '°',
+  whirlSpan: 'm', brakeTorque: 'N·m', loadMass: 'kg', accelerationTime: 's', acceleration: 'm/s²',
 };
 
 function engineUnitRows(design: Design): InputRow[] {
@@ -767,10 +879,35 @@ function materialRows(design: Design, input: unknown, system: UnitSystem): Mater
     { part: 'Screw', property: 'Yield strength S_y', value: q(design.screw.yieldStrength, 'stress'), origin: origin('screw.yieldStrength', screw?.source) },
     { part: 'Screw', property: 'Elastic modulus E', value: q(design.screw.elasticModulus, 'modulus'), origin: origin('screw.elasticModulus', screw?.source) },
     { part: 'Screw', property: 'Density ρ', value: q(design.screw.density, 'density'), origin: origin('screw.density', screw?.source) },
-    { part: 'Nut', property: 'Material', value: nutName, origin: nut ? 'material library' : 'as entered' },
-    { part: 'Nut', property: 'Allowable bearing pressure', value: q(design.nut.allowablePressure, 'pressure'), origin: origin('nut.allowablePressure', nut?.allowablePressureSource) },
+    { part: 'Nut', property: 'Material', value: nutName, origin: nut ? 'material library' : design.nut.material ? "as entered (the design's own material)" : 'as entered' },
+    design.nut.allowablePressure !== null || !design.nut.pressureBySpeed
+      ? { part: 'Nut', property: 'Allowable bearing pressure (used at any rubbing speed)', value: q(design.nut.allowablePressure, 'pressure'), origin: origin('nut.allowablePressure', nut?.allowablePressureSource) }
+      : {
+          part: 'Nut',
+          property: 'Allowable bearing pressure by rubbing speed',
+          value: design.nut.pressureBySpeed
+            .map((s) => `${q(s.allowablePressure, 'pressure')} ${s.upToRubbingSpeed === null ? 'above' : `to ${formatQuantity(s.upToRubbingSpeed, 'slidingSpeed', system)}`}`)
+            .join('; '),
+          origin: entered(input, 'nut.allowablePressureBySpeed') ? 'as entered' : 'Shigley 9th ed. Table 8-4 after Rothbart (from memory), low end of each class',
+        },
     { part: 'Nut', property: 'Allowable pV', value: q(design.nut.allowablePv, 'pv'), origin: origin('nut.allowablePv', nut?.allowablePvSource) },
     { part: 'Nut', property: 'Yield strength', value: q(design.nut.yieldStrength, 'stress'), origin: origin('nut.yieldStrength', nut?.yieldSource) },
+  ];
+}
+
+/** Tolerance class and the minimum-material diameters the checks used, or the statement that the basic profile was used. */
+function minimumMaterialRows(g: Evaluation['geometry'], system: UnitSystem): KeyValue[] {
+  const mm = g.minimumMaterial;
+  if (!mm) return [];
+  if (mm.toleranceClass === null) {
+    return [{ label: 'Tolerance class', value: 'none named: the checks use the basic profile; the minimum-material diameters of any class are lower for the screw and higher for the nut, so real stresses are somewhat higher' }];
+  }
+  const L = (si: number) => formatQuantity(si, 'length', system);
+  return [
+    { label: 'Tolerance class (the strength, bearing and stripping checks use its minimum-material diameters)', value: `${mm.toleranceClass}: ${mm.basis}` },
+    { label: 'Minimum-material screw diameters: major, pitch, minor', value: `${L(mm.majorDiameter)}, ${L(mm.pitchDiameter)}, ${L(mm.minorDiameter)}` },
+    { label: 'Minimum-material nut diameters: minor D1, pitch D2', value: `${L(mm.nutMinorDiameter)}, ${L(mm.nutPitchDiameter)}` },
+    { label: 'Flank engagement at minimum material (d_min − D1_max) / 2', value: L(mm.engagedHeight) },
   ];
 }
 
@@ -786,7 +923,13 @@ function geometryRows(e: Evaluation, system: UnitSystem): KeyValue[] {
     { label: 'Starts n_s', value: String(g.starts) },
     { label: 'Lead l', value: L(g.lead) },
     { label: 'Mean diameter d_m', value: L(g.meanDiameter) },
-    { label: 'Minor diameter d_r', value: L(g.minorDiameter) },
+    { label: 'Minor diameter d_r (the section of the body, column and whirl checks)', value: L(g.minorDiameter) },
+    ...(g.minorDiameterArea === undefined ? [] : [{ label: 'Minor-diameter area π d_r² / 4', value: formatQuantity(g.minorDiameterArea, 'area', system) }]),
+    ...(g.tensileStressArea == null
+      ? []
+      : [{ label: 'Tensile stress area A_s (ISO 898-1 / ASME B1.1), for reference only: no check uses it', value: formatQuantity(g.tensileStressArea, 'area', system) }]),
+    ...(g.nutMinorDiameter === undefined ? [] : [{ label: "Nut minor diameter D1 (the screw threads' stripping plane)", value: L(g.nutMinorDiameter) }]),
+    ...minimumMaterialRows(g, system),
     { label: 'Engaged flank height h', value: L(g.threadHeight) },
     { label: 'Crest clearance a_c', value: L(g.crestClearance) },
     { label: 'Nut major diameter D', value: L(g.nutMajorDiameter) },
@@ -828,7 +971,20 @@ function buildSummary(design: Design, e: Evaluation, system: UnitSystem, factors
     note: e.buckling.applies ? `${e.buckling.regime === 'euler' ? 'Euler' : 'Johnson'} column, l/k = ${sig(e.buckling.slenderness)}` : 'screw in tension',
   });
   if (e.criticalSpeed.ratio !== null) rows.push({ label: 'Operating / critical speed', value: sig(e.criticalSpeed.ratio), note: `critical speed ${q(e.criticalSpeed.rpm, 'rpm')}` });
-  if (e.drive) rows.push({ label: 'Drive torque margin', value: sig(e.drive.margin), note: `${q(e.drive.availableTorque, 'torque')} available` });
+  if (e.brake) {
+    rows.push({
+      label: 'Brake holding torque, thread friction lost (f → 0)',
+      value: q(e.brake.holdingTorqueNoFriction, 'torque'),
+      note: `at minimum friction ${q(e.brake.holdingTorqueMinFriction, 'torque')}; reverse efficiency ${sig(e.brake.reverseEfficiency)}; brake rated ${e.brake.ratedTorque === null ? 'not stated' : q(e.brake.ratedTorque, 'torque')}`,
+    });
+  }
+  if (e.criticalSpeed.partlyFixed?.ratio != null) {
+    rows.push({ label: 'Operating / critical speed, ends partly fixed', value: sig(e.criticalSpeed.partlyFixed.ratio), note: `critical speed ${q(e.criticalSpeed.partlyFixed.rpm, 'rpm')}` });
+  }
+  if (e.drive) {
+    const peakNote = e.drive.peakTorqueAtMotor !== undefined ? `; peak torque ${q(e.drive.peakTorqueAtMotor, 'torque')} at the motor` : '';
+    rows.push({ label: 'Drive torque margin', value: sig(e.drive.margin), note: `${q(e.drive.availableTorque, 'torque')} available${peakNote}` });
+  }
   return rows;
 }
 
@@ -844,11 +1000,12 @@ function conventions(design: Design, system: UnitSystem): string[] {
     'Every torque is evaluated at both ends of the stated friction ranges. Self-locking is judged on the thread alone at minimum friction (collar ignored: the safe side); drive sizing, body torsion and input power use maximum friction with the collar included.',
     'Torques use the exact normal-plane form with tan α_n = tan α cos λ; the sec α approximation is printed for comparison only.',
     'Sign: axial stress is negative in compression. A negative lowering torque means the load drives the screw down by itself and must be held by the drive or a brake.',
-    'Thread stresses: the first engaged thread carries 0.38 F; the thread is a cantilever of root thickness b loaded at the pitch line. Stripping shear is held against 0.577 S_y (distortion energy).',
+    'Thread stresses: the first engaged thread carries max(0.38 F, F / n_t); the thread is a cantilever of root thickness b loaded at the pitch line, judged at the worse of its two root fillets; the nut\'s own threads are judged the same way against the nut\'s yield strength. Stripping shear acts on the standard planes (the screw\'s threads at the nut\'s minor diameter, the nut\'s at the screw\'s major diameter) and is held against 0.577 S_y (distortion energy).',
     'Safety factors are capacity over demand on yield. Minimum values are those of the rule set this revision was judged by, for its duty; a finding that states its own limit takes precedence.',
     'Column: k = d_r / 4 on the root diameter; Johnson parabola below the transition slenderness, Euler above it; the end-condition constant follows the design’s basis (recommended or theoretical).',
-    'Whirling: first bending mode of a uniform shaft on the root diameter with the column’s end conditions; axial load and gyroscopic effects are neglected.',
-    'Nut wear: mean bearing pressure over all engaged threads; pV with the sliding velocity along the helix at the mean diameter.',
+    'Whirling: first bending mode of a uniform shaft on the root diameter over the whirl span and ends (the column’s unless stated); where the column uses the recommended basis, fixed ends are also taken as only partly fixed and the lower speed is judged; axial load and gyroscopic effects are neglected.',
+    'Brake: the holding torque is taken with thread friction lost, F l / (2π), and the drive is judged on the peak torque at the motor (steady raise torque plus acceleration torque, through the gearbox).',
+    'Nut wear: mean bearing pressure over all engaged threads, against the allowable for the actual rubbing speed (the nut material\'s speed classes) or the design\'s own single value used at any speed; pV with the sliding velocity along the helix at the mean diameter.',
     'Torque-friction chart: collar friction moves linearly with thread friction between the two ends of its range (extended beyond them, never below zero), so the curves pass through the tabulated torques at minimum and maximum friction.',
     `Dates and times are UTC. The record hash is stored with the revision and chains to the previous record's hash; a changed record would not reproduce it.`,
     `Material: S_y, E and ρ of the screw ${design.screw.material ? `from library entry "${design.screw.material}" unless entered` : 'as entered'}; shear yield taken as ${SHEAR_YIELD_RATIO} S_y.`,

@@ -104,6 +104,14 @@ describe('calculation report: HTML and PDF in real Chromium', () => {
       ['buckling.safetyFactor', e.buckling.safetyFactor as number],
       ['drive.margin', (e.drive as { margin: number }).margin],
     ];
+    // Independent figures first (hand arithmetic on the fixture): T_R,max = 95.0 + 79.0 = 174.0 N*m (the substitution below);
+    // drive margin 220 / 174.0 = 1.265; self-locking margin 0.10 / (cos 14.97 deg x tan 3.77 deg) = 1.572;
+    // Euler P_cr / F = 1.2 pi^2 x 207 GPa x 490.9 mm^2 / 104^2 / 28 kN = 3.97 (Shigley 9th ed. Table 4-2, C = 1.2)
+    expect(line('torque.raise.atMaxFriction').display).toBe('174.0 N·m');
+    expect(line('drive.margin').value).toBe('1.265');
+    expect(line('selfLocking.margin').value).toBe('1.572');
+    expect(line('buckling.safetyFactor').value).toBe('3.97');
+    // Wiring test from here on: the PDF prints the view's values, which round the stored evaluation
     for (const [path, raw] of expected) {
       const l = line(path);
       expect(l.value).toBe(sig(raw)); // torques in N·m, ratios plain: SI display of these equals the raw value
@@ -121,8 +129,8 @@ describe('calculation report: HTML and PDF in real Chromium', () => {
 
   it('PDF: every finding message, grouped by severity, with the review comments', () => {
     for (const f of input.revision.findings) expect(text).toContain(f.message);
-    expect(text).toContain('Warnings (2)');
-    expect(text).toContain('Information (1)');
+    expect(text).toContain('Warnings (3)');
+    expect(text).toContain('Information (0)');
     expect(text).toContain('Blocking findings (0)');
     expect(text).toContain('Is the grease schedule in the maintenance manual?');
     expect(text).toContain('Acknowledged by Maren Lindqvist');

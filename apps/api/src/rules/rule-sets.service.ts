@@ -7,7 +7,7 @@
 import { Injectable, OnModuleDestroy, OnModuleInit } from '@nestjs/common';
 import { randomUUID } from 'node:crypto';
 import { z } from 'zod';
-import { DEFAULT_RULE_SET, ruleSetDefinitionSchema, type RuleSet } from '@leadline/rules';
+import { BUILT_IN_RULE_SETS, DEFAULT_RULE_SET, ruleSetDefinitionSchema, type RuleSet } from '@leadline/rules';
 import { Database, PG_UNIQUE_VIOLATION, pgErrorCode } from '../infra/database/database.service';
 import { ProblemError, notFound, validate } from '../infra/http/problem';
 import { TS_TEXT } from '../records/chain';
@@ -31,10 +31,13 @@ export class RuleSetsService implements OnModuleInit, OnModuleDestroy {
   constructor(private readonly db: Database) {}
 
   async onModuleInit(): Promise<void> {
-    await this.db.query(
-      `INSERT INTO rule_sets (version, definition) VALUES ($1, $2) ON CONFLICT (version) DO NOTHING`,
-      [DEFAULT_RULE_SET.version, JSON.stringify(DEFAULT_RULE_SET)],
-    );
+    // Every built-in version, oldest first, so revisions judged under an earlier default still resolve
+    for (const builtIn of BUILT_IN_RULE_SETS) {
+      await this.db.query(
+        `INSERT INTO rule_sets (version, definition) VALUES ($1, $2) ON CONFLICT (version) DO NOTHING`,
+        [builtIn.version, JSON.stringify(builtIn)],
+      );
+    }
     for (const r of await this.list()) this.cache.set(r.version, r);
     await this.refreshAdoption();
     this.timer = setInterval(() => void this.refreshAdoption().catch(() => undefined), ADOPTION_REFRESH_MS);

@@ -4,6 +4,7 @@ import { RULES } from '@leadline/rules';
 import { CurrentActor } from '../infra/http/actor';
 import { Roles } from '../identities/auth.guard';
 import { ImpactService } from './impact.service';
+import { RecheckService } from './recheck.service';
 import { RuleSetsService } from './rule-sets.service';
 
 @Controller('api/v1/rule-sets')
@@ -11,7 +12,19 @@ export class RulesController {
   constructor(
     private readonly ruleSets: RuleSetsService,
     private readonly impacts: ImpactService,
+    private readonly rechecks: RecheckService,
   ) {}
+
+  /**
+   * Re-check of stored work with the current engine and the adopted rule set: latest and approved revisions whose
+   * verdict changes or whose governing margin drops below its limit, old and new figures side by side (nothing is written).
+   */
+  @Post('recheck')
+  @Roles('reviewer', 'admin')
+  @HttpCode(200)
+  recheck(@Body() body: unknown) {
+    return this.rechecks.recheck(body);
+  }
 
   @Get()
   async list() {

@@ -3,6 +3,7 @@
  * Values are plausible but invented for demonstration; they are not check data.
  */
 import type { DesignInput } from '@leadline/contracts';
+import { MAIN_LIFT_SCREW_ENGINE_1_0_0 } from './recorded-history';
 
 const bronzeOil = { entry: 'thread/steel-bronze/oil' };
 const collarSteelBronze = { entry: 'collar/soft-steel-bronze' };
@@ -59,7 +60,8 @@ export const DEMO_PRODUCTS = [
   {
     product: { code: 'CV-400', name: 'CV-400 scissor lift table', description: 'Fictional demo product of Corrin Vale Lifting Ltd: 1.8 t scissor lift table.' },
     calculations: [
-      { title: 'Main lift screw', design: liftScrew, review: 'approve' as const },
+      // Approved before the issue 13 corrections: stored as judged then (engine 1.0.0, rule set 2026.12-1), see recorded-history.ts
+      { title: 'Main lift screw', design: liftScrew, review: 'approve' as const, recorded: MAIN_LIFT_SCREW_ENGINE_1_0_0 },
       { title: 'Platform tilt screw', design: tiltScrew, review: null },
       { title: 'Fast-lift screw (proposal)', design: fastLiftScrew, review: 'reject' as const },
     ],

@@ -5,12 +5,42 @@
  */
 import type { INestApplicationContext } from '@nestjs/common';
 import type { Actor } from '@leadline/contracts';
+import { randomUUID } from 'node:crypto';
 import { CalculationsService } from '../calculations/calculations.service';
 import { IdentitiesService, type Role } from '../identities/identities.service';
 import { Database } from '../infra/database/database.service';
 import { ProductsService } from '../products/products.service';
+import { prepareSubmission, RecordStore } from '../records/record-store';
 import { ReviewsService } from '../reviews/reviews.service';
 import { DEMO_PRODUCTS } from './demo-designs';
+import type { RecordedAssessment } from './recorded-history';
+
+/**
+ * Opens a demo calculation whose first revision is a recorded historical assessment (engine and rule-set versions of
+ * its time), through the same chain append as every submission. Demo seeding only; no route reaches it.
+ */
+async function openRecorded(app: INestApplicationContext, productId: string, title: string, design: unknown, recorded: RecordedAssessment, author: Actor) {
+  if (JSON.stringify(recorded.input) !== JSON.stringify(design)) throw new Error(`recorded history of "${title}" is for another design`);
+  const db = app.get(Database);
+  const records = app.get(RecordStore);
+  const prepared = prepareSubmission({
+    input: recorded.input, normalized: recorded.normalized, evaluation: recorded.evaluation, findings: recorded.findings,
+    verdict: recorded.verdict, engineVersion: recorded.engineVersion, ruleSetVersion: recorded.ruleSetVersion,
+    note: `Demo history: judged by engine ${recorded.engineVersion} under rule set ${recorded.ruleSetVersion}, before the issue 13 corrections.`,
+  });
+  return db.transaction(async (q) => {
+    const cursor = await records.lockHead(q, productId);
+    if (!cursor) throw new Error(`product ${productId} missing`);
+    const calculationId = randomUUID();
+    await q.query(`INSERT INTO calculations (id, product_id, title, created_by, created_at) VALUES ($1, $2, $3, $4, $5::timestamptz)`, [
+      calculationId, productId, title, author.id, cursor.now,
+    ]);
+    await records.appendEvent(q, cursor, { productId, type: 'calculation-opened', calculationId, revisionId: null, actor: author, data: { title } });
+    await records.saveHead(q, productId, cursor);
+    const revision = await records.appendRevision(q, productId, calculationId, prepared, author, cursor);
+    return { calculationId, revisionId: revision.id, verdict: recorded.verdict };
+  });
+}
 
 export const DEMO_USERS: { name: string; roles: Role[] }[] = [
   { name: 'Design author (demo)', roles: ['author'] },
@@ -50,7 +80,10 @@ export async function seedDemo(app: INestApplicationContext): Promise<SeedResult
     const product = await products.create(p.product, author);
     created.push({ id: product.id, code: product.code });
     for (const c of p.calculations) {
-      const opened = (await calculations.open(product.id, { title: c.title, design: c.design }, author)).body as { revisionId: string; verdict: string };
+      const opened =
+        'recorded' in c && c.recorded
+          ? await openRecorded(app, product.id, c.title, c.design, c.recorded, author)
+          : ((await calculations.open(product.id, { title: c.title, design: c.design }, author)).body as { revisionId: string; verdict: string });
       if (c.review === 'approve') {
         const rev = await calculations.revision(opened.revisionId);
         const acknowledgements = rev.findings

@@ -29,14 +29,23 @@ export function driveTorqueMargin({ evaluation, thresholds }: RuleContext): Find
   if (!blocking && !fallsShort(d.margin, warnMargin)) return null;
   const limit = blocking ? minMargin : warnMargin;
   const [m, l] = sigPair(d.margin, limit);
+  // Engine 1.1 on: the required torque is the peak at the motor (steady + acceleration, through the gearbox)
+  const parts: string[] = [];
+  if (d.accelerationTorque !== undefined && d.accelerationTorque > 0) parts.push(`acceleration torque ${newtonMetres(d.accelerationTorque)} at the screw`);
+  if (d.gearbox) parts.push(`through the gearbox, ratio ${sig(d.gearbox.ratio)}, efficiency ${sig(d.gearbox.efficiency)}`);
+  const requiredText =
+    parts.length > 0
+      ? `the peak torque ${newtonMetres(d.requiredTorque)} at the motor (raise torque ${newtonMetres(d.steadyTorque ?? required)} ` +
+        `at maximum friction, collar included; ${parts.join('; ')})`
+      : `the raise torque ${newtonMetres(d.requiredTorque)} (maximum friction, collar included)`;
   return {
     ...base,
     severity: blocking ? 'blocking' : 'warning',
     measured: d.margin,
     limit,
     message:
-      `Drive torque ${newtonMetres(d.availableTorque)} over the raise torque ${newtonMetres(d.requiredTorque)} ` +
-      `(maximum friction, collar included) gives a margin of ${m}, below the ${blocking ? 'required' : 'recommended'} ${l}. ` +
+      `Drive torque ${newtonMetres(d.availableTorque)} over ${requiredText} ` +
+      `gives a margin of ${m}, below the ${blocking ? 'required' : 'recommended'} ${l}. ` +
       `${blocking ? 'The drive may stall at start or under cold or worn conditions.' : 'Little reserve is left for starting friction and wear.'} ` +
       `Use a stronger drive or gearing, or reduce the friction torque (lubrication, rolling thrust bearing).`,
   };
@@ -47,7 +56,8 @@ export const driveTorqueMarginRule: Rule = {
   title: 'Drive torque margin',
   basis: BASIS,
   description:
-    'Blocks when available over required raise torque is below drive.minMargin, warns below drive.warnMargin; ' +
+    'Blocks when available over required torque (the peak torque at the motor: raise torque at maximum friction plus ' +
+    'acceleration torque, through the gearbox) is below drive.minMargin, warns below drive.warnMargin; ' +
     'information when no drive is given.',
   check: driveTorqueMargin,
 };

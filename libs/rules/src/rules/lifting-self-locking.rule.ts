@@ -4,6 +4,7 @@
  */
 import type { Finding } from '@leadline/contracts';
 import { newtonMetres, sig, sigPair } from '../format';
+import { findFrictionEntry } from '@leadline/mechanics';
 import { fallsShort, type Rule, type RuleContext } from '../rule';
 
 export const LIFTING_SELF_LOCKING_ID = 'lifting-self-locking';
@@ -14,6 +15,23 @@ const BASIS_CONDITION =
 const BASIS_BRAKE = 'common practice: a load that can fall is held by a brake, not by thread friction';
 const BASIS_MARGIN =
   "common practice: margin covers the fall of thread friction from dry to oiled (Shigley 9th ed. Table 8-5: steel/bronze 0.15 to 0.10, ratio 1.5)";
+const BASIS_MARGIN_LUBRICATED =
+  'common practice: the thread friction range is already for a lubricated thread, so the margin covers friction ' +
+  'below the stated range (a better lubricant or additive, a polished run-in flank, vibration), not the dry-to-oiled fall';
+
+/**
+ * The basis of the self-locking margin for this design: the dry-to-oiled fall only applies when the range is not
+ * already lubricated (issue 13 item 13). A library entry states its lubrication; a typed range says so in its reference.
+ */
+export function marginBasis(design: RuleContext['design']): string {
+  const f = design.friction.thread;
+  const entry = f.entry ? findFrictionEntry(f.entry) : undefined;
+  const lubricated = entry
+    ? /oil|lubricat|grease/i.test(entry.lubrication)
+    : /oil|lubricat|grease/i.test(f.source.reference) && !/\bdry\b/i.test(f.source.reference);
+  return lubricated ? BASIS_MARGIN_LUBRICATED : BASIS_MARGIN;
+}
+
 const BASIS_VIBRATION = 'common practice: vibration lowers effective thread friction, so self-locking cannot be relied on';
 
 export function liftingSelfLocking({ design, evaluation, thresholds }: RuleContext): Finding | null {
@@ -80,7 +98,7 @@ export function liftingSelfLocking({ design, evaluation, thresholds }: RuleConte
           `Lifting screw without a brake self-locks only narrowly: margin ${m} at minimum thread friction, below the ` +
           `required ${l}. A change of lubrication, wear or vibration can remove it, so self-locking cannot be relied on. ` +
           `Fit a brake, or reduce the lead angle. ${NO_SUBSTITUTE}`,
-        basis: `${BASIS_MARGIN}; ${BASIS_CONDITION}`,
+        basis: `${marginBasis(design)}; ${BASIS_CONDITION}`,
       };
     }
     const [m, l] = sigPair(margin, minMargin);
@@ -92,7 +110,7 @@ export function liftingSelfLocking({ design, evaluation, thresholds }: RuleConte
       message:
         `Lifting screw without a brake self-locks with margin ${m} at minimum thread friction (required ${l}). ` +
         `${NO_SUBSTITUTE} Confirm that a runaway load cannot injure anyone, or fit a brake.`,
-      basis: `${BASIS_MARGIN}; ${BASIS_CONDITION}`,
+      basis: `${marginBasis(design)}; ${BASIS_CONDITION}`,
     };
   }
 
@@ -105,7 +123,8 @@ export function liftingSelfLocking({ design, evaluation, thresholds }: RuleConte
       limit: 1,
       message:
         `Lifting screw is not self-locking (margin ${marginText} at minimum thread friction, below 1); the brake alone ` +
-        `holds the load.${backDriving} Confirm the brake is fail-safe (spring-applied) and rated for that torque with a margin.`,
+        `holds the load.${backDriving} Confirm the brake is fail-safe (spring-applied) and rated for that torque with a margin ` +
+        `(the brake-holding-torque check holds a stated duty.brakeTorque against F l / (2π), the torque with thread friction lost).`,
       basis: `${BASIS_CONDITION}; ${BASIS_BRAKE}`,
     };
   }
@@ -133,7 +152,7 @@ export function liftingSelfLocking({ design, evaluation, thresholds }: RuleConte
       message:
         `Self-locking margin ${m} is below ${l}; the brake holds the load, so confirm it is fail-safe and rated to hold ` +
         `the load without help from thread friction.`,
-      basis: `${BASIS_MARGIN}; ${BASIS_CONDITION}`,
+      basis: `${marginBasis(design)}; ${BASIS_CONDITION}`,
     };
   }
   return null;

@@ -5,13 +5,16 @@ import { exceeds, type Rule, type RuleContext } from '../rule';
 
 export const NUT_BEARING_PRESSURE_ID = 'nut-bearing-pressure';
 const BASIS =
-  "allowable bearing pressure by application class, Shigley 9th ed. Table 8-4 after Rothbart (from memory); " +
-  'mean pressure p_b = F / (pi d_m h n_t); common practice: warn within 20 % of the allowable';
+  "allowable bearing pressure by application class and rubbing speed, Shigley 9th ed. Table 8-4 after Rothbart (from memory), " +
+  'the class for the actual rubbing speed at the mean diameter; mean pressure p_b = F / (pi d_m h n_t); common practice: warn within 20 % of the allowable';
 
-/** Rubbing speed note: the handbook allowables fall steeply as rubbing speed rises. */
-function speedNote(slidingVelocity: number | null): string {
-  const at = slidingVelocity === null ? 'the rubbing speed (no operating speed was given)' : `the rubbing speed of ${sig(slidingVelocity * 60)} m/min`;
-  return `Handbook allowables fall steeply as rubbing speed rises (Shigley 9th ed. Table 8-4 classes: screw jack, hoisting screw, lead screw), so confirm the allowable suits ${at}.`;
+/** Which allowable applied and at what rubbing speed, for the message. */
+function classNote(w: RuleContext['evaluation']['wear']): string {
+  const at = w.slidingVelocity === null ? 'no operating speed was given' : `rubbing speed ${sig(w.slidingVelocity * 60)} m/min`;
+  if (w.allowablePressureBasis === 'any-speed') {
+    return `The allowable is the design's own single value, used at any rubbing speed (${at}); handbook allowables fall steeply with speed, so confirm it holds at this speed.`;
+  }
+  return `Allowable for the class "${w.allowablePressureClass ?? 'not known'}" (${at}; ${w.allowablePressureSource ?? 'no source'}).`;
 }
 
 export function nutBearingPressure({ evaluation, thresholds }: RuleContext): Finding | null {
@@ -25,9 +28,11 @@ export function nutBearingPressure({ evaluation, thresholds }: RuleContext): Fin
       measured: w.bearingPressure,
       limit: null,
       message:
-        `Nut wear was not checked: no allowable bearing pressure is on record for the nut material. The mean flank ` +
-        `pressure is ${mpa(w.bearingPressure)}. Ask the nut supplier for the allowable pressure at this rubbing speed and ` +
-        `give it as nut.allowablePressure; an overloaded nut wears fast and, on lifting duty, loses thread strength.`,
+        `Nut wear was not checked: no allowable bearing pressure is on record for the nut material` +
+        `${w.allowablePressureSource ? ` at this rubbing speed (${w.allowablePressureSource})` : ''}. The mean flank ` +
+        `pressure is ${mpa(w.bearingPressure)}${w.slidingVelocity === null ? '' : ` at a rubbing speed of ${sig(w.slidingVelocity * 60)} m/min`}. ` +
+        `Ask the nut supplier for the allowable pressure at this rubbing speed and give it as nut.allowablePressure or ` +
+        `nut.allowablePressureBySpeed; an overloaded nut wears fast and, on lifting duty, loses thread strength.`,
     };
   }
   const blocking = exceeds(w.pressureRatio, maxPressureRatio);
@@ -42,7 +47,7 @@ export function nutBearingPressure({ evaluation, thresholds }: RuleContext): Fin
       `Mean nut bearing pressure ${mpa(w.bearingPressure)} is ${percent(w.pressureRatio)} of the allowable ` +
       `${mpa(w.allowablePressure)}, above the ${blocking ? 'limit' : 'warning level'} of ${percent(ratioLimit)}. ` +
       `Too high a flank pressure squeezes out the lubricant and wears the nut quickly. Lengthen the nut, use a larger ` +
-      `thread, or a nut material with a higher allowable. ${speedNote(w.slidingVelocity)}`,
+      `thread, a lower speed, or a nut material with a higher allowable. ${classNote(w)}`,
   };
 }
 
@@ -51,7 +56,8 @@ export const nutBearingPressureRule: Rule = {
   title: 'Nut bearing pressure (wear)',
   basis: BASIS,
   description:
-    'Blocks when the mean flank pressure exceeds wear.maxPressureRatio of the allowable, warns above wear.warnPressureRatio; ' +
-    'warns when no allowable is known.',
+    'Blocks when the mean flank pressure exceeds wear.maxPressureRatio of the allowable for the actual rubbing speed ' +
+    "(the nut material's speed classes, or the design's own single value at any speed), warns above wear.warnPressureRatio; " +
+    'warns when no allowable is known for that speed.',
   check: nutBearingPressure,
 };

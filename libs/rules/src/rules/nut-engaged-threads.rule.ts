@@ -1,6 +1,6 @@
 /** Number of engaged threads in the nut: too few overloads the first thread; too many add little. */
 import type { Finding } from '@leadline/contracts';
-import { sigPair } from '../format';
+import { percent, sigPair } from '../format';
 import { exceeds, fallsShort, type Rule, type RuleContext } from '../rule';
 
 export const NUT_ENGAGED_THREADS_ID = 'nut-engaged-threads';
@@ -19,12 +19,30 @@ export function nutEngagedThreads({ evaluation, thresholds }: RuleContext): Find
       measured: n,
       limit: min,
       message:
-        `Only ${m} threads are engaged, fewer than ${l}. With so few threads the first one carries more than the 0.38 of ` +
-        `the load the thread-root check assumes, so that check is optimistic, and wear soon loosens the nut. Lengthen the nut.`,
+        `Only ${m} threads are engaged, fewer than ${l}. The first thread carries a large share of the load (the ` +
+        `thread-root checks take at least F / n_t on it), small errors of pitch and form load it more, and wear soon ` +
+        `loosens the nut. Lengthen the nut.`,
     };
   }
   if (exceeds(n, max)) {
     const [m, l] = sigPair(n, max, 2);
+    // A nut that is long for wear must not be told to shrink: with only `max` threads the mean pressure would rise by n / max
+    const w = evaluation.wear;
+    const shortenedRatio = w.pressureRatio === null ? null : (w.pressureRatio * n) / max;
+    if (shortenedRatio === null || !(shortenedRatio <= thresholds.wear.warnPressureRatio)) {
+      return {
+        ...base,
+        measured: n,
+        limit: max,
+        message:
+          `${m} threads are engaged, more than ${l}. The first few threads carry most of the load, so the extra length adds ` +
+          `little strength, and the stripping and mean-pressure checks, which spread the load over all threads, read ` +
+          `optimistic until the nut has run in. The length is needed for wear: ` +
+          (shortenedRatio === null
+            ? 'no allowable bearing pressure is known, so keep the nut length and acknowledge.'
+            : `with ${l} threads the mean pressure would be ${percent(shortenedRatio)} of the allowable, so keep the nut length and acknowledge.`),
+      };
+    }
     return {
       ...base,
       measured: n,
@@ -32,7 +50,8 @@ export function nutEngagedThreads({ evaluation, thresholds }: RuleContext): Find
       message:
         `${m} threads are engaged, more than ${l}. The first few threads carry most of the load, so the extra length adds ` +
         `little strength, while the stripping and mean-pressure checks spread the load over all threads and read optimistic ` +
-        `until the nut has run in. Shorten the nut, or keep it for wear reserve and acknowledge.`,
+        `until the nut has run in. The wear check would still pass with ${l} threads, so the nut could be shortened; or ` +
+        `keep it for wear reserve and acknowledge.`,
     };
   }
   return null;

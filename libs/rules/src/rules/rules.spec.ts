@@ -226,16 +226,23 @@ describe('nut-thread-stripping', () => {
 
   const jack = evaluated(JACK_INPUT);
 
-  it('real engine: the bronze nut (yield 125 MPa, from memory) passes', () => {
+  it('real engine: the aluminium-bronze nut (ASTM B148 C95400 minimum yield 30 ksi, from memory) passes', () => {
     expect(nutThreadStripping(contextOf(jack))).toBeNull();
   });
 
-  it('real engine: a grey cast-iron nut has no yield on record, so the check is information only', () => {
+  it('real engine: a grey cast-iron nut has no yield on record: on lifting duty the check blocks and names the missing value', () => {
     const iron = evaluated({ ...JACK_INPUT, nut: { length: '56 mm', material: 'cast-iron' } });
     expect(iron.evaluation.safetyFactors.strippingNut).toBeNull();
     const f = nutThreadStripping(contextOf(iron));
-    expect(f?.severity).toBe('info');
+    expect(f?.severity).toBe('blocking');
     expect(f?.measured).toBeNull();
+    expect(f?.message).toMatch(/nut\.yieldStrength is missing/);
+  });
+
+  it('real engine: the same cast-iron nut on positioning duty is information only', () => {
+    const iron = evaluated(withDuty({ ...JACK_INPUT, nut: { length: '56 mm', material: 'cast-iron' } }, { kind: 'positioning' }));
+    const f = nutThreadStripping(contextOf(iron));
+    expect(f?.severity).toBe('info');
     expect(f?.message).toMatch(/nut\.yieldStrength/);
   });
 
@@ -326,7 +333,8 @@ describe('shaft-whirl-speed', () => {
   /** SYNTHETIC: the operating fraction of critical speed replaced (operating speed made consistent with it). */
   function withRatio(e: Evaluated, ratio: number): Evaluated {
     const cs = e.evaluation.criticalSpeed;
-    return { ...e, evaluation: { ...e.evaluation, criticalSpeed: { ...cs, ratio, operatingRpm: ratio * cs.rpm } } };
+    // partly fixed figure removed, so the classical ratio is the one judged (the lower speed is tested in shaft-whirl-partly-fixed.spec.ts)
+    return { ...e, evaluation: { ...e.evaluation, criticalSpeed: { ...cs, ratio, operatingRpm: ratio * cs.rpm, partlyFixed: null } } };
   }
 
   const jack = evaluated(JACK_INPUT);
@@ -411,12 +419,13 @@ describe('nut-pv', () => {
 
   const jack = evaluated(JACK_INPUT);
 
-  it('real engine: the jack at 60 rev/min is well inside the bronze pV limit (Mott Table 16-1, 2.63 MPa·m/s)', () => {
+  it('real engine: the jack at 20 rev/min is well inside the aluminium-bronze pV limit (Mott Table 16-1, 4.38 MPa·m/s)', () => {
     expect(nutPv(contextOf(jack))).toBeNull();
   });
 
   it('real engine: the jack at 300 rev/min (pV about 3.6 MPa·m/s) blocks', () => {
-    const f = nutPv(contextOf(evaluated(withDuty(JACK_INPUT, { speed: '300 rpm' }))));
+    // tin bronze, Mott Table 16-1 75,000 psi*ft/min = 2.63 MPa*m/s
+    const f = nutPv(contextOf(evaluated(withDuty({ ...JACK_INPUT, nut: { length: '56 mm', material: 'bronze' } }, { speed: '300 rpm' }))));
     expect(f?.severity).toBe('blocking');
     expect(f?.message).toMatch(/MPa·m\/s/);
   });

@@ -1,17 +1,18 @@
-/** Shear stripping of the screw threads at the root diameter over the engaged length. */
+/** Shear stripping of the screw threads on the cylinder at the nut's minor diameter, over the engaged length. */
 import type { Finding } from '@leadline/contracts';
 import { SHEAR_YIELD_RATIO } from '@leadline/mechanics';
 import type { Rule, RuleContext } from '../rule';
 import { STRENGTH_BASIS, strengthFinding } from './strength-check';
 
 export const SCREW_THREAD_STRIPPING_ID = 'screw-thread-stripping';
-const FORMULA_BASIS = 'stripping shear over the engaged threads against 0.577 S_y (distortion energy, Shigley 10th ed. Eq. (5-21))';
+const FORMULA_BASIS =
+  "stripping shear of the screw threads on the cylinder at the nut's minor diameter D1 (Machinery's Handbook, 'Strength of screw threads', from memory) against 0.577 S_y (distortion energy, Shigley 10th ed. Eq. (5-21))";
 
 export function screwThreadStripping({ design, evaluation, thresholds }: RuleContext): Finding | null {
   return strengthFinding({
     ruleId: SCREW_THREAD_STRIPPING_ID,
     subject: 'safetyFactors.strippingScrew',
-    what: 'Screw thread stripping (shear at the root diameter)',
+    what: "Screw thread stripping (shear at the nut's minor diameter)",
     safetyFactor: evaluation.safetyFactors.strippingScrew,
     minimum: thresholds.strength.minSafetyFactor[design.duty.kind],
     duty: design.duty.kind,

@@ -7,33 +7,48 @@ export const SHAFT_WHIRL_SPEED_ID = 'shaft-whirl-speed';
 const BASIS =
   'common practice: run below 80 % of the first critical speed, some designers use 75 % (shared/reference/columns-and-speed.md 3.4); ' +
   'first bending mode of a uniform Euler-Bernoulli shaft at the root diameter';
+const BASIS_PARTLY_FIXED =
+  `${BASIS}; fixed ends taken as only partly fixed (common practice): simply supported shaft over L / sqrt(C) with the ` +
+  "recommended end-condition constant C of Shigley 9th ed. Table 4-2, the same partial fixity the column check assumes";
 
 export function shaftWhirlSpeed({ evaluation, thresholds }: RuleContext): Finding | null {
   const cs = evaluation.criticalSpeed;
   const { maxRatio, warnRatio } = thresholds.criticalSpeed;
-  const base = { ruleId: SHAFT_WHIRL_SPEED_ID, unit: '-', subject: 'criticalSpeed.ratio', basis: BASIS } as const;
-  if (cs.ratio === null || cs.operatingRpm === null) {
+  // The lower of the classical and the partly fixed critical speed governs (evaluations before engine 1.1 have only the classical)
+  const pf = cs.partlyFixed ?? null;
+  const governs = pf !== null && pf.rpm < cs.rpm;
+  const criticalRpm = governs ? pf.rpm : cs.rpm;
+  const ratio = governs ? pf.ratio : cs.ratio;
+  const which = governs ? 'critical speed with the fixed ends taken as only partly fixed' : 'first critical speed';
+  const base = {
+    ruleId: SHAFT_WHIRL_SPEED_ID,
+    unit: '-',
+    subject: governs ? 'criticalSpeed.partlyFixed.ratio' : 'criticalSpeed.ratio',
+    basis: governs ? BASIS_PARTLY_FIXED : BASIS,
+  } as const;
+  if (ratio === null || cs.operatingRpm === null) {
     return {
       ...base,
       severity: 'info',
       measured: null,
       limit: maxRatio,
       message:
-        `No operating speed was given, so whirl was not checked. The first critical speed is ${revPerMin(cs.rpm)}; keep ` +
-        `the screw below ${percent(maxRatio)} of it (${revPerMin(maxRatio * cs.rpm)}). Give duty.speed or duty.linearSpeed to check it.`,
+        `No operating speed was given, so whirl was not checked. The ${which} is ${revPerMin(criticalRpm)}; keep ` +
+        `the screw below ${percent(maxRatio)} of it (${revPerMin(maxRatio * criticalRpm)}). Give duty.speed or duty.linearSpeed to check it.`,
     };
   }
-  const blocking = exceeds(cs.ratio, maxRatio);
-  if (!blocking && !exceeds(cs.ratio, warnRatio)) return null;
+  const blocking = exceeds(ratio, maxRatio);
+  if (!blocking && !exceeds(ratio, warnRatio)) return null;
   const limit = blocking ? maxRatio : warnRatio;
-  const [m, l] = sigPair(cs.ratio * 100, limit * 100);
+  const [m, l] = sigPair(ratio * 100, limit * 100);
   return {
     ...base,
     severity: blocking ? 'blocking' : 'warning',
-    measured: cs.ratio,
+    measured: ratio,
     limit,
     message:
-      `Operating speed ${revPerMin(cs.operatingRpm)} is ${m} % of the first critical speed ${revPerMin(cs.rpm)}, ` +
+      `Operating speed ${revPerMin(cs.operatingRpm)} is ${m} % of the ${which} ${revPerMin(criticalRpm)}` +
+      `${governs ? ` (classical first mode ${revPerMin(cs.rpm)})` : ''}, ` +
       `above the ${blocking ? 'limit' : 'warning level'} of ${l} %. Near the critical speed the screw whirls, vibrates ` +
       `and can be damaged; end supports that fix the screw less than assumed lower the critical speed further. ` +
       `Reduce the speed, shorten the span between supports, fix the ends, or use a larger root diameter.`,
@@ -46,6 +61,7 @@ export const shaftWhirlSpeedRule: Rule = {
   basis: BASIS,
   description:
     'Blocks above criticalSpeed.maxRatio of the first critical speed, warns above criticalSpeed.warnRatio; ' +
+    'where the engine reports a partly fixed critical speed (recommended basis, a fixed end) the lower speed governs; ' +
     'information when no operating speed is given.',
   check: shaftWhirlSpeed,
 };

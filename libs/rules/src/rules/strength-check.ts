@@ -4,7 +4,7 @@
  */
 import type { Finding } from '@leadline/contracts';
 import type { DutyKind } from '@leadline/mechanics';
-import { mpa, sigPair } from '../format';
+import { mpa, sig, sigPair } from '../format';
 import { fallsShort } from '../rule';
 
 /** Common practice behind the minimum static factors of safety. */
@@ -46,5 +46,31 @@ export function strengthFinding(c: StrengthCheck): Finding | null {
       `below the minimum ${limit} for ${c.duty} duty. Below this margin, load peaks, material scatter and model ` +
       `simplifications can reach yield. ${c.remedy}`,
     basis: `${STRENGTH_BASIS}; ${c.formulaBasis}`,
+  };
+}
+
+/**
+ * The finding for a strength check that cannot be computed for want of a value: blocking on lifting duty under a rule
+ * set that says so (missingValues.onLifting, 2026.12-2), information otherwise.
+ */
+export function missingValueFinding(
+  ruleId: string, subject: string, what: string, missing: string, minimum: number, duty: DutyKind, basis: string,
+  onLifting: 'blocking' | 'info',
+): Finding {
+  const lifting = duty === 'lifting' && onLifting === 'blocking';
+  return {
+    ruleId,
+    severity: lifting ? 'blocking' : 'info',
+    measured: null,
+    limit: minimum,
+    unit: '-',
+    subject,
+    message: lifting
+      ? `${what} cannot be checked: ${missing} is missing. On lifting duty a strength check that cannot be computed blocks, ` +
+        `because a failure drops the load. Give ${missing} (the supplier's or the specification's minimum) to check it ` +
+        `against the minimum factor of safety ${sig(minimum)}.`
+      : `${what} was not checked: ${missing} is missing (grey iron and polymers have none in the library). Give ${missing} ` +
+        `from the supplier to check it against the minimum factor of safety ${sig(minimum)} for ${duty} duty.`,
+    basis,
   };
 }
