@@ -1,3 +1,4 @@
 export * from './design-input';
 export * from './records';
 export * from './api-schemas';
+export * from './text';
