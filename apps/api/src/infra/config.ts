@@ -1,11 +1,40 @@
 /**
  * Configuration: read once from the environment, validated at boot, typed. Nothing else reads process.env.
  */
+import { isIP } from 'node:net';
 import { z } from 'zod';
 
 const flag = z
   .enum(['true', 'false', '1', '0'])
   .transform((v) => v === 'true' || v === '1');
+
+const PROXY_NAMES = new Set(['loopback', 'linklocal', 'uniquelocal']);
+
+/** LEADLINE_TRUST_PROXY as Fastify's trustProxy: false, a hop count, or a list of trusted proxy addresses. */
+export function parseTrustProxy(value: string, ctx: z.RefinementCtx): false | number | string[] {
+  const v = value.trim().toLowerCase();
+  if (v === 'false' || v === '0') return false;
+  if (v === 'true') return 1;
+  if (/^\d+$/.test(v)) {
+    const hops = Number(v);
+    if (hops <= 10) return hops;
+    ctx.addIssue({ code: 'custom', message: 'at most 10 proxy hops' });
+    return z.NEVER;
+  }
+  const list = v.split(',').map((e) => e.trim()).filter(Boolean);
+  const bad = list.filter((e) => {
+    if (PROXY_NAMES.has(e)) return false;
+    const [addr, bits, extra] = e.split('/');
+    const family = isIP(addr);
+    if (!family || extra !== undefined) return true;
+    return bits !== undefined && !(/^\d+$/.test(bits) && Number(bits) <= (family === 4 ? 32 : 128));
+  });
+  if (list.length === 0 || bad.length > 0) {
+    ctx.addIssue({ code: 'custom', message: `expected false, a number of proxy hops, or a comma list of proxy addresses/CIDRs; not understood: ${bad.join(', ') || value}` });
+    return z.NEVER;
+  }
+  return list;
+}
 
 export const configSchema = z.object({
   /** PostgreSQL connection string; without it the service runs on an embedded PGlite database */
@@ -24,8 +53,14 @@ export const configSchema = z.object({
   LEADLINE_BODY_LIMIT: z.coerce.number().int().min(1024).default(256 * 1024),
   /** Pool size for PostgreSQL */
   LEADLINE_DB_POOL: z.coerce.number().int().min(1).max(100).default(10),
-  /** Behind a reverse proxy: take the client address from X-Forwarded-For (the failed-auth limit counts per address) */
-  LEADLINE_TRUST_PROXY: flag.default(false),
+  /**
+   * Behind reverse proxies: how the client address is found (the failed-auth limit counts per address).
+   * "false"/"0": the socket's peer, X-Forwarded-For ignored. A number n: n proxy hops in front of the service are
+   * trusted, the client is the n-th X-Forwarded-For entry from the right ("true"/"1" = one proxy: the entry that
+   * proxy appended, never one the client sent). A comma list of proxy addresses or CIDRs (or loopback,
+   * linklocal, uniquelocal): entries from those addresses are skipped from the right.
+   */
+  LEADLINE_TRUST_PROXY: z.string().default('false').transform(parseTrustProxy),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 

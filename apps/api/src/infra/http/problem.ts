@@ -65,6 +65,8 @@ export class ProblemFilter implements ExceptionFilter {
       const err = exception instanceof Error ? exception : new Error(String(exception));
       this.logger.error(`unhandled error: ${err.message}`, err.stack);
     }
+    // 429 and 503 say when to come back (RFC 9110 Retry-After, in seconds)
+    if (typeof problem.retryAfter === 'number') reply.header('retry-after', String(Math.max(1, Math.ceil(problem.retryAfter))));
     reply.status(problem.status).header('content-type', 'application/problem+json').send(problem);
   }
 }
