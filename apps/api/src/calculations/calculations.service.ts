@@ -36,6 +36,41 @@ export interface Calculation {
 const REVISION_COLUMNS = `r.id, r.product_id, r.calculation_id, r.revision, r.seq, r.note, r.input::text AS input, r.normalized::text AS normalized,
   r.evaluation::text AS evaluation, r.findings::text AS findings, r.verdict, r.engine_version, r.rule_set_version, r.author, ${TS_TEXT('r.created_at')} AS created_at, r.hash, r.previous_hash`;
 
+export const revisionsQuerySchema = z.object({
+  after: z.coerce.number().int().min(0).default(0).describe('cursor: the last revision number of the previous page'),
+  limit: z.coerce.number().int().min(1).max(500).default(100),
+  view: z.enum(['full', 'summary']).default('full').describe('summary: number, verdict, author, note, hash and dates only'),
+});
+
+const SUMMARY_COLUMNS = `r.id, r.product_id, r.calculation_id, r.revision, r.seq, r.note, r.verdict, r.author, ${TS_TEXT('r.created_at')} AS created_at, r.hash, r.previous_hash`;
+
+/** The light form of a revision for long histories (GET /calculations/:id/revisions?view=summary). */
+export interface RevisionSummary {
+  id: string;
+  calculationId: string;
+  revision: number;
+  verdict: RevisionRecord['verdict'];
+  author: Actor | null;
+  note: string | null;
+  createdAt: string;
+  hash: string;
+  previousHash: string | null;
+}
+
+export function toRevisionSummary(r: Pick<RevisionRow, 'id' | 'calculation_id' | 'revision' | 'verdict' | 'author' | 'note' | 'created_at' | 'hash' | 'previous_hash'>): RevisionSummary {
+  return {
+    id: r.id,
+    calculationId: r.calculation_id,
+    revision: Number(r.revision),
+    verdict: r.verdict as RevisionRecord['verdict'],
+    author: (r.author as Actor | null) ?? null,
+    note: r.note,
+    createdAt: r.created_at,
+    hash: r.hash,
+    previousHash: r.previous_hash,
+  };
+}
+
 export function toRevisionRecord(r: RevisionRow): RevisionRecord {
   return {
     id: r.id,
@@ -153,6 +188,23 @@ export class CalculationsService {
     await this.get(calculationId);
     const rows = await this.db.query<RevisionRow>(`SELECT ${REVISION_COLUMNS} FROM revisions r WHERE r.calculation_id = $1 ORDER BY r.revision`, [calculationId]);
     return rows.map(toRevisionRecord);
+  }
+
+  /**
+   * One page of a calculation's revisions after the cursor (a revision number), oldest first; the (calculation_id,
+   * revision) index makes a page cost the same at any depth. `view: 'summary'` reads only the light columns.
+   */
+  async revisionsPage(calculationId: string, query: unknown): Promise<{ items: (RevisionRecord | RevisionSummary)[]; nextCursor: number | null }> {
+    const q = validate(revisionsQuerySchema, query);
+    await this.get(calculationId);
+    const columns = q.view === 'summary' ? SUMMARY_COLUMNS : REVISION_COLUMNS;
+    const rows = await this.db.query<RevisionRow>(
+      `SELECT ${columns} FROM revisions r WHERE r.calculation_id = $1 AND r.revision > $2 ORDER BY r.revision LIMIT $3`,
+      [calculationId, q.after, q.limit + 1],
+    );
+    const page = rows.slice(0, q.limit);
+    const items = page.map((r) => (q.view === 'summary' ? toRevisionSummary(r) : toRevisionRecord(r)));
+    return { items, nextCursor: rows.length > q.limit ? items[items.length - 1].revision : null };
   }
 
   async revision(id: string): Promise<RevisionRecord> {

@@ -1,5 +1,5 @@
-import { Body, Controller, Get, HttpCode, Param, Post, Query, Res } from '@nestjs/common';
-import type { FastifyReply } from 'fastify';
+import { Body, Controller, Get, HttpCode, Param, Post, Query, StreamableFile } from '@nestjs/common';
+import { Readable } from 'node:stream';
 import type { Actor } from '@leadline/contracts';
 import { CalculationsService } from '../calculations/calculations.service';
 import { Roles } from '../identities/auth.guard';
@@ -50,18 +50,18 @@ export class ReviewsController {
 
   /** The chronological trail of a product: every revision, finding summary, event, actor, time and hash. */
   @Get('products/:id/audit')
-  async trail(@Param('id') id: string, @Query() query: unknown, @Res({ passthrough: true }) reply: FastifyReply) {
+  async trail(@Param('id') id: string, @Query() query: unknown) {
     const q = validate(auditQuerySchema, query);
     if (!q.format) return this.audit.trail(id, q.after, q.limit);
     const product = await this.products.get(id);
-    const entries = await this.audit.fullTrail(id);
     const name = `audit-${product.code}`;
-    if (q.format === 'csv') {
-      reply.header('content-type', 'text/csv; charset=utf-8').header('content-disposition', `attachment; filename="${name}.csv"`);
-      return AuditService.toCsv(entries);
-    }
-    reply.header('content-disposition', `attachment; filename="${name}.json"`);
-    return { product, entries };
+    // Streamed as read, batch by batch (constant memory at any trail length); a client that goes away stops the reads.
+    const chunks = q.format === 'csv' ? this.audit.csv(id) : this.audit.json(id, product);
+    const stream = Readable.from(chunks, { objectMode: false });
+    return new StreamableFile(stream, {
+      type: q.format === 'csv' ? 'text/csv; charset=utf-8' : 'application/json; charset=utf-8',
+      disposition: `attachment; filename="${name}.${q.format}"`,
+    });
   }
 
   /** What changed in inputs, friction sources, results and findings between two revisions. */

@@ -57,9 +57,11 @@ export class ReviewsService {
     return r;
   }
 
-  /** Review states of every revision of a calculation, in one query, by revision id. */
-  async statesOfCalculation(calculationId: string): Promise<Map<string, RevisionState>> {
-    const rows = await this.states(this.db, 'r.calculation_id = $1', [checkUuid(calculationId, 'calculation')]);
+  /** Review states of every revision of a calculation (or of revision numbers in [from, to]), in one query, by revision id. */
+  async statesOfCalculation(calculationId: string, range?: { from: number; to: number }): Promise<Map<string, RevisionState>> {
+    const rows = range
+      ? await this.states(this.db, 'r.calculation_id = $1 AND r.revision BETWEEN $2 AND $3', [checkUuid(calculationId, 'calculation'), range.from, range.to])
+      : await this.states(this.db, 'r.calculation_id = $1', [checkUuid(calculationId, 'calculation')]);
     return new Map(rows.map((r) => [r.id, r]));
   }
 
