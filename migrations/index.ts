@@ -6,6 +6,8 @@ import { ChangedRevisionContentToVerbatimJson20261201220300 } from './2026120122
 import { CreatedRuleSetAdoptions20261201220400 } from './20261201220400-created-rule-set-adoptions';
 import { GuardedChainHeadsAndRuleTables20261201220500 } from './20261201220500-guarded-chain-heads-and-rule-tables';
 import { CreatedAppendRevisionFunction20261201220600 } from './20261201220600-created-append-revision-function';
+import { AddedLinkVersionsAndTokenIds20261202100000 } from './20261202100000-added-link-versions-and-token-ids';
+import { ReplacedAppendRevisionWithOwnedChainFunctions20261202100100 } from './20261202100100-replaced-append-revision-with-owned-chain-functions';
 
 export const MIGRATIONS = [
   CreatedRecordTables20261201220000,
@@ -15,4 +17,6 @@ export const MIGRATIONS = [
   CreatedRuleSetAdoptions20261201220400,
   GuardedChainHeadsAndRuleTables20261201220500,
   CreatedAppendRevisionFunction20261201220600,
+  AddedLinkVersionsAndTokenIds20261202100000,
+  ReplacedAppendRevisionWithOwnedChainFunctions20261202100100,
 ];

@@ -1,4 +1,4 @@
-import { Body, Controller, Get, Headers, Param, Post, Query, Res } from '@nestjs/common';
+import { Body, Controller, Get, Headers, HttpCode, Param, Post, Query, Res } from '@nestjs/common';
 import type { FastifyReply } from 'fastify';
 import type { Actor } from '@leadline/contracts';
 import { Roles } from '../identities/auth.guard';
@@ -48,6 +48,15 @@ export class CalculationsController {
     return r.body;
   }
 
+  /** An admin hands the calculation to another author (a chained, audited event); only its owner may add revisions. */
+  @Post('calculations/:id/reassignments')
+  @Roles('admin')
+  @HttpCode(201)
+  reassign(@Param('id') calculationId: string, @Body() body: unknown, @CurrentActor() actor: Actor) {
+    return this.calculations.reassign(calculationId, body, actor);
+  }
+
+  /** A calculation's revisions, oldest first, cursor-paged (after, limit; view=summary for long histories). */
   @Get('calculations/:id/revisions')
   async revisions(@Param('id') calculationId: string, @Query() query: unknown) {
     const page = await this.calculations.revisionsPage(calculationId, query);

@@ -9,7 +9,7 @@ import type { Actor, RevisionRecord } from '@leadline/contracts';
 import { z } from 'zod';
 import { Assessment, AssessmentService } from '../evaluations/assessment.service';
 import { Database, type Queryer } from '../infra/database/database.service';
-import { notFound, validate } from '../infra/http/problem';
+import { notFound, ProblemError, validate, ValidationProblem } from '../infra/http/problem';
 import { checkUuid } from '../products/products.service';
 import { TS_TEXT } from '../records/chain';
 import { checkKey, findIdempotent, requestHash, storeIdempotent, type StoredResponse } from '../records/idempotency';
@@ -24,6 +24,11 @@ export const openCalculationSchema = z.strictObject({
 export const addRevisionSchema = z.strictObject({
   design: z.unknown(),
   note: z.string().max(4000).optional(),
+});
+
+export const reassignSchema = z.strictObject({
+  userId: z.string().uuid().describe('the author who takes the calculation over'),
+  reason: z.string().trim().min(1).max(4000).optional(),
 });
 
 export interface Calculation {
@@ -139,6 +144,41 @@ export class CalculationsService {
         body: { calculationId, revisionId: revision.id, revision: revision.revision, verdict: assessment.verdict, hash: revision.hash },
       };
     }, true);
+  }
+
+  /**
+   * Hands a calculation to another author (admin): a calculation-reassigned event on the product's chain, which
+   * leadline_append_revision reads (under the same head lock) to decide who may add revisions.
+   */
+  async reassign(calculationId: string, body: unknown, actor: Actor) {
+    const calc = await this.get(calculationId);
+    const input = validate(reassignSchema, body);
+    const [user] = await this.db.query<{ id: string; name: string; roles: string[] }>(`SELECT id, name, roles FROM users WHERE id = $1`, [input.userId]);
+    if (!user) throw new ValidationProblem([{ path: 'userId', message: `no user ${input.userId}` }]);
+    if (!user.roles.includes('author')) throw new ValidationProblem([{ path: 'userId', message: `${user.name} does not have the author role` }]);
+    return this.db.transaction(async (q) => {
+      const cursor = (await this.records.lockHead(q, calc.productId))!;
+      const from = await this.owner(q, calculationId);
+      if (from?.id === user.id) throw new ProblemError(409, 'Already the owner', `${user.name} already owns this calculation`);
+      const to = { id: user.id, name: user.name };
+      const event = await this.records.appendEvent(q, cursor, {
+        productId: calc.productId, type: 'calculation-reassigned', calculationId, revisionId: null, actor,
+        data: { from, to, reason: input.reason ?? null },
+      });
+      await this.records.saveHead(q, calc.productId, cursor);
+      return { calculationId, owner: to, previousOwner: from, eventId: event.id, hash: event.hash, seq: event.seq, createdAt: event.createdAt };
+    });
+  }
+
+  /** Who may add revisions: the user of the latest calculation-reassigned event, else the one who opened it. */
+  async owner(q: Queryer, calculationId: string): Promise<Actor | null> {
+    const [row] = await q.query<{ owner: Actor | null }>(
+      `SELECT coalesce(
+         (SELECT e.data->'to' FROM events e WHERE e.calculation_id = $1 AND e.type = 'calculation-reassigned' ORDER BY e.seq DESC LIMIT 1),
+         (SELECT e.actor FROM events e WHERE e.calculation_id = $1 AND e.type = 'calculation-opened' ORDER BY e.seq LIMIT 1)) AS owner`,
+      [calculationId],
+    );
+    return row?.owner ?? null;
   }
 
   private async idempotent(

@@ -10,7 +10,7 @@ import {
 } from '@leadline/contracts';
 import { z, type ZodType } from 'zod';
 import { ruleSetDefinitionSchema } from '@leadline/rules';
-import { addRevisionSchema, openCalculationSchema, revisionsQuerySchema } from '../calculations/calculations.service';
+import { addRevisionSchema, openCalculationSchema, reassignSchema, revisionsQuerySchema } from '../calculations/calculations.service';
 import { auditQuerySchema } from '../reviews/audit.service';
 import { createTokenSchema, createUserSchema } from '../identities/identities.service';
 import { createProductSchema } from '../products/products.service';
@@ -56,6 +56,7 @@ export const ROUTES: Route[] = [
   { method: 'post', path: '/api/v1/products/{id}/calculations', summary: 'Open a calculation with revision 1', tag: 'calculations', request: openCalculationSchema.extend({ design: designInputSchema }), response: submissionResultSchema, status: 201, idempotent: true },
   { method: 'get', path: '/api/v1/calculations/{id}', summary: 'One calculation', tag: 'calculations', response: calculationSchema },
   { method: 'post', path: '/api/v1/calculations/{id}/revisions', summary: 'Submit the next revision', tag: 'calculations', request: addRevisionSchema.extend({ design: designInputSchema }), response: submissionResultSchema, status: 201, idempotent: true },
+  { method: 'post', path: '/api/v1/calculations/{id}/reassignments', summary: 'Hand a calculation to another author (admin; a chained event); only its owner may submit revisions (403 otherwise)', tag: 'calculations', request: reassignSchema, status: 201 },
   {
     method: 'get', path: '/api/v1/calculations/{id}/revisions', summary: "A calculation's revisions, oldest first, cursor-paged (after, limit; view=summary gives light items)", tag: 'calculations',
     query: revisionsQuerySchema,

@@ -3,7 +3,7 @@ import { Readable } from 'node:stream';
 import type { Actor } from '@leadline/contracts';
 import { CalculationsService } from '../calculations/calculations.service';
 import { Roles } from '../identities/auth.guard';
-import { CurrentActor } from '../infra/http/actor';
+import { CurrentActor, CurrentRoles } from '../infra/http/actor';
 import { ProblemError, validate } from '../infra/http/problem';
 import { ProductsService } from '../products/products.service';
 import { AuditService, auditQuerySchema, changes, flatten } from './audit.service';
@@ -22,8 +22,8 @@ export class ReviewsController {
   @Post('revisions/:id/decisions')
   @Roles('reviewer')
   @HttpCode(201)
-  decide(@Param('id') id: string, @Body() body: unknown, @CurrentActor() actor: Actor) {
-    return this.reviews.decide(id, body, actor);
+  decide(@Param('id') id: string, @Body() body: unknown, @CurrentActor() actor: Actor, @CurrentRoles() roles: string[]) {
+    return this.reviews.decide(id, body, actor, roles);
   }
 
   /** A comment without a decision, general or on an input field or a finding. */

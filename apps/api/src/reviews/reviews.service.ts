@@ -9,7 +9,7 @@ import { Database, PG_UNIQUE_VIOLATION, pgErrorCode, type Queryer } from '../inf
 import { ProblemError, ValidationProblem, notFound, validate } from '../infra/http/problem';
 import { checkUuid } from '../products/products.service';
 import { TS_TEXT } from '../records/chain';
-import { RecordStore } from '../records/record-store';
+import { RecordStore, type Acting } from '../records/record-store';
 
 export const targetSchema = z.union([
   z.strictObject({ field: z.string().min(1).max(200).describe('input field path, e.g. "thread.pitch"') }),
@@ -70,11 +70,14 @@ export class ReviewsService {
       id: string; product_id: string; calculation_id: string; revision: number; author_id: string | null; findings: Finding[]; input: string;
       closure: ReviewState | null; superseded: boolean; actor: Actor | null; decided_at: string | null;
     }>(
-      `SELECT r.id, r.product_id, r.calculation_id, r.revision, r.author_id, r.findings, r.input::text AS input, c.kind AS closure,
-              ${SUPERSEDED('r')} AS superseded, e.actor, ${TS_TEXT('c.created_at')} AS decided_at
+      // A closure counts only as the index of a decision or withdrawal event of this very revision (the chain is the
+      // record; a closure row without its event changes nothing and verify reports it). The author is the hashed one.
+      `SELECT r.id, r.product_id, r.calculation_id, r.revision, (r.author->>'id')::uuid AS author_id, r.findings, r.input::text AS input,
+              CASE WHEN e.id IS NOT NULL THEN c.kind END AS closure,
+              ${SUPERSEDED('r')} AS superseded, e.actor, ${TS_TEXT('e.created_at')} AS decided_at
          FROM revisions r
          LEFT JOIN revision_closures c ON c.revision_id = r.id
-         LEFT JOIN events e ON e.id = c.event_id
+         LEFT JOIN events e ON e.id = c.event_id AND e.revision_id = r.id AND e.type = c.kind
         WHERE ${where}`,
       params,
     );
@@ -87,8 +90,15 @@ export class ReviewsService {
     }));
   }
 
-  /** Approve or reject: four-eyes, no blocking findings, every warning acknowledged, exactly one decision. */
-  async decide(revisionId: string, body: unknown, actor: Actor) {
+  /**
+   * Approve or reject: four-eyes (the decider is not the author, and acts with a token the author did not issue),
+   * never with an admin's token, no blocking findings, every warning acknowledged, exactly one decision.
+   * @param roles - the deciding caller's roles
+   */
+  async decide(revisionId: string, body: unknown, actor: Acting, roles: readonly string[] = []) {
+    if (roles.includes('admin')) {
+      throw new ProblemError(403, 'Admins do not decide', 'an admin identity can issue tokens, so it may not approve or reject; decide with a reviewer identity that is not an admin');
+    }
     const input = validate(decisionSchema, body);
     const head = await this.state(revisionId);
     return this.db.transaction(async (q) => {
@@ -96,6 +106,12 @@ export class ReviewsService {
       const rev = await this.state(revisionId, q);
       if (rev.authorId !== null && rev.authorId === actor.id) {
         throw new ProblemError(403, 'Four-eyes rule', 'a revision must be decided by a reviewer other than its author');
+      }
+      if (rev.authorId !== null && actor.tokenId) {
+        const [token] = await q.query<{ created_by: string | null }>(`SELECT created_by FROM tokens WHERE id = $1`, [actor.tokenId]);
+        if (token?.created_by === rev.authorId) {
+          throw new ProblemError(403, 'Four-eyes rule', "a revision cannot be decided with a token issued by its author");
+        }
       }
       if (rev.state !== 'submitted') {
         throw new ProblemError(409, 'Revision is not awaiting review', `revision ${rev.revision} is ${rev.state}`, { state: rev.state });
@@ -128,7 +144,7 @@ export class ReviewsService {
       });
       await this.close(q, rev.id, kind, event.id, actor);
       await this.records.saveHead(q, rev.productId, cursor);
-      return { revisionId: rev.id, state: kind, eventId: event.id, hash: event.hash, decidedAt: event.createdAt };
+      return { revisionId: rev.id, state: kind, eventId: event.id, hash: event.hash, decidedAt: event.createdAt, seq: event.seq };
     });
   }
 
