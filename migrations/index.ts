@@ -8,6 +8,7 @@ import { GuardedChainHeadsAndRuleTables20261201220500 } from './20261201220500-g
 import { CreatedAppendRevisionFunction20261201220600 } from './20261201220600-created-append-revision-function';
 import { AddedLinkVersionsAndTokenIds20261202100000 } from './20261202100000-added-link-versions-and-token-ids';
 import { ReplacedAppendRevisionWithOwnedChainFunctions20261202100100 } from './20261202100100-replaced-append-revision-with-owned-chain-functions';
+import { CreatedCommentRateIndex20261202110000 } from './20261202110000-created-comment-rate-index';
 
 export const MIGRATIONS = [
   CreatedRecordTables20261201220000,
@@ -19,4 +20,5 @@ export const MIGRATIONS = [
   CreatedAppendRevisionFunction20261201220600,
   AddedLinkVersionsAndTokenIds20261202100000,
   ReplacedAppendRevisionWithOwnedChainFunctions20261202100100,
+  CreatedCommentRateIndex20261202110000,
 ];

@@ -61,6 +61,18 @@ export const configSchema = z.object({
    * linklocal, uniquelocal): entries from those addresses are skipped from the right.
    */
   LEADLINE_TRUST_PROXY: z.string().default('false').transform(parseTrustProxy),
+  /** Comments one revision takes per minute (429 with Retry-After above) */
+  LEADLINE_COMMENTS_PER_REVISION_PER_MINUTE: z.coerce.number().int().min(1).default(30),
+  /** Comments one user may write per minute over all revisions (429 with Retry-After above) */
+  LEADLINE_COMMENTS_PER_USER_PER_MINUTE: z.coerce.number().int().min(1).default(20),
+  /** Comments a report prints in full; beyond it the report counts the rest and points to the audit download */
+  LEADLINE_REPORT_COMMENTS: z.coerce.number().int().min(0).max(1000).default(50),
+  /** PDF requests that may wait for a free page (503 with Retry-After when full) */
+  LEADLINE_PDF_QUEUE_LIMIT: z.coerce.number().int().min(0).default(8),
+  /** Longest wait for a free page before a PDF request answers 503 [ms] */
+  LEADLINE_PDF_QUEUE_WAIT_MS: z.coerce.number().int().min(100).default(20_000),
+  /** Chromium's sandbox: auto (kept unless running as root; dropped with a fallback where the kernel refuses it), true, false */
+  LEADLINE_CHROMIUM_SANDBOX: z.enum(['auto', 'true', 'false', '1', '0']).default('auto').transform((v) => (v === 'auto' ? ('auto' as const) : v === 'true' || v === '1')),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 

@@ -356,6 +356,9 @@ export function safetyFactorSpec(rows: readonly SafetyFactorRow[]): Spec | null 
 // ---------------------------------------------------------------------------------------------------------
 // Rendering
 
+/** Lets queued I/O callbacks (other requests, /health) run before the next synchronous step. */
+export const yieldToEventLoop = (): Promise<void> => new Promise((resolve) => setImmediate(resolve));
+
 /**
  * Compiles a vega-lite spec and renders it headless to an SVG string fit to inline in HTML.
  * @param idPrefix - prefix of the SVG's internal ids (clip paths), unique per chart within one document
@@ -363,6 +366,7 @@ export function safetyFactorSpec(rows: readonly SafetyFactorRow[]): Spec | null 
 export async function specToSvg(spec: Spec, idPrefix: string, label: string): Promise<string> {
   const { vega, vl } = await loadVega();
   const compiled = vl.compile(spec).spec;
+  await yieldToEventLoop();
   const view = new vega.View(vega.parse(compiled), { renderer: 'none' });
   try {
     const svg = await view.toSVG();
@@ -398,10 +402,12 @@ export async function renderReportCharts(revision: RevisionRecord, view: ReportV
   const e = revision.evaluation;
   const curve = columnCurve(design, e);
   const sfSpec = safetyFactorSpec(view.safetyFactors);
-  const [torqueFriction, column, safetyFactors] = await Promise.all([
-    specToSvg(torqueFrictionSpec(torqueFrictionSweep(design, e), view.unitSystem), 'torque', 'Torque against thread friction'),
-    curve ? specToSvg(columnSpec(curve, view.unitSystem), 'column', 'Column curve with the design point') : Promise.resolve(null),
-    sfSpec ? specToSvg(sfSpec, 'factors', 'Safety factors against their minimums') : Promise.resolve(null),
-  ]);
+  // One chart after the other, yielding to the event loop between them: a report never holds the loop for
+  // longer than one chart's layout, so /health and other requests are served in between.
+  const torqueFriction = await specToSvg(torqueFrictionSpec(torqueFrictionSweep(design, e), view.unitSystem), 'torque', 'Torque against thread friction');
+  await yieldToEventLoop();
+  const column = curve ? await specToSvg(columnSpec(curve, view.unitSystem), 'column', 'Column curve with the design point') : null;
+  await yieldToEventLoop();
+  const safetyFactors = sfSpec ? await specToSvg(sfSpec, 'factors', 'Safety factors against their minimums') : null;
   return { torqueFriction, column, safetyFactors };
 }

@@ -1,7 +1,8 @@
 /** Gathers what a report prints about one revision: product, calculation, record, review state, events, history. */
-import { Injectable } from '@nestjs/common';
+import { Inject, Injectable } from '@nestjs/common';
 import type { ProductEvent } from '@leadline/contracts';
 import { CalculationsService } from '../calculations/calculations.service';
+import { APP_CONFIG, type AppConfig } from '../infra/config';
 import { Database } from '../infra/database/database.service';
 import { ProductsService } from '../products/products.service';
 import { TS_TEXT } from '../records/chain';
@@ -17,19 +18,29 @@ export class ReportInputService {
     private readonly products: ProductsService,
     private readonly reviews: ReviewsService,
     private readonly ruleSets: RuleSetsService,
+    @Inject(APP_CONFIG) private readonly config: AppConfig,
   ) {}
 
   async forRevision(revisionId: string): Promise<ReportInput> {
     const revision = await this.calculations.revision(revisionId);
-    const [product, calculation, review, all, events, now] = await Promise.all([
+    const [product, calculation, review, all, events, [omitted], now] = await Promise.all([
       this.products.get(revision.productId),
       this.calculations.get(revision.calculationId),
       this.reviews.state(revisionId),
       this.calculations.revisions(revision.calculationId),
+      // Every non-comment event (submission, decision, withdrawal: a handful), and comments up to the bound
       this.db.query<Record<string, any>>(
         `SELECT id, product_id, seq, type, calculation_id, revision_id, actor, data, ${TS_TEXT('created_at')} AS created_at, hash, previous_hash
-           FROM events WHERE revision_id = $1 ORDER BY seq`,
-        [revisionId],
+           FROM events
+          WHERE revision_id = $1
+            AND (type <> 'comment' OR seq IN (SELECT seq FROM events WHERE revision_id = $1 AND type = 'comment' ORDER BY seq LIMIT $2))
+          ORDER BY seq`,
+        [revisionId, this.config.LEADLINE_REPORT_COMMENTS],
+      ),
+      this.db.query<{ count: string; first: string | null; last: string | null }>(
+        `SELECT count(*) AS count, min(seq) AS first, max(seq) AS last
+           FROM (SELECT seq FROM events WHERE revision_id = $1 AND type = 'comment' ORDER BY seq OFFSET $2) rest`,
+        [revisionId, this.config.LEADLINE_REPORT_COMMENTS],
       ),
       this.db.query<{ now: string }>(`SELECT ${TS_TEXT('now()')} AS now`),
     ]);
@@ -59,6 +70,7 @@ export class ReportInputService {
           actor: e.actor ?? null, data: e.data, createdAt: e.created_at, hash: e.hash, previousHash: e.previous_hash,
         }),
       ),
+      omittedComments: Number(omitted.count) > 0 ? { count: Number(omitted.count), firstSeq: Number(omitted.first), lastSeq: Number(omitted.last) } : null,
       history: all.map((r) => ({ id: r.id, revision: r.revision, createdAt: r.createdAt, verdict: r.verdict, state: states.get(r.id)!.state, author: r.author })),
       generatedAt: now[0].now,
       minimums,

@@ -49,6 +49,8 @@ export interface ReportInput {
   readonly events: readonly ProductEvent[];
   /** All revisions of the calculation */
   readonly history: readonly ReportHistoryEntry[];
+  /** Comments of this revision left out of `events` (the report prints comments in full only up to a bound) */
+  readonly omittedComments?: { readonly count: number; readonly firstSeq: number; readonly lastSeq: number } | null;
   readonly generatedAt: string;
   /**
    * Minimum safety factors of the rule set the revision was judged by, for the checks that passed
@@ -236,6 +238,8 @@ export interface ReportView {
   readonly checks: readonly CheckRow[];
   readonly findingGroups: readonly FindingGroup[];
   readonly events: readonly EventView[];
+  /** What the review record leaves out, and where the full trail is (null when it prints everything) */
+  readonly eventsOmitted: string | null;
   readonly history: readonly HistoryRow[];
   readonly conventions: readonly string[];
   readonly record: readonly KeyValue[];
@@ -922,6 +926,11 @@ export function buildReportView(input: ReportInput): ReportView {
     checks: buildChecks(findings, system),
     findingGroups: buildFindingGroups(findings, input.events, system),
     events: buildEvents(input.events),
+    eventsOmitted: input.omittedComments
+      ? `${input.omittedComments.count} further comment${input.omittedComments.count === 1 ? '' : 's'} on this revision (chain links ${input.omittedComments.firstSeq} to ${input.omittedComments.lastSeq}) ` +
+        `are not printed here; every decision and acknowledgement above is. The full review trail, with every comment, is the product's audit ` +
+        `download: GET /api/v1/products/${product.id}/audit (JSON, or ?format=csv), checked against the hash chain by GET /api/v1/products/${product.id}/verify.`
+      : null,
     history: [...input.history]
       .sort((a, b) => a.revision - b.revision)
       .map((h) => ({

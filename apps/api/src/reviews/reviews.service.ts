@@ -2,14 +2,16 @@
  * The review workflow: decisions, comments and withdrawals as events on the product's chain, and the review
  * state of a revision derived from the log (closure row, written in the same transaction, or a newer revision).
  */
-import { Injectable } from '@nestjs/common';
+import { Inject, Injectable } from '@nestjs/common';
 import type { Actor, Finding, ReviewState } from '@leadline/contracts';
 import { z } from 'zod';
+import { APP_CONFIG, type AppConfig } from '../infra/config';
 import { Database, PG_UNIQUE_VIOLATION, pgErrorCode, type Queryer } from '../infra/database/database.service';
 import { ProblemError, ValidationProblem, notFound, validate } from '../infra/http/problem';
 import { checkUuid } from '../products/products.service';
 import { TS_TEXT } from '../records/chain';
 import { RecordStore, type Acting } from '../records/record-store';
+import { checkCommentRate } from './comment-limit';
 
 export const targetSchema = z.union([
   z.strictObject({ field: z.string().min(1).max(200).describe('input field path, e.g. "thread.pitch"') }),
@@ -49,6 +51,7 @@ export class ReviewsService {
   constructor(
     private readonly db: Database,
     private readonly records: RecordStore,
+    @Inject(APP_CONFIG) private readonly config: AppConfig,
   ) {}
 
   async state(id: string, q: Queryer = this.db): Promise<RevisionState> {
@@ -154,6 +157,7 @@ export class ReviewsService {
     this.checkTargets(head, [{ comment: input, path: 'target' }]);
     return this.db.transaction(async (q) => {
       const cursor = (await this.records.lockHead(q, head.productId))!;
+      await checkCommentRate(q, { perRevisionPerMinute: this.config.LEADLINE_COMMENTS_PER_REVISION_PER_MINUTE, perUserPerMinute: this.config.LEADLINE_COMMENTS_PER_USER_PER_MINUTE }, head.id, actor.id);
       const event = await this.records.appendEvent(q, cursor, {
         productId: head.productId, type: 'comment', calculationId: head.calculationId, revisionId: head.id, actor,
         data: { revision: head.revision, text: input.text, target: input.target ?? null },
