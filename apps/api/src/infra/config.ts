@@ -39,6 +39,16 @@ export function parseTrustProxy(value: string, ctx: z.RefinementCtx): false | nu
 export const configSchema = z.object({
   /** PostgreSQL connection string; without it the service runs on an embedded PGlite database */
   DATABASE_URL: z.string().url().optional(),
+  /**
+   * PostgreSQL connection string of the role that owns the schema and runs the migrations; the service itself then
+   * connects with DATABASE_URL as a runtime role holding SELECT and INSERT only. Unset: migrations run as the
+   * DATABASE_URL role (single-user setup, warned at start-up)
+   */
+  LEADLINE_MIGRATION_DATABASE_URL: z.string().url().optional(),
+  /** The runtime role the migrations grant to (default: the user of DATABASE_URL when LEADLINE_MIGRATION_DATABASE_URL is set) */
+  LEADLINE_RUNTIME_ROLE: z.string().regex(/^[A-Za-z_][A-Za-z0-9_]{0,62}$/, 'a PostgreSQL role name (letters, digits, _)').optional(),
+  /** Ed25519 private key (PKCS#8 PEM) that signs checkpoints; unset: <LEADLINE_DATA_DIR>/signing-key.pem, generated when missing */
+  LEADLINE_SIGNING_KEY_FILE: z.string().min(1).optional(),
   PORT: z.coerce.number().int().min(0).max(65535).default(3000),
   HOST: z.string().default('127.0.0.1'),
   /** Folder of the embedded database */
