@@ -134,16 +134,8 @@ export class AuditService {
    * any depth and any trail length (without it, every row after the cursor is appended and sorted).
    */
   private async page(productId: string, after: number, limit: number, upTo: number | null = null): Promise<AuditEntry[]> {
-    const bound = upTo === null ? '' : 'AND seq <= $4';
     const rows = await this.db.query<Record<string, any>>(
-      `SELECT * FROM (
-         (SELECT seq, 'revision' AS kind, 'revision' AS type, ${TS_TEXT('created_at')} AS time, author AS actor, calculation_id, id AS revision_id,
-                 revision, verdict, findings, jsonb_build_object('note', note) AS data, hash, previous_hash
-            FROM revisions WHERE product_id = $1 AND seq > $2 ${bound} ORDER BY seq LIMIT $3)
-         UNION ALL
-         (SELECT seq, 'event', type, ${TS_TEXT('created_at')}, actor, calculation_id, revision_id, NULL, NULL, NULL, data, hash, previous_hash
-            FROM events WHERE product_id = $1 AND seq > $2 ${bound} ORDER BY seq LIMIT $3)
-       ) t ORDER BY seq LIMIT $3`,
+      auditPageSql(upTo !== null),
       upTo === null ? [productId, after, limit] : [productId, after, limit, upTo],
     );
     return rows.map((r): AuditEntry => {
@@ -207,6 +199,22 @@ export class AuditService {
   static toCsv(entries: AuditEntry[]): string {
     return AUDIT_CSV_COLUMNS.join(',') + '\r\n' + entries.map(AuditService.csvLine).join('');
   }
+}
+
+/**
+ * The audit page query: $1 product, $2 cursor (seq after), $3 limit, $4 (when bounded) the last seq to include.
+ * Exported so a test can check its plan.
+ */
+export function auditPageSql(bounded: boolean): string {
+  const bound = bounded ? 'AND seq <= $4' : '';
+  return `SELECT * FROM (
+         (SELECT seq, 'revision' AS kind, 'revision' AS type, ${TS_TEXT('created_at')} AS time, author AS actor, calculation_id, id AS revision_id,
+                 revision, verdict, findings, jsonb_build_object('note', note) AS data, hash, previous_hash
+            FROM revisions WHERE product_id = $1 AND seq > $2 ${bound} ORDER BY seq LIMIT $3)
+         UNION ALL
+         (SELECT seq, 'event', type, ${TS_TEXT('created_at')}, actor, calculation_id, revision_id, NULL, NULL, NULL, data, hash, previous_hash
+            FROM events WHERE product_id = $1 AND seq > $2 ${bound} ORDER BY seq LIMIT $3)
+       ) t ORDER BY seq LIMIT $3`;
 }
 
 export const AUDIT_CSV_COLUMNS = ['seq', 'time', 'kind', 'type', 'actor', 'calculation_id', 'revision_id', 'revision', 'verdict', 'blocking', 'warning', 'info', 'summary', 'hash', 'previous_hash'];

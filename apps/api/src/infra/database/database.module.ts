@@ -5,6 +5,7 @@ import type { AppConfig } from '../config';
 import { createDataSource } from './data-source';
 import { Database } from './database.service';
 import { migrateServer } from './migrate';
+import { EmbeddedStatistics } from './statistics';
 
 /** TypeORM data source (PostgreSQL or PGlite), migrations run on start-up (as the owner role on PostgreSQL), and the Database door. */
 @Global()
@@ -26,7 +27,7 @@ export class DatabaseModule {
           },
         }),
       ],
-      providers: [{ provide: Database, inject: [DataSource], useFactory: (ds: DataSource) => new Database(ds, choice.embedded) }],
+      providers: [{ provide: Database, inject: [DataSource], useFactory: (ds: DataSource) => new Database(ds, choice.embedded) }, EmbeddedStatistics],
       exports: [Database],
     };
   }
