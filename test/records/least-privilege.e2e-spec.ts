@@ -3,6 +3,7 @@
  * (created here with a unique name on the shared server and dropped afterwards) while the migrations ran as an
  * owner role. The runtime role can read and append, and nothing else.
  */
+import { Client } from 'pg';
 import { clearDesign, warningDesign } from '../support/designs';
 import { countRecords, startTestApp, type TestApp } from '../support/harness';
 
@@ -78,4 +79,34 @@ it('attack: a closure row forged by the runtime role approves nothing and verify
   expect((await t.call('GET', `/api/v1/revisions/${opened.body.revisionId}`)).body.review.state).toBe('submitted');
   const verify = await t.call('GET', `/api/v1/products/${productId}/verify`);
   expect(verify.body).toMatchObject({ valid: false, firstBrokenLink: { kind: 'closure', id: opened.body.revisionId } });
+});
+
+it('attack: a chain head rewound one link by the owner role (trigger disabled, rejection deleted, head moved back) verifies, but its checkpoint does not', async () => {
+  const opened = await t.call('POST', `/api/v1/products/${productId}/calculations`, { title: 'rewound', design: clearDesign });
+  const rejected = await t.call('POST', `/api/v1/revisions/${opened.body.revisionId}/decisions`, { decision: 'reject', comment: 'no' }, { as: 'reviewer' });
+  expect(rejected.status).toBe(201);
+  const checkpoint = rejected.body.checkpoint;
+  expect((await t.call('POST', '/api/v1/checkpoints/verify', checkpoint)).body.valid).toBe(true);
+  // a forged closure from the earlier test would make verify fail for another reason: judge the chain on its own
+  const owner = new Client({ connectionString: t.roles!.ownerUrl });
+  owner.on('error', () => undefined);
+  await owner.connect();
+  try {
+    await owner.query('BEGIN');
+    for (const table of ['revision_closures', 'events', 'chain_heads']) await owner.query(`ALTER TABLE ${table} DISABLE TRIGGER USER`);
+    await owner.query(`DELETE FROM revision_closures WHERE revision_id = $1`, [opened.body.revisionId]);
+    await owner.query(`DELETE FROM revision_closures WHERE revision_id IN (SELECT c.revision_id FROM revision_closures c JOIN events e ON e.id = c.event_id WHERE e.type <> c.kind)`);
+    await owner.query(`DELETE FROM events WHERE id = $1`, [rejected.body.eventId]);
+    await owner.query(`UPDATE chain_heads SET seq = seq - 1, hash = (SELECT hash FROM events WHERE product_id = $1 AND seq = $2) WHERE product_id = $1`, [productId, checkpoint.seq - 1]);
+    for (const table of ['revision_closures', 'events', 'chain_heads']) await owner.query(`ALTER TABLE ${table} ENABLE TRIGGER USER`);
+    await owner.query('COMMIT');
+  } finally {
+    await owner.end();
+  }
+  // the rejection is gone and the chain is consistent again: verify alone cannot see it
+  expect((await t.call('GET', `/api/v1/revisions/${opened.body.revisionId}`)).body.review.state).toBe('submitted');
+  expect((await t.call('GET', `/api/v1/products/${productId}/verify`)).body).toMatchObject({ valid: true });
+  const caught = await t.call('POST', '/api/v1/checkpoints/verify', checkpoint);
+  expect(caught.body).toMatchObject({ valid: false, signatureValid: true, linkPresent: false, currentHead: { seq: checkpoint.seq - 1 } });
+  expect(caught.body.reason).toMatch(/rewound/);
 });

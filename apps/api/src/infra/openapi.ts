@@ -10,6 +10,7 @@ import {
 } from '@leadline/contracts';
 import { z, type ZodType } from 'zod';
 import { ruleSetDefinitionSchema } from '@leadline/rules';
+import { checkpointSchema } from '../checkpoints/checkpoints.service';
 import { addRevisionSchema, openCalculationSchema, reassignSchema, revisionsQuerySchema } from '../calculations/calculations.service';
 import { auditQuerySchema } from '../reviews/audit.service';
 import { createTokenSchema, createUserSchema } from '../identities/identities.service';
@@ -87,6 +88,9 @@ export const ROUTES: Route[] = [
   { method: 'post', path: '/api/v1/users/{id}/tokens', summary: 'Issue a token, returned once (admin)', tag: 'identities', request: createTokenSchema.unwrap(), status: 201 },
   { method: 'get', path: '/api/v1/users/{id}/tokens', summary: "A user's tokens, without secrets (admin)", tag: 'identities' },
   { method: 'post', path: '/api/v1/users/{id}/tokens/{tokenId}/revoke', summary: 'Revoke a token at once (admin)', tag: 'identities' },
+  { method: 'post', path: '/api/v1/products/{id}/checkpoints', summary: "Sign the product chain's current head (Ed25519 checkpoint {productId, seq, headHash, time})", tag: 'records', status: 201 },
+  { method: 'post', path: '/api/v1/checkpoints/verify', summary: 'Whether the signature is ours and the current chain still contains that link with that hash', tag: 'records', request: checkpointSchema },
+  { method: 'get', path: '/api/v1/checkpoints/public-key', summary: 'The Ed25519 public key that checks checkpoint signatures (no token needed)', tag: 'records' },
   { method: 'get', path: '/health', summary: 'Database reachable', tag: 'health' },
 ];
 

@@ -2,6 +2,7 @@
 import { Inject, Injectable } from '@nestjs/common';
 import type { ProductEvent } from '@leadline/contracts';
 import { CalculationsService } from '../calculations/calculations.service';
+import { CheckpointsService } from '../checkpoints/checkpoints.service';
 import { APP_CONFIG, type AppConfig } from '../infra/config';
 import { Database } from '../infra/database/database.service';
 import { ProductsService } from '../products/products.service';
@@ -19,6 +20,7 @@ export class ReportInputService {
     private readonly reviews: ReviewsService,
     private readonly ruleSets: RuleSetsService,
     @Inject(APP_CONFIG) private readonly config: AppConfig,
+    private readonly checkpoints: CheckpointsService,
   ) {}
 
   async forRevision(revisionId: string): Promise<ReportInput> {
@@ -73,6 +75,7 @@ export class ReportInputService {
       omittedComments: Number(omitted.count) > 0 ? { count: Number(omitted.count), firstSeq: Number(omitted.first), lastSeq: Number(omitted.last) } : null,
       history: all.map((r) => ({ id: r.id, revision: r.revision, createdAt: r.createdAt, verdict: r.verdict, state: states.get(r.id)!.state, author: r.author })),
       generatedAt: now[0].now,
+      checkpoint: await this.checkpoints.signHead(revision.productId, now[0].now),
       minimums,
     };
   }

@@ -52,6 +52,11 @@ export interface ReportInput {
   /** Comments of this revision left out of `events` (the report prints comments in full only up to a bound) */
   readonly omittedComments?: { readonly count: number; readonly firstSeq: number; readonly lastSeq: number } | null;
   readonly generatedAt: string;
+  /** The product chain's head signed at generatedAt (checkpoints module): what an auditor checks the record against */
+  readonly checkpoint?: {
+    readonly productId: string; readonly seq: number; readonly headHash: string; readonly time: string;
+    readonly algorithm: string; readonly keyId: string; readonly signature: string;
+  } | null;
   /**
    * Minimum safety factors of the rule set the revision was judged by, for the checks that passed
    * (a finding's own limit, when there is one, takes precedence)
@@ -243,6 +248,8 @@ export interface ReportView {
   readonly history: readonly HistoryRow[];
   readonly conventions: readonly string[];
   readonly record: readonly KeyValue[];
+  /** The signed checkpoint printed under the record's hashes, or null when the report was built without one */
+  readonly checkpoint: readonly KeyValue[] | null;
   readonly hash: string;
   readonly previousHash: string | null;
   readonly generatedAt: string;
@@ -950,6 +957,15 @@ export function buildReportView(input: ReportInput): ReportView {
       { label: 'Rule set version', value: revision.ruleSetVersion },
       { label: 'Unit system of the input', value: system === 'SI' ? 'SI (metric)' : 'US customary' },
     ],
+    checkpoint: input.checkpoint
+      ? [
+          { label: 'Chain link', value: `${input.checkpoint.seq} of product ${input.checkpoint.productId}`, mono: true },
+          { label: 'Chain head hash', value: input.checkpoint.headHash, mono: true },
+          { label: 'Signed at', value: input.checkpoint.time, mono: true },
+          { label: 'Signing key', value: `${input.checkpoint.algorithm} ${input.checkpoint.keyId}`, mono: true },
+          { label: 'Signature', value: input.checkpoint.signature, mono: true },
+        ]
+      : null,
     hash: revision.hash,
     previousHash: revision.previousHash,
     generatedAt: formatDate(input.generatedAt),

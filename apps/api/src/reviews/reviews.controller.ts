@@ -2,6 +2,7 @@ import { Body, Controller, Get, HttpCode, Param, Post, Query, StreamableFile } f
 import { Readable } from 'node:stream';
 import type { Actor } from '@leadline/contracts';
 import { CalculationsService } from '../calculations/calculations.service';
+import { CheckpointsService } from '../checkpoints/checkpoints.service';
 import { Roles } from '../identities/auth.guard';
 import { CurrentActor, CurrentRoles } from '../infra/http/actor';
 import { ProblemError, validate } from '../infra/http/problem';
@@ -13,6 +14,7 @@ import { ReviewsService } from './reviews.service';
 export class ReviewsController {
   constructor(
     private readonly reviews: ReviewsService,
+    private readonly checkpoints: CheckpointsService,
     private readonly audit: AuditService,
     private readonly calculations: CalculationsService,
     private readonly products: ProductsService,
@@ -22,8 +24,9 @@ export class ReviewsController {
   @Post('revisions/:id/decisions')
   @Roles('reviewer')
   @HttpCode(201)
-  decide(@Param('id') id: string, @Body() body: unknown, @CurrentActor() actor: Actor, @CurrentRoles() roles: string[]) {
-    return this.reviews.decide(id, body, actor, roles);
+  async decide(@Param('id') id: string, @Body() body: unknown, @CurrentActor() actor: Actor, @CurrentRoles() roles: string[]) {
+    const decided = await this.reviews.decide(id, body, actor, roles);
+    return { ...decided, checkpoint: this.checkpoints.afterDecision(decided.productId, decided.seq, decided.hash, decided.decidedAt) };
   }
 
   /** A comment without a decision, general or on an input field or a finding. */
@@ -38,8 +41,9 @@ export class ReviewsController {
   @Post('revisions/:id/withdraw')
   @Roles('author')
   @HttpCode(200)
-  withdraw(@Param('id') id: string, @Body() body: unknown, @CurrentActor() actor: Actor) {
-    return this.reviews.withdraw(id, body, actor);
+  async withdraw(@Param('id') id: string, @Body() body: unknown, @CurrentActor() actor: Actor) {
+    const withdrawn = await this.reviews.withdraw(id, body, actor);
+    return { ...withdrawn, checkpoint: this.checkpoints.afterDecision(withdrawn.productId, withdrawn.seq, withdrawn.hash, withdrawn.withdrawnAt) };
   }
 
   /** Revisions awaiting review, oldest first; filter by productId, calculationId, verdict, authorId. */

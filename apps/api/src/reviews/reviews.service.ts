@@ -147,7 +147,7 @@ export class ReviewsService {
       });
       await this.close(q, rev.id, kind, event.id, actor);
       await this.records.saveHead(q, rev.productId, cursor);
-      return { revisionId: rev.id, state: kind, eventId: event.id, hash: event.hash, decidedAt: event.createdAt, seq: event.seq };
+      return { revisionId: rev.id, state: kind, eventId: event.id, hash: event.hash, decidedAt: event.createdAt, seq: event.seq, productId: rev.productId };
     });
   }
 
@@ -182,7 +182,7 @@ export class ReviewsService {
       });
       await this.close(q, rev.id, 'withdrawn', event.id, actor);
       await this.records.saveHead(q, rev.productId, cursor);
-      return { revisionId: rev.id, state: 'withdrawn', eventId: event.id, hash: event.hash };
+      return { revisionId: rev.id, state: 'withdrawn', eventId: event.id, hash: event.hash, seq: event.seq, productId: rev.productId, withdrawnAt: event.createdAt };
     });
   }
 
