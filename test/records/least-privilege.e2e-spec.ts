@@ -9,9 +9,11 @@ import { countRecords, startTestApp, type TestApp } from '../support/harness';
 
 let t: TestApp;
 let productId: string;
+const logs: string[] = [];
+const capture = { write: (line: string) => void logs.push(line) };
 
 beforeAll(async () => {
-  t = await startTestApp('postgres', {}, undefined, { roles: true });
+  t = await startTestApp('postgres', { LOG_LEVEL: 'warn' }, capture, { roles: true });
   productId = (await t.call('POST', '/api/v1/products', { code: 'LP-1', name: 'Lowmark LP-1 press (test product)' })).body.id;
 });
 afterAll(() => t?.close());
@@ -21,6 +23,15 @@ it('connects as the runtime role, which is neither owner nor superuser', async (
   expect(me).toEqual({ user: t.roles!.runtime, superuser: false });
   const [owner] = await t.db.query<{ owner: string }>(`SELECT tableowner AS owner FROM pg_tables WHERE tablename = 'revisions'`);
   expect(owner.owner).toBe(t.roles!.owner);
+});
+
+it('starts without the single-user and privileged-role warnings; a single-user start warns about both', async () => {
+  expect(logs.join('')).not.toMatch(/LEADLINE_MIGRATION_DATABASE_URL is not set|connects as a role that/);
+  const single: string[] = [];
+  const plain = await startTestApp('postgres', { LOG_LEVEL: 'warn' }, { write: (line: string) => void single.push(line) });
+  await plain.close();
+  expect(single.join('')).toMatch(/LEADLINE_MIGRATION_DATABASE_URL is not set/);
+  expect(single.join('')).toMatch(/connects as a role that is a database superuser/);
 });
 
 it('serves the whole workflow as the runtime role', async () => {

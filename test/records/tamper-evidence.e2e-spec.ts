@@ -52,6 +52,11 @@ describe.each(BACKENDS)('tamper evidence on %s', (backend) => {
     const [submitted] = await t.db.query<{ id: string }>(`SELECT id FROM events WHERE revision_id = $1 AND type = 'revision-submitted'`, [opened.revisionId]);
     await t.db.query(`INSERT INTO revision_closures (revision_id, kind, event_id, actor_id) VALUES ($1, 'approved', $2, $3)`, [opened.revisionId, submitted.id, t.users.reviewer]);
     expect(await state(opened.revisionId)).toBe('submitted');
+    // nor does it count as approved anywhere else (the rule-set impact of approved revisions)
+    const version = (await t.call('GET', '/api/v1/rule-sets', undefined, { as: 'reviewer' })).body.current;
+    const impact = await t.call('POST', `/api/v1/rule-sets/${version}/impact`, { scope: 'approved', productId: p }, { as: 'reviewer' });
+    expect(impact.status).toBe(200);
+    expect(impact.body.examined).toBe(0);
     const after = await verify(p);
     expect(after.valid).toBe(false);
     expect(after.firstBrokenLink).toMatchObject({ kind: 'closure', id: opened.revisionId, reason: expect.stringContaining('not borne out') });

@@ -29,9 +29,22 @@ export const decisionSchema = z.strictObject({
 
 export const withdrawSchema = z.strictObject({ comment: z.string().max(8000).optional() }).optional();
 
-/** SQL: a newer revision of the same calculation exists (the revision aliased `alias` is superseded). */
+/**
+ * SQL: a newer revision of the same calculation exists (the revision aliased `alias` is superseded). Revision
+ * numbers are contiguous (a trigger admits only max + 1, and nothing is deleted), so "newer exists" is "the next
+ * number exists": one equality probe of (calculation_id, revision) whatever the plan, where a range test let the
+ * planner hash-join every revision of the calculation and made a page of late revisions cost their whole history.
+ */
 export const SUPERSEDED = (alias: string) =>
-  `EXISTS (SELECT 1 FROM revisions n WHERE n.calculation_id = ${alias}.calculation_id AND n.revision > ${alias}.revision)`;
+  `EXISTS (SELECT 1 FROM revisions n WHERE n.calculation_id = ${alias}.calculation_id AND n.revision = ${alias}.revision + 1)`;
+
+/**
+ * SQL: the revision aliased `alias` is closed (optionally as `kind`) by a closure that indexes a real decision or
+ * withdrawal event of that revision; a closure row without its event closes nothing (verify reports it).
+ */
+export const CLOSED = (alias: string, kind?: 'approved' | 'rejected' | 'withdrawn') =>
+  `EXISTS (SELECT 1 FROM revision_closures x JOIN events xe ON xe.id = x.event_id AND xe.revision_id = x.revision_id AND xe.type = x.kind
+            WHERE x.revision_id = ${alias}.id${kind ? ` AND x.kind = '${kind}'` : ''})`;
 
 export interface RevisionState {
   id: string;

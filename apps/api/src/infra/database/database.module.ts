@@ -4,7 +4,7 @@ import { DataSource } from 'typeorm';
 import type { AppConfig } from '../config';
 import { createDataSource } from './data-source';
 import { Database } from './database.service';
-import { migrateServer } from './migrate';
+import { migrateServer, warnIfPrivileged } from './migrate';
 import { EmbeddedStatistics } from './statistics';
 
 /** TypeORM data source (PostgreSQL or PGlite), migrations run on start-up (as the owner role on PostgreSQL), and the Database door. */
@@ -23,6 +23,7 @@ export class DatabaseModule {
             if (!choice.embedded) await migrateServer(config);
             await choice.dataSource.initialize();
             if (choice.embedded) await choice.dataSource.runMigrations({ transaction: 'each' });
+            else await warnIfPrivileged(choice.dataSource);
             return choice.dataSource;
           },
         }),

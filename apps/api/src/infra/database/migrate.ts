@@ -61,3 +61,17 @@ export async function grantRuntime(q: { query(sql: string): Promise<unknown> }, 
   await q.query(`REVOKE ALL ON ${MIGRATIONS_TABLE} FROM ${r}`);
   await q.query(`GRANT EXECUTE ON ALL FUNCTIONS IN SCHEMA public TO ${r}`);
 }
+
+/** Warns when the service's own connection is a superuser or owns the record tables (it could then rewrite them). */
+export async function warnIfPrivileged(q: { query(sql: string): Promise<{ superuser: boolean; owner: boolean }[]> }, logger = new Logger('database')): Promise<void> {
+  const [me] = await q.query(
+    `SELECT r.rolsuper AS superuser, coalesce(pg_has_role(current_user, t.tableowner, 'USAGE'), false) AS owner
+       FROM pg_roles r LEFT JOIN pg_tables t ON t.schemaname = 'public' AND t.tablename = 'revisions' WHERE r.rolname = current_user`,
+  );
+  if (me?.superuser || me?.owner) {
+    logger.warn(
+      `the service connects as a role that ${me.superuser ? 'is a database superuser' : 'owns the record tables'}: it could disable the insert-only ` +
+        'triggers. Connect DATABASE_URL as a runtime role and run migrations as the owner (LEADLINE_MIGRATION_DATABASE_URL).',
+    );
+  }
+}
