@@ -9,6 +9,8 @@ import { CreatedAppendRevisionFunction20261201220600 } from './20261201220600-cr
 import { AddedLinkVersionsAndTokenIds20261202100000 } from './20261202100000-added-link-versions-and-token-ids';
 import { ReplacedAppendRevisionWithOwnedChainFunctions20261202100100 } from './20261202100100-replaced-append-revision-with-owned-chain-functions';
 import { CreatedCommentRateIndex20261202110000 } from './20261202110000-created-comment-rate-index';
+import { AddedTokenExpiry20261202110100 } from './20261202110100-added-token-expiry';
+import { CreatedIdentityEvents20261202110200 } from './20261202110200-created-identity-events';
 
 export const MIGRATIONS = [
   CreatedRecordTables20261201220000,
@@ -21,4 +23,6 @@ export const MIGRATIONS = [
   AddedLinkVersionsAndTokenIds20261202100000,
   ReplacedAppendRevisionWithOwnedChainFunctions20261202100100,
   CreatedCommentRateIndex20261202110000,
+  AddedTokenExpiry20261202110100,
+  CreatedIdentityEvents20261202110200,
 ];

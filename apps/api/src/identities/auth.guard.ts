@@ -104,7 +104,7 @@ export class AuthGuard implements CanActivate {
         throw new ProblemError(429, 'Too many failed authentications', `too many failed authentications from this address; try again in ${wait} s`, { retryAfter: wait });
       }
       this.limiter.fail(client);
-      throw new ProblemError(401, 'Authentication required', token ? 'the bearer token is unknown or revoked' : 'send Authorization: Bearer <token>');
+      throw new ProblemError(401, 'Authentication required', token ? 'the bearer token is unknown or revoked, or has expired' : 'send Authorization: Bearer <token>');
     }
     req.principal = principal;
     req.actor = { id: principal.id, name: principal.name };

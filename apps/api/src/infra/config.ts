@@ -83,6 +83,12 @@ export const configSchema = z.object({
   LEADLINE_PDF_QUEUE_WAIT_MS: z.coerce.number().int().min(100).default(20_000),
   /** Chromium's sandbox: auto (kept unless running as root; dropped with a fallback where the kernel refuses it), true, false */
   LEADLINE_CHROMIUM_SANDBOX: z.enum(['auto', 'true', 'false', '1', '0']).default('auto').transform((v) => (v === 'auto' ? ('auto' as const) : v === 'true' || v === '1')),
+  /** Lifetime of a newly issued token [days] unless the issuer asks for less (tokens always expire) */
+  LEADLINE_TOKEN_TTL_DAYS: z.coerce.number().int().min(1).max(3650).default(90),
+  /** Lifetime of the demo tokens printed at start [hours] */
+  LEADLINE_DEMO_TOKEN_TTL_HOURS: z.coerce.number().int().min(1).max(720).default(12),
+  /** Issue and print fresh demo tokens at start although the demo database is not empty (otherwise only on the first seed) */
+  LEADLINE_DEMO_TOKENS: flag.default(false),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 

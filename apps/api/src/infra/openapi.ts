@@ -13,7 +13,7 @@ import { ruleSetDefinitionSchema } from '@leadline/rules';
 import { checkpointSchema } from '../checkpoints/checkpoints.service';
 import { addRevisionSchema, openCalculationSchema, reassignSchema, revisionsQuerySchema } from '../calculations/calculations.service';
 import { auditQuerySchema } from '../reviews/audit.service';
-import { createTokenSchema, createUserSchema } from '../identities/identities.service';
+import { createTokenSchema, createUserSchema, identityEventsQuerySchema } from '../identities/identities.service';
 import { createProductSchema } from '../products/products.service';
 import { commentSchema, decisionSchema, withdrawSchema } from '../reviews/reviews.service';
 import { impactSchema } from '../rules/impact.service';
@@ -88,6 +88,7 @@ export const ROUTES: Route[] = [
   { method: 'post', path: '/api/v1/users/{id}/tokens', summary: 'Issue a token, returned once (admin)', tag: 'identities', request: createTokenSchema.unwrap(), status: 201 },
   { method: 'get', path: '/api/v1/users/{id}/tokens', summary: "A user's tokens, without secrets (admin)", tag: 'identities' },
   { method: 'post', path: '/api/v1/users/{id}/tokens/{tokenId}/revoke', summary: 'Revoke a token at once (admin)', tag: 'identities' },
+  { method: 'get', path: '/api/v1/identity-events', summary: 'User-level audit: users created, roles granted, tokens issued and revoked (admin)', tag: 'identities', query: identityEventsQuerySchema },
   { method: 'post', path: '/api/v1/products/{id}/checkpoints', summary: "Sign the product chain's current head (Ed25519 checkpoint {productId, seq, headHash, time})", tag: 'records', status: 201 },
   { method: 'post', path: '/api/v1/checkpoints/verify', summary: 'Whether the signature is ours and the current chain still contains that link with that hash', tag: 'records', request: checkpointSchema },
   { method: 'get', path: '/api/v1/checkpoints/public-key', summary: 'The Ed25519 public key that checks checkpoint signatures (no token needed)', tag: 'records' },
