@@ -9,6 +9,7 @@ import { AppModule } from './app.module';
 import { loadConfig, type AppConfig } from './infra/config';
 import { ProblemFilter } from './infra/http/problem';
 import { TextInputInterceptor } from './infra/http/text-input';
+import { addSecurityHeaders } from './infra/http/security-headers';
 import { createLogger, PinoNestLogger } from './infra/logging';
 import { mountOpenApi } from './infra/openapi';
 
@@ -35,6 +36,7 @@ export async function createApp(options: CreateAppOptions): Promise<{ app: NestF
   });
   app.useGlobalFilters(new ProblemFilter());
   app.useGlobalInterceptors(new TextInputInterceptor());
+  addSecurityHeaders(adapter.getInstance());
   app.enableShutdownHooks();
   mountOpenApi(app);
   await app.init();

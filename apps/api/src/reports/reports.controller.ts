@@ -5,6 +5,7 @@ import { existsSync } from 'node:fs';
 import { Inject } from '@nestjs/common';
 import { APP_CONFIG, type AppConfig } from '../infra/config';
 import { ProblemError, validate } from '../infra/http/problem';
+import { REPORT_CSP } from '../infra/http/security-headers';
 import { z } from 'zod';
 import { ReportInputService } from './report-input.service';
 import { ReportRenderer, reportPdfLabels } from './report-renderer';
@@ -27,7 +28,8 @@ export class ReportsController {
   @Get(':id/report.html')
   async html(@Param('id') id: string, @Res({ passthrough: true }) reply: FastifyReply) {
     const { html } = await this.renderer.render(await this.inputs.forRevision(id));
-    reply.header('content-type', 'text/html; charset=utf-8');
+    // A static document: sandboxed (no script, opaque origin), nothing loaded from anywhere, never sniffed
+    reply.header('content-type', 'text/html; charset=utf-8').header('content-security-policy', REPORT_CSP).header('x-content-type-options', 'nosniff');
     return html;
   }
 
