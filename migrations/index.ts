@@ -11,6 +11,7 @@ import { ReplacedAppendRevisionWithOwnedChainFunctions20261202100100 } from './2
 import { CreatedCommentRateIndex20261202110000 } from './20261202110000-created-comment-rate-index';
 import { AddedTokenExpiry20261202110100 } from './20261202110100-added-token-expiry';
 import { CreatedIdentityEvents20261202110200 } from './20261202110200-created-identity-events';
+import { CreatedReassignmentIndex20261202120000 } from './20261202120000-created-reassignment-index';
 
 export const MIGRATIONS = [
   CreatedRecordTables20261201220000,
@@ -25,4 +26,5 @@ export const MIGRATIONS = [
   CreatedCommentRateIndex20261202110000,
   AddedTokenExpiry20261202110100,
   CreatedIdentityEvents20261202110200,
+  CreatedReassignmentIndex20261202120000,
 ];
