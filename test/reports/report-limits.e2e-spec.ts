@@ -128,6 +128,25 @@ describe('a revision with 1,000 comments, and the PDF queue', () => {
     expect((await t.call('GET', `/api/v1/revisions/${ids.revision}/report.pdf`)).status).toBe(200);
   });
 
+  it('lists a bounded window of a long revision history and counts the rest [GET /api/v1/revisions/:id/report.html]', async () => {
+    const long = await openRevision(t, 'CM-2');
+    const revisionIds = [long.revision];
+    for (let i = 2; i <= 60; i++) {
+      const res = await t.call('POST', `/api/v1/calculations/${long.calculation}/revisions`, { design: warningDesign, note: `revision ${i}` });
+      expect(res.status).toBe(201);
+      revisionIds.push(res.body.revisionId);
+    }
+    const html = (await t.call('GET', `/api/v1/revisions/${revisionIds[29]}/report.html`)).text;
+    const history = html.slice(html.indexOf('<table class="history">'), html.indexOf('</table>', html.indexOf('<table class="history">')));
+    const listed = [...history.matchAll(/<td class="num">(\d+)/g)].map((m) => Number(m[1]));
+    // revision 30 of 60: 25 on each side (5..55), the others counted (4 earlier, 5 later)
+    expect(listed).toEqual(Array.from({ length: 51 }, (_, i) => i + 5));
+    expect(html).toContain('Not listed: 4 earlier and 5 later revisions');
+    expect(html).toContain(`/api/v1/calculations/${long.calculation}/revisions`);
+    const first = (await t.call('GET', `/api/v1/revisions/${revisionIds[0]}/report.html`)).text;
+    expect(first).toContain('Not listed: 0 earlier and 34 later revisions');
+  });
+
   it('builds the report in steps that let the event loop run between them', async () => {
     const input = await t.app.get(ReportInputService).forRevision(ids.revision);
     let ticks = 0;

@@ -49,6 +49,8 @@ export interface ReportInput {
   readonly events: readonly ProductEvent[];
   /** All revisions of the calculation */
   readonly history: readonly ReportHistoryEntry[];
+  /** Revisions of the calculation left out of `history`, before and after the window around this one */
+  readonly omittedHistory?: { readonly before: number; readonly after: number } | null;
   /** Comments of this revision left out of `events` (the report prints comments in full only up to a bound) */
   readonly omittedComments?: { readonly count: number; readonly firstSeq: number; readonly lastSeq: number } | null;
   readonly generatedAt: string;
@@ -246,6 +248,8 @@ export interface ReportView {
   /** What the review record leaves out, and where the full trail is (null when it prints everything) */
   readonly eventsOmitted: string | null;
   readonly history: readonly HistoryRow[];
+  /** What the revision history leaves out, and where the full list is (null when it lists every revision) */
+  readonly historyOmitted: string | null;
   readonly conventions: readonly string[];
   readonly record: readonly KeyValue[];
   /** The signed checkpoint printed under the record's hashes, or null when the report was built without one */
@@ -933,6 +937,10 @@ export function buildReportView(input: ReportInput): ReportView {
     checks: buildChecks(findings, system),
     findingGroups: buildFindingGroups(findings, input.events, system),
     events: buildEvents(input.events),
+    historyOmitted: input.omittedHistory
+      ? `Listed: the revisions around this one. Not listed: ${input.omittedHistory.before} earlier and ${input.omittedHistory.after} later ` +
+        `revision${input.omittedHistory.before + input.omittedHistory.after === 1 ? '' : 's'}; every revision is in GET /api/v1/calculations/${calculation.id}/revisions.`
+      : null,
     eventsOmitted: input.omittedComments
       ? `${input.omittedComments.count} further comment${input.omittedComments.count === 1 ? '' : 's'} on this revision (chain links ${input.omittedComments.firstSeq} to ${input.omittedComments.lastSeq}) ` +
         `are not printed here; every decision and acknowledgement above is. The full review trail, with every comment, is the product's audit ` +
