@@ -156,6 +156,10 @@ describe.each(BACKENDS)('growth-safe reads on %s', (backend) => {
     expect((await t.call('GET', `/api/v1/reviews/queue?calculationId=${c.body.calculationId}`, undefined, { as: 'reviewer' })).body.items).toEqual([]);
     expect((await t.call('GET', `/api/v1/reviews/queue?productId=${product}&verdict=needs-acknowledgement`, undefined, { as: 'reviewer' })).body.items.map((i: { revisionId: string }) => i.revisionId)).toEqual([d.body.revisionId]);
     expect((await t.call('GET', `/api/v1/reviews/queue?productId=${product}&authorId=${t.users.author2}`, undefined, { as: 'reviewer' })).body.items.map((i: { revisionId: string }) => i.revisionId)).toEqual([d.body.revisionId]);
+    // A closure row forged without its decision event (pointing at the submission event) takes nothing out of the queue
+    const [submitted] = await t.db.query<{ id: string }>(`SELECT id FROM events WHERE revision_id = $1 AND type = 'revision-submitted'`, [d.body.revisionId]);
+    await t.db.query(`INSERT INTO revision_closures (revision_id, kind, event_id, actor_id) VALUES ($1, 'approved', $2, $3)`, [d.body.revisionId, submitted.id, t.users.reviewer]);
+    expect((await t.call('GET', `/api/v1/reviews/queue?productId=${product}`, undefined, { as: 'reviewer' })).body.items.map((i: { revisionId: string }) => i.revisionId)).toEqual([aLatest, d.body.revisionId]);
     // Every item the queue shows is one a reviewer can decide: its own record says submitted
     for (const item of queue.body.items) expect((await t.call('GET', `/api/v1/revisions/${item.revisionId}`)).body.review.state).toBe('submitted');
   });

@@ -9,7 +9,7 @@ import { Database } from '../infra/database/database.service';
 import { notFound, validate } from '../infra/http/problem';
 import { checkUuid } from '../products/products.service';
 import { TS_TEXT } from '../records/chain';
-import { SUPERSEDED } from './reviews.service';
+import { CLOSED } from './reviews.service';
 
 export const queueQuerySchema = z.object({
   productId: z.string().uuid().optional(),
@@ -78,15 +78,15 @@ export class AuditService {
   /**
    * Revisions awaiting review, oldest first. The access path is the latest revision of each calculation (one
    * backward probe of (calculation_id, revision) per calculation), so the cost follows the number of calculations,
-   * never their superseded history; SUPERSEDED stays the definition of what is no longer awaiting.
+   * never their superseded history. The latest revision is by definition the one that SUPERSEDED (reviews.service)
+   * does not hold for; testing that predicate again here let the planner hash-join every revision of every
+   * calculation (a cost that grew with superseded history again), so it is not repeated.
    */
   async queue(query: unknown) {
     const q = validate(queueQuerySchema, query);
     const params: unknown[] = [];
-    const where: string[] = [
-      'NOT EXISTS (SELECT 1 FROM revision_closures x WHERE x.revision_id = r.id)',
-      `NOT ${SUPERSEDED('r')}`,
-    ];
+    // CLOSED: only a closure that indexes a real decision or withdrawal event takes a revision out of the queue
+    const where: string[] = [`NOT ${CLOSED('r')}`];
     const add = (sql: string, value: unknown) => {
       params.push(value);
       where.push(sql.replace('?', `$${params.length}`));
