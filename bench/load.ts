@@ -17,7 +17,7 @@ async function main() {
     duration: o.seconds,
     requests: [{ method: o.method, body: o.body, headers: o.headers, setupRequest: (req) => ({ ...req, path: paths[i++ % paths.length] }) }],
   });
-  process.stdout.write(JSON.stringify({ rps: r.requests.average, p99: r.latency.p99, errors: r.errors + r.non2xx, total: r.requests.total }) + '\n');
+  process.stdout.write(JSON.stringify({ rps: r.requests.average, p50: r.latency.p50, p99: r.latency.p99, errors: r.errors + r.non2xx, total: r.requests.total }) + '\n');
 }
 
 main().catch((err) => {

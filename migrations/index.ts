@@ -6,6 +6,13 @@ import { ChangedRevisionContentToVerbatimJson20261201220300 } from './2026120122
 import { CreatedRuleSetAdoptions20261201220400 } from './20261201220400-created-rule-set-adoptions';
 import { GuardedChainHeadsAndRuleTables20261201220500 } from './20261201220500-guarded-chain-heads-and-rule-tables';
 import { CreatedAppendRevisionFunction20261201220600 } from './20261201220600-created-append-revision-function';
+import { AddedLinkVersionsAndTokenIds20261202100000 } from './20261202100000-added-link-versions-and-token-ids';
+import { ReplacedAppendRevisionWithOwnedChainFunctions20261202100100 } from './20261202100100-replaced-append-revision-with-owned-chain-functions';
+import { CreatedReassignmentIndex20261202100200 } from './20261202100200-created-reassignment-index';
+import { CreatedCommentRateIndex20261202110000 } from './20261202110000-created-comment-rate-index';
+import { AddedTokenExpiry20261202110100 } from './20261202110100-added-token-expiry';
+import { CreatedIdentityEvents20261202110200 } from './20261202110200-created-identity-events';
+import { CreatedReassignmentIndex20261202120000 } from './20261202120000-created-reassignment-index';
 
 export const MIGRATIONS = [
   CreatedRecordTables20261201220000,
@@ -15,4 +22,11 @@ export const MIGRATIONS = [
   CreatedRuleSetAdoptions20261201220400,
   GuardedChainHeadsAndRuleTables20261201220500,
   CreatedAppendRevisionFunction20261201220600,
+  AddedLinkVersionsAndTokenIds20261202100000,
+  ReplacedAppendRevisionWithOwnedChainFunctions20261202100100,
+  CreatedReassignmentIndex20261202100200,
+  CreatedCommentRateIndex20261202110000,
+  AddedTokenExpiry20261202110100,
+  CreatedIdentityEvents20261202110200,
+  CreatedReassignmentIndex20261202120000,
 ];

@@ -45,6 +45,8 @@ export interface TestApp {
   app: NestFastifyApplication;
   db: Database;
   backend: Backend;
+  /** With { roles: true } on PostgreSQL: the owner and runtime roles and their connection strings, else null */
+  roles: { owner: string; runtime: string; ownerUrl: string; runtimeUrl: string } | null;
   /** http://127.0.0.1:<port> when started with { listen: true } (for a browser), else null */
   baseUrl: string | null;
   /** Bearer tokens of the test users, and their ids */
@@ -66,12 +68,36 @@ export async function startTestApp(
   backend: Backend,
   env: Record<string, string> = {},
   logDestination?: DestinationStream,
-  options: { listen?: boolean } = {},
+  options: { listen?: boolean; roles?: boolean } = {},
 ): Promise<TestApp> {
   const adminToken = `ll_test_admin_${randomBytes(18).toString('hex')}`;
   const base: Record<string, string> = { LOG_LEVEL: 'silent', LEADLINE_DEMO_SEED: 'false', LEADLINE_ADMIN_TOKEN: adminToken, ...env };
   let cleanup = async () => undefined as void;
-  if (backend === 'postgres') {
+  let roles: TestApp['roles'] = null;
+  if (backend === 'postgres' && options.roles) {
+    // least privilege: an owner role that migrates and a runtime role the service connects as (unique, dropped after)
+    const suffix = randomBytes(6).toString('hex');
+    const name = `leadline_test_${suffix}`;
+    const [owner, runtime] = [`leadline_owner_${suffix}`, `leadline_runtime_${suffix}`];
+    await admin(`CREATE ROLE ${owner} LOGIN NOSUPERUSER NOCREATEDB NOCREATEROLE`);
+    await admin(`CREATE ROLE ${runtime} LOGIN NOSUPERUSER NOCREATEDB NOCREATEROLE`);
+    await admin(`CREATE DATABASE ${name} OWNER ${owner}`);
+    const as = (user: string) => {
+      const u = new URL(withDatabase(serverUrl, name));
+      u.username = user;
+      u.password = '';
+      return u.toString();
+    };
+    roles = { owner, runtime, ownerUrl: as(owner), runtimeUrl: as(runtime) };
+    base.DATABASE_URL = roles.runtimeUrl;
+    base.LEADLINE_MIGRATION_DATABASE_URL = roles.ownerUrl;
+    base.LEADLINE_DB_POOL ??= '10';
+    cleanup = async () => {
+      await admin(`DROP DATABASE IF EXISTS ${name} WITH (FORCE)`);
+      await admin(`DROP ROLE IF EXISTS ${runtime}`);
+      await admin(`DROP ROLE IF EXISTS ${owner}`);
+    };
+  } else if (backend === 'postgres') {
     const name = `leadline_test_${randomBytes(6).toString('hex')}`;
     await admin(`CREATE DATABASE ${name}`);
     base.DATABASE_URL = withDatabase(serverUrl, name);
@@ -80,7 +106,13 @@ export async function startTestApp(
   } else {
     base.LEADLINE_DATA_DIR = 'memory://';
   }
-  const { app } = await createApp({ env: base, logDestination });
+  let app: NestFastifyApplication;
+  try {
+    ({ app } = await createApp({ env: base, logDestination }));
+  } catch (err) {
+    await cleanup();
+    throw err;
+  }
   let baseUrl: string | null = null;
   if (options.listen) {
     await app.listen({ port: 0, host: '127.0.0.1' });
@@ -93,6 +125,7 @@ export async function startTestApp(
     app,
     db: app.get(Database),
     backend,
+    roles,
     baseUrl,
     tokens,
     users,

@@ -8,6 +8,8 @@ import type { DestinationStream } from 'pino';
 import { AppModule } from './app.module';
 import { loadConfig, type AppConfig } from './infra/config';
 import { ProblemFilter } from './infra/http/problem';
+import { TextInputInterceptor } from './infra/http/text-input';
+import { addSecurityHeaders } from './infra/http/security-headers';
 import { createLogger, PinoNestLogger } from './infra/logging';
 import { mountOpenApi } from './infra/openapi';
 
@@ -33,6 +35,8 @@ export async function createApp(options: CreateAppOptions): Promise<{ app: NestF
     bufferLogs: false,
   });
   app.useGlobalFilters(new ProblemFilter());
+  app.useGlobalInterceptors(new TextInputInterceptor());
+  addSecurityHeaders(adapter.getInstance());
   app.enableShutdownHooks();
   mountOpenApi(app);
   await app.init();

@@ -1,6 +1,7 @@
 import { Module, type DynamicModule, type Type } from '@nestjs/common';
 import { ConfigModule } from '@nestjs/config';
 import { CalculationsModule } from './calculations/calculations.module';
+import { CheckpointsModule } from './checkpoints/checkpoints.module';
 import { EvaluationsModule } from './evaluations/evaluations.module';
 import { HealthModule } from './health/health.module';
 import { IdentitiesModule } from './identities/identities.module';
@@ -29,6 +30,7 @@ export class AppModule {
         DatabaseModule.forRoot(config),
         IdentitiesModule,
         RecordsModule,
+        CheckpointsModule,
         RulesModule,
         EvaluationsModule,
         ProductsModule,

@@ -9,7 +9,7 @@ import { seedDemo } from './seed/demo-seed';
 async function main(): Promise<void> {
   const { app, config } = await createApp({ env: process.env });
   const embedded = !config.DATABASE_URL;
-  const seed = (config.LEADLINE_DEMO_SEED ?? embedded) ? await seedDemo(app) : { seeded: false, products: [], tokens: [] };
+  const seed = (config.LEADLINE_DEMO_SEED ?? embedded) ? await seedDemo(app, { issueTokens: config.LEADLINE_DEMO_TOKENS }) : { seeded: false, products: [], tokens: [] };
   await app.listen({ port: config.PORT, host: config.HOST });
   const url = `http://${config.HOST}:${config.PORT}`;
   const lines = [
@@ -17,7 +17,10 @@ async function main(): Promise<void> {
     `Leadline is listening on ${url}  (${embedded ? `embedded database in ${config.LEADLINE_DATA_DIR}` : 'PostgreSQL'})`,
     seed.seeded ? `Demo data seeded: ${seed.products.map((p) => p.code).join(', ')}` : 'Existing data kept (no demo seed).',
     ...(seed.tokens.length
-      ? ['Demo tokens (shown once; only their hashes are stored):', ...seed.tokens.map((t) => `  ${t.name.padEnd(28)} ${t.roles.join(',').padEnd(9)} ${t.token}`)]
+      ? [
+          `Demo tokens (shown once; only their hashes are stored; valid until ${seed.tokens[0].expiresAt}):`,
+          ...seed.tokens.map((t) => `  ${t.name.padEnd(28)} ${t.roles.join(',').padEnd(9)} ${t.token}`),
+        ]
       : []),
     `  Design pages:  ${url}/design   (paste the design author's token)`,
     `  Review pages:  ${url}/review   (paste the checking engineer's token)`,

@@ -93,7 +93,7 @@ export const revisionRecordSchema = z.object({
 
 export const chainVerificationSchema = z.object({
   productId: z.string().uuid(), valid: z.boolean(), links: z.number().int(), headHash: z.string().nullable(),
-  firstBrokenLink: z.object({ seq: z.number(), kind: z.enum(['revision', 'event']), id: z.string(), reason: z.string() }).nullable(),
+  firstBrokenLink: z.object({ seq: z.number(), kind: z.enum(['revision', 'event', 'product', 'calculation', 'closure']), id: z.string(), reason: z.string() }).nullable(),
 });
 
 export const problemSchema = z.object({

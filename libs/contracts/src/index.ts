@@ -2,3 +2,4 @@ export * from './design-input';
 export * from './records';
 export * from './api-schemas';
 export * from './sizing';
+export * from './text';

@@ -60,7 +60,8 @@ export type EventType =
   | 'comment'
   | 'approved'
   | 'rejected'
-  | 'withdrawn';
+  | 'withdrawn'
+  | 'calculation-reassigned';
 
 export interface ProductEvent {
   readonly id: string;

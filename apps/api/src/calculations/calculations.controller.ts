@@ -1,4 +1,4 @@
-import { Body, Controller, Get, Headers, Param, Post, Res } from '@nestjs/common';
+import { Body, Controller, Get, Headers, HttpCode, Param, Post, Query, Res } from '@nestjs/common';
 import type { FastifyReply } from 'fastify';
 import type { Actor } from '@leadline/contracts';
 import { Roles } from '../identities/auth.guard';
@@ -48,15 +48,26 @@ export class CalculationsController {
     return r.body;
   }
 
+  /** An admin hands the calculation to another author (a chained, audited event); only its owner may add revisions. */
+  @Post('calculations/:id/reassignments')
+  @Roles('admin')
+  @HttpCode(201)
+  reassign(@Param('id') calculationId: string, @Body() body: unknown, @CurrentActor() actor: Actor) {
+    return this.calculations.reassign(calculationId, body, actor);
+  }
+
+  /** A calculation's revisions, oldest first, cursor-paged (after, limit; view=summary for long histories). */
   @Get('calculations/:id/revisions')
-  async revisions(@Param('id') calculationId: string) {
-    const items = await this.calculations.revisions(calculationId);
-    const states = await this.reviews.statesOfCalculation(calculationId);
+  async revisions(@Param('id') calculationId: string, @Query() query: unknown) {
+    const page = await this.calculations.revisionsPage(calculationId, query);
+    if (page.items.length === 0) return page;
+    const states = await this.reviews.statesOfCalculation(calculationId, { from: page.items[0].revision, to: page.items[page.items.length - 1].revision });
     return {
-      items: items.map((r) => {
+      items: page.items.map((r) => {
         const s = states.get(r.id)!;
         return { ...r, review: { state: s.state, decidedBy: s.decidedBy, decidedAt: s.decidedAt } };
       }),
+      nextCursor: page.nextCursor,
     };
   }
 

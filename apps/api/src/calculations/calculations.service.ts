@@ -9,7 +9,7 @@ import type { Actor, RevisionRecord } from '@leadline/contracts';
 import { z } from 'zod';
 import { Assessment, AssessmentService } from '../evaluations/assessment.service';
 import { Database, type Queryer } from '../infra/database/database.service';
-import { notFound, validate } from '../infra/http/problem';
+import { notFound, ProblemError, validate, ValidationProblem } from '../infra/http/problem';
 import { checkUuid } from '../products/products.service';
 import { TS_TEXT } from '../records/chain';
 import { checkKey, findIdempotent, requestHash, storeIdempotent, type StoredResponse } from '../records/idempotency';
@@ -26,6 +26,11 @@ export const addRevisionSchema = z.strictObject({
   note: z.string().max(4000).optional(),
 });
 
+export const reassignSchema = z.strictObject({
+  userId: z.string().uuid().describe('the author who takes the calculation over'),
+  reason: z.string().trim().min(1).max(4000).optional(),
+});
+
 export interface Calculation {
   id: string;
   productId: string;
@@ -35,6 +40,41 @@ export interface Calculation {
 
 const REVISION_COLUMNS = `r.id, r.product_id, r.calculation_id, r.revision, r.seq, r.note, r.input::text AS input, r.normalized::text AS normalized,
   r.evaluation::text AS evaluation, r.findings::text AS findings, r.verdict, r.engine_version, r.rule_set_version, r.author, ${TS_TEXT('r.created_at')} AS created_at, r.hash, r.previous_hash`;
+
+export const revisionsQuerySchema = z.object({
+  after: z.coerce.number().int().min(0).default(0).describe('cursor: the last revision number of the previous page'),
+  limit: z.coerce.number().int().min(1).max(500).default(100),
+  view: z.enum(['full', 'summary']).default('full').describe('summary: number, verdict, author, note, hash and dates only'),
+});
+
+const SUMMARY_COLUMNS = `r.id, r.product_id, r.calculation_id, r.revision, r.seq, r.note, r.verdict, r.author, ${TS_TEXT('r.created_at')} AS created_at, r.hash, r.previous_hash`;
+
+/** The light form of a revision for long histories (GET /calculations/:id/revisions?view=summary). */
+export interface RevisionSummary {
+  id: string;
+  calculationId: string;
+  revision: number;
+  verdict: RevisionRecord['verdict'];
+  author: Actor | null;
+  note: string | null;
+  createdAt: string;
+  hash: string;
+  previousHash: string | null;
+}
+
+export function toRevisionSummary(r: Pick<RevisionRow, 'id' | 'calculation_id' | 'revision' | 'verdict' | 'author' | 'note' | 'created_at' | 'hash' | 'previous_hash'>): RevisionSummary {
+  return {
+    id: r.id,
+    calculationId: r.calculation_id,
+    revision: Number(r.revision),
+    verdict: r.verdict as RevisionRecord['verdict'],
+    author: (r.author as Actor | null) ?? null,
+    note: r.note,
+    createdAt: r.created_at,
+    hash: r.hash,
+    previousHash: r.previous_hash,
+  };
+}
 
 export function toRevisionRecord(r: RevisionRow): RevisionRecord {
   return {
@@ -106,6 +146,41 @@ export class CalculationsService {
     }, true);
   }
 
+  /**
+   * Hands a calculation to another author (admin): a calculation-reassigned event on the product's chain, which
+   * leadline_append_revision reads (under the same head lock) to decide who may add revisions.
+   */
+  async reassign(calculationId: string, body: unknown, actor: Actor) {
+    const calc = await this.get(calculationId);
+    const input = validate(reassignSchema, body);
+    const [user] = await this.db.query<{ id: string; name: string; roles: string[] }>(`SELECT id, name, roles FROM users WHERE id = $1`, [input.userId]);
+    if (!user) throw new ValidationProblem([{ path: 'userId', message: `no user ${input.userId}` }]);
+    if (!user.roles.includes('author')) throw new ValidationProblem([{ path: 'userId', message: `${user.name} does not have the author role` }]);
+    return this.db.transaction(async (q) => {
+      const cursor = (await this.records.lockHead(q, calc.productId))!;
+      const from = await this.owner(q, calculationId);
+      if (from?.id === user.id) throw new ProblemError(409, 'Already the owner', `${user.name} already owns this calculation`);
+      const to = { id: user.id, name: user.name };
+      const event = await this.records.appendEvent(q, cursor, {
+        productId: calc.productId, type: 'calculation-reassigned', calculationId, revisionId: null, actor,
+        data: { from, to, reason: input.reason ?? null },
+      });
+      await this.records.saveHead(q, calc.productId, cursor);
+      return { calculationId, owner: to, previousOwner: from, eventId: event.id, hash: event.hash, seq: event.seq, createdAt: event.createdAt };
+    });
+  }
+
+  /** Who may add revisions: the user of the latest calculation-reassigned event, else the one who opened it. */
+  async owner(q: Queryer, calculationId: string): Promise<Actor | null> {
+    const [row] = await q.query<{ owner: Actor | null }>(
+      `SELECT coalesce(
+         (SELECT e.data->'to' FROM events e WHERE e.calculation_id = $1 AND e.type = 'calculation-reassigned' ORDER BY e.seq DESC LIMIT 1),
+         (SELECT e.actor FROM events e WHERE e.calculation_id = $1 AND e.type = 'calculation-opened' ORDER BY e.seq LIMIT 1)) AS owner`,
+      [calculationId],
+    );
+    return row?.owner ?? null;
+  }
+
   private async idempotent(
     scope: string,
     rawKey: string | undefined,
@@ -153,6 +228,23 @@ export class CalculationsService {
     await this.get(calculationId);
     const rows = await this.db.query<RevisionRow>(`SELECT ${REVISION_COLUMNS} FROM revisions r WHERE r.calculation_id = $1 ORDER BY r.revision`, [calculationId]);
     return rows.map(toRevisionRecord);
+  }
+
+  /**
+   * One page of a calculation's revisions after the cursor (a revision number), oldest first; the (calculation_id,
+   * revision) index makes a page cost the same at any depth. `view: 'summary'` reads only the light columns.
+   */
+  async revisionsPage(calculationId: string, query: unknown): Promise<{ items: (RevisionRecord | RevisionSummary)[]; nextCursor: number | null }> {
+    const q = validate(revisionsQuerySchema, query);
+    await this.get(calculationId);
+    const columns = q.view === 'summary' ? SUMMARY_COLUMNS : REVISION_COLUMNS;
+    const rows = await this.db.query<RevisionRow>(
+      `SELECT ${columns} FROM revisions r WHERE r.calculation_id = $1 AND r.revision > $2 ORDER BY r.revision LIMIT $3`,
+      [calculationId, q.after, q.limit + 1],
+    );
+    const page = rows.slice(0, q.limit);
+    const items = page.map((r) => (q.view === 'summary' ? toRevisionSummary(r) : toRevisionRecord(r)));
+    return { items, nextCursor: rows.length > q.limit ? items[items.length - 1].revision : null };
   }
 
   async revision(id: string): Promise<RevisionRecord> {

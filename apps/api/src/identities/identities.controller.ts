@@ -1,4 +1,4 @@
-import { Body, Controller, Get, HttpCode, Param, Post } from '@nestjs/common';
+import { Body, Controller, Get, HttpCode, Param, Post, Query } from '@nestjs/common';
 import type { Actor } from '@leadline/contracts';
 import { CurrentActor } from '../infra/http/actor';
 import { Roles } from './auth.guard';
@@ -12,7 +12,7 @@ export class IdentitiesController {
 
   @Post()
   create(@Body() body: unknown, @CurrentActor() actor: Actor | null) {
-    return this.identities.createUser(body, actor?.id ?? null);
+    return this.identities.createUser(body, actor);
   }
 
   @Get()
@@ -20,10 +20,10 @@ export class IdentitiesController {
     return { items: await this.identities.listUsers() };
   }
 
-  /** Returns {token} once; only its hash is kept. */
+  /** Returns {token} once (with its expiresAt); only its hash is kept. Audited. */
   @Post(':id/tokens')
   issue(@Param('id') id: string, @Body() body: unknown, @CurrentActor() actor: Actor | null) {
-    return this.identities.issueToken(id, body, actor?.id ?? null);
+    return this.identities.issueToken(id, body, actor);
   }
 
   @Get(':id/tokens')
@@ -34,6 +34,19 @@ export class IdentitiesController {
   @Post(':id/tokens/:tokenId/revoke')
   @HttpCode(200)
   revoke(@Param('id') id: string, @Param('tokenId') tokenId: string, @CurrentActor() actor: Actor | null) {
-    return this.identities.revokeToken(id, tokenId, actor?.id ?? null);
+    return this.identities.revokeToken(id, tokenId, actor);
+  }
+}
+
+/** The user-level audit: users created with their roles, tokens issued and revoked, by whom and with which token. */
+@Controller('api/v1/identity-events')
+@Roles('admin')
+export class IdentityEventsController {
+  constructor(private readonly identities: IdentitiesService) {}
+
+  /** Newest first; ?user=<id> for one user's events, ?limit (at most 500). */
+  @Get()
+  async list(@Query() query: unknown) {
+    return { items: await this.identities.events(query) };
   }
 }

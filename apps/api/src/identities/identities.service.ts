@@ -1,14 +1,16 @@
 /**
  * Users, roles and bearer tokens. A token is 32 random bytes shown once; only its SHA-256 is stored.
- * Revocation appends a row and clears this process's cache, so it takes effect at once here (other instances
- * of a multi-instance deployment stop accepting it within TOKEN_CACHE_MS).
+ * Every token expires (LEADLINE_TOKEN_TTL_DAYS unless the issuer asks for less). Revocation appends a row and
+ * clears this process's cache, so it takes effect at once here (other instances of a multi-instance deployment
+ * stop accepting it within TOKEN_CACHE_MS). Creating a user (granting its roles), issuing and revoking a token
+ * are appended to identity_events, with the acting user and the token they acted with.
  */
 import { Injectable, OnModuleInit, Inject, Logger } from '@nestjs/common';
 import { createHash, randomBytes, randomUUID } from 'node:crypto';
 import { z } from 'zod';
 import { APP_CONFIG, type AppConfig } from '../infra/config';
-import { Database } from '../infra/database/database.service';
-import { notFound, validate } from '../infra/http/problem';
+import { Database, type Queryer } from '../infra/database/database.service';
+import { notFound, validate, ValidationProblem } from '../infra/http/problem';
 import { checkUuid } from '../products/products.service';
 import { TS_TEXT } from '../records/chain';
 
@@ -27,9 +29,29 @@ export const createUserSchema = z.strictObject({
   roles: z.array(z.enum(ROLES)).min(1).max(3),
 });
 
-export const createTokenSchema = z.strictObject({ label: z.string().max(120).optional() }).optional();
+export const MAX_TOKEN_DAYS = 3650;
+
+export const createTokenSchema = z
+  .strictObject({
+    label: z.string().max(120).optional(),
+    expiresInDays: z.number().int().min(1).max(MAX_TOKEN_DAYS).optional().describe('lifetime in days (default LEADLINE_TOKEN_TTL_DAYS)'),
+    expiresAt: z.iso.datetime({ offset: true }).optional().describe('expiry as an ISO 8601 time in the future (instead of expiresInDays)'),
+  })
+  .refine((b) => !(b.expiresInDays !== undefined && b.expiresAt !== undefined), { message: 'give expiresInDays or expiresAt, not both', path: ['expiresAt'] })
+  .optional();
+
+export const identityEventsQuerySchema = z.object({
+  user: z.string().optional().describe('only events about this user id'),
+  limit: z.coerce.number().int().min(1).max(500).default(100),
+});
+
+/** Who acts on identities: a user, with the id of the token they presented (null for the service itself). */
+export type IdentityActor = { id: string; tokenId?: string | null } | null;
+
+const actorTokenId = (actor: IdentityActor): string | null => (actor as { tokenId?: string | null } | null)?.tokenId ?? null;
 
 export const TOKEN_CACHE_MS = 2000;
+const DAY_MS = 86_400_000;
 
 export function hashToken(token: string): string {
   return createHash('sha256').update(token, 'utf8').digest('hex');
@@ -39,29 +61,83 @@ export function hashToken(token: string): string {
 export class IdentitiesService implements OnModuleInit {
   private readonly logger = new Logger('identities');
   private readonly cache = new Map<string, { principal: Principal | null; until: number }>();
+  private readonly ttlDays: number;
 
   constructor(
     private readonly db: Database,
     @Inject(APP_CONFIG) private readonly config: AppConfig,
-  ) {}
+  ) {
+    this.ttlDays = config.LEADLINE_TOKEN_TTL_DAYS;
+  }
 
-  /** Bootstraps the first admin of a fresh deployment from LEADLINE_ADMIN_TOKEN. */
+  /**
+   * Bootstraps the first admin of a fresh deployment from LEADLINE_ADMIN_TOKEN. Once an admin exists the variable
+   * is ignored, unless no admin holds a live token any more (all expired or revoked): then a new value of it
+   * restores admin access (audited), so expiry can never lock a deployment out for good.
+   */
   async onModuleInit(): Promise<void> {
     const token = this.config.LEADLINE_ADMIN_TOKEN;
     if (!token) return;
-    const admins = await this.db.query(`SELECT 1 FROM users WHERE 'admin' = ANY (roles) LIMIT 1`);
-    if (admins.length > 0) return;
-    const user = await this.createUser({ name: 'Administrator (bootstrap)', roles: ['admin'] }, null);
-    await this.storeToken(user.id, token, 'bootstrap (LEADLINE_ADMIN_TOKEN)', null);
-    this.logger.log(`bootstrap admin created (${user.id})`);
+    const admins = await this.db.query<{ id: string }>(`SELECT id FROM users WHERE 'admin' = ANY (roles) ORDER BY created_at, id LIMIT 1`);
+    if (admins.length === 0) {
+      const user = await this.createUser({ name: 'Administrator (bootstrap)', roles: ['admin'] }, null);
+      await this.storeToken(user.id, token, 'bootstrap (LEADLINE_ADMIN_TOKEN)', null, null);
+      this.logger.log(`bootstrap admin created (${user.id})`);
+      return;
+    }
+    const live = await this.db.query(
+      `SELECT 1 FROM tokens t JOIN users u ON u.id = t.user_id
+        WHERE 'admin' = ANY (u.roles) AND ${this.liveSql('t')} LIMIT 1`,
+      [this.ttlDays],
+    );
+    if (live.length > 0) return;
+    const known = await this.db.query(`SELECT 1 FROM tokens WHERE token_hash = $1`, [hashToken(token)]);
+    if (known.length > 0) {
+      this.logger.warn('no admin holds a live token and LEADLINE_ADMIN_TOKEN has expired or was revoked: set a new value to restore admin access');
+      return;
+    }
+    await this.storeToken(admins[0].id, token, 'bootstrap recovery (LEADLINE_ADMIN_TOKEN)', null, null);
+    this.logger.warn(`no admin held a live token: LEADLINE_ADMIN_TOKEN restored admin access for ${admins[0].id}`);
   }
 
-  async createUser(body: unknown, createdBy: string | null) {
+  /** SQL: the token aliased `t` is neither revoked nor expired ($1 = default lifetime in days, for tokens without a stored expiry). */
+  private liveSql(t: string): string {
+    return `NOT EXISTS (SELECT 1 FROM token_revocations r WHERE r.token_id = ${t}.id)
+            AND COALESCE(${t}.expires_at, ${t}.created_at + make_interval(days => $1::int)) > now()`;
+  }
+
+  /** Creates a user; the creation and each role it grants are audited in the same transaction. */
+  async createUser(body: unknown, actor: IdentityActor) {
     const input = validate(createUserSchema, body);
     const id = randomUUID();
     const roles = [...new Set(input.roles)];
-    await this.db.query(`INSERT INTO users (id, name, roles, created_by) VALUES ($1, $2, $3, $4)`, [id, input.name, roles, createdBy]);
+    await this.db.transaction(async (q) => {
+      await q.query(`INSERT INTO users (id, name, roles, created_by) VALUES ($1, $2, $3, $4)`, [id, input.name, roles, actor?.id ?? null]);
+      await this.audit(q, 'user-created', actor, id, null, { name: input.name, roles });
+      for (const role of roles) await this.audit(q, 'role-granted', actor, id, null, { role });
+    });
     return this.getUser(id);
+  }
+
+  private async audit(q: Queryer, type: string, actor: IdentityActor, subjectUserId: string, tokenId: string | null, data: Record<string, unknown>): Promise<void> {
+    await q.query(
+      `INSERT INTO identity_events (id, type, actor_id, actor_token_id, subject_user_id, token_id, data) VALUES ($1, $2, $3, $4, $5, $6, $7)`,
+      [randomUUID(), type, actor?.id ?? null, actorTokenId(actor), subjectUserId, tokenId, JSON.stringify(data)],
+    );
+  }
+
+  /** The user-level audit, newest first. */
+  async events(query: unknown) {
+    const q = validate(identityEventsQuerySchema, query);
+    const user = q.user === undefined ? null : checkUuid(q.user, 'user');
+    return this.db.query(
+      `SELECT e.id, e.type, e.actor_id AS "actorId", a.name AS "actorName", e.actor_token_id AS "actorTokenId",
+              e.subject_user_id AS "subjectUserId", s.name AS "subjectName", e.token_id AS "tokenId", e.data, ${TS_TEXT('e.created_at')} AS "createdAt"
+         FROM identity_events e JOIN users s ON s.id = e.subject_user_id LEFT JOIN users a ON a.id = e.actor_id
+        WHERE ($1::uuid IS NULL OR e.subject_user_id = $1::uuid)
+        ORDER BY e.created_at DESC, e.id DESC LIMIT $2`,
+      [user, q.limit],
+    );
   }
 
   async getUser(id: string) {
@@ -77,56 +153,82 @@ export class IdentitiesService implements OnModuleInit {
     return this.db.query(`SELECT id, name, roles, ${TS_TEXT('created_at')} AS "createdAt" FROM users ORDER BY created_at, id`);
   }
 
-  /** Issues a new random token for a user; the token is returned once and never stored. */
-  async issueToken(userId: string, body: unknown, createdBy: string | null): Promise<{ id: string; token: string }> {
+  /**
+   * Issues a new random token for a user; the token is returned once and never stored. It expires after
+   * expiresInDays, at expiresAt, or by default after LEADLINE_TOKEN_TTL_DAYS (at most MAX_TOKEN_DAYS).
+   */
+  async issueToken(userId: string, body: unknown, actor: IdentityActor, options: { ttlMs?: number } = {}): Promise<{ id: string; token: string; expiresAt: string }> {
     await this.getUser(userId);
     const input = validate(createTokenSchema, body) ?? {};
+    const now = Date.now();
+    let expiresAt: Date;
+    if (input.expiresAt !== undefined) {
+      expiresAt = new Date(input.expiresAt);
+      if (!(expiresAt.getTime() > now)) throw new ValidationProblem([{ path: 'expiresAt', message: 'must lie in the future' }]);
+      if (expiresAt.getTime() > now + MAX_TOKEN_DAYS * DAY_MS) throw new ValidationProblem([{ path: 'expiresAt', message: `must lie within ${MAX_TOKEN_DAYS} days` }]);
+    } else {
+      expiresAt = new Date(now + (input.expiresInDays !== undefined ? input.expiresInDays * DAY_MS : (options.ttlMs ?? this.ttlDays * DAY_MS)));
+    }
     const token = `ll_${randomBytes(32).toString('base64url')}`;
-    const id = await this.storeToken(userId, token, input.label ?? null, createdBy);
-    return { id, token };
+    const id = await this.storeToken(userId, token, input.label ?? null, actor, expiresAt);
+    return { id, token, expiresAt: expiresAt.toISOString() };
   }
 
-  private async storeToken(userId: string, token: string, label: string | null, createdBy: string | null): Promise<string> {
+  private async storeToken(userId: string, token: string, label: string | null, actor: IdentityActor, expiresAt: Date | null): Promise<string> {
     const id = randomUUID();
-    await this.db.query(`INSERT INTO tokens (id, user_id, token_hash, label, created_by) VALUES ($1, $2, $3, $4, $5)`, [
-      id, userId, hashToken(token), label, createdBy,
-    ]);
+    await this.db.transaction(async (q) => {
+      await q.query(`INSERT INTO tokens (id, user_id, token_hash, label, created_by, expires_at) VALUES ($1, $2, $3, $4, $5, $6)`, [
+        id, userId, hashToken(token), label, actor?.id ?? null, expiresAt ? expiresAt.toISOString() : null,
+      ]);
+      const [row] = await q.query<{ expires_at: string }>(
+        `SELECT ${TS_TEXT('COALESCE(expires_at, created_at + make_interval(days => $2::int))')} AS expires_at FROM tokens WHERE id = $1`,
+        [id, this.ttlDays],
+      );
+      await this.audit(q, 'token-issued', actor, userId, id, { label, expiresAt: row.expires_at, forAnotherUser: actor !== null && actor.id !== userId });
+    });
     return id;
   }
 
   async listTokens(userId: string) {
     await this.getUser(userId);
+    const expiry = 'COALESCE(t.expires_at, t.created_at + make_interval(days => $2::int))';
     return this.db.query(
-      `SELECT t.id, t.label, ${TS_TEXT('t.created_at')} AS "createdAt", r.token_id IS NOT NULL AS revoked
+      `SELECT t.id, t.label, ${TS_TEXT('t.created_at')} AS "createdAt", r.token_id IS NOT NULL AS revoked,
+              ${TS_TEXT(expiry)} AS "expiresAt", ${expiry} <= now() AS expired
          FROM tokens t LEFT JOIN token_revocations r ON r.token_id = t.id WHERE t.user_id = $1 ORDER BY t.created_at`,
-      [userId],
+      [userId, this.ttlDays],
     );
   }
 
-  async revokeToken(userId: string, tokenId: string, revokedBy: string | null): Promise<{ id: string; revoked: true }> {
+  async revokeToken(userId: string, tokenId: string, actor: IdentityActor): Promise<{ id: string; revoked: true }> {
     const rows = await this.db.query(`SELECT id FROM tokens WHERE id = $1 AND user_id = $2`, [checkUuid(tokenId, 'token'), checkUuid(userId, 'user')]);
     if (rows.length === 0) throw notFound(`token ${tokenId} of user ${userId}`);
-    await this.db.query(`INSERT INTO token_revocations (token_id, revoked_by) VALUES ($1, $2) ON CONFLICT (token_id) DO NOTHING`, [tokenId, revokedBy]);
+    await this.db.transaction(async (q) => {
+      const added = await q.query(`INSERT INTO token_revocations (token_id, revoked_by) VALUES ($1, $2) ON CONFLICT (token_id) DO NOTHING RETURNING token_id`, [tokenId, actor?.id ?? null]);
+      if (added.length > 0) await this.audit(q, 'token-revoked', actor, userId, tokenId, {});
+    });
     this.cache.clear();
     return { id: tokenId, revoked: true };
   }
 
-  /** Resolves a presented bearer token to its user, or null when unknown or revoked. */
+  /** Resolves a presented bearer token to its user, or null when unknown, revoked or expired. */
   async authenticate(token: string): Promise<Principal | null> {
     const hash = hashToken(token);
     const now = Date.now();
     const hit = this.cache.get(hash);
     if (hit && hit.until > now) return hit.principal;
-    const rows = await this.db.query<{ id: string; name: string; roles: Role[]; token_id: string }>(
-      `SELECT u.id, u.name, u.roles, t.id AS token_id
+    const rows = await this.db.query<{ id: string; name: string; roles: Role[]; token_id: string; ms_left: string }>(
+      `SELECT u.id, u.name, u.roles, t.id AS token_id,
+              floor(extract(epoch FROM COALESCE(t.expires_at, t.created_at + make_interval(days => $1::int)) - now()) * 1000) AS ms_left
          FROM tokens t JOIN users u ON u.id = t.user_id
-        WHERE t.token_hash = $1 AND NOT EXISTS (SELECT 1 FROM token_revocations r WHERE r.token_id = t.id)`,
-      [hash],
+        WHERE t.token_hash = $2 AND ${this.liveSql('t')}`,
+      [this.ttlDays, hash],
     );
     const principal = rows.length ? { id: rows[0].id, name: rows[0].name, roles: rows[0].roles, tokenId: rows[0].token_id } : null;
     if (principal) {
-      if (this.cache.size > 10000) this.cache.clear();
-      this.cache.set(hash, { principal, until: now + TOKEN_CACHE_MS });
+      // Oldest entry out first when full; a cached token is never trusted past its expiry
+      if (this.cache.size >= 10000) this.cache.delete(this.cache.keys().next().value as string);
+      this.cache.set(hash, { principal, until: now + Math.min(TOKEN_CACHE_MS, Number(rows[0].ms_left)) });
     }
     return principal;
   }

@@ -1,15 +1,54 @@
 /**
  * Configuration: read once from the environment, validated at boot, typed. Nothing else reads process.env.
  */
+import { isIP } from 'node:net';
 import { z } from 'zod';
 
 const flag = z
   .enum(['true', 'false', '1', '0'])
   .transform((v) => v === 'true' || v === '1');
 
+const PROXY_NAMES = new Set(['loopback', 'linklocal', 'uniquelocal']);
+
+/** LEADLINE_TRUST_PROXY as Fastify's trustProxy: false, a hop count, or a list of trusted proxy addresses. */
+export function parseTrustProxy(value: string, ctx: z.RefinementCtx): false | number | string[] {
+  const v = value.trim().toLowerCase();
+  if (v === 'false' || v === '0') return false;
+  if (v === 'true') return 1;
+  if (/^\d+$/.test(v)) {
+    const hops = Number(v);
+    if (hops <= 10) return hops;
+    ctx.addIssue({ code: 'custom', message: 'at most 10 proxy hops' });
+    return z.NEVER;
+  }
+  const list = v.split(',').map((e) => e.trim()).filter(Boolean);
+  const bad = list.filter((e) => {
+    if (PROXY_NAMES.has(e)) return false;
+    const [addr, bits, extra] = e.split('/');
+    const family = isIP(addr);
+    if (!family || extra !== undefined) return true;
+    return bits !== undefined && !(/^\d+$/.test(bits) && Number(bits) <= (family === 4 ? 32 : 128));
+  });
+  if (list.length === 0 || bad.length > 0) {
+    ctx.addIssue({ code: 'custom', message: `expected false, a number of proxy hops, or a comma list of proxy addresses/CIDRs; not understood: ${bad.join(', ') || value}` });
+    return z.NEVER;
+  }
+  return list;
+}
+
 export const configSchema = z.object({
   /** PostgreSQL connection string; without it the service runs on an embedded PGlite database */
   DATABASE_URL: z.string().url().optional(),
+  /**
+   * PostgreSQL connection string of the role that owns the schema and runs the migrations; the service itself then
+   * connects with DATABASE_URL as a runtime role holding SELECT and INSERT only. Unset: migrations run as the
+   * DATABASE_URL role (single-user setup, warned at start-up)
+   */
+  LEADLINE_MIGRATION_DATABASE_URL: z.string().url().optional(),
+  /** The runtime role the migrations grant to (default: the user of DATABASE_URL when LEADLINE_MIGRATION_DATABASE_URL is set) */
+  LEADLINE_RUNTIME_ROLE: z.string().regex(/^[A-Za-z_][A-Za-z0-9_]{0,62}$/, 'a PostgreSQL role name (letters, digits, _)').optional(),
+  /** Ed25519 private key (PKCS#8 PEM) that signs checkpoints; unset: <LEADLINE_DATA_DIR>/signing-key.pem, generated when missing */
+  LEADLINE_SIGNING_KEY_FILE: z.string().min(1).optional(),
   PORT: z.coerce.number().int().min(0).max(65535).default(3000),
   HOST: z.string().default('127.0.0.1'),
   /** Folder of the embedded database */
@@ -24,8 +63,32 @@ export const configSchema = z.object({
   LEADLINE_BODY_LIMIT: z.coerce.number().int().min(1024).default(256 * 1024),
   /** Pool size for PostgreSQL */
   LEADLINE_DB_POOL: z.coerce.number().int().min(1).max(100).default(10),
-  /** Behind a reverse proxy: take the client address from X-Forwarded-For (the failed-auth limit counts per address) */
-  LEADLINE_TRUST_PROXY: flag.default(false),
+  /**
+   * Behind reverse proxies: how the client address is found (the failed-auth limit counts per address).
+   * "false"/"0": the socket's peer, X-Forwarded-For ignored. A number n: n proxy hops in front of the service are
+   * trusted, the client is the n-th X-Forwarded-For entry from the right ("true"/"1" = one proxy: the entry that
+   * proxy appended, never one the client sent). A comma list of proxy addresses or CIDRs (or loopback,
+   * linklocal, uniquelocal): entries from those addresses are skipped from the right.
+   */
+  LEADLINE_TRUST_PROXY: z.string().default('false').transform(parseTrustProxy),
+  /** Comments one revision takes per minute (429 with Retry-After above) */
+  LEADLINE_COMMENTS_PER_REVISION_PER_MINUTE: z.coerce.number().int().min(1).default(30),
+  /** Comments one user may write per minute over all revisions (429 with Retry-After above) */
+  LEADLINE_COMMENTS_PER_USER_PER_MINUTE: z.coerce.number().int().min(1).default(20),
+  /** Comments a report prints in full; beyond it the report counts the rest and points to the audit download */
+  LEADLINE_REPORT_COMMENTS: z.coerce.number().int().min(0).max(1000).default(50),
+  /** PDF requests that may wait for a free page (503 with Retry-After when full) */
+  LEADLINE_PDF_QUEUE_LIMIT: z.coerce.number().int().min(0).default(8),
+  /** Longest wait for a free page before a PDF request answers 503 [ms] */
+  LEADLINE_PDF_QUEUE_WAIT_MS: z.coerce.number().int().min(100).default(20_000),
+  /** Chromium's sandbox: auto (kept unless running as root; dropped with a fallback where the kernel refuses it), true, false */
+  LEADLINE_CHROMIUM_SANDBOX: z.enum(['auto', 'true', 'false', '1', '0']).default('auto').transform((v) => (v === 'auto' ? ('auto' as const) : v === 'true' || v === '1')),
+  /** Lifetime of a newly issued token [days] unless the issuer asks for less (tokens always expire) */
+  LEADLINE_TOKEN_TTL_DAYS: z.coerce.number().int().min(1).max(3650).default(90),
+  /** Lifetime of the demo tokens printed at start [hours] */
+  LEADLINE_DEMO_TOKEN_TTL_HOURS: z.coerce.number().int().min(1).max(720).default(12),
+  /** Issue and print fresh demo tokens at start although the demo database is not empty (otherwise only on the first seed) */
+  LEADLINE_DEMO_TOKENS: flag.default(false),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 

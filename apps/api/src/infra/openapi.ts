@@ -11,8 +11,10 @@ import {
 import { sizingRequestSchema, sizingResponseSchema } from '@leadline/contracts';
 import { z, type ZodType } from 'zod';
 import { ruleSetDefinitionSchema } from '@leadline/rules';
-import { addRevisionSchema, openCalculationSchema } from '../calculations/calculations.service';
-import { createTokenSchema, createUserSchema } from '../identities/identities.service';
+import { checkpointSchema } from '../checkpoints/checkpoints.service';
+import { addRevisionSchema, openCalculationSchema, reassignSchema, revisionsQuerySchema } from '../calculations/calculations.service';
+import { auditQuerySchema } from '../reviews/audit.service';
+import { createTokenSchema, createUserSchema, identityEventsQuerySchema } from '../identities/identities.service';
 import { createProductSchema } from '../products/products.service';
 import { commentSchema, decisionSchema, withdrawSchema } from '../reviews/reviews.service';
 import { impactSchema } from '../rules/impact.service';
@@ -30,7 +32,23 @@ interface Route {
   response?: ZodType;
   status?: number;
   idempotent?: boolean;
+  /** Query parameters, from a zod object schema */
+  query?: z.ZodObject;
 }
+
+/** The review state carried by revision items of the revision list. */
+const reviewOfRevision = z.object({
+  state: z.enum(['submitted', 'superseded', 'approved', 'rejected', 'withdrawn']),
+  decidedBy: z.object({ id: z.string(), name: z.string() }).nullable(),
+  decidedAt: z.string().nullable(),
+});
+
+/** A light revision item (GET /calculations/{id}/revisions?view=summary). */
+const revisionSummarySchema = z.object({
+  id: z.string().uuid(), calculationId: z.string().uuid(), revision: z.number().int(), verdict: z.enum(['blocked', 'needs-acknowledgement', 'clear']),
+  author: z.object({ id: z.string(), name: z.string() }).nullable(), note: z.string().nullable(), createdAt: z.string(), hash: z.string(),
+  previousHash: z.string().nullable(), review: reviewOfRevision,
+});
 
 export const ROUTES: Route[] = [
   { method: 'post', path: '/api/v1/evaluations', summary: 'Evaluate a design (stateless, nothing stored)', tag: 'evaluations', request: designInputSchema, response: evaluationResponseSchema, status: 200 },
@@ -46,7 +64,15 @@ export const ROUTES: Route[] = [
   { method: 'post', path: '/api/v1/products/{id}/calculations', summary: 'Open a calculation with revision 1', tag: 'calculations', request: openCalculationSchema.extend({ design: designInputSchema }), response: submissionResultSchema, status: 201, idempotent: true },
   { method: 'get', path: '/api/v1/calculations/{id}', summary: 'One calculation', tag: 'calculations', response: calculationSchema },
   { method: 'post', path: '/api/v1/calculations/{id}/revisions', summary: 'Submit the next revision', tag: 'calculations', request: addRevisionSchema.extend({ design: designInputSchema }), response: submissionResultSchema, status: 201, idempotent: true },
-  { method: 'get', path: '/api/v1/calculations/{id}/revisions', summary: 'All revisions of a calculation', tag: 'calculations', response: z.object({ items: z.array(revisionRecordSchema) }) },
+  { method: 'post', path: '/api/v1/calculations/{id}/reassignments', summary: 'Hand a calculation to another author (admin; a chained event); only its owner may submit revisions (403 otherwise)', tag: 'calculations', request: reassignSchema, status: 201 },
+  {
+    method: 'get', path: '/api/v1/calculations/{id}/revisions', summary: "A calculation's revisions, oldest first, cursor-paged (after, limit; view=summary gives light items)", tag: 'calculations',
+    query: revisionsQuerySchema,
+    response: z.object({
+      items: z.array(z.union([revisionRecordSchema.extend({ review: reviewOfRevision }), revisionSummarySchema])),
+      nextCursor: z.number().int().nullable().describe('the last revision number of this page when more follow, else null'),
+    }),
+  },
   { method: 'get', path: '/api/v1/revisions/{id}', summary: 'One revision: input as submitted, evaluation, findings, versions, hashes', tag: 'calculations', response: revisionRecordSchema },
   { method: 'get', path: '/api/v1/thread-sizes', summary: 'Standard thread sizes', tag: 'library' },
   { method: 'get', path: '/api/v1/friction-sources', summary: 'Friction coefficient ranges with their sources', tag: 'library' },
@@ -55,7 +81,7 @@ export const ROUTES: Route[] = [
   { method: 'post', path: '/api/v1/revisions/{id}/comments', summary: 'Comment, general or on an input field or a finding', tag: 'reviews', request: commentSchema, status: 201 },
   { method: 'post', path: '/api/v1/revisions/{id}/withdraw', summary: 'Withdraw by the author before a decision', tag: 'reviews', request: withdrawSchema.unwrap() },
   { method: 'get', path: '/api/v1/reviews/queue', summary: 'Revisions awaiting review, oldest first (productId, calculationId, verdict, authorId)', tag: 'reviews' },
-  { method: 'get', path: '/api/v1/products/{id}/audit', summary: 'Audit trail (after, limit; format=csv|json downloads the whole trail)', tag: 'reviews' },
+  { method: 'get', path: '/api/v1/products/{id}/audit', summary: 'Audit trail (after, limit; format=csv|json downloads the whole trail, streamed)', tag: 'reviews', query: auditQuerySchema },
   { method: 'get', path: '/api/v1/revisions/{id}/diff', summary: 'What changed against ?against=<revision id>', tag: 'reviews' },
   { method: 'get', path: '/api/v1/revisions/{id}/report.html', summary: 'Calculation report, HTML', tag: 'reports' },
   { method: 'get', path: '/api/v1/revisions/{id}/report.pdf', summary: 'Calculation report, PDF (?paper=A4|Letter)', tag: 'reports' },
@@ -70,6 +96,10 @@ export const ROUTES: Route[] = [
   { method: 'post', path: '/api/v1/users/{id}/tokens', summary: 'Issue a token, returned once (admin)', tag: 'identities', request: createTokenSchema.unwrap(), status: 201 },
   { method: 'get', path: '/api/v1/users/{id}/tokens', summary: "A user's tokens, without secrets (admin)", tag: 'identities' },
   { method: 'post', path: '/api/v1/users/{id}/tokens/{tokenId}/revoke', summary: 'Revoke a token at once (admin)', tag: 'identities' },
+  { method: 'get', path: '/api/v1/identity-events', summary: 'User-level audit: users created, roles granted, tokens issued and revoked (admin)', tag: 'identities', query: identityEventsQuerySchema },
+  { method: 'post', path: '/api/v1/products/{id}/checkpoints', summary: "Sign the product chain's current head (Ed25519 checkpoint {productId, seq, headHash, time})", tag: 'records', status: 201 },
+  { method: 'post', path: '/api/v1/checkpoints/verify', summary: 'Whether the signature is ours and the current chain still contains that link with that hash', tag: 'records', request: checkpointSchema },
+  { method: 'get', path: '/api/v1/checkpoints/public-key', summary: 'The Ed25519 public key that checks checkpoint signatures (no token needed)', tag: 'records' },
   { method: 'get', path: '/health', summary: 'Database reachable', tag: 'health' },
 ];
 
@@ -78,6 +108,9 @@ export function buildOpenApi(routes: Route[] = ROUTES): OpenAPIObject {
   const problem = { 'application/problem+json': { schema: json(problemSchema, 'output') } };
   for (const r of routes) {
     const params = [...r.path.matchAll(/\{(\w+)\}/g)].map((m) => ({ name: m[1], in: 'path', required: true, schema: m[1] === 'version' ? { type: 'string' } : { type: 'string', format: 'uuid' } }));
+    for (const [name, schema] of Object.entries(r.query?.shape ?? {})) {
+      params.push({ name, in: 'query', required: false, schema: json(schema as ZodType, 'input') } as never);
+    }
     if (r.idempotent) params.push({ name: 'Idempotency-Key', in: 'header', required: false, schema: { type: 'string' } } as never);
     paths[r.path] ??= {};
     paths[r.path][r.method] = {

@@ -48,6 +48,9 @@ export interface RevisionLink {
   ruleSetVersion: string;
   author: unknown;
   createdAt: string;
+  /** Link format 2 and later: the format version itself and the id of the bearer token that submitted it */
+  linkVersion?: number;
+  tokenId?: string | null;
 }
 
 /** The fields of an event that its hash covers. */
@@ -62,4 +65,14 @@ export interface EventLink {
   actor: unknown;
   data: unknown;
   createdAt: string;
+  /** Link format 2 and later: the format version itself and the id of the bearer token that acted */
+  linkVersion?: number;
+  tokenId?: string | null;
 }
+
+/**
+ * Link format versions. 1: the original links (no token id). 2: the record names its format version and the token
+ * id used, so the hash covers who acted with which credential. Stored rows keep the version they were written
+ * with (column link_version, default 1 for rows written before format 2 existed).
+ */
+export const LINK_VERSION = 2;

@@ -2,13 +2,15 @@
  * Appends records to a product's chain inside a transaction and reads them back.
  * The chain head row is locked FOR UPDATE, so appends to one product are serialized and every link
  * names the true previous hash; heads are found by primary key, never by scanning history.
+ * The head is locked and moved only through the SECURITY DEFINER functions leadline_lock_head and
+ * leadline_move_head (migrations/20261202100100): the service's runtime role has no UPDATE privilege.
  */
 import { Injectable } from '@nestjs/common';
 import { randomUUID } from 'node:crypto';
 import type { Actor, EventType, Finding, Verdict } from '@leadline/contracts';
 import { Database, PG_NO_DATA_FOUND, pgErrorCode, type Queryer } from '../infra/database/database.service';
-import { notFound } from '../infra/http/problem';
-import { contentDigest, linkHash, TS_TEXT, type EventLink, type RevisionLink } from './chain';
+import { notFound, ProblemError } from '../infra/http/problem';
+import { contentDigest, LINK_VERSION, linkHash, TS_TEXT, type EventLink, type RevisionLink } from './chain';
 
 export interface ChainCursor {
   seq: number;
@@ -44,6 +46,23 @@ export function prepareSubmission(s: RevisionSubmission): PreparedSubmission {
   return { ...s, json, content: contentDigest(json) };
 }
 
+/**
+ * The acting user as the controllers pass it: an Actor, optionally carrying the id of the bearer token used
+ * (non-enumerable, see infra/http/actor.ts, so it never leaks into a stored or returned actor object).
+ */
+export type Acting = Actor & { readonly tokenId?: string | null };
+
+/** The actor as stored and hashed ({ id, name } only), and the token id it acted with. */
+export function splitActing(a: Acting | null): { actor: Actor | null; tokenId: string | null } {
+  return a ? { actor: { id: a.id, name: a.name }, tokenId: a.tokenId ?? null } : { actor: null, tokenId: null };
+}
+
+/** SQLSTATE raised by leadline_append_revision when the submitter does not own the calculation. */
+export const PG_NOT_OWNER = 'LL403';
+
+/** Links per verification batch: bounded memory (a revision link carries its stored content, ~12 KB). */
+export const VERIFY_BATCH = 256;
+
 export interface AppendedRevision {
   id: string;
   revision: number;
@@ -58,24 +77,23 @@ export class RecordStore {
 
   /** Locks the product's chain head for the rest of the transaction. */
   async lockHead(q: Queryer, productId: string): Promise<ChainCursor | null> {
-    const rows = await q.query<{ seq: string; hash: string; now: string }>(
-      `SELECT seq, hash, ${TS_TEXT('now()')} AS now FROM chain_heads WHERE product_id = $1 FOR UPDATE`,
-      [productId],
-    );
+    const rows = await q.query<{ seq: string; hash: string; now: string }>(`SELECT seq, hash, now FROM leadline_lock_head($1)`, [productId]);
     if (rows.length === 0) return null;
     return { seq: Number(rows[0].seq), hash: rows[0].hash === '' ? null : rows[0].hash, now: rows[0].now };
   }
 
+  /** Moves the head to the cursor's link (which must exist with that seq and hash). */
   async saveHead(q: Queryer, productId: string, cursor: ChainCursor): Promise<void> {
-    await q.query(`UPDATE chain_heads SET seq = $2, hash = $3 WHERE product_id = $1`, [productId, cursor.seq, cursor.hash ?? '']);
+    await q.query(`SELECT leadline_move_head($1, $2, $3)`, [productId, cursor.seq, cursor.hash ?? '']);
   }
 
-  /** Appends one event to the chain; advances the cursor. */
+  /** Appends one event to the chain (link format 2: the token id is hashed); advances the cursor. */
   async appendEvent(
     q: Queryer,
     cursor: ChainCursor,
-    e: { productId: string; type: EventType; calculationId: string | null; revisionId: string | null; actor: Actor | null; data: Record<string, unknown> },
+    e: { productId: string; type: EventType; calculationId: string | null; revisionId: string | null; actor: Acting | null; data: Record<string, unknown> },
   ): Promise<EventLink & { hash: string; previousHash: string | null }> {
+    const { actor, tokenId } = splitActing(e.actor);
     const link: EventLink = {
       kind: 'event',
       id: randomUUID(),
@@ -84,16 +102,18 @@ export class RecordStore {
       type: e.type,
       calculationId: e.calculationId,
       revisionId: e.revisionId,
-      actor: e.actor,
+      actor,
       data: e.data,
       createdAt: cursor.now,
+      linkVersion: LINK_VERSION,
+      tokenId,
     };
     const hash = linkHash(link as unknown as Record<string, unknown>, cursor.hash);
     await q.query(
-      `INSERT INTO events (id, product_id, seq, type, calculation_id, revision_id, actor_id, actor, data, created_at, hash, previous_hash)
-       VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10::timestamptz, $11, $12)`,
-      [link.id, link.productId, link.seq, link.type, link.calculationId, link.revisionId, e.actor?.id ?? null,
-        e.actor ? JSON.stringify(e.actor) : null, JSON.stringify(link.data), link.createdAt, hash, cursor.hash],
+      `INSERT INTO events (id, product_id, seq, type, calculation_id, revision_id, actor_id, actor, data, created_at, hash, previous_hash, link_version, token_id)
+       VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10::timestamptz, $11, $12, $13, $14)`,
+      [link.id, link.productId, link.seq, link.type, link.calculationId, link.revisionId, actor?.id ?? null,
+        actor ? JSON.stringify(actor) : null, JSON.stringify(link.data), link.createdAt, hash, cursor.hash, LINK_VERSION, tokenId],
     );
     const previousHash = cursor.hash;
     cursor.seq = link.seq;
@@ -103,8 +123,9 @@ export class RecordStore {
 
   /**
    * Appends the next revision of a calculation and its submission event and moves the chain head, in one
-   * database call (leadline_append_revision, migrations/20261201220600): it locks the head, numbers the revision
-   * after the lock and computes both link hashes exactly as chain.ts does. Works inside a transaction or alone.
+   * database call (leadline_append_revision, migrations/20261202100100): it locks the head, checks that the
+   * submitter owns the calculation, numbers the revision after the lock and computes both link hashes exactly as
+   * chain.ts does. Works inside a transaction or alone.
    * @param cursor - when given (inside a transaction that already holds the head), it is advanced past the new links
    */
   async appendRevision(
@@ -112,19 +133,23 @@ export class RecordStore {
     productId: string,
     calculationId: string,
     s: PreparedSubmission,
-    actor: Actor | null,
+    acting: Acting | null,
     cursor?: ChainCursor,
   ): Promise<AppendedRevision> {
     const id = randomUUID();
+    const { actor, tokenId } = splitActing(acting);
     let rows: { revision: number; seq: string; hash: string; previous_hash: string | null; created_at: string; event_hash: string }[];
     try {
       rows = await q.query(
-        `SELECT * FROM leadline_append_revision($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13, $14, $15)`,
+        `SELECT * FROM leadline_append_revision($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13, $14, $15, $16)`,
         [productId, calculationId, id, randomUUID(), s.note, s.json.input, s.json.normalized, s.json.evaluation, s.json.findings, s.content,
-          s.verdict, s.engineVersion, s.ruleSetVersion, actor?.id ?? null, actor?.name ?? null],
+          s.verdict, s.engineVersion, s.ruleSetVersion, actor?.id ?? null, actor?.name ?? null, tokenId],
       );
     } catch (err) {
       if (pgErrorCode(err) === PG_NO_DATA_FOUND) throw notFound(`product ${productId}`);
+      if (pgErrorCode(err) === PG_NOT_OWNER) {
+        throw new ProblemError(403, 'Not the owner of this calculation', 'only the author who owns a calculation may add revisions to it (an admin can reassign it)');
+      }
       throw err;
     }
     const r = rows[0];
@@ -136,55 +161,176 @@ export class RecordStore {
   }
 
   /**
-   * Recomputes a product's chain from its stored rows and names the first broken link.
-   * Checks: contiguous seq from 1, each previous_hash equals the prior link's hash, each hash matches
-   * its content, and the head points at the last link (a removed tail is caught too).
+   * Recomputes a product's chain from its stored rows and names the first mismatch: a broken link (gap, wrong
+   * previous hash, content changed, a column that contradicts the hashed record, records missing after the head)
+   * or a row of a table derived from the chain that the chain does not bear out (the products row against its
+   * product-registered event, calculations against their calculation-opened events, review closures against the
+   * decision and withdrawal events, in both directions).
+   *
+   * Streamed: the head is read once at the start and the links up to that seq are read in batches of
+   * VERIFY_BATCH, each batch its own statement, yielding to the event loop between batches. Memory stays bounded
+   * whatever the chain's length, and on the embedded database the one connection is free between batches.
+   * Consistency: links are immutable and a head only moves in the transaction that inserted its links, so every
+   * link up to the head seen at the start is committed and cannot change while we read; later appends lie beyond
+   * that seq and are simply not part of this check.
+   * @param upTo - check only the links 1..upTo, hash by hash (the prefix a checkpoint signed); skips the head and
+   *   derived-table checks
    */
-  async verify(productId: string): Promise<ChainVerification> {
-    // One snapshot for the head and every link, so concurrent appends cannot make a sound chain look broken.
-    return this.db.transaction((q) => this.verifyIn(q, productId), 'repeatable read');
-  }
-
-  private async verifyIn(q: Queryer, productId: string): Promise<ChainVerification> {
-    const head = await q.query<{ seq: string; hash: string }>(`SELECT seq, hash FROM chain_heads WHERE product_id = $1`, [productId]);
+  async verify(productId: string, batch = VERIFY_BATCH, upTo?: number): Promise<ChainVerification> {
+    const head = await this.db.query<{ seq: string; hash: string }>(`SELECT seq, hash FROM chain_heads WHERE product_id = $1`, [productId]);
     if (head.length === 0) throw notFound(`product ${productId}`);
-    const revisions = await q.query<RevisionRow>(
-      `SELECT id, product_id, calculation_id, revision, seq, note, input::text AS input, normalized::text AS normalized,
-              evaluation::text AS evaluation, findings::text AS findings, verdict,
-              engine_version, rule_set_version, author, ${TS_TEXT('created_at')} AS created_at, hash, previous_hash
-         FROM revisions WHERE product_id = $1`,
+    const headSeq = upTo === undefined ? Number(head[0].seq) : Math.min(upTo, Number(head[0].seq));
+    const [product] = await this.db.query<{ code: string; name: string; description: string | null; created_by: string | null }>(
+      `SELECT code, name, description, created_by FROM products WHERE id = $1`,
       [productId],
     );
-    const events = await q.query<EventRow>(
-      `SELECT id, product_id, seq, type, calculation_id, revision_id, actor, data, ${TS_TEXT('created_at')} AS created_at, hash, previous_hash
-         FROM events WHERE product_id = $1`,
-      [productId],
-    );
-    const links: { seq: number; kind: 'revision' | 'event'; id: string; body: Record<string, unknown>; hash: string; previousHash: string | null }[] = [
-      ...revisions.map((r) => ({ seq: Number(r.seq), kind: 'revision' as const, id: r.id, body: revisionLinkOf(r) as unknown as Record<string, unknown>, hash: r.hash, previousHash: r.previous_hash })),
-      ...events.map((e) => ({ seq: Number(e.seq), kind: 'event' as const, id: e.id, body: eventLinkOf(e) as unknown as Record<string, unknown>, hash: e.hash, previousHash: e.previous_hash })),
-    ].sort((a, b) => a.seq - b.seq);
 
     let previous: string | null = null;
-    for (let i = 0; i < links.length; i++) {
-      const l = links[i];
-      const at = { seq: l.seq, kind: l.kind, id: l.id };
-      if (l.seq !== i + 1) return broken(productId, links.length, { ...at, reason: `sequence gap: expected link ${i + 1}, found ${l.seq}` });
-      if (l.previousHash !== previous) return broken(productId, links.length, { ...at, reason: 'previous hash does not match the prior link' });
-      if (linkHash(l.body, previous) !== l.hash) return broken(productId, links.length, { ...at, reason: 'content does not match its hash' });
-      previous = l.hash;
+    let expected = 1;
+    let last: { seq: number; kind: 'revision' | 'event'; id: string } | null = null;
+    for (let lo = 0; lo < headSeq; lo += batch) {
+      const hi = Math.min(lo + batch, headSeq);
+      const revisions = await this.db.query<RevisionRow>(
+        `SELECT id, product_id, calculation_id, revision, seq, note, input::text AS input, normalized::text AS normalized,
+                evaluation::text AS evaluation, findings::text AS findings, verdict, engine_version, rule_set_version, author_id, author,
+                ${TS_TEXT('created_at')} AS created_at, hash, previous_hash, link_version, token_id
+           FROM revisions WHERE product_id = $1 AND seq > $2 AND seq <= $3 ORDER BY seq`,
+        [productId, lo, hi],
+      );
+      const events = await this.db.query<EventRow>(
+        `SELECT id, product_id, seq, type, calculation_id, revision_id, actor_id, actor, data, ${TS_TEXT('created_at')} AS created_at,
+                hash, previous_hash, link_version, token_id
+           FROM events WHERE product_id = $1 AND seq > $2 AND seq <= $3 ORDER BY seq`,
+        [productId, lo, hi],
+      );
+      const links = mergeBySeq(revisions, events);
+      for (const l of links) {
+        const at = { seq: l.seq, kind: l.kind, id: l.row.id };
+        if (l.seq !== expected) return broken(productId, expected - 1, { ...at, reason: `sequence gap: expected link ${expected}, found ${l.seq}` });
+        if (l.row.previous_hash !== previous) return broken(productId, expected, { ...at, reason: 'previous hash does not match the prior link' });
+        const version = Number(l.row.link_version ?? 1);
+        if (version !== 1 && version !== LINK_VERSION) return broken(productId, expected, { ...at, reason: `unknown link format ${version}` });
+        const body = l.kind === 'revision' ? revisionLinkOf(l.row as RevisionRow) : eventLinkOf(l.row as EventRow);
+        if (linkHash(body as unknown as Record<string, unknown>, previous) !== l.row.hash) return broken(productId, expected, { ...at, reason: 'content does not match its hash' });
+        const contradiction = columnContradiction(l, version);
+        if (contradiction) return broken(productId, expected, { ...at, reason: contradiction });
+        if (l.seq === 1) {
+          const reason = registrationMismatch(l, product);
+          if (reason) return broken(productId, expected, { seq: 1, kind: 'product', id: productId, reason });
+        }
+        previous = l.row.hash;
+        last = at;
+        expected++;
+      }
+      await new Promise<void>((resolve) => setImmediate(resolve));
     }
-    if (Number(head[0].seq) !== links.length || (head[0].hash || null) !== previous) {
-      const last = links[links.length - 1];
-      return broken(productId, links.length, { seq: last?.seq ?? 0, kind: last?.kind ?? 'event', id: last?.id ?? '', reason: 'the chain head does not point at the last link (records missing)' });
+    if (upTo !== undefined) {
+      // links 1..upTo only (a checkpoint's prefix): the head and the derived tables are not part of this check
+      if (expected - 1 !== headSeq) return broken(productId, expected - 1, { seq: expected, kind: 'event', id: '', reason: `link ${expected} is missing` });
+      return { productId, valid: true, links: headSeq, headHash: previous, firstBrokenLink: null };
     }
-    return { productId, valid: true, links: links.length, headHash: previous, firstBrokenLink: null };
+    const headHash = head[0].hash || null;
+    if (expected - 1 !== headSeq || previous !== headHash) {
+      return broken(productId, expected - 1, { seq: last?.seq ?? 0, kind: last?.kind ?? 'event', id: last?.id ?? '', reason: 'the chain head does not point at the last link (records missing)' });
+    }
+    const derived = await this.derivedMismatch(productId, headSeq);
+    if (derived) return broken(productId, headSeq, derived);
+    return { productId, valid: true, links: headSeq, headHash: previous, firstBrokenLink: null };
   }
+
+  /**
+   * Tables derived from the chain, checked against it by set queries (one statement each, bounded output):
+   * links stored beyond the current head, calculations without their calculation-opened event, closures without
+   * the decision or withdrawal event they index, and such events without their closure. The earliest by seq wins.
+   */
+  private async derivedMismatch(productId: string, headSeq: number): Promise<BrokenLink | null> {
+    const found: BrokenLink[] = [];
+    const beyond = await this.db.query<{ seq: string; kind: 'revision' | 'event'; id: string }>(
+      `SELECT x.seq, x.kind, x.id FROM chain_heads h CROSS JOIN LATERAL (
+         (SELECT seq, 'revision' AS kind, id FROM revisions WHERE product_id = h.product_id AND seq > h.seq ORDER BY seq LIMIT 1)
+         UNION ALL
+         (SELECT seq, 'event' AS kind, id FROM events WHERE product_id = h.product_id AND seq > h.seq ORDER BY seq LIMIT 1)) x
+        WHERE h.product_id = $1 ORDER BY x.seq LIMIT 1`,
+      [productId],
+    );
+    if (beyond.length) found.push({ seq: Number(beyond[0].seq), kind: beyond[0].kind, id: beyond[0].id, reason: 'a link is stored beyond the chain head' });
+    const calculation = await this.db.query<{ id: string }>(
+      `SELECT c.id FROM calculations c
+        WHERE c.product_id = $1 AND NOT EXISTS (
+          SELECT 1 FROM events e WHERE e.calculation_id = c.id AND e.product_id = $1 AND e.type = 'calculation-opened'
+             AND e.data->>'title' = c.title AND (e.actor->>'id') IS NOT DISTINCT FROM c.created_by::text AND e.created_at = c.created_at)
+        ORDER BY c.created_at, c.id LIMIT 1`,
+      [productId],
+    );
+    if (calculation.length) found.push({ seq: 0, kind: 'calculation', id: calculation[0].id, reason: 'the calculation row does not match its calculation-opened event' });
+    const closure = await this.db.query<{ revision_id: string; seq: string | null }>(
+      `SELECT c.revision_id, (SELECT e.seq FROM events e WHERE e.id = c.event_id) AS seq
+         FROM revision_closures c JOIN revisions r ON r.id = c.revision_id
+        WHERE r.product_id = $1 AND NOT EXISTS (
+          SELECT 1 FROM events e WHERE e.id = c.event_id AND e.product_id = $1 AND e.revision_id = c.revision_id AND e.type = c.kind
+             AND e.actor->>'id' = c.actor_id::text)
+        LIMIT 1`,
+      [productId],
+    );
+    if (closure.length) {
+      found.push({ seq: Number(closure[0].seq ?? 0), kind: 'closure', id: closure[0].revision_id, reason: 'a review closure is not borne out by a decision or withdrawal event in the chain' });
+    }
+    const decision = await this.db.query<{ id: string; seq: string }>(
+      `SELECT e.id, e.seq FROM events e
+        WHERE e.product_id = $1 AND e.seq <= $2 AND e.type IN ('approved', 'rejected', 'withdrawn') AND NOT EXISTS (
+          SELECT 1 FROM revision_closures c WHERE c.event_id = e.id AND c.revision_id = e.revision_id AND c.kind = e.type)
+        ORDER BY e.seq LIMIT 1`,
+      [productId, headSeq],
+    );
+    if (decision.length) found.push({ seq: Number(decision[0].seq), kind: 'event', id: decision[0].id, reason: 'a decision or withdrawal event has no review closure (or a second one for the same revision)' });
+    return found.sort((a, b) => a.seq - b.seq)[0] ?? null;
+  }
+}
+
+type Link = { seq: number; kind: 'revision'; row: RevisionRow } | { seq: number; kind: 'event'; row: EventRow };
+
+/** Merges two seq-ordered lists into one. */
+function mergeBySeq(revisions: RevisionRow[], events: EventRow[]): Link[] {
+  const out: Link[] = [];
+  let i = 0;
+  let j = 0;
+  while (i < revisions.length || j < events.length) {
+    const r = revisions[i];
+    const e = events[j];
+    if (e === undefined || (r !== undefined && Number(r.seq) <= Number(e.seq))) out.push({ seq: Number(r.seq), kind: 'revision', row: revisions[i++] });
+    else out.push({ seq: Number(e.seq), kind: 'event', row: events[j++] });
+  }
+  return out;
+}
+
+/** A stored column the services read that contradicts the hashed record (author_id, actor_id, token_id). */
+function columnContradiction(l: Link, version: number): string | null {
+  if (l.kind === 'revision') {
+    const hashed = (l.row.author as { id?: string } | null)?.id ?? null;
+    if ((l.row.author_id ?? null) !== hashed) return 'author_id does not match the hashed author';
+  } else {
+    const hashed = (l.row.actor as { id?: string } | null)?.id ?? null;
+    if ((l.row.actor_id ?? null) !== hashed) return 'actor_id does not match the hashed actor';
+  }
+  if (version < 2 && (l.row.token_id ?? null) !== null) return 'a token id on a link whose format does not hash it';
+  return null;
+}
+
+/** The products row must say what the chain's first link registered. */
+function registrationMismatch(l: Link, product: { code: string; name: string; description: string | null; created_by: string | null } | undefined): string | null {
+  if (l.kind !== 'event' || l.row.type !== 'product-registered') return 'the first link is not the product registration';
+  const data = l.row.data as { code?: string; name?: string; description?: string | null };
+  const actor = (l.row.actor as { id?: string } | null)?.id ?? null;
+  if (!product || data.code !== product.code || data.name !== product.name || (data.description ?? null) !== product.description || actor !== product.created_by) {
+    return 'the product row does not match its product-registered event';
+  }
+  return null;
 }
 
 export interface BrokenLink {
   seq: number;
-  kind: 'revision' | 'event';
+  /** revision or event: a chain link; product, calculation, closure: a row of a table derived from the chain */
+  kind: 'revision' | 'event' | 'product' | 'calculation' | 'closure';
   id: string;
   reason: string;
 }
@@ -220,6 +366,10 @@ export interface RevisionRow {
   created_at: string;
   hash: string;
   previous_hash: string | null;
+  /** read by verify (link format, the token id it hashes, the column four-eyes reads) */
+  author_id?: string | null;
+  link_version?: number | string;
+  token_id?: string | null;
 }
 
 export interface EventRow {
@@ -234,6 +384,9 @@ export interface EventRow {
   created_at: string;
   hash: string;
   previous_hash: string | null;
+  actor_id?: string | null;
+  link_version?: number | string;
+  token_id?: string | null;
 }
 
 export function revisionLinkOf(r: RevisionRow): RevisionLink {
@@ -251,6 +404,7 @@ export function revisionLinkOf(r: RevisionRow): RevisionLink {
     ruleSetVersion: r.rule_set_version,
     author: r.author ?? null,
     createdAt: r.created_at,
+    ...(Number(r.link_version ?? 1) >= 2 ? { linkVersion: Number(r.link_version), tokenId: r.token_id ?? null } : {}),
   };
 }
 
@@ -266,5 +420,6 @@ export function eventLinkOf(e: EventRow): EventLink {
     actor: e.actor ?? null,
     data: e.data,
     createdAt: e.created_at,
+    ...(Number(e.link_version ?? 1) >= 2 ? { linkVersion: Number(e.link_version), tokenId: e.token_id ?? null } : {}),
   };
 }

@@ -356,6 +356,9 @@ export function safetyFactorSpec(rows: readonly SafetyFactorRow[]): Spec | null 
 // ---------------------------------------------------------------------------------------------------------
 // Rendering
 
+/** Lets queued I/O callbacks (other requests, /health) run before the next synchronous step. */
+export const yieldToEventLoop = (): Promise<void> => new Promise((resolve) => setImmediate(resolve));
+
 /**
  * Compiles a vega-lite spec and renders it headless to an SVG string fit to inline in HTML.
  * @param idPrefix - prefix of the SVG's internal ids (clip paths), unique per chart within one document
@@ -363,6 +366,7 @@ export function safetyFactorSpec(rows: readonly SafetyFactorRow[]): Spec | null 
 export async function specToSvg(spec: Spec, idPrefix: string, label: string): Promise<string> {
   const { vega, vl } = await loadVega();
   const compiled = vl.compile(spec).spec;
+  await yieldToEventLoop();
   const view = new vega.View(vega.parse(compiled), { renderer: 'none' });
   try {
     const svg = await view.toSVG();
@@ -395,19 +399,19 @@ export interface ReportCharts {
 /** The report's three charts for one revision, rendered fresh each time. */
 export async function renderReportCharts(revision: RevisionRecord, view: ReportView): Promise<ReportCharts> {
   const sfSpec = safetyFactorSpec(view.safetyFactors);
-  const [design, safetyFactors] = await Promise.all([
-    renderDesignCharts(revision.normalized, revision.evaluation, view.unitSystem),
-    sfSpec ? specToSvg(sfSpec, 'factors', 'Safety factors against their minimums') : Promise.resolve(null),
-  ]);
+  // One chart after the other, yielding to the event loop between them: a report never holds the loop for
+  // longer than one chart's layout, so /health and other requests are served in between.
+  const design = await renderDesignCharts(revision.normalized, revision.evaluation, view.unitSystem);
+  await yieldToEventLoop();
+  const safetyFactors = sfSpec ? await specToSvg(sfSpec, 'factors', 'Safety factors against their minimums') : null;
   return { ...design, safetyFactors };
 }
 
 /** The torque-friction chart and the column chart of any evaluated design, saved or not (the report's own charts). */
 export async function renderDesignCharts(design: Design, e: Evaluation, system: UnitSystem): Promise<Omit<ReportCharts, 'safetyFactors'>> {
   const curve = columnCurve(design, e);
-  const [torqueFriction, column] = await Promise.all([
-    specToSvg(torqueFrictionSpec(torqueFrictionSweep(design, e), system), 'torque', 'Torque against thread friction'),
-    curve ? specToSvg(columnSpec(curve, system), 'column', 'Column curve with the design point') : Promise.resolve(null),
-  ]);
+  const torqueFriction = await specToSvg(torqueFrictionSpec(torqueFrictionSweep(design, e), system), 'torque', 'Torque against thread friction');
+  await yieldToEventLoop();
+  const column = curve ? await specToSvg(columnSpec(curve, system), 'column', 'Column curve with the design point') : null;
   return { torqueFriction, column };
 }

@@ -49,7 +49,16 @@ export interface ReportInput {
   readonly events: readonly ProductEvent[];
   /** All revisions of the calculation */
   readonly history: readonly ReportHistoryEntry[];
+  /** Revisions of the calculation left out of `history`, before and after the window around this one */
+  readonly omittedHistory?: { readonly before: number; readonly after: number } | null;
+  /** Comments of this revision left out of `events` (the report prints comments in full only up to a bound) */
+  readonly omittedComments?: { readonly count: number; readonly firstSeq: number; readonly lastSeq: number } | null;
   readonly generatedAt: string;
+  /** The product chain's head signed at generatedAt (checkpoints module): what an auditor checks the record against */
+  readonly checkpoint?: {
+    readonly productId: string; readonly seq: number; readonly headHash: string; readonly time: string;
+    readonly algorithm: string; readonly keyId: string; readonly signature: string;
+  } | null;
   /**
    * Minimum safety factors of the rule set the revision was judged by, for the checks that passed
    * (a finding's own limit, when there is one, takes precedence)
@@ -236,9 +245,15 @@ export interface ReportView {
   readonly checks: readonly CheckRow[];
   readonly findingGroups: readonly FindingGroup[];
   readonly events: readonly EventView[];
+  /** What the review record leaves out, and where the full trail is (null when it prints everything) */
+  readonly eventsOmitted: string | null;
   readonly history: readonly HistoryRow[];
+  /** What the revision history leaves out, and where the full list is (null when it lists every revision) */
+  readonly historyOmitted: string | null;
   readonly conventions: readonly string[];
   readonly record: readonly KeyValue[];
+  /** The signed checkpoint printed under the record's hashes, or null when the report was built without one */
+  readonly checkpoint: readonly KeyValue[] | null;
   readonly hash: string;
   readonly previousHash: string | null;
   readonly generatedAt: string;
@@ -1079,6 +1094,15 @@ export function buildReportView(input: ReportInput): ReportView {
     checks: buildChecks(findings, system),
     findingGroups: buildFindingGroups(findings, input.events, system),
     events: buildEvents(input.events),
+    historyOmitted: input.omittedHistory
+      ? `Listed: the revisions around this one. Not listed: ${input.omittedHistory.before} earlier and ${input.omittedHistory.after} later ` +
+        `revision${input.omittedHistory.before + input.omittedHistory.after === 1 ? '' : 's'}; every revision is in GET /api/v1/calculations/${calculation.id}/revisions.`
+      : null,
+    eventsOmitted: input.omittedComments
+      ? `${input.omittedComments.count} further comment${input.omittedComments.count === 1 ? '' : 's'} on this revision (chain links ${input.omittedComments.firstSeq} to ${input.omittedComments.lastSeq}) ` +
+        `are not printed here; every decision and acknowledgement above is. The full review trail, with every comment, is the product's audit ` +
+        `download: GET /api/v1/products/${product.id}/audit (JSON, or ?format=csv), checked against the hash chain by GET /api/v1/products/${product.id}/verify.`
+      : null,
     history: [...input.history]
       .sort((a, b) => a.revision - b.revision)
       .map((h) => ({
@@ -1098,6 +1122,15 @@ export function buildReportView(input: ReportInput): ReportView {
       { label: 'Rule set version', value: revision.ruleSetVersion },
       { label: 'Unit system of the input', value: system === 'SI' ? 'SI (metric)' : 'US customary' },
     ],
+    checkpoint: input.checkpoint
+      ? [
+          { label: 'Chain link', value: `${input.checkpoint.seq} of product ${input.checkpoint.productId}`, mono: true },
+          { label: 'Chain head hash', value: input.checkpoint.headHash, mono: true },
+          { label: 'Signed at', value: input.checkpoint.time, mono: true },
+          { label: 'Signing key', value: `${input.checkpoint.algorithm} ${input.checkpoint.keyId}`, mono: true },
+          { label: 'Signature', value: input.checkpoint.signature, mono: true },
+        ]
+      : null,
     hash: revision.hash,
     previousHash: revision.previousHash,
     generatedAt: formatDate(input.generatedAt),

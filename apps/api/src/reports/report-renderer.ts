@@ -5,7 +5,7 @@
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { basename, dirname, join, resolve } from 'node:path';
 import Handlebars from 'handlebars';
-import { renderReportCharts, type ReportCharts } from './charts';
+import { renderReportCharts, yieldToEventLoop, type ReportCharts } from './charts';
 import { buildReportView, CAUTION_SHORT, mathHtml, pathHtml, type ReportInput, type ReportView } from './report-model';
 
 const MAIN_TEMPLATE = join('reports', 'calculation-report.hbs');
@@ -82,8 +82,12 @@ export class ReportRenderer {
 
   /** Builds the view and charts of one revision and renders the HTML. */
   async render(input: ReportInput): Promise<RenderedReport> {
+    // Each step is synchronous work; between steps the event loop serves other requests.
+    await yieldToEventLoop();
     const view = buildReportView(input);
+    await yieldToEventLoop();
     const charts = await renderReportCharts(input.revision, view);
+    await yieldToEventLoop();
     return { view, charts, html: this.renderHtml(view, charts) };
   }
 }

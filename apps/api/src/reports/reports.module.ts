@@ -14,7 +14,17 @@ import { DesignChartsController } from './design-charts.controller';
   providers: [
     ReportInputService,
     { provide: ReportRenderer, useFactory: () => new ReportRenderer() },
-    { provide: PdfRenderer, inject: [APP_CONFIG], useFactory: (c: AppConfig) => new PdfRenderer({ executablePath: c.LEADLINE_CHROMIUM_PATH }) },
+    {
+      provide: PdfRenderer,
+      inject: [APP_CONFIG],
+      useFactory: (c: AppConfig) =>
+        new PdfRenderer({
+          executablePath: c.LEADLINE_CHROMIUM_PATH,
+          queueLimit: c.LEADLINE_PDF_QUEUE_LIMIT,
+          queueWaitMs: c.LEADLINE_PDF_QUEUE_WAIT_MS,
+          sandbox: c.LEADLINE_CHROMIUM_SANDBOX,
+        }),
+    },
   ],
   exports: [PdfRenderer, ReportRenderer, ReportInputService],
 })

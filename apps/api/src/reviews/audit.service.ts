@@ -9,7 +9,7 @@ import { Database } from '../infra/database/database.service';
 import { notFound, validate } from '../infra/http/problem';
 import { checkUuid } from '../products/products.service';
 import { TS_TEXT } from '../records/chain';
-import { SUPERSEDED } from './reviews.service';
+import { CLOSED } from './reviews.service';
 
 export const queueQuerySchema = z.object({
   productId: z.string().uuid().optional(),
@@ -75,26 +75,35 @@ function describe(type: string, data: Record<string, any>, revision: number | nu
 export class AuditService {
   constructor(private readonly db: Database) {}
 
+  /**
+   * Revisions awaiting review, oldest first. The access path is the latest revision of each calculation (one
+   * backward probe of (calculation_id, revision) per calculation), so the cost follows the number of calculations,
+   * never their superseded history. The latest revision is by definition the one that SUPERSEDED (reviews.service)
+   * does not hold for; testing that predicate again here let the planner hash-join every revision of every
+   * calculation (a cost that grew with superseded history again), so it is not repeated.
+   */
   async queue(query: unknown) {
     const q = validate(queueQuerySchema, query);
     const params: unknown[] = [];
-    const where: string[] = [
-      'NOT EXISTS (SELECT 1 FROM revision_closures x WHERE x.revision_id = r.id)',
-      `NOT ${SUPERSEDED('r')}`,
-    ];
+    // CLOSED: only a closure that indexes a real decision or withdrawal event takes a revision out of the queue
+    const where: string[] = [`NOT ${CLOSED('r')}`];
     const add = (sql: string, value: unknown) => {
       params.push(value);
       where.push(sql.replace('?', `$${params.length}`));
     };
-    if (q.productId) add('r.product_id = ?', q.productId);
-    if (q.calculationId) add('r.calculation_id = ?', q.calculationId);
+    if (q.productId) add('c.product_id = ?', q.productId);
+    if (q.calculationId) add('c.id = ?', q.calculationId);
     if (q.verdict) add('r.verdict = ?', q.verdict);
     if (q.authorId) add('r.author_id = ?', q.authorId);
     params.push(q.limit);
     const rows = await this.db.query<Record<string, any>>(
       `SELECT r.id, r.product_id, p.code AS product_code, p.name AS product_name, r.calculation_id, c.title, r.revision, r.verdict,
               r.author, r.findings, ${TS_TEXT('r.created_at')} AS created_at
-         FROM revisions r JOIN calculations c ON c.id = r.calculation_id JOIN products p ON p.id = r.product_id
+         FROM calculations c
+        CROSS JOIN LATERAL (
+              SELECT l.id, l.product_id, l.calculation_id, l.revision, l.verdict, l.author, l.author_id, l.findings, l.created_at, l.seq
+                FROM revisions l WHERE l.calculation_id = c.id ORDER BY l.revision DESC LIMIT 1) r
+         JOIN products p ON p.id = r.product_id
         WHERE ${where.join(' AND ')}
         ORDER BY r.created_at, r.seq
         LIMIT $${params.length}`,
@@ -114,19 +123,22 @@ export class AuditService {
     checkUuid(productId, 'product');
     const exists = await this.db.query(`SELECT 1 FROM products WHERE id = $1`, [productId]);
     if (exists.length === 0) throw notFound(`product ${productId}`);
+    const rows = await this.page(productId, after, limit + 1);
+    const items = rows.slice(0, limit);
+    return { items, nextCursor: rows.length > limit ? items[items.length - 1].seq : null };
+  }
+
+  /**
+   * Up to `limit` entries with after < seq <= upTo. ORDER BY seq LIMIT inside each branch lets PostgreSQL read
+   * each table's (product_id, seq) index from the cursor and stop after `limit` rows, so a page costs the same at
+   * any depth and any trail length (without it, every row after the cursor is appended and sorted).
+   */
+  private async page(productId: string, after: number, limit: number, upTo: number | null = null): Promise<AuditEntry[]> {
     const rows = await this.db.query<Record<string, any>>(
-      `SELECT * FROM (
-         SELECT seq, 'revision' AS kind, 'revision' AS type, ${TS_TEXT('created_at')} AS time, author AS actor, calculation_id, id AS revision_id,
-                revision, verdict, findings, jsonb_build_object('note', note) AS data, hash, previous_hash
-           FROM revisions WHERE product_id = $1 AND seq > $2
-         UNION ALL
-         SELECT seq, 'event', type, ${TS_TEXT('created_at')}, actor, calculation_id, revision_id, NULL, NULL, NULL, data, hash, previous_hash
-           FROM events WHERE product_id = $1 AND seq > $2
-       ) t ORDER BY seq LIMIT $3`,
-      [productId, after, limit + 1],
+      auditPageSql(upTo !== null),
+      upTo === null ? [productId, after, limit] : [productId, after, limit, upTo],
     );
-    const page = rows.slice(0, limit);
-    const items = page.map((r): AuditEntry => {
+    return rows.map((r): AuditEntry => {
       const revision = r.revision === null ? (r.data?.revision ?? null) : Number(r.revision);
       return {
         seq: Number(r.seq), kind: r.kind, type: r.type, time: r.time, actor: r.actor ?? null, calculationId: r.calculation_id,
@@ -134,33 +146,88 @@ export class AuditService {
         summary: describe(r.type, r.data ?? {}, revision), hash: r.hash, previousHash: r.previous_hash,
       };
     });
-    return { items, nextCursor: rows.length > limit ? items[items.length - 1].seq : null };
   }
 
-  /** The whole trail, for downloads. */
-  async fullTrail(productId: string): Promise<AuditEntry[]> {
-    const all: AuditEntry[] = [];
+  /**
+   * The whole trail for downloads, read in keyset batches up to the chain head as it stood when the download
+   * began (a consistent end; appends are serialized by the head, so no lower seq commits later). Each batch is
+   * one flat page query; on the embedded database no connection is held between batches.
+   */
+  async *entries(productId: string, batch = 1000): AsyncGenerator<AuditEntry[]> {
+    const [head] = await this.db.query<{ seq: string }>(`SELECT seq FROM chain_heads WHERE product_id = $1`, [checkUuid(productId, 'product')]);
+    if (!head) throw notFound(`product ${productId}`);
+    const upTo = Number(head.seq);
     let after = 0;
-    for (;;) {
-      const page = await this.trail(productId, after, 500);
-      all.push(...page.items);
-      if (page.nextCursor === null) return all;
-      after = page.nextCursor;
+    while (after < upTo) {
+      const rows = await this.page(productId, after, batch, upTo);
+      if (rows.length === 0) return;
+      yield rows;
+      after = rows[rows.length - 1].seq;
     }
   }
 
-  static toCsv(entries: AuditEntry[]): string {
-    const cols = ['seq', 'time', 'kind', 'type', 'actor', 'calculation_id', 'revision_id', 'revision', 'verdict', 'blocking', 'warning', 'info', 'summary', 'hash', 'previous_hash'];
-    const esc = (v: unknown) => {
-      const s = v === null || v === undefined ? '' : String(v);
-      return /[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
-    };
-    const lines = entries.map((e) =>
-      [e.seq, e.time, e.kind, e.type, e.actor?.name ?? '', e.calculationId, e.revisionId, e.revision, e.verdict, e.findings?.blocking, e.findings?.warning,
-        e.findings?.info, e.summary, e.hash, e.previousHash].map(esc).join(','),
-    );
-    return [cols.join(','), ...lines].join('\r\n') + '\r\n';
+  /** The whole trail in memory (for small trails; downloads stream through entries()). */
+  async fullTrail(productId: string): Promise<AuditEntry[]> {
+    const all: AuditEntry[] = [];
+    for await (const rows of this.entries(productId)) all.push(...rows);
+    return all;
   }
+
+  /** The whole trail as CSV text chunks, written as they are read (constant memory). */
+  async *csv(productId: string): AsyncGenerator<string> {
+    yield AUDIT_CSV_COLUMNS.join(',') + '\r\n';
+    for await (const rows of this.entries(productId)) yield rows.map(AuditService.csvLine).join('');
+  }
+
+  /** The whole trail as one JSON document `{ product, entries }`, in chunks as read. */
+  async *json(productId: string, product: unknown): AsyncGenerator<string> {
+    yield `{"product":${JSON.stringify(product)},"entries":[`;
+    let first = true;
+    for await (const rows of this.entries(productId)) {
+      yield (first ? '' : ',') + rows.map((e) => JSON.stringify(e)).join(',');
+      first = false;
+    }
+    yield ']}';
+  }
+
+  /** One CSV line (CRLF-terminated) of an entry. */
+  static csvLine(e: AuditEntry): string {
+    return [e.seq, e.time, e.kind, e.type, e.actor?.name ?? '', e.calculationId, e.revisionId, e.revision, e.verdict, e.findings?.blocking, e.findings?.warning,
+      e.findings?.info, e.summary, e.hash, e.previousHash].map(csvCell).join(',') + '\r\n';
+  }
+
+  static toCsv(entries: AuditEntry[]): string {
+    return AUDIT_CSV_COLUMNS.join(',') + '\r\n' + entries.map(AuditService.csvLine).join('');
+  }
+}
+
+/**
+ * The audit page query: $1 product, $2 cursor (seq after), $3 limit, $4 (when bounded) the last seq to include.
+ * Exported so a test can check its plan.
+ */
+export function auditPageSql(bounded: boolean): string {
+  const bound = bounded ? 'AND seq <= $4' : '';
+  return `SELECT * FROM (
+         (SELECT seq, 'revision' AS kind, 'revision' AS type, ${TS_TEXT('created_at')} AS time, author AS actor, calculation_id, id AS revision_id,
+                 revision, verdict, findings, jsonb_build_object('note', note) AS data, hash, previous_hash
+            FROM revisions WHERE product_id = $1 AND seq > $2 ${bound} ORDER BY seq LIMIT $3)
+         UNION ALL
+         (SELECT seq, 'event', type, ${TS_TEXT('created_at')}, actor, calculation_id, revision_id, NULL, NULL, NULL, data, hash, previous_hash
+            FROM events WHERE product_id = $1 AND seq > $2 ${bound} ORDER BY seq LIMIT $3)
+       ) t ORDER BY seq LIMIT $3`;
+}
+
+export const AUDIT_CSV_COLUMNS = ['seq', 'time', 'kind', 'type', 'actor', 'calculation_id', 'revision_id', 'revision', 'verdict', 'blocking', 'warning', 'info', 'summary', 'hash', 'previous_hash'];
+
+/**
+ * One CSV cell (RFC 4180 quoting). A text beginning with = + - @, tab or CR would be read by a spreadsheet as a
+ * formula (CSV injection), so it is prefixed with an apostrophe, the OWASP-recommended neutralisation, and quoted.
+ */
+export function csvCell(v: unknown): string {
+  let s = v === null || v === undefined ? '' : String(v);
+  const formula = typeof v === 'string' && /^[=+\-@\t\r]/.test(s);
+  if (formula) s = `'${s}`;
+  return formula || /[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
 }
 
 type Leaf = string | number | boolean | null;

@@ -1,9 +1,10 @@
-import { Body, Controller, Get, HttpCode, Param, Post, Query, Res } from '@nestjs/common';
-import type { FastifyReply } from 'fastify';
+import { Body, Controller, Get, HttpCode, Param, Post, Query, StreamableFile } from '@nestjs/common';
+import { Readable } from 'node:stream';
 import type { Actor } from '@leadline/contracts';
 import { CalculationsService } from '../calculations/calculations.service';
+import { CheckpointsService } from '../checkpoints/checkpoints.service';
 import { Roles } from '../identities/auth.guard';
-import { CurrentActor } from '../infra/http/actor';
+import { CurrentActor, CurrentRoles } from '../infra/http/actor';
 import { ProblemError, validate } from '../infra/http/problem';
 import { ProductsService } from '../products/products.service';
 import { AuditService, auditQuerySchema, changes, flatten } from './audit.service';
@@ -13,6 +14,7 @@ import { ReviewsService } from './reviews.service';
 export class ReviewsController {
   constructor(
     private readonly reviews: ReviewsService,
+    private readonly checkpoints: CheckpointsService,
     private readonly audit: AuditService,
     private readonly calculations: CalculationsService,
     private readonly products: ProductsService,
@@ -22,8 +24,9 @@ export class ReviewsController {
   @Post('revisions/:id/decisions')
   @Roles('reviewer')
   @HttpCode(201)
-  decide(@Param('id') id: string, @Body() body: unknown, @CurrentActor() actor: Actor) {
-    return this.reviews.decide(id, body, actor);
+  async decide(@Param('id') id: string, @Body() body: unknown, @CurrentActor() actor: Actor, @CurrentRoles() roles: string[]) {
+    const decided = await this.reviews.decide(id, body, actor, roles);
+    return { ...decided, checkpoint: this.checkpoints.afterDecision(decided.productId, decided.seq, decided.hash, decided.decidedAt) };
   }
 
   /** A comment without a decision, general or on an input field or a finding. */
@@ -38,8 +41,9 @@ export class ReviewsController {
   @Post('revisions/:id/withdraw')
   @Roles('author')
   @HttpCode(200)
-  withdraw(@Param('id') id: string, @Body() body: unknown, @CurrentActor() actor: Actor) {
-    return this.reviews.withdraw(id, body, actor);
+  async withdraw(@Param('id') id: string, @Body() body: unknown, @CurrentActor() actor: Actor) {
+    const withdrawn = await this.reviews.withdraw(id, body, actor);
+    return { ...withdrawn, checkpoint: this.checkpoints.afterDecision(withdrawn.productId, withdrawn.seq, withdrawn.hash, withdrawn.withdrawnAt) };
   }
 
   /** Revisions awaiting review, oldest first; filter by productId, calculationId, verdict, authorId. */
@@ -50,18 +54,18 @@ export class ReviewsController {
 
   /** The chronological trail of a product: every revision, finding summary, event, actor, time and hash. */
   @Get('products/:id/audit')
-  async trail(@Param('id') id: string, @Query() query: unknown, @Res({ passthrough: true }) reply: FastifyReply) {
+  async trail(@Param('id') id: string, @Query() query: unknown) {
     const q = validate(auditQuerySchema, query);
     if (!q.format) return this.audit.trail(id, q.after, q.limit);
     const product = await this.products.get(id);
-    const entries = await this.audit.fullTrail(id);
     const name = `audit-${product.code}`;
-    if (q.format === 'csv') {
-      reply.header('content-type', 'text/csv; charset=utf-8').header('content-disposition', `attachment; filename="${name}.csv"`);
-      return AuditService.toCsv(entries);
-    }
-    reply.header('content-disposition', `attachment; filename="${name}.json"`);
-    return { product, entries };
+    // Streamed as read, batch by batch (constant memory at any trail length); a client that goes away stops the reads.
+    const chunks = q.format === 'csv' ? this.audit.csv(id) : this.audit.json(id, product);
+    const stream = Readable.from(chunks, { objectMode: false });
+    return new StreamableFile(stream, {
+      type: q.format === 'csv' ? 'text/csv; charset=utf-8' : 'application/json; charset=utf-8',
+      disposition: `attachment; filename="${name}.${q.format}"`,
+    });
   }
 
   /** What changed in inputs, friction sources, results and findings between two revisions. */

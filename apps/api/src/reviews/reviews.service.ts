@@ -2,14 +2,16 @@
  * The review workflow: decisions, comments and withdrawals as events on the product's chain, and the review
  * state of a revision derived from the log (closure row, written in the same transaction, or a newer revision).
  */
-import { Injectable } from '@nestjs/common';
+import { Inject, Injectable } from '@nestjs/common';
 import type { Actor, Finding, ReviewState } from '@leadline/contracts';
 import { z } from 'zod';
+import { APP_CONFIG, type AppConfig } from '../infra/config';
 import { Database, PG_UNIQUE_VIOLATION, pgErrorCode, type Queryer } from '../infra/database/database.service';
 import { ProblemError, ValidationProblem, notFound, validate } from '../infra/http/problem';
 import { checkUuid } from '../products/products.service';
 import { TS_TEXT } from '../records/chain';
-import { RecordStore } from '../records/record-store';
+import { RecordStore, type Acting } from '../records/record-store';
+import { checkCommentRate } from './comment-limit';
 
 export const targetSchema = z.union([
   z.strictObject({ field: z.string().min(1).max(200).describe('input field path, e.g. "thread.pitch"') }),
@@ -27,9 +29,22 @@ export const decisionSchema = z.strictObject({
 
 export const withdrawSchema = z.strictObject({ comment: z.string().max(8000).optional() }).optional();
 
-/** SQL: a newer revision of the same calculation exists (the revision aliased `alias` is superseded). */
+/**
+ * SQL: a newer revision of the same calculation exists (the revision aliased `alias` is superseded). Revision
+ * numbers are contiguous (a trigger admits only max + 1, and nothing is deleted), so "newer exists" is "the next
+ * number exists": one equality probe of (calculation_id, revision) whatever the plan, where a range test let the
+ * planner hash-join every revision of the calculation and made a page of late revisions cost their whole history.
+ */
 export const SUPERSEDED = (alias: string) =>
-  `EXISTS (SELECT 1 FROM revisions n WHERE n.calculation_id = ${alias}.calculation_id AND n.revision > ${alias}.revision)`;
+  `EXISTS (SELECT 1 FROM revisions n WHERE n.calculation_id = ${alias}.calculation_id AND n.revision = ${alias}.revision + 1)`;
+
+/**
+ * SQL: the revision aliased `alias` is closed (optionally as `kind`) by a closure that indexes a real decision or
+ * withdrawal event of that revision; a closure row without its event closes nothing (verify reports it).
+ */
+export const CLOSED = (alias: string, kind?: 'approved' | 'rejected' | 'withdrawn') =>
+  `EXISTS (SELECT 1 FROM revision_closures x JOIN events xe ON xe.id = x.event_id AND xe.revision_id = x.revision_id AND xe.type = x.kind
+            WHERE x.revision_id = ${alias}.id${kind ? ` AND x.kind = '${kind}'` : ''})`;
 
 export interface RevisionState {
   id: string;
@@ -49,6 +64,7 @@ export class ReviewsService {
   constructor(
     private readonly db: Database,
     private readonly records: RecordStore,
+    @Inject(APP_CONFIG) private readonly config: AppConfig,
   ) {}
 
   async state(id: string, q: Queryer = this.db): Promise<RevisionState> {
@@ -57,9 +73,11 @@ export class ReviewsService {
     return r;
   }
 
-  /** Review states of every revision of a calculation, in one query, by revision id. */
-  async statesOfCalculation(calculationId: string): Promise<Map<string, RevisionState>> {
-    const rows = await this.states(this.db, 'r.calculation_id = $1', [checkUuid(calculationId, 'calculation')]);
+  /** Review states of every revision of a calculation (or of revision numbers in [from, to]), in one query, by revision id. */
+  async statesOfCalculation(calculationId: string, range?: { from: number; to: number }): Promise<Map<string, RevisionState>> {
+    const rows = range
+      ? await this.states(this.db, 'r.calculation_id = $1 AND r.revision BETWEEN $2 AND $3', [checkUuid(calculationId, 'calculation'), range.from, range.to])
+      : await this.states(this.db, 'r.calculation_id = $1', [checkUuid(calculationId, 'calculation')]);
     return new Map(rows.map((r) => [r.id, r]));
   }
 
@@ -68,11 +86,14 @@ export class ReviewsService {
       id: string; product_id: string; calculation_id: string; revision: number; author_id: string | null; findings: Finding[]; input: string;
       closure: ReviewState | null; superseded: boolean; actor: Actor | null; decided_at: string | null;
     }>(
-      `SELECT r.id, r.product_id, r.calculation_id, r.revision, r.author_id, r.findings, r.input::text AS input, c.kind AS closure,
-              ${SUPERSEDED('r')} AS superseded, e.actor, ${TS_TEXT('c.created_at')} AS decided_at
+      // A closure counts only as the index of a decision or withdrawal event of this very revision (the chain is the
+      // record; a closure row without its event changes nothing and verify reports it). The author is the hashed one.
+      `SELECT r.id, r.product_id, r.calculation_id, r.revision, (r.author->>'id')::uuid AS author_id, r.findings, r.input::text AS input,
+              CASE WHEN e.id IS NOT NULL THEN c.kind END AS closure,
+              ${SUPERSEDED('r')} AS superseded, e.actor, ${TS_TEXT('e.created_at')} AS decided_at
          FROM revisions r
          LEFT JOIN revision_closures c ON c.revision_id = r.id
-         LEFT JOIN events e ON e.id = c.event_id
+         LEFT JOIN events e ON e.id = c.event_id AND e.revision_id = r.id AND e.type = c.kind
         WHERE ${where}`,
       params,
     );
@@ -85,8 +106,15 @@ export class ReviewsService {
     }));
   }
 
-  /** Approve or reject: four-eyes, no blocking findings, every warning acknowledged, exactly one decision. */
-  async decide(revisionId: string, body: unknown, actor: Actor) {
+  /**
+   * Approve or reject: four-eyes (the decider is not the author, and acts with a token the author did not issue),
+   * never with an admin's token, no blocking findings, every warning acknowledged, exactly one decision.
+   * @param roles - the deciding caller's roles
+   */
+  async decide(revisionId: string, body: unknown, actor: Acting, roles: readonly string[] = []) {
+    if (roles.includes('admin')) {
+      throw new ProblemError(403, 'Admins do not decide', 'an admin identity can issue tokens, so it may not approve or reject; decide with a reviewer identity that is not an admin');
+    }
     const input = validate(decisionSchema, body);
     const head = await this.state(revisionId);
     return this.db.transaction(async (q) => {
@@ -94,6 +122,12 @@ export class ReviewsService {
       const rev = await this.state(revisionId, q);
       if (rev.authorId !== null && rev.authorId === actor.id) {
         throw new ProblemError(403, 'Four-eyes rule', 'a revision must be decided by a reviewer other than its author');
+      }
+      if (rev.authorId !== null && actor.tokenId) {
+        const [token] = await q.query<{ created_by: string | null }>(`SELECT created_by FROM tokens WHERE id = $1`, [actor.tokenId]);
+        if (token?.created_by === rev.authorId) {
+          throw new ProblemError(403, 'Four-eyes rule', "a revision cannot be decided with a token issued by its author");
+        }
       }
       if (rev.state !== 'submitted') {
         throw new ProblemError(409, 'Revision is not awaiting review', `revision ${rev.revision} is ${rev.state}`, { state: rev.state });
@@ -126,7 +160,7 @@ export class ReviewsService {
       });
       await this.close(q, rev.id, kind, event.id, actor);
       await this.records.saveHead(q, rev.productId, cursor);
-      return { revisionId: rev.id, state: kind, eventId: event.id, hash: event.hash, decidedAt: event.createdAt };
+      return { revisionId: rev.id, state: kind, eventId: event.id, hash: event.hash, decidedAt: event.createdAt, seq: event.seq, productId: rev.productId };
     });
   }
 
@@ -136,6 +170,7 @@ export class ReviewsService {
     this.checkTargets(head, [{ comment: input, path: 'target' }]);
     return this.db.transaction(async (q) => {
       const cursor = (await this.records.lockHead(q, head.productId))!;
+      await checkCommentRate(q, { perRevisionPerMinute: this.config.LEADLINE_COMMENTS_PER_REVISION_PER_MINUTE, perUserPerMinute: this.config.LEADLINE_COMMENTS_PER_USER_PER_MINUTE }, head.id, actor.id);
       const event = await this.records.appendEvent(q, cursor, {
         productId: head.productId, type: 'comment', calculationId: head.calculationId, revisionId: head.id, actor,
         data: { revision: head.revision, text: input.text, target: input.target ?? null },
@@ -160,7 +195,7 @@ export class ReviewsService {
       });
       await this.close(q, rev.id, 'withdrawn', event.id, actor);
       await this.records.saveHead(q, rev.productId, cursor);
-      return { revisionId: rev.id, state: 'withdrawn', eventId: event.id, hash: event.hash };
+      return { revisionId: rev.id, state: 'withdrawn', eventId: event.id, hash: event.hash, seq: event.seq, productId: rev.productId, withdrawnAt: event.createdAt };
     });
   }
 

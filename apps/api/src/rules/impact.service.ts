@@ -9,7 +9,7 @@ import { judge, verdictOf } from '@leadline/rules';
 import { z } from 'zod';
 import { Database } from '../infra/database/database.service';
 import { validate } from '../infra/http/problem';
-import { SUPERSEDED } from '../reviews/reviews.service';
+import { CLOSED, SUPERSEDED } from '../reviews/reviews.service';
 import { RuleSetsService } from './rule-sets.service';
 
 export const impactSchema = z
@@ -31,7 +31,7 @@ export class ImpactService {
     const target = await this.ruleSets.get(version);
     const where =
       input.scope === 'approved'
-        ? `EXISTS (SELECT 1 FROM revision_closures x WHERE x.revision_id = r.id AND x.kind = 'approved')`
+        ? CLOSED('r', 'approved')
         : `NOT ${SUPERSEDED('r')}`;
     const params: unknown[] = [];
     let filter = '';

@@ -1,13 +1,15 @@
 /**
- * Seeds the invented demo scenario through the same services the API uses, when the database is empty:
- * demo users named by role, two products of a fictional company, their screw calculations and a first review.
- * On every start of a demo database the demo users get fresh tokens (only hashes are stored), printed once.
+ * Seeds the invented demo scenario through the same services the API uses, only into an empty database (no
+ * products): demo users named by role, two products of a fictional company, their screw calculations and a first
+ * review. The demo users' tokens are short-lived (LEADLINE_DEMO_TOKEN_TTL_HOURS) and are issued and printed only
+ * by that first seed, or on a later start when asked explicitly (LEADLINE_DEMO_TOKENS=true); only hashes are stored.
  */
 import type { INestApplicationContext } from '@nestjs/common';
 import type { Actor } from '@leadline/contracts';
 import { randomUUID } from 'node:crypto';
 import { CalculationsService } from '../calculations/calculations.service';
 import { IdentitiesService, type Role } from '../identities/identities.service';
+import { APP_CONFIG, type AppConfig } from '../infra/config';
 import { Database } from '../infra/database/database.service';
 import { ProductsService } from '../products/products.service';
 import { prepareSubmission, RecordStore } from '../records/record-store';
@@ -51,24 +53,38 @@ export const DEMO_USERS: { name: string; roles: Role[] }[] = [
 export interface SeedResult {
   seeded: boolean;
   products: { id: string; code: string }[];
-  tokens: { name: string; roles: Role[]; token: string }[];
+  tokens: { name: string; roles: Role[]; token: string; expiresAt: string }[];
 }
 
-export async function seedDemo(app: INestApplicationContext): Promise<SeedResult> {
+export interface SeedOptions {
+  /** Issue fresh demo tokens although the database is not empty (LEADLINE_DEMO_TOKENS) */
+  readonly issueTokens?: boolean;
+}
+
+export async function seedDemo(app: INestApplicationContext, options: SeedOptions = {}): Promise<SeedResult> {
   const db = app.get(Database);
   const identities = app.get(IdentitiesService);
+  const config = app.get<AppConfig>(APP_CONFIG);
+  const ttlMs = config.LEADLINE_DEMO_TOKEN_TTL_HOURS * 3_600_000;
   const [{ n }] = await db.query<{ n: string }>(`SELECT count(*) AS n FROM products`);
   const existing = await db.query<{ id: string; name: string; roles: Role[] }>(
     `SELECT id, name, roles FROM users WHERE name = ANY ($1) ORDER BY created_at`,
     [DEMO_USERS.map((u) => u.name)],
   );
-  if (Number(n) > 0 && existing.length === 0) return { seeded: false, products: [], tokens: [] };
+  const issue = async (users: Iterable<{ id: string; name: string; roles: Role[] }>) => {
+    const tokens: SeedResult['tokens'] = [];
+    for (const u of users) {
+      const issued = await identities.issueToken(u.id, { label: 'demo start' }, null, { ttlMs });
+      tokens.push({ name: u.name, roles: u.roles, token: issued.token, expiresAt: issued.expiresAt });
+    }
+    return tokens;
+  };
+  // Not empty: nothing is seeded, and tokens only when asked for, for demo users that exist
+  if (Number(n) > 0) return { seeded: false, products: [], tokens: options.issueTokens && existing.length > 0 ? await issue(existing) : [] };
 
   const users = new Map<string, { id: string; name: string; roles: Role[] }>();
   for (const u of DEMO_USERS) users.set(u.name, existing.find((e) => e.name === u.name) ?? (await identities.createUser(u, null)));
-  const tokens = [];
-  for (const u of users.values()) tokens.push({ name: u.name, roles: u.roles, token: (await identities.issueToken(u.id, { label: 'demo start' }, null)).token });
-  if (Number(n) > 0) return { seeded: false, products: [], tokens };
+  const tokens = await issue(users.values());
 
   const author: Actor = { id: users.get('Design author (demo)')!.id, name: 'Design author (demo)' };
   const reviewer: Actor = { id: users.get('Checking engineer (demo)')!.id, name: 'Checking engineer (demo)' };

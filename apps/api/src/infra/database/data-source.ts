@@ -8,10 +8,18 @@ import { DataSource, type DataSourceOptions } from 'typeorm';
 import { PGliteDriver } from 'typeorm-pglite';
 import { MIGRATIONS } from '../../../../../migrations';
 import type { AppConfig } from '../config';
+import { lockDataDir, type DataDirLock } from './data-dir-lock';
 
 export interface DataSourceChoice {
   readonly dataSource: DataSource;
   readonly embedded: boolean;
+}
+
+const locks = new WeakMap<DataSource, DataDirLock>();
+
+/** The data-folder lock of an embedded data source (released when the data source is destroyed). */
+export function dataDirLockOf(dataSource: DataSource): DataDirLock | undefined {
+  return locks.get(dataSource);
 }
 
 /**
@@ -32,11 +40,18 @@ export function createDataSource(config: Pick<AppConfig, 'DATABASE_URL' | 'LEADL
   }
   const dir = config.LEADLINE_DATA_DIR;
   const dataDir = dir.startsWith('memory://') ? dir : resolve(dir);
-  if (!dir.startsWith('memory://')) mkdirSync(dataDir, { recursive: true });
+  // A folder is opened by one process only: the lock is taken before PGlite touches the folder.
+  let lock: DataDirLock | undefined;
+  if (!dir.startsWith('memory://')) {
+    mkdirSync(dataDir, { recursive: true });
+    lock = lockDataDir(dataDir);
+  }
   const options: DataSourceOptions = {
     ...common,
     driver: new PGliteDriver({ dataDir }).driver,
     installExtensions: false,
   } as DataSourceOptions;
-  return { dataSource: new DataSource(options), embedded: true };
+  const dataSource = new DataSource(options);
+  if (lock) locks.set(dataSource, lock);
+  return { dataSource, embedded: true };
 }

@@ -4,8 +4,10 @@ import { DataSource } from 'typeorm';
 import type { AppConfig } from '../config';
 import { createDataSource } from './data-source';
 import { Database } from './database.service';
+import { migrateServer, warnIfPrivileged } from './migrate';
+import { EmbeddedStatistics } from './statistics';
 
-/** TypeORM data source (PostgreSQL or PGlite), migrations run on start-up, and the Database door. */
+/** TypeORM data source (PostgreSQL or PGlite), migrations run on start-up (as the owner role on PostgreSQL), and the Database door. */
 @Global()
 @Module({})
 export class DatabaseModule {
@@ -17,13 +19,16 @@ export class DatabaseModule {
         TypeOrmModule.forRootAsync({
           useFactory: () => choice.dataSource.options,
           dataSourceFactory: async () => {
+            // PostgreSQL: migrate as the owner role on a connection of its own, then connect as the runtime role
+            if (!choice.embedded) await migrateServer(config);
             await choice.dataSource.initialize();
-            await choice.dataSource.runMigrations({ transaction: 'each' });
+            if (choice.embedded) await choice.dataSource.runMigrations({ transaction: 'each' });
+            else await warnIfPrivileged(choice.dataSource);
             return choice.dataSource;
           },
         }),
       ],
-      providers: [{ provide: Database, inject: [DataSource], useFactory: (ds: DataSource) => new Database(ds, choice.embedded) }],
+      providers: [{ provide: Database, inject: [DataSource], useFactory: (ds: DataSource) => new Database(ds, choice.embedded) }, EmbeddedStatistics],
       exports: [Database],
     };
   }

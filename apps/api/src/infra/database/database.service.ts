@@ -7,6 +7,7 @@
  */
 import { Injectable, OnApplicationShutdown } from '@nestjs/common';
 import { DataSource, type QueryRunner } from 'typeorm';
+import { dataDirLockOf } from './data-source';
 
 /** What a transaction body may do: run statements on its own connection. */
 export interface Queryer {
@@ -73,6 +74,11 @@ export class Database implements OnApplicationShutdown {
   }
 
   async onApplicationShutdown(): Promise<void> {
-    if (this.dataSource.isInitialized) await this.dataSource.destroy();
+    try {
+      if (this.dataSource.isInitialized) await this.dataSource.destroy();
+    } finally {
+      // The embedded folder is free for the next process only once PGlite has closed it
+      dataDirLockOf(this.dataSource)?.release();
+    }
   }
 }

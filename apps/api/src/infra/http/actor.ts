@@ -1,8 +1,21 @@
 import { createParamDecorator, type ExecutionContext } from '@nestjs/common';
 import type { Actor } from '@leadline/contracts';
 
-/** The authenticated caller, as the identities guard left it on the request (null when unauthenticated). */
+/**
+ * The authenticated caller, as the identities guard left it on the request (null when unauthenticated).
+ * It carries the id of the bearer token used as a non-enumerable `tokenId`, so the record store can hash and
+ * store it with the event while the actor itself, wherever it is stored or returned, stays { id, name }.
+ */
 export const CurrentActor = createParamDecorator((_: unknown, ctx: ExecutionContext): Actor | null => {
-  const req = ctx.switchToHttp().getRequest<{ actor?: Actor }>();
-  return req.actor ?? null;
+  const req = ctx.switchToHttp().getRequest<{ actor?: Actor; principal?: { tokenId?: string; roles?: string[] } }>();
+  if (!req.actor) return null;
+  const actor = { id: req.actor.id, name: req.actor.name };
+  Object.defineProperty(actor, 'tokenId', { value: req.principal?.tokenId ?? null, enumerable: false });
+  return actor;
+});
+
+/** The roles of the authenticated caller (empty when unauthenticated). */
+export const CurrentRoles = createParamDecorator((_: unknown, ctx: ExecutionContext): string[] => {
+  const req = ctx.switchToHttp().getRequest<{ principal?: { roles?: string[] } }>();
+  return req.principal?.roles ?? [];
 });

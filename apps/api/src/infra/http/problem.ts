@@ -4,7 +4,7 @@
  */
 import { ArgumentsHost, Catch, ExceptionFilter, HttpException, HttpStatus, Logger } from '@nestjs/common';
 import type { FastifyReply, FastifyRequest } from 'fastify';
-import type { FieldIssue } from '@leadline/contracts';
+import { findTextIssues, type FieldIssue } from '@leadline/contracts';
 import type { ZodType } from 'zod';
 
 export interface Problem {
@@ -41,6 +41,9 @@ const TYPE_BASE = 'https://leadline.invalid/problems/';
 
 /** Validates a request part with a zod schema; field paths are prefixed (e.g. "design."). */
 export function validate<T>(schema: ZodType<T>, value: unknown, prefix = ''): T {
+  // Text that cannot be stored is refused here too (callers outside HTTP, e.g. the seed)
+  const textIssues = findTextIssues(value, prefix);
+  if (textIssues.length > 0) throw new ValidationProblem(textIssues);
   const r = schema.safeParse(value);
   if (r.success) return r.data;
   throw new ValidationProblem(
@@ -62,6 +65,8 @@ export class ProblemFilter implements ExceptionFilter {
       const err = exception instanceof Error ? exception : new Error(String(exception));
       this.logger.error(`unhandled error: ${err.message}`, err.stack);
     }
+    // 429 and 503 say when to come back (RFC 9110 Retry-After, in seconds)
+    if (typeof problem.retryAfter === 'number') reply.header('retry-after', String(Math.max(1, Math.ceil(problem.retryAfter))));
     reply.status(problem.status).header('content-type', 'application/problem+json').send(problem);
   }
 }

@@ -1,7 +1,7 @@
 import { createServer, type Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { existsSync } from 'node:fs';
-import { PdfRenderer } from './browser-pool';
+import { PdfBusyError, PdfCancelledError, PdfRenderer } from './browser-pool';
 import { pdfText } from '../../../../../test/support/pdf-text';
 
 const CHROMIUM = '/usr/bin/chromium';
@@ -116,5 +116,88 @@ describe('PdfRenderer (real Chromium)', () => {
     await own.close();
     await expect(own.render(page('closed'), { format: 'A4', headerLabel: 'x' })).rejects.toThrow(/closed/);
     expect(own.browserLaunches).toBe(0);
+  });
+});
+
+describe('PdfRenderer queue: bounded length and wait, cancelled work (real Chromium)', () => {
+  let renderer: PdfRenderer;
+  afterEach(() => renderer?.close());
+
+  /** Holds a page until released: a render that takes as long as the test wants, without timing anything. */
+  function hold(r: PdfRenderer) {
+    let release!: () => void;
+    const gate = new Promise<void>((done) => (release = done));
+    const done = r.withPage(() => gate);
+    return { release, done };
+  }
+  const until = async (cond: () => boolean) => {
+    while (!cond()) await new Promise((r) => setTimeout(r, 10));
+  };
+
+  it('refuses a request beyond the queue limit with PdfBusyError and a Retry-After estimate', async () => {
+    renderer = new PdfRenderer({ executablePath: CHROMIUM, pageCount: 1, queueLimit: 1 });
+    const busy = hold(renderer);
+    await until(() => renderer.full === false && renderer.queued === 0);
+    const waiting = renderer.render(page('queued'), { format: 'A4', headerLabel: 'q' });
+    await until(() => renderer.queued === 1);
+    expect(renderer.full).toBe(true);
+    const refused = await renderer.render(page('refused'), { format: 'A4', headerLabel: 'r' }).catch((e) => e);
+    expect(refused).toBeInstanceOf(PdfBusyError);
+    expect(refused).toMatchObject({ reason: 'queue-full' });
+    expect(refused.retryAfterSeconds).toBeGreaterThanOrEqual(1);
+    busy.release();
+    await busy.done;
+    expect((await pdfText(await waiting)).text).toContain('Body text of queued');
+  });
+
+  it('gives up waiting after the wait limit with PdfBusyError', async () => {
+    renderer = new PdfRenderer({ executablePath: CHROMIUM, pageCount: 1, queueLimit: 4, queueWaitMs: 100 });
+    const busy = hold(renderer);
+    const waited = await renderer.render(page('late'), { format: 'A4', headerLabel: 'l' }).catch((e) => e);
+    expect(waited).toBeInstanceOf(PdfBusyError);
+    expect(waited).toMatchObject({ reason: 'wait-exceeded' });
+    expect(renderer.queued).toBe(0);
+    busy.release();
+    await busy.done;
+  });
+
+  it('drops a waiting request whose caller went away, and stops a render mid-way without killing the browser', async () => {
+    renderer = new PdfRenderer({ executablePath: CHROMIUM, pageCount: 1, queueLimit: 4 });
+    const busy = hold(renderer);
+    const gone = new AbortController();
+    const waiting = renderer.render(page('abandoned'), { format: 'A4', headerLabel: 'a', signal: gone.signal }).catch((e) => e);
+    await until(() => renderer.queued === 1);
+    gone.abort();
+    expect(await waiting).toBeInstanceOf(PdfCancelledError);
+    expect(renderer.queued).toBe(0);
+    busy.release();
+    await busy.done;
+    // mid-render: the page is closed when the signal fires
+    const midway = new AbortController();
+    const pid = renderer.pid;
+    let entered!: () => void;
+    const inWork = new Promise<void>((r) => (entered = r));
+    const stopped = renderer
+      .withPage(async (p) => {
+        entered();
+        await new Promise<void>((resolve) => p.once('close', () => resolve()));
+        return 'finished';
+      }, midway.signal)
+      .catch((e) => e);
+    await inWork;
+    midway.abort();
+    expect(await stopped).toBeInstanceOf(PdfCancelledError);
+    expect(renderer.cancelled).toBe(2);
+    // the browser lives on and renders the next request
+    expect((await pdfText(await renderer.render(page('after'), { format: 'A4', headerLabel: 'x' }))).text).toContain('Body text of after');
+    expect(renderer.pid).toBe(pid);
+    expect(renderer.browserLaunches).toBe(1);
+  });
+
+  it('keeps the sandbox unless told otherwise or running as root', () => {
+    const asRoot = process.getuid?.() === 0;
+    expect(new PdfRenderer({ executablePath: CHROMIUM, sandbox: true }).launchArgs()).not.toContain('--no-sandbox');
+    expect(new PdfRenderer({ executablePath: CHROMIUM, sandbox: false }).launchArgs()).toContain('--no-sandbox');
+    expect(new PdfRenderer({ executablePath: CHROMIUM }).launchArgs().includes('--no-sandbox')).toBe(asRoot);
   });
 });

@@ -9,10 +9,12 @@
  */
 import puppeteer, { type Browser, type HTTPRequest, type Page } from 'puppeteer-core';
 
-/** Launch flags for Debian's chromium in a container (see docs/STACK-NOTES: never download a browser). */
-export const CHROMIUM_FLAGS: readonly string[] = [
+/**
+ * Launch flags for Debian's chromium in a container (see docs/STACK-NOTES: never download a browser).
+ * `--no-sandbox` is added only where the sandbox cannot run (as root, or LEADLINE_CHROMIUM_SANDBOX=false).
+ */
+export const CHROMIUM_BASE_FLAGS: readonly string[] = [
   '--headless',
-  '--no-sandbox',
   '--disable-gpu',
   '--disable-dev-shm-usage',
   '--disable-background-networking',
@@ -21,6 +23,9 @@ export const CHROMIUM_FLAGS: readonly string[] = [
   '--no-first-run',
 ];
 
+/** The flags for this process by default: the sandbox is kept unless running as root (where Chromium refuses it). */
+export const CHROMIUM_FLAGS: readonly string[] = [...CHROMIUM_BASE_FLAGS, ...(process.getuid?.() === 0 ? ['--no-sandbox'] : [])];
+
 export interface PdfRendererOptions {
   /** Chromium binary, e.g. /usr/bin/chromium */
   readonly executablePath: string;
@@ -28,6 +33,37 @@ export interface PdfRendererOptions {
   readonly pageCount?: number;
   /** Timeout of one page operation (setContent, pdf) [ms], default 30 000 */
   readonly timeoutMs?: number;
+  /** Requests that may wait for a free page; one more is refused with PdfBusyError (default unbounded) */
+  readonly queueLimit?: number;
+  /** Longest wait for a free page before PdfBusyError [ms] (default unbounded) */
+  readonly queueWaitMs?: number;
+  /**
+   * Chromium's sandbox: true keeps it (launch fails where the kernel or root forbids it), false adds --no-sandbox,
+   * 'auto' (default) keeps it unless running as root, and falls back to --no-sandbox if a sandboxed launch fails.
+   */
+  readonly sandbox?: boolean | 'auto';
+}
+
+/** The pool cannot take the request now: its queue is full or the wait ran out. Try again after `retryAfterSeconds`. */
+export class PdfBusyError extends Error {
+  constructor(
+    readonly reason: 'queue-full' | 'wait-exceeded',
+    readonly retryAfterSeconds: number,
+  ) {
+    super(reason === 'queue-full' ? 'the PDF queue is full' : 'no page became free in time');
+  }
+}
+
+/** The caller gave up (its AbortSignal fired, e.g. the client disconnected): the work was not done or was stopped. */
+export class PdfCancelledError extends Error {
+  constructor() {
+    super('the PDF request was cancelled');
+  }
+}
+
+interface Waiter {
+  wake(): void;
+  fail(err: Error): void;
 }
 
 export interface PdfRenderOptions {
@@ -36,6 +72,8 @@ export interface PdfRenderOptions {
   readonly headerLabel: string;
   /** Printed at the bottom left of every page (a caution line, for instance) */
   readonly footerNote?: string;
+  /** Abandons the request: removed from the queue, or its page closed mid-render (PdfCancelledError) */
+  readonly signal?: AbortSignal;
 }
 
 /** Page margins; the running header and footer are drawn inside the top and bottom margins. */
@@ -72,14 +110,51 @@ export class PdfRenderer {
   private launching: Promise<Browser> | null = null;
   private idle: Page[] = [];
   private slotsInUse = 0;
-  private readonly waiting: (() => void)[] = [];
+  private readonly waiting: Waiter[] = [];
+  private readonly queueLimit: number;
+  private readonly queueWaitMs: number;
+  private readonly sandboxMode: boolean | 'auto';
+  private sandboxFailed = false;
+  private sandboxedLaunch: boolean | null = null;
   private launches = 0;
   private closed = false;
+  private cancellations = 0;
+  /** Running mean of one job's duration [ms], for Retry-After */
+  private meanJobMs = 2000;
 
   constructor(options: PdfRendererOptions) {
     this.executablePath = options.executablePath;
     this.pageCount = Math.max(1, Math.floor(options.pageCount ?? 2));
     this.timeoutMs = options.timeoutMs ?? 30_000;
+    this.queueLimit = Math.max(0, Math.floor(options.queueLimit ?? Number.POSITIVE_INFINITY));
+    this.queueWaitMs = options.queueWaitMs ?? Number.POSITIVE_INFINITY;
+    this.sandboxMode = options.sandbox ?? 'auto';
+  }
+
+  /** Whether the current browser runs with Chromium's sandbox (null before the first launch). */
+  get sandboxed(): boolean | null {
+    return this.sandboxedLaunch;
+  }
+
+  /** The flags the next launch uses. */
+  launchArgs(): string[] {
+    const keep = this.sandboxMode === true || (this.sandboxMode === 'auto' && !this.sandboxFailed && process.getuid?.() !== 0);
+    return [...CHROMIUM_BASE_FLAGS, ...(keep ? [] : ['--no-sandbox'])];
+  }
+
+  /** Requests given up by their caller (while waiting or mid-render). */
+  get cancelled(): number {
+    return this.cancellations;
+  }
+
+  /** Whether a request arriving now would be refused because the queue is full (check before costly preparation). */
+  get full(): boolean {
+    return this.slotsInUse >= this.pageCount && this.waiting.length >= this.queueLimit;
+  }
+
+  /** Seconds after which a refused request may expect a free page. */
+  retryAfterSeconds(): number {
+    return Math.max(1, Math.ceil((this.meanJobMs * (this.waiting.length / this.pageCount + 1)) / 1000));
   }
 
   /** How many times a browser was launched (1 unless one crashed). */
@@ -111,7 +186,7 @@ export class PdfRenderer {
         timeout: this.timeoutMs,
       });
       return Buffer.from(pdf);
-    });
+    }, options.signal);
   }
 
   /**
@@ -119,29 +194,52 @@ export class PdfRenderer {
    * when all are busy. If the browser dies during `work`, `work` runs once more on a fresh browser, so it
    * must be safe to repeat. For tests and benchmarks; leave the page as you found it (viewport, content).
    */
-  async withPage<T>(work: (page: Page) => Promise<T>): Promise<T> {
+  async withPage<T>(work: (page: Page) => Promise<T>, signal?: AbortSignal): Promise<T> {
     this.assertOpen();
-    await this.acquireSlot();
+    if (signal?.aborted) throw this.cancel();
+    await this.acquireSlot(signal);
+    const started = Date.now();
     try {
       for (let attempt = 0; ; attempt++) {
         this.assertOpen();
+        if (signal?.aborted) throw this.cancel();
         const page = await this.takePage();
+        if (signal?.aborted) {
+          this.returnPage(page);
+          throw this.cancel();
+        }
+        // A caller that goes away mid-render closes its page: Chromium stops, the slot frees at once.
+        const stop = () => void page.close().catch(() => undefined);
+        signal?.addEventListener('abort', stop, { once: true });
         try {
           const result = await work(page);
+          if (signal?.aborted) throw new PdfCancelledError();
           this.returnPage(page);
           return result;
         } catch (err) {
+          if (signal?.aborted) {
+            await page.close().catch(() => undefined);
+            throw this.cancel();
+          }
           const browser = page.browser();
           const gone = !browser.connected || page.isClosed() || this.processExited(browser);
           if (gone) this.forget(browser);
           else await page.close().catch(() => undefined);
           if (gone && attempt === 0 && !this.closed) continue;
           throw err;
+        } finally {
+          signal?.removeEventListener('abort', stop);
         }
       }
     } finally {
+      this.meanJobMs = 0.8 * this.meanJobMs + 0.2 * (Date.now() - started);
       this.releaseSlot();
     }
+  }
+
+  private cancel(): PdfCancelledError {
+    this.cancellations++;
+    return new PdfCancelledError();
   }
 
   /** Closes the browser; later renders are refused. */
@@ -150,7 +248,7 @@ export class PdfRenderer {
     const browser = this.browser ?? (await this.launching?.catch(() => null)) ?? null;
     this.browser = null;
     this.idle = [];
-    for (const wake of this.waiting.splice(0)) wake();
+    for (const waiter of this.waiting.splice(0)) waiter.wake();
     if (browser) await browser.close().catch(() => browser.process()?.kill('SIGKILL'));
   }
 
@@ -160,18 +258,41 @@ export class PdfRenderer {
     if (this.closed) throw new Error('PdfRenderer is closed');
   }
 
-  private async acquireSlot(): Promise<void> {
+  private async acquireSlot(signal?: AbortSignal): Promise<void> {
     if (this.slotsInUse < this.pageCount) {
       this.slotsInUse++;
       return;
     }
+    if (this.waiting.length >= this.queueLimit) throw new PdfBusyError('queue-full', this.retryAfterSeconds());
     // The releasing request hands its slot over directly, so the count stays put.
-    await new Promise<void>((wake) => this.waiting.push(wake));
+    await new Promise<void>((resolve, reject) => {
+      let timer: NodeJS.Timeout | undefined;
+      const leave = () => {
+        const i = this.waiting.indexOf(waiter);
+        if (i >= 0) this.waiting.splice(i, 1);
+        if (timer) clearTimeout(timer);
+        signal?.removeEventListener('abort', onAbort);
+      };
+      const waiter: Waiter = {
+        wake: () => {
+          leave();
+          resolve();
+        },
+        fail: (err) => {
+          leave();
+          reject(err);
+        },
+      };
+      const onAbort = () => waiter.fail(this.cancel());
+      if (Number.isFinite(this.queueWaitMs)) timer = setTimeout(() => waiter.fail(new PdfBusyError('wait-exceeded', this.retryAfterSeconds())), this.queueWaitMs);
+      signal?.addEventListener('abort', onAbort, { once: true });
+      this.waiting.push(waiter);
+    });
   }
 
   private releaseSlot(): void {
     const next = this.waiting.shift();
-    if (next) next();
+    if (next) next.wake();
     else this.slotsInUse = Math.max(0, this.slotsInUse - 1);
   }
 
@@ -189,12 +310,25 @@ export class PdfRenderer {
   }
 
   private async launch(): Promise<Browser> {
-    const browser = await puppeteer.launch({
-      executablePath: this.executablePath,
-      headless: true,
-      args: [...CHROMIUM_FLAGS],
-      protocolTimeout: Math.max(this.timeoutMs * 2, 60_000),
-    });
+    const args = this.launchArgs();
+    const sandboxed = !args.includes('--no-sandbox');
+    let browser: Browser;
+    try {
+      browser = await puppeteer.launch({
+        executablePath: this.executablePath,
+        headless: true,
+        args,
+        protocolTimeout: Math.max(this.timeoutMs * 2, 60_000),
+      });
+    } catch (err) {
+      // 'auto': the kernel refused the sandbox (no user namespaces, seccomp): run without it rather than not at all
+      if (this.sandboxMode === 'auto' && sandboxed) {
+        this.sandboxFailed = true;
+        return this.launch();
+      }
+      throw err;
+    }
+    this.sandboxedLaunch = sandboxed;
     this.launches++;
     browser.once('disconnected', () => this.forget(browser));
     if (this.closed) {

@@ -1,0 +1,131 @@
+/**
+ * Signed checkpoints: the service signs { product, seq, head hash, time } of a product's chain with an Ed25519
+ * key kept outside the database (the idea of a certificate-transparency signed tree head). Whoever keeps a
+ * checkpoint (a printed report, a decision's response, a log) can later ask whether the chain still contains
+ * that link with that hash: a chain rewound or rewritten by someone who can write the database, but does not
+ * hold the key, no longer matches what was signed.
+ */
+import { Inject, Injectable, Logger, OnModuleInit } from '@nestjs/common';
+import canonicalize from 'canonicalize';
+import { z } from 'zod';
+import { APP_CONFIG, type AppConfig } from '../infra/config';
+import { Database } from '../infra/database/database.service';
+import { notFound, validate } from '../infra/http/problem';
+import { checkUuid } from '../products/products.service';
+import { TS_TEXT } from '../records/chain';
+import { RecordStore, type ChainVerification } from '../records/record-store';
+import { SigningKey } from './signing-key';
+
+export const CHECKPOINT_ALGORITHM = 'Ed25519';
+
+export const checkpointSchema = z.strictObject({
+  productId: z.string().uuid(),
+  seq: z.number().int().min(1),
+  headHash: z.string().regex(/^[0-9a-f]{64}$/, 'a SHA-256 hash, 64 lower-case hex digits'),
+  time: z.string().min(1).max(40),
+  algorithm: z.literal(CHECKPOINT_ALGORITHM).optional(),
+  keyId: z.string().regex(/^[0-9a-f]{64}$/).optional(),
+  signature: z.string().min(1).max(200).describe('base64 Ed25519 signature over the canonical JSON of the signed fields'),
+});
+
+export type Checkpoint = z.output<typeof checkpointSchema> & { algorithm: typeof CHECKPOINT_ALGORITHM; keyId: string };
+
+/**
+ * The bytes that are signed: RFC 8785 canonical JSON of the checkpoint's fields, tagged so a checkpoint signature
+ * can never be mistaken for a signature over anything else.
+ */
+export function signedText(c: { productId: string; seq: number; headHash: string; time: string }): string {
+  return canonicalize({ type: 'leadline-checkpoint', productId: c.productId, seq: c.seq, headHash: c.headHash, time: c.time }) as string;
+}
+
+export interface CheckpointVerification {
+  /** the signature is ours and the current chain still contains that link with that hash, every link up to it intact */
+  valid: boolean;
+  signatureValid: boolean;
+  /** the checkpoint names our key (false: signed by another key, or a key this service no longer holds) */
+  keyMatches: boolean;
+  /** a link with that seq and that hash is in the chain, at or below its current head */
+  linkPresent: boolean;
+  storedHash: string | null;
+  currentHead: { seq: number; hash: string | null } | null;
+  /** the links 1..seq recomputed (GET /products/:id/verify checks the rest: the head and the derived tables) */
+  chain: ChainVerification | null;
+  reason: string | null;
+}
+
+@Injectable()
+export class CheckpointsService implements OnModuleInit {
+  private readonly logger = new Logger('checkpoints');
+  readonly key: SigningKey;
+  private readonly embedded: boolean;
+
+  constructor(
+    private readonly db: Database,
+    private readonly records: RecordStore,
+    @Inject(APP_CONFIG) config: AppConfig,
+  ) {
+    this.key = SigningKey.load(config.LEADLINE_SIGNING_KEY_FILE, config.LEADLINE_DATA_DIR);
+    this.embedded = !config.DATABASE_URL;
+  }
+
+  onModuleInit(): void {
+    const { origin, path } = this.key.source;
+    if (origin === 'memory') this.logger.warn('checkpoints are signed with a key held in memory only (in-memory data folder): they cannot be verified after a restart');
+    else if (origin === 'generated' && !this.embedded) {
+      this.logger.warn(`no LEADLINE_SIGNING_KEY_FILE: generated the checkpoint signing key ${path}; keep a copy outside this host, or give a key file`);
+    } else if (origin === 'generated') this.logger.log(`generated the checkpoint signing key ${path}`);
+  }
+
+  /** Signs a link of a product's chain. */
+  sign(productId: string, seq: number, headHash: string, time: string): Checkpoint {
+    const fields = { productId, seq, headHash, time };
+    return { ...fields, algorithm: CHECKPOINT_ALGORITHM, keyId: this.key.keyId, signature: this.key.sign(signedText(fields)) };
+  }
+
+  /** Signs the product's current head, at the database's time. */
+  async signHead(productId: string, time?: string): Promise<Checkpoint> {
+    const rows = await this.db.query<{ seq: string; hash: string; now: string }>(
+      `SELECT seq, hash, ${TS_TEXT('now()')} AS now FROM chain_heads WHERE product_id = $1`,
+      [checkUuid(productId, 'product')],
+    );
+    if (rows.length === 0) throw notFound(`product ${productId}`);
+    return this.sign(productId, Number(rows[0].seq), rows[0].hash, time ?? rows[0].now);
+  }
+
+  /** The checkpoint after a decision: its event is the head it signs. */
+  afterDecision(productId: string, seq: number, hash: string, time: string): Checkpoint {
+    const checkpoint = this.sign(productId, seq, hash, time);
+    this.logger.log(`checkpoint ${JSON.stringify(checkpoint)}`);
+    return checkpoint;
+  }
+
+  async verify(body: unknown): Promise<CheckpointVerification> {
+    const c = validate(checkpointSchema, body);
+    const signatureValid = this.key.verify(signedText(c), c.signature);
+    const keyMatches = c.keyId === undefined || c.keyId === this.key.keyId;
+    const head = await this.db.query<{ seq: string; hash: string }>(`SELECT seq, hash FROM chain_heads WHERE product_id = $1`, [c.productId]);
+    if (head.length === 0) {
+      return { valid: false, signatureValid, keyMatches, linkPresent: false, storedHash: null, currentHead: null, chain: null, reason: 'the product has no chain here' };
+    }
+    const currentHead = { seq: Number(head[0].seq), hash: head[0].hash || null };
+    const [link] = await this.db.query<{ hash: string }>(
+      `SELECT hash FROM revisions WHERE product_id = $1 AND seq = $2 UNION ALL SELECT hash FROM events WHERE product_id = $1 AND seq = $2`,
+      [c.productId, c.seq],
+    );
+    const storedHash = link?.hash ?? null;
+    const linkPresent = storedHash === c.headHash && c.seq <= currentHead.seq;
+    const chain = linkPresent ? await this.records.verify(c.productId, undefined, c.seq) : null;
+    const reason = !signatureValid
+      ? 'the signature does not verify with this service\'s key'
+      : !keyMatches
+        ? 'the checkpoint names another signing key'
+        : storedHash === null || c.seq > currentHead.seq
+          ? `the chain no longer contains link ${c.seq} (its head is at ${currentHead.seq}): it was rewound`
+          : storedHash !== c.headHash
+            ? `link ${c.seq} of the chain now has another hash: the chain was rewritten`
+            : chain && !chain.valid
+              ? `the chain contains the link but a link up to it does not verify: ${chain.firstBrokenLink?.reason}`
+              : null;
+    return { valid: reason === null, signatureValid, keyMatches, linkPresent, storedHash, currentHead, chain, reason };
+  }
+}

@@ -1,0 +1,77 @@
+/**
+ * Migrations and least privilege on PostgreSQL. The migrations run as the owner role
+ * (LEADLINE_MIGRATION_DATABASE_URL, default DATABASE_URL); afterwards the runtime role the service connects as is
+ * granted SELECT and INSERT on every table and EXECUTE on the functions, nothing else: without ownership it cannot
+ * ALTER, DROP, TRUNCATE or disable a trigger, and without UPDATE it moves chain heads only through the SECURITY
+ * DEFINER functions of migrations/20261202100100. The grants are repeated on every start, so tables added by later
+ * migrations are covered too.
+ */
+import { Logger } from '@nestjs/common';
+import { DataSource } from 'typeorm';
+import { MIGRATIONS } from '../../../../../migrations';
+import type { AppConfig } from '../config';
+
+export const MIGRATIONS_TABLE = 'schema_migrations';
+
+type MigrationConfig = Pick<AppConfig, 'DATABASE_URL' | 'LEADLINE_MIGRATION_DATABASE_URL' | 'LEADLINE_RUNTIME_ROLE'>;
+
+/** The role to grant to: configured, or the user of DATABASE_URL when migrations have their own URL. */
+export function runtimeRole(config: MigrationConfig): string | null {
+  if (config.LEADLINE_RUNTIME_ROLE) return config.LEADLINE_RUNTIME_ROLE;
+  if (config.LEADLINE_MIGRATION_DATABASE_URL && config.DATABASE_URL) return decodeURIComponent(new URL(config.DATABASE_URL).username) || null;
+  return null;
+}
+
+const ident = (name: string) => `"${name.replace(/"/g, '""')}"`;
+
+/** Runs every pending migration as the owner role and grants the runtime role what it needs, and only that. */
+export async function migrateServer(config: MigrationConfig, logger = new Logger('database')): Promise<void> {
+  if (!config.LEADLINE_MIGRATION_DATABASE_URL) {
+    logger.warn(
+      'LEADLINE_MIGRATION_DATABASE_URL is not set: migrations run as the service\'s own database role (single-user setup). ' +
+        'That role owns the record tables and could disable their triggers; for production give the migrations an owner role ' +
+        'and the service a runtime role with SELECT and INSERT only (docs/reliability.md, "Security and tamper evidence").',
+    );
+  }
+  const owner = new DataSource({
+    type: 'postgres',
+    url: config.LEADLINE_MIGRATION_DATABASE_URL ?? config.DATABASE_URL,
+    migrations: MIGRATIONS,
+    migrationsTableName: MIGRATIONS_TABLE,
+    poolSize: 1,
+    logging: false,
+  });
+  await owner.initialize();
+  try {
+    await owner.runMigrations({ transaction: 'each' });
+    const role = runtimeRole(config);
+    const [{ current_user: me }] = await owner.query(`SELECT current_user`);
+    if (role && role !== me) await grantRuntime(owner, role);
+  } finally {
+    await owner.destroy();
+  }
+}
+
+/** SELECT and INSERT on the record tables, EXECUTE on the chain functions; everything else revoked. */
+export async function grantRuntime(q: { query(sql: string): Promise<unknown> }, role: string): Promise<void> {
+  const r = ident(role);
+  await q.query(`GRANT USAGE ON SCHEMA public TO ${r}`);
+  await q.query(`REVOKE ALL ON ALL TABLES IN SCHEMA public FROM ${r}`);
+  await q.query(`GRANT SELECT, INSERT ON ALL TABLES IN SCHEMA public TO ${r}`);
+  await q.query(`REVOKE ALL ON ${MIGRATIONS_TABLE} FROM ${r}`);
+  await q.query(`GRANT EXECUTE ON ALL FUNCTIONS IN SCHEMA public TO ${r}`);
+}
+
+/** Warns when the service's own connection is a superuser or owns the record tables (it could then rewrite them). */
+export async function warnIfPrivileged(q: { query(sql: string): Promise<{ superuser: boolean; owner: boolean }[]> }, logger = new Logger('database')): Promise<void> {
+  const [me] = await q.query(
+    `SELECT r.rolsuper AS superuser, coalesce(pg_has_role(current_user, t.tableowner, 'USAGE'), false) AS owner
+       FROM pg_roles r LEFT JOIN pg_tables t ON t.schemaname = 'public' AND t.tablename = 'revisions' WHERE r.rolname = current_user`,
+  );
+  if (me?.superuser || me?.owner) {
+    logger.warn(
+      `the service connects as a role that ${me.superuser ? 'is a database superuser' : 'owns the record tables'}: it could disable the insert-only ` +
+        'triggers. Connect DATABASE_URL as a runtime role and run migrations as the owner (LEADLINE_MIGRATION_DATABASE_URL).',
+    );
+  }
+}

@@ -1,0 +1,123 @@
+/**
+ * Attacks on token lifetime and on who may act as whom:
+ * - a token kept from long ago still works: every token now expires (401 after its expiry, cache included);
+ * - demo tokens (admin included) were minted and printed on every start: now only into an empty database, short-lived,
+ *   or with an explicit flag;
+ * - an admin minting a token for a reviewer left no trace: issuing tokens and granting roles are audited events
+ *   (insert-only, with the acting user and the token they used).
+ */
+import { randomBytes, randomUUID } from 'node:crypto';
+import { hashToken } from '../../apps/api/src/identities/identities.service';
+import { seedDemo } from '../../apps/api/src/seed/demo-seed';
+import { startTestApp, type TestApp } from '../support/harness';
+
+let t: TestApp;
+beforeAll(async () => (t = await startTestApp('postgres', { LEADLINE_TOKEN_TTL_DAYS: '90', LEADLINE_DEMO_TOKEN_TTL_HOURS: '12' })));
+afterAll(() => t?.close());
+
+const DAY = 86_400_000;
+const asToken = (token: string) => ({ as: 'anonymous' as const, headers: { authorization: `Bearer ${token}` } });
+let ip = 0;
+const get = (token: string) => t.call('GET', '/api/v1/products', undefined, { ...asToken(token), ip: `192.0.2.${++ip}` });
+
+describe('token expiry', () => {
+  it('answers 401 once a token has expired, although it answered 200 just before (the cache never outlives the expiry)', async () => {
+    const expiresAt = new Date(Date.now() + 3000).toISOString();
+    const issued = await t.call('POST', `/api/v1/users/${t.users.reviewer}/tokens`, { label: 'short', expiresAt }, { as: 'admin' });
+    expect(issued.status).toBe(201);
+    expect(issued.body.expiresAt).toBe(expiresAt);
+    expect((await get(issued.body.token)).status).toBe(200);
+    await new Promise((r) => setTimeout(r, Math.max(0, Date.parse(expiresAt) - Date.now()) + 300));
+    const after = await get(issued.body.token);
+    expect(after.status).toBe(401);
+    expect(after.body.detail).toMatch(/expired/);
+  });
+
+  it('refuses an expired token stored long ago, and a token without a stored expiry once it is older than LEADLINE_TOKEN_TTL_DAYS', async () => {
+    const insert = async (createdDaysAgo: number, expiresDaysAgo: number | null) => {
+      const token = `ll_${randomBytes(32).toString('base64url')}`;
+      await t.db.query(
+        `INSERT INTO tokens (id, user_id, token_hash, label, created_at, expires_at)
+         VALUES ($1, $2, $3, 'old', now() - make_interval(days => $4::int), CASE WHEN $5::int IS NULL THEN NULL ELSE now() - make_interval(days => $5::int) END)`,
+        [randomUUID(), t.users.author, hashToken(token), createdDaysAgo, expiresDaysAgo],
+      );
+      return token;
+    };
+    expect((await get(await insert(30, 1))).status).toBe(401); // expired yesterday
+    expect((await get(await insert(91, null))).status).toBe(401); // issued before expiries were stored, 91 days ago
+    expect((await get(await insert(1, null))).status).toBe(200); // same, but only a day old
+  });
+
+  it('gives every issued token an expiry: the default lifetime, or a shorter one asked for; never past the maximum', async () => {
+    const before = Date.now();
+    const issued = await t.call('POST', `/api/v1/users/${t.users.author}/tokens`, {}, { as: 'admin' });
+    const expires = Date.parse(issued.body.expiresAt);
+    expect(expires).toBeGreaterThanOrEqual(before + 90 * DAY - 1000);
+    expect(expires).toBeLessThanOrEqual(Date.now() + 90 * DAY + 1000);
+    const week = await t.call('POST', `/api/v1/users/${t.users.author}/tokens`, { expiresInDays: 7 }, { as: 'admin' });
+    expect(Date.parse(week.body.expiresAt)).toBeLessThanOrEqual(Date.now() + 7 * DAY + 1000);
+    const listed = await t.call('GET', `/api/v1/users/${t.users.author}/tokens`, undefined, { as: 'admin' });
+    expect(listed.body.items.find((x: { id: string }) => x.id === week.body.id)).toMatchObject({ expired: false, revoked: false, expiresAt: expect.any(String) });
+    const bad = [
+      { expiresInDays: 3651 },
+      { expiresAt: new Date(Date.now() - 1000).toISOString() },
+      { expiresAt: new Date(Date.now() + 3651 * DAY).toISOString() },
+      { expiresInDays: 1, expiresAt: new Date(Date.now() + DAY).toISOString() },
+    ];
+    for (const body of bad) {
+      const res = await t.call('POST', `/api/v1/users/${t.users.author}/tokens`, body, { as: 'admin' });
+      expect(res.status).toBe(422);
+      expect(res.body.errors[0].path).toMatch(/expires/);
+    }
+  });
+});
+
+describe('user-level audit [GET /api/v1/identity-events]', () => {
+  it('records a token issued for another user, with the admin and the admin token that issued it', async () => {
+    const [adminToken] = await t.db.query<{ id: string }>(`SELECT id FROM tokens WHERE token_hash = $1`, [hashToken(t.tokens.admin)]);
+    const issued = await t.call('POST', `/api/v1/users/${t.users.reviewer}/tokens`, { label: 'for the checker' }, { as: 'admin' });
+    const events = await t.call('GET', `/api/v1/identity-events?user=${t.users.reviewer}`, undefined, { as: 'admin' });
+    expect(events.status).toBe(200);
+    const event = events.body.items.find((e: { tokenId: string }) => e.tokenId === issued.body.id);
+    expect(event).toMatchObject({
+      type: 'token-issued', actorId: t.users.admin, actorTokenId: adminToken.id, subjectUserId: t.users.reviewer, subjectName: 'Checking engineer (test)',
+      data: { label: 'for the checker', forAnotherUser: true, expiresAt: expect.any(String) },
+    });
+  });
+
+  it('records a new user and every role granted to it, and a revocation', async () => {
+    const user = await t.call('POST', '/api/v1/users', { name: 'Audited checker (test)', roles: ['reviewer', 'author'] }, { as: 'admin' });
+    const token = await t.call('POST', `/api/v1/users/${user.body.id}/tokens`, {}, { as: 'admin' });
+    await t.call('POST', `/api/v1/users/${user.body.id}/tokens/${token.body.id}/revoke`, {}, { as: 'admin' });
+    const events = await t.call('GET', `/api/v1/identity-events?user=${user.body.id}`, undefined, { as: 'admin' });
+    const kinds = events.body.items.map((e: { type: string; data: { role?: string } }) => (e.type === 'role-granted' ? `role-granted:${e.data.role}` : e.type)).sort();
+    expect(kinds).toEqual(['role-granted:author', 'role-granted:reviewer', 'token-issued', 'token-revoked', 'user-created']);
+    for (const e of events.body.items) expect(e.actorId).toBe(t.users.admin);
+  });
+
+  it('is for admins only, and insert-only in the database', async () => {
+    expect((await t.call('GET', '/api/v1/identity-events', undefined, { as: 'reviewer' })).status).toBe(403);
+    await expect(t.db.query(`UPDATE identity_events SET type = 'user-created'`)).rejects.toThrow();
+    await expect(t.db.query(`DELETE FROM identity_events`)).rejects.toThrow();
+    await expect(t.db.query(`TRUNCATE identity_events`)).rejects.toThrow();
+  });
+});
+
+describe('demo seed', () => {
+  it('seeds and prints short-lived tokens only into an empty database; later starts issue none unless asked', async () => {
+    const first = await seedDemo(t.app);
+    expect(first.seeded).toBe(true);
+    expect(first.tokens.map((x) => x.name)).toEqual(['Design author (demo)', 'Checking engineer (demo)', 'Administrator (demo)']);
+    for (const token of first.tokens) {
+      expect(Date.parse(token.expiresAt)).toBeLessThanOrEqual(Date.now() + 12 * 3_600_000 + 1000);
+      expect((await get(token.token)).status).toBe(200);
+    }
+    const [{ n }] = await t.db.query<{ n: string }>(`SELECT count(*) AS n FROM tokens`);
+    const again = await seedDemo(t.app);
+    expect(again).toEqual({ seeded: false, products: [], tokens: [] });
+    expect((await t.db.query<{ n: string }>(`SELECT count(*) AS n FROM tokens`))[0].n).toBe(n);
+    const asked = await seedDemo(t.app, { issueTokens: true });
+    expect(asked.seeded).toBe(false);
+    expect(asked.tokens).toHaveLength(3);
+  });
+});

@@ -1,0 +1,123 @@
+/**
+ * Least privilege in PostgreSQL (issue 11, item 2), written as the attack: the service connects as a runtime role
+ * (created here with a unique name on the shared server and dropped afterwards) while the migrations ran as an
+ * owner role. The runtime role can read and append, and nothing else.
+ */
+import { Client } from 'pg';
+import { clearDesign, warningDesign } from '../support/designs';
+import { countRecords, startTestApp, type TestApp } from '../support/harness';
+
+let t: TestApp;
+let productId: string;
+const logs: string[] = [];
+const capture = { write: (line: string) => void logs.push(line) };
+
+beforeAll(async () => {
+  t = await startTestApp('postgres', { LOG_LEVEL: 'warn' }, capture, { roles: true });
+  productId = (await t.call('POST', '/api/v1/products', { code: 'LP-1', name: 'Lowmark LP-1 press (test product)' })).body.id;
+});
+afterAll(() => t?.close());
+
+it('connects as the runtime role, which is neither owner nor superuser', async () => {
+  const [me] = await t.db.query<{ user: string; superuser: boolean }>(`SELECT current_user AS user, (SELECT rolsuper FROM pg_roles WHERE rolname = current_user) AS superuser`);
+  expect(me).toEqual({ user: t.roles!.runtime, superuser: false });
+  const [owner] = await t.db.query<{ owner: string }>(`SELECT tableowner AS owner FROM pg_tables WHERE tablename = 'revisions'`);
+  expect(owner.owner).toBe(t.roles!.owner);
+});
+
+it('starts without the single-user and privileged-role warnings; a single-user start warns about both', async () => {
+  expect(logs.join('')).not.toMatch(/LEADLINE_MIGRATION_DATABASE_URL is not set|connects as a role that/);
+  const single: string[] = [];
+  const plain = await startTestApp('postgres', { LOG_LEVEL: 'warn' }, { write: (line: string) => void single.push(line) });
+  await plain.close();
+  expect(single.join('')).toMatch(/LEADLINE_MIGRATION_DATABASE_URL is not set/);
+  expect(single.join('')).toMatch(/connects as a role that is a database superuser/);
+});
+
+it('serves the whole workflow as the runtime role', async () => {
+  const opened = await t.call('POST', `/api/v1/products/${productId}/calculations`, { title: 'press screw', design: warningDesign }, { headers: { 'idempotency-key': 'lp-1' } });
+  expect(opened.status).toBe(201);
+  const again = await t.call('POST', `/api/v1/products/${productId}/calculations`, { title: 'press screw', design: warningDesign }, { headers: { 'idempotency-key': 'lp-1' } });
+  expect(again.body).toEqual(opened.body);
+  expect((await t.call('POST', `/api/v1/revisions/${opened.body.revisionId}/comments`, { text: 'which grease?' }, { as: 'reviewer' })).status).toBe(201);
+  const rejected = await t.call('POST', `/api/v1/revisions/${opened.body.revisionId}/decisions`, { decision: 'reject', comment: 'measure it' }, { as: 'reviewer' });
+  expect(rejected.status).toBe(201);
+  const next = await t.call('POST', `/api/v1/calculations/${opened.body.calculationId}/revisions`, { design: clearDesign, note: 'measured' });
+  expect(next.status).toBe(201);
+  const approved = await t.call('POST', `/api/v1/revisions/${next.body.revisionId}/decisions`, { decision: 'approve' }, { as: 'reviewer' });
+  expect(approved.status).toBe(201);
+  const third = await t.call('POST', `/api/v1/calculations/${opened.body.calculationId}/revisions`, { design: clearDesign, note: 'to withdraw' });
+  expect((await t.call('POST', `/api/v1/revisions/${third.body.revisionId}/withdraw`, {})).status).toBe(200);
+  const moved = await t.call('POST', `/api/v1/calculations/${opened.body.calculationId}/reassignments`, { userId: t.users.author2 }, { as: 'admin' });
+  expect(moved.status).toBe(201);
+  expect((await t.call('GET', `/api/v1/products/${productId}/audit`, undefined, { as: 'reviewer' })).status).toBe(200);
+  expect((await t.call('GET', `/api/v1/products/${productId}/verify`)).body).toMatchObject({ valid: true, firstBrokenLink: null });
+});
+
+it('refuses UPDATE, DELETE, TRUNCATE, ALTER TABLE ... DISABLE TRIGGER and DROP to the runtime role', async () => {
+  const before = await countRecords(t.db);
+  const refused: [string, RegExp][] = [
+    [`UPDATE revisions SET note = 'edited'`, /permission denied/],
+    [`DELETE FROM events`, /permission denied/],
+    [`DELETE FROM revision_closures`, /permission denied/],
+    [`TRUNCATE events CASCADE`, /permission denied/],
+    [`ALTER TABLE revisions DISABLE TRIGGER revisions_immutable`, /must be owner/],
+    [`ALTER TABLE events DISABLE TRIGGER USER`, /must be owner/],
+    [`ALTER TABLE revisions ADD COLUMN x int`, /must be owner/],
+    [`DROP TABLE revision_closures CASCADE`, /must be owner/],
+    [`DROP TRIGGER events_immutable ON events`, /must be owner/],
+    [`UPDATE chain_heads SET seq = seq - 1`, /permission denied/],
+    [`DELETE FROM chain_heads`, /permission denied/],
+    [`SELECT * FROM chain_heads FOR UPDATE`, /permission denied/],
+    [`DROP FUNCTION leadline_move_head(uuid, bigint, text)`, /must be owner/],
+    [`CREATE OR REPLACE FUNCTION leadline_refuse_change() RETURNS trigger LANGUAGE plpgsql AS $$ BEGIN RETURN NEW; END $$`, /must be owner|permission denied/],
+    [`SELECT * FROM schema_migrations`, /permission denied/],
+  ];
+  for (const [sql, error] of refused) {
+    await expect(t.db.query(sql)).rejects.toThrow(error);
+  }
+  // the head moves only to a link that exists with that seq and hash
+  const [head] = await t.db.query<{ seq: string; hash: string }>(`SELECT seq, hash FROM chain_heads WHERE product_id = $1`, [productId]);
+  await expect(t.db.query(`SELECT leadline_move_head($1, $2, $3)`, [productId, Number(head.seq) + 1, 'f'.repeat(64)])).rejects.toThrow(/no link/);
+  expect(await countRecords(t.db)).toEqual(before);
+  expect((await t.call('GET', `/api/v1/products/${productId}/verify`)).body.valid).toBe(true);
+});
+
+it('attack: a closure row forged by the runtime role approves nothing and verify reports it', async () => {
+  const opened = await t.call('POST', `/api/v1/products/${productId}/calculations`, { title: 'forged', design: clearDesign });
+  const [event] = await t.db.query<{ id: string }>(`SELECT id FROM events WHERE revision_id = $1`, [opened.body.revisionId]);
+  await t.db.query(`INSERT INTO revision_closures (revision_id, kind, event_id, actor_id) VALUES ($1, 'approved', $2, $3)`, [opened.body.revisionId, event.id, t.users.reviewer]);
+  expect((await t.call('GET', `/api/v1/revisions/${opened.body.revisionId}`)).body.review.state).toBe('submitted');
+  const verify = await t.call('GET', `/api/v1/products/${productId}/verify`);
+  expect(verify.body).toMatchObject({ valid: false, firstBrokenLink: { kind: 'closure', id: opened.body.revisionId } });
+});
+
+it('attack: a chain head rewound one link by the owner role (trigger disabled, rejection deleted, head moved back) verifies, but its checkpoint does not', async () => {
+  const opened = await t.call('POST', `/api/v1/products/${productId}/calculations`, { title: 'rewound', design: clearDesign });
+  const rejected = await t.call('POST', `/api/v1/revisions/${opened.body.revisionId}/decisions`, { decision: 'reject', comment: 'no' }, { as: 'reviewer' });
+  expect(rejected.status).toBe(201);
+  const checkpoint = rejected.body.checkpoint;
+  expect((await t.call('POST', '/api/v1/checkpoints/verify', checkpoint)).body.valid).toBe(true);
+  // a forged closure from the earlier test would make verify fail for another reason: judge the chain on its own
+  const owner = new Client({ connectionString: t.roles!.ownerUrl });
+  owner.on('error', () => undefined);
+  await owner.connect();
+  try {
+    await owner.query('BEGIN');
+    for (const table of ['revision_closures', 'events', 'chain_heads']) await owner.query(`ALTER TABLE ${table} DISABLE TRIGGER USER`);
+    await owner.query(`DELETE FROM revision_closures WHERE revision_id = $1`, [opened.body.revisionId]);
+    await owner.query(`DELETE FROM revision_closures WHERE revision_id IN (SELECT c.revision_id FROM revision_closures c JOIN events e ON e.id = c.event_id WHERE e.type <> c.kind)`);
+    await owner.query(`DELETE FROM events WHERE id = $1`, [rejected.body.eventId]);
+    await owner.query(`UPDATE chain_heads SET seq = seq - 1, hash = (SELECT hash FROM events WHERE product_id = $1 AND seq = $2) WHERE product_id = $1`, [productId, checkpoint.seq - 1]);
+    for (const table of ['revision_closures', 'events', 'chain_heads']) await owner.query(`ALTER TABLE ${table} ENABLE TRIGGER USER`);
+    await owner.query('COMMIT');
+  } finally {
+    await owner.end();
+  }
+  // the rejection is gone and the chain is consistent again: verify alone cannot see it
+  expect((await t.call('GET', `/api/v1/revisions/${opened.body.revisionId}`)).body.review.state).toBe('submitted');
+  expect((await t.call('GET', `/api/v1/products/${productId}/verify`)).body).toMatchObject({ valid: true });
+  const caught = await t.call('POST', '/api/v1/checkpoints/verify', checkpoint);
+  expect(caught.body).toMatchObject({ valid: false, signatureValid: true, linkPresent: false, currentHead: { seq: checkpoint.seq - 1 } });
+  expect(caught.body.reason).toMatch(/rewound/);
+});
