@@ -66,6 +66,10 @@ export class ProblemFilter implements ExceptionFilter {
   }
 }
 
+/** A problem with the request body as a whole (too large, not JSON) names the body-level path "(body)". */
+const BODY_PATH = '(body)';
+const BODY_STATUSES = new Set([400, 413, 415]);
+
 const slug = (title: string) => title.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '');
 
 export function toProblem(exception: unknown): Problem {
@@ -74,18 +78,24 @@ export function toProblem(exception: unknown): Problem {
   }
   const fastifyCode = (exception as { code?: string; statusCode?: number })?.code;
   if (fastifyCode === 'FST_ERR_CTP_BODY_TOO_LARGE') {
-    return { type: TYPE_BASE + 'body-too-large', title: 'Request body too large', status: 413 };
+    return { type: TYPE_BASE + 'body-too-large', title: 'Request body too large', status: 413, errors: [{ path: BODY_PATH, message: 'the request body is too large' }] };
   }
   if (exception instanceof HttpException) {
     const status = exception.getStatus();
     const body = exception.getResponse();
     const detail = typeof body === 'string' ? body : ((body as { message?: string | string[] }).message ?? exception.message);
-    return { type: TYPE_BASE + slug(exception.name), title: HttpStatus[status]?.replace(/_/g, ' ').toLowerCase() ?? 'error', status, detail: Array.isArray(detail) ? detail.join('; ') : detail };
+    const text = Array.isArray(detail) ? detail.join('; ') : detail;
+    return {
+      type: TYPE_BASE + slug(exception.name), title: HttpStatus[status]?.replace(/_/g, ' ').toLowerCase() ?? 'error', status, detail: text,
+      // the body parser's refusals (not JSON, forbidden prototype keys, too large, not a JSON media type)
+      ...(BODY_STATUSES.has(status) ? { errors: [{ path: BODY_PATH, message: text }] } : {}),
+    };
   }
   const statusCode = (exception as { statusCode?: number })?.statusCode;
   if (statusCode && statusCode >= 400 && statusCode < 500) {
     // fastify's own client errors: malformed JSON, unsupported media type, ...
-    return { type: TYPE_BASE + 'bad-request', title: 'Bad request', status: statusCode, detail: (exception as Error).message };
+    const detail = (exception as Error).message;
+    return { type: TYPE_BASE + 'bad-request', title: 'Bad request', status: statusCode, detail, errors: [{ path: BODY_PATH, message: detail }] };
   }
   return { type: TYPE_BASE + 'internal', title: 'Internal error', status: 500, detail: 'the service could not complete the request' };
 }
