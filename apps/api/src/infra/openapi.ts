@@ -6,7 +6,7 @@ import type { INestApplication } from '@nestjs/common';
 import { SwaggerModule, type OpenAPIObject } from '@nestjs/swagger';
 import {
   calculationSchema, chainVerificationSchema, designInputSchema, evaluationResponseSchema, problemSchema, productSchema,
-  revisionRecordSchema, submissionResultSchema,
+  revisionWithReviewSchema, submissionResultSchema,
 } from '@leadline/contracts';
 import { z, type ZodType } from 'zod';
 import { ruleSetDefinitionSchema } from '@leadline/rules';
@@ -28,6 +28,8 @@ interface Route {
   response?: ZodType;
   status?: number;
   idempotent?: boolean;
+  /** Media types of the success answer (default application/json) */
+  produces?: string[];
 }
 
 export const ROUTES: Route[] = [
@@ -39,8 +41,8 @@ export const ROUTES: Route[] = [
   { method: 'post', path: '/api/v1/products/{id}/calculations', summary: 'Open a calculation with revision 1', tag: 'calculations', request: openCalculationSchema.extend({ design: designInputSchema }), response: submissionResultSchema, status: 201, idempotent: true },
   { method: 'get', path: '/api/v1/calculations/{id}', summary: 'One calculation', tag: 'calculations', response: calculationSchema },
   { method: 'post', path: '/api/v1/calculations/{id}/revisions', summary: 'Submit the next revision', tag: 'calculations', request: addRevisionSchema.extend({ design: designInputSchema }), response: submissionResultSchema, status: 201, idempotent: true },
-  { method: 'get', path: '/api/v1/calculations/{id}/revisions', summary: 'All revisions of a calculation', tag: 'calculations', response: z.object({ items: z.array(revisionRecordSchema) }) },
-  { method: 'get', path: '/api/v1/revisions/{id}', summary: 'One revision: input as submitted, evaluation, findings, versions, hashes', tag: 'calculations', response: revisionRecordSchema },
+  { method: 'get', path: '/api/v1/calculations/{id}/revisions', summary: 'All revisions of a calculation', tag: 'calculations', response: z.object({ items: z.array(revisionWithReviewSchema) }) },
+  { method: 'get', path: '/api/v1/revisions/{id}', summary: 'One revision: input as submitted, evaluation, findings, versions, hashes', tag: 'calculations', response: revisionWithReviewSchema },
   { method: 'get', path: '/api/v1/thread-sizes', summary: 'Standard thread sizes', tag: 'library' },
   { method: 'get', path: '/api/v1/friction-sources', summary: 'Friction coefficient ranges with their sources', tag: 'library' },
   { method: 'get', path: '/api/v1/materials', summary: 'Screw and nut materials', tag: 'library' },
@@ -48,10 +50,10 @@ export const ROUTES: Route[] = [
   { method: 'post', path: '/api/v1/revisions/{id}/comments', summary: 'Comment, general or on an input field or a finding', tag: 'reviews', request: commentSchema, status: 201 },
   { method: 'post', path: '/api/v1/revisions/{id}/withdraw', summary: 'Withdraw by the author before a decision', tag: 'reviews', request: withdrawSchema.unwrap() },
   { method: 'get', path: '/api/v1/reviews/queue', summary: 'Revisions awaiting review, oldest first (productId, calculationId, verdict, authorId)', tag: 'reviews' },
-  { method: 'get', path: '/api/v1/products/{id}/audit', summary: 'Audit trail (after, limit; format=csv|json downloads the whole trail)', tag: 'reviews' },
+  { method: 'get', path: '/api/v1/products/{id}/audit', summary: 'Audit trail (after, limit; format=csv|json downloads the whole trail)', tag: 'reviews', produces: ['application/json', 'text/csv'] },
   { method: 'get', path: '/api/v1/revisions/{id}/diff', summary: 'What changed against ?against=<revision id>', tag: 'reviews' },
-  { method: 'get', path: '/api/v1/revisions/{id}/report.html', summary: 'Calculation report, HTML', tag: 'reports' },
-  { method: 'get', path: '/api/v1/revisions/{id}/report.pdf', summary: 'Calculation report, PDF (?paper=A4|Letter)', tag: 'reports' },
+  { method: 'get', path: '/api/v1/revisions/{id}/report.html', summary: 'Calculation report, HTML', tag: 'reports', produces: ['text/html'] },
+  { method: 'get', path: '/api/v1/revisions/{id}/report.pdf', summary: 'Calculation report, PDF (?paper=A4|Letter)', tag: 'reports', produces: ['application/pdf'] },
   { method: 'get', path: '/api/v1/rule-sets', summary: 'Rule-set versions, the current one, the rules and adoptions', tag: 'rules' },
   { method: 'post', path: '/api/v1/rule-sets', summary: 'Create a new rule-set version (never edits one)', tag: 'rules', request: ruleSetDefinitionSchema, status: 201 },
   { method: 'get', path: '/api/v1/rule-sets/{version}', summary: 'One rule-set version', tag: 'rules' },
@@ -78,7 +80,13 @@ export function buildOpenApi(routes: Route[] = ROUTES): OpenAPIObject {
       parameters: params,
       ...(r.request ? { requestBody: { required: true, content: { 'application/json': { schema: json(r.request, 'input') } } } } : {}),
       responses: {
-        [String(r.status ?? 200)]: { description: 'success', content: { 'application/json': { schema: r.response ? json(r.response, 'output') : {} } } },
+        [String(r.status ?? 200)]: {
+          description: 'success',
+          content: Object.fromEntries((r.produces ?? ['application/json']).map((type) => [
+            type,
+            { schema: type === 'application/json' ? (r.response ? json(r.response, 'output') : {}) : { type: 'string', ...(type === 'application/pdf' ? { format: 'binary' } : {}) } },
+          ])),
+        },
         '4XX': { description: 'problem details (RFC 9457) with the invalid field paths', content: problem },
       },
     };
