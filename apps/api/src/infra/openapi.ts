@@ -88,6 +88,7 @@ export function buildOpenApi(routes: Route[] = ROUTES): OpenAPIObject {
           ])),
         },
         '4XX': { description: 'problem details (RFC 9457) with the invalid field paths', content: problem },
+        '503': { description: 'the database cannot be reached for now: retry after the Retry-After header\'s seconds', content: problem },
       },
     };
   }

@@ -2,7 +2,7 @@ import { Global, Module, type DynamicModule } from '@nestjs/common';
 import { TypeOrmModule } from '@nestjs/typeorm';
 import { DataSource } from 'typeorm';
 import type { AppConfig } from '../config';
-import { createDataSource } from './data-source';
+import { createDataSource, guardPoolClients } from './data-source';
 import { Database } from './database.service';
 
 /** TypeORM data source (PostgreSQL or PGlite), migrations run on start-up, and the Database door. */
@@ -18,6 +18,7 @@ export class DatabaseModule {
           useFactory: () => choice.dataSource.options,
           dataSourceFactory: async () => {
             await choice.dataSource.initialize();
+            guardPoolClients(choice.dataSource);
             await choice.dataSource.runMigrations({ transaction: 'each' });
             return choice.dataSource;
           },

@@ -58,10 +58,12 @@ export class ProblemFilter implements ExceptionFilter {
     const request = ctx.getRequest<FastifyRequest>();
     const problem = toProblem(exception);
     problem.instance = request.url.split('?')[0];
-    if (problem.status >= 500) {
+    if (problem.status === 503) this.logger.warn(`database unavailable: ${exception instanceof Error ? exception.message : String(exception)}`);
+    else if (problem.status >= 500) {
       const err = exception instanceof Error ? exception : new Error(String(exception));
       this.logger.error(`unhandled error: ${err.message}`, err.stack);
     }
+    if (problem.status === 503 && !reply.hasHeader('retry-after')) reply.header('retry-after', String(RETRY_AFTER_SECONDS));
     reply.status(problem.status).header('content-type', 'application/problem+json').send(problem);
   }
 }
@@ -97,5 +99,29 @@ export function toProblem(exception: unknown): Problem {
     const detail = (exception as Error).message;
     return { type: TYPE_BASE + 'bad-request', title: 'Bad request', status: statusCode, detail, errors: [{ path: BODY_PATH, message: detail }] };
   }
+  if (databaseUnavailable(exception)) {
+    return { type: TYPE_BASE + 'database-unavailable', title: 'Database unavailable', status: 503, detail: 'the database cannot be reached; retry shortly' };
+  }
   return { type: TYPE_BASE + 'internal', title: 'Internal error', status: 500, detail: 'the service could not complete the request' };
+}
+
+/** Seconds a client should wait before retrying a 503 (the pool reconnects on the next request). */
+export const RETRY_AFTER_SECONDS = 2;
+
+/**
+ * PostgreSQL error classes 08 (connection exception) and 57P (operator intervention: terminated, shutting down,
+ * starting up), and the socket errors of a server that is gone: the request may succeed on retry.
+ */
+const UNAVAILABLE_CODES = new Set(['ECONNREFUSED', 'ECONNRESET', 'EPIPE', 'ETIMEDOUT', 'EHOSTUNREACH', 'ENOTFOUND', 'EAI_AGAIN']);
+const UNAVAILABLE_MESSAGES = /Connection terminated|connection error and is not queryable|timeout exceeded when trying to connect|Client was closed and is not queryable|terminating connection|the database system is (starting up|shutting down|in recovery mode)/i;
+
+export function databaseUnavailable(exception: unknown): boolean {
+  for (let e = exception as { code?: unknown; message?: unknown; driverError?: unknown; errors?: unknown[]; cause?: unknown } | undefined, depth = 0; e && depth < 4; depth++) {
+    const code = typeof e.code === 'string' ? e.code : '';
+    if (code.startsWith('08') || code.startsWith('57P') || UNAVAILABLE_CODES.has(code)) return true;
+    if (typeof e.message === 'string' && UNAVAILABLE_MESSAGES.test(e.message)) return true;
+    if (Array.isArray(e.errors) && e.errors.some((x) => databaseUnavailable(x))) return true; // AggregateError of a multi-address connect
+    e = (e.driverError ?? e.cause) as typeof e;
+  }
+  return false;
 }
