@@ -11,8 +11,9 @@ const atFriction = z.object({ atMinFriction: num, atMaxFriction: num });
 export const findingSchema = z.object({
   ruleId: z.string(),
   severity: z.enum(['blocking', 'warning', 'info']),
-  measured: z.union([z.number(), z.boolean(), z.string()]).nullable(),
-  limit: z.union([z.number(), z.boolean(), z.string()]).nullable(),
+  // null sits on the number branch: OpenAPI 3.0 allows `nullable` only beside a `type`
+  measured: z.union([z.number().nullable(), z.boolean(), z.string()]),
+  limit: z.union([z.number().nullable(), z.boolean(), z.string()]),
   unit: z.string().nullable(),
   message: z.string(),
   basis: z.string(),
@@ -66,6 +67,7 @@ export const evaluationSchema = z.object({
 });
 
 export const evaluationResponseSchema = evaluationSchema.extend({
+  trace: evaluationSchema.shape.trace.optional().describe('the formula trace, sent only with ?trace=true'),
   verdict: z.enum(['blocked', 'needs-acknowledgement', 'clear']),
   ruleSetVersion: z.string(),
 });
@@ -91,12 +93,21 @@ export const revisionRecordSchema = z.object({
   previousHash: z.string().nullable(),
 });
 
+/** Review state of a revision, derived from the record (GET /calculations/:id/revisions, GET /revisions/:id). */
+export const revisionReviewSchema = z.object({
+  state: z.enum(['submitted', 'approved', 'rejected', 'superseded', 'withdrawn']), decidedBy: actorSchema.nullable(), decidedAt: z.string().nullable(),
+});
+
+/** A revision as the revision routes answer it: the record and its review state. */
+export const revisionWithReviewSchema = revisionRecordSchema.extend({ review: revisionReviewSchema });
+
 export const chainVerificationSchema = z.object({
   productId: z.string().uuid(), valid: z.boolean(), links: z.number().int(), headHash: z.string().nullable(),
   firstBrokenLink: z.object({ seq: z.number(), kind: z.enum(['revision', 'event', 'product', 'calculation', 'closure']), id: z.string(), reason: z.string() }).nullable(),
 });
 
-export const problemSchema = z.object({
+/** Problem details (RFC 9457); some problems add members of their own (e.g. state, blocking), as the RFC allows. */
+export const problemSchema = z.looseObject({
   type: z.string(), title: z.string(), status: z.number().int(), detail: z.string().optional(), instance: z.string().optional(),
   errors: z.array(z.object({ path: z.string(), message: z.string() })).optional(),
 });

@@ -6,7 +6,7 @@ import type { INestApplication } from '@nestjs/common';
 import { SwaggerModule, type OpenAPIObject } from '@nestjs/swagger';
 import {
   calculationSchema, chainVerificationSchema, designInputSchema, evaluationResponseSchema, problemSchema, productSchema,
-  revisionRecordSchema, submissionResultSchema,
+  revisionReviewSchema, revisionWithReviewSchema, submissionResultSchema,
 } from '@leadline/contracts';
 import { sizingRequestSchema, sizingResponseSchema } from '@leadline/contracts';
 import { z, type ZodType } from 'zod';
@@ -34,20 +34,15 @@ interface Route {
   idempotent?: boolean;
   /** Query parameters, from a zod object schema */
   query?: z.ZodObject;
+  /** Media types of the success answer (default application/json) */
+  produces?: string[];
 }
-
-/** The review state carried by revision items of the revision list. */
-const reviewOfRevision = z.object({
-  state: z.enum(['submitted', 'superseded', 'approved', 'rejected', 'withdrawn']),
-  decidedBy: z.object({ id: z.string(), name: z.string() }).nullable(),
-  decidedAt: z.string().nullable(),
-});
 
 /** A light revision item (GET /calculations/{id}/revisions?view=summary). */
 const revisionSummarySchema = z.object({
   id: z.string().uuid(), calculationId: z.string().uuid(), revision: z.number().int(), verdict: z.enum(['blocked', 'needs-acknowledgement', 'clear']),
   author: z.object({ id: z.string(), name: z.string() }).nullable(), note: z.string().nullable(), createdAt: z.string(), hash: z.string(),
-  previousHash: z.string().nullable(), review: reviewOfRevision,
+  previousHash: z.string().nullable(), review: revisionReviewSchema,
 });
 
 export const ROUTES: Route[] = [
@@ -69,11 +64,11 @@ export const ROUTES: Route[] = [
     method: 'get', path: '/api/v1/calculations/{id}/revisions', summary: "A calculation's revisions, oldest first, cursor-paged (after, limit; view=summary gives light items)", tag: 'calculations',
     query: revisionsQuerySchema,
     response: z.object({
-      items: z.array(z.union([revisionRecordSchema.extend({ review: reviewOfRevision }), revisionSummarySchema])),
+      items: z.array(z.union([revisionWithReviewSchema, revisionSummarySchema])),
       nextCursor: z.number().int().nullable().describe('the last revision number of this page when more follow, else null'),
     }),
   },
-  { method: 'get', path: '/api/v1/revisions/{id}', summary: 'One revision: input as submitted, evaluation, findings, versions, hashes', tag: 'calculations', response: revisionRecordSchema },
+  { method: 'get', path: '/api/v1/revisions/{id}', summary: 'One revision: input as submitted, evaluation, findings, versions, hashes', tag: 'calculations', response: revisionWithReviewSchema },
   { method: 'get', path: '/api/v1/thread-sizes', summary: 'Standard thread sizes', tag: 'library' },
   { method: 'get', path: '/api/v1/friction-sources', summary: 'Friction coefficient ranges with their sources', tag: 'library' },
   { method: 'get', path: '/api/v1/materials', summary: 'Screw and nut materials', tag: 'library' },
@@ -81,10 +76,10 @@ export const ROUTES: Route[] = [
   { method: 'post', path: '/api/v1/revisions/{id}/comments', summary: 'Comment, general or on an input field or a finding', tag: 'reviews', request: commentSchema, status: 201 },
   { method: 'post', path: '/api/v1/revisions/{id}/withdraw', summary: 'Withdraw by the author before a decision', tag: 'reviews', request: withdrawSchema.unwrap() },
   { method: 'get', path: '/api/v1/reviews/queue', summary: 'Revisions awaiting review, oldest first (productId, calculationId, verdict, authorId)', tag: 'reviews' },
-  { method: 'get', path: '/api/v1/products/{id}/audit', summary: 'Audit trail (after, limit; format=csv|json downloads the whole trail, streamed)', tag: 'reviews', query: auditQuerySchema },
+  { method: 'get', path: '/api/v1/products/{id}/audit', summary: 'Audit trail (after, limit; format=csv|json downloads the whole trail, streamed)', tag: 'reviews', query: auditQuerySchema, produces: ['application/json', 'text/csv'] },
   { method: 'get', path: '/api/v1/revisions/{id}/diff', summary: 'What changed against ?against=<revision id>', tag: 'reviews' },
-  { method: 'get', path: '/api/v1/revisions/{id}/report.html', summary: 'Calculation report, HTML', tag: 'reports' },
-  { method: 'get', path: '/api/v1/revisions/{id}/report.pdf', summary: 'Calculation report, PDF (?paper=A4|Letter)', tag: 'reports' },
+  { method: 'get', path: '/api/v1/revisions/{id}/report.html', summary: 'Calculation report, HTML', tag: 'reports', produces: ['text/html'] },
+  { method: 'get', path: '/api/v1/revisions/{id}/report.pdf', summary: 'Calculation report, PDF (?paper=A4|Letter)', tag: 'reports', produces: ['application/pdf'] },
   { method: 'get', path: '/api/v1/rule-sets', summary: 'Rule-set versions, the current one, the rules and adoptions', tag: 'rules' },
   { method: 'post', path: '/api/v1/rule-sets', summary: 'Create a new rule-set version (never edits one)', tag: 'rules', request: ruleSetDefinitionSchema, status: 201 },
   { method: 'get', path: '/api/v1/rule-sets/{version}', summary: 'One rule-set version', tag: 'rules' },
@@ -119,8 +114,15 @@ export function buildOpenApi(routes: Route[] = ROUTES): OpenAPIObject {
       parameters: params,
       ...(r.request ? { requestBody: { required: true, content: { 'application/json': { schema: json(r.request, 'input') } } } } : {}),
       responses: {
-        [String(r.status ?? 200)]: { description: 'success', content: { 'application/json': { schema: r.response ? json(r.response, 'output') : {} } } },
+        [String(r.status ?? 200)]: {
+          description: 'success',
+          content: Object.fromEntries((r.produces ?? ['application/json']).map((type) => [
+            type,
+            { schema: type === 'application/json' ? (r.response ? json(r.response, 'output') : {}) : { type: 'string', ...(type === 'application/pdf' ? { format: 'binary' } : {}) } },
+          ])),
+        },
         '4XX': { description: 'problem details (RFC 9457) with the invalid field paths', content: problem },
+        '503': { description: 'the database cannot be reached for now: retry after the Retry-After header\'s seconds', content: problem },
       },
     };
   }

@@ -4,6 +4,7 @@
  */
 import { mkdirSync } from 'node:fs';
 import { resolve } from 'node:path';
+import { Logger } from '@nestjs/common';
 import { DataSource, type DataSourceOptions } from 'typeorm';
 import { PGliteDriver } from 'typeorm-pglite';
 import { MIGRATIONS } from '../../../../../migrations';
@@ -54,4 +55,27 @@ export function createDataSource(config: Pick<AppConfig, 'DATABASE_URL' | 'LEADL
   const dataSource = new DataSource(options);
   if (lock) locks.set(dataSource, lock);
   return { dataSource, embedded: true };
+}
+
+interface PgClientLike {
+  on(event: 'error', listener: (err: Error) => void): unknown;
+}
+
+/**
+ * A pg client that loses its connection while checked out (terminated session, database restart) emits 'error';
+ * without a listener that event would end the process. The pool's own handler covers idle clients only, so every
+ * client gets one: the request that held it fails with the query's own error (answered 503), the pool drops it.
+ */
+export function guardPoolClients(dataSource: DataSource): void {
+  const pool = (dataSource.driver as unknown as { master?: { on?: unknown; _clients?: PgClientLike[] } }).master;
+  if (!pool || typeof pool.on !== 'function') return; // PGlite: no pool
+  const logger = new Logger('database');
+  const guard = (client: PgClientLike) => {
+    if (!(client as { leadlineGuarded?: boolean }).leadlineGuarded) {
+      (client as { leadlineGuarded?: boolean }).leadlineGuarded = true;
+      client.on('error', (err) => logger.warn(`database connection lost: ${err.message}`));
+    }
+  };
+  (pool.on as (event: string, listener: (client: PgClientLike) => void) => void).call(pool, 'connect', guard);
+  for (const client of pool._clients ?? []) guard(client); // connections opened before (start-up, migrations)
 }

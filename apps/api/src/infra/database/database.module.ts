@@ -2,7 +2,7 @@ import { Global, Module, type DynamicModule } from '@nestjs/common';
 import { TypeOrmModule } from '@nestjs/typeorm';
 import { DataSource } from 'typeorm';
 import type { AppConfig } from '../config';
-import { createDataSource } from './data-source';
+import { createDataSource, guardPoolClients } from './data-source';
 import { Database } from './database.service';
 import { migrateServer, warnIfPrivileged } from './migrate';
 import { EmbeddedStatistics } from './statistics';
@@ -22,6 +22,7 @@ export class DatabaseModule {
             // PostgreSQL: migrate as the owner role on a connection of its own, then connect as the runtime role
             if (!choice.embedded) await migrateServer(config);
             await choice.dataSource.initialize();
+            guardPoolClients(choice.dataSource);
             if (choice.embedded) await choice.dataSource.runMigrations({ transaction: 'each' });
             else await warnIfPrivileged(choice.dataSource);
             return choice.dataSource;

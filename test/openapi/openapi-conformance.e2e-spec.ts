@@ -1,0 +1,286 @@
+/**
+ * The OpenAPI document says what the API answers: the document served at /api/docs-json passes a standard
+ * OpenAPI 3.0 validator (@seriousme/openapi-schema-validator), and every documented operation's real success
+ * answer and a real documented 4xx answer are validated with ajv against the document's own schemas.
+ *
+ * The operations come from the document; CALLS below drives each one. A documented operation without an entry
+ * in CALLS fails the test, so a route added to the document must be added here too.
+ */
+import Ajv, { type ValidateFunction } from 'ajv';
+import addFormats from 'ajv-formats';
+import { DEFAULT_RULE_SET } from '@leadline/rules';
+import { clearDesign, warningDesign } from '../support/designs';
+import { startTestApp, type TestApp } from '../support/harness';
+
+type Answer = Awaited<ReturnType<TestApp['call']>>;
+
+/** Ids created once for the calls below. */
+interface Ctx {
+  t: TestApp;
+  productId: string;
+  calculationId: string;
+  revisionId: string;
+  secondRevisionId: string;
+  userId: string;
+  tokenId: string;
+  /** A calculation opened by the author with one revision awaiting review (for one-shot calls: decide, withdraw) */
+  freshRevision(design?: unknown): Promise<string>;
+}
+
+interface Calls {
+  /** A real call that succeeds */
+  ok(c: Ctx): Promise<Answer>;
+  /** A real call that the route refuses with a documented 4xx (every operation but those in NO_4XX) */
+  bad?(c: Ctx): Promise<Answer>;
+}
+
+const MISSING = '00000000-0000-4000-8000-000000000000';
+const NEXT_RULE_SET = { ...DEFAULT_RULE_SET, version: '2027.05-1', description: 'conformance test copy of the default rule set' };
+
+/** One entry per documented operation, keyed "METHOD /path/{param}" as in the document. */
+const CALLS: Record<string, Calls> = {
+  'POST /api/v1/evaluations': {
+    ok: (c) => c.t.call('POST', '/api/v1/evaluations', clearDesign),
+    bad: (c) => c.t.call('POST', '/api/v1/evaluations', { ...clearDesign, load: { axial: '18 MPa', sense: 'compression' } }),
+  },
+  'POST /api/v1/products': {
+    ok: (c) => c.t.call('POST', '/api/v1/products', { code: 'OA-2', name: 'Openwell OA-2 press (invented)' }),
+    bad: (c) => c.t.call('POST', '/api/v1/products', { code: 'bad code!', name: '' }),
+  },
+  'GET /api/v1/products': {
+    ok: (c) => c.t.call('GET', '/api/v1/products?limit=5'),
+    bad: (c) => c.t.call('GET', '/api/v1/products?limit=-1'),
+  },
+  'GET /api/v1/products/{id}': {
+    ok: (c) => c.t.call('GET', `/api/v1/products/${c.productId}`),
+    bad: (c) => c.t.call('GET', `/api/v1/products/${MISSING}`),
+  },
+  'GET /api/v1/products/{id}/verify': {
+    ok: (c) => c.t.call('GET', `/api/v1/products/${c.productId}/verify`),
+    bad: (c) => c.t.call('GET', '/api/v1/products/not-a-uuid/verify'),
+  },
+  'POST /api/v1/products/{id}/calculations': {
+    ok: (c) => c.t.call('POST', `/api/v1/products/${c.productId}/calculations`, { title: 'second screw', design: clearDesign }, { headers: { 'idempotency-key': 'conformance-open-1' } }),
+    bad: (c) => c.t.call('POST', `/api/v1/products/${c.productId}/calculations`, { title: 'no design' }),
+  },
+  'GET /api/v1/calculations/{id}': {
+    ok: (c) => c.t.call('GET', `/api/v1/calculations/${c.calculationId}`),
+    bad: (c) => c.t.call('GET', `/api/v1/calculations/${MISSING}`),
+  },
+  'POST /api/v1/calculations/{id}/revisions': {
+    ok: (c) => c.t.call('POST', `/api/v1/calculations/${c.calculationId}/revisions`, { design: clearDesign, note: 'conformance' }),
+    bad: (c) => c.t.call('POST', `/api/v1/calculations/${c.calculationId}/revisions`, { design: clearDesign, extra: true }),
+  },
+  'GET /api/v1/calculations/{id}/revisions': {
+    ok: (c) => c.t.call('GET', `/api/v1/calculations/${c.calculationId}/revisions`),
+    bad: (c) => c.t.call('GET', `/api/v1/calculations/${MISSING}/revisions`),
+  },
+  'GET /api/v1/revisions/{id}': {
+    ok: (c) => c.t.call('GET', `/api/v1/revisions/${c.revisionId}`),
+    bad: (c) => c.t.call('GET', `/api/v1/revisions/${MISSING}`),
+  },
+  'GET /api/v1/thread-sizes': {
+    ok: (c) => c.t.call('GET', '/api/v1/thread-sizes?form=trapezoidal'),
+    bad: (c) => c.t.call('GET', '/api/v1/thread-sizes', undefined, { as: 'anonymous' }),
+  },
+  'GET /api/v1/friction-sources': {
+    ok: (c) => c.t.call('GET', '/api/v1/friction-sources'),
+    bad: (c) => c.t.call('GET', '/api/v1/friction-sources', undefined, { as: 'anonymous' }),
+  },
+  'GET /api/v1/materials': {
+    ok: (c) => c.t.call('GET', '/api/v1/materials'),
+    bad: (c) => c.t.call('GET', '/api/v1/materials', undefined, { as: 'anonymous' }),
+  },
+  'POST /api/v1/revisions/{id}/decisions': {
+    ok: async (c) => c.t.call('POST', `/api/v1/revisions/${await c.freshRevision()}/decisions`, { decision: 'approve', comment: 'checked' }, { as: 'reviewer' }),
+    bad: async (c) => c.t.call('POST', `/api/v1/revisions/${await c.freshRevision(warningDesign)}/decisions`, { decision: 'approve' }, { as: 'reviewer' }),
+  },
+  'POST /api/v1/revisions/{id}/comments': {
+    ok: (c) => c.t.call('POST', `/api/v1/revisions/${c.revisionId}/comments`, { text: 'why bronze?', target: { field: 'nut.material' } }, { as: 'reviewer' }),
+    bad: (c) => c.t.call('POST', `/api/v1/revisions/${c.revisionId}/comments`, { text: ' ' }, { as: 'reviewer' }),
+  },
+  'POST /api/v1/revisions/{id}/withdraw': {
+    ok: async (c) => c.t.call('POST', `/api/v1/revisions/${await c.freshRevision()}/withdraw`, { comment: 'wrong load case' }),
+    bad: (c) => c.t.call('POST', `/api/v1/revisions/${c.revisionId}/withdraw`, { comment: 'not mine' }, { as: 'author2' }),
+  },
+  'GET /api/v1/reviews/queue': {
+    ok: (c) => c.t.call('GET', `/api/v1/reviews/queue?productId=${c.productId}`),
+    bad: (c) => c.t.call('GET', '/api/v1/reviews/queue?verdict=maybe'),
+  },
+  'GET /api/v1/products/{id}/audit': {
+    ok: (c) => c.t.call('GET', `/api/v1/products/${c.productId}/audit?limit=5`),
+    bad: (c) => c.t.call('GET', `/api/v1/products/${c.productId}/audit?limit=0`),
+  },
+  'GET /api/v1/revisions/{id}/diff': {
+    ok: (c) => c.t.call('GET', `/api/v1/revisions/${c.secondRevisionId}/diff?against=${c.revisionId}`),
+    bad: (c) => c.t.call('GET', `/api/v1/revisions/${c.secondRevisionId}/diff`),
+  },
+  'GET /api/v1/revisions/{id}/report.html': {
+    ok: (c) => c.t.call('GET', `/api/v1/revisions/${c.revisionId}/report.html`),
+    bad: (c) => c.t.call('GET', `/api/v1/revisions/${MISSING}/report.html`),
+  },
+  'GET /api/v1/revisions/{id}/report.pdf': {
+    ok: (c) => c.t.call('GET', `/api/v1/revisions/${c.revisionId}/report.pdf`),
+    bad: (c) => c.t.call('GET', `/api/v1/revisions/${c.revisionId}/report.pdf?paper=A0`),
+  },
+  'GET /api/v1/rule-sets': {
+    ok: (c) => c.t.call('GET', '/api/v1/rule-sets'),
+    bad: (c) => c.t.call('GET', '/api/v1/rule-sets', undefined, { as: 'anonymous' }),
+  },
+  'POST /api/v1/rule-sets': {
+    ok: (c) => c.t.call('POST', '/api/v1/rule-sets', NEXT_RULE_SET, { as: 'admin' }),
+    bad: (c) => c.t.call('POST', '/api/v1/rule-sets', { ...NEXT_RULE_SET, version: 'not a version' }, { as: 'admin' }),
+  },
+  'GET /api/v1/rule-sets/{version}': {
+    ok: (c) => c.t.call('GET', `/api/v1/rule-sets/${DEFAULT_RULE_SET.version}`),
+    bad: (c) => c.t.call('GET', '/api/v1/rule-sets/2099.01-1'),
+  },
+  'POST /api/v1/rule-sets/{version}/impact': {
+    ok: (c) => c.t.call('POST', `/api/v1/rule-sets/${DEFAULT_RULE_SET.version}/impact`, { scope: 'latest', productId: c.productId }, { as: 'reviewer' }),
+    bad: (c) => c.t.call('POST', `/api/v1/rule-sets/${DEFAULT_RULE_SET.version}/impact`, { scope: 'everything' }, { as: 'reviewer' }),
+  },
+  'POST /api/v1/rule-sets/{version}/adopt': {
+    ok: (c) => c.t.call('POST', `/api/v1/rule-sets/${DEFAULT_RULE_SET.version}/adopt`, { note: 'conformance: keep the default' }, { as: 'admin' }),
+    bad: (c) => c.t.call('POST', '/api/v1/rule-sets/2099.01-1/adopt', {}, { as: 'admin' }),
+  },
+  'POST /api/v1/users': {
+    ok: (c) => c.t.call('POST', '/api/v1/users', { name: 'Conformance reviewer (test)', roles: ['reviewer'] }, { as: 'admin' }),
+    bad: (c) => c.t.call('POST', '/api/v1/users', { name: 'No roles', roles: ['wizard'] }, { as: 'admin' }),
+  },
+  'GET /api/v1/users': {
+    ok: (c) => c.t.call('GET', '/api/v1/users', undefined, { as: 'admin' }),
+    bad: (c) => c.t.call('GET', '/api/v1/users', undefined, { as: 'author' }),
+  },
+  'POST /api/v1/users/{id}/tokens': {
+    ok: (c) => c.t.call('POST', `/api/v1/users/${c.userId}/tokens`, { label: 'conformance' }, { as: 'admin' }),
+    bad: (c) => c.t.call('POST', `/api/v1/users/${c.userId}/tokens`, { label: 'x'.repeat(500) }, { as: 'admin' }),
+  },
+  'GET /api/v1/users/{id}/tokens': {
+    ok: (c) => c.t.call('GET', `/api/v1/users/${c.userId}/tokens`, undefined, { as: 'admin' }),
+    bad: (c) => c.t.call('GET', `/api/v1/users/${MISSING}/tokens`, undefined, { as: 'admin' }),
+  },
+  'POST /api/v1/users/{id}/tokens/{tokenId}/revoke': {
+    ok: (c) => c.t.call('POST', `/api/v1/users/${c.userId}/tokens/${c.tokenId}/revoke`, {}, { as: 'admin' }),
+    bad: (c) => c.t.call('POST', `/api/v1/users/${c.userId}/tokens/${MISSING}/revoke`, {}, { as: 'admin' }),
+  },
+  'GET /health': {
+    ok: (c) => c.t.call('GET', '/health', undefined, { as: 'anonymous' }),
+  },
+};
+
+/** Operations without a client error to provoke (public, no input). */
+const NO_4XX = new Set(['GET /health']);
+
+interface Operation {
+  key: string;
+  responses: Record<string, { content?: Record<string, { schema?: object }> }>;
+}
+
+describe('OpenAPI document conformance', () => {
+  let t: TestApp;
+  let doc: { openapi: string; paths: Record<string, Record<string, Operation['responses'] | { responses: Operation['responses'] }>> };
+  let ctx: Ctx;
+  const ajv = new Ajv({ strict: false, allErrors: true }); // understands OpenAPI 3.0 `nullable` by default
+  addFormats(ajv);
+  const compiled = new Map<object, ValidateFunction>();
+  const validator = (schema: object) => {
+    if (!compiled.has(schema)) compiled.set(schema, ajv.compile(schema));
+    return compiled.get(schema)!;
+  };
+  const operations = (): Operation[] =>
+    Object.entries(doc.paths).flatMap(([path, item]) =>
+      Object.entries(item).map(([method, op]) => ({ key: `${method.toUpperCase()} ${path}`, responses: (op as { responses: Operation['responses'] }).responses })));
+
+  beforeAll(async () => {
+    t = await startTestApp('postgres');
+    const res = await t.call('GET', '/api/docs-json', undefined, { as: 'anonymous' });
+    expect(res.status).toBe(200);
+    doc = res.body;
+    const product = await t.call('POST', '/api/v1/products', { code: 'OA-1', name: 'Openwell OA-1 jack (invented)' });
+    const opened = await t.call('POST', `/api/v1/products/${product.body.id}/calculations`, { title: 'lift screw', design: clearDesign });
+    const second = await t.call('POST', `/api/v1/calculations/${opened.body.calculationId}/revisions`, { design: warningDesign, note: 'assumed friction' });
+    const user = await t.call('POST', '/api/v1/users', { name: 'Token holder (test)', roles: ['author'] }, { as: 'admin' });
+    const token = await t.call('POST', `/api/v1/users/${user.body.id}/tokens`, {}, { as: 'admin' });
+    ctx = {
+      t,
+      productId: product.body.id,
+      calculationId: opened.body.calculationId,
+      revisionId: opened.body.revisionId,
+      secondRevisionId: second.body.revisionId,
+      userId: user.body.id,
+      tokenId: token.body.id,
+      async freshRevision(design = clearDesign) {
+        const r = await t.call('POST', `/api/v1/products/${product.body.id}/calculations`, { title: 'one-shot', design });
+        return r.body.revisionId;
+      },
+    };
+    expect(Object.values(ctx).every((v) => v !== undefined)).toBe(true);
+  });
+  afterAll(() => t?.close());
+
+  it('passes a standard OpenAPI 3.0 validator [GET /api/docs-json]', async () => {
+    const { Validator } = await import('@seriousme/openapi-schema-validator');
+    const result = await new Validator().validate(structuredClone(doc) as never);
+    expect(result.errors ?? []).toEqual([]);
+    expect(result.valid).toBe(true);
+    expect(doc.openapi).toMatch(/^3\.0\./);
+  });
+
+  it('uses `nullable` only beside a `type` (OpenAPI 3.0)', () => {
+    const bad: string[] = [];
+    const walk = (node: unknown, at: string) => {
+      if (node === null || typeof node !== 'object') return;
+      const n = node as Record<string, unknown>;
+      if (n.nullable === true && n.type === undefined) bad.push(at);
+      for (const [k, v] of Object.entries(n)) walk(v, `${at}/${k}`);
+    };
+    walk(doc, '');
+    expect(bad).toEqual([]);
+  });
+
+  it('has a real call for every documented operation (add new routes to CALLS)', () => {
+    const documented = operations().map((o) => o.key);
+    expect(documented.length).toBeGreaterThan(25);
+    expect(documented.filter((k) => !CALLS[k])).toEqual([]);
+    expect(Object.keys(CALLS).filter((k) => !documented.includes(k))).toEqual([]);
+    expect(Object.keys(CALLS).filter((k) => !CALLS[k].bad && !NO_4XX.has(k))).toEqual([]);
+  });
+
+  /** Checks one real answer against the document: a documented status, media type and (for JSON) schema. */
+  function conforms(op: Operation, res: Answer): string[] {
+    const status = String(res.status);
+    const documented = op.responses[status] ?? op.responses[`${status[0]}XX`];
+    if (!documented) return [`status ${status} is not documented (documented: ${Object.keys(op.responses).join(', ')})`];
+    const type = String(res.headers['content-type'] ?? '').split(';')[0].trim();
+    const media = documented.content?.[type];
+    if (!media) return [`media type "${type}" is not documented for ${status} (documented: ${Object.keys(documented.content ?? {}).join(', ')})`];
+    if (!/json$/.test(type) || !media.schema) return [];
+    const validate = validator(media.schema);
+    return validate(res.body) ? [] : (validate.errors ?? []).slice(0, 5).map((e) => `${e.instancePath || '(root)'} ${e.message} ${JSON.stringify(e.params)}`);
+  }
+
+  it('answers every documented operation with a documented success status, media type and body schema', async () => {
+    const problems: string[] = [];
+    for (const op of operations()) {
+      const calls = CALLS[op.key];
+      if (!calls) continue; // reported by the test above
+      const res = await calls.ok(ctx);
+      if (res.status < 200 || res.status >= 300) problems.push(`${op.key}: expected a success, got ${res.status} ${res.text.slice(0, 200)}`);
+      else problems.push(...conforms(op, res).map((p) => `${op.key} ${res.status}: ${p}`));
+    }
+    expect(problems).toEqual([]);
+  }, 120_000);
+
+  it('answers every documented operation\'s refusal with a documented 4xx problem+json body', async () => {
+    const problems: string[] = [];
+    for (const op of operations()) {
+      const calls = CALLS[op.key];
+      if (!calls?.bad) continue; // reported by the test above
+      const res = await calls.bad(ctx);
+      if (res.status < 400 || res.status >= 500) problems.push(`${op.key}: expected a 4xx, got ${res.status} ${res.text.slice(0, 200)}`);
+      else if (!String(res.headers['content-type']).startsWith('application/problem+json')) problems.push(`${op.key}: ${res.status} is not problem+json`);
+      else problems.push(...conforms(op, res).map((p) => `${op.key} ${res.status}: ${p}`));
+    }
+    expect(problems).toEqual([]);
+  }, 120_000);
+});
