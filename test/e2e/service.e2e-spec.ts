@@ -3,9 +3,10 @@
  * Runs on the embedded database, seeds the demo, and checks the shared contract examples through the network.
  */
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
-import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, symlinkSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { clearDesign } from '../support/designs';
 
 const root = join(__dirname, '../..');
 const main = join(root, 'dist/apps/api/src/main.js');
@@ -98,4 +99,37 @@ it('serves the PDF report of a seeded revision over the network', async () => {
   const pdf = await fetch(`${base}/api/v1/revisions/${revisions.items[0].id}/report.pdf`, authed());
   expect(pdf.status).toBe(200);
   expect(Buffer.from(await pdf.arrayBuffer()).subarray(0, 5).toString()).toBe('%PDF-');
+});
+
+// Last in the file: it registers a product and approves a revision on the seeded database.
+it("runs the README's short API tour as written: the blocked jack evaluates as blocked, the clear one is submitted and approved", async () => {
+  const clearFixture = JSON.parse(readFileSync(join(root, 'test/fixtures/ok/trapezoidal-jack-clear.json'), 'utf8'));
+  expect(clearFixture).toEqual(clearDesign); // the fixture is the clear jack the other tests use (test/support/designs.ts)
+  const readme = readFileSync(join(root, 'README.md'), 'utf8');
+  const block = /```sh\n([\s\S]*?)\n```/.exec(readme.slice(readme.indexOf('## A short API tour')))![1];
+  const reviewerToken = /Checking engineer \(demo\)\s+reviewer\s+(ll_\S+)/.exec(output)![1];
+  const script = block
+    .replace(/^export LEADLINE_TOKEN=.*$/m, `export LEADLINE_TOKEN=${token}`)
+    .replace(/^export REVIEWER_TOKEN=.*$/m, `export REVIEWER_TOKEN=${reviewerToken}`)
+    .replaceAll('http://127.0.0.1:3000', base);
+  expect(script).toContain(`API=${base}/api/v1`);
+  // run from a scratch folder that sees the repository's test/ (the tour names fixtures by relative path and writes reports)
+  const dir = mkdtempSync(join(tmpdir(), 'leadline-tour-'));
+  try {
+    symlinkSync(join(root, 'test'), join(dir, 'test'));
+    const r = spawnSync('bash', ['--norc', '--noprofile', '-c', `set -euo pipefail\n${script}\necho\necho "TOUR_REV=$REV"`], { cwd: dir, encoding: 'utf8', env: { PATH: process.env.PATH }, stdio: ['ignore', 'pipe', 'pipe'] });
+    expect({ status: r.status, stderr: r.stderr }).toEqual({ status: 0, stderr: '' });
+    // the first two answers are the evaluations: the README jack is blocked, the clear jack is clear
+    const verdicts = [...r.stdout.matchAll(/"verdict":"([a-z-]+)"/g)].map((m) => m[1]);
+    expect(verdicts.slice(0, 2)).toEqual(['blocked', 'clear']);
+    const rev = /TOUR_REV=(\S+)/.exec(r.stdout)![1];
+    const revision = await (await fetch(`${base}/api/v1/revisions/${rev}`, authed())).json();
+    expect(revision.verdict).toBe('clear');
+    expect(revision.review.state).toBe('approved');
+    expect(revision.input).toEqual(clearFixture);
+    expect(readFileSync(join(dir, 'report.pdf')).subarray(0, 5).toString()).toBe('%PDF-');
+    expect(readFileSync(join(dir, 'report.html'), 'utf8')).toContain('Safety caution');
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
 });

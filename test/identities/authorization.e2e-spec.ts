@@ -8,6 +8,7 @@ import { Writable } from 'node:stream';
 import { DEFAULT_RULE_SET } from '@leadline/rules';
 import { ROUTES } from '../../apps/api/src/infra/openapi';
 import { clearDesign, warningDesign } from '../support/designs';
+import { TEXTBOOK_JACK as SIZING_REQUIREMENTS } from '../support/sizing';
 import { startTestApp, type TestApp, type Who } from '../support/harness';
 
 const logLines: string[] = [];
@@ -82,6 +83,15 @@ const TABLE: Row[] = [
   { method: 'GET', path: '/api/v1/revisions/{id}/report.html', url: () => `/api/v1/revisions/${ids.revision}/report.html`, allowed: ALL },
   { method: 'GET', path: '/api/v1/revisions/{id}/report.pdf', url: () => `/api/v1/revisions/${ids.revision}/report.pdf`, allowed: ALL },
   { method: 'GET', path: '/api/v1/products/{id}/audit', url: () => `/api/v1/products/${ids.product}/audit?format=csv`, allowed: ALL },
+  // the design workbench and screw selection (issues 9 and 10): every signed-in role
+  { method: 'POST', path: '/api/v1/evaluations/charts', url: () => '/api/v1/evaluations/charts', body: () => clearDesign, allowed: ALL },
+  { method: 'GET', path: '/api/v1/products/{id}/design-file.pdf', url: () => `/api/v1/products/${ids.product}/design-file.pdf`, allowed: ALL },
+  { method: 'GET', path: '/api/v1/me', url: () => '/api/v1/me', allowed: ALL },
+  { method: 'GET', path: '/api/v1/me/revisions', url: () => '/api/v1/me/revisions', allowed: ALL },
+  {
+    method: 'POST', path: '/api/v1/sizing', url: () => '/api/v1/sizing', allowed: ALL,
+    body: () => ({ requirements: { ...SIZING_REQUIREMENTS }, search: { forms: ['trapezoidal'], starts: [1], majorDiameter: { min: '36 mm', max: '44 mm' }, limit: 3 } }),
+  },
 ];
 
 let client = 0;

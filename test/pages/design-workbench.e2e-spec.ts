@@ -100,6 +100,16 @@ async function checkPage(page: Page, name: string): Promise<void> {
   await page.setViewport({ width: 1280, height: 900 });
 }
 
+/** What the results panel calls each strength or stability check (safetyFactors keys of the evaluation). */
+const LOWEST_CHECK_LABELS: Record<string, string> = {
+  bodyVonMises: 'screw body (von Mises)',
+  firstThreadRoot: 'first engaged thread root',
+  strippingScrew: 'screw thread stripping',
+  strippingNut: 'nut thread stripping',
+  nutThreadRoot: 'nut thread root (bending and shear)',
+  buckling: 'column buckling',
+};
+
 /** A figure of the results panel as a number ("−1.234 N·m" -> -1.234). */
 async function figure(page: Page, name: string): Promise<number> {
   const raw = await text(page, `[data-figure="${name}"]`);
@@ -211,13 +221,15 @@ it('takes a design from a new product to an approved second revision and its des
   await typeInto(author, '#f-collar-outer', '70 mm');
   await typeInto(author, '#f-collar-inner', '42 mm');
   await typeInto(author, '#f-nut-length', '60 mm');
-  await typeInto(author, '#f-nut-material', 'bronze');
+  // aluminium bronze, 20 rpm and a rated brake: the jack that rule set 2026.12-2 passes (test/support/designs.ts clearDesign)
+  await typeInto(author, '#f-nut-material', 'aluminum-bronze');
   await typeInto(author, '#f-screw-material', 'steel-1045-cd');
   await typeInto(author, '#f-length', '520 mm');
   await chooseOption(author, '#f-ends', 'fixed-pinned');
-  await typeInto(author, '#f-speed', '60 rpm');
+  await typeInto(author, '#f-speed', '20 rpm');
   await tabTo(author, '#f-brake');
   await author.keyboard.press('Space');
+  await typeInto(author, '#f-brake-torque', '60 N*m');
   await typeInto(author, '#f-drive', '220 N*m');
   await waitForEvaluationAfter(author, 0);
   expect(await text(author, '#results-status')).toMatch(/^Results of the design/);
@@ -281,7 +293,7 @@ it('takes a design from a new product to an approved second revision and its des
   expect(await text(author, '#saved')).toContain('Stored as revision 1.');
   expect(await text(author, '#saved-hash')).toBe(rev1.hash);
   expect(await author.$eval('#saved-report', (a) => a.getAttribute('href'))).toBe(`/review/revisions/${rev1.id}`);
-  expect(rev1.input).toMatchObject({ thread: { form: 'trapezoidal', size: 'Tr 40x7', starts: 1 }, load: { axial: '18 kN' }, friction: { thread: { entry: 'thread/steel-bronze/oil' } } });
+  expect(rev1.input).toMatchObject({ thread: { form: 'trapezoidal', size: 'Tr 40x7', starts: 1 }, load: { axial: '18 kN' }, friction: { thread: { entry: 'thread/steel-bronze/oil' } }, nut: { material: 'aluminum-bronze' }, duty: { speed: '20 rpm', brake: true, brakeTorque: '60 N*m' } });
 
   // the numbers in the panel are the stored evaluation's (rounded to engineering figures: rtol 5e-3)
   const e = rev1.evaluation;
@@ -300,9 +312,17 @@ it('takes a design from a new product to an approved second revision and its des
   close(await figure(author, 'nut-pressure-allowable'), e.wear.allowablePressure, 1e-6);
   close(await figure(author, 'nut-pv'), e.wear.pv, 1e-6);
   close(await figure(author, 'drive-margin'), e.drive.margin);
+  close(await figure(author, 'drive-required'), e.drive.peakTorqueAtMotor);
+  expect(await text(author, '[data-figure="nut-pressure-class"]')).toBe(e.wear.allowablePressureClass);
+  close(await figure(author, 'brake-holding'), e.brake.holdingTorqueNoFriction);
+  close(await figure(author, 'brake-holding-min'), e.brake.holdingTorqueMinFriction);
+  close(await figure(author, 'brake-ratio'), e.brake.ratio);
   const factors = Object.entries(e.safetyFactors as Record<string, number | null>).filter((x): x is [string, number] => x[1] !== null);
   const lowest = factors.reduce((a, b) => (b[1] < a[1] ? b : a));
   close(await figure(author, 'lowest-factor'), lowest[1]);
+  // the bronze nut's own threads are a strength check of their own (engine 1.1), among those the lowest is taken from
+  expect(factors.map((f) => f[0])).toContain('nutThreadRoot');
+  expect(await text(author, '[data-figure="lowest-check"]')).toBe(LOWEST_CHECK_LABELS[lowest[0]]);
   expect(await text(author, '#results-findings')).toContain(rev1.findings.length ? rev1.findings[0].message : 'No findings.');
   await checkPage(author, 'design-form-saved');
   // the report link: the author reads the report; the decision form is the checking engineer's alone

@@ -50,7 +50,10 @@ function governingValue(ruleId: string, e: any): number {
     case 'screw-thread-stripping': return e.safetyFactors.strippingScrew;
     case 'nut-thread-stripping': return e.safetyFactors.strippingNut;
     case 'column-buckling': return e.buckling.safetyFactor;
-    case 'shaft-whirl-speed': return e.criticalSpeed.ratio;
+    case 'nut-thread-root-yield': return e.safetyFactors.nutThreadRoot;
+    // the rule takes the lower of the classical and the partly fixed critical speed (engine 1.1)
+    case 'shaft-whirl-speed': return e.criticalSpeed.partlyFixed && e.criticalSpeed.partlyFixed.rpm < e.criticalSpeed.rpm ? e.criticalSpeed.partlyFixed.ratio : e.criticalSpeed.ratio;
+    case 'brake-holding-torque': return e.brake.ratio;
     case 'nut-bearing-pressure': return e.wear.pressureRatio;
     case 'nut-pv': return e.wear.pvRatio;
     case 'drive-torque-margin': return e.drive.margin;
@@ -70,7 +73,7 @@ async function expectCandidatesHold(answer: any, density: number) {
     expect(f.efficiency).toBe(e.efficiency.atMinFriction);
     expect(f.selfLockingMargin).toBe(e.selfLocking.margin);
     const sf = e.safetyFactors;
-    expect(f.lowestStrengthSafetyFactor).toBe(Math.min(...[sf.bodyVonMises, sf.firstThreadRoot, sf.strippingScrew, sf.strippingNut].filter((x) => x !== null)));
+    expect(f.lowestStrengthSafetyFactor).toBe(Math.min(...[sf.bodyVonMises, sf.firstThreadRoot, sf.strippingScrew, sf.strippingNut, sf.nutThreadRoot].filter((x) => x !== null)));
     expect(f.bucklingFactor).toBe(e.buckling.applies ? e.buckling.safetyFactor : null);
     expect(f.speedRatio).toBe(e.criticalSpeed.ratio);
     expect(f.nutPressureRatio).toBe(e.wear.pressureRatio);

@@ -15,6 +15,9 @@ import fc from 'fast-check';
  * choices: E 210 GPa and 7850 kg/m^3 (common values for steel), the dry steel/bronze friction range of Shigley 9th
  * ed. Table 8-5, a plain collar of 1.6 d, hand operation at 10 rev/min. The book picks a square thread; the search
  * offers trapezoidal and Acme sizes under Leadline's rule set (lifting factor 3 on yield), so its answer is larger.
+ * The book's 18 MPa is one nut value used at any speed (engine 1.1); at 10 rev/min the smallest answer (about 95 mm)
+ * rubs at about 9 ft/min, within the screw-jack class of Shigley Table 8-4 anyway; the nut's own threads are checked on
+ * the book's 100 MPa.
  */
 export const TEXTBOOK_JACK = {
   load: { axial: '80 kN', sense: 'compression' },
@@ -26,12 +29,15 @@ export const TEXTBOOK_JACK = {
 } as const;
 
 /**
- * An invented positioning lead screw: 3 kN in tension at 600 rev/min over 1.5 m between a fixed and a pinned end,
+ * An invented positioning lead screw: 1 kN in tension at 600 rev/min over 1.5 m between a fixed and a pinned end,
  * oiled bronze nut, rolling thrust bearing (friction 0.0015-0.005: rolling-bearing friction coefficients of the
- * SKF general catalogue, from memory), 6 N*m motor.
+ * SKF general catalogue, from memory), 6 N*m motor. At 600 rev/min a bronze nut on a 16-30 mm screw rubs at 30-57
+ * m/min, in the lead-screw class of Shigley Table 8-4 (150-240 psi, about 1 MPa; engine 1.1), so the load is one a
+ * sliding bronze nut carries at that speed: the 3 kN this set had before engine 1.1 needs a screw of 26 mm or more
+ * for the nut pressure alone, and no such screw is driven by 6 N*m.
  */
 export const LEAD_SCREW = {
-  load: { axial: '3 kN', sense: 'tension' },
+  load: { axial: '1 kN', sense: 'tension' },
   duty: { kind: 'positioning', speed: '600 rpm', brake: false },
   friction: {
     thread: { entry: 'thread/steel-bronze/oil' },

@@ -94,7 +94,7 @@ export const sizingFiguresSchema = z.object({
   raiseTorque: z.number().describe('raise torque at maximum friction, collar included [N*m]'),
   efficiency: z.number().describe('efficiency at minimum friction, collar included [-]'),
   selfLockingMargin: z.number().describe('f_min / (cos alpha_n tan lambda) [-]'),
-  lowestStrengthSafetyFactor: z.number().describe('lowest static factor of safety of body, first-thread root and stripping [-]'),
+  lowestStrengthSafetyFactor: z.number().describe('lowest static factor of safety of body, first-thread root, stripping and the nut thread root [-]'),
   lowestStrengthCheck: z.string().describe('which strength check gives the lowest factor'),
   bucklingFactor: nnum.describe('P_cr / F; null in tension'),
   speedRatio: nnum.describe('operating over first critical speed; null without a speed'),

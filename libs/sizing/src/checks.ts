@@ -5,6 +5,8 @@
 import type { Finding } from '@leadline/contracts';
 import type { Design, Evaluation } from '@leadline/mechanics';
 import {
+  BRAKE_HOLDING_TORQUE_ID,
+  brakeMinHoldingFactor,
   COLUMN_BUCKLING_ID,
   COLUMN_END_FIXITY_ID,
   DRIVE_TORQUE_MARGIN_ID,
@@ -12,7 +14,9 @@ import {
   LIFTING_SELF_LOCKING_ID,
   NUT_BEARING_PRESSURE_ID,
   NUT_PV_ID,
+  NUT_THREAD_ROOT_YIELD_ID,
   NUT_THREAD_STRIPPING_ID,
+  nutThreadMinSafetyFactor,
   SCREW_BODY_YIELD_ID,
   SCREW_THREAD_STRIPPING_ID,
   SHAFT_WHIRL_SPEED_ID,
@@ -92,11 +96,20 @@ export function checkMargins(design: Design, e: Evaluation, t: Thresholds): Chec
   add('first-thread root strength', THREAD_ROOT_YIELD_ID, e.safetyFactors.firstThreadRoot, strength, 'minimum');
   add('screw thread stripping', SCREW_THREAD_STRIPPING_ID, e.safetyFactors.strippingScrew, strength, 'minimum');
   add('nut thread stripping', NUT_THREAD_STRIPPING_ID, design.nut.yieldStrength === null ? null : e.safetyFactors.strippingNut, strength, 'minimum');
+  // The nut's own threads, where the rule set runs that rule (2026.12-2 on; nutThreads absent before)
+  if (t.nutThreads !== undefined && design.nut.yieldStrength !== null) {
+    add("nut's own thread root strength", NUT_THREAD_ROOT_YIELD_ID, e.safetyFactors.nutThreadRoot, nutThreadMinSafetyFactor(t)[d.kind], 'minimum');
+  }
   if (e.buckling.applies) add('column buckling', COLUMN_BUCKLING_ID, e.buckling.safetyFactor ?? Number.NaN, t.buckling.minSafetyFactor[d.kind], 'minimum');
-  add('whirl speed', SHAFT_WHIRL_SPEED_ID, e.criticalSpeed.ratio, t.criticalSpeed.maxRatio, 'maximum');
+  // As the whirl rule: the lower of the classical and the partly fixed critical speed governs
+  const pf = e.criticalSpeed.partlyFixed ?? null;
+  add('whirl speed', SHAFT_WHIRL_SPEED_ID, pf !== null && pf.rpm < e.criticalSpeed.rpm ? pf.ratio : e.criticalSpeed.ratio, t.criticalSpeed.maxRatio, 'maximum');
   add('nut bearing pressure', NUT_BEARING_PRESSURE_ID, e.wear.pressureRatio, t.wear.maxPressureRatio, 'maximum');
   add('nut pV', NUT_PV_ID, e.wear.pvRatio, t.wear.maxPvRatio, 'maximum');
   add('drive torque margin', DRIVE_TORQUE_MARGIN_ID, e.drive?.margin ?? null, t.drive.minMargin, 'minimum');
+  // A stated brake torque blocks below its factor on lifting duty only (elsewhere the rule warns)
+  const brakeFactor = brakeMinHoldingFactor(t);
+  if (d.kind === 'lifting' && d.brake && brakeFactor !== null) add('brake holding torque', BRAKE_HOLDING_TORQUE_ID, e.brake.ratio, brakeFactor, 'minimum');
   return out;
 }
 
@@ -143,6 +156,7 @@ export function figuresOf(design: Design, e: Evaluation): Figures {
     ['first-thread root', sf.firstThreadRoot],
     ['screw thread stripping', sf.strippingScrew],
     ['nut thread stripping', sf.strippingNut],
+    ["nut's own thread root", sf.nutThreadRoot],
   ];
   let lowest = strength[0];
   for (const s of strength) if (s[1] !== null && !(s[1] >= (lowest[1] as number))) lowest = s;

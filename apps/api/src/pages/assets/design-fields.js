@@ -84,6 +84,7 @@ export function readDesign() {
   optional(design.duty, 'speed', text('f-speed'));
   optional(design.duty, 'linearSpeed', text('f-linear'));
   design.duty.brake = $('f-brake').checked;
+  optional(design.duty, 'brakeTorque', text('f-brake-torque'));
   design.duty.vibration = $('f-vibration').checked;
   const drive = text('f-drive');
   if (drive !== '') design.drive = { availableTorque: drive };
@@ -147,6 +148,7 @@ export function fillDesign(d) {
   set('f-speed', duty.speed);
   set('f-linear', duty.linearSpeed);
   $('f-brake').checked = duty.brake === true;
+  set('f-brake-torque', duty.brakeTorque);
   $('f-vibration').checked = duty.vibration === true;
   set('f-drive', d.drive && d.drive.availableTorque);
   syncVisibility();

@@ -12,6 +12,7 @@ const CHECKS = {
   firstThreadRoot: 'first engaged thread root',
   strippingScrew: 'screw thread stripping',
   strippingNut: 'nut thread stripping',
+  nutThreadRoot: 'nut thread root (bending and shear)',
   buckling: 'column buckling',
 };
 
@@ -56,12 +57,47 @@ export function renderResults(panel, e, system) {
     row('Lowest safety factor', lowest ? [value('lowest-factor', sig(lowest.value)), ' — ', value('lowest-check', lowest.label)] : 'none computed'),
     row('Buckling safety factor', e.buckling.applies ? [value('buckling-factor', sig(e.buckling.safetyFactor)), e.buckling.regime ? ' (' + e.buckling.regime + ' column)' : ''] : value('buckling-factor', 'does not apply (screw in tension)')),
     row('Whirl (critical speed)', [value('critical-speed', sig(e.criticalSpeed.rpm) + ' rpm'), ' critical; operating / critical = ', value('speed-ratio', e.criticalSpeed.ratio === null ? 'no speed given' : sig(e.criticalSpeed.ratio))]),
-    row('Nut bearing pressure', value('nut-pressure', q(w.bearingPressure, 'pressure')), w.allowablePressure === null ? 'no allowable given' : ['allowable ', value('nut-pressure-allowable', q(w.allowablePressure, 'pressure'))], w.pressureRatio === null ? status(null) : status(w.pressureRatio <= 1, 'within the allowable', 'ABOVE the allowable')),
+    ...partlyFixedRows(e.criticalSpeed.partlyFixed),
+    row('Nut bearing pressure', value('nut-pressure', q(w.bearingPressure, 'pressure')), w.allowablePressure === null ? 'no allowable given' : ['allowable ', value('nut-pressure-allowable', q(w.allowablePressure, 'pressure')), ...allowableClass(w)], w.pressureRatio === null ? status(null) : status(w.pressureRatio <= 1, 'within the allowable', 'ABOVE the allowable')),
     row('Nut pV', value('nut-pv', w.pv === null ? 'no speed given' : q(w.pv, 'pv')), w.allowablePv === null ? 'no allowable given' : ['allowable ', value('nut-pv-allowable', q(w.allowablePv, 'pv'))], w.pvRatio === null ? status(null) : status(w.pvRatio <= 1, 'within the allowable', 'ABOVE the allowable')),
-    row('Drive margin', e.drive ? [value('drive-margin', sig(e.drive.margin)), ' = available / required'] : value('drive-margin', 'no drive torque given'), e.drive ? ['required ', value('drive-required', q(e.drive.requiredTorque, 'torque')), ', available ', q(e.drive.availableTorque, 'torque')] : ''),
+    row('Drive margin', e.drive ? [value('drive-margin', sig(e.drive.margin)), ' = available / required'] : value('drive-margin', 'no drive torque given'), e.drive ? ['required ', value('drive-required', q(e.drive.requiredTorque, 'torque')), driveBasis(e.drive), ', available ', q(e.drive.availableTorque, 'torque')] : ''),
   ];
+  if (e.brake) rows.push(brakeRow(e.brake, e.drive, q));
   panel.figures.tBodies[0].replaceChildren(...rows);
   renderFindings(panel.findings, e.findings);
+}
+
+/** Which allowable pressure applied: the rubbing-speed class of a speed-rated table, or one value at any speed. */
+function allowableClass(w) {
+  if (w.allowablePressureBasis === 'any-speed') return [' (', value('nut-pressure-class', 'one value, used at any speed'), ')'];
+  if (w.allowablePressureClass) return [' for the rubbing speed (', value('nut-pressure-class', w.allowablePressureClass), ')'];
+  return [];
+}
+
+/** Whirl with fixed ends taken as only partly fixed, where the engine reports it (the rule uses the lower speed). */
+function partlyFixedRows(pf) {
+  if (!pf) return [];
+  return [row('Whirl, fixed ends partly fixed', [value('critical-speed-partly-fixed', sig(pf.rpm) + ' rpm'), ' critical; operating / critical = ', value('speed-ratio-partly-fixed', pf.ratio === null ? 'no speed given' : sig(pf.ratio))], 'the whirl rule uses the lower critical speed')];
+}
+
+/** What the drive's required torque is: the peak at the motor, steady plus acceleration, through a gearbox if any. */
+function driveBasis(d) {
+  if (d.peakTorqueAtMotor === undefined) return '';
+  const parts = [' (peak at the motor'];
+  if (d.accelerationTorque > 0) parts.push(': steady raise torque plus acceleration');
+  if (d.gearbox) parts.push(', through the gearbox');
+  parts.push(')');
+  return parts.join('');
+}
+
+/** Holding the load: the torque a brake must supply with thread friction lost, and against the rated torque if stated. */
+function brakeRow(b, drive, q) {
+  const values = [value('brake-holding', q(b.holdingTorqueNoFriction, 'torque')), ' with thread friction lost; ', value('brake-holding-min', q(b.holdingTorqueMinFriction, 'torque')), ' at lowest friction'];
+  if (drive && drive.gearbox) values.push('; at the motor ', value('brake-holding-motor', q(drive.holdingTorqueAtMotor, 'torque')));
+  const against = b.ratedTorque === null
+    ? 'no brake torque stated'
+    : ['brake rated ', q(b.ratedTorque, 'torque'), ' = ', value('brake-ratio', sig(b.ratio)), ' × the torque with friction lost at the brake'];
+  return row('Brake holding torque (at the screw)', values, against);
 }
 
 /** Shows a server-drawn SVG chart as an image (no markup from the API enters the page), or hides its figure. */
