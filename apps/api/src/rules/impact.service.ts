@@ -9,7 +9,7 @@ import { judge, verdictOf } from '@leadline/rules';
 import { z } from 'zod';
 import { Database } from '../infra/database/database.service';
 import { validate } from '../infra/http/problem';
-import { CLOSED, SUPERSEDED } from '../reviews/reviews.service';
+import { revisionScope } from './revision-scope';
 import { RuleSetsService } from './rule-sets.service';
 
 export const impactSchema = z
@@ -29,22 +29,13 @@ export class ImpactService {
   async impact(version: string, body: unknown) {
     const input = validate(impactSchema, body ?? {});
     const target = await this.ruleSets.get(version);
-    const where =
-      input.scope === 'approved'
-        ? CLOSED('r', 'approved')
-        : `NOT ${SUPERSEDED('r')}`;
-    const params: unknown[] = [];
-    let filter = '';
-    if (input.productId) {
-      params.push(input.productId);
-      filter = ` AND r.product_id = $1`;
-    }
+    const { where, params } = revisionScope(input.scope, input.productId);
     const rows = await this.db.query<{
       id: string; product_id: string; calculation_id: string; revision: number; verdict: string; rule_set_version: string;
       normalized: Design; evaluation: Evaluation; findings: Finding[];
     }>(
       `SELECT r.id, r.product_id, r.calculation_id, r.revision, r.verdict, r.rule_set_version, r.normalized, r.evaluation, r.findings
-         FROM revisions r WHERE ${where}${filter} ORDER BY r.created_at, r.seq`,
+         FROM revisions r WHERE ${where} ORDER BY r.created_at, r.seq`,
       params,
     );
     const changes = [];

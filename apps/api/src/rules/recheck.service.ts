@@ -13,7 +13,7 @@ import { governingMargin, judge, verdictOf, type CheckMargin, type Thresholds } 
 import { z } from 'zod';
 import { Database } from '../infra/database/database.service';
 import { validate } from '../infra/http/problem';
-import { SUPERSEDED } from '../reviews/reviews.service';
+import { APPROVED_SQL, LATEST_SQL, revisionScope } from './revision-scope';
 import { RuleSetsService } from './rule-sets.service';
 
 export const recheckSchema = z
@@ -77,22 +77,14 @@ export class RecheckService {
   async recheck(body: unknown) {
     const input = validate(recheckSchema, body ?? {});
     const ruleSet = this.ruleSets.current();
-    const latest = `NOT ${SUPERSEDED('r')}`;
-    const approved = `EXISTS (SELECT 1 FROM revision_closures x WHERE x.revision_id = r.id AND x.kind = 'approved')`;
-    const where = input.scope === 'latest' ? latest : input.scope === 'approved' ? approved : `(${latest} OR ${approved})`;
-    const params: unknown[] = [];
-    let filter = '';
-    if (input.productId) {
-      params.push(input.productId);
-      filter = ` AND r.product_id = $1`;
-    }
+    const { where, params } = revisionScope(input.scope, input.productId);
     const rows = await this.db.query<{
       id: string; product_id: string; calculation_id: string; revision: number; verdict: Verdict; rule_set_version: string;
       engine_version: string; input: unknown; normalized: Design; evaluation: Evaluation; findings: Finding[]; approved: boolean; latest: boolean;
     }>(
       `SELECT r.id, r.product_id, r.calculation_id, r.revision, r.verdict, r.rule_set_version, r.engine_version, r.input, r.normalized,
-              r.evaluation, r.findings, ${approved} AS approved, ${latest} AS latest
-         FROM revisions r WHERE ${where}${filter} ORDER BY r.created_at, r.seq`,
+              r.evaluation, r.findings, ${APPROVED_SQL} AS approved, ${LATEST_SQL} AS latest
+         FROM revisions r WHERE ${where} ORDER BY r.created_at, r.seq`,
       params,
     );
     const thresholdsOf = new Map<string, Thresholds>();
