@@ -18,6 +18,9 @@ import { startPagesApp, type PagesApp } from './pages-app';
 
 const ARTIFACTS = join(__dirname, '../../artifacts/design');
 
+/** The design input's fields the form has no control for (yet): it keeps them as imported. */
+const KEPT_NOW = ['thread.toleranceClass', 'nut.allowablePressureBySpeed', 'screw.whirlSpan', 'screw.whirlEnds', 'duty.brakeLocation', 'drive.loadMass', 'drive.accelerationTime', 'drive.gearbox'];
+
 let t: PagesApp;
 let browser: Browser;
 const consoleProblems: string[] = [];
@@ -476,6 +479,74 @@ it('exports the design input exactly as the API takes it, and imports one from a
     const expected = (await t.call('POST', '/api/v1/evaluations', other)).body;
     // the panel shows the imported design's evaluation (torque in N·m at SI display; engineering figures, rtol 5e-3)
     expect(Math.abs((await figure(page, 'raise-max')) - expected.torque.raise.atMaxFriction)).toBeLessThanOrEqual(5e-3 * expected.torque.raise.atMaxFriction);
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+});
+
+/** The jack of the export test with every engine 1.1 input the form had no control for (invented demo values). */
+function jackWithEngine11Inputs() {
+  const design = JSON.parse(readFileSync(join(__dirname, '../fixtures/ok/trapezoidal-jack.json'), 'utf8'));
+  return {
+    ...design,
+    thread: { ...design.thread, toleranceClass: '7H/7e' },
+    nut: { ...design.nut, allowablePressureBySpeed: [{ upToRubbingSpeed: '0.1 m/s', allowablePressure: '17 MPa' }, { allowablePressure: '10 MPa' }] },
+    screw: { ...design.screw, endConditionBasis: 'recommended', whirlSpan: '600 mm', whirlEnds: 'pinned-pinned' },
+    duty: { ...design.duty, brakeLocation: 'motor' },
+    drive: { availableTorque: '60 N*m', loadMass: '1800 kg', accelerationTime: '0.5 s', gearbox: { ratio: 5, efficiency: 0.9, reverseEfficiency: 0.85 } },
+  };
+}
+
+/** Exports the design input of the form by keyboard and returns it as parsed from the downloaded file. */
+async function exportDesign(page: Page, dir: string): Promise<unknown> {
+  const cdp = await page.createCDPSession();
+  await cdp.send('Browser.setDownloadBehavior', { behavior: 'allowAndName', downloadPath: dir, eventsEnabled: true });
+  const done = new Promise<string>((resolve) => cdp.on('Browser.downloadProgress', (e: { guid: string; state: string }) => e.state === 'completed' && resolve(e.guid)));
+  await enterOn(page, '#export-json', false);
+  const exported = JSON.parse(readFileSync(join(dir, await done), 'utf8'));
+  await cdp.detach();
+  return exported;
+}
+
+it('keeps every imported field it has no control for: export and the saved revision hold them unchanged [design form]', async () => {
+  const plain = JSON.parse(readFileSync(join(__dirname, '../fixtures/ok/trapezoidal-jack.json'), 'utf8'));
+  const rich = jackWithEngine11Inputs();
+  expect((await t.call('POST', '/api/v1/evaluations', rich)).status).toBe(200);
+  const product = (await t.call('POST', '/api/v1/products', { code: 'BW-44', name: 'Brackwater gantry (test product)' })).body;
+  const opened = (await t.call('POST', `/api/v1/products/${product.id}/calculations`, { title: 'Gantry screw', design: plain })).body;
+  const page = await newTab();
+  await page.goto(`${t.baseUrl}/design/calculations/${opened.calculationId}/revise`);
+  await signIn(page, t.tokens.author);
+  await waitForEvaluationAfter(page, 0);
+  expect(await page.$eval('#kept-fields', (e) => (e as HTMLElement).hidden)).toBe(true);
+  const dir = mkdtempSync(join(tmpdir(), 'leadline-kept-'));
+  try {
+    const file = join(dir, 'gantry-design.json');
+    writeFileSync(file, JSON.stringify(rich));
+    const n = await evaluationNumber(page);
+    const input = await page.$('#import-json');
+    await (input as unknown as { uploadFile(p: string): Promise<void> }).uploadFile(file);
+    await waitForEvaluationAfter(page, n);
+    expect(await text(page, '#file-status')).toBe('Imported gantry-design.json.');
+    expect(await text(page, '#results-problem')).toBe('');
+    const kept = await text(page, '#kept-fields');
+    for (const path of KEPT_NOW) expect({ path, shown: kept.includes(path) }).toEqual({ path, shown: true });
+    expect(kept).toMatch(/^Kept as imported: /);
+    expect(await exportDesign(page, dir)).toEqual(rich);
+    await checkPage(page, 'design-form-kept');
+
+    // saving sends them unchanged: the stored revision's input is the imported design
+    await typeInto(page, '#f-note', 'Imported with gearbox, tolerance class and whirl span.');
+    await enterOn(page, '#save-submit', false);
+    await page.waitForSelector('#saved:not([hidden]), #save-problem .problem');
+    expect(await text(page, '#save-problem')).toBe('');
+    const revisionId = await page.$eval('#saved', (e) => (e as HTMLElement).dataset.revision!);
+    expect((await t.call('GET', `/api/v1/revisions/${revisionId}`)).body.input).toEqual(rich);
+
+    // revising that revision prefills from it and still keeps what has no control
+    await page.goto(`${t.baseUrl}/design/calculations/${opened.calculationId}/revise?from=${revisionId}`);
+    await waitForEvaluationAfter(page, 0);
+    expect(await exportDesign(page, dir)).toEqual(rich);
   } finally {
     rmSync(dir, { recursive: true, force: true });
   }

@@ -1,12 +1,87 @@
 /*
  * The design form's fields and the API's design input: readDesign builds exactly the body POST /evaluations
  * takes (empty optional fields left out), fillDesign puts a design input back into the fields, and fieldFor
- * finds the input a problem+json path names. Which fields show follows the choices made (size or diameter
+ * finds the input a problem+json path names. A loaded field the form has no control for is kept and sent as it
+ * came (keptPaths names them), so that saving or exporting never drops part of an engineering record. Which fields show follows the choices made (size or diameter
  * and pitch, library entry or typed range, kind of collar, buttress).
  */
 import { $ } from './lib-dom.js';
 
 const SURFACES = ['thread', 'collar'];
+
+/**
+ * The design input's fields the form has a control for (true: the whole subtree). Anything else in a loaded
+ * design (a field of a later engine, or one the form does not offer yet) is kept as loaded and sent unchanged.
+ */
+const CONTROLLED = {
+  thread: { form: true, size: true, majorDiameter: true, pitch: true, starts: true, loadFlankAngle: true },
+  load: { axial: true, sense: true },
+  friction: { thread: true, collar: true },
+  collar: true,
+  nut: { length: true, material: true, allowablePressure: true, allowablePv: true, yieldStrength: true },
+  screw: { material: true, yieldStrength: true, elasticModulus: true, density: true, unsupportedLength: true, ends: true, endConditionBasis: true },
+  duty: { kind: true, speed: true, linearSpeed: true, brake: true, brakeTorque: true, vibration: true },
+  drive: { availableTorque: true },
+};
+
+/** The loaded design's fields without a control: [{ path: ['drive', 'gearbox'], value }], in the input's order. */
+let kept = [];
+
+function isObject(v) {
+  return v !== null && typeof v === 'object' && !Array.isArray(v);
+}
+
+/** The fields of `value` that `controlled` has no control for, each with its path. */
+function uncontrolled(value, controlled, path) {
+  if (controlled === true || !isObject(value)) return [];
+  const out = [];
+  Object.keys(value).forEach(function (key) {
+    const at = path.concat([key]);
+    if (!Object.prototype.hasOwnProperty.call(controlled, key)) out.push({ path: at, value: value[key] });
+    else out.push.apply(out, uncontrolled(value[key], controlled[key], at));
+  });
+  return out;
+}
+
+/** Names in the trade's words of the fields the form may keep as loaded. */
+const KEPT_WORDS = {
+  'thread.toleranceClass': 'thread tolerance class',
+  'nut.allowablePressureBySpeed': 'nut allowable pressure by rubbing speed',
+  'screw.whirlSpan': 'rotating span for whirl',
+  'screw.whirlEnds': 'end conditions of the rotating span',
+  'duty.brakeLocation': 'shaft the brake sits on',
+  'drive.loadMass': 'mass moved with the nut',
+  'drive.accelerationTime': 'time to reach speed',
+  'drive.acceleration': 'nut acceleration',
+  'drive.gearbox': 'gearbox',
+};
+
+/** The kept fields in words, e.g. "gearbox (drive.gearbox)"; empty when the form holds every loaded field. */
+export function keptInWords() {
+  return keptPaths().map(function (p) {
+    return KEPT_WORDS[p] ? KEPT_WORDS[p] + ' (' + p + ')' : p;
+  });
+}
+
+/** The dotted paths of the loaded design's fields the form keeps as loaded (it has no control for them). */
+export function keptPaths() {
+  return kept.map(function (k) {
+    return k.path.join('.');
+  });
+}
+
+/** Puts every kept field back into a design read from the controls (a copy of the value, never shared). */
+function restoreKept(design) {
+  kept.forEach(function (k) {
+    let node = design;
+    for (let i = 0; i < k.path.length - 1; i++) {
+      if (!isObject(node[k.path[i]])) node[k.path[i]] = {};
+      node = node[k.path[i]];
+    }
+    node[k.path[k.path.length - 1]] = JSON.parse(JSON.stringify(k.value));
+  });
+  return design;
+}
 
 function text(id) {
   return $(id).value.trim();
@@ -88,7 +163,7 @@ export function readDesign() {
   design.duty.vibration = $('f-vibration').checked;
   const drive = text('f-drive');
   if (drive !== '') design.drive = { availableTorque: drive };
-  return design;
+  return restoreKept(design);
 }
 
 function set(id, value) {
@@ -98,6 +173,7 @@ function set(id, value) {
 /** Puts a design input (as the API takes it) into the fields. */
 export function fillDesign(d) {
   d = d || {};
+  kept = uncontrolled(d, CONTROLLED, []);
   const th = d.thread || {};
   set('f-form', th.form || 'trapezoidal');
   setRadio('size-mode', th.size !== undefined || (th.majorDiameter === undefined && th.pitch === undefined) ? 'standard' : 'custom');
