@@ -18,6 +18,9 @@ import { startPagesApp, type PagesApp } from './pages-app';
 
 const ARTIFACTS = join(__dirname, '../../artifacts/design');
 
+/** What of jackWithEngine11Inputs the form has no control for: four pressure steps (it has rows for three). */
+const KEPT_NOW = ['nut.allowablePressureBySpeed'];
+
 let t: PagesApp;
 let browser: Browser;
 const consoleProblems: string[] = [];
@@ -479,6 +482,148 @@ it('exports the design input exactly as the API takes it, and imports one from a
   } finally {
     rmSync(dir, { recursive: true, force: true });
   }
+});
+
+/**
+ * The jack of the export test with every engine 1.1 input (invented demo values); its four allowable-pressure
+ * steps are one more than the form has rows for, so the form keeps that list as imported.
+ */
+function jackWithEngine11Inputs() {
+  const design = JSON.parse(readFileSync(join(__dirname, '../fixtures/ok/trapezoidal-jack.json'), 'utf8'));
+  return {
+    ...design,
+    thread: { ...design.thread, toleranceClass: '7H/7e' },
+    nut: { ...design.nut, allowablePressureBySpeed: [{ upToRubbingSpeed: '0.05 m/s', allowablePressure: '20 MPa' }, { upToRubbingSpeed: '0.1 m/s', allowablePressure: '17 MPa' }, { upToRubbingSpeed: '0.2 m/s', allowablePressure: '13 MPa' }, { allowablePressure: '10 MPa' }] },
+    screw: { ...design.screw, endConditionBasis: 'recommended', whirlSpan: '600 mm', whirlEnds: 'pinned-pinned' },
+    duty: { ...design.duty, brakeLocation: 'motor' },
+    drive: { availableTorque: '60 N*m', loadMass: '1800 kg', accelerationTime: '0.5 s', gearbox: { ratio: 5, efficiency: 0.9, reverseEfficiency: 0.85 } },
+  };
+}
+
+/** Exports the design input of the form by keyboard and returns it as parsed from the downloaded file. */
+async function exportDesign(page: Page, dir: string): Promise<unknown> {
+  const cdp = await page.createCDPSession();
+  await cdp.send('Browser.setDownloadBehavior', { behavior: 'allowAndName', downloadPath: dir, eventsEnabled: true });
+  const done = new Promise<string>((resolve) => cdp.on('Browser.downloadProgress', (e: { guid: string; state: string }) => e.state === 'completed' && resolve(e.guid)));
+  await enterOn(page, '#export-json', false);
+  const exported = JSON.parse(readFileSync(join(dir, await done), 'utf8'));
+  await cdp.detach();
+  return exported;
+}
+
+it('keeps every imported field it has no control for: export and the saved revision hold them unchanged [design form]', async () => {
+  const plain = JSON.parse(readFileSync(join(__dirname, '../fixtures/ok/trapezoidal-jack.json'), 'utf8'));
+  const rich = jackWithEngine11Inputs();
+  expect((await t.call('POST', '/api/v1/evaluations', rich)).status).toBe(200);
+  const product = (await t.call('POST', '/api/v1/products', { code: 'BW-44', name: 'Brackwater gantry (test product)' })).body;
+  const opened = (await t.call('POST', `/api/v1/products/${product.id}/calculations`, { title: 'Gantry screw', design: plain })).body;
+  const page = await newTab();
+  await page.goto(`${t.baseUrl}/design/calculations/${opened.calculationId}/revise`);
+  await signIn(page, t.tokens.author);
+  await waitForEvaluationAfter(page, 0);
+  expect(await page.$eval('#kept-fields', (e) => (e as HTMLElement).hidden)).toBe(true);
+  const dir = mkdtempSync(join(tmpdir(), 'leadline-kept-'));
+  try {
+    const file = join(dir, 'gantry-design.json');
+    writeFileSync(file, JSON.stringify(rich));
+    const n = await evaluationNumber(page);
+    const input = await page.$('#import-json');
+    await (input as unknown as { uploadFile(p: string): Promise<void> }).uploadFile(file);
+    await waitForEvaluationAfter(page, n);
+    expect(await text(page, '#file-status')).toBe('Imported gantry-design.json.');
+    expect(await text(page, '#results-problem')).toBe('');
+    const kept = await text(page, '#kept-fields');
+    for (const path of KEPT_NOW) expect({ path, shown: kept.includes(path) }).toEqual({ path, shown: true });
+    expect(kept).toMatch(/^Kept as imported: /);
+    expect(await exportDesign(page, dir)).toEqual(rich);
+    await checkPage(page, 'design-form-kept');
+
+    // saving sends them unchanged: the stored revision's input is the imported design
+    await typeInto(page, '#f-note', 'Imported with gearbox, tolerance class and whirl span.');
+    await enterOn(page, '#save-submit', false);
+    await page.waitForSelector('#saved:not([hidden]), #save-problem .problem');
+    expect(await text(page, '#save-problem')).toBe('');
+    const revisionId = await page.$eval('#saved', (e) => (e as HTMLElement).dataset.revision!);
+    expect((await t.call('GET', `/api/v1/revisions/${revisionId}`)).body.input).toEqual(rich);
+
+    // revising that revision prefills from it and still keeps what has no control
+    await page.goto(`${t.baseUrl}/design/calculations/${opened.calculationId}/revise?from=${revisionId}`);
+    await waitForEvaluationAfter(page, 0);
+    expect(await text(page, '#kept-fields')).toContain('nut.allowablePressureBySpeed');
+    expect(await exportDesign(page, dir)).toEqual(rich);
+    // the controls show the rest: tolerance class, whirl span and ends, brake location, drive and gearbox
+    const values = await page.$$eval('#f-tolerance, #f-whirl-span, #f-whirl-ends, #f-brake-location, #f-drive, #f-load-mass, #f-accel-time, #f-gear-ratio, #f-gear-eff, #f-gear-rev', (els) => els.map((e) => (e as HTMLInputElement).value));
+    expect(values).toEqual(['7H/7e', '600 mm', 'pinned-pinned', 'motor', '60 N*m', '1800 kg', '0.5 s', '5', '0.9', '0.85']);
+    // a list that fits the rows is shown in them, and nothing is kept then
+    const two = { ...rich, nut: { ...rich.nut, allowablePressureBySpeed: [{ upToRubbingSpeed: '0.1 m/s', allowablePressure: '17 MPa' }, { allowablePressure: '10 MPa' }] } };
+    writeFileSync(file, JSON.stringify(two));
+    const m = await evaluationNumber(page);
+    await ((await page.$('#import-json')) as unknown as { uploadFile(p: string): Promise<void> }).uploadFile(file);
+    await waitForEvaluationAfter(page, m);
+    expect(await page.$eval('#kept-fields', (e) => (e as HTMLElement).hidden)).toBe(true);
+    expect(await page.$$eval('#f-step-1-p, #f-step-1-v, #f-step-2-p, #f-step-2-v, #f-step-3-p', (els) => els.map((e) => (e as HTMLInputElement).value))).toEqual(['17 MPa', '0.1 m/s', '10 MPa', '', '']);
+    expect(await exportDesign(page, dir)).toEqual(two);
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+});
+
+it('takes a tolerance class and a gearbox by keyboard, in the order of the sheet, with errors at the field; the results follow and the revision stores them [design form]', async () => {
+  const plain = JSON.parse(readFileSync(join(__dirname, '../fixtures/ok/trapezoidal-jack.json'), 'utf8'));
+  const product = (await t.call('POST', '/api/v1/products', { code: 'BW-45', name: 'Brackwater lifting beam (test product)' })).body;
+  const opened = (await t.call('POST', `/api/v1/products/${product.id}/calculations`, { title: 'Beam screw', design: plain })).body;
+  const page = await newTab();
+  await page.goto(`${t.baseUrl}/design/calculations/${opened.calculationId}/revise`);
+  await signIn(page, t.tokens.author);
+  await waitForEvaluationAfter(page, 0);
+
+  // the new fields come in the order of the sheet: thread, nut, screw, duty, drive and its gearbox
+  await page.focus('#f-form');
+  const order: string[] = [];
+  for (let i = 0; i < 200 && order[order.length - 1] !== 'f-gear-rev'; i++) {
+    await page.keyboard.press('Tab');
+    order.push(await page.evaluate(() => document.activeElement?.id ?? ''));
+  }
+  const sheet = ['f-tolerance', 'f-step-1-p', 'f-step-1-v', 'f-step-3-v', 'f-whirl-span', 'f-whirl-ends', 'f-brake-location', 'f-drive', 'f-load-mass', 'f-accel-time', 'f-accel', 'f-gear-ratio', 'f-gear-eff', 'f-gear-rev'];
+  expect(sheet.map((id) => order.indexOf(id)).every((at, i, all) => at >= 0 && (i === 0 || at > all[i - 1]))).toBe(true);
+  // the tolerance classes offered are those the engine holds for the chosen form (libs/mechanics TOLERANCE_CLASSES)
+  expect(await page.$$eval('#f-tolerance option:not([disabled])', (os) => os.map((o) => (o as HTMLOptionElement).value))).toEqual(['', '7H/7e']);
+
+  const before = (await t.call('POST', '/api/v1/evaluations', plain)).body;
+  let n = await evaluationNumber(page);
+  await page.focus('#f-form');
+  await chooseOption(page, '#f-tolerance', '7H/7e');
+  await typeInto(page, '#f-gear-ratio', '5');
+  await typeInto(page, '#f-gear-eff', '1.5');
+  await typeInto(page, '#f-gear-rev', '0.85');
+  // the refusal (problem+json) is shown at the field its path names
+  await page.waitForSelector('#f-gear-eff[aria-invalid="true"]');
+  expect(await text(page, '#f-gear-eff-error')).toContain('efficiency must be within 0..1');
+  await checkPage(page, 'design-form-gearbox-error');
+  await page.focus('#f-gear-ratio');
+  await typeInto(page, '#f-gear-eff', '0.9');
+  await waitForEvaluationAfter(page, n);
+  await page.waitForFunction(() => !document.querySelector('#design-form [aria-invalid="true"]'));
+
+  const design = { ...plain, thread: { ...plain.thread, toleranceClass: '7H/7e' }, drive: { availableTorque: '220 N*m', gearbox: { ratio: 5, efficiency: 0.9, reverseEfficiency: 0.85 } } };
+  const after = (await t.call('POST', '/api/v1/evaluations', design)).body;
+  expect(after.drive.requiredTorque).toBeLessThan(0.5 * before.drive.requiredTorque); // 5:1 at 90 %: about a fifth
+  expect(Math.abs(after.wear.bearingPressure - before.wear.bearingPressure)).toBeGreaterThan(0.01 * before.wear.bearingPressure);
+  // the panel shows the evaluation of the design with both (engineering figures, 3 or 4 significant: rtol 5e-3)
+  expect(Math.abs((await figure(page, 'drive-required')) - after.drive.requiredTorque)).toBeLessThanOrEqual(5e-3 * after.drive.requiredTorque);
+  expect(Math.abs((await figure(page, 'nut-pressure')) * 1e6 - after.wear.bearingPressure)).toBeLessThanOrEqual(5e-3 * after.wear.bearingPressure);
+  await checkPage(page, 'design-form-gearbox');
+
+  n = await evaluationNumber(page);
+  await typeInto(page, '#f-note', 'Gearbox 5:1 and tolerance class 7H/7e.');
+  await enterOn(page, '#save-submit', false);
+  await page.waitForSelector('#saved:not([hidden]), #save-problem .problem');
+  expect(await text(page, '#save-problem')).toBe('');
+  const revisionId = await page.$eval('#saved', (e) => (e as HTMLElement).dataset.revision!);
+  const stored = (await t.call('GET', `/api/v1/revisions/${revisionId}`)).body.input;
+  expect(stored.thread.toleranceClass).toBe('7H/7e');
+  expect(stored.drive).toEqual(design.drive);
+  expect(stored).toEqual({ ...design, screw: { ...design.screw, endConditionBasis: 'recommended' } });
 });
 
 it('drops a late answer to an earlier edit: the panel shows the evaluation of what the form holds [POST /api/v1/evaluations]', async () => {

@@ -6,8 +6,17 @@
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { basename, dirname, join } from 'node:path';
 import Handlebars from 'handlebars';
+import { TOLERANCE_CLASSES } from '@leadline/mechanics';
 import { CAUTION_TEXT } from '../reports/report-model';
 import { findTemplatesDir } from '../reports/report-renderer';
+
+/** The standard that defines each form's tolerance classes, for the design form's choice of class. */
+const TOLERANCE_STANDARDS: Readonly<Record<string, string>> = { trapezoidal: 'ISO 2903', acme: 'ASME B1.5' };
+
+/** The tolerance classes the engine holds, one option per class, tagged with its thread form. */
+const TOLERANCE_OPTIONS = Object.entries(TOLERANCE_CLASSES).flatMap(([form, classes]) =>
+  (classes ?? []).map((c) => ({ form, value: c, label: `${c} (${TOLERANCE_STANDARDS[form] ?? form}, nut/screw)` })),
+);
 
 /** One page: its shell (templates/pages/<name>.hbs), window title and script module (pages/assets). */
 interface PageSpec {
@@ -102,6 +111,8 @@ export class PageRenderer {
     return this.pages[page]({
       page, title: spec.title, script: ASSET_BASE + spec.script, caution: CAUTION_TEXT, styleNonce: styleNonce ?? null,
       frictionSurfaces: [{ surface: 'thread' }, { surface: 'collar' }],
+      toleranceOptions: TOLERANCE_OPTIONS,
+      pressureSteps: [{ n: 1, i: 0 }, { n: 2, i: 1 }, { n: 3, i: 2 }],
     });
   }
 

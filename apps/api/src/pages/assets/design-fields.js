@@ -1,12 +1,100 @@
 /*
  * The design form's fields and the API's design input: readDesign builds exactly the body POST /evaluations
  * takes (empty optional fields left out), fillDesign puts a design input back into the fields, and fieldFor
- * finds the input a problem+json path names. Which fields show follows the choices made (size or diameter
+ * finds the input a problem+json path names. A loaded field the form has no control for is kept and sent as it
+ * came (keptPaths names them), so that saving or exporting never drops part of an engineering record. Which fields show follows the choices made (size or diameter
  * and pitch, library entry or typed range, kind of collar, buttress).
  */
 import { $ } from './lib-dom.js';
 
 const SURFACES = ['thread', 'collar'];
+
+/**
+ * The design input's fields the form has a control for (true: the whole subtree). Anything else in a loaded
+ * design (a field of a later engine, or one the form does not offer yet) is kept as loaded and sent unchanged.
+ */
+const CONTROLLED = {
+  thread: { form: true, size: true, majorDiameter: true, pitch: true, starts: true, loadFlankAngle: true, toleranceClass: true },
+  load: { axial: true, sense: true },
+  friction: { thread: true, collar: true },
+  collar: true,
+  nut: { length: true, material: true, allowablePressure: true, allowablePressureBySpeed: stepsFit, allowablePv: true, yieldStrength: true },
+  screw: { material: true, yieldStrength: true, elasticModulus: true, density: true, unsupportedLength: true, ends: true, endConditionBasis: true, whirlSpan: true, whirlEnds: true },
+  duty: { kind: true, speed: true, linearSpeed: true, brake: true, brakeTorque: true, vibration: true, brakeLocation: true },
+  drive: { availableTorque: true, loadMass: true, accelerationTime: true, acceleration: true, gearbox: { ratio: true, efficiency: true, reverseEfficiency: true } },
+};
+
+/** How many allowable-pressure steps the form has rows for; a longer list is kept as loaded. */
+const STEP_ROWS = 3;
+
+/** True when a loaded list of pressure steps fits the form's rows (text values of the two known keys only). */
+function stepsFit(steps) {
+  return Array.isArray(steps) && steps.length <= STEP_ROWS && steps.every(function (step) {
+    return isObject(step) && Object.keys(step).every(function (k) {
+      return (k === 'allowablePressure' || k === 'upToRubbingSpeed') && typeof step[k] === 'string';
+    });
+  });
+}
+
+/** The loaded design's fields without a control: [{ path: ['drive', 'gearbox'], value }], in the input's order. */
+let kept = [];
+
+function isObject(v) {
+  return v !== null && typeof v === 'object' && !Array.isArray(v);
+}
+
+/** The fields of `value` that `controlled` has no control for, each with its path. */
+function uncontrolled(value, controlled, path) {
+  if (typeof controlled === 'function') return controlled(value) ? [] : [{ path: path, value: value }];
+  if (controlled === true || !isObject(value)) return [];
+  const out = [];
+  Object.keys(value).forEach(function (key) {
+    const at = path.concat([key]);
+    if (!Object.prototype.hasOwnProperty.call(controlled, key)) out.push({ path: at, value: value[key] });
+    else out.push.apply(out, uncontrolled(value[key], controlled[key], at));
+  });
+  return out;
+}
+
+/** Names in the trade's words of the fields the form may keep as loaded. */
+const KEPT_WORDS = {
+  'thread.toleranceClass': 'thread tolerance class',
+  'nut.allowablePressureBySpeed': 'nut allowable pressure by rubbing speed',
+  'screw.whirlSpan': 'rotating span for whirl',
+  'screw.whirlEnds': 'end conditions of the rotating span',
+  'duty.brakeLocation': 'shaft the brake sits on',
+  'drive.loadMass': 'mass moved with the nut',
+  'drive.accelerationTime': 'time to reach speed',
+  'drive.acceleration': 'nut acceleration',
+  'drive.gearbox': 'gearbox',
+};
+
+/** The kept fields in words, e.g. "gearbox (drive.gearbox)"; empty when the form holds every loaded field. */
+export function keptInWords() {
+  return keptPaths().map(function (p) {
+    return KEPT_WORDS[p] ? KEPT_WORDS[p] + ' (' + p + ')' : p;
+  });
+}
+
+/** The dotted paths of the loaded design's fields the form keeps as loaded (it has no control for them). */
+export function keptPaths() {
+  return kept.map(function (k) {
+    return k.path.join('.');
+  });
+}
+
+/** Puts every kept field back into a design read from the controls (a copy of the value, never shared). */
+function restoreKept(design) {
+  kept.forEach(function (k) {
+    let node = design;
+    for (let i = 0; i < k.path.length - 1; i++) {
+      if (!isObject(node[k.path[i]])) node[k.path[i]] = {};
+      node = node[k.path[i]];
+    }
+    node[k.path[k.path.length - 1]] = JSON.parse(JSON.stringify(k.value));
+  });
+  return design;
+}
 
 function text(id) {
   return $(id).value.trim();
@@ -53,6 +141,7 @@ export function readDesign() {
   const starts = text('f-starts');
   if (starts !== '') thread.starts = Number.isFinite(Number(starts)) ? Number(starts) : starts;
   if (form === 'buttress') thread.loadFlankAngle = $('f-flank').value;
+  optional(thread, 'toleranceClass', $('f-tolerance').value);
   const collarKind = $('f-collar-kind').value;
   const design = {
     thread: thread,
@@ -72,6 +161,17 @@ export function readDesign() {
   }
   optional(design.nut, 'material', text('f-nut-material'));
   optional(design.nut, 'allowablePressure', text('f-nut-p'));
+  const steps = [];
+  for (let n = 1; n <= STEP_ROWS; n++) {
+    const p = text('f-step-' + n + '-p');
+    const v = text('f-step-' + n + '-v');
+    if (p === '' && v === '') continue;
+    const step = {};
+    optional(step, 'upToRubbingSpeed', v);
+    step.allowablePressure = p; // an empty one goes to the API, which names the field
+    steps.push(step);
+  }
+  if (steps.length) design.nut.allowablePressureBySpeed = steps;
   optional(design.nut, 'allowablePv', text('f-nut-pv'));
   optional(design.nut, 'yieldStrength', text('f-nut-yield'));
   optional(design.screw, 'material', text('f-screw-material'));
@@ -81,14 +181,26 @@ export function readDesign() {
   design.screw.unsupportedLength = text('f-length');
   design.screw.ends = $('f-ends').value;
   design.screw.endConditionBasis = $('f-basis').value;
+  optional(design.screw, 'whirlSpan', text('f-whirl-span'));
+  optional(design.screw, 'whirlEnds', $('f-whirl-ends').value);
   optional(design.duty, 'speed', text('f-speed'));
   optional(design.duty, 'linearSpeed', text('f-linear'));
   design.duty.brake = $('f-brake').checked;
   optional(design.duty, 'brakeTorque', text('f-brake-torque'));
+  optional(design.duty, 'brakeLocation', $('f-brake-location').value);
   design.duty.vibration = $('f-vibration').checked;
-  const drive = text('f-drive');
-  if (drive !== '') design.drive = { availableTorque: drive };
-  return design;
+  const drive = {};
+  optional(drive, 'availableTorque', text('f-drive'));
+  optional(drive, 'loadMass', text('f-load-mass'));
+  optional(drive, 'accelerationTime', text('f-accel-time'));
+  optional(drive, 'acceleration', text('f-accel'));
+  const gear = { ratio: coefficient(text('f-gear-ratio')), efficiency: coefficient(text('f-gear-eff')), reverseEfficiency: coefficient(text('f-gear-rev')) };
+  if (Object.values(gear).some(function (v) { return v !== undefined; })) drive.gearbox = gear; // a missing one is named by the API
+  if (Object.keys(drive).length) {
+    if (drive.availableTorque === undefined) drive.availableTorque = ''; // the API names the missing drive torque
+    design.drive = drive;
+  }
+  return restoreKept(design);
 }
 
 function set(id, value) {
@@ -98,6 +210,7 @@ function set(id, value) {
 /** Puts a design input (as the API takes it) into the fields. */
 export function fillDesign(d) {
   d = d || {};
+  kept = uncontrolled(d, CONTROLLED, []);
   const th = d.thread || {};
   set('f-form', th.form || 'trapezoidal');
   setRadio('size-mode', th.size !== undefined || (th.majorDiameter === undefined && th.pitch === undefined) ? 'standard' : 'custom');
@@ -106,6 +219,7 @@ export function fillDesign(d) {
   set('f-pitch', th.pitch);
   set('f-starts', th.starts === undefined ? 1 : th.starts);
   if (th.loadFlankAngle !== undefined) set('f-flank', typeof th.loadFlankAngle === 'number' ? th.loadFlankAngle + ' deg' : th.loadFlankAngle);
+  setToleranceClass(th.form || 'trapezoidal', th.toleranceClass);
   const load = d.load || {};
   set('f-load', load.axial);
   set('f-sense', load.sense || 'compression');
@@ -133,6 +247,11 @@ export function fillDesign(d) {
   set('f-nut-length', nut.length);
   set('f-nut-material', nut.material);
   set('f-nut-p', nut.allowablePressure);
+  const steps = stepsFit(nut.allowablePressureBySpeed) ? nut.allowablePressureBySpeed : [];
+  for (let n = 1; n <= STEP_ROWS; n++) {
+    set('f-step-' + n + '-p', steps[n - 1] && steps[n - 1].allowablePressure);
+    set('f-step-' + n + '-v', steps[n - 1] && steps[n - 1].upToRubbingSpeed);
+  }
   set('f-nut-pv', nut.allowablePv);
   set('f-nut-yield', nut.yieldStrength);
   const s = d.screw || {};
@@ -143,19 +262,75 @@ export function fillDesign(d) {
   set('f-length', s.unsupportedLength);
   set('f-ends', s.ends || 'fixed-free');
   set('f-basis', s.endConditionBasis || 'recommended');
+  set('f-whirl-span', s.whirlSpan);
+  set('f-whirl-ends', s.whirlEnds);
   const duty = d.duty || {};
   set('f-duty', duty.kind || 'lifting');
   set('f-speed', duty.speed);
   set('f-linear', duty.linearSpeed);
   $('f-brake').checked = duty.brake === true;
   set('f-brake-torque', duty.brakeTorque);
+  set('f-brake-location', duty.brakeLocation);
   $('f-vibration').checked = duty.vibration === true;
-  set('f-drive', d.drive && d.drive.availableTorque);
+  const dr = d.drive || {};
+  set('f-drive', dr.availableTorque);
+  set('f-load-mass', dr.loadMass);
+  set('f-accel-time', dr.accelerationTime);
+  set('f-accel', dr.acceleration);
+  const gb = dr.gearbox || {};
+  set('f-gear-ratio', gb.ratio);
+  set('f-gear-eff', gb.efficiency);
+  set('f-gear-rev', gb.reverseEfficiency);
   syncVisibility();
+}
+
+/**
+ * Selects a loaded tolerance class; one the form's list does not hold for that thread form is added as it came
+ * (marked so), so that it is sent unchanged and the API names what is wrong with it at the field.
+ */
+function setToleranceClass(form, value) {
+  const select = $('f-tolerance');
+  select.querySelectorAll('option[data-loaded]').forEach(function (o) {
+    o.remove();
+  });
+  if (value === undefined || value === null || value === '') {
+    select.value = '';
+    return;
+  }
+  const held = Array.from(select.options).some(function (o) {
+    return o.value === String(value) && o.dataset.form === form;
+  });
+  if (!held) {
+    const option = document.createElement('option');
+    option.value = String(value);
+    option.dataset.form = form;
+    option.dataset.loaded = 'true';
+    option.textContent = String(value) + ' (as loaded; not a class held for this form)';
+    select.append(option);
+  }
+  select.value = String(value);
+}
+
+/** Offers only the tolerance classes of the chosen form; the field shows only for a form that has classes. */
+function syncToleranceClasses() {
+  const form = $('f-form').value;
+  const select = $('f-tolerance');
+  let any = false;
+  Array.from(select.options).forEach(function (o) {
+    if (o.value === '') return;
+    const mine = o.dataset.form === form;
+    o.hidden = !mine;
+    o.disabled = !mine;
+    if (mine) any = true;
+  });
+  const chosen = select.options[select.selectedIndex];
+  if (chosen && chosen.disabled) select.value = ''; // the form changed: its classes are another standard's
+  $('f-tolerance-field').hidden = !any && select.value === '';
 }
 
 /** Shows the fields that the choices made call for. */
 export function syncVisibility() {
+  syncToleranceClasses();
   const standard = radio('size-mode') === 'standard';
   $('f-size-field').hidden = !standard;
   $('f-custom-size').hidden = standard;

@@ -9,7 +9,7 @@ import { $, el } from './lib-dom.js';
 import { badge, VERDICTS } from './lib-format.js';
 import { clearFieldErrors, clearProblem, fieldErrors, showFieldErrors, showProblem } from './lib-problem.js';
 import { startPage } from './lib-session.js';
-import { fieldFor, fillDesign, readDesign, syncVisibility } from './design-fields.js';
+import { fieldFor, fillDesign, keptInWords, readDesign, syncVisibility } from './design-fields.js';
 import { renderResults, showChart } from './design-results.js';
 import { takeDraft } from './lib-draft.js';
 
@@ -91,6 +91,14 @@ function showContext(ctx) {
   }
 }
 
+/** Names, in words, the loaded fields the form has no control for: they are saved and exported unchanged. */
+function showKept() {
+  const words = keptInWords();
+  const slot = $('kept-fields');
+  slot.textContent = words.length ? 'Kept as imported: ' + words.join(', ') + '. The form has no field for ' + (words.length === 1 ? 'it' : 'them') + '; saving and exporting send ' + (words.length === 1 ? 'it' : 'them') + ' unchanged.' : '';
+  slot.hidden = words.length === 0;
+}
+
 async function designPage() {
   const form = $('design-form');
   const panel = { verdict: $('verdict'), figures: $('figures'), findings: $('results-findings') };
@@ -108,6 +116,7 @@ async function designPage() {
   if (ctx.from) fillDesign(ctx.from.input);
   else if (draft) fillDesign(draft.design);
   else fillDesign({ thread: { form: 'trapezoidal', starts: 1 }, friction: { thread: { entry: $('f-thread-entry').value }, collar: { entry: $('f-collar-entry').value } }, collar: { kind: 'annular', model: 'uniform-wear' }, screw: { ends: 'fixed-free' }, duty: { kind: 'lifting', brake: false } });
+  showKept();
   $('f-thread-entry').describe();
   $('f-collar-entry').describe();
   $('design').hidden = false;
@@ -224,6 +233,7 @@ async function designPage() {
     try {
       const design = JSON.parse(await file.text());
       fillDesign(design);
+      showKept();
       form.querySelectorAll('[data-path]').forEach(function (input) {
         touched.add(input.id);
       });
