@@ -33,6 +33,18 @@ it('refuses a value that converts to a non-finite number ("1e308 GPa") with 422 
   expect(await countRecords(t.db)).toEqual(before);
 });
 
+it('refuses a finite but implausible magnitude (the fuzz suite\'s "1.9345105578188634e+229 mm") with 422 naming the field and the bound, storing nothing [POST /api/v1/evaluations, POST /api/v1/products/:id/calculations]', async () => {
+  const before = await countRecords(t.db);
+  const bad = { ...design, screw: { ...design.screw, unsupportedLength: '1.9345105578188634e+229 mm' } };
+  const stateless = await t.call('POST', '/api/v1/evaluations', bad);
+  expect(stateless.status).toBe(422);
+  expect(stateless.body.errors).toEqual([{ path: 'screw.unsupportedLength', message: expect.stringMatching(/outside the plausible range 1 um to 1 km/) }]);
+  const res = await submit('absurd length', bad);
+  expect(res.status).toBe(422);
+  expect(res.body.errors).toEqual([expect.objectContaining({ path: 'design.screw.unsupportedLength' })]);
+  expect(await countRecords(t.db)).toEqual(before);
+});
+
 it('names the leaf field inside a choice: friction.collar as a range with "min": "NaN" [POST /api/v1/evaluations]', async () => {
   const res = await t.call('POST', '/api/v1/evaluations', { ...design, friction: { ...design.friction, collar: { min: 'NaN', max: 0.1, source: design.friction.collar.source } } });
   expect(res.status).toBe(422);

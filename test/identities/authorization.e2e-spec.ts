@@ -21,6 +21,7 @@ const capture = new Writable({
 
 let t: TestApp;
 const ids: Record<string, string> = {};
+let checkpoint: unknown;
 
 beforeAll(async () => {
   t = await startTestApp('postgres', { LOG_LEVEL: 'info' }, capture);
@@ -33,11 +34,14 @@ beforeAll(async () => {
   ids.reviseCalculation = (await open('authz revise')).calculationId;
   ids.decideRevision = (await open('authz decide')).revisionId;
   ids.withdrawRevision = (await open('authz withdraw')).revisionId;
+  ids.reassignCalculation = (await open('authz reassign')).calculationId;
+  checkpoint = (await t.call('POST', `/api/v1/products/${ids.product}/checkpoints`, {}, { as: 'reviewer' })).body;
 });
 afterAll(() => t?.close());
 
 /** path: the route as the OpenAPI document names it; its documented success status is what each allowed role must get. */
-type Row = { method: string; path: string; url: () => string; body?: () => unknown; allowed: Who[] };
+/** open: the route needs no token (anonymous gets the documented status too). */
+type Row = { method: string; path: string; url: () => string; body?: () => unknown; allowed: Who[]; open?: boolean };
 const ALL: Who[] = ['author', 'reviewer', 'admin'];
 const unique = () => Math.random().toString(36).slice(2, 8);
 let ruleSetSeq = 0;
@@ -92,6 +96,13 @@ const TABLE: Row[] = [
     method: 'POST', path: '/api/v1/sizing', url: () => '/api/v1/sizing', allowed: ALL,
     body: () => ({ requirements: { ...SIZING_REQUIREMENTS }, search: { forms: ['trapezoidal'], starts: [1], majorDiameter: { min: '36 mm', max: '44 mm' }, limit: 3 } }),
   },
+  // admin only (issue 11 item 8: a chained, audited hand-over); the calculation's author is author2 afterwards
+  { method: 'POST', path: '/api/v1/calculations/{id}/reassignments', url: () => `/api/v1/calculations/${ids.reassignCalculation}/reassignments`, body: () => ({ userId: t.users.author2, reason: 'authorization table (test)' }), allowed: ['admin'] },
+  { method: 'GET', path: '/api/v1/identity-events', url: () => '/api/v1/identity-events', allowed: ['admin'] },
+  // checkpoints: signing the head on request and verifying are open to every role; the public key needs no token
+  { method: 'POST', path: '/api/v1/products/{id}/checkpoints', url: () => `/api/v1/products/${ids.product}/checkpoints`, body: () => ({}), allowed: ALL },
+  { method: 'POST', path: '/api/v1/checkpoints/verify', url: () => '/api/v1/checkpoints/verify', body: () => checkpoint, allowed: ALL },
+  { method: 'GET', path: '/api/v1/checkpoints/public-key', url: () => '/api/v1/checkpoints/public-key', allowed: ALL, open: true },
 ];
 
 let client = 0;
@@ -100,7 +111,7 @@ describe.each(TABLE)('$method $path', (row) => {
   it.each(['anonymous', ...ALL] as Who[])('as %s', async (who) => {
     // each anonymous call from its own address, so the failed-auth limit does not mask the 401
     const res = await t.call(row.method, row.url(), row.body?.(), { as: who, ip: `198.51.100.${++client % 250}` });
-    const expected = who === 'anonymous' ? 401 : row.allowed.includes(who) ? documented : 403;
+    const expected = who === 'anonymous' ? (row.open ? documented : 401) : row.allowed.includes(who) ? documented : 403;
     expect({ who, status: res.status }).toEqual({ who, status: expected });
   });
 });

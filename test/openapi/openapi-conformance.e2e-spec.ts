@@ -10,6 +10,7 @@ import Ajv, { type ValidateFunction } from 'ajv';
 import addFormats from 'ajv-formats';
 import { DEFAULT_RULE_SET } from '@leadline/rules';
 import { clearDesign, warningDesign } from '../support/designs';
+import { TEXTBOOK_JACK } from '../support/sizing';
 import { startTestApp, type TestApp } from '../support/harness';
 
 type Answer = Awaited<ReturnType<TestApp['call']>>;
@@ -25,6 +26,8 @@ interface Ctx {
   tokenId: string;
   /** A calculation opened by the author with one revision awaiting review (for one-shot calls: decide, withdraw) */
   freshRevision(design?: unknown): Promise<string>;
+  /** A calculation opened by the author (for one-shot calls: reassignment) */
+  freshCalculation(): Promise<string>;
 }
 
 interface Calls {
@@ -166,10 +169,56 @@ const CALLS: Record<string, Calls> = {
   'GET /health': {
     ok: (c) => c.t.call('GET', '/health', undefined, { as: 'anonymous' }),
   },
+  'POST /api/v1/sizing': {
+    ok: (c) => c.t.call('POST', '/api/v1/sizing', { requirements: TEXTBOOK_JACK, search: { forms: ['trapezoidal'] } }),
+    bad: (c) => c.t.call('POST', '/api/v1/sizing', { requirements: { ...TEXTBOOK_JACK, load: { axial: '80 MPa', sense: 'compression' } } }),
+  },
+  'POST /api/v1/evaluations/charts': {
+    ok: (c) => c.t.call('POST', '/api/v1/evaluations/charts?units=SI', clearDesign),
+    bad: (c) => c.t.call('POST', '/api/v1/evaluations/charts', { ...clearDesign, load: { axial: '18 MPa', sense: 'compression' } }),
+  },
+  'GET /api/v1/products/{id}/design-file.pdf': {
+    ok: (c) => c.t.call('GET', `/api/v1/products/${c.productId}/design-file.pdf`, undefined, { as: 'reviewer' }),
+    bad: (c) => c.t.call('GET', `/api/v1/products/${c.productId}/design-file.pdf?paper=A0`, undefined, { as: 'reviewer' }),
+  },
+  'GET /api/v1/me': {
+    ok: (c) => c.t.call('GET', '/api/v1/me'),
+    bad: (c) => c.t.call('GET', '/api/v1/me', undefined, { as: 'anonymous' }),
+  },
+  'GET /api/v1/me/revisions': {
+    ok: (c) => c.t.call('GET', '/api/v1/me/revisions?limit=5'),
+    bad: (c) => c.t.call('GET', '/api/v1/me/revisions?state=maybe'),
+  },
+  'POST /api/v1/calculations/{id}/reassignments': {
+    ok: async (c) => c.t.call('POST', `/api/v1/calculations/${await c.freshCalculation()}/reassignments`, { userId: c.t.users.author2, reason: 'conformance: handed over' }, { as: 'admin' }),
+    bad: (c) => c.t.call('POST', `/api/v1/calculations/${c.calculationId}/reassignments`, { userId: 'not-a-uuid' }, { as: 'admin' }),
+  },
+  'POST /api/v1/rule-sets/recheck': {
+    ok: (c) => c.t.call('POST', '/api/v1/rule-sets/recheck', { productId: c.productId }, { as: 'reviewer' }),
+    bad: (c) => c.t.call('POST', '/api/v1/rule-sets/recheck', { scope: 'everything' }, { as: 'reviewer' }),
+  },
+  'GET /api/v1/identity-events': {
+    ok: (c) => c.t.call('GET', '/api/v1/identity-events?limit=5', undefined, { as: 'admin' }),
+    bad: (c) => c.t.call('GET', '/api/v1/identity-events?limit=0', undefined, { as: 'admin' }),
+  },
+  'POST /api/v1/products/{id}/checkpoints': {
+    ok: (c) => c.t.call('POST', `/api/v1/products/${c.productId}/checkpoints`, {}, { as: 'reviewer' }),
+    bad: (c) => c.t.call('POST', `/api/v1/products/${MISSING}/checkpoints`, {}, { as: 'reviewer' }),
+  },
+  'POST /api/v1/checkpoints/verify': {
+    ok: async (c) => {
+      const signed = await c.t.call('POST', `/api/v1/products/${c.productId}/checkpoints`, {}, { as: 'reviewer' });
+      return c.t.call('POST', '/api/v1/checkpoints/verify', signed.body, { as: 'reviewer' });
+    },
+    bad: (c) => c.t.call('POST', '/api/v1/checkpoints/verify', { productId: c.productId, seq: 0, headHash: 'x', time: '', signature: '' }, { as: 'reviewer' }),
+  },
+  'GET /api/v1/checkpoints/public-key': {
+    ok: (c) => c.t.call('GET', '/api/v1/checkpoints/public-key', undefined, { as: 'anonymous' }),
+  },
 };
 
 /** Operations without a client error to provoke (public, no input). */
-const NO_4XX = new Set(['GET /health']);
+const NO_4XX = new Set(['GET /health', 'GET /api/v1/checkpoints/public-key']);
 
 interface Operation {
   key: string;
@@ -212,6 +261,10 @@ describe('OpenAPI document conformance', () => {
       async freshRevision(design = clearDesign) {
         const r = await t.call('POST', `/api/v1/products/${product.body.id}/calculations`, { title: 'one-shot', design });
         return r.body.revisionId;
+      },
+      async freshCalculation() {
+        const r = await t.call('POST', `/api/v1/products/${product.body.id}/calculations`, { title: 'to hand over', design: clearDesign });
+        return r.body.calculationId;
       },
     };
     expect(Object.values(ctx).every((v) => v !== undefined)).toBe(true);

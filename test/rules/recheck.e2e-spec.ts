@@ -113,7 +113,7 @@ describe('re-check of stored revisions [POST /api/v1/rule-sets/recheck]', () => 
     const appended = await store.appendRevision(t.db, product, opened.body.calculationId, prepareSubmission({
       input: refused, normalized: stored.normalized, evaluation: stored.evaluation, findings: stored.findings, verdict: stored.verdict,
       engineVersion: stored.engineVersion, ruleSetVersion: stored.ruleSetVersion, note: 'accepted by an earlier contract (test)',
-    }), null);
+    }), { id: t.users.author, name: 'Design author (test)' }); // as the calculation's owner (only its author may append)
     const res = await t.call('POST', RECHECK, { productId: product, scope: 'latest' }, { as: 'reviewer' });
     expect(res.body).toMatchObject({ examined: 1, changed: 1 });
     const [r] = res.body.revisions;

@@ -26,15 +26,24 @@ export const evaluationSchema = z.object({
     form: z.string(), size: z.string().nullable(), standard: z.string(), majorDiameter: num, pitch: num, starts: num, lead: num,
     meanDiameter: num, minorDiameter: num, threadHeight: num, crestClearance: num, nutMajorDiameter: num, flankAngle: num,
     leadAngle: num.describe('degrees'), normalFlankAngle: num.describe('degrees'), engagedThreads: num, rootThickness: num, nutRootThickness: num,
+    // added with issue 13 (absent from evaluations stored by earlier engine versions)
+    nutMinorDiameter: num.optional().describe('basic minor diameter of the nut thread D1 [m]'),
+    minimumMaterial: z.object({
+      toleranceClass: z.string().nullable(), majorDiameter: num, pitchDiameter: num, minorDiameter: num, nutMinorDiameter: num,
+      nutPitchDiameter: num, engagedHeight: num, basis: z.string(),
+    }).optional().describe('the diameters the strength, bearing and stripping checks use: a tolerance class\'s minimum material, else basic [m]'),
+    minorDiameterArea: num.optional().describe('pi d_r^2 / 4 of the section the strength checks use [m^2]'),
+    tensileStressArea: nnum.optional().describe('60 deg threads: tensile stress area of ISO 898-1 / ASME B1.1, for reference [m^2]; null for other forms'),
   }),
   torque: z.object({ raise: atFriction, lower: atFriction, collar: atFriction, threadRaise: atFriction, threadLower: atFriction, raiseSecAlpha: atFriction }),
   efficiency: atFriction.extend({ thread: atFriction }),
   selfLocking: z.object({ locks: z.boolean(), margin: num, boundaryFriction: num, backDrivingTorque: nnum }),
   stresses: z.object({
     body: z.object({ axial: num, torsion: num, vonMises: num, atMinFriction: z.object({ torsion: num, vonMises: num }) }),
-    firstThread: z.object({ bearing: num, rootBending: num, rootShear: num, vonMises: num }),
+    firstThread: z.object({ bearing: num, rootBending: num, rootShear: num, vonMises: num, load: num.optional().describe('max(0.38 F, F / n_t) [N] (issue 13)') }),
+    nutThread: z.object({ rootBending: num, rootShear: num }).optional().describe("the nut's own threads at their root, first-thread load [Pa] (issue 13)"),
     mean: z.object({ bearing: num, rootBending: num, rootShear: num, vonMises: num }),
-    stripping: z.object({ screw: num, nut: num }),
+    stripping: z.object({ screw: num, nut: num, screwArea: num.optional(), nutArea: num.optional() }),
   }),
   buckling: z.object({
     applies: z.boolean(), endConditionConstant: num, endConditionBasis: z.enum(['recommended', 'theoretical']), slenderness: num,
@@ -47,7 +56,13 @@ export const evaluationSchema = z.object({
     partlyFixed: z.object({ rpm: num, frequencyFactor: num, factor: num, endConditionConstant: num, ratio: nnum }).nullable().optional()
       .describe('fixed ends taken as only partly fixed (recommended basis); null when no end is fixed or the basis is theoretical'),
   }),
-  wear: z.object({ bearingPressure: num, slidingVelocity: nnum, pv: nnum, allowablePressure: nnum, allowablePv: nnum, pressureRatio: nnum, pvRatio: nnum }),
+  wear: z.object({
+    bearingPressure: num, slidingVelocity: nnum, pv: nnum, allowablePressure: nnum, allowablePv: nnum, pressureRatio: nnum, pvRatio: nnum,
+    // added with issue 13 (absent from evaluations stored by earlier engine versions)
+    allowablePressureClass: z.string().nullable().optional().describe('which allowable applied: the class of a speed-rated table, or the single value at any speed'),
+    allowablePressureSource: z.string().nullable().optional(),
+    allowablePressureBasis: z.enum(['speed-rated', 'any-speed']).nullable().optional(),
+  }),
   power: z.object({ input: nnum, linearSpeed: nnum, rotationalSpeed: nnum }),
   brake: z.object({
     holdingTorqueNoFriction: num.describe('F l / (2 pi) [N*m]'), holdingTorqueMinFriction: num, reverseEfficiency: num,
@@ -61,7 +76,7 @@ export const evaluationSchema = z.object({
     peakTorque: num.optional(), gearbox: z.object({ ratio: num, efficiency: num, reverseEfficiency: num }).nullable().optional(),
     peakTorqueAtMotor: num.optional(), holdingTorqueAtMotor: num.optional(),
   }).nullable(),
-  safetyFactors: z.object({ bodyVonMises: num, firstThreadRoot: num, strippingScrew: num, strippingNut: nnum, buckling: nnum }),
+  safetyFactors: z.object({ bodyVonMises: num, firstThreadRoot: num, strippingScrew: num, strippingNut: nnum, nutThreadRoot: nnum.optional().describe("the nut's own threads (issue 13); null without a nut yield"), buckling: nnum }),
   findings: z.array(findingSchema),
   trace: z.record(z.string(), z.object({ formula: z.string(), inputs: z.record(z.string(), num) })),
 });

@@ -6,7 +6,7 @@
 import { evaluate, FRICTION_LIBRARY, type Evaluation } from '@leadline/mechanics';
 import { expectClose } from '../../mechanics/src/test-support';
 import fc from 'fast-check';
-import { parseDesign, type DesignInput, type FieldIssue } from './design-input';
+import { parseDesign, PLAUSIBLE_RANGE, type DesignInput, type FieldIssue } from './design-input';
 
 const IN = 0.0254;
 const LBF = 4.4482216152605;
@@ -329,5 +329,51 @@ describe('parseDesign: units (issue 13 item 12)', () => {
     const design = parsed({ ...input, screw: { ...input.screw, yieldStrength: '54 kpsi' } });
     expectClose(design.screw.yieldStrength, 54000 * PSI, { rtol: 1e-15 });
     expect(parsed({ ...input, screw: { ...input.screw, yieldStrength: '54 ksi' } }).screw.yieldStrength).toBe(design.screw.yieldStrength);
+  });
+});
+
+describe('parseDesign: plausible magnitudes (issue 13 item 12; sanity bounds, common practice)', () => {
+  type Mutation = (d: Record<string, any>) => void; // eslint-disable-line @typescript-eslint/no-explicit-any
+  // Finite values that overflow the engine's figures to Infinity/NaN (the fuzz suite found a length of 1.9e229 mm).
+  const cases: ReadonlyArray<readonly [string, string, RegExp, Mutation]> = [
+    ['a length of 1.9345105578188634e+229 mm (above 1 km)', 'screw.unsupportedLength', /outside the plausible range 1 um to 1 km/, (d) => (d.screw.unsupportedLength = '1.9345105578188634e+229 mm')],
+    ['a length of 1001 m (above 1 km)', 'nut.length', /1 um to 1 km/, (d) => (d.nut.length = '1001 m')],
+    ['a pitch of 1e-4 mm (below 1 um)', 'thread.pitch', /1 um to 1 km/, (d) => (d.thread.pitch = '1e-4 mm')],
+    ['a force of 2e9 N (above 1 GN)', 'load.axial', /1 mN to 1 GN/, (d) => (d.load.axial = '2e9 N')],
+    ['a stress of 2e13 Pa (above 10 TPa)', 'screw.elasticModulus', /1 Pa to 10 TPa/, (d) => (d.screw.elasticModulus = '2e13 Pa')],
+    ['a speed of 2e6 rpm (above 1e6 rpm)', 'duty.speed', /1e-6 rpm to 1e6 rpm/, (d) => (d.duty.speed = '2e6 rpm')],
+    ['a density of 1e6 kg/m^3 (above 100,000)', 'screw.density', /1 to 100,000 kg\/m\^3/, (d) => (d.screw.density = '1e6 kg/m^3')],
+    ['a torque of 1e10 N*m (above 1 GN*m)', 'drive.availableTorque', /1 uN\*m to 1 GN\*m/, (d) => (d.drive.availableTorque = '1e10 N*m')],
+  ];
+  it.each(cases)('%s -> 422 at %s', (_name, path, message, mutate) => {
+    const input = shigleySi() as Record<string, any>; // eslint-disable-line @typescript-eslint/no-explicit-any
+    mutate(input);
+    const result = parseDesign(input);
+    expect(result.success ? [] : result.issues.map((i) => i.path)).toEqual([path]);
+    expect(result.success ? '' : result.issues[0].message).toMatch(message);
+  });
+
+  it('the bounds themselves are accepted (1 km, 1 GN, 10 TPa, 1e6 rpm are inclusive)', () => {
+    const input = shigleySi();
+    expect(PLAUSIBLE_RANGE.length.max).toBe(1e3);
+    expect(PLAUSIBLE_RANGE.force.max).toBe(1e9);
+    expect(PLAUSIBLE_RANGE.stress.max).toBe(1e13);
+    expect(PLAUSIBLE_RANGE.rotationalSpeed.max).toBe(1e6);
+    const design = parsed({ ...input, load: { ...input.load, axial: '1 GN' }, screw: { ...input.screw, unsupportedLength: '1 km', elasticModulus: '10000 GPa' }, duty: { ...input.duty, speed: '1000000 rpm' } });
+    expect(design.load.axial).toBe(1e9);
+    expect(design.screw.unsupportedLength).toBe(1e3);
+    expect(design.screw.elasticModulus).toBe(1e13);
+  });
+
+  it('within the bounds, the engine computes finite figures even at the extremes (no overflow left to the engine)', () => {
+    const input = shigleySi();
+    const extremes = [
+      { ...input, load: { ...input.load, axial: '1 GN' }, screw: { ...input.screw, unsupportedLength: '1 km', elasticModulus: '10000 GPa', density: '100000 kg/m^3' }, duty: { ...input.duty, speed: '1000000 rpm' } },
+      { ...input, load: { ...input.load, axial: '1 mN' }, screw: { ...input.screw, yieldStrength: '1 Pa', elasticModulus: '1 Pa', density: '1 kg/m^3' } },
+    ];
+    for (const e of extremes) {
+      const leaves = numericLeaves(evaluate(parsed(e)));
+      expect(Object.entries(leaves).filter(([, v]) => !Number.isFinite(v))).toEqual([]);
+    }
   });
 });

@@ -193,6 +193,27 @@ export function parseDesign(raw: unknown): DesignParseResult {
 
 type Parsed = z.output<typeof designInputSchema>;
 
+/**
+ * Plausible magnitudes per dimension, in engine units (SI; rotational speed in rpm): a quantity outside its range is
+ * refused with 422 naming the field, because a finite but absurd value (a length of 1e229 mm) makes the engine's
+ * figures overflow to Infinity or NaN. Sanity bounds, common practice: generous, orders of magnitude beyond any
+ * power screw, so no real design is refused; the reason for each bound is beside it.
+ */
+export const PLAUSIBLE_RANGE: Readonly<Record<Dimension, { readonly min: number; readonly max: number; readonly text: string; readonly reason: string }>> = {
+  length: { min: 1e-6, max: 1e3, text: '1 um to 1 km', reason: 'no thread feature is below a micrometre; no screw, span or nut is longer than a kilometre' },
+  force: { min: 1e-3, max: 1e9, text: '1 mN to 1 GN', reason: 'the largest presses are of the order of 1e8 N' },
+  stress: { min: 1, max: 1e13, text: '1 Pa to 10 TPa', reason: 'the stiffest solids (diamond, about 1.2 TPa modulus) are below a tenth of the bound' },
+  torque: { min: 1e-6, max: 1e9, text: '1 uN*m to 1 GN*m', reason: 'a bound of the same order as the force bound times a metre' },
+  density: { min: 1, max: 1e5, text: '1 to 100,000 kg/m^3', reason: 'the densest element (osmium, about 22,600 kg/m^3) is below a quarter of the bound' },
+  rotationalSpeed: { min: 1e-6, max: 1e6, text: '1e-6 rpm to 1e6 rpm', reason: 'the fastest spindles run at about 1e5 rpm' },
+  linearSpeed: { min: 1e-9, max: 1e3, text: '1 nm/s to 1 km/s', reason: 'a screw-driven load moves far below the speed of sound' },
+  angle: { min: 1e-9, max: 2 * Math.PI, text: 'up to one turn', reason: 'an angle of a thread flank is below a right angle' },
+  pv: { min: 1e-3, max: 1e10, text: '1 mPa*m/s to 10 GPa*m/s', reason: 'bearing pV limits are of the order of 1e6 to 1e7 Pa*m/s' },
+  mass: { min: 1e-6, max: 1e9, text: '1 mg to 1,000,000 t', reason: 'the force bound divided by standard gravity, rounded up' },
+  time: { min: 1e-6, max: 1e6, text: '1 us to 1e6 s', reason: 'an acceleration takes between microseconds and days' },
+  linearAcceleration: { min: 1e-6, max: 1e5, text: '1 um/s^2 to 1e5 m/s^2', reason: 'about 10,000 g, beyond any screw drive' },
+};
+
 /** Converts a shape-valid input into engine units and checks the rules that span fields. */
 function normalizeDesign(input: Parsed): DesignParseResult {
   const issues: FieldIssue[] = [];
@@ -207,6 +228,11 @@ function normalizeDesign(input: Parsed): DesignParseResult {
     }
     if (!(r.si > 0)) {
       issues.push({ path, message: `must be greater than zero, got "${text}"` });
+      return NaN;
+    }
+    const range = PLAUSIBLE_RANGE[dimension];
+    if (r.si < range.min || r.si > range.max) {
+      issues.push({ path, message: `"${text}" is outside the plausible range ${range.text} (${range.reason})` });
       return NaN;
     }
     if (r.usCustomary) us++;

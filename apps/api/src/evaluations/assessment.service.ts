@@ -26,6 +26,15 @@ export class AssessmentService {
       throw new ValidationProblem(parsed.issues.map((i) => ({ path: pathPrefix + i.path, message: i.message })));
     }
     const evaluation = evaluate(parsed.design);
+    // Second line of defence behind the contract's plausible ranges: a figure that overflowed to Infinity or NaN
+    // cannot be judged, and a check that cannot be computed is never passed, so the design is refused as a whole.
+    const broken = nonFiniteFigure(evaluation, 'evaluation');
+    if (broken) {
+      throw new ValidationProblem([{
+        path: pathPrefix ? pathPrefix.replace(/\.$/, '') : '(body)',
+        message: `the design cannot be computed: ${broken} is not a finite number (check the magnitudes of the input values)`,
+      }]);
+    }
     const findings = judge(parsed.design, evaluation, ruleSet);
     return {
       design: parsed.design,
@@ -36,4 +45,21 @@ export class AssessmentService {
       ruleSetVersion: ruleSet.version,
     };
   }
+}
+
+/** The path of the first number in an evaluation that is not finite (Infinity or NaN), or null when all are. */
+export function nonFiniteFigure(value: unknown, path: string): string | null {
+  if (typeof value === 'number') return Number.isFinite(value) ? null : path;
+  if (Array.isArray(value)) {
+    for (let i = 0; i < value.length; i++) {
+      const found = nonFiniteFigure(value[i], `${path}.${i}`);
+      if (found) return found;
+    }
+  } else if (value !== null && typeof value === 'object') {
+    for (const [k, v] of Object.entries(value)) {
+      const found = nonFiniteFigure(v, `${path}.${k}`);
+      if (found) return found;
+    }
+  }
+  return null;
 }

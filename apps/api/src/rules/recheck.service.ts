@@ -27,7 +27,8 @@ export const recheckSchema = z
   .default({ scope: 'latest-and-approved' });
 
 const verdictEnum = z.enum(['blocked', 'needs-acknowledgement', 'clear']);
-const scalar = z.union([z.number(), z.boolean(), z.string()]).nullable();
+// null sits on the number branch: OpenAPI 3.0 allows `nullable` only beside a `type` (as in the finding schema)
+const scalar = z.union([z.number().nullable(), z.boolean(), z.string()]);
 const marginSchema = z
   .object({ subject: z.string(), measured: z.number(), limit: z.number(), kind: z.enum(['min', 'max']), margin: z.number() })
   .nullable()

@@ -1,0 +1,67 @@
+/**
+ * The assessment's second line of defence (issue 13 item 12): when the engine still produces a figure that is not
+ * finite (the contract's plausible ranges should prevent it), the design is refused with 422 and never judged
+ * "clear". A wiring test: the engine is replaced by one that returns a real evaluation with one figure overflowed.
+ */
+import * as mechanics from '@leadline/mechanics';
+import { DEFAULT_RULE_SET } from '@leadline/rules';
+import { clearDesign } from '../../../../test/support/designs';
+import { ValidationProblem } from '../infra/http/problem';
+import { AssessmentService, nonFiniteFigure } from './assessment.service';
+
+jest.mock('@leadline/mechanics', () => {
+  const actual = jest.requireActual('@leadline/mechanics');
+  return { ...actual, evaluate: jest.fn(actual.evaluate) };
+});
+const evaluateMock = mechanics.evaluate as jest.MockedFunction<typeof mechanics.evaluate>;
+const realEvaluate = jest.requireActual('@leadline/mechanics').evaluate as typeof mechanics.evaluate;
+
+afterEach(() => evaluateMock.mockImplementation(realEvaluate));
+
+describe('AssessmentService: a figure that is not finite is never judged', () => {
+  const service = new AssessmentService();
+
+  it('the clear design is assessed clear with every figure finite (the real engine)', () => {
+    const a = service.assess(clearDesign, DEFAULT_RULE_SET);
+    expect(a.verdict).toBe('clear');
+    expect(nonFiniteFigure(a.evaluation, 'evaluation')).toBeNull();
+  });
+
+  it.each([
+    ['Infinity', Infinity],
+    ['NaN', NaN],
+  ])('a von Mises stress of %s is refused with 422 naming (body) and the figure', (_name, bad) => {
+    evaluateMock.mockImplementation((design) => {
+      const e = realEvaluate(design);
+      return { ...e, stresses: { ...e.stresses, body: { ...e.stresses.body, vonMises: bad } } };
+    });
+    let thrown: unknown;
+    try {
+      service.assess(clearDesign, DEFAULT_RULE_SET);
+    } catch (err) {
+      thrown = err;
+    }
+    expect(thrown).toBeInstanceOf(ValidationProblem);
+    const problem = thrown as ValidationProblem;
+    expect(problem.status).toBe(422);
+    expect(problem.errors).toEqual([{ path: '(body)', message: expect.stringContaining('evaluation.stresses.body.vonMises is not a finite number') }]);
+  });
+
+  it('nested under a submission, the path names the design', () => {
+    evaluateMock.mockImplementation((design) => {
+      const e = realEvaluate(design);
+      return { ...e, stresses: { ...e.stresses, body: { ...e.stresses.body, vonMises: Infinity } } };
+    });
+    expect(() => service.assess(clearDesign, DEFAULT_RULE_SET, 'design.')).toThrow(ValidationProblem);
+    try {
+      service.assess(clearDesign, DEFAULT_RULE_SET, 'design.');
+    } catch (err) {
+      expect((err as ValidationProblem).errors[0].path).toBe('design');
+    }
+  });
+
+  it('nonFiniteFigure finds the first non-finite number in nested objects and arrays', () => {
+    expect(nonFiniteFigure({ a: 1, b: [2, { c: -Infinity }] }, 'x')).toBe('x.b.1.c');
+    expect(nonFiniteFigure({ a: 1, b: [2, { c: null, d: 'text' }] }, 'x')).toBeNull();
+  });
+});
