@@ -47,17 +47,33 @@ export class AssessmentService {
   }
 }
 
+/** True when every number in the value is finite; walks without building paths (this runs on every evaluation). */
+function allFinite(value: unknown): boolean {
+  if (typeof value === 'number') return Number.isFinite(value);
+  if (value === null || typeof value !== 'object') return true;
+  if (Array.isArray(value)) {
+    for (const v of value) if (!allFinite(v)) return false;
+    return true;
+  }
+  for (const k in value) if (!allFinite((value as Record<string, unknown>)[k])) return false;
+  return true;
+}
+
 /** The path of the first number in an evaluation that is not finite (Infinity or NaN), or null when all are. */
 export function nonFiniteFigure(value: unknown, path: string): string | null {
+  return allFinite(value) ? null : pathOfNonFinite(value, path);
+}
+
+function pathOfNonFinite(value: unknown, path: string): string | null {
   if (typeof value === 'number') return Number.isFinite(value) ? null : path;
   if (Array.isArray(value)) {
     for (let i = 0; i < value.length; i++) {
-      const found = nonFiniteFigure(value[i], `${path}.${i}`);
+      const found = pathOfNonFinite(value[i], `${path}.${i}`);
       if (found) return found;
     }
   } else if (value !== null && typeof value === 'object') {
     for (const [k, v] of Object.entries(value)) {
-      const found = nonFiniteFigure(v, `${path}.${k}`);
+      const found = pathOfNonFinite(v, `${path}.${k}`);
       if (found) return found;
     }
   }
