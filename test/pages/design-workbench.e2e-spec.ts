@@ -13,6 +13,7 @@ import { join } from 'node:path';
 import puppeteer, { type Browser, type Page } from 'puppeteer-core';
 import { CHROMIUM_FLAGS } from '../../apps/api/src/infra/pdf/browser-pool';
 import { seriousViolations } from '../support/axe';
+import { chooseOption, tabTo, typeInto } from '../support/keyboard';
 import { pdfText } from '../support/pdf-text';
 import { startPagesApp, type PagesApp } from './pages-app';
 
@@ -35,41 +36,6 @@ async function newTab(): Promise<Page> {
   });
   page.on('pageerror', (e) => consoleProblems.push(String(e)));
   return page;
-}
-
-/** Presses Tab until the element matching `selector` has the focus (it must be reachable by keyboard). */
-async function tabTo(page: Page, selector: string, max = 150): Promise<void> {
-  for (let i = 0; i < max; i++) {
-    if (await page.evaluate((s) => document.activeElement?.matches(s) ?? false, selector)) return;
-    await page.keyboard.press('Tab');
-  }
-  const seen: string[] = [];
-  for (let i = 0; i < 60; i++) {
-    seen.push(await page.evaluate(() => document.activeElement?.id || document.activeElement?.tagName || '?'));
-    await page.keyboard.press('Tab');
-  }
-  const state = await page.evaluate(() => JSON.stringify({ kind: (document.getElementById('f-collar-kind') as HTMLSelectElement)?.value, a: document.getElementById('f-collar-annular')?.hidden, m: document.getElementById('f-collar-mean-field')?.hidden, html: document.getElementById('f-collar-annular')?.outerHTML.slice(0, 300) }));
-  throw new Error(`${state} ${selector} not reached by Tab; focus went through ${[...new Set(seen)].join(' ')}`);
-}
-
-/** Tabs to a field, selects what it holds and types the new text. */
-async function typeInto(page: Page, selector: string, text: string): Promise<void> {
-  await tabTo(page, selector);
-  await page.keyboard.down('Control');
-  await page.keyboard.press('a');
-  await page.keyboard.up('Control');
-  await page.keyboard.press('Backspace');
-  await page.keyboard.type(text);
-}
-
-/** Chooses an option of a select by keyboard (Home, then ArrowDown to its index). */
-async function chooseOption(page: Page, selector: string, value: string): Promise<void> {
-  await tabTo(page, selector);
-  const index = await page.$eval(selector, (s, v) => Array.from((s as HTMLSelectElement).options).findIndex((o) => o.value === v), value);
-  expect(index).toBeGreaterThanOrEqual(0);
-  await page.keyboard.press('Home');
-  for (let i = 0; i < index; i++) await page.keyboard.press('ArrowDown');
-  expect(await page.$eval(selector, (s) => (s as HTMLSelectElement).value)).toBe(value);
 }
 
 /** Follows a link (or presses a button) by keyboard and waits for the next page when it navigates. */

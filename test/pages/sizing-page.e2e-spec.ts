@@ -12,6 +12,7 @@ import puppeteer, { type Browser, type Page } from 'puppeteer-core';
 import { CHROMIUM_FLAGS } from '../../apps/api/src/infra/pdf/browser-pool';
 import { CAUTION_TEXT } from '../../apps/api/src/reports/report-model';
 import { seriousViolations } from '../support/axe';
+import { chooseOption, tabTo, typeInto } from '../support/keyboard';
 import { startPagesApp, type PagesApp } from './pages-app';
 
 const ARTIFACTS = join(__dirname, '../../artifacts/sizing');
@@ -50,33 +51,6 @@ async function newTab(): Promise<Page> {
   });
   page.on('pageerror', (e) => consoleProblems.push(String(e)));
   return page;
-}
-
-/** Presses Tab until the element matching `selector` has the focus (it must be reachable by keyboard). */
-async function tabTo(page: Page, selector: string, max = 200): Promise<void> {
-  for (let i = 0; i < max; i++) {
-    if (await page.evaluate((s) => document.activeElement?.matches(s) ?? false, selector)) return;
-    await page.keyboard.press('Tab');
-  }
-  throw new Error(`${selector} not reached by Tab`);
-}
-
-async function typeInto(page: Page, selector: string, text: string): Promise<void> {
-  await tabTo(page, selector);
-  await page.keyboard.down('Control');
-  await page.keyboard.press('a');
-  await page.keyboard.up('Control');
-  await page.keyboard.press('Backspace');
-  await page.keyboard.type(text);
-}
-
-async function chooseOption(page: Page, selector: string, value: string): Promise<void> {
-  await tabTo(page, selector);
-  const index = await page.$eval(selector, (s, v) => Array.from((s as HTMLSelectElement).options).findIndex((o) => o.value === v), value);
-  expect(index).toBeGreaterThanOrEqual(0);
-  await page.keyboard.press('Home');
-  for (let i = 0; i < index; i++) await page.keyboard.press('ArrowDown');
-  expect(await page.$eval(selector, (s) => (s as HTMLSelectElement).value)).toBe(value);
 }
 
 const fitsWidth = (page: Page) => page.evaluate(() => document.documentElement.scrollWidth <= document.documentElement.clientWidth);
