@@ -13,6 +13,7 @@ import { CreatedCommentRateIndex20261202110000 } from './20261202110000-created-
 import { AddedTokenExpiry20261202110100 } from './20261202110100-added-token-expiry';
 import { CreatedIdentityEvents20261202110200 } from './20261202110200-created-identity-events';
 import { CreatedReassignmentIndex20261202120000 } from './20261202120000-created-reassignment-index';
+import { ResolvedRevisionProductInAppendFunction20261202130000 } from './20261202130000-resolved-revision-product-in-append-function';
 
 export const MIGRATIONS = [
   CreatedRecordTables20261201220000,
@@ -29,4 +30,5 @@ export const MIGRATIONS = [
   AddedTokenExpiry20261202110100,
   CreatedIdentityEvents20261202110200,
   CreatedReassignmentIndex20261202120000,
+  ResolvedRevisionProductInAppendFunction20261202130000,
 ];

@@ -165,6 +165,27 @@ describe.each(BACKENDS)('records on %s', (backend) => {
     expect(notUuid.status).toBe(404);
   });
 
+  it('answers 404 naming the calculation for a revision of one that does not exist, and files no revision under another product', async () => {
+    const before = await countRecords(t.db);
+    const unknown = '00000000-0000-4000-8000-000000000001';
+    const res = await t.call('POST', `/api/v1/calculations/${unknown}/revisions`, { design });
+    expect(res.status).toBe(404);
+    expect(res.headers['content-type']).toMatch(/problem\+json/);
+    expect(res.body.detail).toContain(`calculation ${unknown}`);
+    // The append function reads the product from the calculation; a caller naming another product is refused
+    const mine = await open('product guard');
+    const other = await t.call('POST', '/api/v1/products', { code: `GUARD-${backend}`, name: 'another product' });
+    const after = await countRecords(t.db);
+    await expect(
+      t.db.query(
+        `SELECT * FROM leadline_append_revision($1, $2, gen_random_uuid(), gen_random_uuid(), null, '{}', '{}', '{}', '[]', 'x', 'clear', 'e', 'r', null, null, null)`,
+        [other.body.id, mine.body.calculationId],
+      ),
+    ).rejects.toThrow(/belongs to product/);
+    expect(await countRecords(t.db)).toEqual(after);
+    expect(after.revisions).toBe(before.revisions + 1);
+  });
+
   it('lists products with paging and serves the library and health', async () => {
     const page = await t.call('GET', '/api/v1/products?limit=1&offset=0');
     expect(page.body.items).toHaveLength(1);

@@ -133,12 +133,13 @@ export class CalculationsService {
 
   /** Adds the next revision of a calculation. */
   async addRevision(calculationId: string, body: unknown, actor: Actor | null, idempotencyKey?: string): Promise<StoredResponse> {
-    const calc = await this.get(calculationId);
+    checkUuid(calculationId, 'calculation');
     const input = validate(addRevisionSchema, body);
     const assessment = this.assessor.assess(input.design, this.ruleSets.current(), 'design.');
     const prepared = prepareSubmission(submission(assessment, input.design, input.note ?? null));
     return this.idempotent(`revise:${calculationId}:${actor?.id ?? '-'}`, idempotencyKey, body, async (q) => {
-      const revision = await this.records.appendRevision(q, calc.productId, calculationId, prepared, actor);
+      // The append reads the calculation's product itself (one round trip; 404 when there is no such calculation)
+      const revision = await this.records.appendRevision(q, null, calculationId, prepared, actor);
       return {
         status: 201,
         body: { calculationId, revisionId: revision.id, revision: revision.revision, verdict: assessment.verdict, hash: revision.hash },

@@ -64,4 +64,12 @@ describe('AssessmentService: a figure that is not finite is never judged', () =>
     expect(nonFiniteFigure({ a: 1, b: [2, { c: -Infinity }] }, 'x')).toBe('x.b.1.c');
     expect(nonFiniteFigure({ a: 1, b: [2, { c: null, d: 'text' }] }, 'x')).toBeNull();
   });
+
+  it('nonFiniteFigure finds a non-finite formula input in the trace, and walks a trace entry of another shape', () => {
+    const trace = { 'torque.raise': { formula: 'raise-torque', inputs: { F: 1, d_m: Number.NaN } } };
+    expect(nonFiniteFigure({ torque: { raise: 2 }, trace }, 'evaluation')).toBe('evaluation.trace.torque.raise.inputs.d_m');
+    expect(nonFiniteFigure({ trace: { 'a.b': { formula: 'f', inputs: { x: 1 } } } }, 'e')).toBeNull();
+    expect(nonFiniteFigure({ trace: { odd: { inputs: { x: 1 }, extra: [Infinity] } } }, 'e')).toBe('e.trace.odd.extra.0');
+    expect(nonFiniteFigure({ trace: { nested: { formula: 'f', inputs: { x: { y: -Infinity } } } } }, 'e')).toBe('e.trace.nested.inputs.x.y');
+  });
 });

@@ -126,11 +126,14 @@ export class RecordStore {
    * database call (leadline_append_revision, migrations/20261202100100): it locks the head, checks that the
    * submitter owns the calculation, numbers the revision after the lock and computes both link hashes exactly as
    * chain.ts does. Works inside a transaction or alone.
+   * @param productId - null to let the function read it from the calculation (migrations/20261202130000); when
+   *   given, it must be the calculation's product
+   * @throws 404 when there is no such calculation (or product)
    * @param cursor - when given (inside a transaction that already holds the head), it is advanced past the new links
    */
   async appendRevision(
     q: Queryer,
-    productId: string,
+    productId: string | null,
     calculationId: string,
     s: PreparedSubmission,
     acting: Acting | null,
@@ -146,7 +149,7 @@ export class RecordStore {
           s.verdict, s.engineVersion, s.ruleSetVersion, actor?.id ?? null, actor?.name ?? null, tokenId],
       );
     } catch (err) {
-      if (pgErrorCode(err) === PG_NO_DATA_FOUND) throw notFound(`product ${productId}`);
+      if (pgErrorCode(err) === PG_NO_DATA_FOUND) throw notFound(productId === null ? `calculation ${calculationId}` : `product ${productId}`);
       if (pgErrorCode(err) === PG_NOT_OWNER) {
         throw new ProblemError(403, 'Not the owner of this calculation', 'only the author who owns a calculation may add revisions to it (an admin can reassign it)');
       }
