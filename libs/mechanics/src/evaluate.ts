@@ -523,7 +523,7 @@ export function evaluate(design: Design): Evaluation {
         atMaxFriction: m.raiseTorqueSecAlpha(F, dm, l, fMax, alpha),
       },
     },
-    efficiency: { ...eff, thread: effThread },
+    efficiency: { atMinFriction: eff.atMinFriction, atMaxFriction: eff.atMaxFriction, thread: effThread },
     selfLocking: {
       locks,
       margin,
@@ -532,7 +532,8 @@ export function evaluate(design: Design): Evaluation {
     },
     stresses: {
       body: { axial, torsion, vonMises: bodyVm, atMinFriction: { torsion: torsionMin, vonMises: m.vonMisesAxialTorsion(axial, torsionMin) } },
-      firstThread: { ...first, load: Ffirst },
+      // Written out, not { ...first, load }: a spread followed by a key is a slow path in Node 20's V8 (docs/performance.md)
+      firstThread: { bearing: first.bearing, rootBending: first.rootBending, rootShear: first.rootShear, vonMises: first.vonMises, load: Ffirst },
       nutThread: { rootBending: nutBending, rootShear: nutShear },
       mean,
       stripping: { screw: stripScrew, nut: stripNut, screwArea: stripScrewArea, nutArea: stripNutArea },

@@ -18,6 +18,18 @@ export interface RuleContext {
 
 export type RuleCheck = (ctx: RuleContext) => Finding | null;
 
+/** Any part of a finding: the fields a rule fixes once (its base) or sets per case. */
+export type FindingPart = { readonly [K in keyof Finding]?: Finding[K] };
+
+/**
+ * A finding from a rule's fixed part and the case's fields: the same keys, in the same order and with the same
+ * values as the literal `{ ...base, ...fields }`, which on Node 20 (V8 11.3) falls off the fast object-clone path
+ * whenever keys follow the spread (2-8 us per finding measured, against under 0.5 us here; docs/performance.md).
+ */
+export function finding(base: FindingPart, fields: FindingPart): Finding {
+  return Object.assign({}, base, fields) as Finding;
+}
+
 /** A registered rule. `basis` is the rule's general basis; a finding may state a more specific one. */
 export interface Rule {
   /** Short kebab-case id; a finding carries it as its ruleId */

@@ -5,7 +5,7 @@
  */
 import type { Finding } from '@leadline/contracts';
 import { newtonMetres, sig, sigPair } from '../format';
-import { fallsShort, type Rule, type RuleContext } from '../rule';
+import { finding, fallsShort, type Rule, type RuleContext } from '../rule';
 import { brakeMinHoldingFactor } from '../rule-set';
 
 export const BRAKE_HOLDING_TORQUE_ID = 'brake-holding-torque';
@@ -26,8 +26,7 @@ export function brakeHoldingTorque({ design, evaluation, thresholds }: RuleConte
   const where = (b?.location ?? design.duty.brakeLocation ?? 'screw') === 'motor' ? 'at the motor shaft' : 'at the screw';
   const needed = required === null ? '' : ` It must hold at least ${newtonMetres(factor * required)} ${where} (${sig(factor)} × T_0 = ${newtonMetres(required)}, thread friction lost).`;
   if (rated === null || b === undefined) {
-    return {
-      ...base,
+    return finding(base, {
       severity: lifting ? 'warning' : 'info',
       measured: null,
       limit: factor,
@@ -35,13 +34,12 @@ export function brakeHoldingTorque({ design, evaluation, thresholds }: RuleConte
       message:
         `A brake is fitted but its rated torque is not stated, so it was not checked against the load.${needed} ` +
         `State duty.brakeTorque (and duty.brakeLocation if it sits on the motor) so the check can be made.`,
-    };
+    });
   }
   const ratio = b.ratio ?? rated / b.requiredTorque;
   if (!fallsShort(ratio, factor)) return null;
   const [m, l] = sigPair(ratio, factor);
-  return {
-    ...base,
+  return finding(base, {
     severity: lifting ? 'blocking' : 'warning',
     measured: ratio,
     limit: factor,
@@ -50,7 +48,7 @@ export function brakeHoldingTorque({ design, evaluation, thresholds }: RuleConte
       `(T_0 = ${newtonMetres(b.requiredTorque)}), below the required ${l} ×. If vibration or lubrication removes the thread ` +
       `friction the brake may slip${lifting ? ' and the load can fall' : ''}. Fit a stronger brake, put it ahead of a higher gear ratio, ` +
       `or reduce the lead.`,
-  };
+  });
 }
 
 export const brakeHoldingTorqueRule: Rule = {

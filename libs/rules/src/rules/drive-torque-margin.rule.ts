@@ -1,7 +1,7 @@
 /** Drive torque available at start against the raise torque at maximum friction, collar included. */
 import type { Finding } from '@leadline/contracts';
 import { newtonMetres, sig, sigPair } from '../format';
-import { fallsShort, type Rule, type RuleContext } from '../rule';
+import { finding, fallsShort, type Rule, type RuleContext } from '../rule';
 
 export const DRIVE_TORQUE_MARGIN_ID = 'drive-torque-margin';
 const BASIS =
@@ -14,8 +14,7 @@ export function driveTorqueMargin({ evaluation, thresholds }: RuleContext): Find
   const required = evaluation.torque.raise.atMaxFriction;
   const d = evaluation.drive;
   if (d === null) {
-    return {
-      ...base,
+    return finding(base, {
       severity: 'info',
       measured: null,
       limit: minMargin,
@@ -23,7 +22,7 @@ export function driveTorqueMargin({ evaluation, thresholds }: RuleContext): Find
         `No drive was given, so the drive was not checked. The raise torque at maximum friction is ` +
         `${newtonMetres(required)}; a drive needs at least ${newtonMetres(minMargin * required)} (margin ${sig(minMargin)}). ` +
         `Give drive.availableTorque to check it.`,
-    };
+    });
   }
   const blocking = fallsShort(d.margin, minMargin);
   if (!blocking && !fallsShort(d.margin, warnMargin)) return null;
@@ -38,8 +37,7 @@ export function driveTorqueMargin({ evaluation, thresholds }: RuleContext): Find
       ? `the peak torque ${newtonMetres(d.requiredTorque)} at the motor (raise torque ${newtonMetres(d.steadyTorque ?? required)} ` +
         `at maximum friction, collar included; ${parts.join('; ')})`
       : `the raise torque ${newtonMetres(d.requiredTorque)} (maximum friction, collar included)`;
-  return {
-    ...base,
+  return finding(base, {
     severity: blocking ? 'blocking' : 'warning',
     measured: d.margin,
     limit,
@@ -48,7 +46,7 @@ export function driveTorqueMargin({ evaluation, thresholds }: RuleContext): Find
       `gives a margin of ${m}, below the ${blocking ? 'required' : 'recommended'} ${l}. ` +
       `${blocking ? 'The drive may stall at start or under cold or worn conditions.' : 'Little reserve is left for starting friction and wear.'} ` +
       `Use a stronger drive or gearing, or reduce the friction torque (lubrication, rolling thrust bearing).`,
-  };
+  });
 }
 
 export const driveTorqueMarginRule: Rule = {

@@ -5,7 +5,7 @@
 import type { Finding } from '@leadline/contracts';
 import { newtonMetres, sig, sigPair } from '../format';
 import { findFrictionEntry } from '@leadline/mechanics';
-import { fallsShort, type Rule, type RuleContext } from '../rule';
+import { finding, fallsShort, type Rule, type RuleContext } from '../rule';
 
 export const LIFTING_SELF_LOCKING_ID = 'lifting-self-locking';
 
@@ -44,8 +44,7 @@ export function liftingSelfLocking({ design, evaluation, thresholds }: RuleConte
 
   if (kind !== 'lifting') {
     if (locks) return null;
-    return {
-      ...base,
+    return finding(base, {
       severity: 'info',
       measured: margin,
       limit: 1,
@@ -56,13 +55,12 @@ export function liftingSelfLocking({ design, evaluation, thresholds }: RuleConte
         `If this axis carries a load that can fall, treat it as lifting duty: ` +
         `self-locking is no substitute for a brake where a fall can hurt someone.`,
       basis: BASIS_CONDITION,
-    };
+    });
   }
 
   if (!brake) {
     if (!locks) {
-      return {
-        ...base,
+      return finding(base, {
         severity: 'blocking',
         measured: margin,
         limit: 1,
@@ -71,11 +69,10 @@ export function liftingSelfLocking({ design, evaluation, thresholds }: RuleConte
           `so the load can run down on its own.${backDriving} Fit a fail-safe (spring-applied) brake, or choose a smaller ` +
           `lead or a higher-friction pair and re-check. ${NO_SUBSTITUTE}`,
         basis: `${BASIS_CONDITION}; ${BASIS_BRAKE}`,
-      };
+      });
     }
     if (vibration) {
-      return {
-        ...base,
+      return finding(base, {
         severity: 'blocking',
         measured: true,
         limit: false,
@@ -85,12 +82,11 @@ export function liftingSelfLocking({ design, evaluation, thresholds }: RuleConte
           `Lifting screw without a brake under vibration: vibration lowers effective thread friction and can let a ` +
           `self-locking screw (margin ${marginText}) creep or run down. Fit a fail-safe brake. ${NO_SUBSTITUTE}`,
         basis: `${BASIS_VIBRATION}; ${BASIS_BRAKE}`,
-      };
+      });
     }
     if (fallsShort(margin, minMargin)) {
       const [m, l] = sigPair(margin, minMargin);
-      return {
-        ...base,
+      return finding(base, {
         severity: 'warning',
         measured: margin,
         limit: minMargin,
@@ -99,11 +95,10 @@ export function liftingSelfLocking({ design, evaluation, thresholds }: RuleConte
           `required ${l}. A change of lubrication, wear or vibration can remove it, so self-locking cannot be relied on. ` +
           `Fit a brake, or reduce the lead angle. ${NO_SUBSTITUTE}`,
         basis: `${marginBasis(design)}; ${BASIS_CONDITION}`,
-      };
+      });
     }
     const [m, l] = sigPair(margin, minMargin);
-    return {
-      ...base,
+    return finding(base, {
       severity: 'info',
       measured: margin,
       limit: minMargin,
@@ -111,13 +106,12 @@ export function liftingSelfLocking({ design, evaluation, thresholds }: RuleConte
         `Lifting screw without a brake self-locks with margin ${m} at minimum thread friction (required ${l}). ` +
         `${NO_SUBSTITUTE} Confirm that a runaway load cannot injure anyone, or fit a brake.`,
       basis: `${marginBasis(design)}; ${BASIS_CONDITION}`,
-    };
+    });
   }
 
   // A brake is fitted: it, not the thread, holds the load.
   if (!locks) {
-    return {
-      ...base,
+    return finding(base, {
       severity: 'warning',
       measured: margin,
       limit: 1,
@@ -126,11 +120,10 @@ export function liftingSelfLocking({ design, evaluation, thresholds }: RuleConte
         `holds the load.${backDriving} Confirm the brake is fail-safe (spring-applied) and rated for that torque with a margin ` +
         `(the brake-holding-torque check holds a stated duty.brakeTorque against F l / (2π), the torque with thread friction lost).`,
       basis: `${BASIS_CONDITION}; ${BASIS_BRAKE}`,
-    };
+    });
   }
   if (vibration) {
-    return {
-      ...base,
+    return finding(base, {
       severity: 'warning',
       measured: true,
       limit: false,
@@ -140,12 +133,11 @@ export function liftingSelfLocking({ design, evaluation, thresholds }: RuleConte
         `Lifting screw under vibration: self-locking (margin ${marginText}) cannot be relied on, because vibration ` +
         `lowers effective thread friction. Confirm the brake alone holds the full load. ${NO_SUBSTITUTE}`,
       basis: `${BASIS_VIBRATION}; ${BASIS_BRAKE}`,
-    };
+    });
   }
   if (fallsShort(margin, minMargin)) {
     const [m, l] = sigPair(margin, minMargin);
-    return {
-      ...base,
+    return finding(base, {
       severity: 'info',
       measured: margin,
       limit: minMargin,
@@ -153,7 +145,7 @@ export function liftingSelfLocking({ design, evaluation, thresholds }: RuleConte
         `Self-locking margin ${m} is below ${l}; the brake holds the load, so confirm it is fail-safe and rated to hold ` +
         `the load without help from thread friction.`,
       basis: `${marginBasis(design)}; ${BASIS_CONDITION}`,
-    };
+    });
   }
   return null;
 }

@@ -1,7 +1,7 @@
 /** Mean flank bearing pressure in the nut against the allowable for the nut material (wear). */
 import type { Finding } from '@leadline/contracts';
 import { mpa, percent, sig } from '../format';
-import { exceeds, type Rule, type RuleContext } from '../rule';
+import { finding, exceeds, type Rule, type RuleContext } from '../rule';
 
 export const NUT_BEARING_PRESSURE_ID = 'nut-bearing-pressure';
 const BASIS =
@@ -22,8 +22,7 @@ export function nutBearingPressure({ evaluation, thresholds }: RuleContext): Fin
   const { maxPressureRatio, warnPressureRatio } = thresholds.wear;
   const base = { ruleId: NUT_BEARING_PRESSURE_ID, unit: 'Pa', subject: 'wear.bearingPressure', basis: BASIS } as const;
   if (w.allowablePressure === null || w.pressureRatio === null) {
-    return {
-      ...base,
+    return finding(base, {
       severity: 'warning',
       measured: w.bearingPressure,
       limit: null,
@@ -33,13 +32,12 @@ export function nutBearingPressure({ evaluation, thresholds }: RuleContext): Fin
         `pressure is ${mpa(w.bearingPressure)}${w.slidingVelocity === null ? '' : ` at a rubbing speed of ${sig(w.slidingVelocity * 60)} m/min`}. ` +
         `Ask the nut supplier for the allowable pressure at this rubbing speed and give it as nut.allowablePressure or ` +
         `nut.allowablePressureBySpeed; an overloaded nut wears fast and, on lifting duty, loses thread strength.`,
-    };
+    });
   }
   const blocking = exceeds(w.pressureRatio, maxPressureRatio);
   if (!blocking && !exceeds(w.pressureRatio, warnPressureRatio)) return null;
   const ratioLimit = blocking ? maxPressureRatio : warnPressureRatio;
-  return {
-    ...base,
+  return finding(base, {
     severity: blocking ? 'blocking' : 'warning',
     measured: w.bearingPressure,
     limit: ratioLimit * w.allowablePressure,
@@ -48,7 +46,7 @@ export function nutBearingPressure({ evaluation, thresholds }: RuleContext): Fin
       `${mpa(w.allowablePressure)}, above the ${blocking ? 'limit' : 'warning level'} of ${percent(ratioLimit)}. ` +
       `Too high a flank pressure squeezes out the lubricant and wears the nut quickly. Lengthen the nut, use a larger ` +
       `thread, a lower speed, or a nut material with a higher allowable. ${classNote(w)}`,
-  };
+  });
 }
 
 export const nutBearingPressureRule: Rule = {

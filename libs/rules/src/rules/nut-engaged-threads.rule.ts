@@ -1,7 +1,7 @@
 /** Number of engaged threads in the nut: too few overloads the first thread; too many add little. */
 import type { Finding } from '@leadline/contracts';
 import { percent, sigPair } from '../format';
-import { exceeds, fallsShort, type Rule, type RuleContext } from '../rule';
+import { finding, exceeds, fallsShort, type Rule, type RuleContext } from '../rule';
 
 export const NUT_ENGAGED_THREADS_ID = 'nut-engaged-threads';
 const BASIS =
@@ -14,15 +14,14 @@ export function nutEngagedThreads({ evaluation, thresholds }: RuleContext): Find
   const base = { ruleId: NUT_ENGAGED_THREADS_ID, severity: 'warning', unit: '-', subject: 'geometry.engagedThreads', basis: BASIS } as const;
   if (fallsShort(n, min)) {
     const [m, l] = sigPair(n, min, 2);
-    return {
-      ...base,
+    return finding(base, {
       measured: n,
       limit: min,
       message:
         `Only ${m} threads are engaged, fewer than ${l}. The first thread carries a large share of the load (the ` +
         `thread-root checks take at least F / n_t on it), small errors of pitch and form load it more, and wear soon ` +
         `loosens the nut. Lengthen the nut.`,
-    };
+    });
   }
   if (exceeds(n, max)) {
     const [m, l] = sigPair(n, max, 2);
@@ -30,8 +29,7 @@ export function nutEngagedThreads({ evaluation, thresholds }: RuleContext): Find
     const w = evaluation.wear;
     const shortenedRatio = w.pressureRatio === null ? null : (w.pressureRatio * n) / max;
     if (shortenedRatio === null || !(shortenedRatio <= thresholds.wear.warnPressureRatio)) {
-      return {
-        ...base,
+      return finding(base, {
         measured: n,
         limit: max,
         message:
@@ -41,10 +39,9 @@ export function nutEngagedThreads({ evaluation, thresholds }: RuleContext): Find
           (shortenedRatio === null
             ? 'no allowable bearing pressure is known, so keep the nut length and acknowledge.'
             : `with ${l} threads the mean pressure would be ${percent(shortenedRatio)} of the allowable, so keep the nut length and acknowledge.`),
-      };
+      });
     }
-    return {
-      ...base,
+    return finding(base, {
       measured: n,
       limit: max,
       message:
@@ -52,7 +49,7 @@ export function nutEngagedThreads({ evaluation, thresholds }: RuleContext): Find
         `little strength, while the stripping and mean-pressure checks spread the load over all threads and read optimistic ` +
         `until the nut has run in. The wear check would still pass with ${l} threads, so the nut could be shortened; or ` +
         `keep it for wear reserve and acknowledge.`,
-    };
+    });
   }
   return null;
 }

@@ -1,7 +1,7 @@
 /** Pressure-velocity product at the thread mean diameter against the nut material's pV limit. */
 import type { Finding } from '@leadline/contracts';
 import { mpaMetresPerSecond, percent, sig } from '../format';
-import { exceeds, type Rule, type RuleContext } from '../rule';
+import { finding, exceeds, type Rule, type RuleContext } from '../rule';
 
 export const NUT_PV_ID = 'nut-pv';
 const BASIS =
@@ -13,8 +13,7 @@ export function nutPv({ evaluation, thresholds }: RuleContext): Finding | null {
   const { maxPvRatio, warnPvRatio } = thresholds.wear;
   const base = { ruleId: NUT_PV_ID, unit: 'Pa*m/s', subject: 'wear.pv', basis: BASIS } as const;
   if (w.allowablePv === null) {
-    return {
-      ...base,
+    return finding(base, {
       severity: 'warning',
       measured: w.pv,
       limit: null,
@@ -22,25 +21,23 @@ export function nutPv({ evaluation, thresholds }: RuleContext): Finding | null {
         `Nut heating and wear (pV) was not checked: no pV limit is on record for the nut material` +
         `${w.pv === null ? '' : `; the pV is ${mpaMetresPerSecond(w.pv)}`}. Ask the nut supplier for the pV limit, with ` +
         `the velocity definition it assumes, and give it as nut.allowablePv.`,
-    };
+    });
   }
   if (w.pv === null || w.pvRatio === null) {
-    return {
-      ...base,
+    return finding(base, {
       severity: 'info',
       measured: null,
       limit: maxPvRatio * w.allowablePv,
       message:
         `No operating speed was given, so pV was not checked against the limit ${mpaMetresPerSecond(w.allowablePv)}. ` +
         `Give duty.speed or duty.linearSpeed if the screw runs under power; a hand-operated screw can ignore this.`,
-    };
+    });
   }
   const blocking = exceeds(w.pvRatio, maxPvRatio);
   if (!blocking && !exceeds(w.pvRatio, warnPvRatio)) return null;
   const ratioLimit = blocking ? maxPvRatio : warnPvRatio;
   const velocity = w.slidingVelocity === null ? '' : ` (rubbing speed ${sig(w.slidingVelocity * 60)} m/min)`;
-  return {
-    ...base,
+  return finding(base, {
     severity: blocking ? 'blocking' : 'warning',
     measured: w.pv,
     limit: ratioLimit * w.allowablePv,
@@ -49,7 +46,7 @@ export function nutPv({ evaluation, thresholds }: RuleContext): Finding | null {
       `${mpaMetresPerSecond(w.allowablePv)}, above the ${blocking ? 'limit' : 'warning level'} of ${percent(ratioLimit)}. ` +
       `Above its pV limit the nut overheats and wears rapidly. Reduce the speed or the pressure (longer nut, larger thread), ` +
       `improve lubrication, or choose a nut material with a higher pV limit.`,
-  };
+  });
 }
 
 export const nutPvRule: Rule = {

@@ -1,7 +1,7 @@
 /** Operating speed against the first critical (whirl) speed of the screw shaft. */
 import type { Finding } from '@leadline/contracts';
 import { percent, revPerMin, sigPair } from '../format';
-import { exceeds, type Rule, type RuleContext } from '../rule';
+import { finding, exceeds, type Rule, type RuleContext } from '../rule';
 
 export const SHAFT_WHIRL_SPEED_ID = 'shaft-whirl-speed';
 const BASIS =
@@ -27,22 +27,20 @@ export function shaftWhirlSpeed({ evaluation, thresholds }: RuleContext): Findin
     basis: governs ? BASIS_PARTLY_FIXED : BASIS,
   } as const;
   if (ratio === null || cs.operatingRpm === null) {
-    return {
-      ...base,
+    return finding(base, {
       severity: 'info',
       measured: null,
       limit: maxRatio,
       message:
         `No operating speed was given, so whirl was not checked. The ${which} is ${revPerMin(criticalRpm)}; keep ` +
         `the screw below ${percent(maxRatio)} of it (${revPerMin(maxRatio * criticalRpm)}). Give duty.speed or duty.linearSpeed to check it.`,
-    };
+    });
   }
   const blocking = exceeds(ratio, maxRatio);
   if (!blocking && !exceeds(ratio, warnRatio)) return null;
   const limit = blocking ? maxRatio : warnRatio;
   const [m, l] = sigPair(ratio * 100, limit * 100);
-  return {
-    ...base,
+  return finding(base, {
     severity: blocking ? 'blocking' : 'warning',
     measured: ratio,
     limit,
@@ -52,7 +50,7 @@ export function shaftWhirlSpeed({ evaluation, thresholds }: RuleContext): Findin
       `above the ${blocking ? 'limit' : 'warning level'} of ${l} %. Near the critical speed the screw whirls, vibrates ` +
       `and can be damaged; end supports that fix the screw less than assumed lower the critical speed further. ` +
       `Reduce the speed, shorten the span between supports, fix the ends, or use a larger root diameter.`,
-  };
+  });
 }
 
 export const shaftWhirlSpeedRule: Rule = {
