@@ -215,19 +215,20 @@ export function evaluate(design: Design): Evaluation {
   const lambda = m.leadAngle(l, dm);
   const alphaN = m.normalFlankAngle(alpha, lambda);
   const nt = nut.length / p;
+  // Every entry is stored under a literal key (trace['a.b'] = entry(...)), never through a helper taking the path:
+  // V8 keeps an object built by named stores in fast mode, while one built by ~20+ keyed stores turns into a
+  // dictionary, which costs about 13 us more per evaluation to build and walk (docs/performance.md).
   const trace: Record<string, TraceEntry> = {};
-  const t = (path: string, formula: string, inputs: Record<string, number>): void => {
-    trace[path] = { formula, inputs };
-  };
+  const entry = (formula: string, inputs: Record<string, number>): TraceEntry => ({ formula, inputs });
 
-  t('geometry.lead', 'lead', { n_s: thread.starts, p });
-  t('geometry.meanDiameter', g.meanDiameterFormula, { d: g.majorDiameter, p });
-  t('geometry.minorDiameter', g.minorDiameterFormula, { d: g.majorDiameter, p, a_c: g.crestClearance });
-  t('geometry.leadAngle', 'lead-angle', { l, d_m: dm });
-  t('geometry.normalFlankAngle', 'normal-flank-angle', { alpha: g.flankAngle, lambda: lambda / DEG });
-  t('geometry.engagedThreads', 'engaged-threads', { L_nut: nut.length, p });
+  trace['geometry.lead'] = entry('lead', { n_s: thread.starts, p });
+  trace['geometry.meanDiameter'] = entry(g.meanDiameterFormula, { d: g.majorDiameter, p });
+  trace['geometry.minorDiameter'] = entry(g.minorDiameterFormula, { d: g.majorDiameter, p, a_c: g.crestClearance });
+  trace['geometry.leadAngle'] = entry('lead-angle', { l, d_m: dm });
+  trace['geometry.normalFlankAngle'] = entry('normal-flank-angle', { alpha: g.flankAngle, lambda: lambda / DEG });
+  trace['geometry.engagedThreads'] = entry('engaged-threads', { L_nut: nut.length, p });
   if (g.form === 'iso-metric' || g.form === 'unified') {
-    t('geometry.tensileStressArea', g.form === 'iso-metric' ? 'tensile-stress-area-iso' : 'tensile-stress-area-unified', { d: g.majorDiameter, p });
+    trace['geometry.tensileStressArea'] = entry(g.form === 'iso-metric' ? 'tensile-stress-area-iso' : 'tensile-stress-area-unified', { d: g.majorDiameter, p });
   }
 
   // Torques at both ends of the friction range
@@ -259,31 +260,31 @@ export function evaluate(design: Design): Evaluation {
   const raise = { atMinFriction: trMin + cMin.value, atMaxFriction: trMax + cMax.value };
   const lower = { atMinFriction: tlMin + cMin.value, atMaxFriction: tlMax + cMax.value };
   const threadInputs = (f: number) => ({ F, d_m: dm, l, f, alpha_n: alphaN / DEG });
-  t('torque.threadRaise.atMinFriction', 'thread-raise-torque', threadInputs(fMin));
-  t('torque.threadRaise.atMaxFriction', 'thread-raise-torque', threadInputs(fMax));
-  t('torque.threadLower.atMinFriction', 'thread-lower-torque', threadInputs(fMin));
-  t('torque.threadLower.atMaxFriction', 'thread-lower-torque', threadInputs(fMax));
-  t('torque.collar.atMinFriction', cMin.formula, cMin.inputs);
-  t('torque.collar.atMaxFriction', cMax.formula, cMax.inputs);
-  t('torque.raise.atMinFriction', 'raise-torque-total', { T_thread: trMin, T_c: cMin.value });
-  t('torque.raise.atMaxFriction', 'raise-torque-total', { T_thread: trMax, T_c: cMax.value });
-  t('torque.lower.atMinFriction', 'lower-torque-total', { T_thread: tlMin, T_c: cMin.value });
-  t('torque.lower.atMaxFriction', 'lower-torque-total', { T_thread: tlMax, T_c: cMax.value });
+  trace['torque.threadRaise.atMinFriction'] = entry('thread-raise-torque', threadInputs(fMin));
+  trace['torque.threadRaise.atMaxFriction'] = entry('thread-raise-torque', threadInputs(fMax));
+  trace['torque.threadLower.atMinFriction'] = entry('thread-lower-torque', threadInputs(fMin));
+  trace['torque.threadLower.atMaxFriction'] = entry('thread-lower-torque', threadInputs(fMax));
+  trace['torque.collar.atMinFriction'] = entry(cMin.formula, cMin.inputs);
+  trace['torque.collar.atMaxFriction'] = entry(cMax.formula, cMax.inputs);
+  trace['torque.raise.atMinFriction'] = entry('raise-torque-total', { T_thread: trMin, T_c: cMin.value });
+  trace['torque.raise.atMaxFriction'] = entry('raise-torque-total', { T_thread: trMax, T_c: cMax.value });
+  trace['torque.lower.atMinFriction'] = entry('lower-torque-total', { T_thread: tlMin, T_c: cMin.value });
+  trace['torque.lower.atMaxFriction'] = entry('lower-torque-total', { T_thread: tlMax, T_c: cMax.value });
   const secInputs = (f: number) => ({ F, d_m: dm, l, f, alpha: g.flankAngle });
-  t('torque.raiseSecAlpha.atMinFriction', 'thread-raise-torque-sec-alpha', secInputs(fMin));
-  t('torque.raiseSecAlpha.atMaxFriction', 'thread-raise-torque-sec-alpha', secInputs(fMax));
+  trace['torque.raiseSecAlpha.atMinFriction'] = entry('thread-raise-torque-sec-alpha', secInputs(fMin));
+  trace['torque.raiseSecAlpha.atMaxFriction'] = entry('thread-raise-torque-sec-alpha', secInputs(fMax));
 
   const eff = { atMinFriction: m.efficiency(F, l, raise.atMinFriction), atMaxFriction: m.efficiency(F, l, raise.atMaxFriction) };
   const effThread = { atMinFriction: m.efficiency(F, l, trMin), atMaxFriction: m.efficiency(F, l, trMax) };
-  t('efficiency.atMinFriction', 'efficiency', { F, l, T: raise.atMinFriction });
-  t('efficiency.atMaxFriction', 'efficiency', { F, l, T: raise.atMaxFriction });
-  t('efficiency.thread.atMinFriction', 'efficiency', { F, l, T: trMin });
-  t('efficiency.thread.atMaxFriction', 'efficiency', { F, l, T: trMax });
+  trace['efficiency.atMinFriction'] = entry('efficiency', { F, l, T: raise.atMinFriction });
+  trace['efficiency.atMaxFriction'] = entry('efficiency', { F, l, T: raise.atMaxFriction });
+  trace['efficiency.thread.atMinFriction'] = entry('efficiency', { F, l, T: trMin });
+  trace['efficiency.thread.atMaxFriction'] = entry('efficiency', { F, l, T: trMax });
 
   const margin = m.selfLockingMargin(fMin, lambda, alphaN);
   const locks = margin > 1;
-  t('selfLocking.margin', 'self-locking-margin', { f_min: fMin, lambda: lambda / DEG, alpha_n: alphaN / DEG });
-  if (!locks) t('selfLocking.backDrivingTorque', 'back-driving-torque', threadInputs(fMin));
+  trace['selfLocking.margin'] = entry('self-locking-margin', { f_min: fMin, lambda: lambda / DEG, alpha_n: alphaN / DEG });
+  if (!locks) trace['selfLocking.backDrivingTorque'] = entry('back-driving-torque', threadInputs(fMin));
 
   // Holding the load: always reported; the brake's requirement takes thread friction as lost (f -> 0)
   const gearbox = design.drive?.gearbox ?? null;
@@ -294,22 +295,22 @@ export function evaluate(design: Design): Evaluation {
   const brakeLocation = duty.brakeLocation ?? 'screw';
   const brakeRequired = brakeLocation === 'motor' ? holdAtMotor : holdNoFriction;
   const brakeRated = duty.brakeTorque ?? null;
-  t('brake.holdingTorqueNoFriction', 'brake-holding-torque-no-friction', { F, l });
-  t('brake.holdingTorqueMinFriction', 'brake-holding-torque-min-friction', threadInputs(fMin));
-  t('brake.reverseEfficiency', 'reverse-efficiency', threadInputs(fMin));
+  trace['brake.holdingTorqueNoFriction'] = entry('brake-holding-torque-no-friction', { F, l });
+  trace['brake.holdingTorqueMinFriction'] = entry('brake-holding-torque-min-friction', threadInputs(fMin));
+  trace['brake.reverseEfficiency'] = entry('reverse-efficiency', threadInputs(fMin));
   if (brakeLocation === 'motor' && gearbox) {
-    t('brake.requiredTorque', 'motor-holding-torque-through-gearbox', { T: holdNoFriction, i: gearbox.ratio, eta_r: gearbox.reverseEfficiency });
+    trace['brake.requiredTorque'] = entry('motor-holding-torque-through-gearbox', { T: holdNoFriction, i: gearbox.ratio, eta_r: gearbox.reverseEfficiency });
   }
-  if (brakeRated !== null) t('brake.ratio', 'brake-torque-ratio', { T_brake: brakeRated, T_0: brakeRequired });
+  if (brakeRated !== null) trace['brake.ratio'] = entry('brake-torque-ratio', { T_brake: brakeRated, T_0: brakeRequired });
 
   // Body stresses: torsion from the total raise torque at maximum friction (conservative)
   const axial = m.bodyAxialStress(Fsigned, dr);
   const torsion = m.bodyTorsionStress(raise.atMaxFriction, dr);
   const torsionMin = m.bodyTorsionStress(raise.atMinFriction, dr);
   const bodyVm = m.vonMisesAxialTorsion(axial, torsion);
-  t('stresses.body.axial', 'body-axial-stress', { F: Fsigned, d_r: dr });
-  t('stresses.body.torsion', 'body-torsion-stress', { T: raise.atMaxFriction, d_r: dr });
-  t('stresses.body.vonMises', 'von-mises-axial-torsion', { sigma: axial, tau: torsion });
+  trace['stresses.body.axial'] = entry('body-axial-stress', { F: Fsigned, d_r: dr });
+  trace['stresses.body.torsion'] = entry('body-torsion-stress', { T: raise.atMaxFriction, d_r: dr });
+  trace['stresses.body.vonMises'] = entry('von-mises-axial-torsion', { sigma: axial, tau: torsion });
 
   // Thread stresses: cantilever arm from the pitch line to the root, root thickness on the straight flanks
   // The flank load acts mid-way up the contact band (the mean diameter on the basic profile; moved with the band's
@@ -331,17 +332,15 @@ export function evaluate(design: Design): Evaluation {
   const Fmean = F / nt;
   const first = threadStresses(Ffirst);
   const mean = threadStresses(Fmean);
-  for (const [key, Ft] of [['firstThread', Ffirst], ['mean', Fmean]] as const) {
-    t(`stresses.${key}.bearing`, 'thread-bearing-stress', { F_t: Ft, d_m: dm, h });
-    t(`stresses.${key}.rootBending`, 'thread-root-bending', { F_t: Ft, d_r: dr, a: arm, b });
-    t(`stresses.${key}.rootShear`, 'thread-root-shear', { F_t: Ft, d_r: dr, b });
-    t(`stresses.${key}.vonMises`, 'thread-root-von-mises', {
-      sigma_b: key === 'firstThread' ? first.rootBending : mean.rootBending,
-      sigma: axial,
-      tau: torsion,
-    });
-  }
-  t('stresses.firstThread.load', 'thread-load-share-first', { F, n_t: nt });
+  trace['stresses.firstThread.bearing'] = entry('thread-bearing-stress', { F_t: Ffirst, d_m: dm, h });
+  trace['stresses.firstThread.rootBending'] = entry('thread-root-bending', { F_t: Ffirst, d_r: dr, a: arm, b });
+  trace['stresses.firstThread.rootShear'] = entry('thread-root-shear', { F_t: Ffirst, d_r: dr, b });
+  trace['stresses.firstThread.vonMises'] = entry('thread-root-von-mises', { sigma_b: first.rootBending, sigma: axial, tau: torsion });
+  trace['stresses.mean.bearing'] = entry('thread-bearing-stress', { F_t: Fmean, d_m: dm, h });
+  trace['stresses.mean.rootBending'] = entry('thread-root-bending', { F_t: Fmean, d_r: dr, a: arm, b });
+  trace['stresses.mean.rootShear'] = entry('thread-root-shear', { F_t: Fmean, d_r: dr, b });
+  trace['stresses.mean.vonMises'] = entry('thread-root-von-mises', { sigma_b: mean.rootBending, sigma: axial, tau: torsion });
+  trace['stresses.firstThread.load'] = entry('thread-load-share-first', { F, n_t: nt });
   // Stripping on the standard shear planes: the screw's threads at the nut's minor diameter, the nut's at the screw's major
   const D1 = mm.nutMinorDiameter;
   const tScrew = threadThicknessAtDepth(g, (mm.pitchDiameter - D1) / 2);
@@ -350,14 +349,14 @@ export function evaluate(design: Design): Evaluation {
   const stripNutArea = m.strippingArea(mm.majorDiameter, tNut, nt);
   const stripScrew = F / stripScrewArea;
   const stripNut = F / stripNutArea;
-  t('stresses.stripping.screw', 'thread-stripping-screw', { F, D_1: D1, t_s: tScrew, n_t: nt });
-  t('stresses.stripping.nut', 'thread-stripping-nut', { F, d: mm.majorDiameter, t_n: tNut, n_t: nt });
+  trace['stresses.stripping.screw'] = entry('thread-stripping-screw', { F, D_1: D1, t_s: tScrew, n_t: nt });
+  trace['stresses.stripping.nut'] = entry('thread-stripping-nut', { F, d: mm.majorDiameter, t_n: tNut, n_t: nt });
   // The nut's own threads: a cantilever of width pi D4 from the nut root to the pitch line, first-thread load
   const nutArm = (g.nutMajorDiameter - loadDiameter) / 2;
   const nutBending = m.threadRootBending(Ffirst, g.nutMajorDiameter, nutArm, bNut);
   const nutShear = m.threadRootShear(Ffirst, g.nutMajorDiameter, bNut);
-  t('stresses.nutThread.rootBending', 'nut-thread-root-bending', { F_t: Ffirst, D_4: g.nutMajorDiameter, a_n: nutArm, b_n: bNut });
-  t('stresses.nutThread.rootShear', 'nut-thread-root-shear', { F_t: Ffirst, D_4: g.nutMajorDiameter, b_n: bNut });
+  trace['stresses.nutThread.rootBending'] = entry('nut-thread-root-bending', { F_t: Ffirst, D_4: g.nutMajorDiameter, a_n: nutArm, b_n: bNut });
+  trace['stresses.nutThread.rootShear'] = entry('nut-thread-root-shear', { F_t: Ffirst, D_4: g.nutMajorDiameter, b_n: bNut });
 
   // Column
   const C = m.END_CONDITION_CONSTANT[screw.endConditionBasis][screw.ends];
@@ -375,13 +374,13 @@ export function evaluate(design: Design): Evaluation {
         ? m.johnsonCriticalLoad(C, screw.elasticModulus, screw.yieldStrength, area, slenderness)
         : null;
   const bucklingFactor = criticalLoad === null ? null : criticalLoad / F;
-  t('buckling.slenderness', 'slenderness', { l: L, k });
-  t('buckling.transitionSlenderness', 'transition-slenderness', { C, E: screw.elasticModulus, S_y: screw.yieldStrength });
+  trace['buckling.slenderness'] = entry('slenderness', { l: L, k });
+  trace['buckling.transitionSlenderness'] = entry('transition-slenderness', { C, E: screw.elasticModulus, S_y: screw.yieldStrength });
   if (regime) {
-    t('buckling.criticalLoad', regime === 'euler' ? 'euler-critical-load' : 'johnson-critical-load', {
+    trace['buckling.criticalLoad'] = entry(regime === 'euler' ? 'euler-critical-load' : 'johnson-critical-load', {
       C, E: screw.elasticModulus, S_y: screw.yieldStrength, A: area, 'l/k': slenderness,
     });
-    t('buckling.safetyFactor', 'buckling-safety-factor', { P_cr: criticalLoad as number, F });
+    trace['buckling.safetyFactor'] = entry('buckling-safety-factor', { P_cr: criticalLoad as number, F });
   }
 
   // Speeds, whirl, wear and power
@@ -391,8 +390,8 @@ export function evaluate(design: Design): Evaluation {
   const whirlEnds = screw.whirlEnds ?? screw.ends;
   const betaL = m.WHIRL_FREQUENCY_FACTOR[whirlEnds];
   const nc = m.criticalSpeedRpm(betaL, dr, whirlSpan, screw.elasticModulus, screw.density);
-  t('criticalSpeed.rpm', 'critical-speed', { beta_1L: betaL, d_r: dr, L: whirlSpan, E: screw.elasticModulus, rho: screw.density });
-  if (rpm !== null) t('criticalSpeed.ratio', 'critical-speed-ratio', { n: rpm, n_c: nc });
+  trace['criticalSpeed.rpm'] = entry('critical-speed', { beta_1L: betaL, d_r: dr, L: whirlSpan, E: screw.elasticModulus, rho: screw.density });
+  if (rpm !== null) trace['criticalSpeed.ratio'] = entry('critical-speed-ratio', { n: rpm, n_c: nc });
   // Fixed ends only partly fixed, with the partial fixity the recommended column constants assume (common practice)
   let partlyFixed: Evaluation['criticalSpeed']['partlyFixed'] = null;
   if (screw.endConditionBasis === 'recommended' && whirlEnds.startsWith('fixed')) {
@@ -400,10 +399,10 @@ export function evaluate(design: Design): Evaluation {
     const betaLp = whirl.partlyFixedFrequencyFactor(Cw);
     const ncp = m.criticalSpeedRpm(betaLp, dr, whirlSpan, screw.elasticModulus, screw.density);
     partlyFixed = { rpm: ncp, frequencyFactor: betaLp, factor: whirl.partlyFixedSpeedFactor(Cw, betaL), endConditionConstant: Cw, ratio: rpm === null ? null : rpm / ncp };
-    t('criticalSpeed.partlyFixed.frequencyFactor', 'critical-speed-partly-fixed', { C: Cw });
-    t('criticalSpeed.partlyFixed.rpm', 'critical-speed', { beta_1L: betaLp, d_r: dr, L: whirlSpan, E: screw.elasticModulus, rho: screw.density });
-    t('criticalSpeed.partlyFixed.factor', 'critical-speed-partly-fixed-factor', { C: Cw, beta_1L: betaL });
-    if (rpm !== null) t('criticalSpeed.partlyFixed.ratio', 'critical-speed-ratio', { n: rpm, n_c: ncp });
+    trace['criticalSpeed.partlyFixed.frequencyFactor'] = entry('critical-speed-partly-fixed', { C: Cw });
+    trace['criticalSpeed.partlyFixed.rpm'] = entry('critical-speed', { beta_1L: betaLp, d_r: dr, L: whirlSpan, E: screw.elasticModulus, rho: screw.density });
+    trace['criticalSpeed.partlyFixed.factor'] = entry('critical-speed-partly-fixed-factor', { C: Cw, beta_1L: betaL });
+    if (rpm !== null) trace['criticalSpeed.partlyFixed.ratio'] = entry('critical-speed-ratio', { n: rpm, n_c: ncp });
   }
 
   const pressure = m.nutBearingPressure(F, dm, h, nt);
@@ -422,17 +421,17 @@ export function evaluate(design: Design): Evaluation {
           ? `${step.application}; no operating speed was given, so the lowest-speed class is assumed`
           : step.application;
   const allowablePressureSource = nut.allowablePressure !== null ? 'design input (nut.allowablePressure)' : (step?.source ?? null);
-  t('wear.bearingPressure', 'nut-bearing-pressure', { F, d_m: dm, h, n_t: nt });
+  trace['wear.bearingPressure'] = entry('nut-bearing-pressure', { F, d_m: dm, h, n_t: nt });
   if (vs !== null) {
-    t('wear.slidingVelocity', 'sliding-velocity', { d_m: dm, n: n as number, lambda: lambda / DEG });
-    t('wear.pv', 'pv', { p: pressure, v_s: vs });
+    trace['wear.slidingVelocity'] = entry('sliding-velocity', { d_m: dm, n: n as number, lambda: lambda / DEG });
+    trace['wear.pv'] = entry('pv', { p: pressure, v_s: vs });
   }
-  if (duty.linearSpeed !== null && duty.speed === null) t('power.rotationalSpeed', 'rotational-speed-from-linear', { v: duty.linearSpeed, l });
+  if (duty.linearSpeed !== null && duty.speed === null) trace['power.rotationalSpeed'] = entry('rotational-speed-from-linear', { v: duty.linearSpeed, l });
   const inputPower = n === null ? null : raise.atMaxFriction * 2 * Math.PI * n;
   const linearSpeed = n === null ? null : l * n;
   if (n !== null) {
-    t('power.input', 'input-power', { T_R: raise.atMaxFriction, n });
-    t('power.linearSpeed', 'linear-speed', { l, n });
+    trace['power.input'] = entry('input-power', { T_R: raise.atMaxFriction, n });
+    trace['power.linearSpeed'] = entry('linear-speed', { l, n });
   }
   let drive: Evaluation['drive'] = null;
   if (design.drive) {
@@ -441,30 +440,30 @@ export function evaluate(design: Design): Evaluation {
     const statedMass = dd.loadMass ?? null;
     const loadMass = statedMass ?? (duty.kind === 'lifting' ? driveMath.loadMassFromWeight(F) : null);
     const loadMassBasis = statedMass !== null ? 'stated' : loadMass !== null ? 'weight' : 'not-included';
-    if (loadMassBasis === 'weight') t('drive.loadMass', 'load-mass-from-weight', { F });
+    if (loadMassBasis === 'weight') trace['drive.loadMass'] = entry('load-mass-from-weight', { F });
     const Js = driveMath.screwInertia(screw.density, whirlSpan, dr, g.majorDiameter);
-    t('drive.screwInertia', 'screw-inertia', { rho: screw.density, L: whirlSpan, d_r: dr, d: g.majorDiameter });
+    trace['drive.screwInertia'] = entry('screw-inertia', { rho: screw.density, L: whirlSpan, d_r: dr, d: g.majorDiameter });
     const JL = loadMass === null ? null : driveMath.reflectedLoadInertia(loadMass, l);
-    if (JL !== null && loadMass !== null) t('drive.loadInertia', 'load-inertia-reflected', { m: loadMass, l });
+    if (JL !== null && loadMass !== null) trace['drive.loadInertia'] = entry('load-inertia-reflected', { m: loadMass, l });
     // Either is accepted by the contract, never both; time to speed needs an operating speed (checked at input)
     let alphaAcc: number | null = null;
     if (dd.accelerationTime != null && n !== null) {
       alphaAcc = driveMath.angularAccelerationFromTime(n, dd.accelerationTime);
-      t('drive.angularAcceleration', 'angular-acceleration-from-time', { n, t_a: dd.accelerationTime });
+      trace['drive.angularAcceleration'] = entry('angular-acceleration-from-time', { n, t_a: dd.accelerationTime });
     } else if (dd.acceleration != null) {
       alphaAcc = driveMath.angularAccelerationFromLinear(dd.acceleration, l);
-      t('drive.angularAcceleration', 'angular-acceleration-from-linear', { a_nut: dd.acceleration, l });
+      trace['drive.angularAcceleration'] = entry('angular-acceleration-from-linear', { a_nut: dd.acceleration, l });
     }
     const accTorque = alphaAcc === null ? 0 : driveMath.accelerationTorque(Js, JL ?? 0, eff.atMaxFriction, alphaAcc);
     if (alphaAcc !== null) {
-      t('drive.accelerationTorque', 'acceleration-torque', { J_s: Js, J_L: JL ?? 0, e: eff.atMaxFriction, alpha_acc: alphaAcc });
+      trace['drive.accelerationTorque'] = entry('acceleration-torque', { J_s: Js, J_L: JL ?? 0, e: eff.atMaxFriction, alpha_acc: alphaAcc });
     }
     const peak = steady + accTorque;
-    t('drive.peakTorque', 'peak-torque', { T_R: steady, T_a: accTorque });
+    trace['drive.peakTorque'] = entry('peak-torque', { T_R: steady, T_a: accTorque });
     const peakAtMotor = gearbox ? driveMath.motorTorqueThroughGearbox(peak, gearbox.ratio, gearbox.efficiency) : peak;
     if (gearbox) {
-      t('drive.peakTorqueAtMotor', 'motor-torque-through-gearbox', { T: peak, i: gearbox.ratio, eta_g: gearbox.efficiency });
-      t('drive.holdingTorqueAtMotor', 'motor-holding-torque-through-gearbox', { T: holdNoFriction, i: gearbox.ratio, eta_r: gearbox.reverseEfficiency });
+      trace['drive.peakTorqueAtMotor'] = entry('motor-torque-through-gearbox', { T: peak, i: gearbox.ratio, eta_g: gearbox.efficiency });
+      trace['drive.holdingTorqueAtMotor'] = entry('motor-holding-torque-through-gearbox', { T: holdNoFriction, i: gearbox.ratio, eta_r: gearbox.reverseEfficiency });
     }
     drive = {
       availableTorque: dd.availableTorque,
@@ -482,7 +481,7 @@ export function evaluate(design: Design): Evaluation {
       peakTorqueAtMotor: peakAtMotor,
       holdingTorqueAtMotor: holdAtMotor,
     };
-    t('drive.margin', 'drive-margin', { T_av: drive.availableTorque, T_R: drive.requiredTorque });
+    trace['drive.margin'] = entry('drive-margin', { T_av: drive.availableTorque, T_R: drive.requiredTorque });
   }
 
   const shearYield = SHEAR_YIELD_RATIO * screw.yieldStrength;
