@@ -63,14 +63,32 @@ export function candidateDesign(plan: SizingPlan, size: ThreadSize, starts: numb
 
 /** The nut length of a candidate [m], read from its text. */
 function nutLength(size: ThreadSize, ratio: number): number {
-  return textLength(lengthText(ratio * size.majorDiameter, size));
+  return ratioLength(size, ratio);
+}
+
+/**
+ * ratio x major diameter [m] as the candidate's text reads back (lengthText, then the input conversion). Formatting
+ * and reading that text took about a microsecond a time, half of the search's cost beyond its evaluations, so the
+ * value is kept per thread size (the library's size objects) and ratio: a pure function of both, bounded in size.
+ */
+const ratioLengths = new WeakMap<ThreadSize, Map<number, number>>();
+function ratioLength(size: ThreadSize, ratio: number): number {
+  let bySize = ratioLengths.get(size);
+  if (bySize === undefined) ratioLengths.set(size, (bySize = new Map()));
+  let value = bySize.get(ratio);
+  if (value === undefined) {
+    if (bySize.size >= 64) bySize.clear();
+    value = textLength(lengthText(ratio * size.majorDiameter, size));
+    bySize.set(ratio, value);
+  }
+  return value;
 }
 
 /** The collar of a candidate: the requirements' own, or ratio x major diameter read from its text. */
 function collarFor(plan: SizingPlan, size: ThreadSize): Design['collar'] {
   const c = plan.base.collar;
   if (plan.collarRatio === null || (c.kind !== 'plain' && c.kind !== 'rolling')) return c;
-  return { kind: c.kind, meanDiameter: textLength(lengthText(plan.collarRatio * size.majorDiameter, size)) };
+  return { kind: c.kind, meanDiameter: ratioLength(size, plan.collarRatio) };
 }
 
 function withThread(base: Design, size: ThreadSize, starts: number, length: number, collar: Design['collar']): Design {
