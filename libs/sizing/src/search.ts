@@ -58,16 +58,11 @@ export interface SizingResult {
  * design equals what parsing that input gives and POST /evaluations reproduces the search's verdict and figures.
  */
 export function candidateDesign(plan: SizingPlan, size: ThreadSize, starts: number, nutLengthRatio: number): Design {
-  return withThread(plan.base, size, starts, nutLength(size, nutLengthRatio), collarFor(plan, size));
-}
-
-/** The nut length of a candidate [m], read from its text. */
-function nutLength(size: ThreadSize, ratio: number): number {
-  return ratioLength(size, ratio);
+  return withThread(plan.base, size, starts, ratioLength(size, nutLengthRatio), collarFor(plan, size));
 }
 
 /**
- * ratio x major diameter [m] as the candidate's text reads back (lengthText, then the input conversion). Formatting
+ * A candidate's nut length or collar diameter, ratio x major diameter [m], as the candidate's text reads back (lengthText, then the input conversion). Formatting
  * and reading that text took about a microsecond a time, half of the search's cost beyond its evaluations, so the
  * value is kept per thread size (the library's size objects) and ratio: a pure function of both, bounded in size.
  */
@@ -161,7 +156,7 @@ export function searchScrews(plan: SizingPlan, ruleSet: RuleSet): SizingResult {
 
   for (const size of plan.sizes) {
     const collar = collarFor(plan, size);
-    const lengths = ratios.map((r) => nutLength(size, r));
+    const lengths = ratios.map((r) => ratioLength(size, r));
     for (const starts of plan.starts) {
       searched += ratios.length;
       let pick: Passing | null = null;
