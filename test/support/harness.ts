@@ -1,28 +1,24 @@
 /**
- * Test harness: the real application on a real database. PostgreSQL tests create a fresh database per test
- * file on the server named by DATABASE_URL (default: the local server's postgres database); PGlite tests use
- * an in-memory embedded database. No mocks.
+ * Test harness: the real application on a real database. PostgreSQL tests get a fresh database per test file on
+ * the server named by DATABASE_URL (default: the local server's postgres database), copied from the run's migrated
+ * template; PGlite tests get an in-memory embedded database started from the run's migrated snapshot; PDFs render
+ * in the run's one Chromium (test/support/global-setup.ts). No mocks.
  */
 import type { NestFastifyApplication } from '@nestjs/platform-fastify';
 import { randomBytes } from 'node:crypto';
 import { Client } from 'pg';
 import type { DestinationStream } from 'pino';
 import { createApp } from '../../apps/api/src/app.factory';
+import type { Clock } from '../../apps/api/src/infra/clock';
 import { Database } from '../../apps/api/src/infra/database/database.service';
+import { chromiumEndpoint, pgliteSnapshot, pgTemplate, serverUrl, withDatabase } from './run-resources';
 
 export type Backend = 'postgres' | 'pglite';
 export const BACKENDS: Backend[] = ['postgres', 'pglite'];
 
-const serverUrl = process.env.DATABASE_URL ?? 'postgres://postgres@127.0.0.1:5432/postgres';
-
-function withDatabase(url: string, name: string): string {
-  const u = new URL(url);
-  u.pathname = `/${name}`;
-  return u.toString();
-}
-
 async function admin(sql: string): Promise<void> {
   const client = new Client({ connectionString: serverUrl });
+  client.on('error', () => undefined);
   await client.connect();
   try {
     await client.query(sql);
@@ -64,14 +60,47 @@ const TEST_USERS: { who: Exclude<Who, 'anonymous' | 'admin'>; name: string; role
   { who: 'reviewer2', name: 'Second checker (test)', roles: ['reviewer', 'author'] },
 ];
 
+/** A fresh database copied from the run's template (two copies at once may collide on the template: retried). */
+async function createDatabase(name: string): Promise<void> {
+  const template = pgTemplate();
+  for (let attempt = 0; ; attempt++) {
+    try {
+      await admin(template ? `CREATE DATABASE ${name} TEMPLATE ${template}` : `CREATE DATABASE ${name}`);
+      return;
+    } catch (err) {
+      // 55006: the template is being copied by another file's CREATE DATABASE at this moment
+      if ((err as { code?: string }).code !== '55006' || attempt >= 50) throw err;
+      await new Promise((r) => setImmediate(r));
+    }
+  }
+}
+
+export interface StartOptions {
+  /** Listen on an ephemeral port on 127.0.0.1 (for a browser) */
+  listen?: boolean;
+  /** PostgreSQL with an owner role that migrates and a runtime role the service connects as */
+  roles?: boolean;
+  /** The clock the service decides by (test/support/clock.ts), instead of the system clock */
+  clock?: Clock;
+  /** Render PDFs in a browser the service launches itself, not in the run's shared one */
+  ownBrowser?: boolean;
+}
+
 export async function startTestApp(
   backend: Backend,
   env: Record<string, string> = {},
   logDestination?: DestinationStream,
-  options: { listen?: boolean; roles?: boolean } = {},
+  options: StartOptions = {},
 ): Promise<TestApp> {
   const adminToken = `ll_test_admin_${randomBytes(18).toString('hex')}`;
-  const base: Record<string, string> = { LOG_LEVEL: 'silent', LEADLINE_DEMO_SEED: 'false', LEADLINE_ADMIN_TOKEN: adminToken, ...env };
+  const shared = options.ownBrowser ? null : chromiumEndpoint();
+  const base: Record<string, string> = {
+    LOG_LEVEL: 'silent',
+    LEADLINE_DEMO_SEED: 'false',
+    LEADLINE_ADMIN_TOKEN: adminToken,
+    ...(shared ? { LEADLINE_CHROMIUM_WS_ENDPOINT: shared } : {}),
+    ...env,
+  };
   let cleanup = async () => undefined as void;
   let roles: TestApp['roles'] = null;
   if (backend === 'postgres' && options.roles) {
@@ -99,7 +128,7 @@ export async function startTestApp(
     };
   } else if (backend === 'postgres') {
     const name = `leadline_test_${randomBytes(6).toString('hex')}`;
-    await admin(`CREATE DATABASE ${name}`);
+    await createDatabase(name);
     base.DATABASE_URL = withDatabase(serverUrl, name);
     base.LEADLINE_DB_POOL ??= '10';
     cleanup = () => admin(`DROP DATABASE IF EXISTS ${name} WITH (FORCE)`);
@@ -108,7 +137,8 @@ export async function startTestApp(
   }
   let app: NestFastifyApplication;
   try {
-    ({ app } = await createApp({ env: base, logDestination }));
+    const snapshot = backend === 'pglite' ? pgliteSnapshot() : null;
+    ({ app } = await createApp({ env: base, logDestination, runtime: { clock: options.clock, embeddedSnapshot: snapshot ?? undefined } }));
   } catch (err) {
     await cleanup();
     throw err;

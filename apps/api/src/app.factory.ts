@@ -5,7 +5,7 @@ import type { Type } from '@nestjs/common';
 import { NestFactory } from '@nestjs/core';
 import { FastifyAdapter, type NestFastifyApplication } from '@nestjs/platform-fastify';
 import type { DestinationStream } from 'pino';
-import { AppModule } from './app.module';
+import { AppModule, type RuntimeOptions } from './app.module';
 import { loadConfig, type AppConfig } from './infra/config';
 import { ProblemFilter } from './infra/http/problem';
 import { TextInputInterceptor } from './infra/http/text-input';
@@ -20,6 +20,8 @@ export interface CreateAppOptions {
   logDestination?: DestinationStream;
   /** Extra modules mounted beside the service (the benchmark's baseline routes) */
   extraModules?: Type[];
+  /** What the process provides besides configuration (tests: a clock they move, a migrated embedded snapshot) */
+  runtime?: RuntimeOptions;
 }
 
 export async function createApp(options: CreateAppOptions): Promise<{ app: NestFastifyApplication; config: AppConfig }> {
@@ -30,7 +32,7 @@ export async function createApp(options: CreateAppOptions): Promise<{ app: NestF
     bodyLimit: config.LEADLINE_BODY_LIMIT,
     trustProxy: config.LEADLINE_TRUST_PROXY,
   });
-  const app = await NestFactory.create<NestFastifyApplication>(AppModule.forRoot(config, options.extraModules ?? []), adapter, {
+  const app = await NestFactory.create<NestFastifyApplication>(AppModule.forRoot(config, options.extraModules ?? [], options.runtime ?? {}), adapter, {
     logger: new PinoNestLogger(logger),
     bufferLogs: false,
   });

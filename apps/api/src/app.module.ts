@@ -8,6 +8,7 @@ import { IdentitiesModule } from './identities/identities.module';
 import { ReportsModule } from './reports/reports.module';
 import { ReviewsModule } from './reviews/reviews.module';
 import { APP_CONFIG, type AppConfig } from './infra/config';
+import { CLOCK, systemClock, type Clock } from './infra/clock';
 import { DatabaseModule } from './infra/database/database.module';
 import { LibraryModule } from './library/library.module';
 import { PagesModule } from './pages/pages.module';
@@ -18,16 +19,24 @@ import { SizingModule } from './sizing/sizing.module';
 import { WorkbenchModule } from './workbench/workbench.module';
 import { DesignFileModule } from './design-file/design-file.module';
 
+/** What a process hands the service besides its configuration. */
+export interface RuntimeOptions {
+  /** The clock application code decides by (default: the system clock) */
+  clock?: Clock;
+  /** A migrated embedded database to start from (a PGlite data-folder dump), instead of an empty one */
+  embeddedSnapshot?: Blob;
+}
+
 @Module({})
 export class AppModule {
   /** The whole service for one validated configuration. */
-  static forRoot(config: AppConfig, extraModules: Type[] = []): DynamicModule {
+  static forRoot(config: AppConfig, extraModules: Type[] = [], runtime: RuntimeOptions = {}): DynamicModule {
     return {
       module: AppModule,
       global: true,
       imports: [
         ConfigModule.forRoot({ isGlobal: true, ignoreEnvFile: true, ignoreEnvVars: true, load: [() => config] }),
-        DatabaseModule.forRoot(config),
+        DatabaseModule.forRoot(config, runtime.embeddedSnapshot),
         IdentitiesModule,
         RecordsModule,
         CheckpointsModule,
@@ -45,8 +54,11 @@ export class AppModule {
         DesignFileModule,
         ...extraModules,
       ],
-      providers: [{ provide: APP_CONFIG, useValue: config }],
-      exports: [APP_CONFIG],
+      providers: [
+        { provide: APP_CONFIG, useValue: config },
+        { provide: CLOCK, useValue: runtime.clock ?? systemClock },
+      ],
+      exports: [APP_CONFIG, CLOCK],
     };
   }
 }

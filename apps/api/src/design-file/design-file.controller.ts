@@ -24,7 +24,7 @@ export class DesignFileController {
   async designFile(@Param('id') id: string, @Query() query: unknown, @Res({ passthrough: true }) reply: FastifyReply) {
     checkUuid(id, 'product');
     const { paper } = validate(paperSchema, query);
-    if (!existsSync(this.config.LEADLINE_CHROMIUM_PATH)) {
+    if (!this.config.LEADLINE_CHROMIUM_WS_ENDPOINT && !existsSync(this.config.LEADLINE_CHROMIUM_PATH)) {
       throw new ProblemError(503, 'PDF rendering unavailable', `no Chromium at ${this.config.LEADLINE_CHROMIUM_PATH} (LEADLINE_CHROMIUM_PATH)`);
     }
     const file = await this.files.build(id);

@@ -59,6 +59,11 @@ export const configSchema = z.object({
   LEADLINE_DEMO_SEED: flag.optional(),
   /** Chromium used for PDF reports (never downloaded) */
   LEADLINE_CHROMIUM_PATH: z.string().default('/usr/bin/chromium'),
+  /**
+   * DevTools WebSocket address (ws://host:port/devtools/browser/<id>) of a Chromium that runs already, e.g. in a
+   * container of its own: PDFs are rendered there in a context of the service's own instead of a launched browser
+   */
+  LEADLINE_CHROMIUM_WS_ENDPOINT: z.string().regex(/^wss?:\/\/\S+$/, 'a ws:// or wss:// address').optional(),
   /** Largest accepted request body [bytes] */
   LEADLINE_BODY_LIMIT: z.coerce.number().int().min(1024).default(256 * 1024),
   /** Pool size for PostgreSQL */

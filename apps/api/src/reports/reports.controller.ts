@@ -37,7 +37,7 @@ export class ReportsController {
   @Get(':id/report.pdf')
   async pdfReport(@Param('id') id: string, @Query() query: unknown, @Res({ passthrough: true }) reply: FastifyReply) {
     const { paper } = validate(pdfQuerySchema, query);
-    if (!existsSync(this.config.LEADLINE_CHROMIUM_PATH)) {
+    if (!this.config.LEADLINE_CHROMIUM_WS_ENDPOINT && !existsSync(this.config.LEADLINE_CHROMIUM_PATH)) {
       throw new ProblemError(503, 'PDF rendering unavailable', `no Chromium at ${this.config.LEADLINE_CHROMIUM_PATH} (LEADLINE_CHROMIUM_PATH); the HTML report works without it`);
     }
     if (this.pdf.full) throw busy(this.pdf.retryAfterSeconds());

@@ -23,6 +23,7 @@ import { DesignChartsController } from './design-charts.controller';
           queueLimit: c.LEADLINE_PDF_QUEUE_LIMIT,
           queueWaitMs: c.LEADLINE_PDF_QUEUE_WAIT_MS,
           sandbox: c.LEADLINE_CHROMIUM_SANDBOX,
+          browserWSEndpoint: c.LEADLINE_CHROMIUM_WS_ENDPOINT,
         }),
     },
   ],

@@ -24,9 +24,10 @@ export function dataDirLockOf(dataSource: DataSource): DataDirLock | undefined {
 }
 
 /**
- * @param dataDir - folder for PGlite, or "memory://" for an in-memory database (tests)
+ * LEADLINE_DATA_DIR is a folder for PGlite, or "memory://" for an in-memory database (tests).
+ * @param embeddedSnapshot - a PGlite data-folder dump to start an in-memory database from (tests: migrated once per run)
  */
-export function createDataSource(config: Pick<AppConfig, 'DATABASE_URL' | 'LEADLINE_DATA_DIR' | 'LEADLINE_DB_POOL'>): DataSourceChoice {
+export function createDataSource(config: Pick<AppConfig, 'DATABASE_URL' | 'LEADLINE_DATA_DIR' | 'LEADLINE_DB_POOL'>, embeddedSnapshot?: Blob): DataSourceChoice {
   const common = {
     type: 'postgres' as const,
     synchronize: false,
@@ -49,7 +50,7 @@ export function createDataSource(config: Pick<AppConfig, 'DATABASE_URL' | 'LEADL
   }
   const options: DataSourceOptions = {
     ...common,
-    driver: new PGliteDriver({ dataDir }).driver,
+    driver: new PGliteDriver(embeddedSnapshot && dataDir.startsWith('memory://') ? { dataDir, loadDataDir: embeddedSnapshot } : { dataDir }).driver,
     installExtensions: false,
   } as DataSourceOptions;
   const dataSource = new DataSource(options);

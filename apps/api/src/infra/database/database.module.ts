@@ -11,8 +11,8 @@ import { EmbeddedStatistics } from './statistics';
 @Global()
 @Module({})
 export class DatabaseModule {
-  static forRoot(config: AppConfig): DynamicModule {
-    const choice = createDataSource(config);
+  static forRoot(config: AppConfig, embeddedSnapshot?: Blob): DynamicModule {
+    const choice = createDataSource(config, embeddedSnapshot);
     return {
       module: DatabaseModule,
       imports: [

@@ -7,7 +7,7 @@
  * Pages run without JavaScript and with every network request blocked except data: URLs, so a report
  * can fetch nothing from anywhere.
  */
-import puppeteer, { type Browser, type HTTPRequest, type Page } from 'puppeteer-core';
+import puppeteer, { type Browser, type BrowserContext, type HTTPRequest, type Page } from 'puppeteer-core';
 
 /**
  * Launch flags for Debian's chromium in a container (see docs/STACK-NOTES: never download a browser).
@@ -42,6 +42,12 @@ export interface PdfRendererOptions {
    * 'auto' (default) keeps it unless running as root, and falls back to --no-sandbox if a sandboxed launch fails.
    */
   readonly sandbox?: boolean | 'auto';
+  /**
+   * DevTools WebSocket address of a Chromium that runs already (a browser container, or the test run's one browser):
+   * the renderer connects to it instead of launching one, renders in a browser context of its own and, when closed,
+   * closes that context and disconnects, leaving the browser running.
+   */
+  readonly browserWSEndpoint?: string;
 }
 
 /** The pool cannot take the request now: its queue is full or the wait ran out. Try again after `retryAfterSeconds`. */
@@ -119,6 +125,9 @@ export class PdfRenderer {
   private launches = 0;
   private closed = false;
   private cancellations = 0;
+  private readonly endpoint: string | null;
+  /** The renderer's own context in a browser it connected to (null when it launched the browser) */
+  private context: BrowserContext | null = null;
   /** Running mean of one job's duration [ms], for Retry-After */
   private meanJobMs = 2000;
 
@@ -129,6 +138,7 @@ export class PdfRenderer {
     this.queueLimit = Math.max(0, Math.floor(options.queueLimit ?? Number.POSITIVE_INFINITY));
     this.queueWaitMs = options.queueWaitMs ?? Number.POSITIVE_INFINITY;
     this.sandboxMode = options.sandbox ?? 'auto';
+    this.endpoint = options.browserWSEndpoint ?? null;
   }
 
   /** Whether the current browser runs with Chromium's sandbox (null before the first launch). */
@@ -249,7 +259,11 @@ export class PdfRenderer {
     this.browser = null;
     this.idle = [];
     for (const waiter of this.waiting.splice(0)) waiter.wake();
-    if (browser) await browser.close().catch(() => browser.process()?.kill('SIGKILL'));
+    if (browser && this.endpoint) {
+      await this.context?.close().catch(() => undefined);
+      this.context = null;
+      await browser.disconnect().catch(() => undefined);
+    } else if (browser) await browser.close().catch(() => browser.process()?.kill('SIGKILL'));
   }
 
   // -------------------------------------------------------------------------------------------------------
@@ -310,6 +324,7 @@ export class PdfRenderer {
   }
 
   private async launch(): Promise<Browser> {
+    if (this.endpoint) return this.connect(this.endpoint);
     const args = this.launchArgs();
     const sandboxed = !args.includes('--no-sandbox');
     let browser: Browser;
@@ -339,11 +354,33 @@ export class PdfRenderer {
     return browser;
   }
 
+  /** Connects to a running browser and opens this renderer's own context in it. */
+  private async connect(endpoint: string): Promise<Browser> {
+    const browser = await puppeteer.connect({ browserWSEndpoint: endpoint, protocolTimeout: Math.max(this.timeoutMs * 2, 60_000) });
+    const context = await browser.createBrowserContext();
+    this.launches++;
+    browser.once('disconnected', () => this.forget(browser));
+    if (this.closed) {
+      await context.close().catch(() => undefined);
+      await browser.disconnect().catch(() => undefined);
+      throw new Error('PdfRenderer is closed');
+    }
+    this.context = context;
+    this.browser = browser;
+    return browser;
+  }
+
   /** Drops a dead (or dying) browser and its pages; the next request launches a new one. */
   private forget(browser: Browser): void {
     if (this.browser !== browser) return;
     this.browser = null;
     this.idle = [];
+    if (this.endpoint) {
+      // a browser this renderer does not own: leave it running, drop only the connection
+      this.context = null;
+      if (browser.connected) void browser.disconnect().catch(() => undefined);
+      return;
+    }
     if (browser.connected) void browser.close().catch(() => undefined);
     const proc = browser.process();
     if (proc && proc.exitCode === null && proc.signalCode === null) proc.kill('SIGKILL');
@@ -355,7 +392,7 @@ export class PdfRenderer {
       const page = this.idle.pop() as Page;
       if (!page.isClosed() && page.browser() === browser) return page;
     }
-    const page = await browser.newPage();
+    const page = await (this.context ?? browser).newPage();
     page.setDefaultTimeout(this.timeoutMs);
     await page.setJavaScriptEnabled(false);
     await page.setRequestInterception(true);
