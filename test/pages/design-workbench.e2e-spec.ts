@@ -4,32 +4,31 @@
  * watches the live results follow the load, corrects a field error shown at the field, saves (a double Enter
  * stores one calculation); the reviewer rejects with a comment; the author reads the rejection in "my work",
  * makes revision 2 from revision 1, saves, compares 1 and 2 side by side; the reviewer approves; the product's
- * design file holds every approved revision's hash and the chain result. Every page: screenshot at 1280 px and
- * 768 px (artifacts/), axe-core without serious or critical violations, nothing wider than the window.
+ * design file holds every approved revision's hash and the chain result. Every page: axe-core without serious or
+ * critical violations and nothing wider than the window (test/support/page-checks.ts); screenshots with ARTIFACTS=1.
  */
-import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import puppeteer, { type Browser, type Page } from 'puppeteer-core';
-import { CHROMIUM_FLAGS } from '../../apps/api/src/infra/pdf/browser-pool';
-import { seriousViolations } from '../support/axe';
+import type { HTTPRequest, Page } from 'puppeteer-core';
+import { screenshot } from '../support/artifacts';
+import { testBrowser, type TestBrowser } from '../support/browser';
+import { checkPage as checkPageAt } from '../support/page-checks';
 import { chooseOption, tabTo, typeInto } from '../support/keyboard';
 import { pdfText } from '../support/pdf-text';
+import { logRequests } from '../support/requests';
 import { startPagesApp, type PagesApp } from './pages-app';
-
-const ARTIFACTS = join(__dirname, '../../artifacts/design');
 
 /** What of jackWithEngine11Inputs the form has no control for: four pressure steps (it has rows for three). */
 const KEPT_NOW = ['nut.allowablePressureBySpeed'];
 
 let t: PagesApp;
-let browser: Browser;
+let browser: TestBrowser;
 const consoleProblems: string[] = [];
 const visitedUrls: string[] = [];
 
 async function newTab(): Promise<Page> {
   const page = await browser.newPage();
-  await page.setViewport({ width: 1280, height: 900 });
   page.on('request', (r) => visitedUrls.push(r.url()));
   page.on('console', (m) => {
     if (m.type() === 'error' || /Content Security Policy/i.test(m.text())) consoleProblems.push(m.text());
@@ -53,21 +52,10 @@ async function signIn(page: Page, token: string): Promise<void> {
   await page.waitForSelector('#content:not([hidden])');
 }
 
-const fitsWidth = (page: Page) => page.evaluate(() => document.documentElement.scrollWidth <= document.documentElement.clientWidth);
 const text = (page: Page, selector: string) => page.$eval(selector, (e) => (e as HTMLElement).innerText);
 
-/** Screenshots at 1280 px and 768 px, axe-core and the width check, for the page as it stands. */
-async function checkPage(page: Page, name: string): Promise<void> {
-  await page.bringToFront(); // a background tab cannot be captured
-  expect({ name, violations: await seriousViolations(page) }).toEqual({ name, violations: [] });
-  expect({ name, fits: await fitsWidth(page) }).toEqual({ name, fits: true });
-  await page.screenshot({ path: join(ARTIFACTS, `${name}-1280.png`), fullPage: true });
-  await page.setViewport({ width: 768, height: 1000 });
-  expect({ name, fits768: await fitsWidth(page) }).toEqual({ name, fits768: true });
-  expect({ name, violations768: await seriousViolations(page) }).toEqual({ name, violations768: [] });
-  await page.screenshot({ path: join(ARTIFACTS, `${name}-768.png`), fullPage: true });
-  await page.setViewport({ width: 1280, height: 900 });
-}
+/** axe-core, the width check and (ARTIFACTS=1) screenshots for the page as it stands (test/support/page-checks.ts). */
+const checkPage = (page: Page, name: string) => checkPageAt(page, `design/${name}`);
 
 /** What the results panel calls each strength or stability check (safetyFactors keys of the evaluation). */
 const LOWEST_CHECK_LABELS: Record<string, string> = {
@@ -118,9 +106,8 @@ async function decide(page: Page, revisionId: string, decision: 'approve' | 'rej
 }
 
 beforeAll(async () => {
-  mkdirSync(ARTIFACTS, { recursive: true });
   t = await startPagesApp({ LEADLINE_CHROMIUM_PATH: '/usr/bin/chromium' });
-  browser = await puppeteer.launch({ executablePath: '/usr/bin/chromium', args: [...CHROMIUM_FLAGS], headless: true });
+  browser = await testBrowser();
 }, 60_000);
 
 afterAll(async () => {
@@ -249,10 +236,13 @@ it('takes a design from a new product to an approved second revision and its des
   // save: a double Enter stores one calculation
   await typeInto(author, '#f-title', 'Lift screw');
   await tabTo(author, '#save-submit');
+  const submissions = logRequests(author, (r) => r.method() === 'POST' && r.url().endsWith(`/api/v1/products/${productId}/calculations`));
   await author.keyboard.press('Enter');
   await author.keyboard.press('Enter');
   await author.waitForSelector('#saved:not([hidden])');
-  await new Promise((r) => setTimeout(r, 300)); // let a second request, if any was sent, land before counting
+  await submissions.settle(); // both key presses were dispatched: any request they caused has started and finished
+  submissions.stop();
+  expect(submissions.started).toHaveLength(1);
   const product = (await t.call('GET', `/api/v1/products/${productId}`)).body;
   expect(product.calculations).toHaveLength(1);
   const calcId = product.calculations[0].id;
@@ -406,7 +396,7 @@ it('takes a design from a new product to an approved second revision and its des
   await author.emulateMediaType('print');
   expect(await author.$eval('.bar', (b) => getComputedStyle(b).display)).toBe('none');
   expect(await author.$eval('.caution', (b) => getComputedStyle(b).display)).not.toBe('none');
-  await author.screenshot({ path: join(ARTIFACTS, 'calculation-print.png'), fullPage: true });
+  await screenshot(author, 'design/calculation-print');
   await author.emulateMediaType('screen');
 }, 240_000);
 
@@ -600,22 +590,24 @@ it('drops a late answer to an earlier edit: the panel shows the evaluation of wh
   await page.goto(`${t.baseUrl}/design/calculations/${opened.calculationId}/revise`);
   await signIn(page, t.tokens.author);
   await waitForEvaluationAfter(page, 0);
-  // hold back the answer to the 20 kN edit for 1.5 s; the 22 kN edit after it is answered at once
+  // hold back the answer to the 20 kN edit until the 22 kN edit after it has been answered and shown
   await page.setRequestInterception(true);
-  let held = 0;
+  const held: HTTPRequest[] = [];
   page.on('request', (r) => {
-    if (r.method() === 'POST' && r.url().endsWith('/api/v1/evaluations') && (r.postData() ?? '').includes('"20 kN"')) {
-      held++;
-      setTimeout(() => r.continue().catch(() => undefined), 1500);
-    } else r.continue().catch(() => undefined);
+    if (r.method() === 'POST' && r.url().endsWith('/api/v1/evaluations') && (r.postData() ?? '').includes('"20 kN"')) held.push(r);
+    else r.continue().catch(() => undefined);
   });
+  const evaluations = logRequests(page, (r) => r.method() === 'POST' && r.url().endsWith('/api/v1/evaluations'));
   await typeInto(page, '#f-load', '20 kN');
   await page.waitForFunction(() => document.getElementById('results-status')!.textContent === 'Evaluating…');
   const n = await evaluationNumber(page);
   await typeInto(page, '#f-load', '22 kN');
   await waitForEvaluationAfter(page, n);
-  await new Promise((r) => setTimeout(r, 1800)); // the held answer, if the page still wanted it, has arrived by now
-  expect(held).toBe(1);
+  // now let the late answer through, and wait until it has arrived (or the page has abandoned it)
+  expect(held).toHaveLength(1);
+  await held[0].continue().catch(() => undefined);
+  await evaluations.settle();
+  evaluations.stop();
   const at22 = (await t.call('POST', '/api/v1/evaluations', { ...design, load: { axial: '22 kN', sense: 'compression' } })).body;
   // engineering figures (3 or 4 significant): rtol 5e-3
   expect(Math.abs((await figure(page, 'raise-max')) - at22.torque.raise.atMaxFriction)).toBeLessThanOrEqual(5e-3 * at22.torque.raise.atMaxFriction);

@@ -2,20 +2,21 @@
  * The reviewer pages in real Chromium against the real service on real PostgreSQL: sign-in, queue, one revision
  * with its report and a warning, a refused and then an accepted approval, the audit trail with its chain check,
  * downloads, the four-eyes refusal, and where the token may (sessionStorage, Authorization header) and may not
- * (URL, cookie, log) go. One browser for the file; screenshots go to artifacts/.
+ * (URL, cookie, log) go. The run's one browser, in a context of this file's own; screenshots with ARTIFACTS=1.
  */
-import { mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { Writable } from 'node:stream';
-import puppeteer, { type Browser, type CDPSession, type Frame, type Page } from 'puppeteer-core';
-import { CHROMIUM_FLAGS } from '../../apps/api/src/infra/pdf/browser-pool';
+import type { CDPSession, Frame, Page } from 'puppeteer-core';
 import { CAUTION_TEXT } from '../../apps/api/src/reports/report-model';
+import { screenshot } from '../support/artifacts';
 import { seriousViolations } from '../support/axe';
+import { testBrowser, type TestBrowser } from '../support/browser';
+import { fitsWidth } from '../support/page-checks';
 import { clearDesign, warningDesign } from '../support/designs';
 import { startPagesApp, type PagesApp } from './pages-app';
 
-const ARTIFACTS = join(__dirname, '../../artifacts');
 const WARNING = 'friction-source-assumed';
 // Markup in a stored name must come out as text, never as elements.
 const PRODUCT_NAME = 'Kestrel KL-8 vehicle lift <img src=x> (test product)';
@@ -29,7 +30,7 @@ const capture = new Writable({
 });
 
 let t: PagesApp;
-let browser: Browser;
+let browser: TestBrowser;
 let productId: string;
 let revisionId: string; // the warning design, authored by the author
 let ownRevisionId: string; // a clear design authored by the checker who also designs
@@ -41,7 +42,6 @@ const downloadDirs: string[] = [];
 /** A tab that records every URL it requests or navigates to, the CSP of each page, and console errors. */
 async function newTab(): Promise<Page> {
   const page = await browser.newPage();
-  await page.setViewport({ width: 1280, height: 900 });
   page.on('request', (r) => visitedUrls.push(r.url()));
   page.on('framenavigated', (f) => visitedUrls.push(f.url()));
   page.on('response', (r) => {
@@ -60,9 +60,6 @@ async function signIn(page: Page, token: string): Promise<void> {
   await page.click('#sign-in-form button[type=submit]');
   await page.waitForSelector('#content:not([hidden])');
 }
-
-/** Nothing wider than the window (a table that does not fit would scroll sideways). */
-const fitsWidth = (page: Page) => page.evaluate(() => document.documentElement.scrollWidth <= document.documentElement.clientWidth);
 
 const text = (page: Page | Frame, selector: string) => page.$eval(selector, (e) => (e as HTMLElement).innerText);
 
@@ -93,7 +90,6 @@ async function downloadsTo(page: Page): Promise<{ cdp: CDPSession; dir: string; 
 }
 
 beforeAll(async () => {
-  mkdirSync(ARTIFACTS, { recursive: true });
   t = await startPagesApp({ LOG_LEVEL: 'info', LEADLINE_CHROMIUM_PATH: '/usr/bin/chromium' }, capture);
   productId = (await t.call('POST', '/api/v1/products', { code: 'KL-8', name: PRODUCT_NAME })).body.id;
   revisionId = (await t.call('POST', `/api/v1/products/${productId}/calculations`, { title: 'Column screw', design: warningDesign })).body.revisionId;
@@ -102,7 +98,7 @@ beforeAll(async () => {
   for (let i = 1; i <= 20; i++) {
     expect((await t.call('POST', `/api/v1/revisions/${revisionId}/comments`, { text: `Checked sheet ${i} of the drawing set.` }, 'reviewer')).status).toBe(201);
   }
-  browser = await puppeteer.launch({ executablePath: '/usr/bin/chromium', args: [...CHROMIUM_FLAGS], headless: true });
+  browser = await testBrowser();
 });
 
 afterAll(async () => {
@@ -161,7 +157,7 @@ it('lets a checking engineer sign in, find the revision in the queue, read its r
   expect(rows[0].cells[5]).toBe('Design author (test)');
   expect(await page.$$eval('main img', (imgs) => imgs.length)).toBe(0);
   expect(await fitsWidth(page)).toBe(true);
-  await page.screenshot({ path: join(ARTIFACTS, 'pages-queue.png'), fullPage: true });
+  await screenshot(page, 'review/pages-queue', { fullPage: true });
   expect(await seriousViolations(page)).toEqual([]);
 
   // one revision: header, report in its frame, findings
@@ -199,7 +195,7 @@ it('lets a checking engineer sign in, find the revision in the queue, read its r
   expect(pdf.name).toBe('KL-8-Column-screw-rev1.pdf');
   expect(pdf.bytes.subarray(0, 5).toString()).toBe('%PDF-');
   expect(await fitsWidth(page)).toBe(true);
-  await page.screenshot({ path: join(ARTIFACTS, 'pages-revision.png'), fullPage: true });
+  await screenshot(page, 'review/pages-revision', { fullPage: true });
   expect(await seriousViolations(page)).toEqual([]);
 
   // approving without acknowledging the warning is refused, with the field path shown
@@ -213,7 +209,7 @@ it('lets a checking engineer sign in, find the revision in the queue, read its r
   expect(await page.$eval('#ack-0', (e) => e.getAttribute('aria-invalid'))).toBe('true');
   expect((await t.call('GET', `/api/v1/revisions/${revisionId}`)).body.review.state).toBe('submitted');
   const decisionPanel = await page.$('#decision');
-  await decisionPanel!.screenshot({ path: join(ARTIFACTS, 'pages-approve-refused.png') });
+  await screenshot(decisionPanel!, 'review/pages-approve-refused');
   expect(await seriousViolations(page)).toEqual([]);
 
   // acknowledged: approved
@@ -224,7 +220,7 @@ it('lets a checking engineer sign in, find the revision in the queue, read its r
   await page.waitForFunction(() => document.getElementById('revision-header')!.innerText.includes('Approved by Checking engineer (test)'));
   const after = (await t.call('GET', `/api/v1/revisions/${revisionId}`)).body;
   expect(after.review).toMatchObject({ state: 'approved', decidedBy: { name: 'Checking engineer (test)' } });
-  await page.screenshot({ path: join(ARTIFACTS, 'pages-approved.png'), fullPage: false });
+  await screenshot(page, 'review/pages-approved', { fullPage: false });
 
   // the product's audit trail: second page, the approval, an intact chain, and the CSV download
   await Promise.all([page.waitForNavigation(), page.click('#audit-link')]);
@@ -251,7 +247,7 @@ it('lets a checking engineer sign in, find the revision in the queue, read its r
   expect(csv.name).toBe('audit-KL-8.csv');
   expect(csv.bytes.toString('utf8')).toMatch(new RegExp(`\r\n${links},[^,]+,event,approved,Checking engineer \\(test\\),`));
   expect(await fitsWidth(page)).toBe(true);
-  await page.screenshot({ path: join(ARTIFACTS, 'pages-audit.png'), fullPage: true });
+  await screenshot(page, 'review/pages-audit', { fullPage: true });
   expect(await seriousViolations(page)).toEqual([]);
 });
 
@@ -269,7 +265,7 @@ it('shows the four-eyes refusal when a checker tries to approve their own revisi
   expect(refusal).toContain('HTTP 403');
   expect(refusal).toContain('a revision must be decided by a reviewer other than its author');
   expect((await t.call('GET', `/api/v1/revisions/${ownRevisionId}`)).body.review.state).toBe('submitted');
-  await (await page.$('#decision'))!.screenshot({ path: join(ARTIFACTS, 'pages-four-eyes.png') });
+  await screenshot((await page.$('#decision'))!, 'review/pages-four-eyes');
   expect(await seriousViolations(page)).toEqual([]);
   // the token is in this tab's sessionStorage and nowhere else in the browser
   const storage = await page.evaluate(() => ({ session: Object.keys(sessionStorage), local: localStorage.length, cookie: document.cookie }));
@@ -283,7 +279,7 @@ it('never puts a token in a URL, a cookie or a log line, sends the CSP with ever
   expect(leaks).toEqual([]);
   const foreign = visitedUrls.filter((u) => !u.startsWith(t.baseUrl + '/') && !/^(about:|blob:http:\/\/127\.0\.0\.1|data:)/.test(u));
   expect(foreign).toEqual([]);
-  expect(await browser.defaultBrowserContext().cookies()).toEqual([]);
+  expect(await browser.context.cookies()).toEqual([]);
   const pages = documentHeaders.filter((d) => d.url.startsWith(`${t.baseUrl}/review`));
   expect(pages.length).toBeGreaterThanOrEqual(4);
   for (const d of pages) expect({ url: d.url, csp: d.csp }).toEqual({ url: d.url, csp: expect.stringContaining("default-src 'self'") });

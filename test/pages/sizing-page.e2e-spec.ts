@@ -3,34 +3,29 @@
  * keyboard only: sign in, see the caution, get a field error at the field and fix it, read the ranked screws with
  * the governing check of each row (the same as POST /api/v1/sizing answers for the request the page sent), and open
  * one as a new calculation of a product: the design form's page starts with that screw's complete design input
- * handed over in sessionStorage (never in a web address). axe-core on each state, at 1280 px and 768 px;
- * screenshots in artifacts/sizing/.
+ * handed over in sessionStorage (never in a web address). axe-core and the width check on each state
+ * (test/support/page-checks.ts); screenshots with ARTIFACTS=1.
  */
-import { mkdirSync } from 'node:fs';
-import { join } from 'node:path';
-import puppeteer, { type Browser, type Page } from 'puppeteer-core';
-import { CHROMIUM_FLAGS } from '../../apps/api/src/infra/pdf/browser-pool';
+import type { Page } from 'puppeteer-core';
 import { CAUTION_TEXT } from '../../apps/api/src/reports/report-model';
-import { seriousViolations } from '../support/axe';
+import { testBrowser, type TestBrowser } from '../support/browser';
+import { checkPage as checkPageAt } from '../support/page-checks';
 import { chooseOption, tabTo, typeInto } from '../support/keyboard';
 import { startPagesApp, type PagesApp } from './pages-app';
 
-const ARTIFACTS = join(__dirname, '../../artifacts/sizing');
-
 let t: PagesApp;
-let browser: Browser;
+let browser: TestBrowser;
 let productId: string;
 const consoleProblems: string[] = [];
 const visitedUrls: string[] = [];
 const sizingBodies: string[] = [];
 
 beforeAll(async () => {
-  mkdirSync(ARTIFACTS, { recursive: true });
   t = await startPagesApp();
   const product = await t.call('POST', '/api/v1/products', { code: 'HJ-20', name: 'Hollin Works 2 t bench jack (test product)' });
   expect(product.status).toBe(201);
   productId = product.body.id;
-  browser = await puppeteer.launch({ executablePath: '/usr/bin/chromium', args: [...CHROMIUM_FLAGS], headless: true });
+  browser = await testBrowser();
 });
 
 afterAll(async () => {
@@ -40,7 +35,6 @@ afterAll(async () => {
 
 async function newTab(): Promise<Page> {
   const page = await browser.newPage();
-  await page.setViewport({ width: 1280, height: 900 });
   page.on('request', (r) => {
     visitedUrls.push(r.url());
     if (r.url().endsWith('/api/v1/sizing') && r.method() === 'POST') sizingBodies.push(r.postData() ?? '');
@@ -53,19 +47,9 @@ async function newTab(): Promise<Page> {
   return page;
 }
 
-const fitsWidth = (page: Page) => page.evaluate(() => document.documentElement.scrollWidth <= document.documentElement.clientWidth);
 const text = (page: Page, selector: string) => page.$eval(selector, (e) => (e as HTMLElement).innerText);
 
-async function checkPage(page: Page, name: string): Promise<void> {
-  await page.bringToFront();
-  expect({ name, violations: await seriousViolations(page) }).toEqual({ name, violations: [] });
-  expect({ name, fits: await fitsWidth(page) }).toEqual({ name, fits: true });
-  await page.screenshot({ path: join(ARTIFACTS, `${name}-1280.png`), fullPage: true });
-  await page.setViewport({ width: 768, height: 1000 });
-  expect({ name, violations768: await seriousViolations(page) }).toEqual({ name, violations768: [] });
-  await page.screenshot({ path: join(ARTIFACTS, `${name}-768.png`), fullPage: true });
-  await page.setViewport({ width: 1280, height: 900 });
-}
+const checkPage = (page: Page, name: string) => checkPageAt(page, `sizing/${name}`);
 
 it('finds a screw for a stated duty and opens it as a new calculation, by keyboard only [GET /design/sizing]', async () => {
   const page = await newTab();

@@ -2,16 +2,14 @@
  * Calculation reports through the real service: PostgreSQL records, HTTP routes, Debian's Chromium.
  * The PDF's text is extracted with pdf-parse and checked against the stored evaluation.
  */
-import { mkdirSync, writeFileSync } from 'node:fs';
-import { join } from 'node:path';
-import puppeteer from 'puppeteer-core';
-import { PdfRenderer, CHROMIUM_FLAGS } from '../../apps/api/src/infra/pdf/browser-pool';
+import { PdfRenderer } from '../../apps/api/src/infra/pdf/browser-pool';
 import { formatQuantity, sig } from '../../apps/api/src/reports/format';
+import { saveArtifact, screenshot } from '../support/artifacts';
+import { testBrowser } from '../support/browser';
 import { warningDesign } from '../support/designs';
 import { startTestApp, type TestApp } from '../support/harness';
 import { pdfText } from '../support/pdf-text';
 
-const ARTIFACTS = join(__dirname, '../../artifacts');
 
 
 let t: TestApp;
@@ -29,7 +27,6 @@ beforeAll(async () => {
     acknowledgements: [{ finding: 'friction-source-assumed', comment: 'Friction test scheduled with the nut supplier.' }],
   }, { as: 'reviewer' });
   record = (await t.call('GET', `/api/v1/revisions/${revisionId}`)).body;
-  mkdirSync(ARTIFACTS, { recursive: true });
 });
 afterAll(() => t?.close());
 
@@ -38,7 +35,7 @@ it('renders a stored revision to PDF whose text carries the inputs, results, fin
   expect(res.status).toBe(200);
   expect(res.headers['content-type']).toBe('application/pdf');
   expect(res.raw.subarray(0, 5).toString()).toBe('%PDF-');
-  writeFileSync(join(ARTIFACTS, 'service-report-a4.pdf'), res.raw);
+  saveArtifact('service-report-a4.pdf', res.raw);
   const { text } = await pdfText(res.raw);
   const e = record.evaluation;
   // inputs as entered
@@ -72,20 +69,19 @@ it('renders a stored revision to PDF whose text carries the inputs, results, fin
   expect((await t.call('GET', `/api/v1/revisions/${revisionId}/report.pdf?paper=A3`)).status).toBe(422);
 });
 
-it('renders the HTML report in Chromium at A4 width without overflow, and saves a screenshot [GET /api/v1/revisions/:id/report.html]', async () => {
+it('renders the HTML report in Chromium at A4 width without overflow (screenshot with ARTIFACTS=1) [GET /api/v1/revisions/:id/report.html]', async () => {
   const res = await t.call('GET', `/api/v1/revisions/${revisionId}/report.html`);
   expect(res.status).toBe(200);
   expect(res.headers['content-type']).toMatch(/text\/html/);
   expect(res.text).not.toMatch(/https?:\/\/(?!leadline\.invalid)[^"' ]*\.(css|js|woff2?|ttf)/); // nothing fetched from outside
-  const browser = await puppeteer.launch({ executablePath: '/usr/bin/chromium', args: [...CHROMIUM_FLAGS], headless: true });
+  const browser = await testBrowser();
   try {
-    const page = await browser.newPage();
-    await page.setViewport({ width: 794, height: 1123 });
+    const page = await browser.newPage({ width: 794, height: 1123 });
     await page.setContent(res.text, { waitUntil: 'load' });
     const widths = await page.evaluate(() => ({ scroll: document.documentElement.scrollWidth, client: document.documentElement.clientWidth }));
     expect(widths.scroll).toBeLessThanOrEqual(widths.client);
     expect(await page.$$eval('svg', (s) => s.length)).toBeGreaterThanOrEqual(2);
-    await page.screenshot({ path: join(ARTIFACTS, 'service-report-a4.png'), fullPage: false });
+    await screenshot(page, 'service-report-a4', { fullPage: false });
   } finally {
     await browser.close();
   }

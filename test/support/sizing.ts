@@ -92,7 +92,3 @@ export const requirementsArbitrary = fc.record({
 
 export const OBJECTIVES = ['smallest-diameter', 'lowest-torque', 'highest-efficiency', 'lightest'] as const;
 
-/** Seed for the property tests: SIZING_SEED to replay, else the time; printed on failure by fast-check. */
-export function propertySeed(): number {
-  return process.env.SIZING_SEED ? Number(process.env.SIZING_SEED) : Date.now() % 2 ** 31;
-}

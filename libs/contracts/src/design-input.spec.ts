@@ -7,6 +7,7 @@ import { evaluate, FRICTION_LIBRARY, type Evaluation } from '@leadline/mechanics
 import { expectClose } from '../../mechanics/src/test-support';
 import fc from 'fast-check';
 import { parseDesign, PLAUSIBLE_RANGE, type DesignInput, type FieldIssue } from './design-input';
+import { checkProperty } from '../../../test/support/property';
 
 const IN = 0.0254;
 const LBF = 4.4482216152605;
@@ -107,7 +108,7 @@ describe('parseDesign: the same design in SI and in US customary units', () => {
       lengthMm: fc.double({ min: 50, max: 3000, noNaN: true }),
       linearMmPerMin: fc.double({ min: 1, max: 5000, noNaN: true }),
     });
-    fc.assert(
+    checkProperty(
       fc.property(arbitrary, (r) => {
         const pMm = r.pRatio * r.dMm;
         const friction = { min: r.fMin / 1000, max: (r.fMin + r.fSpan) / 1000, source };

@@ -9,17 +9,10 @@ import { holdingTorqueAtFriction, holdingTorqueNoFriction, reverseEfficiency } f
 import { evaluate } from './evaluate';
 import { normalFlankAngle } from './mechanics';
 import { expectClose } from './test-support';
+import { checkProperty } from '../../../test/support/property';
 
-const SEED = Number(process.env.FC_SEED ?? Date.now() % 2 ** 31);
-
-/** Runs a property with a printed seed, so a failure can be replayed with FC_SEED=<seed>. */
-function check<T>(prop: fc.IProperty<T>, numRuns = 300): void {
-  try {
-    fc.assert(prop, { seed: SEED, numRuns });
-  } catch (e) {
-    throw new Error(`property failed with seed ${SEED} (replay: FC_SEED=${SEED}): ${(e as Error).message}`);
-  }
-}
+/** Runs a property with the run's seed (test/support/property.ts prints it with any failure). */
+const check = <T>(prop: fc.IProperty<T>, numRuns = 300): void => checkProperty(prop, { numRuns });
 
 const single = (f: number, reference: string) => ({ min: f, max: f, source: { kind: 'handbook' as const, reference } });
 

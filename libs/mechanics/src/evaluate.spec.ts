@@ -11,6 +11,7 @@ import { FORMULAS } from './formulas';
 import { END_CONDITIONS } from './mechanics';
 import { expectClose } from './test-support';
 import { THREAD_FORMS } from './threads';
+import { checkProperty } from '../../../test/support/property';
 
 const LBF_IN = 4.4482216152605 * 0.0254; // N*m per lbf*in, NIST SP 811 B.8 (exact definitions)
 const MPA = 1e6;
@@ -269,7 +270,7 @@ describe('laws of a whole evaluation (fast-check)', () => {
   const RUNS = { numRuns: 200 };
 
   it('law: every formula id in the trace is registered, and every traced input is a finite number', () => {
-    fc.assert(
+    checkProperty(
       fc.property(designs, (design) => {
         const e = evaluate(design);
         const entries = Object.entries(e.trace);
@@ -283,7 +284,7 @@ describe('laws of a whole evaluation (fast-check)', () => {
   });
 
   it('law: zero thread friction gives 100 % thread efficiency (and 100 % overall with no collar)', () => {
-    fc.assert(
+    checkProperty(
       fc.property(designs, (design) => {
         const e = evaluate(withThreadFriction(design, 0, design.friction.thread.max));
         expectClose(e.efficiency.thread.atMinFriction, 1, { rtol: 1e-12 });
@@ -294,7 +295,7 @@ describe('laws of a whole evaluation (fast-check)', () => {
   });
 
   it('law: raise torque exceeds lowering torque at both ends of the friction range', () => {
-    fc.assert(
+    checkProperty(
       fc.property(designs, (design) => {
         const e = evaluate(design);
         expect(e.torque.raise.atMinFriction).toBeGreaterThan(e.torque.lower.atMinFriction);
@@ -306,7 +307,7 @@ describe('laws of a whole evaluation (fast-check)', () => {
   });
 
   it('law: self-locking is judged at minimum thread friction against f = cos(alpha_n) tan(lambda): margin 1 at the boundary, locks just above, not just below', () => {
-    fc.assert(
+    checkProperty(
       fc.property(designs, (design) => {
         const e = evaluate(design);
         // independent boundary from the geometry: tan lambda = l / (pi d_m), tan alpha_n = tan alpha cos lambda
@@ -330,7 +331,7 @@ describe('laws of a whole evaluation (fast-check)', () => {
   });
 
   it('law: torques and stresses scale linearly with the load; efficiency and self-locking do not change', () => {
-    fc.assert(
+    checkProperty(
       fc.property(designs, fc.double({ min: 0.1, max: 10, noNaN: true }), (design, k) => {
         const e1 = evaluate(design);
         const ek = evaluate({ ...design, load: { ...design.load, axial: k * design.load.axial } });
@@ -351,7 +352,7 @@ describe('laws of a whole evaluation (fast-check)', () => {
   });
 
   it('is pure: the same design evaluates to the same result, and the input is not modified', () => {
-    fc.assert(
+    checkProperty(
       fc.property(designs, (design) => {
         const before = JSON.stringify(design);
         expect(evaluate(design)).toEqual(evaluate(design));

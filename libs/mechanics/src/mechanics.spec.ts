@@ -5,6 +5,7 @@
 import fc from 'fast-check';
 import * as m from './mechanics';
 import { expectClose } from './test-support';
+import { checkProperty } from '../../../test/support/property';
 
 const DEG = Math.PI / 180;
 const RUNS = { numRuns: 200 };
@@ -67,7 +68,7 @@ describe('columns: Euler and J. B. Johnson', () => {
   });
 
   it('law: Euler and Johnson meet at the transition slenderness, both giving Sy/2 x A, and Johnson lies below Euler short of it', () => {
-    fc.assert(
+    checkProperty(
       fc.property(
         fc.constantFrom(0.25, 1, 1.2, 2, 4),
         fc.double({ min: 50e9, max: 250e9, noNaN: true }),
@@ -123,7 +124,7 @@ describe('critical (whirl) speed', () => {
 
 describe('torque laws (Shigley 10th ed., Eqs. (8-1), (8-2), (8-4); Juvinall & Marshek 5th ed., Eqs. (10.4)-(10.6), numbers from memory)', () => {
   it('law: with zero friction the thread is 100 % efficient (F l / (2 pi T_R) = 1), whatever the flank angle', () => {
-    fc.assert(
+    checkProperty(
       fc.property(screwThread, (t) => {
         const { l, alphaN } = threadOf(t);
         expectClose(m.efficiency(t.F, l, m.raiseTorque(t.F, t.dm, l, 0, alphaN)), 1, { rtol: 1e-12 });
@@ -134,7 +135,7 @@ describe('torque laws (Shigley 10th ed., Eqs. (8-1), (8-2), (8-4); Juvinall & Ma
   });
 
   it('law: raise torque exceeds lowering torque, and friction only lowers efficiency', () => {
-    fc.assert(
+    checkProperty(
       fc.property(screwThread, fc.double({ min: 0.001, max: 0.2, noNaN: true }), (t, df) => {
         const { l, alphaN } = threadOf(t);
         const raise = m.raiseTorque(t.F, t.dm, l, t.f, alphaN);
@@ -148,7 +149,7 @@ describe('torque laws (Shigley 10th ed., Eqs. (8-1), (8-2), (8-4); Juvinall & Ma
   });
 
   it('law: the self-locking boundary lies exactly at f = cos(alpha_n) tan(lambda): margin 1 and no lowering torque there; locks just above, not just below', () => {
-    fc.assert(
+    checkProperty(
       fc.property(screwThread, (t) => {
         const { l, lambda, alphaN } = threadOf(t);
         const boundary = Math.cos(alphaN) * Math.tan(lambda);
@@ -167,7 +168,7 @@ describe('torque laws (Shigley 10th ed., Eqs. (8-1), (8-2), (8-4); Juvinall & Ma
   });
 
   it('law: an Acme (normal-plane) formula with alpha = 0 is the square-thread formula of Shigley 10th ed., Eqs. (8-1) and (8-2)', () => {
-    fc.assert(
+    checkProperty(
       fc.property(screwThread, (t) => {
         const l = t.leadRatio * Math.PI * t.dm;
         const lambda = m.leadAngle(l, t.dm);
@@ -186,7 +187,7 @@ describe('torque laws (Shigley 10th ed., Eqs. (8-1), (8-2), (8-4); Juvinall & Ma
   });
 
   it('law: torques are linear in the load (thread, collar, both collar models)', () => {
-    fc.assert(
+    checkProperty(
       fc.property(screwThread, fc.double({ min: 0.01, max: 100, noNaN: true }), (t, k) => {
         const { l, alphaN } = threadOf(t);
         const { F, dm, f } = t;
@@ -201,7 +202,7 @@ describe('torque laws (Shigley 10th ed., Eqs. (8-1), (8-2), (8-4); Juvinall & Ma
   });
 
   it('law: a new collar (uniform pressure) needs more torque than a worn one (uniform wear), Shigley 10th ed., Sec. 16-4; both tend to F f_c d/2 as the annulus narrows', () => {
-    fc.assert(
+    checkProperty(
       fc.property(
         fc.double({ min: 10, max: 1e6, noNaN: true }),
         fc.double({ min: 0.01, max: 0.5, noNaN: true }),
@@ -221,7 +222,7 @@ describe('torque laws (Shigley 10th ed., Eqs. (8-1), (8-2), (8-4); Juvinall & Ma
 
 describe('thread-root stresses', () => {
   it('law: the generalized cantilever (arm a, root thickness b) reduces to Shigley 10th ed., Eqs. (8-10) and (8-11) for a square thread (a = p/4, b = p/2)', () => {
-    fc.assert(
+    checkProperty(
       fc.property(fc.double({ min: 1, max: 1e6, noNaN: true }), fc.double({ min: 0.005, max: 0.2, noNaN: true }), fc.double({ min: 0.02, max: 0.25, noNaN: true }), (Ft, d, pRatio) => {
         const p = pRatio * d;
         const dr = d - p;

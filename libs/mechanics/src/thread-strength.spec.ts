@@ -10,6 +10,7 @@ import { evaluate, type Evaluation } from './evaluate';
 import { NUT_MATERIALS, pressureStepAt } from './materials';
 import { firstThreadLoad, rootVonMises, rootVonMisesWorseFillet } from './mechanics';
 import { expectClose } from './test-support';
+import { checkProperty } from '../../../test/support/property';
 
 const MPA = 1e6;
 const PSI = 6894.757293168361; // NIST SP 811 B.8, lbf/in^2 exactly
@@ -49,7 +50,7 @@ describe('item 2: root von Mises at the worse fillet', () => {
   });
 
   it('law (fast-check): root von Mises in tension >= in compression for the same |F| (full evaluation)', () => {
-    fc.assert(
+    checkProperty(
       fc.property(fc.double({ min: 0.5, max: 60, noNaN: true }), fc.integer({ min: 6, max: 60 }), (kN, nutMm) => {
         const t = run(shigley('tension', `${nutMm} mm`, `${kN} kN`)).stresses.firstThread.vonMises;
         const c = run(shigley('compression', `${nutMm} mm`, `${kN} kN`)).stresses.firstThread.vonMises;
@@ -60,11 +61,11 @@ describe('item 2: root von Mises at the worse fillet', () => {
   });
 
   it('law (fast-check): the worse fillet is never below either signed element', () => {
-    fc.assert(
+    checkProperty(
       fc.property(fc.double({ min: 0, max: 1e9, noNaN: true }), fc.double({ min: -1e9, max: 1e9, noNaN: true }), fc.double({ min: -1e9, max: 1e9, noNaN: true }), (b, s, tau) => {
         const worse = rootVonMisesWorseFillet(b, s, tau);
         return worse >= rootVonMises(b, s, tau) && worse >= rootVonMises(-b, s, tau);
-      }),
+      }), { numRuns: 100 },
     );
   });
 });
@@ -89,8 +90,8 @@ describe('item 3: short nuts, first-thread share max(0.38 F, F / n_t)', () => {
   });
 
   it('law (fast-check): the first-thread share is never below F / n_t', () => {
-    fc.assert(
-      fc.property(fc.double({ min: 1, max: 1e6, noNaN: true }), fc.double({ min: 1, max: 40, noNaN: true }), (F, nt) => firstThreadLoad(F, nt) >= F / nt && firstThreadLoad(F, nt) >= 0.38 * F),
+    checkProperty(
+      fc.property(fc.double({ min: 1, max: 1e6, noNaN: true }), fc.double({ min: 1, max: 40, noNaN: true }), (F, nt) => firstThreadLoad(F, nt) >= F / nt && firstThreadLoad(F, nt) >= 0.38 * F), { numRuns: 100 },
     );
   });
 });
@@ -226,7 +227,7 @@ describe('item 1: nut bearing pressure against rubbing speed (Shigley 9th ed. Ta
   });
 
   it("law (fast-check): with a design's own valid steps, the allowable the evaluation applies never increases with speed", () => {
-    fc.assert(
+    checkProperty(
       fc.property(
         fc.uniqueArray(fc.integer({ min: 1, max: 60 }), { minLength: 1, maxLength: 4 }),
         fc.array(fc.integer({ min: 1, max: 30 }), { minLength: 5, maxLength: 5 }),
@@ -246,12 +247,12 @@ describe('item 1: nut bearing pressure against rubbing speed (Shigley 9th ed. Ta
   });
 
   it('law (fast-check): for every library nut material the allowable never increases with speed', () => {
-    fc.assert(
+    checkProperty(
       fc.property(fc.constantFrom(...NUT_MATERIALS), fc.double({ min: 0, max: 5, noNaN: true }), fc.double({ min: 0, max: 5, noNaN: true }), (mat, a, b) => {
         const [slow, fast] = a <= b ? [a, b] : [b, a];
         const at = (v: number) => pressureStepAt(mat.pressureBySpeed, v)?.allowablePressure ?? 0;
         return at(fast) <= at(slow);
-      }),
+      }), { numRuns: 100 },
     );
   });
 });

@@ -9,8 +9,8 @@ import fc from 'fast-check';
 import { evaluate } from './evaluate';
 import { END_CONDITIONS } from './mechanics';
 import { expectClose } from './test-support';
+import { checkProperty } from '../../../test/support/property';
 
-const SEED = Number(process.env.FC_SEED ?? Date.now() % 2 ** 31);
 
 /** Square thread d = 36 mm, p = 4 mm: d_r = d - p = 32 mm (Shigley 10th ed., Fig. 8-3). Column 600 mm fixed-free. */
 function design(screw: Partial<DesignInput['screw']> = {}, speed?: string): DesignInput {
@@ -74,16 +74,12 @@ describe('whirl span and ends (shared reference columns-and-speed.md 3.3)', () =
 
   it('property: the partly fixed critical speed never exceeds the classical one', () => {
     const fixedEnds = END_CONDITIONS.filter((x) => x.startsWith('fixed'));
-    try {
-      fc.assert(
-        fc.property(fc.constantFrom(...fixedEnds), fc.integer({ min: 100, max: 5000 }), (ends, spanMm) => {
-          const cs = run(design({ whirlEnds: ends, whirlSpan: `${spanMm} mm` })).criticalSpeed;
-          return cs.partlyFixed !== null && cs.partlyFixed.rpm < cs.rpm;
-        }),
-        { seed: SEED, numRuns: 60 },
-      );
-    } catch (err) {
-      throw new Error(`seed ${SEED} (replay with FC_SEED=${SEED}): ${(err as Error).message}`);
-    }
+    checkProperty(
+      fc.property(fc.constantFrom(...fixedEnds), fc.integer({ min: 100, max: 5000 }), (ends, spanMm) => {
+        const cs = run(design({ whirlEnds: ends, whirlSpan: `${spanMm} mm` })).criticalSpeed;
+        return cs.partlyFixed !== null && cs.partlyFixed.rpm < cs.rpm;
+      }),
+      { numRuns: 60 },
+    );
   });
 });

@@ -10,6 +10,7 @@ import { judge, verdictOf } from './judge';
 import { RULE_REGISTRY } from './registry';
 import { DEFAULT_RULE_SET, parseRuleSet, type RuleSet, type Thresholds } from './rule-set';
 import { evaluated, FAST_AXIS_INPUT, JACK_INPUT, withDuty } from './testing/designs';
+import { checkProperty } from '../../../test/support/property';
 
 const f = (severity: Finding['severity']): Finding => ({
   ruleId: `r-${severity}`, severity, measured: 1, limit: 1, unit: '-', message: 'm', basis: 'common practice', subject: null,
@@ -164,17 +165,8 @@ function stricter(t: Thresholds): Thresholds {
   };
 }
 
-/** Seed of this run: FC_SEED to replay one, else a fresh one; printed with any failure. */
-const SEED = Number(process.env.FC_SEED ?? Math.floor(Math.random() * 2 ** 31));
-
-/** fc.assert with the run's seed, naming it (and how to replay it) when the property fails. */
-function assertSeeded<T>(prop: fc.IProperty<T>, numRuns: number): void {
-  try {
-    fc.assert(prop, { seed: SEED, numRuns });
-  } catch (e) {
-    throw new Error(`property failed with seed ${SEED} (replay: FC_SEED=${SEED} npx jest libs/rules/src/judge.spec.ts)\n${(e as Error).message}`);
-  }
-}
+/** A property with the run's seed (test/support/property.ts prints it with any failure). */
+const assertSeeded = <T>(prop: fc.IProperty<T>, numRuns: number): void => checkProperty(prop, { numRuns });
 
 describe('judge over a sample of designs (property)', () => {
   const RUNS = 100;

@@ -1,8 +1,9 @@
 import { createServer, type Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { existsSync } from 'node:fs';
-import { PdfBusyError, PdfCancelledError, PdfRenderer } from './browser-pool';
-import { pdfText } from '../../../../../test/support/pdf-text';
+import puppeteer from 'puppeteer-core';
+import { CHROMIUM_FLAGS, PdfBusyError, PdfCancelledError, PdfRenderer } from '../../apps/api/src/infra/pdf/browser-pool';
+import { pdfText } from '../support/pdf-text';
 
 const CHROMIUM = '/usr/bin/chromium';
 
@@ -199,5 +200,26 @@ describe('PdfRenderer queue: bounded length and wait, cancelled work (real Chrom
     expect(new PdfRenderer({ executablePath: CHROMIUM, sandbox: true }).launchArgs()).not.toContain('--no-sandbox');
     expect(new PdfRenderer({ executablePath: CHROMIUM, sandbox: false }).launchArgs()).toContain('--no-sandbox');
     expect(new PdfRenderer({ executablePath: CHROMIUM }).launchArgs().includes('--no-sandbox')).toBe(asRoot);
+  });
+});
+
+describe('PdfRenderer connected to a running Chromium (LEADLINE_CHROMIUM_WS_ENDPOINT)', () => {
+  it('renders in a context of its own and, when closed, leaves the browser running', async () => {
+    // a browser of this test's own, so that closing and counting contexts sees no other file's work
+    const browser = await puppeteer.launch({ executablePath: CHROMIUM, args: [...CHROMIUM_FLAGS], headless: true });
+    try {
+      const renderer = new PdfRenderer({ executablePath: '/nonexistent/chromium', browserWSEndpoint: browser.wsEndpoint() });
+      const before = browser.browserContexts().length;
+      const pdf = await renderer.render(page('Rendered remotely'), { format: 'A4', headerLabel: 'connected' });
+      expect((await pdfText(pdf)).text).toContain('Rendered remotely');
+      expect(browser.browserContexts().length).toBe(before + 1);
+      expect(renderer.pid).toBeNull(); // not its own process
+      await renderer.close();
+      expect(browser.connected).toBe(true);
+      expect(browser.browserContexts().length).toBe(before);
+      expect(await (await browser.newPage()).evaluate(() => 1 + 1)).toBe(2);
+    } finally {
+      await browser.close();
+    }
   });
 });

@@ -1,15 +1,15 @@
-import { existsSync, mkdirSync, writeFileSync } from 'node:fs';
-import { join } from 'node:path';
-import { PdfRenderer } from '../infra/pdf/browser-pool';
-import { sig } from './format';
-import { harrowgateReportInput, HARROWGATE_INPUT } from './fixtures/harrowgate.fixture';
-import { CAUTION_SHORT, CAUTION_TEXT } from './report-model';
-import { ReportRenderer, reportPdfLabels, templateCompilations, type RenderedReport } from './report-renderer';
-import { pdfText } from '../../../../test/support/pdf-text';
+/** The calculation report rendered to HTML and to PDF in real Chromium (the run's one browser). */
+import { existsSync } from 'node:fs';
+import { PdfRenderer } from '../../apps/api/src/infra/pdf/browser-pool';
+import { sig } from '../../apps/api/src/reports/format';
+import { harrowgateReportInput, HARROWGATE_INPUT } from '../../apps/api/src/reports/fixtures/harrowgate.fixture';
+import { CAUTION_SHORT, CAUTION_TEXT } from '../../apps/api/src/reports/report-model';
+import { ReportRenderer, reportPdfLabels, templateCompilations, type RenderedReport } from '../../apps/api/src/reports/report-renderer';
+import { saveArtifact, screenshot } from '../support/artifacts';
+import { pdfText } from '../support/pdf-text';
+import { chromiumEndpoint } from '../support/run-resources';
 
 const CHROMIUM = '/usr/bin/chromium';
-const ARTIFACTS = join(__dirname, '..', '..', '..', '..', 'artifacts');
-
 
 describe('calculation report: HTML and PDF in real Chromium', () => {
   const input = harrowgateReportInput();
@@ -21,12 +21,11 @@ describe('calculation report: HTML and PDF in real Chromium', () => {
 
   beforeAll(async () => {
     if (!existsSync(CHROMIUM)) throw new Error(`${CHROMIUM} is not installed`);
-    pdfRenderer = new PdfRenderer({ executablePath: CHROMIUM });
+    pdfRenderer = new PdfRenderer({ executablePath: CHROMIUM, browserWSEndpoint: chromiumEndpoint() ?? undefined });
     report = await new ReportRenderer().render(input);
     pdf = await pdfRenderer.render(report.html, { format: 'A4', ...reportPdfLabels(report.view) });
-    mkdirSync(ARTIFACTS, { recursive: true });
-    writeFileSync(join(ARTIFACTS, 'report-a4.pdf'), pdf);
-    writeFileSync(join(ARTIFACTS, 'report.html'), report.html);
+    saveArtifact('report-a4.pdf', pdf);
+    saveArtifact('report.html', report.html);
     text = (await pdfText(pdf)).text;
   });
 
@@ -136,7 +135,7 @@ describe('calculation report: HTML and PDF in real Chromium', () => {
     expect(text).toContain('Acknowledged by Maren Lindqvist');
   });
 
-  it('lays out within an A4 page width (794 px): screenshot, and no element wider than its box', async () => {
+  it('lays out within an A4 page width (794 px): no element wider than its box (screenshot with ARTIFACTS=1)', async () => {
     const result = await pdfRenderer.withPage(async (page) => {
       await page.setViewport({ width: 794, height: 1123 });
       try {
@@ -145,8 +144,8 @@ describe('calculation report: HTML and PDF in real Chromium', () => {
         for (const media of ['screen', 'print'] as const) {
           await page.emulateMediaType(media);
           if (media === 'screen') {
-            await page.screenshot({ path: join(ARTIFACTS, 'report-a4.png') as `${string}.png`, fullPage: true });
-            await page.screenshot({ path: join(ARTIFACTS, 'report-a4-first-screen.png') as `${string}.png` });
+            await screenshot(page, 'report-a4');
+            await screenshot(page, 'report-a4-first-screen', { fullPage: false });
           }
           out[media] = await page.evaluate(() => {
             const offenders: string[] = [];
@@ -178,7 +177,6 @@ describe('calculation report: HTML and PDF in real Chromium', () => {
       expect(result[media].offenders).toEqual([]);
       expect(result[media].page).toBeLessThanOrEqual(794);
     }
-    expect(existsSync(join(ARTIFACTS, 'report-a4.png'))).toBe(true);
   });
 
   it('renders as US Letter too', async () => {
