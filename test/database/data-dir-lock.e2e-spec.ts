@@ -12,8 +12,9 @@ import { clearDesign } from '../support/designs';
 
 const ROOT = resolve(__dirname, '../..');
 const ADMIN = `ll_lock_test_admin_${'x'.repeat(24)}`;
-// Ports from this suite's range (3230-3259)
-const PORTS = [3241, 3242, 3243, 3244];
+// The built service (`npm test` builds dist/ first), or its sources through SWC when this file runs on its own
+const BUILT = join(ROOT, 'dist/apps/api/src/main.js');
+const MAIN_ARGS = existsSync(BUILT) ? [BUILT] : ['-r', './test/support/register-ts.js', 'apps/api/src/main.ts'];
 
 interface Service {
   proc: ChildProcess;
@@ -21,27 +22,32 @@ interface Service {
   exited: Promise<{ code: number | null; signal: NodeJS.Signals | null; stderr: string; stdout: string }>;
 }
 
-/** Starts `node apps/api/src/main.ts` on the folder; resolves once it listens or has exited. */
-async function start(dataDir: string, port: number): Promise<Service & { listening: boolean }> {
-  const proc = spawn(process.execPath, ['-r', './test/support/register-ts.js', 'apps/api/src/main.ts'], {
+/** Starts the service on the folder and a free port; resolves once it listens or has exited. */
+async function start(dataDir: string): Promise<Service & { listening: boolean }> {
+  const proc = spawn(process.execPath, MAIN_ARGS, {
     cwd: ROOT,
-    env: { PATH: process.env.PATH, LEADLINE_DATA_DIR: dataDir, PORT: String(port), HOST: '127.0.0.1', LEADLINE_DEMO_SEED: 'false', LEADLINE_ADMIN_TOKEN: ADMIN, LOG_LEVEL: 'warn' },
+    env: { PATH: process.env.PATH, LEADLINE_DATA_DIR: dataDir, PORT: '0', HOST: '127.0.0.1', LEADLINE_DEMO_SEED: 'false', LEADLINE_ADMIN_TOKEN: ADMIN, LOG_LEVEL: 'warn' },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
   let stdout = '';
   let stderr = '';
-  proc.stdout!.on('data', (d) => (stdout += d));
+  let onOutput = () => undefined as void;
+  proc.stdout!.on('data', (d) => {
+    stdout += d;
+    onOutput();
+  });
   proc.stderr!.on('data', (d) => (stderr += d));
   const exited = new Promise<{ code: number | null; signal: NodeJS.Signals | null; stderr: string; stdout: string }>((done) =>
     proc.once('exit', (code, signal) => done({ code, signal, stderr, stdout })),
   );
-  let gone = false;
-  void exited.then(() => (gone = true));
+  // the banner (with the bound address) is one write; or the process ends without listening
   const listening = await new Promise<boolean>((done) => {
-    const check = () => (stdout.includes('Leadline is listening') ? done(true) : gone ? done(false) : setTimeout(check, 50));
-    check();
+    onOutput = () => stdout.includes('Leadline is listening') && done(true);
+    onOutput();
+    void exited.then(() => done(stdout.includes('Leadline is listening')));
   });
-  return { proc, url: `http://127.0.0.1:${port}`, exited, listening };
+  const url = /Leadline is listening on (http:\/\/127\.0\.0\.1:\d+)/.exec(stdout)?.[1] ?? 'http://127.0.0.1:0';
+  return { proc, url, exited, listening };
 }
 
 async function call(url: string, token: string, method: string, path: string, body?: unknown) {
@@ -62,7 +68,7 @@ describe('two service processes on one embedded data folder', () => {
   });
 
   it('refuses the second process, naming the folder and the holder pid; the first keeps every acknowledged write, across restarts and a crash', async () => {
-    const first = await start(dir, PORTS[0]);
+    const first = await start(dir);
     running.push(first.proc);
     expect(first.listening).toBe(true);
     const lock = JSON.parse(readFileSync(join(dir, LOCK_FILE), 'utf8'));
@@ -85,7 +91,7 @@ describe('two service processes on one embedded data folder', () => {
     await revise(first.url, 5);
 
     // the second process refuses to start
-    const second = await start(dir, PORTS[1]);
+    const second = await start(dir);
     running.push(second.proc);
     expect(second.listening).toBe(false);
     const refused = await second.exited;
@@ -103,7 +109,7 @@ describe('two service processes on one embedded data folder', () => {
     expect(existsSync(join(dir, LOCK_FILE))).toBe(false);
 
     // a restart finds every acknowledged revision, and a valid chain
-    const again = await start(dir, PORTS[2]);
+    const again = await start(dir);
     running.push(again.proc);
     expect(again.listening).toBe(true);
     const listed = await call(again.url, author, 'GET', `/api/v1/calculations/${opened.body.calculationId}/revisions?limit=100`);
@@ -119,7 +125,7 @@ describe('two service processes on one embedded data folder', () => {
     again.proc.kill('SIGKILL');
     await again.exited;
     expect(JSON.parse(readFileSync(join(dir, LOCK_FILE), 'utf8')).pid).toBe(again.proc.pid);
-    const afterCrash = await start(dir, PORTS[3]);
+    const afterCrash = await start(dir);
     running.push(afterCrash.proc);
     expect(afterCrash.listening).toBe(true);
     expect(JSON.parse(readFileSync(join(dir, LOCK_FILE), 'utf8')).pid).toBe(afterCrash.proc.pid);

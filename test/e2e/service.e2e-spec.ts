@@ -3,55 +3,52 @@
  * Runs on the embedded database, seeds the demo, and checks the shared contract examples through the network.
  */
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
-import { mkdtempSync, readFileSync, rmSync, symlinkSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, rmSync, symlinkSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { clearDesign } from '../support/designs';
 
 const root = join(__dirname, '../..');
 const main = join(root, 'dist/apps/api/src/main.js');
-const port = 3900 + Math.floor(Math.random() * 90);
-const base = `http://127.0.0.1:${port}`;
+let base = '';
 let child: ChildProcess;
 let dataDir: string;
 let output = '';
 let token = '';
 const authed = (init: RequestInit = {}) => ({ ...init, headers: { ...(init.headers ?? {}), authorization: `Bearer ${token}` } });
 
-async function waitFor(url: string, ms: number): Promise<void> {
-  const until = Date.now() + ms;
-  while (Date.now() < until) {
-    try {
-      const r = await fetch(url);
-      if (r.ok) return;
-    } catch {
-      /* not up yet */
-    }
-    await new Promise((r) => setTimeout(r, 200));
-  }
-  throw new Error(`service did not come up at ${url}; output:\n${output}`);
-}
-
 beforeAll(async () => {
-  const built = spawnSync('npx', ['tsc', '-p', 'tsconfig.build.json'], { cwd: root, encoding: 'utf8' });
-  if (built.status !== 0) throw new Error(built.stdout + built.stderr);
-  spawnSync('npx', ['tsc-alias', '-p', 'tsconfig.build.json'], { cwd: root });
+  // `npm test` builds dist/ before the suite; a file run on its own builds it here when it is missing
+  if (!existsSync(main)) {
+    const built = spawnSync('npm', ['run', '-s', 'build'], { cwd: root, encoding: 'utf8' });
+    if (built.status !== 0) throw new Error(built.stdout + built.stderr);
+  }
   dataDir = mkdtempSync(join(tmpdir(), 'leadline-e2e-'));
   child = spawn(process.execPath, [main], {
     cwd: root,
-    env: { PATH: process.env.PATH, PORT: String(port), LEADLINE_DATA_DIR: dataDir, LOG_LEVEL: 'warn' },
+    env: { PATH: process.env.PATH, PORT: '0', LEADLINE_DATA_DIR: dataDir, LOG_LEVEL: 'warn' },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
-  child.stdout!.on('data', (d) => (output += d));
-  child.stderr!.on('data', (d) => (output += d));
-  await waitFor(`${base}/health`, 45000);
-  for (let i = 0; i < 50 && !/export LEADLINE_TOKEN=(\S+)/.test(output); i++) await new Promise((r) => setTimeout(r, 100));
-  token = /export LEADLINE_TOKEN=(\S+)/.exec(output)?.[1] ?? '';
+  // the start-up banner (address, demo tokens) is one write: wait for it, or for the process to end
+  await new Promise<void>((resolve, reject) => {
+    const seen = (d: Buffer) => {
+      output += d;
+      if (/export LEADLINE_TOKEN=\S+/.test(output)) resolve();
+    };
+    child.stdout!.on('data', seen);
+    child.stderr!.on('data', (d) => (output += d));
+    child.once('exit', (code) => reject(new Error(`the service exited (${code}) before it was listening:\n${output}`)));
+  });
+  base = /Leadline is listening on (http:\/\/127\.0\.0\.1:\d+)/.exec(output)![1];
+  token = /export LEADLINE_TOKEN=(\S+)/.exec(output)![1];
 }, 90000);
 
 afterAll(async () => {
-  child?.kill('SIGTERM');
-  await new Promise((r) => setTimeout(r, 300));
+  if (child && child.exitCode === null) {
+    const exited = new Promise((r) => child.once('exit', r));
+    child.kill('SIGTERM');
+    await exited;
+  }
   if (dataDir) rmSync(dataDir, { recursive: true, force: true });
 });
 

@@ -9,10 +9,12 @@
 import { randomBytes, randomUUID } from 'node:crypto';
 import { hashToken } from '../../apps/api/src/identities/identities.service';
 import { seedDemo } from '../../apps/api/src/seed/demo-seed';
+import { TestClock } from '../support/clock';
 import { startTestApp, type TestApp } from '../support/harness';
 
 let t: TestApp;
-beforeAll(async () => (t = await startTestApp('postgres', { LEADLINE_TOKEN_TTL_DAYS: '90', LEADLINE_DEMO_TOKEN_TTL_HOURS: '12' })));
+const clock = new TestClock();
+beforeAll(async () => (t = await startTestApp('postgres', { LEADLINE_TOKEN_TTL_DAYS: '90', LEADLINE_DEMO_TOKEN_TTL_HOURS: '12' }, undefined, { clock })));
 afterAll(() => t?.close());
 
 const DAY = 86_400_000;
@@ -22,12 +24,14 @@ const get = (token: string) => t.call('GET', '/api/v1/products', undefined, { ..
 
 describe('token expiry', () => {
   it('answers 401 once a token has expired, although it answered 200 just before (the cache never outlives the expiry)', async () => {
-    const expiresAt = new Date(Date.now() + 3000).toISOString();
+    const expiresAt = new Date(clock.now() + 60_000).toISOString();
     const issued = await t.call('POST', `/api/v1/users/${t.users.reviewer}/tokens`, { label: 'short', expiresAt }, { as: 'admin' });
     expect(issued.status).toBe(201);
     expect(issued.body.expiresAt).toBe(expiresAt);
-    expect((await get(issued.body.token)).status).toBe(200);
-    await new Promise((r) => setTimeout(r, Math.max(0, Date.parse(expiresAt) - Date.now()) + 300));
+    expect((await get(issued.body.token)).status).toBe(200); // cached now
+    clock.advance(Date.parse(expiresAt) - clock.now() - 500);
+    expect((await get(issued.body.token)).status).toBe(200); // half a second before its expiry
+    clock.advance(501);
     const after = await get(issued.body.token);
     expect(after.status).toBe(401);
     expect(after.body.detail).toMatch(/expired/);
@@ -49,20 +53,20 @@ describe('token expiry', () => {
   });
 
   it('gives every issued token an expiry: the default lifetime, or a shorter one asked for; never past the maximum', async () => {
-    const before = Date.now();
+    const before = clock.now();
     const issued = await t.call('POST', `/api/v1/users/${t.users.author}/tokens`, {}, { as: 'admin' });
     const expires = Date.parse(issued.body.expiresAt);
     expect(expires).toBeGreaterThanOrEqual(before + 90 * DAY - 1000);
-    expect(expires).toBeLessThanOrEqual(Date.now() + 90 * DAY + 1000);
+    expect(expires).toBeLessThanOrEqual(clock.now() + 90 * DAY + 1000);
     const week = await t.call('POST', `/api/v1/users/${t.users.author}/tokens`, { expiresInDays: 7 }, { as: 'admin' });
-    expect(Date.parse(week.body.expiresAt)).toBeLessThanOrEqual(Date.now() + 7 * DAY + 1000);
+    expect(Date.parse(week.body.expiresAt)).toBeLessThanOrEqual(clock.now() + 7 * DAY + 1000);
     const listed = await t.call('GET', `/api/v1/users/${t.users.author}/tokens`, undefined, { as: 'admin' });
     expect(listed.body.items.find((x: { id: string }) => x.id === week.body.id)).toMatchObject({ expired: false, revoked: false, expiresAt: expect.any(String) });
     const bad = [
       { expiresInDays: 3651 },
-      { expiresAt: new Date(Date.now() - 1000).toISOString() },
-      { expiresAt: new Date(Date.now() + 3651 * DAY).toISOString() },
-      { expiresInDays: 1, expiresAt: new Date(Date.now() + DAY).toISOString() },
+      { expiresAt: new Date(clock.now() - 1000).toISOString() },
+      { expiresAt: new Date(clock.now() + 3651 * DAY).toISOString() },
+      { expiresInDays: 1, expiresAt: new Date(clock.now() + DAY).toISOString() },
     ];
     for (const body of bad) {
       const res = await t.call('POST', `/api/v1/users/${t.users.author}/tokens`, body, { as: 'admin' });
@@ -109,7 +113,7 @@ describe('demo seed', () => {
     expect(first.seeded).toBe(true);
     expect(first.tokens.map((x) => x.name)).toEqual(['Design author (demo)', 'Checking engineer (demo)', 'Administrator (demo)']);
     for (const token of first.tokens) {
-      expect(Date.parse(token.expiresAt)).toBeLessThanOrEqual(Date.now() + 12 * 3_600_000 + 1000);
+      expect(Date.parse(token.expiresAt)).toBeLessThanOrEqual(clock.now() + 12 * 3_600_000 + 1000);
       expect((await get(token.token)).status).toBe(200);
     }
     const [{ n }] = await t.db.query<{ n: string }>(`SELECT count(*) AS n FROM tokens`);

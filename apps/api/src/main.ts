@@ -11,7 +11,9 @@ async function main(): Promise<void> {
   const embedded = !config.DATABASE_URL;
   const seed = (config.LEADLINE_DEMO_SEED ?? embedded) ? await seedDemo(app, { issueTokens: config.LEADLINE_DEMO_TOKENS }) : { seeded: false, products: [], tokens: [] };
   await app.listen({ port: config.PORT, host: config.HOST });
-  const url = `http://${config.HOST}:${config.PORT}`;
+  // the port actually bound (PORT=0 asks the system for a free one)
+  const bound = (app.getHttpServer().address() as { port: number } | null)?.port ?? config.PORT;
+  const url = `http://${config.HOST}:${bound}`;
   const lines = [
     '',
     `Leadline is listening on ${url}  (${embedded ? `embedded database in ${config.LEADLINE_DATA_DIR}` : 'PostgreSQL'})`,

@@ -9,6 +9,7 @@ import { Injectable, OnModuleInit, Inject, Logger } from '@nestjs/common';
 import { createHash, randomBytes, randomUUID } from 'node:crypto';
 import { z } from 'zod';
 import { APP_CONFIG, type AppConfig } from '../infra/config';
+import { CLOCK, type Clock } from '../infra/clock';
 import { Database, type Queryer } from '../infra/database/database.service';
 import { notFound, validate, ValidationProblem } from '../infra/http/problem';
 import { checkUuid } from '../products/products.service';
@@ -66,6 +67,7 @@ export class IdentitiesService implements OnModuleInit {
   constructor(
     private readonly db: Database,
     @Inject(APP_CONFIG) private readonly config: AppConfig,
+    @Inject(CLOCK) private readonly clock: Clock,
   ) {
     this.ttlDays = config.LEADLINE_TOKEN_TTL_DAYS;
   }
@@ -88,7 +90,7 @@ export class IdentitiesService implements OnModuleInit {
     const live = await this.db.query(
       `SELECT 1 FROM tokens t JOIN users u ON u.id = t.user_id
         WHERE 'admin' = ANY (u.roles) AND ${this.liveSql('t')} LIMIT 1`,
-      [this.ttlDays],
+      [this.ttlDays, this.nowIso()],
     );
     if (live.length > 0) return;
     const known = await this.db.query(`SELECT 1 FROM tokens WHERE token_hash = $1`, [hashToken(token)]);
@@ -100,10 +102,18 @@ export class IdentitiesService implements OnModuleInit {
     this.logger.warn(`no admin held a live token: LEADLINE_ADMIN_TOKEN restored admin access for ${admins[0].id}`);
   }
 
-  /** SQL: the token aliased `t` is neither revoked nor expired ($1 = default lifetime in days, for tokens without a stored expiry). */
-  private liveSql(t: string): string {
+  /** The service clock's time, as a query parameter: expiry is decided by the service clock, not the database's. */
+  private nowIso(): string {
+    return new Date(this.clock.now()).toISOString();
+  }
+
+  /**
+   * SQL: the token aliased `t` is neither revoked nor expired ($1 = default lifetime in days, for tokens without a
+   * stored expiry; `now` = the parameter holding the service clock's time).
+   */
+  private liveSql(t: string, now = '$2'): string {
     return `NOT EXISTS (SELECT 1 FROM token_revocations r WHERE r.token_id = ${t}.id)
-            AND COALESCE(${t}.expires_at, ${t}.created_at + make_interval(days => $1::int)) > now()`;
+            AND COALESCE(${t}.expires_at, ${t}.created_at + make_interval(days => $1::int)) > ${now}::timestamptz`;
   }
 
   /** Creates a user; the creation and each role it grants are audited in the same transaction. */
@@ -160,7 +170,7 @@ export class IdentitiesService implements OnModuleInit {
   async issueToken(userId: string, body: unknown, actor: IdentityActor, options: { ttlMs?: number } = {}): Promise<{ id: string; token: string; expiresAt: string }> {
     await this.getUser(userId);
     const input = validate(createTokenSchema, body) ?? {};
-    const now = Date.now();
+    const now = this.clock.now();
     let expiresAt: Date;
     if (input.expiresAt !== undefined) {
       expiresAt = new Date(input.expiresAt);
@@ -194,9 +204,9 @@ export class IdentitiesService implements OnModuleInit {
     const expiry = 'COALESCE(t.expires_at, t.created_at + make_interval(days => $2::int))';
     return this.db.query(
       `SELECT t.id, t.label, ${TS_TEXT('t.created_at')} AS "createdAt", r.token_id IS NOT NULL AS revoked,
-              ${TS_TEXT(expiry)} AS "expiresAt", ${expiry} <= now() AS expired
+              ${TS_TEXT(expiry)} AS "expiresAt", ${expiry} <= $3::timestamptz AS expired
          FROM tokens t LEFT JOIN token_revocations r ON r.token_id = t.id WHERE t.user_id = $1 ORDER BY t.created_at`,
-      [userId, this.ttlDays],
+      [userId, this.ttlDays, this.nowIso()],
     );
   }
 
@@ -214,15 +224,15 @@ export class IdentitiesService implements OnModuleInit {
   /** Resolves a presented bearer token to its user, or null when unknown, revoked or expired. */
   async authenticate(token: string): Promise<Principal | null> {
     const hash = hashToken(token);
-    const now = Date.now();
+    const now = this.clock.now();
     const hit = this.cache.get(hash);
     if (hit && hit.until > now) return hit.principal;
     const rows = await this.db.query<{ id: string; name: string; roles: Role[]; token_id: string; ms_left: string }>(
       `SELECT u.id, u.name, u.roles, t.id AS token_id,
-              floor(extract(epoch FROM COALESCE(t.expires_at, t.created_at + make_interval(days => $1::int)) - now()) * 1000) AS ms_left
+              floor(extract(epoch FROM COALESCE(t.expires_at, t.created_at + make_interval(days => $1::int)) - $3::timestamptz) * 1000) AS ms_left
          FROM tokens t JOIN users u ON u.id = t.user_id
-        WHERE t.token_hash = $2 AND ${this.liveSql('t')}`,
-      [this.ttlDays, hash],
+        WHERE t.token_hash = $2 AND ${this.liveSql('t', '$3')}`,
+      [this.ttlDays, hash, new Date(now).toISOString()],
     );
     const principal = rows.length ? { id: rows[0].id, name: rows[0].name, roles: rows[0].roles, tokenId: rows[0].token_id } : null;
     if (principal) {

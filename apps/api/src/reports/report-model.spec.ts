@@ -26,15 +26,29 @@ describe('buildReportView', () => {
   });
 
   it('rounds each result to engineering figures without drifting from the stored value', () => {
+    // SI value -> printed unit, from the definitions of the units (SI Brochure, 9th ed.; NIST SP 811, 2008, B.8)
+    const PER_SI: Record<string, (si: number, path: string) => number> = {
+      '': (x) => x, '-': (x) => x, 'N·m': (x) => x, N: (x) => x, kN: (x) => x / 1e3, mm: (x) => x * 1e3, m: (x) => x, 'mm²': (x) => x * 1e6,
+      MPa: (x) => x / 1e6, kPa: (x) => x / 1e3, GPa: (x) => x / 1e9, '%': (x) => x * 100, rpm: (x) => x, W: (x) => x, kW: (x) => x / 1e3,
+      '°': (x) => x, // the engine stores angles in degrees (libs/mechanics evaluate.ts)
+      'm/s': (x) => x, 'm/min': (x) => x * 60, 'mm/s': (x) => x * 1e3,
+      kg: (x) => x, 'kg·cm²': (x) => x * 1e4, 'rad/s²': (x) => x, 'MPa·m/s': (x) => x / 1e6, 'N·m·s²': (x) => x,
+    };
+    let checked = 0;
     for (const l of lines) {
-      const number = Number(l.value.replace('\u2212', '-').replace(/ × 10.*$/, ''));
-      if (!Number.isFinite(number) || / × 10/.test(l.value)) continue;
-      const kind = l.unit === '%' ? 'percent' : null;
-      const raw = (l.path.split('.').reduce<unknown>((node, k) => (node as Record<string, unknown>)[k], e) as number) * (kind ? 100 : 1);
-      if (l.unit === '' || l.unit === 'N·m' || l.unit === '%' || l.unit === '°' || l.unit === 'rpm') {
-        expect(Math.abs(number - raw)).toBeLessThanOrEqual(Math.abs(raw) * 0.005 + 1e-12);
-      }
+      const mantissa = Number(l.value.replace('\u2212', '-').replace(/ × 10.*$/, ''));
+      const exponent = / × 10(?:<sup>)?([−-]?\d+)/.exec(l.value.replace('\u2212', '-'));
+      const number = exponent ? mantissa * 10 ** Number(exponent[1].replace('−', '-')) : mantissa;
+      if (l.value === '—') continue; // not computed: nothing printed to compare
+      const convert = PER_SI[l.unit];
+      expect({ path: l.path, unit: l.unit, known: convert !== undefined }).toEqual({ path: l.path, unit: l.unit, known: true });
+      const raw = convert(l.path.split('.').reduce<unknown>((node, k) => (node as Record<string, unknown>)[k], e) as number, l.path);
+      expect({ path: l.path, value: l.value, number: Number.isFinite(number) }).toEqual({ path: l.path, value: l.value, number: true });
+      // engineering figures (3 or 4 significant): within 0.5 % of the stored value in the printed unit
+      expect({ path: l.path, off: Math.abs(number - raw) <= Math.abs(raw) * 0.005 + 1e-12 }).toEqual({ path: l.path, off: true });
+      checked++;
     }
+    expect(checked).toBe(lines.filter((l) => l.value !== '—').length);
     expect(line('torque.raise.atMaxFriction').value).toBe('174.0'); // 95.0 + 79.0 N*m, the substitution below
     // wiring test: the view prints the stored value through the report formatter (format.spec.ts checks the formatter on literals)
     expect(line('stresses.body.vonMises').value).toBe(formatNumber(e.stresses.body.vonMises, 'stress', 'SI'));

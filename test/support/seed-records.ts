@@ -1,0 +1,36 @@
+/**
+ * Bulk state for a test, written through the same record functions the service uses (RecordStore: the chain-head
+ * lock, the link hashes, the head move), in one transaction, instead of thousands of HTTP calls. The HTTP routes
+ * themselves, and their limits, are tested with a few real requests.
+ */
+import { Database } from '../../apps/api/src/infra/database/database.service';
+import { RecordStore } from '../../apps/api/src/records/record-store';
+import type { TestApp, Who } from './harness';
+
+/** The test user `who` as the records name an actor. */
+async function actorOf(t: TestApp, who: Exclude<Who, 'anonymous'>): Promise<{ id: string; name: string }> {
+  const [u] = await t.db.query<{ id: string; name: string }>(`SELECT id, name FROM users WHERE id = $1`, [t.users[who]]);
+  return u;
+}
+
+/** Appends comment events to a revision's chain, in order, as the given users. */
+export async function appendComments(t: TestApp, revisionId: string, comments: readonly { text: string; as: Exclude<Who, 'anonymous'> }[]): Promise<void> {
+  const [rev] = await t.db.query<{ product_id: string; calculation_id: string; revision: number }>(
+    `SELECT product_id, calculation_id, revision FROM revisions WHERE id = $1`,
+    [revisionId],
+  );
+  const actors = new Map<string, { id: string; name: string }>();
+  for (const c of comments) if (!actors.has(c.as)) actors.set(c.as, await actorOf(t, c.as));
+  const records = t.app.get(RecordStore);
+  await t.app.get(Database).transaction(async (q) => {
+    const cursor = await records.lockHead(q, rev.product_id);
+    if (!cursor) throw new Error(`no chain head for product ${rev.product_id}`);
+    for (const c of comments) {
+      await records.appendEvent(q, cursor, {
+        productId: rev.product_id, type: 'comment', calculationId: rev.calculation_id, revisionId, actor: actors.get(c.as)!,
+        data: { revision: Number(rev.revision), text: c.text, target: null },
+      });
+    }
+    await records.saveHead(q, rev.product_id, cursor);
+  });
+}
