@@ -365,7 +365,7 @@ it('takes a design from a new product to an approved second revision and its des
   // the design file, downloaded from the product page (fetched with the token, saved from a blob: address)
   const dir = mkdtempSync(join(tmpdir(), 'leadline-design-file-'));
   const cdp = await author.createCDPSession();
-  await cdp.send('Browser.setDownloadBehavior', { behavior: 'allowAndName', downloadPath: dir, eventsEnabled: true });
+  await cdp.send('Browser.setDownloadBehavior', { behavior: 'allowAndName', downloadPath: dir, eventsEnabled: true, browserContextId: author.browserContext().id });
   const done = new Promise<{ name: string; guid: string }>((resolve, reject) => {
     let name = '';
     cdp.on('Browser.downloadWillBegin', (e: { suggestedFilename: string }) => (name = e.suggestedFilename));
@@ -412,7 +412,7 @@ it('exports the design input exactly as the API takes it, and imports one from a
   const dir = mkdtempSync(join(tmpdir(), 'leadline-export-'));
   try {
     const cdp = await page.createCDPSession();
-    await cdp.send('Browser.setDownloadBehavior', { behavior: 'allowAndName', downloadPath: dir, eventsEnabled: true });
+    await cdp.send('Browser.setDownloadBehavior', { behavior: 'allowAndName', downloadPath: dir, eventsEnabled: true, browserContextId: page.browserContext().id });
     const done = new Promise<string>((resolve) => cdp.on('Browser.downloadProgress', (e: { guid: string; state: string }) => e.state === 'completed' && resolve(e.guid)));
     await enterOn(page, '#export-json', false);
     const exported = JSON.parse(readFileSync(join(dir, await done), 'utf8'));
@@ -459,7 +459,7 @@ function jackWithEngine11Inputs() {
 /** Exports the design input of the form by keyboard and returns it as parsed from the downloaded file. */
 async function exportDesign(page: Page, dir: string): Promise<unknown> {
   const cdp = await page.createCDPSession();
-  await cdp.send('Browser.setDownloadBehavior', { behavior: 'allowAndName', downloadPath: dir, eventsEnabled: true });
+  await cdp.send('Browser.setDownloadBehavior', { behavior: 'allowAndName', downloadPath: dir, eventsEnabled: true, browserContextId: page.browserContext().id });
   const done = new Promise<string>((resolve) => cdp.on('Browser.downloadProgress', (e: { guid: string; state: string }) => e.state === 'completed' && resolve(e.guid)));
   await enterOn(page, '#export-json', false);
   const exported = JSON.parse(readFileSync(join(dir, await done), 'utf8'));

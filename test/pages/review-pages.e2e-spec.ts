@@ -68,7 +68,7 @@ async function downloadsTo(page: Page): Promise<{ cdp: CDPSession; dir: string; 
   const dir = mkdtempSync(join(tmpdir(), 'leadline-pages-'));
   downloadDirs.push(dir);
   const cdp = await page.createCDPSession();
-  await cdp.send('Browser.setDownloadBehavior', { behavior: 'allowAndName', downloadPath: dir, eventsEnabled: true });
+  await cdp.send('Browser.setDownloadBehavior', { behavior: 'allowAndName', downloadPath: dir, eventsEnabled: true, browserContextId: page.browserContext().id });
   return {
     cdp,
     dir,

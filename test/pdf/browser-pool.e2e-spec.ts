@@ -209,14 +209,17 @@ describe('PdfRenderer connected to a running Chromium (LEADLINE_CHROMIUM_WS_ENDP
     const browser = await puppeteer.launch({ executablePath: CHROMIUM, args: [...CHROMIUM_FLAGS], headless: true });
     try {
       const renderer = new PdfRenderer({ executablePath: '/nonexistent/chromium', browserWSEndpoint: browser.wsEndpoint() });
-      const before = browser.browserContexts().length;
+      // contexts of the whole browser, whichever connection made them
+      const cdp = await browser.target().createCDPSession();
+      const contexts = async () => ((await cdp.send('Target.getBrowserContexts')) as { browserContextIds: string[] }).browserContextIds.length;
+      const before = await contexts();
       const pdf = await renderer.render(page('Rendered remotely'), { format: 'A4', headerLabel: 'connected' });
       expect((await pdfText(pdf)).text).toContain('Rendered remotely');
-      expect(browser.browserContexts().length).toBe(before + 1);
+      expect(await contexts()).toBe(before + 1);
       expect(renderer.pid).toBeNull(); // not its own process
       await renderer.close();
       expect(browser.connected).toBe(true);
-      expect(browser.browserContexts().length).toBe(before);
+      expect(await contexts()).toBe(before);
       expect(await (await browser.newPage()).evaluate(() => 1 + 1)).toBe(2);
     } finally {
       await browser.close();
