@@ -2,7 +2,7 @@
 import fc from 'fast-check';
 import { clearDesign } from '../support/designs';
 import { SEED } from '../support/property';
-import { fuzz, mutate, mutations, startFuzzTarget, type FuzzTarget, type Json } from './fuzz-support';
+import { fuzz, FUZZ_TIMEOUT_MS, mutate, mutations, startFuzzTarget, type FuzzTarget, type Json } from './fuzz-support';
 
 let target: FuzzTarget;
 // the comment rate limits are tested in test/reports/report-limits.e2e-spec.ts; here every input must reach validation
@@ -21,4 +21,4 @@ it(`comments: no 5xx, every rejection names a field, no row written [POST /api/v
     }) as never,
     700,
   );
-});
+}, FUZZ_TIMEOUT_MS);

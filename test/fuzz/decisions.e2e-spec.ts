@@ -2,7 +2,7 @@
 import fc from 'fast-check';
 import { clearDesign } from '../support/designs';
 import { SEED } from '../support/property';
-import { fuzz, mutate, mutations, startFuzzTarget, type FuzzTarget, type Json } from './fuzz-support';
+import { fuzz, FUZZ_TIMEOUT_MS, mutate, mutations, startFuzzTarget, type FuzzTarget, type Json } from './fuzz-support';
 
 let target: FuzzTarget;
 beforeAll(async () => (target = await startFuzzTarget('FZ-D')));
@@ -29,4 +29,4 @@ it(`decisions: no 5xx, every rejection names a field, no row written [POST /api/
     }) as never,
     700,
   );
-});
+}, FUZZ_TIMEOUT_MS);

@@ -3,7 +3,7 @@ import fc from 'fast-check';
 import { evaluationResponseSchema } from '@leadline/contracts';
 import { clearDesign } from '../support/designs';
 import { SEED } from '../support/property';
-import { fuzz, mutate, mutations, startFuzzTarget, type FuzzTarget } from './fuzz-support';
+import { fuzz, FUZZ_TIMEOUT_MS, mutate, mutations, startFuzzTarget, type FuzzTarget } from './fuzz-support';
 
 let target: FuzzTarget;
 beforeAll(async () => (target = await startFuzzTarget('FZ-E')));
@@ -23,4 +23,4 @@ it(`evaluations: no 5xx, every rejection names a field, no row written; a 2xx ma
     }) as never,
     2600,
   );
-});
+}, FUZZ_TIMEOUT_MS);

@@ -9,7 +9,7 @@
  * Shrinking replays many requests: off by default; FUZZ_SHRINK=true with LEADLINE_SEED=<printed seed> shrinks.
  */
 import fc from 'fast-check';
-import { checkAsyncProperty, runs } from '../support/property';
+import { checkAsyncProperty, FULL_RUN, runs } from '../support/property';
 import { clearDesign } from '../support/designs';
 import { startTestApp, type TestApp } from '../support/harness';
 
@@ -264,6 +264,9 @@ export async function startFuzzTarget(code: string, env: Record<string, string> 
     close: () => t.close(),
   };
 }
+
+/** Time a fuzz test may take: its inputs cost milliseconds each, and the full run sends five times as many. */
+export const FUZZ_TIMEOUT_MS = FULL_RUN ? 3_600_000 : 600_000;
 
 /** Checks a fuzz property over `numRuns` inputs in the default run (5x in the full run), and that each was sent. */
 export async function fuzz(target: FuzzTarget, property: fc.IAsyncProperty<never>, numRuns: number): Promise<void> {

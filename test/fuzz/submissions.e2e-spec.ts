@@ -2,7 +2,7 @@
 import fc from 'fast-check';
 import { clearDesign } from '../support/designs';
 import { SEED } from '../support/property';
-import { fuzz, mutate, mutations, startFuzzTarget, type FuzzTarget } from './fuzz-support';
+import { fuzz, FUZZ_TIMEOUT_MS, mutate, mutations, startFuzzTarget, type FuzzTarget } from './fuzz-support';
 
 let target: FuzzTarget;
 beforeAll(async () => (target = await startFuzzTarget('FZ-S')));
@@ -22,4 +22,4 @@ it(`submissions: no 5xx, every rejection names a field, no row written [POST /ap
     }) as never,
     1200,
   );
-});
+}, FUZZ_TIMEOUT_MS);
