@@ -2,6 +2,7 @@
  * The one list of design rules. Order is the order findings are reported in; append new rules,
  * and never reuse an id for a different check (acknowledgements name findings by rule id).
  */
+import type { CheckDeclaration } from './check';
 import type { Rule, RuleSummary } from './rule';
 import { columnBucklingRule } from './rules/column-buckling.rule';
 import { columnEndFixityRule } from './rules/column-end-fixity.rule';
@@ -38,6 +39,9 @@ export const RULE_REGISTRY: readonly Rule[] = Object.freeze([
   nutEngagedThreadsRule,
   brakeHoldingTorqueRule,
 ]);
+
+/** Every numeric check the rules declare, in registry order: the one list the API, search, re-check and report read. */
+export const CHECK_DECLARATIONS: readonly CheckDeclaration[] = Object.freeze(RULE_REGISTRY.flatMap((r) => r.checks ?? []));
 
 /** The rules as the API lists them: id, title, basis, description. */
 export const RULES: readonly RuleSummary[] = Object.freeze(

@@ -8,6 +8,7 @@
  */
 import type { Finding } from '@leadline/contracts';
 import type { Design, DutyKind, Evaluation } from '@leadline/mechanics';
+import type { CheckDeclaration } from './check';
 import type { Thresholds } from './rule-set';
 
 export interface RuleContext {
@@ -39,6 +40,8 @@ export interface Rule {
   /** What the rule checks and how it grades severity */
   readonly description: string;
   readonly check: RuleCheck;
+  /** The numeric checks the rule makes, declared once (check.ts); the rule decides with assessCheck on them */
+  readonly checks?: readonly CheckDeclaration[];
 }
 
 /** The listing the API shows for a rule. */
