@@ -54,6 +54,8 @@ export interface CheckDeclaration {
   pastLimit?(ctx: RuleContext): 'blocking' | 'warning';
   /** Severity when the value is missing (default 'info') */
   missing?(ctx: RuleContext): CheckSeverity;
+  /** True when the value does not change with the axial load (the screw search's load headroom skips it) */
+  readonly loadIndependent?: boolean;
   /** A reason the check fails whatever its value (e.g. vibration without a brake), or null */
   forcedFailure?(ctx: RuleContext): string | null;
 }

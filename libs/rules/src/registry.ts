@@ -43,6 +43,12 @@ export const RULE_REGISTRY: readonly Rule[] = Object.freeze([
 /** Every numeric check the rules declare, in registry order: the one list the API, search, re-check and report read. */
 export const CHECK_DECLARATIONS: readonly CheckDeclaration[] = Object.freeze(RULE_REGISTRY.flatMap((r) => r.checks ?? []));
 
+/** Rules whose finding does not depend on the nut length (Rule.nutIndependent): the screw search prunes on them. */
+export const NUT_INDEPENDENT_RULES: ReadonlySet<string> = new Set(RULE_REGISTRY.filter((r) => r.nutIndependent === true).map((r) => r.id));
+
+/** Checks whose value does not change with the axial load (CheckDeclaration.loadIndependent). */
+export const LOAD_INDEPENDENT_CHECKS: ReadonlySet<string> = new Set(CHECK_DECLARATIONS.filter((d) => d.loadIndependent === true).map((d) => d.id));
+
 /** The rules as the API lists them: id, title, basis, description. */
 export const RULES: readonly RuleSummary[] = Object.freeze(
   RULE_REGISTRY.map(({ id, title, basis, description }) => Object.freeze({ id, title, basis, description })),

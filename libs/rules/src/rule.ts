@@ -42,6 +42,12 @@ export interface Rule {
   readonly check: RuleCheck;
   /** The numeric checks the rule makes, declared once (check.ts); the rule decides with assessCheck on them */
   readonly checks?: readonly CheckDeclaration[];
+  /**
+   * True when the rule's finding does not depend on the nut length (it reads only the thread, the load, the collar,
+   * the screw's material, length and ends, the duty and the drive). The screw search prunes a screw's other nut
+   * lengths when such a rule blocks it; a rule without the flag is treated as nut-dependent (never pruned on).
+   */
+  readonly nutIndependent?: boolean;
 }
 
 /** The listing the API shows for a rule. */

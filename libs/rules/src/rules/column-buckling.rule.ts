@@ -57,5 +57,6 @@ export const columnBucklingRule: Rule = {
   basis: BASIS,
   description: 'Blocks when a compressed screw has a buckling factor P_cr / F below buckling.minSafetyFactor for the duty kind.',
   check: columnBuckling,
+  nutIndependent: true,
   checks: [COLUMN_BUCKLING_CHECK],
 };

@@ -77,5 +77,6 @@ export const driveTorqueMarginRule: Rule = {
     'acceleration torque, through the gearbox) is below drive.minMargin, warns below drive.warnMargin; ' +
     'information when no drive is given.',
   check: driveTorqueMargin,
+  nutIndependent: true,
   checks: [DRIVE_TORQUE_MARGIN_CHECK],
 };

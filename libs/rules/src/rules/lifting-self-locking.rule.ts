@@ -49,6 +49,7 @@ export const LIFTING_SELF_LOCKING_CHECK: CheckDeclaration = {
   quantity: 'factor',
   limitKind: 'minimum',
   strict: true,
+  loadIndependent: true,
   subject: () => 'selfLocking.margin',
   applies: ({ design }) => design.duty.kind === 'lifting' && !design.duty.brake,
   value: ({ evaluation }) => evaluation.selfLocking.margin,
@@ -184,5 +185,6 @@ export const liftingSelfLockingRule: Rule = {
     'self-locking margin below selfLocking.minMargin without a brake warns; not self-locking with a brake, or vibration ' +
     'with a brake, warns. Positioning and clamping duty: not self-locking is information only.',
   check: liftingSelfLocking,
+  nutIndependent: true,
   checks: [LIFTING_SELF_LOCKING_CHECK],
 };

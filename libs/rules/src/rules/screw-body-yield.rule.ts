@@ -35,5 +35,6 @@ export const screwBodyYieldRule: Rule = {
   basis: `${STRENGTH_BASIS}; ${FORMULA_BASIS}`,
   description: 'Blocks when the body von Mises factor of safety on screw yield is below strength.minSafetyFactor for the duty kind.',
   check: screwBodyYield,
+  nutIndependent: true,
   checks: [SCREW_BODY_YIELD_CHECK],
 };

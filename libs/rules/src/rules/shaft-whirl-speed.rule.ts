@@ -26,6 +26,7 @@ export const SHAFT_WHIRL_SPEED_CHECK: CheckDeclaration = {
   group: 'speed',
   quantity: 'fraction',
   limitKind: 'maximum',
+  loadIndependent: true,
   subject: ({ evaluation }) => (partlyFixedGoverns(evaluation.criticalSpeed) ? 'criticalSpeed.partlyFixed.ratio' : 'criticalSpeed.ratio'),
   applies: () => true,
   value: ({ evaluation }) => {
@@ -88,5 +89,6 @@ export const shaftWhirlSpeedRule: Rule = {
     'where the engine reports a partly fixed critical speed (recommended basis, a fixed end) the lower speed governs; ' +
     'information when no operating speed is given.',
   check: shaftWhirlSpeed,
+  nutIndependent: true,
   checks: [SHAFT_WHIRL_SPEED_CHECK],
 };
