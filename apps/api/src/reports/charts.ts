@@ -310,7 +310,8 @@ export function columnSpec(curve: ColumnCurve, system: UnitSystem): Spec {
 }
 
 export function safetyFactorSpec(rows: readonly SafetyFactorRow[]): Spec | null {
-  const shown = rows.filter((r) => r.value !== null);
+  // Factors against minimums only (shares of an allowable are read in the table)
+  const shown = rows.filter((r) => r.value !== null && r.limitKind === 'minimum');
   if (shown.length === 0) return null;
   const limits = shown.map((r) => r.limit ?? 0);
   // Large factors (stripping is often 20+) would flatten the rest: cap the axis and print the true value.
@@ -318,12 +319,12 @@ export function safetyFactorSpec(rows: readonly SafetyFactorRow[]): Spec | null 
   const values = shown.map((r) => ({
     label: r.shortLabel,
     value: Math.min(r.value as number, cap),
-    text: `${r.valueText}${r.limit === null ? '' : `  (min ${r.limitText})`}`,
+    text: `${r.valueText}  (min ${r.limitText.replace(/^≥ /, '')})`,
     limit: r.limit,
-    status: r.status === 'below' ? 'below the minimum' : r.status === 'meets' ? 'meets the minimum' : 'no minimum recorded',
+    status: r.status === 'below' ? 'below the minimum' : r.status === 'warning' ? 'past the warning level' : 'meets the minimum',
   }));
   // The legend lists only the statuses that occur, in a fixed order and colour
-  const ALL_STATUS: readonly [string, string][] = [['meets the minimum', COLORS.ok], ['below the minimum', COLORS.bad], ['no minimum recorded', COLORS.none]];
+  const ALL_STATUS: readonly [string, string][] = [['meets the minimum', COLORS.ok], ['past the warning level', COLORS.none], ['below the minimum', COLORS.bad]];
   const present = ALL_STATUS.filter(([status]) => values.some((v) => v.status === status));
   const y = { field: 'label', type: 'nominal', title: null, sort: null, axis: { labelLimit: 200, labelFontSize: 10 } };
   return {

@@ -24,6 +24,7 @@ import {
   type QuantityKind,
   type UnitSystem,
 } from './format';
+import { governingCheck, lowestStrengthCheck, type Check } from '@leadline/rules';
 import { PRESENTATION, SYMBOL_KINDS, type Substituted } from './formula-presentation';
 
 // ---------------------------------------------------------------------------------------------------------
@@ -60,13 +61,11 @@ export interface ReportInput {
     readonly algorithm: string; readonly keyId: string; readonly signature: string;
   } | null;
   /**
-   * Minimum safety factors of the rule set the revision was judged by, for the checks that passed
-   * (a finding's own limit, when there is one, takes precedence)
+   * The checks the rules declare, judged on this revision under the rule set it was judged by (judgeWithChecks /
+   * checksOf): the factor table and the summary's governing check and lowest strength factor print these
    */
-  readonly minimums?: Readonly<Partial<Record<SafetyFactorKey, { readonly limit: number; readonly ruleId: string }>>>;
+  readonly checks: readonly Check[];
 }
-
-export type SafetyFactorKey = 'bodyVonMises' | 'firstThreadRoot' | 'strippingScrew' | 'strippingNut' | 'nutThreadRoot' | 'buckling' | 'drive';
 
 // ---------------------------------------------------------------------------------------------------------
 // View
@@ -125,19 +124,22 @@ export interface CalcSection {
 }
 
 export interface SafetyFactorRow {
+  /** The check id */
   readonly key: string;
   readonly label: string;
   /** Few words, for the chart axis */
   readonly shortLabel: string;
   readonly path: string;
   readonly value: number | null;
-  readonly limit: number | null;
+  readonly limit: number;
+  readonly limitKind: 'minimum' | 'maximum';
   readonly valueText: string;
   readonly limitText: string;
-  readonly status: 'meets' | 'below' | 'no-limit' | 'not-applicable';
+  readonly status: 'meets' | 'warning' | 'below' | 'not-computed';
   readonly statusText: string;
-  /** Finding the limit came from */
-  readonly limitFrom: string | null;
+  /** The rule that declares the check and its limit */
+  readonly limitFrom: string;
+  readonly governing: boolean;
 }
 
 export interface CheckRow {
@@ -391,16 +393,6 @@ const SECTIONS: readonly { id: string; title: string; prefixes: readonly string[
   { id: 'power', title: 'Speed, power and drive', prefixes: ['power.', 'drive.'], chart: null },
 ];
 
-/** Safety factors the report holds against minimums; a finding on any of the paths supplies the minimum. */
-const FACTORS: readonly { key: SafetyFactorKey; label: string; shortLabel: string; paths: readonly string[]; value: (e: Evaluation) => number | null }[] = [
-  { key: 'bodyVonMises', label: 'Screw body, S_y / von Mises', shortLabel: 'Screw body', paths: ['safetyFactors.bodyVonMises'], value: (e) => e.safetyFactors.bodyVonMises },
-  { key: 'firstThreadRoot', label: 'First thread root, S_y / von Mises', shortLabel: 'First thread root', paths: ['safetyFactors.firstThreadRoot'], value: (e) => e.safetyFactors.firstThreadRoot },
-  { key: 'strippingScrew', label: 'Screw thread stripping, 0.577 S_y / τ_s', shortLabel: 'Stripping, screw', paths: ['safetyFactors.strippingScrew'], value: (e) => e.safetyFactors.strippingScrew },
-  { key: 'strippingNut', label: 'Nut thread stripping, 0.577 S_y,nut / τ_n', shortLabel: 'Stripping, nut', paths: ['safetyFactors.strippingNut'], value: (e) => e.safetyFactors.strippingNut },
-  { key: 'nutThreadRoot', label: 'Nut thread root, lower of S_y,nut / σ_b,n and 0.577 S_y,nut / τ_r,n', shortLabel: 'Nut thread root', paths: ['safetyFactors.nutThreadRoot'], value: (e) => e.safetyFactors.nutThreadRoot ?? null },
-  { key: 'buckling', label: 'Column buckling, P_cr / F', shortLabel: 'Buckling', paths: ['safetyFactors.buckling', 'buckling.safetyFactor'], value: (e) => e.safetyFactors.buckling },
-  { key: 'drive', label: 'Drive torque, T_av / T_R,max', shortLabel: 'Drive torque', paths: ['drive.margin'], value: (e) => e.drive?.margin ?? null },
-];
 
 // ---------------------------------------------------------------------------------------------------------
 // Helpers
@@ -698,31 +690,36 @@ function buildSections(design: Design, e: Evaluation, system: UnitSystem, findin
 // ---------------------------------------------------------------------------------------------------------
 // Safety factors, checks and findings
 
-function buildSafetyFactors(e: Evaluation, findings: readonly Finding[], minimums: ReportInput['minimums'] = {}): SafetyFactorRow[] {
-  return FACTORS.map((factor) => {
-    const value = factor.value(e);
-    const finding = findings.find((f) => f.subject !== null && factor.paths.includes(f.subject) && typeof f.limit === 'number' && (f.unit === null || f.unit === '-' || f.unit === ''));
-    const fromRuleSet = minimums[factor.key];
-    const source = finding ? { limit: finding.limit as number, ruleId: finding.ruleId } : fromRuleSet;
-    const limit = source ? source.limit : null;
-    // A factor that could not be computed for want of a value, where the rules block on it, is not "not applicable"
-    const missingBlocks = value === null && finding?.severity === 'blocking';
-    const status: SafetyFactorRow['status'] = missingBlocks ? 'below' : value === null ? 'not-applicable' : limit === null ? 'no-limit' : value >= limit ? 'meets' : 'below';
-    const statusText = missingBlocks
-      ? 'not computed: a value is missing (blocking)'
-      : { meets: 'meets the minimum', below: 'below the minimum', 'no-limit': 'no minimum recorded by the rules', 'not-applicable': 'not applicable' }[status];
+/** Words for a check's status in the factor table. */
+const CHECK_STATUS_TEXT: Record<SafetyFactorRow['status'], string> = {
+  meets: 'meets the limit',
+  warning: 'within the limit, past the warning level',
+  below: 'past the limit',
+  'not-computed': 'not computed',
+};
+
+/** The factor table: every check the rules declare and apply to this revision (libs/rules check declarations). */
+function buildSafetyFactors(checks: readonly Check[], system: UnitSystem): SafetyFactorRow[] {
+  return checks.map((c) => {
+    const status: SafetyFactorRow['status'] = c.status === 'pass' ? 'meets' : c.status === 'fail' ? 'below' : c.status;
+    const kind: QuantityKind = c.quantity === 'fraction' ? 'percent' : 'ratio';
+    const missing = c.value === null;
     return {
-      key: factor.key,
-      label: factor.label,
-      shortLabel: factor.shortLabel,
-      path: factor.paths[0],
-      value,
-      limit,
-      valueText: value === null ? '—' : sig(value),
-      limitText: limit === null ? '—' : sig(limit),
+      key: c.id,
+      label: c.label,
+      shortLabel: c.shortLabel,
+      path: c.subject,
+      value: c.value,
+      limit: c.limit,
+      limitKind: c.limitKind,
+      valueText: missing ? '—' : formatQuantity(c.value as number, kind, system),
+      limitText: `${c.limitKind === 'minimum' ? '≥' : '≤'} ${formatQuantity(c.limit, kind, system)}`,
       status,
-      statusText,
-      limitFrom: source?.ruleId ?? null,
+      statusText: missing && c.status === 'fail'
+        ? 'not computed: a value is missing (blocking)'
+        : c.note !== null ? `past the limit: ${c.note}` : CHECK_STATUS_TEXT[status],
+      limitFrom: c.ruleId,
+      governing: false,
     };
   });
 }
@@ -960,10 +957,12 @@ function geometryRows(e: Evaluation, system: UnitSystem): KeyValue[] {
 // ---------------------------------------------------------------------------------------------------------
 // Summary and conventions
 
-function buildSummary(design: Design, e: Evaluation, system: UnitSystem, factors: readonly SafetyFactorRow[]): KeyValue[] {
+function buildSummary(design: Design, e: Evaluation, system: UnitSystem, checks: readonly Check[], factors: readonly SafetyFactorRow[]): KeyValue[] {
   const q = (si: number, kind: QuantityKind) => formatQuantity(si, kind, system);
-  const strength = factors.filter((f) => ['bodyVonMises', 'firstThreadRoot', 'strippingScrew', 'strippingNut'].includes(f.key) && f.value !== null);
-  const lowest = strength.reduce<SafetyFactorRow | null>((lo, f) => (lo === null || (f.value as number) < (lo.value as number) ? f : lo), null);
+  // Both from the rules' declared checks: every strength check the rules apply (the nut's own threads included)
+  const governing = governingCheck(checks);
+  const lowest = lowestStrengthCheck(checks);
+  const row = (c: Check) => factors.find((f) => f.key === c.id) as SafetyFactorRow;
   const rows: KeyValue[] = [
     { label: 'Axial load', value: `${q(design.load.axial, 'force')} ${design.load.sense}`, note: `${design.duty.kind} duty` },
     { label: 'Raise torque at maximum friction', value: q(e.torque.raise.atMaxFriction, 'torque'), note: 'drive sizing; collar included' },
@@ -979,7 +978,14 @@ function buildSummary(design: Design, e: Evaluation, system: UnitSystem, factors
       note: `boundary friction ${sig(e.selfLocking.boundaryFriction)}; brake fitted: ${design.duty.brake ? 'yes' : 'no'}`,
     },
   ];
-  if (lowest) rows.push({ label: 'Lowest strength safety factor', value: lowest.valueText, note: lowest.label });
+  if (governing) {
+    const g = row(governing);
+    rows.push({ label: 'Governing check', value: `${g.valueText} against ${g.limitText}`, note: `${governing.label}: ${g.statusText}` });
+  }
+  if (lowest) {
+    const l = row(lowest);
+    rows.push({ label: 'Lowest strength safety factor', value: l.valueText, note: `${lowest.label} (minimum ${formatQuantity(lowest.limit, 'ratio', system)})` });
+  }
   rows.push({
     label: 'Buckling safety factor',
     value: e.buckling.safetyFactor === null ? 'not applicable' : sig(e.buckling.safetyFactor),
@@ -1037,7 +1043,8 @@ export function buildReportView(input: ReportInput): ReportView {
   const e = revision.evaluation;
   const system: UnitSystem = design.unitSystem === 'US' ? 'US' : 'SI';
   const findings = revision.findings;
-  const factors = buildSafetyFactors(e, findings, input.minimums);
+  const governing = governingCheck(input.checks);
+  const factors = buildSafetyFactors(input.checks, system).map((f) => (governing !== null && f.key === governing.id ? { ...f, governing: true } : f));
   const count = (s: Severity) => findings.filter((f) => f.severity === s).length;
   const title = `Calculation report: ${calculation.title}`;
   const headerRows: KeyValue[] = [
@@ -1076,7 +1083,7 @@ export function buildReportView(input: ReportInput): ReportView {
       decidedAt: input.decidedAt ? formatDate(input.decidedAt) : null,
       rows: headerRows,
     },
-    summary: buildSummary(design, e, system, factors),
+    summary: buildSummary(design, e, system, input.checks, factors),
     findingCounts: { blocking: count('blocking'), warning: count('warning'), info: count('info') },
     input: {
       asEntered: (() => {

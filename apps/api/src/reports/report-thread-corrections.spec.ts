@@ -8,13 +8,19 @@ import { buildReportView } from './report-model';
 import { harrowgateReportInput, harrowgateUsReportInput, HARROWGATE_INPUT } from './fixtures/harrowgate.fixture';
 import { parseDesign } from '@leadline/contracts';
 import { evaluate } from '@leadline/mechanics';
+import { checksOf, DEFAULT_RULE_SET } from '@leadline/rules';
 
 /** The Harrowgate report input with its design replaced (findings kept: only the figures are read here). */
 function withDesign(raw: unknown): ReportInput {
   const base = harrowgateReportInput();
   const parsed = parseDesign(raw);
   if (!parsed.success) throw new Error(JSON.stringify(parsed.issues));
-  return { ...base, revision: { ...base.revision, input: raw, normalized: parsed.design, evaluation: evaluate(parsed.design) } };
+  const evaluation = evaluate(parsed.design);
+  return {
+    ...base,
+    revision: { ...base.revision, input: raw, normalized: parsed.design, evaluation },
+    checks: checksOf(parsed.design, evaluation, DEFAULT_RULE_SET.thresholds),
+  };
 }
 
 const notesOf = (input: ReportInput, id: string) => buildReportView(input).sections.find((s) => s.id === id)?.notes ?? [];
@@ -44,8 +50,8 @@ describe('report: thread corrections (issue 13)', () => {
 
   it("holds the nut's own thread root factor against the revision's rule-set minimum", () => {
     const base = harrowgateReportInput();
-    const view = buildReportView({ ...base, minimums: { nutThreadRoot: { limit: 3, ruleId: 'nut-thread-root-yield' } } });
-    const row = view.safetyFactors.find((f) => f.key === 'nutThreadRoot');
+    const view = buildReportView(base);
+    const row = view.safetyFactors.find((f) => f.key === 'nut-thread-root-yield');
     expect(row?.value).toBe(base.revision.evaluation.safetyFactors.nutThreadRoot);
     expect(row).toMatchObject({ limit: 3, limitFrom: 'nut-thread-root-yield' });
     const lines = view.sections.flatMap((s) => s.lines).map((l) => l.path);
@@ -54,9 +60,9 @@ describe('report: thread corrections (issue 13)', () => {
 
   it('a missing nut yield that blocks is shown as not computed, not "not applicable"', () => {
     const input = withDesign({ ...HARROWGATE_INPUT, nut: { length: '48 mm', material: 'cast-iron' } });
-    const finding = { ruleId: 'nut-thread-root-yield', severity: 'blocking' as const, measured: null, limit: 3, unit: '-', subject: 'safetyFactors.nutThreadRoot', message: 'nut.yieldStrength is missing', basis: 'test' };
-    const view = buildReportView({ ...input, revision: { ...input.revision, findings: [finding] } });
-    expect(view.safetyFactors.find((f) => f.key === 'nutThreadRoot')).toMatchObject({ status: 'below', statusText: 'not computed: a value is missing (blocking)' });
+    // cast iron has no yield strength in the library; on lifting duty rule set 2026.12-2 blocks on it (missingValues.onLifting)
+    const view = buildReportView(input);
+    expect(view.safetyFactors.find((f) => f.key === 'nut-thread-root-yield')).toMatchObject({ status: 'below', statusText: 'not computed: a value is missing (blocking)' });
   });
 
   it('prints the stripping planes with their areas', () => {
