@@ -57,15 +57,6 @@ const text = (page: Page, selector: string) => page.$eval(selector, (e) => (e as
 /** axe-core, the width check and (ARTIFACTS=1) screenshots for the page as it stands (test/support/page-checks.ts). */
 const checkPage = (page: Page, name: string) => checkPageAt(page, `design/${name}`);
 
-/** What the results panel calls each strength or stability check (safetyFactors keys of the evaluation). */
-const LOWEST_CHECK_LABELS: Record<string, string> = {
-  bodyVonMises: 'screw body (von Mises)',
-  firstThreadRoot: 'first engaged thread root',
-  strippingScrew: 'screw thread stripping',
-  strippingNut: 'nut thread stripping',
-  nutThreadRoot: 'nut thread root (bending and shear)',
-  buckling: 'column buckling',
-};
 
 /** A figure of the results panel as a number ("−1.234 N·m" -> -1.234). */
 async function figure(page: Page, name: string): Promise<number> {
@@ -276,12 +267,17 @@ it('takes a design from a new product to an approved second revision and its des
   close(await figure(author, 'brake-holding'), e.brake.holdingTorqueNoFriction);
   close(await figure(author, 'brake-holding-min'), e.brake.holdingTorqueMinFriction);
   close(await figure(author, 'brake-ratio'), e.brake.ratio);
-  const factors = Object.entries(e.safetyFactors as Record<string, number | null>).filter((x): x is [string, number] => x[1] !== null);
-  const lowest = factors.reduce((a, b) => (b[1] < a[1] ? b : a));
-  close(await figure(author, 'lowest-factor'), lowest[1]);
+  // the lowest strength factor and the governing check are the stored revision's checks (the rules' declarations)
+  const record = (await t.call('GET', `/api/v1/revisions/${rev1.id}`)).body;
+  type C = { id: string; group: string; value: number | null; label: string };
+  const strength = (record.checks as C[]).filter((c) => c.group === 'strength' && c.value !== null);
   // the bronze nut's own threads are a strength check of their own (engine 1.1), among those the lowest is taken from
-  expect(factors.map((f) => f[0])).toContain('nutThreadRoot');
-  expect(await text(author, '[data-figure="lowest-check"]')).toBe(LOWEST_CHECK_LABELS[lowest[0]]);
+  expect(strength.map((c) => c.id)).toContain('nut-thread-root-yield');
+  const lowest = strength.reduce((a, b) => ((b.value as number) < (a.value as number) ? b : a));
+  close(await figure(author, 'lowest-factor'), lowest.value as number);
+  expect(await text(author, '[data-figure="lowest-check"]')).toBe(lowest.label);
+  close(await figure(author, 'governing-value'), record.governing.value, record.governing.quantity === 'fraction' ? 100 : 1);
+  expect(await text(author, '[data-figure="governing-check"]')).toBe(record.governing.label);
   expect(await text(author, '#results-findings')).toContain(rev1.findings.length ? rev1.findings[0].message : 'No findings.');
   await checkPage(author, 'design-form-saved');
   // the report link: the author reads the report; the decision form is the checking engineer's alone
