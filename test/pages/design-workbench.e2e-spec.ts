@@ -260,7 +260,7 @@ it('takes a design from a new product to an approved second revision and its des
   close(await figure(author, 'speed-ratio'), e.criticalSpeed.ratio);
   close(await figure(author, 'nut-pressure'), e.wear.bearingPressure, 1e-6);
   close(await figure(author, 'nut-pressure-allowable'), e.wear.allowablePressure, 1e-6);
-  close(await figure(author, 'nut-pv'), e.wear.pv, 1e-6);
+  close(await figure(author, 'pv'), e.wear.pv, 1e-6);
   close(await figure(author, 'drive-margin'), e.drive.margin);
   close(await figure(author, 'drive-required'), e.drive.peakTorqueAtMotor);
   expect(await text(author, '[data-figure="nut-pressure-class"]')).toBe(e.wear.allowablePressureClass);

@@ -78,7 +78,7 @@ export function renderResults(panel, e, system) {
     row('Whirl (critical speed)', [value('critical-speed', sig(e.criticalSpeed.rpm) + ' rpm'), ' critical; operating / critical = ', value('speed-ratio', e.criticalSpeed.ratio === null ? 'no speed given' : sig(e.criticalSpeed.ratio))]),
     ...partlyFixedRows(e.criticalSpeed.partlyFixed),
     row('Nut bearing pressure', value('nut-pressure', q(w.bearingPressure, 'pressure')), w.allowablePressure === null ? 'no allowable given' : ['allowable ', value('nut-pressure-allowable', q(w.allowablePressure, 'pressure')), ...allowableClass(w)], w.pressureRatio === null ? status(null) : status(w.pressureRatio <= 1, 'within the allowable', 'ABOVE the allowable')),
-    row('Nut pV', value('nut-pv', w.pv === null ? 'no speed given' : q(w.pv, 'pv')), w.allowablePv === null ? 'no allowable given' : ['allowable ', value('nut-pv-allowable', q(w.allowablePv, 'pv'))], w.pvRatio === null ? status(null) : status(w.pvRatio <= 1, 'within the allowable', 'ABOVE the allowable')),
+    row('Nut pV', value('pv', w.pv === null ? 'no speed given' : q(w.pv, 'pv')), w.allowablePv === null ? 'no allowable given' : ['allowable ', value('pv-allowable', q(w.allowablePv, 'pv'))], w.pvRatio === null ? status(null) : status(w.pvRatio <= 1, 'within the allowable', 'ABOVE the allowable')),
     row('Drive margin', e.drive ? [value('drive-margin', sig(e.drive.margin)), ' = available / required'] : value('drive-margin', 'no drive torque given'), e.drive ? ['required ', value('drive-required', q(e.drive.requiredTorque, 'torque')), driveBasis(e.drive), ', available ', q(e.drive.availableTorque, 'torque')] : ''),
   ];
   if (e.brake) rows.push(brakeRow(e.brake, e.drive, q));
