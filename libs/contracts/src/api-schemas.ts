@@ -3,6 +3,7 @@
  * request schemas; clients can rely on the field names (add, never rename).
  */
 import { z } from 'zod';
+import { checkSchema, governingSchema } from './checks';
 
 const num = z.number();
 const nnum = z.number().nullable();
@@ -83,6 +84,8 @@ export const evaluationSchema = z.object({
 
 export const evaluationResponseSchema = evaluationSchema.extend({
   trace: evaluationSchema.shape.trace.optional().describe('the formula trace, sent only with ?trace=true'),
+  checks: z.array(checkSchema).describe("every check the rules declare and apply to the design, against the rule set's limits"),
+  governing: governingSchema,
   verdict: z.enum(['blocked', 'needs-acknowledgement', 'clear']),
   ruleSetVersion: z.string(),
 });
@@ -115,6 +118,12 @@ export const revisionReviewSchema = z.object({
 
 /** A revision as the revision routes answer it: the record and its review state. */
 export const revisionWithReviewSchema = revisionRecordSchema.extend({ review: revisionReviewSchema });
+
+/** One revision (GET /revisions/:id): with its checks under the rule set it was judged by, derived on reading. */
+export const revisionWithChecksSchema = revisionWithReviewSchema.extend({
+  checks: z.array(checkSchema).describe('the checks of the rule set the revision was judged by, from its stored evaluation'),
+  governing: governingSchema,
+});
 
 export const chainVerificationSchema = z.object({
   productId: z.string().uuid(), valid: z.boolean(), links: z.number().int(), headHash: z.string().nullable(),
