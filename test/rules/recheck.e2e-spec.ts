@@ -56,6 +56,28 @@ describe('re-check of stored revisions [POST /api/v1/rule-sets/recheck]', () => 
     expect(verify.body.valid).toBe(true);
   });
 
+  it('the impact of rule set 2026.12-2 on the seeded demo answers 200 and includes the engine-1.0 revision [POST /api/v1/rule-sets/:version/impact]', async () => {
+    const res = await t.call('POST', '/api/v1/rule-sets/2026.12-2/impact', { scope: 'approved' }, { as: 'reviewer' });
+    expect(res.status).toBe(200);
+    const old = res.body.revisions.find((r: { judgedBy: string }) => r.judgedBy === '2026.12-1');
+    expect(old).toBeDefined();
+    const stored = (await t.call('GET', `/api/v1/revisions/${old.revisionId}`, undefined, { as: 'reviewer' })).body;
+    expect(stored.engineVersion).toBe('1.0.0');
+    // engine 1.0 did not compute the nut's own threads: under 2026.12-2 on lifting duty that check blocks, never passes
+    expect(old.verdict).toEqual({ from: 'clear', to: 'blocked' });
+    expect(old.findingChanges).toEqual(expect.arrayContaining([{ ruleId: 'nut-thread-root-yield', from: null, to: 'blocking' }]));
+    // the stored revision's own checks (rule set 2026.12-1, which has no nut-thread group) are read without error
+    expect(stored.checks.map((c: { id: string }) => c.id)).not.toContain('nut-thread-root-yield');
+    expect(stored.governing).not.toBeNull();
+    // and its report and the product's design file are served (a figure engine 1.0 did not compute is said so)
+    const report = await t.call('GET', `/api/v1/revisions/${old.revisionId}/report.html`, undefined, { as: 'reviewer' });
+    expect(report.status).toBe(200);
+    expect(report.text).toContain('not computed by engine 1.0.0');
+    const latest = await t.call('POST', '/api/v1/rule-sets/2026.12-2/impact', { scope: 'latest' }, { as: 'reviewer' });
+    expect(latest.status).toBe(200);
+    expect(latest.body.examined).toBe(4);
+  });
+
   it('scopes: approved only finds the same revision; a product filter with no stored work examines nothing', async () => {
     const approved = await t.call('POST', RECHECK, { scope: 'approved' }, { as: 'admin' });
     expect(approved.status).toBe(200);

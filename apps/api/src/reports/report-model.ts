@@ -923,8 +923,12 @@ function minimumMaterialRows(g: Evaluation['geometry'], system: UnitSystem): Key
   ];
 }
 
-function geometryRows(e: Evaluation, system: UnitSystem): KeyValue[] {
+/** What the report prints for a figure the revision's engine did not compute (a revision keeps its own engine's figures). */
+export const notComputedBy = (engineVersion: string): string => `not computed by engine ${engineVersion}`;
+
+function geometryRows(e: Evaluation, system: UnitSystem, engineVersion: string): KeyValue[] {
   const g = e.geometry;
+  const older = notComputedBy(engineVersion);
   const L = (si: number) => formatQuantity(si, 'length', system);
   const deg = (x: number) => formatQuantity(x, 'angle', system);
   return [
@@ -936,11 +940,11 @@ function geometryRows(e: Evaluation, system: UnitSystem): KeyValue[] {
     { label: 'Lead l', value: L(g.lead) },
     { label: 'Mean diameter d_m', value: L(g.meanDiameter) },
     { label: 'Minor diameter d_r (the section of the body, column and whirl checks)', value: L(g.minorDiameter) },
-    ...(g.minorDiameterArea === undefined ? [] : [{ label: 'Minor-diameter area π d_r² / 4', value: formatQuantity(g.minorDiameterArea, 'area', system) }]),
+    { label: 'Minor-diameter area π d_r² / 4', value: g.minorDiameterArea === undefined ? older : formatQuantity(g.minorDiameterArea, 'area', system) },
     ...(g.tensileStressArea == null
       ? []
       : [{ label: 'Tensile stress area A_s (ISO 898-1 / ASME B1.1), for reference only: no check uses it', value: formatQuantity(g.tensileStressArea, 'area', system) }]),
-    ...(g.nutMinorDiameter === undefined ? [] : [{ label: "Nut minor diameter D1 (the screw threads' stripping plane)", value: L(g.nutMinorDiameter) }]),
+    { label: "Nut minor diameter D1 (the screw threads' stripping plane)", value: g.nutMinorDiameter === undefined ? older : L(g.nutMinorDiameter) },
     ...minimumMaterialRows(g, system),
     { label: 'Engaged flank height h', value: L(g.threadHeight) },
     { label: 'Crest clearance a_c', value: L(g.crestClearance) },
@@ -957,7 +961,7 @@ function geometryRows(e: Evaluation, system: UnitSystem): KeyValue[] {
 // ---------------------------------------------------------------------------------------------------------
 // Summary and conventions
 
-function buildSummary(design: Design, e: Evaluation, system: UnitSystem, checks: readonly Check[], factors: readonly SafetyFactorRow[]): KeyValue[] {
+function buildSummary(design: Design, e: Evaluation, system: UnitSystem, checks: readonly Check[], factors: readonly SafetyFactorRow[], engineVersion: string): KeyValue[] {
   const q = (si: number, kind: QuantityKind) => formatQuantity(si, kind, system);
   // Both from the rules' declared checks: every strength check the rules apply (the nut's own threads included)
   const governing = governingCheck(checks);
@@ -992,6 +996,10 @@ function buildSummary(design: Design, e: Evaluation, system: UnitSystem, checks:
     note: e.buckling.applies ? `${e.buckling.regime === 'euler' ? 'Euler' : 'Johnson'} column, l/k = ${sig(e.buckling.slenderness)}` : 'screw in tension',
   });
   if (e.criticalSpeed.ratio !== null) rows.push({ label: 'Operating / critical speed', value: sig(e.criticalSpeed.ratio), note: `critical speed ${q(e.criticalSpeed.rpm, 'rpm')}` });
+  // An evaluation of an earlier engine lacks the brake figures and the partly fixed whirl speed: said, not left out
+  const older = notComputedBy(engineVersion);
+  if (e.brake === undefined) rows.push({ label: 'Brake holding torque, thread friction lost (f → 0)', value: older });
+  if (e.criticalSpeed.partlyFixed === undefined) rows.push({ label: 'Operating / critical speed, ends partly fixed', value: older });
   if (e.brake) {
     rows.push({
       label: 'Brake holding torque, thread friction lost (f → 0)',
@@ -1083,7 +1091,7 @@ export function buildReportView(input: ReportInput): ReportView {
       decidedAt: input.decidedAt ? formatDate(input.decidedAt) : null,
       rows: headerRows,
     },
-    summary: buildSummary(design, e, system, input.checks, factors),
+    summary: buildSummary(design, e, system, input.checks, factors, revision.engineVersion),
     findingCounts: { blocking: count('blocking'), warning: count('warning'), info: count('info') },
     input: {
       asEntered: (() => {
@@ -1094,7 +1102,7 @@ export function buildReportView(input: ReportInput): ReportView {
       engineUnits: engineUnitRows(design),
       friction: frictionRows(design),
       materials: materialRows(design, revision.input, system),
-      geometry: geometryRows(e, system),
+      geometry: geometryRows(e, system, revision.engineVersion),
     },
     sections: buildSections(design, e, system, findings),
     safetyFactors: factors,
