@@ -3,7 +3,7 @@
  * The PDF's text is extracted with pdf-parse and checked against the stored evaluation.
  */
 import { PdfRenderer } from '../../apps/api/src/infra/pdf/browser-pool';
-import { formatQuantity, sig } from '../../apps/api/src/reports/format';
+import { formatQuantity, sig } from '@leadline/presentation';
 import { saveArtifact, screenshot } from '../support/artifacts';
 import { testBrowser } from '../support/browser';
 import { warningDesign } from '../support/designs';

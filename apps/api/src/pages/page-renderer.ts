@@ -3,6 +3,7 @@
  * once, and the script modules and stylesheets they load, read from disk once. The shells carry no data; each
  * page's module fetches everything from the JSON API with the user's token.
  */
+import { browserModuleSource } from '@leadline/presentation';
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { basename, dirname, join } from 'node:path';
 import Handlebars from 'handlebars';
@@ -38,6 +39,9 @@ export const PAGE_SPECS = {
 
 export type PageName = keyof typeof PAGE_SPECS;
 export const PAGES = Object.keys(PAGE_SPECS) as PageName[];
+
+/** The presentation module as the pages import it (generated from libs/presentation at start). */
+export const PRESENTATION_ASSET = 'lib-presentation.js';
 
 /** Where the pages' assets are served (one place for /review and /design). */
 export const ASSET_BASE = '/review/assets/';
@@ -104,6 +108,8 @@ export class PageRenderer {
       const type = CONTENT_TYPES[file.slice(file.lastIndexOf('.'))];
       if (type && /^[a-z0-9-]+\.(js|css)$/.test(file)) this.assets[file] = { body: readFileSync(join(assetsDir, file), 'utf8'), contentType: type };
     }
+    // Numbers, units, words and dates: the server's own presentation module, not a copy (libs/presentation)
+    this.assets[PRESENTATION_ASSET] = { body: browserModuleSource(), contentType: CONTENT_TYPES['.js'] };
   }
 
   render(page: PageName, styleNonce?: string): string {

@@ -16,7 +16,7 @@ import {
   type Design,
   type Evaluation,
 } from '@leadline/mechanics';
-import { coefficient, sig, toDisplay, unitSymbol, type UnitSystem } from './format';
+import { coefficient, sig, toDisplay, unitSymbol, type UnitSystem } from '@leadline/presentation';
 import type { ReportView, SafetyFactorRow } from './report-model';
 
 // ---------------------------------------------------------------------------------------------------------

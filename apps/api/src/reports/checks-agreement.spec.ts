@@ -13,7 +13,7 @@ import { designInputArbitrary } from '../../../../libs/rules/src/testing/arbitra
 import { checkProperty } from '../../../../test/support/property';
 import { requirementsArbitrary } from '../../../../test/support/sizing';
 import { harrowgateReportInput } from './fixtures/harrowgate.fixture';
-import { formatQuantity } from './format';
+import { formatQuantity } from '@leadline/presentation';
 import { buildReportView } from './report-model';
 
 /**

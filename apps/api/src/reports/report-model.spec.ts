@@ -1,5 +1,5 @@
 import { FORMULAS } from '@leadline/mechanics';
-import { formatNumber } from './format';
+import { formatNumber } from '@leadline/presentation';
 import { harrowgateReportInput, harrowgateUsReportInput } from './fixtures/harrowgate.fixture';
 import { buildReportView, mathHtml, mathText } from './report-model';
 

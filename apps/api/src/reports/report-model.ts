@@ -15,15 +15,21 @@ import {
   type FrictionRange,
 } from '@leadline/mechanics';
 import {
+  CHECK_STATUSES,
   coefficient,
+  EVENTS,
+  formatDate,
   formatNumber,
   formatQuantity,
   siRecord,
   sig,
+  STATES_IN_FULL,
   unitSymbol,
+  VERDICTS_IN_FULL,
+  wordFor,
   type QuantityKind,
   type UnitSystem,
-} from './format';
+} from '@leadline/presentation';
 import { governingCheck, lowestStrengthCheck, type Check } from '@leadline/rules';
 import { PRESENTATION, SYMBOL_KINDS, type Substituted } from './formula-presentation';
 
@@ -266,30 +272,6 @@ export interface ReportView {
 // ---------------------------------------------------------------------------------------------------------
 // Labels
 
-const STATE_LABELS: Record<ReviewState, string> = {
-  submitted: 'Submitted, awaiting review',
-  approved: 'Approved',
-  rejected: 'Rejected',
-  superseded: 'Superseded by a later revision',
-  withdrawn: 'Withdrawn',
-};
-
-const VERDICT_LABELS: Record<Verdict, string> = {
-  blocked: 'Blocked: at least one blocking finding',
-  'needs-acknowledgement': 'Needs acknowledgement of warnings',
-  clear: 'Clear: no blocking findings or warnings',
-};
-
-const EVENT_LABELS: Record<string, string> = {
-  'product-registered': 'Product registered',
-  'calculation-opened': 'Calculation opened',
-  'revision-submitted': 'Revision submitted',
-  comment: 'Comment',
-  approved: 'Approved',
-  rejected: 'Rejected',
-  withdrawn: 'Withdrawn',
-};
-
 const SEVERITY_GROUPS: readonly { severity: Severity; title: string; explanation: string }[] = [
   { severity: 'blocking', title: 'Blocking findings', explanation: 'Must be resolved by a new revision; a blocked revision cannot be approved.' },
   { severity: 'warning', title: 'Warnings', explanation: 'Each must be acknowledged by the reviewer, with a reason, before approval.' },
@@ -450,12 +432,6 @@ function valueAt(root: unknown, path: string): number | null {
 }
 
 /** UTC, minute precision: reports are read across time zones and must not depend on the server's. */
-export function formatDate(iso: string | null | undefined): string {
-  if (!iso) return '—';
-  const d = new Date(iso);
-  if (Number.isNaN(d.getTime())) return iso;
-  return `${d.toISOString().slice(0, 10)} ${d.toISOString().slice(11, 16)} UTC`;
-}
 
 const actorName = (a: Actor | null | undefined): string => a?.name ?? '—';
 
@@ -690,13 +666,6 @@ function buildSections(design: Design, e: Evaluation, system: UnitSystem, findin
 // ---------------------------------------------------------------------------------------------------------
 // Safety factors, checks and findings
 
-/** Words for a check's status in the factor table. */
-const CHECK_STATUS_TEXT: Record<SafetyFactorRow['status'], string> = {
-  meets: 'meets the limit',
-  warning: 'within the limit, past the warning level',
-  below: 'past the limit',
-  'not-computed': 'not computed',
-};
 
 /** The factor table: every check the rules declare and apply to this revision (libs/rules check declarations). */
 function buildSafetyFactors(checks: readonly Check[], system: UnitSystem): SafetyFactorRow[] {
@@ -717,7 +686,7 @@ function buildSafetyFactors(checks: readonly Check[], system: UnitSystem): Safet
       status,
       statusText: missing && c.status === 'fail'
         ? 'not computed: a value is missing (blocking)'
-        : c.note !== null ? `past the limit: ${c.note}` : CHECK_STATUS_TEXT[status],
+        : c.note !== null ? `${wordFor(CHECK_STATUSES, 'fail')}: ${c.note}` : wordFor(CHECK_STATUSES, c.status),
       limitFrom: c.ruleId,
       governing: false,
     };
@@ -804,7 +773,7 @@ function buildEvents(events: readonly ProductEvent[]): EventView[] {
       return {
         seq: ev.seq,
         type: ev.type,
-        typeLabel: EVENT_LABELS[ev.type] ?? ev.type,
+        typeLabel: wordFor(EVENTS, ev.type),
         actor: actorName(ev.actor),
         at: formatDate(ev.createdAt),
         text: textKey ? (ev.data[textKey] as string) : null,
@@ -1059,8 +1028,8 @@ export function buildReportView(input: ReportInput): ReportView {
     { label: 'Product', value: `${product.code}, ${product.name}` },
     { label: 'Calculation', value: calculation.title, note: calculation.id },
     { label: 'Revision', value: String(revision.revision), note: revision.note ?? undefined },
-    { label: 'Review state', value: STATE_LABELS[input.state] ?? input.state },
-    { label: 'Verdict of the rules', value: VERDICT_LABELS[revision.verdict] ?? revision.verdict },
+    { label: 'Review state', value: wordFor(STATES_IN_FULL, input.state) },
+    { label: 'Verdict of the rules', value: wordFor(VERDICTS_IN_FULL, revision.verdict) },
     { label: 'Author', value: actorName(revision.author) },
     { label: 'Submitted', value: formatDate(revision.createdAt) },
     { label: 'Reviewer', value: actorName(input.reviewer) },
@@ -1083,9 +1052,9 @@ export function buildReportView(input: ReportInput): ReportView {
       revision: revision.revision,
       revisionNote: revision.note,
       state: input.state,
-      stateLabel: STATE_LABELS[input.state] ?? input.state,
+      stateLabel: wordFor(STATES_IN_FULL, input.state),
       verdict: revision.verdict,
-      verdictLabel: VERDICT_LABELS[revision.verdict] ?? revision.verdict,
+      verdictLabel: wordFor(VERDICTS_IN_FULL, revision.verdict),
       author: actorName(revision.author),
       reviewer: actorName(input.reviewer),
       decidedAt: input.decidedAt ? formatDate(input.decidedAt) : null,
@@ -1124,8 +1093,8 @@ export function buildReportView(input: ReportInput): ReportView {
         revision: h.revision,
         createdAt: formatDate(h.createdAt),
         author: actorName(h.author),
-        verdict: VERDICT_LABELS[h.verdict] ?? h.verdict,
-        state: STATE_LABELS[h.state] ?? h.state,
+        verdict: wordFor(VERDICTS_IN_FULL, h.verdict),
+        state: wordFor(STATES_IN_FULL, h.state),
         current: h.id === revision.id,
       })),
     conventions: conventions(design, system),

@@ -1,4 +1,4 @@
-import { coefficient, formatQuantity, MINUS, sig, siRecord } from './format';
+import { coefficient, formatQuantity, MINUS, sig, siRecord } from './presentation';
 
 describe('report number formatting', () => {
   it.each([
