@@ -5,11 +5,10 @@
  */
 import { browserModuleSource } from '@leadline/presentation';
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
-import { basename, dirname, join } from 'node:path';
-import Handlebars from 'handlebars';
+import { dirname, join } from 'node:path';
 import { TOLERANCE_CLASSES } from '@leadline/mechanics';
 import { CAUTION_TEXT } from '../reports/report-model';
-import { findTemplatesDir } from '../reports/report-renderer';
+import { Templates, type Template } from '../infra/templates';
 
 /** The standard that defines each form's tolerance classes, for the design form's choice of class. */
 const TOLERANCE_STANDARDS: Readonly<Record<string, string>> = { trapezoidal: 'ISO 2903', acme: 'ASME B1.5' };
@@ -88,20 +87,13 @@ export function findAssetsDir(start: string = __dirname): string {
 }
 
 export class PageRenderer {
-  private readonly pages: Record<string, Handlebars.TemplateDelegate>;
+  private readonly pages: Record<string, Template<Record<string, unknown>>>;
   private readonly assets: Record<string, Asset>;
 
   constructor(options: { templatesDir?: string; assetsDir?: string } = {}) {
-    const pagesDir = join(options.templatesDir ?? findTemplatesDir(), 'pages');
-    // Isolated from the report templates' helpers and partials.
-    const hbs = Handlebars.create();
-    const partialsDir = join(pagesDir, 'partials');
-    for (const file of readdirSync(partialsDir)) {
-      if (file.endsWith('.hbs')) hbs.registerPartial(basename(file, '.hbs'), readFileSync(join(partialsDir, file), 'utf8'));
-    }
-    this.pages = Object.fromEntries(
-      PAGES.map((name) => [name, hbs.compile(readFileSync(join(pagesDir, `${name}.hbs`), 'utf8'), { strict: true })]),
-    );
+    // The service's one Handlebars environment (infra/templates.ts)
+    const templates = Templates.of(options.templatesDir);
+    this.pages = Object.fromEntries(PAGES.map((name) => [name, templates.template<Record<string, unknown>>(`pages/${name}`)]));
     const assetsDir = options.assetsDir ?? findAssetsDir();
     this.assets = {};
     for (const file of readdirSync(assetsDir)) {

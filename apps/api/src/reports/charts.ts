@@ -398,21 +398,21 @@ export interface ReportCharts {
 }
 
 /** The report's three charts for one revision, rendered fresh each time. */
-export async function renderReportCharts(revision: RevisionRecord, view: ReportView): Promise<ReportCharts> {
+export async function renderReportCharts(revision: RevisionRecord, view: ReportView, idPrefix = ''): Promise<ReportCharts> {
   const sfSpec = safetyFactorSpec(view.safetyFactors);
   // One chart after the other, yielding to the event loop between them: a report never holds the loop for
   // longer than one chart's layout, so /health and other requests are served in between.
-  const design = await renderDesignCharts(revision.normalized, revision.evaluation, view.unitSystem);
+  const design = await renderDesignCharts(revision.normalized, revision.evaluation, view.unitSystem, idPrefix);
   await yieldToEventLoop();
-  const safetyFactors = sfSpec ? await specToSvg(sfSpec, 'factors', 'Safety factors against their minimums') : null;
+  const safetyFactors = sfSpec ? await specToSvg(sfSpec, `${idPrefix}factors`, 'Safety factors against their minimums') : null;
   return { ...design, safetyFactors };
 }
 
 /** The torque-friction chart and the column chart of any evaluated design, saved or not (the report's own charts). */
-export async function renderDesignCharts(design: Design, e: Evaluation, system: UnitSystem): Promise<Omit<ReportCharts, 'safetyFactors'>> {
+export async function renderDesignCharts(design: Design, e: Evaluation, system: UnitSystem, idPrefix = ''): Promise<Omit<ReportCharts, 'safetyFactors'>> {
   const curve = columnCurve(design, e);
-  const torqueFriction = await specToSvg(torqueFrictionSpec(torqueFrictionSweep(design, e), system), 'torque', 'Torque against thread friction');
+  const torqueFriction = await specToSvg(torqueFrictionSpec(torqueFrictionSweep(design, e), system), `${idPrefix}torque`, 'Torque against thread friction');
   await yieldToEventLoop();
-  const column = curve ? await specToSvg(columnSpec(curve, system), 'column', 'Column curve with the design point') : null;
+  const column = curve ? await specToSvg(columnSpec(curve, system), `${idPrefix}column`, 'Column curve with the design point') : null;
   return { torqueFriction, column };
 }
