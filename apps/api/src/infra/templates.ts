@@ -36,7 +36,7 @@ export class Templates {
     hbs.registerHelper('inc', (i: unknown) => Number(i) + 1);
     // Both escape their argument before adding markup.
     hbs.registerHelper('math', (text: unknown) => new hbs.SafeString(mathHtml(text === undefined || text === null ? '' : String(text))));
-    hbs.registerHelper('path', (text: unknown) => new hbs.SafeString(pathHtml(String(text ?? ''))));
+    hbs.registerHelper('dottedPath', (text: unknown) => new hbs.SafeString(pathHtml(String(text ?? ''))));
     for (const folder of [join(dir, 'partials'), join(dir, 'pages', 'partials'), join(dir, 'reports', 'sections')]) {
       if (!existsSync(folder)) continue;
       for (const file of readdirSync(folder)) {
