@@ -178,7 +178,7 @@ it('lets a checking engineer sign in, find the revision in the queue, read its r
   // widths are classes of that style block (no style attribute, which the page's policy would refuse)
   const styled = await report.evaluate(() => ({
     h2Border: getComputedStyle(document.querySelector('h2')!).borderBottomStyle,
-    widths: [...document.querySelectorAll('col[class^="w"]')].filter((c) => /%$/.test(getComputedStyle(c).width) || parseFloat(getComputedStyle(c).width) > 0).length,
+    widths: Array.from(document.querySelectorAll('col[class^="w"]')).filter((c) => /%$/.test(getComputedStyle(c).width) || parseFloat(getComputedStyle(c).width) > 0).length,
     scripts: document.scripts.length,
   }));
   expect(styled).toEqual({ h2Border: 'solid', widths: expect.any(Number), scripts: 0 });

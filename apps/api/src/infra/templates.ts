@@ -34,6 +34,7 @@ export class Templates {
     const hbs = this.hbs;
     hbs.registerHelper('eq', (a: unknown, b: unknown) => a === b);
     hbs.registerHelper('inc', (i: unknown) => Number(i) + 1);
+    hbs.registerHelper('concat', (...parts: unknown[]) => parts.slice(0, -1).map(String).join(''));
     // Both escape their argument before adding markup.
     hbs.registerHelper('math', (text: unknown) => new hbs.SafeString(mathHtml(text === undefined || text === null ? '' : String(text))));
     hbs.registerHelper('dottedPath', (text: unknown) => new hbs.SafeString(pathHtml(String(text ?? ''))));
