@@ -344,7 +344,15 @@ it('takes a design from a new product to an approved second revision and its des
   expect(nutRow).toMatch(/nut\.length\s+60 mm\s+70 mm\s+Changed/);
   expect(await text(author, '#compare-inputs tr[data-path="load.axial"]')).toMatch(/18 kN\s+18 kN\s+same/);
   expect(await text(author, '#compare-inputs tr[data-path="friction.collar.source.kind"]')).toMatch(/\(not given\)\s+test\s+Changed/);
-  expect(await text(author, '#compare-results tr[data-path="wear.bearingPressure"]')).toContain('Changed');
+  // every result row has its label and its unit in the design's system; efficiencies in per cent
+  const pressureRow = await text(author, '#compare-results tr[data-path="wear.bearingPressure"]');
+  expect(pressureRow).toMatch(/^Mean bearing pressure[^\n]*\s+wear\.bearingPressure\s+[\d.]+ MPa\s+[\d.]+ MPa\s+Changed/);
+  // the review states differ (rejected against awaiting review) and are compared by value
+  expect(await text(author, '#compare-verdict')).toMatch(/Review state\s+Rejected\s+Awaiting review\s+Changed/);
+  const byRule = (r: { findings: { severity: string; ruleId: string }[] }) => r.findings.map((f) => `${f.severity} ${f.ruleId}`).join(', ') || 'none';
+  const rulesRow = await text(author, '#compare-verdict tr:nth-child(4)');
+  expect(rulesRow).toMatch(byRule(rev1) === byRule(rev2) ? /same$/ : /Changed$/);
+  expect(byRule(rev1)).not.toBe(byRule(rev2)); // this pair's findings differ, so the row must say so
   expect(await text(author, '#compare-verdict')).toMatch(new RegExp(`Verdict of the rules\\s+${rev1.verdict === 'clear' ? 'Clear\\s+Clear\\s+same' : '\\S.*\\s+Clear\\s+Changed'}`));
   await checkPage(author, 'calculation-compare');
 

@@ -147,6 +147,17 @@ export function findingsOn(findings: readonly Finding[], paths: readonly string[
 // ---------------------------------------------------------------------------------------------------------
 // Calculation lines
 
+/**
+ * What a result path is called and the kind of quantity it is, as the report prints it: the label beside the trace key
+ * and the result kind of the formula that produced it (none for a path the trace does not hold, e.g. a flag or a name).
+ * The comparison of two revisions labels its rows with it.
+ */
+export function resultPresentation(path: string, evaluation: Pick<Evaluation, 'trace'>): { label: string; quantity: QuantityKind | null } {
+  const entry = (evaluation.trace as Record<string, { formula: string } | undefined>)[path];
+  const quantity = entry === undefined ? null : (PRESENTATION[entry.formula]?.result ?? null);
+  return { label: pathLabel(path), quantity };
+}
+
 export function calcLine(path: string, evaluation: Evaluation, system: UnitSystem, findings: readonly Finding[]): CalcLine {
   const entry = evaluation.trace[path];
   const formula = FORMULAS[entry.formula];
