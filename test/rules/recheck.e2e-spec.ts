@@ -73,6 +73,20 @@ describe('re-check of stored revisions [POST /api/v1/rule-sets/recheck]', () => 
     const report = await t.call('GET', `/api/v1/revisions/${old.revisionId}/report.html`, undefined, { as: 'reviewer' });
     expect(report.status).toBe(200);
     expect(report.text).toContain('not computed by engine 1.0.0');
+    // compared with a revision of the current engine: 200, and the figures engine 1.0 lacks are named as not computed
+    const current = (await t.call('POST', RECHECK, { scope: 'latest' }, { as: 'reviewer' })).body;
+    const calculations = await t.call('GET', `/api/v1/products/${stored.productId}`, undefined, { as: 'reviewer' });
+    const other = calculations.body.calculations.find((c: { id: string }) => c.id !== stored.calculationId);
+    const otherRevision = (await t.call('GET', `/api/v1/calculations/${other.id}/revisions`, undefined, { as: 'reviewer' })).body.items[0];
+    expect(otherRevision.engineVersion).not.toBe('1.0.0');
+    const diff = await t.call('GET', `/api/v1/revisions/${otherRevision.id}/diff?against=${old.revisionId}`, undefined, { as: 'reviewer' });
+    expect(diff.status).toBe(200);
+    expect(diff.body.results.find((r: { path: string }) => r.path.startsWith('brake.'))).toMatchObject({ notComputed: 'from' });
+    expect(current.examined).toBeGreaterThan(0);
+    // the product's design file, which holds the engine-1.0 approved revision's report, is printed
+    const file = await t.call('GET', `/api/v1/products/${stored.productId}/design-file.pdf`, undefined, { as: 'reviewer' });
+    expect(file.status).toBe(200);
+    expect(file.raw.subarray(0, 5).toString()).toBe('%PDF-');
     const latest = await t.call('POST', '/api/v1/rule-sets/2026.12-2/impact', { scope: 'latest' }, { as: 'reviewer' });
     expect(latest.status).toBe(200);
     expect(latest.body.examined).toBe(4);
