@@ -1,5 +1,5 @@
 /**
- * Re-check of approved work after the issue 13 corrections, through HTTP on PostgreSQL: the demo's main lift screw was
+ * Re-check of approved work after the corrections of rule set 2026.12-2, through HTTP on PostgreSQL: the demo's main lift screw was
  * approved as judged by engine 1.0.0 under rule set 2026.12-1 (recorded in apps/api/src/seed/recorded-history.ts); the
  * current engine and rule set flag it. Nothing is written, and the stored revision keeps what it was judged with.
  */

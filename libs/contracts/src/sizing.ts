@@ -2,7 +2,7 @@
  * The screw-selection contract (POST /api/v1/sizing): requirements for one screw position and the search over the
  * standard size tables. The requirement pieces are the design input's own schemas (imported, never copied), so a
  * field a design accepts is accepted here with the same name and the same validation.
- * Field names are a contract (issue 9): add fields, never rename.
+ * Field names are a contract: add fields, never rename.
  */
 import { z } from 'zod';
 import { checkSchema } from './checks';

@@ -1,7 +1,7 @@
 /**
  * judge and verdictOf: the behaviour the review workflow relies on, plus properties over a sample of designs
  * evaluated by the real engine (thread sizes ISO 2904 via the engine tables; materials and friction from the
- * engine libraries, sources in shared/reference/friction-and-materials.md).
+ * engine libraries, sources named there).
  */
 import type { Finding } from '@leadline/contracts';
 import fc from 'fast-check';

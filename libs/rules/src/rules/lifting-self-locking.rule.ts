@@ -22,7 +22,7 @@ const BASIS_MARGIN_LUBRICATED =
 
 /**
  * The basis of the self-locking margin for this design: the dry-to-oiled fall only applies when the range is not
- * already lubricated (issue 13 item 13). A library entry states its lubrication; a typed range says so in its reference.
+ * already lubricated. A library entry states its lubrication; a typed range says so in its reference.
  */
 export function marginBasis(design: RuleContext['design']): string {
   const f = design.friction.thread;

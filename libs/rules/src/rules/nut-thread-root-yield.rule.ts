@@ -1,5 +1,5 @@
 /**
- * Static strength of the nut's own threads at their root (issue 13 item 5): root bending against the nut's yield
+ * Static strength of the nut's own threads at their root: root bending against the nut's yield
  * strength and root shear against 0.577 of it, with the same minimum factors as the screw threads. A bronze or
  * polymer nut is usually the weaker part. A nut without a yield strength blocks on lifting duty (the check cannot be
  * computed, and a missing value is never passed silently where a load can fall); on other duty it is information.

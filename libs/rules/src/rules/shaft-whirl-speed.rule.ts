@@ -6,7 +6,7 @@ import { finding, type Rule, type RuleContext } from '../rule';
 
 export const SHAFT_WHIRL_SPEED_ID = 'shaft-whirl-speed';
 const BASIS =
-  'common practice: run below 80 % of the first critical speed, some designers use 75 % (shared/reference/columns-and-speed.md 3.4); ' +
+  'common practice: run below 80 % of the first critical speed, some designers use 75 % (from memory); ' +
   'first bending mode of a uniform Euler-Bernoulli shaft at the root diameter';
 const BASIS_PARTLY_FIXED =
   `${BASIS}; fixed ends taken as only partly fixed (common practice): simply supported shaft over L / sqrt(C) with the ` +

@@ -268,7 +268,7 @@ export function sectionNotes(id: string, design: Design, e: Evaluation, system: 
   }
 }
 
-/** Thread-stress notes: load share, root fillet, stripping planes and the nut's own threads (issue 13 items 2-5). */
+/** Thread-stress notes: load share, root fillet, stripping planes and the nut's own threads. */
 export function threadNotes(design: Design, e: Evaluation, system: UnitSystem): string[] {
   const notes = [
     'First thread carries max(0.38 F, F / n_t) (after Marshek; the mean share governs below 2.6 engaged threads); even sharing F / n_t is printed for comparison. ' +
@@ -293,7 +293,7 @@ export function threadNotes(design: Design, e: Evaluation, system: UnitSystem): 
   return notes;
 }
 
-/** Nut-wear notes: the material as entered, and which allowable pressure applied at which rubbing speed (issue 13 item 1). */
+/** Nut-wear notes: the material as entered, and which allowable pressure applied at which rubbing speed. */
 export function wearNotes(design: Design, e: Evaluation, system: UnitSystem): string[] {
   const q = (si: number, kind: QuantityKind) => formatQuantity(si, kind, system);
   const w = e.wear;
