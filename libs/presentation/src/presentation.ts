@@ -175,6 +175,14 @@ export const VERDICTS_IN_FULL: Readonly<Record<string, string>> = {
   clear: 'Clear: no blocking findings or warnings',
 };
 
+/**
+ * The verdict of the rules beside a review state: once a revision is approved, its warnings were acknowledged by the
+ * reviewer, so "needs acknowledgement" would read as if it were still its state.
+ */
+export function verdictWord(verdict: string, state?: string | null): string {
+  return state === 'approved' && verdict === 'needs-acknowledgement' ? 'Warnings acknowledged' : wordFor(VERDICTS, verdict);
+}
+
 export const SEVERITIES: Readonly<Record<string, string>> = { blocking: 'Blocking', warning: 'Warning', info: 'Information' };
 export const SEVERITY_ORDER: Readonly<Record<string, number>> = { blocking: 0, warning: 1, info: 2 };
 

@@ -4,7 +4,7 @@
  */
 import { api } from './lib-api.js';
 import { $, el, pathId } from './lib-dom.js';
-import { badge, countFindings, findingCounts, quantity, sig, STATES, time, VERDICTS } from './lib-format.js';
+import { badge, countFindings, findingCounts, quantity, sig, STATES, time, verdictBadge } from './lib-format.js';
 import { clearProblem, showProblem } from './lib-problem.js';
 import { currentUser, startPage } from './lib-session.js';
 
@@ -57,7 +57,7 @@ function renderComparison(diff, from, to) {
   };
   // Every row compares its two values: a row is "Changed" exactly when they differ
   const vRows = [
-    ['Verdict of the rules', badge('verdict', from.verdict, VERDICTS), badge('verdict', to.verdict, VERDICTS), from.verdict !== to.verdict],
+    ['Verdict of the rules', verdictBadge(from.verdict, from.review.state), verdictBadge(to.verdict, to.review.state), from.verdict !== to.verdict],
     ['Review state', badge('state', from.review.state, STATES), badge('state', to.review.state, STATES), from.review.state !== to.review.state],
     ['Findings', findingCounts(countFindings(from.findings)), findingCounts(countFindings(to.findings)), diff.findings.added.length + diff.findings.removed.length + diff.findings.changed.length > 0],
     ['Findings by rule', findingText(from), findingText(to), findingText(from) !== findingText(to)],
@@ -121,7 +121,7 @@ async function calculationPage() {
         { 'data-revision': r.id },
         el('td', { class: 'num' }, r.revision),
         el('td', {}, badge('state', r.review.state, STATES)),
-        el('td', {}, badge('verdict', r.verdict, VERDICTS)),
+        el('td', {}, verdictBadge(r.verdict, r.review.state)),
         el('td', {}, findingCounts(countFindings(r.findings), true)),
         el('td', {}, r.author ? r.author.name : '–'),
         el('td', { class: 'note' }, r.note || ''),

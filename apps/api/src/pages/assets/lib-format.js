@@ -4,13 +4,19 @@
  * generated from libs/presentation); this file only adds the page elements built from them.
  */
 import { el } from './lib-dom.js';
-import { countOf, formatQuantity, formatTime, percent, SEVERITIES, SEVERITY_ORDER, sig, STATES, VERDICTS, wordFor } from './lib-presentation.js';
+import { countOf, formatQuantity, formatTime, percent, SEVERITIES, SEVERITY_ORDER, sig, STATES, VERDICTS, verdictWord, wordFor } from './lib-presentation.js';
 
 export { percent, SEVERITIES, SEVERITY_ORDER, sig, STATES, VERDICTS };
 
 export function badge(kind, value, labels) {
   const known = Object.prototype.hasOwnProperty.call(labels, value);
   return el('span', { class: 'badge ' + kind + '-' + (known ? value : 'other') }, wordFor(labels, value));
+}
+
+/** The verdict of the rules of a revision in its review state (an approved revision's warnings were acknowledged). */
+export function verdictBadge(verdict, state) {
+  const known = Object.prototype.hasOwnProperty.call(VERDICTS, verdict);
+  return el('span', { class: 'badge verdict-' + (known ? verdict : 'other') }, verdictWord(verdict, state));
 }
 
 /** "2026-03-01T09:12:44.123456Z" -> "2026-03-01 09:12:44" (the column headings say UTC). */

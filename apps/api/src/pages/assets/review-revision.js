@@ -1,7 +1,7 @@
 /* One revision under review (/review/revisions/:id): header, report frame, findings, decision form. */
 import { api, download } from './lib-api.js';
 import { $, el, pathId } from './lib-dom.js';
-import { badge, STATES, time, VERDICTS } from './lib-format.js';
+import { badge, STATES, time, verdictBadge } from './lib-format.js';
 import { renderFindings, sortedFindings } from './lib-findings.js';
 import { clearProblem, showProblem } from './lib-problem.js';
 import { currentUser, startPage } from './lib-session.js';
@@ -31,7 +31,7 @@ function renderHeader(rev, product, calculation) {
   const state = el('span', {}, badge('state', rev.review.state, STATES));
   if (rev.review.decidedBy) state.append(' by ' + rev.review.decidedBy.name + ' at ' + time(rev.review.decidedAt) + ' UTC');
   fact(facts, 'Review state', state);
-  fact(facts, 'Verdict of the rules', badge('verdict', rev.verdict, VERDICTS));
+  fact(facts, 'Verdict of the rules', verdictBadge(rev.verdict, rev.review.state));
   fact(facts, 'Author', rev.author ? rev.author.name : '–');
   fact(facts, 'Submitted', time(rev.createdAt) + ' UTC');
   fact(facts, 'Engine · rule set', rev.engineVersion + ' · ' + rev.ruleSetVersion);
