@@ -79,8 +79,11 @@ describe('buildReportView', () => {
   it('groups findings by severity with the acknowledgements from the review events', () => {
     // the fixture's findings are judge() under the default rule set: three warnings, each acknowledged at approval
     expect(view.findingGroups.map((g) => [g.severity, g.findings.length])).toEqual([['blocking', 0], ['warning', 3], ['info', 0]]);
+    // each acknowledgement as the review workflow writes it ({ finding, comment }), printed with who gave it
     expect(view.findingGroups[1].findings.map((f) => [f.ruleId, f.acknowledgedBy])).toEqual([
-      ['nut-bearing-pressure', 'Maren Lindqvist'], ['drive-torque-margin', 'Maren Lindqvist'], ['nut-engaged-threads', 'Maren Lindqvist'],
+      ['nut-bearing-pressure', 'Maren Lindqvist: accepted with the grease schedule of HLS-MM-320 6.2'],
+      ['drive-torque-margin', 'Maren Lindqvist: gear motor rated 220 N·m continuous, 330 N·m starting (supplier data sheet GM-220)'],
+      ['nut-engaged-threads', 'Maren Lindqvist: nut kept long for wear life at this rubbing speed; the first-thread check is independent of length'],
     ]);
     expect(view.findingCounts).toEqual({ blocking: 0, warning: 3, info: 0 });
   });

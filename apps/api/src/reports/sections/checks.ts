@@ -55,15 +55,10 @@ export function buildChecks(findings: readonly Finding[], system: UnitSystem): C
 export function acknowledgements(events: readonly ProductEvent[]): Map<string, string> {
   const acks = new Map<string, string>();
   for (const ev of events) {
-    const list = ev.data.acknowledgements ?? ev.data.acknowledged;
+    // The decision event as the review workflow writes it: acknowledgements [{ finding: ruleId, comment }]
+    const list = ev.data.acknowledgements as readonly { finding: string; comment: string }[] | undefined;
     if (!Array.isArray(list)) continue;
-    for (const item of list) {
-      const obj = item && typeof item === 'object' ? (item as Record<string, unknown>) : null;
-      // The review workflow writes { finding: ruleId, comment }; older shapes carry { ruleId } or a bare id.
-      const id = typeof item === 'string' ? item : (obj?.finding ?? obj?.ruleId ?? null);
-      const comment = typeof obj?.comment === 'string' ? obj.comment : null;
-      if (typeof id === 'string') acks.set(id, comment ? `${actorName(ev.actor)}: ${comment}` : actorName(ev.actor));
-    }
+    for (const { finding, comment } of list) acks.set(finding, `${actorName(ev.actor)}: ${comment}`);
   }
   return acks;
 }

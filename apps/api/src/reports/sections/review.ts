@@ -8,7 +8,8 @@ import type { EventView } from '../report-view';
 // ---------------------------------------------------------------------------------------------------------
 // Events and history
 
-export const TEXT_KEYS = ['text', 'comment', 'body', 'note', 'reason', 'message'];
+/** Where the review workflow puts an event's own words: a comment's text, a decision's or withdrawal's comment. */
+export const TEXT_KEYS = ['text', 'comment'];
 
 export function scalarText(value: unknown): string {
   if (value === null || value === undefined) return '—';
@@ -17,7 +18,6 @@ export function scalarText(value: unknown): string {
   if (Array.isArray(value)) return value.map(scalarText).join(', ');
   if (typeof value === 'object') {
     const o = value as Record<string, unknown>;
-    if (typeof o.ruleId === 'string') return o.note ? `${o.ruleId} (${scalarText(o.note)})` : o.ruleId;
     return Object.entries(o)
       .map(([k, v]) => `${k}: ${scalarText(v)}`)
       .join('; ');
