@@ -8,6 +8,7 @@ import { evaluate } from '@leadline/mechanics';
 import { DEFAULT_RULE_SET, judge } from '@leadline/rules';
 import { candidateDesign, parseSizingRequest, screwBlockingRule, searchScrews, type SizingPlan } from '@leadline/sizing';
 import { createApp } from '../apps/api/src/app.factory';
+import { BENCH_UNLIMITED } from './limits';
 
 /** An invented 20 kN jack over 800 mm at 30 rev/min, the collar at 1.6 d: the default search space. */
 const REQUEST = {
@@ -110,7 +111,7 @@ export async function benchSizing(rounds = Number(process.env.BENCH_ROUNDS ?? 3)
   console.log(JSON.stringify(inProcess));
 
   const admin = `ll_bench_admin_${process.pid}_${'y'.repeat(16)}`;
-  const { app } = await createApp({ env: { LOG_LEVEL: 'warn', LEADLINE_DEMO_SEED: 'false', LEADLINE_ADMIN_TOKEN: admin, LEADLINE_DATA_DIR: 'memory://' } });
+  const { app } = await createApp({ env: { LOG_LEVEL: 'warn', LEADLINE_DEMO_SEED: 'false', LEADLINE_ADMIN_TOKEN: admin, LEADLINE_DATA_DIR: 'memory://', ...BENCH_UNLIMITED } });
   try {
     await app.listen({ port: 0, host: '127.0.0.1' });
     const base = `http://127.0.0.1:${(app.getHttpServer().address() as { port: number }).port}`;
