@@ -115,6 +115,20 @@ function judged(design: Design, ruleSet: RuleSet): Judged {
   return { design, evaluation, findings, verdict: verdictOf(findings) };
 }
 
+const NO_TRACE: Evaluation['trace'] = Object.freeze({});
+
+/**
+ * An evaluation kept for ranking without its formula trace (most of its size; no answer of the search prints it):
+ * a worst-case search keeps one per screw, thousands, and retained traces made the heap large enough for
+ * garbage-collection pauses of tens of milliseconds. Copied key by key (a spread followed by a key is a slow path).
+ */
+function withoutTrace(e: Evaluation): Evaluation {
+  const lean: Record<string, unknown> = {};
+  const source = e as unknown as Record<string, unknown>;
+  for (const key in source) lean[key] = key === 'trace' ? NO_TRACE : source[key];
+  return lean as unknown as Evaluation;
+}
+
 interface Passing extends Judged {
   readonly size: ThreadSize;
   readonly starts: number;
@@ -188,7 +202,9 @@ export function* searchSteps(plan: SizingPlan, ruleSet: RuleSet): Generator<void
           continue;
         }
         passed++;
-        if (pick === null || VERDICT_ORDER[j.verdict] < VERDICT_ORDER[pick.verdict]) pick = { ...j, size, starts, ratio: ratios[k] };
+        if (pick === null || VERDICT_ORDER[j.verdict] < VERDICT_ORDER[pick.verdict]) {
+          pick = { design: j.design, evaluation: withoutTrace(j.evaluation), findings: j.findings, verdict: j.verdict, size, starts, ratio: ratios[k] };
+        }
       }
       if (pick) best.push(pick);
       yield;
