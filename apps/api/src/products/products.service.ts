@@ -1,12 +1,12 @@
 import { Injectable } from '@nestjs/common';
 import { randomUUID } from 'node:crypto';
 import type { Actor } from '@leadline/contracts';
-import { displayableName } from '@leadline/contracts';
 import { z } from 'zod';
 import { Database, PG_UNIQUE_VIOLATION, pgErrorCode } from '../infra/database/database.service';
 import { ProblemError, notFound, validate } from '../infra/http/problem';
 import { TS_TEXT } from '../records/chain';
 import { RecordStore } from '../records/record-store';
+import { displayableName } from '@leadline/contracts';
 
 export const createProductSchema = z.strictObject({
   code: z.string().min(1).max(60).superRefine(displayableName).regex(/^[A-Za-z0-9][A-Za-z0-9._-]*$/, 'letters, digits, ".", "_" and "-" only'),
