@@ -8,6 +8,7 @@ import { randomUUID } from 'node:crypto';
 import type { Actor, RevisionRecord } from '@leadline/contracts';
 import { displayableName } from '@leadline/contracts';
 import { z } from 'zod';
+import { checksOf, governingCheck, type Check } from '@leadline/rules';
 import { Assessment, AssessmentService } from '../evaluations/assessment.service';
 import { Database, type Queryer } from '../infra/database/database.service';
 import { notFound, ProblemError, validate, ValidationProblem } from '../infra/http/problem';
@@ -247,6 +248,16 @@ export class CalculationsService {
     const page = rows.slice(0, q.limit);
     const items = page.map((r) => (q.view === 'summary' ? toRevisionSummary(r) : toRevisionRecord(r)));
     return { items, nextCursor: rows.length > q.limit ? items[items.length - 1].revision : null };
+  }
+
+  /**
+   * The declared checks of a stored revision and the governing one, under the rule set it was judged by: derived on
+   * reading from its stored design and evaluation (an earlier engine's missing figures read as not computed).
+   */
+  async checksOf(record: RevisionRecord): Promise<{ checks: Check[]; governing: Check | null }> {
+    const { thresholds } = (await this.ruleSets.get(record.ruleSetVersion)).definition;
+    const checks = checksOf(record.normalized, record.evaluation, thresholds);
+    return { checks, governing: governingCheck(checks) };
   }
 
   async revision(id: string): Promise<RevisionRecord> {

@@ -8,8 +8,6 @@ import { Database } from '../infra/database/database.service';
 import { ProductsService } from '../products/products.service';
 import { TS_TEXT } from '../records/chain';
 import { ReviewsService } from '../reviews/reviews.service';
-import { RuleSetsService } from '../rules/rule-sets.service';
-import { ruleSetMinimums } from './minimums';
 import type { ReportInput } from './report-model';
 
 /** Revisions the history table lists on each side of the reported one. */
@@ -23,7 +21,6 @@ export class ReportInputService {
     private readonly calculations: CalculationsService,
     private readonly products: ProductsService,
     private readonly reviews: ReviewsService,
-    private readonly ruleSets: RuleSetsService,
     @Inject(APP_CONFIG) private readonly config: AppConfig,
     private readonly checkpoints: CheckpointsService,
   ) {}
@@ -62,9 +59,8 @@ export class ReportInputService {
     ]);
     const [from, to] = historyWindow(revision.revision);
     const states = await this.reviews.statesOfCalculation(revision.calculationId, { from, to });
-    // The minimums of the rule set this revision was judged by, on its duty (they print beside passing checks too)
-    const { thresholds } = (await this.ruleSets.get(revision.ruleSetVersion)).definition;
-    const minimums = ruleSetMinimums(thresholds, revision.normalized.duty.kind);
+    // The rules' declared checks under the rule set this revision was judged by (passing checks print their limits too)
+    const { checks } = await this.calculations.checksOf(revision);
     return {
       product: { id: product.id, code: product.code, name: product.name, description: product.description },
       calculation: { id: calculation.id, title: calculation.title },
@@ -83,7 +79,7 @@ export class ReportInputService {
       omittedHistory: Number(outside.before) + Number(outside.after) > 0 ? { before: Number(outside.before), after: Number(outside.after) } : null,
       generatedAt: now[0].now,
       checkpoint: await this.checkpoints.signHead(revision.productId, now[0].now),
-      minimums,
+      checks,
     };
   }
 }

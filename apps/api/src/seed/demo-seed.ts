@@ -28,7 +28,7 @@ async function openRecorded(app: INestApplicationContext, productId: string, tit
   const prepared = prepareSubmission({
     input: recorded.input, normalized: recorded.normalized, evaluation: recorded.evaluation, findings: recorded.findings,
     verdict: recorded.verdict, engineVersion: recorded.engineVersion, ruleSetVersion: recorded.ruleSetVersion,
-    note: `Demo history: judged by engine ${recorded.engineVersion} under rule set ${recorded.ruleSetVersion}, before the issue 13 corrections.`,
+    note: `Demo history: judged by engine ${recorded.engineVersion} under rule set ${recorded.ruleSetVersion}, before the corrections of rule set 2026.12-2.`,
   });
   return db.transaction(async (q) => {
     const cursor = await records.lockHead(q, productId);
