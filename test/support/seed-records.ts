@@ -1,6 +1,6 @@
 /**
  * Bulk state for a test, written through the same record functions the service uses (RecordStore: the chain-head
- * lock, the link hashes, the head move), in one transaction, instead of thousands of HTTP calls. The HTTP routes
+ * lock, the link hashes and MACs, the record functions that insert them and move the head), in one transaction, instead of thousands of HTTP calls. The HTTP routes
  * themselves, and their limits, are tested with a few real requests.
  */
 import { Database } from '../../apps/api/src/infra/database/database.service';
@@ -31,6 +31,5 @@ export async function appendComments(t: TestApp, revisionId: string, comments: r
         data: { revision: Number(rev.revision), text: c.text, target: null },
       });
     }
-    await records.saveHead(q, rev.product_id, cursor);
   });
 }

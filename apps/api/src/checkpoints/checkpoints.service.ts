@@ -10,7 +10,7 @@ import canonicalize from 'canonicalize';
 import { z } from 'zod';
 import { APP_CONFIG, type AppConfig } from '../infra/config';
 import { Database } from '../infra/database/database.service';
-import { notFound, validate } from '../infra/http/problem';
+import { notFound, ProblemError, validate } from '../infra/http/problem';
 import { checkUuid } from '../products/products.service';
 import { TS_TEXT } from '../records/chain';
 import { RecordStore, type ChainVerification } from '../records/record-store';
@@ -82,21 +82,50 @@ export class CheckpointsService implements OnModuleInit {
     return { ...fields, algorithm: CHECKPOINT_ALGORITHM, keyId: this.key.keyId, signature: this.key.sign(signedText(fields)) };
   }
 
-  /** Signs the product's current head, at the database's time. */
+  /**
+   * Signs the product's current head, at the database's time, only when the chain up to it verifies (hashes, MACs,
+   * meaning and derived tables): a checkpoint is never signed over a forged or broken link (409 naming it).
+   */
   async signHead(productId: string, time?: string): Promise<Checkpoint> {
     const rows = await this.db.query<{ seq: string; hash: string; now: string }>(
       `SELECT seq, hash, ${TS_TEXT('now()')} AS now FROM chain_heads WHERE product_id = $1`,
       [checkUuid(productId, 'product')],
     );
     if (rows.length === 0) throw notFound(`product ${productId}`);
+    await this.requireValid(productId, Number(rows[0].seq), rows[0].hash);
     return this.sign(productId, Number(rows[0].seq), rows[0].hash, time ?? rows[0].now);
   }
 
-  /** The checkpoint after a decision: its event is the head it signs. */
-  afterDecision(productId: string, seq: number, hash: string, time: string): Checkpoint {
+  /**
+   * The checkpoint after a decision: its event is the head it signs, once the chain up to it verifies. The decision is
+   * committed already, so a chain that does not verify gives no checkpoint (null, logged) rather than an error.
+   */
+  async afterDecision(productId: string, seq: number, hash: string, time: string): Promise<Checkpoint | null> {
+    try {
+      await this.requireValid(productId, seq, hash);
+    } catch (err) {
+      if (!(err instanceof ProblemError)) throw err;
+      this.logger.error(`no checkpoint after the decision at link ${seq} of product ${productId}: ${err.message}`);
+      return null;
+    }
     const checkpoint = this.sign(productId, seq, hash, time);
     this.logger.log(`checkpoint ${JSON.stringify(checkpoint)}`);
     return checkpoint;
+  }
+
+  /** Refuses (409, naming the first bad link) to sign a head whose chain does not verify. */
+  private async requireValid(productId: string, seq: number, hash: string): Promise<void> {
+    const refuse = (v: ChainVerification) => {
+      const at = v.firstBrokenLink;
+      return new ProblemError(409, 'Chain does not verify', `no checkpoint is signed over a chain that does not verify: ${at ? `link ${at.seq} (${at.kind} ${at.id}): ${at.reason}` : `link ${seq} is not in the chain`}`, {
+        firstBrokenLink: at ?? null,
+      });
+    };
+    const full = await this.records.verify(productId);
+    if (!full.valid) throw refuse(full);
+    if (full.links === seq && full.headHash === hash) return;
+    const prefix = await this.records.verify(productId, undefined, seq);
+    if (!prefix.valid || prefix.headHash !== hash) throw refuse(prefix);
   }
 
   async verify(body: unknown): Promise<CheckpointVerification> {

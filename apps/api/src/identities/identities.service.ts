@@ -1,5 +1,9 @@
 /**
- * Users, roles and bearer tokens. A token is 32 random bytes shown once; only its SHA-256 is stored.
+ * Users, roles and bearer tokens. A token is 32 random bytes shown once; only its keyed hash is stored
+ * (HMAC-SHA256 with the record key's token key, records/record-key.ts), so a token row cannot be made from the
+ * database; tokens stored before keyed hashing (plain SHA-256) are accepted until they expire, unless
+ * LEADLINE_LEGACY_TOKENS=refuse. Every write goes through a record function (migrations/20261204220000) that
+ * checks the acting admin's own live token.
  * Every token expires (LEADLINE_TOKEN_TTL_DAYS unless the issuer asks for less). Revocation appends a row and
  * clears this process's cache, so it takes effect at once here (other instances of a multi-instance deployment
  * stop accepting it within TOKEN_CACHE_MS). Creating a user (granting its roles), issuing and revoking a token
@@ -10,8 +14,10 @@ import { createHash, randomBytes, randomUUID } from 'node:crypto';
 import { z } from 'zod';
 import { APP_CONFIG, type AppConfig } from '../infra/config';
 import { CLOCK, type Clock } from '../infra/clock';
-import { Database, type Queryer } from '../infra/database/database.service';
-import { notFound, validate, ValidationProblem } from '../infra/http/problem';
+import { Database } from '../infra/database/database.service';
+import { notFound, ProblemError, validate, ValidationProblem } from '../infra/http/problem';
+import { functionRefusal } from '../records/record-store';
+import { ServiceKeys } from '../records/service-keys';
 import { checkUuid } from '../products/products.service';
 import { TS_TEXT } from '../records/chain';
 
@@ -23,6 +29,8 @@ export interface Principal {
   name: string;
   roles: Role[];
   tokenId: string;
+  /** the stored hash of the presented token: the credential the record functions accept for this user's acts */
+  credential: string;
 }
 
 export const createUserSchema = z.strictObject({
@@ -47,14 +55,13 @@ export const identityEventsQuerySchema = z.object({
 });
 
 /** Who acts on identities: a user, with the id of the token they presented (null for the service itself). */
-export type IdentityActor = { id: string; tokenId?: string | null } | null;
-
-const actorTokenId = (actor: IdentityActor): string | null => (actor as { tokenId?: string | null } | null)?.tokenId ?? null;
+export type IdentityActor = { id: string; tokenId?: string | null; credential?: string | null } | null;
 
 export const TOKEN_CACHE_MS = 2000;
 const DAY_MS = 86_400_000;
 
-export function hashToken(token: string): string {
+/** A token as stored before keyed hashing (legacy rows, hash_kind 'sha256'). */
+export function legacyTokenHash(token: string): string {
   return createHash('sha256').update(token, 'utf8').digest('hex');
 }
 
@@ -68,6 +75,7 @@ export class IdentitiesService implements OnModuleInit {
     private readonly db: Database,
     @Inject(APP_CONFIG) private readonly config: AppConfig,
     @Inject(CLOCK) private readonly clock: Clock,
+    private readonly keys: ServiceKeys,
   ) {
     this.ttlDays = config.LEADLINE_TOKEN_TTL_DAYS;
   }
@@ -93,7 +101,7 @@ export class IdentitiesService implements OnModuleInit {
       [this.ttlDays, this.nowIso()],
     );
     if (live.length > 0) return;
-    const known = await this.db.query(`SELECT 1 FROM tokens WHERE token_hash = $1`, [hashToken(token)]);
+    const known = await this.db.query(`SELECT 1 FROM leadline_find_token($1, $2)`, [this.keys.key.tokenHash(token), legacyTokenHash(token)]);
     if (known.length > 0) {
       this.logger.warn('no admin holds a live token and LEADLINE_ADMIN_TOKEN has expired or was revoked: set a new value to restore admin access');
       return;
@@ -121,19 +129,26 @@ export class IdentitiesService implements OnModuleInit {
     const input = validate(createUserSchema, body);
     const id = randomUUID();
     const roles = [...new Set(input.roles)];
-    await this.db.transaction(async (q) => {
-      await q.query(`INSERT INTO users (id, name, roles, created_by) VALUES ($1, $2, $3, $4)`, [id, input.name, roles, actor?.id ?? null]);
-      await this.audit(q, 'user-created', actor, id, null, { name: input.name, roles });
-      for (const role of roles) await this.audit(q, 'role-granted', actor, id, null, { role });
-    });
+    await this.write(`SELECT leadline_create_user($1, $2, $3, $4)`, [await this.credentialOf(actor), id, input.name, roles]);
     return this.getUser(id);
   }
 
-  private async audit(q: Queryer, type: string, actor: IdentityActor, subjectUserId: string, tokenId: string | null, data: Record<string, unknown>): Promise<void> {
-    await q.query(
-      `INSERT INTO identity_events (id, type, actor_id, actor_token_id, subject_user_id, token_id, data) VALUES ($1, $2, $3, $4, $5, $6, $7)`,
-      [randomUUID(), type, actor?.id ?? null, actorTokenId(actor), subjectUserId, tokenId, JSON.stringify(data)],
-    );
+  /**
+   * The credential an identity change is made with: the acting admin's stored token hash, or the service's own for
+   * the service's acts (bootstrap, demo seed). The record function checks it and audits the change.
+   */
+  private async credentialOf(actor: IdentityActor): Promise<string> {
+    if (actor === null) return this.keys.serviceCredential();
+    if (!actor.credential) throw new ProblemError(401, 'Authentication required', 'this change needs the acting admin\'s own bearer token');
+    return actor.credential;
+  }
+
+  private async write<T = Record<string, unknown>>(sql: string, params: unknown[]): Promise<T[]> {
+    try {
+      return await this.db.query<T>(sql, params);
+    } catch (err) {
+      throw functionRefusal(err) ?? err;
+    }
   }
 
   /** The user-level audit, newest first. */
@@ -186,16 +201,9 @@ export class IdentitiesService implements OnModuleInit {
 
   private async storeToken(userId: string, token: string, label: string | null, actor: IdentityActor, expiresAt: Date | null): Promise<string> {
     const id = randomUUID();
-    await this.db.transaction(async (q) => {
-      await q.query(`INSERT INTO tokens (id, user_id, token_hash, label, created_by, expires_at) VALUES ($1, $2, $3, $4, $5, $6)`, [
-        id, userId, hashToken(token), label, actor?.id ?? null, expiresAt ? expiresAt.toISOString() : null,
-      ]);
-      const [row] = await q.query<{ expires_at: string }>(
-        `SELECT ${TS_TEXT('COALESCE(expires_at, created_at + make_interval(days => $2::int))')} AS expires_at FROM tokens WHERE id = $1`,
-        [id, this.ttlDays],
-      );
-      await this.audit(q, 'token-issued', actor, userId, id, { label, expiresAt: row.expires_at, forAnotherUser: actor !== null && actor.id !== userId });
-    });
+    await this.write(`SELECT leadline_issue_token($1, $2, $3, $4, $5, $6, $7)`, [
+      await this.credentialOf(actor), id, userId, this.keys.key.tokenHash(token), label, expiresAt ? expiresAt.toISOString() : null, this.ttlDays,
+    ]);
     return id;
   }
 
@@ -213,32 +221,34 @@ export class IdentitiesService implements OnModuleInit {
   async revokeToken(userId: string, tokenId: string, actor: IdentityActor): Promise<{ id: string; revoked: true }> {
     const rows = await this.db.query(`SELECT id FROM tokens WHERE id = $1 AND user_id = $2`, [checkUuid(tokenId, 'token'), checkUuid(userId, 'user')]);
     if (rows.length === 0) throw notFound(`token ${tokenId} of user ${userId}`);
-    await this.db.transaction(async (q) => {
-      const added = await q.query(`INSERT INTO token_revocations (token_id, revoked_by) VALUES ($1, $2) ON CONFLICT (token_id) DO NOTHING RETURNING token_id`, [tokenId, actor?.id ?? null]);
-      if (added.length > 0) await this.audit(q, 'token-revoked', actor, userId, tokenId, {});
-    });
+    await this.write(`SELECT leadline_revoke_token($1, $2, $3)`, [await this.credentialOf(actor), userId, tokenId]);
     this.cache.clear();
     return { id: tokenId, revoked: true };
   }
 
-  /** Resolves a presented bearer token to its user, or null when unknown, revoked or expired. */
+  /**
+   * Resolves a presented bearer token to its user, or null when unknown, revoked or expired (by the service clock).
+   * The keyed hash is looked up, and the plain SHA-256 of a token stored before keyed hashing unless legacy tokens
+   * are refused.
+   */
   async authenticate(token: string): Promise<Principal | null> {
-    const hash = hashToken(token);
+    const hash = this.keys.key.tokenHash(token);
     const now = this.clock.now();
     const hit = this.cache.get(hash);
     if (hit && hit.until > now) return hit.principal;
-    const rows = await this.db.query<{ id: string; name: string; roles: Role[]; token_id: string; ms_left: string }>(
-      `SELECT u.id, u.name, u.roles, t.id AS token_id,
-              floor(extract(epoch FROM COALESCE(t.expires_at, t.created_at + make_interval(days => $1::int)) - $3::timestamptz) * 1000) AS ms_left
-         FROM tokens t JOIN users u ON u.id = t.user_id
-        WHERE t.token_hash = $2 AND ${this.liveSql('t', '$3')}`,
-      [this.ttlDays, hash, new Date(now).toISOString()],
+    const legacy = this.config.LEADLINE_LEGACY_TOKENS === 'accept' ? legacyTokenHash(token) : null;
+    const rows = await this.db.query<{ user_id: string; name: string; roles: Role[]; token_id: string; token_hash: string; revoked: boolean; ms_left: string }>(
+      `SELECT user_id, name, roles, token_id, token_hash, revoked,
+              floor(extract(epoch FROM COALESCE(expires_at, created_at + make_interval(days => $3::int)) - $4::timestamptz) * 1000) AS ms_left
+         FROM leadline_find_token($1, $2)`,
+      [hash, legacy, this.ttlDays, new Date(now).toISOString()],
     );
-    const principal = rows.length ? { id: rows[0].id, name: rows[0].name, roles: rows[0].roles, tokenId: rows[0].token_id } : null;
+    const live = rows.find((r) => !r.revoked && Number(r.ms_left) > 0);
+    const principal = live ? { id: live.user_id, name: live.name, roles: live.roles, tokenId: live.token_id, credential: live.token_hash } : null;
     if (principal) {
       // Oldest entry out first when full; a cached token is never trusted past its expiry
       if (this.cache.size >= 10000) this.cache.delete(this.cache.keys().next().value as string);
-      this.cache.set(hash, { principal, until: now + Math.min(TOKEN_CACHE_MS, Number(rows[0].ms_left)) });
+      this.cache.set(hash, { principal, until: now + Math.min(TOKEN_CACHE_MS, Number(live!.ms_left)) });
     }
     return principal;
   }

@@ -34,11 +34,8 @@ async function openRecorded(app: INestApplicationContext, productId: string, tit
     const cursor = await records.lockHead(q, productId);
     if (!cursor) throw new Error(`product ${productId} missing`);
     const calculationId = randomUUID();
-    await q.query(`INSERT INTO calculations (id, product_id, title, created_by, created_at) VALUES ($1, $2, $3, $4, $5::timestamptz)`, [
-      calculationId, productId, title, author.id, cursor.now,
-    ]);
+    // the calculation-opened link writes the calculation row too (leadline_append_event)
     await records.appendEvent(q, cursor, { productId, type: 'calculation-opened', calculationId, revisionId: null, actor: author, data: { title } });
-    await records.saveHead(q, productId, cursor);
     const revision = await records.appendRevision(q, productId, calculationId, prepared, author, cursor);
     return { calculationId, revisionId: revision.id, verdict: recorded.verdict };
   });
