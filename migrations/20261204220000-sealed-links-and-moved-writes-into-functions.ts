@@ -268,13 +268,16 @@ export class SealedLinksAndMovedWritesIntoFunctions20261204220000 implements Mig
               RAISE EXCEPTION 'leadline: warning % is not acknowledged', v_warning USING ERRCODE = 'LL422';
             END IF;
           END IF;
-          INSERT INTO revision_closures (revision_id, kind, event_id, actor_id, created_at) VALUES (p_revision, p_type, p_id, a.user_id, now());
         ELSE
           RAISE EXCEPTION 'leadline: events of type % are not appended this way', p_type USING ERRCODE = 'P0001';
         END IF;
         INSERT INTO events (id, product_id, seq, type, calculation_id, revision_id, actor_id, actor, data, created_at, hash, previous_hash,
           link_version, token_id, mac)
         VALUES (p_id, p_product, p_seq, p_type, p_calculation, p_revision, a.user_id, p_actor, p_data, now(), p_hash, p_previous_hash, 3, p_token_id, p_mac);
+        IF p_type IN ('approved', 'rejected', 'withdrawn') THEN
+          -- the closure indexes the event (primary key: exactly one per revision, whatever the race)
+          INSERT INTO revision_closures (revision_id, kind, event_id, actor_id, created_at) VALUES (p_revision, p_type, p_id, a.user_id, now());
+        END IF;
         UPDATE chain_heads SET seq = p_seq, hash = p_hash WHERE product_id = p_product;
       END $$`);
 
