@@ -11,6 +11,7 @@ import { CalculationsService } from '../calculations/calculations.service';
 import { IdentitiesService, type Role } from '../identities/identities.service';
 import { APP_CONFIG, type AppConfig } from '../infra/config';
 import { Database } from '../infra/database/database.service';
+import { actingAs } from '../infra/http/actor';
 import { ProductsService } from '../products/products.service';
 import { prepareSubmission, RecordStore } from '../records/record-store';
 import { ReviewsService } from '../reviews/reviews.service';
@@ -83,8 +84,13 @@ export async function seedDemo(app: INestApplicationContext, options: SeedOption
   for (const u of DEMO_USERS) users.set(u.name, existing.find((e) => e.name === u.name) ?? (await identities.createUser(u, null)));
   const tokens = await issue(users.values());
 
-  const author: Actor = { id: users.get('Design author (demo)')!.id, name: 'Design author (demo)' };
-  const reviewer: Actor = { id: users.get('Checking engineer (demo)')!.id, name: 'Checking engineer (demo)' };
+  // the demo users act with the tokens just issued to them, as through the API
+  const actingWith = async (name: string): Promise<Actor> => {
+    const principal = await identities.authenticate(tokens.find((t) => t.name === name)!.token);
+    return actingAs({ id: users.get(name)!.id, name }, principal!);
+  };
+  const author = await actingWith('Design author (demo)');
+  const reviewer = await actingWith('Checking engineer (demo)');
   const products = app.get(ProductsService);
   const calculations = app.get(CalculationsService);
   const reviews = app.get(ReviewsService);
