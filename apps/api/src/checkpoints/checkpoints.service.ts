@@ -3,9 +3,12 @@
  * key kept outside the database (the idea of a certificate-transparency signed tree head). Whoever keeps a
  * checkpoint (a printed report, a decision's response, a log) can later ask whether the chain still contains
  * that link with that hash: a chain rewound or rewritten by someone who can write the database, but does not
- * hold the key, no longer matches what was signed.
+ * hold the key, no longer matches what was signed. Every key that signed is kept in the signing-key history
+ * (table signing_keys, migrations/20261204220100) with the time it signs from; a start with a key other than the
+ * latest one is refused unless LEADLINE_SIGNING_KEY_ROTATE is set, so a lost key is never silently replaced.
  */
 import { Inject, Injectable, Logger, OnModuleInit } from '@nestjs/common';
+import { createPublicKey, verify as verifySignature } from 'node:crypto';
 import canonicalize from 'canonicalize';
 import { z } from 'zod';
 import { APP_CONFIG, type AppConfig } from '../infra/config';
@@ -14,6 +17,7 @@ import { notFound, ProblemError, validate } from '../infra/http/problem';
 import { checkUuid } from '../products/products.service';
 import { TS_TEXT } from '../records/chain';
 import { RecordStore, type ChainVerification } from '../records/record-store';
+import { ServiceKeys } from '../records/service-keys';
 import { SigningKey } from './signing-key';
 
 export const CHECKPOINT_ALGORITHM = 'Ed25519';
@@ -58,17 +62,32 @@ export class CheckpointsService implements OnModuleInit {
   private readonly logger = new Logger('checkpoints');
   readonly key: SigningKey;
   private readonly embedded: boolean;
+  private readonly rotate: boolean;
 
   constructor(
     private readonly db: Database,
     private readonly records: RecordStore,
+    private readonly keys: ServiceKeys,
     @Inject(APP_CONFIG) config: AppConfig,
   ) {
     this.key = SigningKey.load(config.LEADLINE_SIGNING_KEY_FILE, config.LEADLINE_DATA_DIR);
     this.embedded = !config.DATABASE_URL;
+    this.rotate = config.LEADLINE_SIGNING_KEY_ROTATE;
   }
 
-  onModuleInit(): void {
+  async onModuleInit(): Promise<void> {
+    const [row] = await this.db.query<{ outcome: string; current_key_id: string }>(
+      `SELECT outcome, current_key_id FROM leadline_register_signing_key($1, $2, $3, $4, $5)`,
+      [await this.keys.serviceCredential(), this.key.keyId, CHECKPOINT_ALGORITHM, this.key.publicKeyPem, this.rotate],
+    );
+    if (row.outcome === 'mismatch') {
+      throw new Error(
+        `the checkpoint signing key ${row.current_key_id} signed this database's earlier checkpoints, but the configured key is ${this.key.keyId}` +
+          `${this.key.source.path ? ` (${this.key.source.path})` : ''}: restore that key (LEADLINE_SIGNING_KEY_FILE), or set LEADLINE_SIGNING_KEY_ROTATE=true ` +
+          'to rotate to the new key (earlier checkpoints keep verifying against the history at GET /api/v1/checkpoints/public-key)',
+      );
+    }
+    if (row.outcome === 'rotated') this.logger.warn(`rotated the checkpoint signing key to ${this.key.keyId} (LEADLINE_SIGNING_KEY_ROTATE)`);
     const { origin, path } = this.key.source;
     if (origin === 'memory') this.logger.warn('checkpoints are signed with a key held in memory only (in-memory data folder): they cannot be verified after a restart');
     else if (origin === 'generated' && !this.embedded) {
@@ -128,10 +147,24 @@ export class CheckpointsService implements OnModuleInit {
     if (!prefix.valid || prefix.headHash !== hash) throw refuse(prefix);
   }
 
+  /** Every key that signed checkpoints here, oldest first, each valid from its time until the next one's. */
+  async history(): Promise<{ seq: number; keyId: string; algorithm: string; publicKey: string; validFrom: string; validUntil: string | null; hash: string }[]> {
+    const rows = await this.db.query<{ seq: number; key_id: string; algorithm: string; public_key: string; valid_from: string; hash: string }>(
+      `SELECT seq, key_id, algorithm, public_key, ${TS_TEXT('valid_from')} AS valid_from, hash FROM signing_keys ORDER BY seq`,
+    );
+    return rows.map((r, i) => ({
+      seq: Number(r.seq), keyId: r.key_id, algorithm: r.algorithm, publicKey: r.public_key, validFrom: r.valid_from, validUntil: rows[i + 1]?.valid_from ?? null, hash: r.hash,
+    }));
+  }
+
   async verify(body: unknown): Promise<CheckpointVerification> {
     const c = validate(checkpointSchema, body);
-    const signatureValid = this.key.verify(signedText(c), c.signature);
-    const keyMatches = c.keyId === undefined || c.keyId === this.key.keyId;
+    // the key the checkpoint names (the current one when it names none), from the signing-key history
+    const keyId = c.keyId ?? this.key.keyId;
+    // (the first key also covers the checkpoints it signed before the history was kept)
+    const known = (await this.history()).find((k) => k.keyId === keyId && (k.seq === 1 || c.time >= k.validFrom) && (k.validUntil === null || c.time < k.validUntil));
+    const signatureValid = known ? verifyWith(known.publicKey, signedText(c), c.signature) : false;
+    const keyMatches = known !== undefined;
     const head = await this.db.query<{ seq: string; hash: string }>(`SELECT seq, hash FROM chain_heads WHERE product_id = $1`, [c.productId]);
     if (head.length === 0) {
       return { valid: false, signatureValid, keyMatches, linkPresent: false, storedHash: null, currentHead: null, chain: null, reason: 'the product has no chain here' };
@@ -145,7 +178,9 @@ export class CheckpointsService implements OnModuleInit {
     const linkPresent = storedHash === c.headHash && c.seq <= currentHead.seq;
     const chain = linkPresent ? await this.records.verify(c.productId, undefined, c.seq) : null;
     const reason = !signatureValid
-      ? 'the signature does not verify with this service\'s key'
+      ? !keyMatches
+        ? 'the checkpoint names a key that is not in this service\'s signing-key history for its time'
+        : 'the signature does not verify with the key it names'
       : !keyMatches
         ? 'the checkpoint names another signing key'
         : storedHash === null || c.seq > currentHead.seq
@@ -156,5 +191,14 @@ export class CheckpointsService implements OnModuleInit {
               ? `the chain contains the link but a link up to it does not verify: ${chain.firstBrokenLink?.reason}`
               : null;
     return { valid: reason === null, signatureValid, keyMatches, linkPresent, storedHash, currentHead, chain, reason };
+  }
+}
+
+/** An Ed25519 signature checked against a public key (SPKI PEM); malformed input is simply false. */
+function verifyWith(publicKeyPem: string, data: string, signature: string): boolean {
+  try {
+    return verifySignature(null, Buffer.from(data, 'utf8'), createPublicKey(publicKeyPem), Buffer.from(signature, 'base64'));
+  } catch {
+    return false;
   }
 }
