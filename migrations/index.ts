@@ -16,6 +16,7 @@ import { CreatedReassignmentIndex20261202120000 } from './20261202120000-created
 import { ResolvedRevisionProductInAppendFunction20261202130000 } from './20261202130000-resolved-revision-product-in-append-function';
 import { SealedLinksAndMovedWritesIntoFunctions20261204220000 } from './20261204220000-sealed-links-and-moved-writes-into-functions';
 import { CreatedSigningKeyLedger20261204220100 } from './20261204220100-created-signing-key-ledger';
+import { ChainedIdentityEventsAndAdoptions20261204220200 } from './20261204220200-chained-identity-events-and-adoptions';
 
 export const MIGRATIONS = [
   CreatedRecordTables20261201220000,
@@ -35,4 +36,5 @@ export const MIGRATIONS = [
   ResolvedRevisionProductInAppendFunction20261202130000,
   SealedLinksAndMovedWritesIntoFunctions20261204220000,
   CreatedSigningKeyLedger20261204220100,
+  ChainedIdentityEventsAndAdoptions20261204220200,
 ];

@@ -12,6 +12,7 @@ import { DEFAULT_RULE_SET } from '@leadline/rules';
 import { contentDigest, linkHash, TS_TEXT } from '../../apps/api/src/records/chain';
 import { legacyTokenHash } from '../../apps/api/src/identities/identities.service';
 import { RecordStore } from '../../apps/api/src/records/record-store';
+import { RuleSetsService } from '../../apps/api/src/rules/rule-sets.service';
 import { blockedDesign, clearDesign, warningDesign } from '../support/designs';
 import { startTestApp, type TestApp } from '../support/harness';
 import { LEAD_SCREW } from '../support/sizing';
@@ -59,6 +60,33 @@ async function head(c: Client, productId: string): Promise<{ seq: number; hash: 
   return { seq: Number(rows[0].seq), hash: rows[0].hash, now: rows[0].now };
 }
 
+describe('identity chain', () => {
+  it('chains every user, role and token change; a user row or a link written around the functions is named by its verify [GET /api/v1/identity-events/verify]', async () => {
+    const ok = await t.call('GET', '/api/v1/identity-events/verify', undefined, { as: 'admin' });
+    expect(ok.body).toMatchObject({ valid: true, firstBrokenLink: null });
+    // the harness's users (test/support/harness.ts): the admin (user-created, role-granted), 4 users with 5 roles between them, 5 tokens issued
+    expect(ok.body.links).toBe(1 + 1 + 4 + 5 + 5);
+    expect((await t.call('GET', '/api/v1/identity-events/verify')).status).toBe(403);
+    const intruder = randomUUID();
+    await superuser.query(`INSERT INTO users (id, name, roles) VALUES ($1, 'Intruder', '{reviewer}')`, [intruder]);
+    const bad = await t.call('GET', '/api/v1/identity-events/verify', undefined, { as: 'admin' });
+    expect(bad.body).toMatchObject({ valid: false, firstBrokenLink: { kind: 'user', id: intruder } });
+    // a link with a correct hash but no MAC, head moved: named by its seq
+    const [h] = (await superuser.query(`SELECT seq, hash, ${TS_TEXT('now()')} AS now FROM ledger_heads WHERE ledger = 'identity'`)).rows;
+    const record = { kind: 'identity-event', id: randomUUID(), type: 'user-created', actorId: null, actorTokenId: null, subjectUserId: intruder, tokenId: null,
+      data: { name: 'Intruder', roles: ['reviewer'] }, seq: Number(h.seq) + 1, createdAt: h.now, linkVersion: 3 };
+    const hash = linkHash(record, h.hash);
+    await superuser.query(
+      `INSERT INTO identity_events (id, type, subject_user_id, data, created_at, seq, hash, previous_hash, mac) VALUES ($1, 'user-created', $2, $3, $4::timestamptz, $5, $6, $7, $8)`,
+      [record.id, intruder, JSON.stringify(record.data), h.now, record.seq, hash, h.hash, sha256(hash)],
+    );
+    await superuser.query(`UPDATE ledger_heads SET seq = $1, hash = $2 WHERE ledger = 'identity'`, [record.seq, hash]);
+    const named = await t.call('GET', '/api/v1/identity-events/verify', undefined, { as: 'admin' });
+    expect(named.body).toMatchObject({ valid: false, firstBrokenLink: { seq: record.seq, kind: 'identity-event', id: record.id } });
+    expect(named.body.firstBrokenLink.reason).toMatch(/MAC does not verify/);
+  });
+});
+
 describe('tokens and identities', () => {
   it('attack: users, tokens and revocations inserted by the runtime role are refused, and a guessed credential moves no identity function', async () => {
     const known = `ll_${randomBytes(32).toString('base64url')}`;
@@ -72,13 +100,16 @@ describe('tokens and identities', () => {
     for (const [sql, params] of refused) await expect(runtime.query(sql, params)).rejects.toThrow(/permission denied/);
     // the identity functions want an admin's live credential: neither a guessed hash nor none will do
     for (const credential of [null, sha256(known), sha256(t.tokens.admin)]) {
-      await expect(runtime.query(`SELECT leadline_create_user($1, gen_random_uuid(), 'Intruder', '{admin}')`, [credential])).rejects.toThrow(/needs an admin/);
+      await expect(runtime.query(`SELECT leadline_create_user($1, gen_random_uuid(), 'Intruder', '{admin}', '[]')`, [credential])).rejects.toThrow(/needs an admin/);
       await expect(
-        runtime.query(`SELECT leadline_issue_token($1, gen_random_uuid(), $2, $3, 'intruder', NULL, 90)`, [credential, t.users.reviewer, sha256(known)]),
+        runtime.query(`SELECT leadline_issue_token($1, gen_random_uuid(), $2, $3, 'intruder', now() + interval '1 day', '[]')`, [credential, t.users.reviewer, sha256(known)]),
       ).rejects.toThrow(/needs an admin/);
       const { rows } = await runtime.query(`SELECT id FROM tokens WHERE user_id = $1`, [t.users.reviewer]);
-      await expect(runtime.query(`SELECT leadline_revoke_token($1, $2, $3)`, [credential, t.users.reviewer, rows[0].id])).rejects.toThrow(/needs an admin/);
+      await expect(runtime.query(`SELECT leadline_revoke_token($1, $2, $3, '[]')`, [credential, t.users.reviewer, rows[0].id])).rejects.toThrow(/needs an admin/);
     }
+    // the helpers those functions call with the owner's rights are not the runtime role's to call
+    await expect(runtime.query(`SELECT leadline_put_identity_events(NULL, NULL, '[]')`)).rejects.toThrow(/permission denied/);
+    await expect(runtime.query(`SELECT leadline_ledger_next('identity', 1, NULL, 'x', 'x')`)).rejects.toThrow(/permission denied/);
     expect((await t.call('GET', '/api/v1/me', undefined, { headers: { authorization: `Bearer ${known}` } })).status).toBe(401);
     expect((await t.call('GET', '/api/v1/me', undefined, { as: 'reviewer' })).status).toBe(200); // not revoked
   });
@@ -282,7 +313,7 @@ describe('lone closures', () => {
 describe('rule sets', () => {
   const relaxed = {
     ...DEFAULT_RULE_SET,
-    version: 'relaxed-by-intruder',
+    version: '2099.01-1',
     thresholds: Object.fromEntries(Object.entries(DEFAULT_RULE_SET.thresholds).map(([k, v]) => [k, typeof v === 'number' ? 0 : v])),
   };
 
@@ -292,11 +323,29 @@ describe('rule sets', () => {
       runtime.query(`INSERT INTO rule_set_adoptions (id, version, adopted_at) VALUES (gen_random_uuid(), $1, '2099-01-01')`, [DEFAULT_RULE_SET.version]),
     ).rejects.toThrow(/permission denied/);
     await expect(runtime.query(`SELECT leadline_store_rule_set($1, $2, $3, false)`, [sha256(t.tokens.admin), relaxed.version, JSON.stringify(relaxed)])).rejects.toThrow(/needs an admin/);
-    await expect(runtime.query(`SELECT leadline_adopt_rule_set(NULL, gen_random_uuid(), $1, NULL)`, [DEFAULT_RULE_SET.version])).rejects.toThrow(/needs an admin/);
+    await expect(
+      runtime.query(`SELECT leadline_adopt_rule_set(NULL, gen_random_uuid(), $1, NULL, 1, 'x', 'x', NULL, 'x')`, [DEFAULT_RULE_SET.version]),
+    ).rejects.toThrow(/needs an admin/);
     const sets = await t.call('GET', '/api/v1/rule-sets', undefined, { as: 'admin' });
     expect(sets.body.current).toBe(DEFAULT_RULE_SET.version);
     const judged = await t.call('POST', '/api/v1/evaluations', blockedDesign);
     expect(judged.body.verdict).toBe('blocked');
+  });
+
+  it('attack: a relaxed rule set adopted around the functions (a chained-looking adoption without a valid MAC) never becomes current', async () => {
+    await superuser.query(`INSERT INTO rule_sets (version, definition) VALUES ($1, $2)`, [relaxed.version, JSON.stringify(relaxed)]);
+    const [h] = (await superuser.query(`SELECT seq, hash, ${TS_TEXT('now()')} AS now FROM ledger_heads WHERE ledger = 'rule-adoption'`)).rows;
+    const record = { kind: 'rule-adoption', id: randomUUID(), version: relaxed.version, adoptedBy: t.users.admin, note: null, seq: Number(h.seq) + 1, createdAt: h.now, linkVersion: 3 };
+    const hash = linkHash(record, h.hash || null);
+    await superuser.query(
+      `INSERT INTO rule_set_adoptions (id, version, adopted_by, adopted_at, seq, hash, previous_hash, mac) VALUES ($1, $2, $3, $4::timestamptz, $5, $6, $7, $8)`,
+      [record.id, relaxed.version, t.users.admin, h.now, record.seq, hash, h.hash || null, sha256(hash)],
+    );
+    await superuser.query(`UPDATE ledger_heads SET seq = $1, hash = $2 WHERE ledger = 'rule-adoption'`, [record.seq, hash]);
+    // the service's periodic refresh of the current set (every ADOPTION_REFRESH_MS), run here at once
+    await (t.app.get(RuleSetsService) as unknown as { refreshAdoption(): Promise<void> }).refreshAdoption();
+    expect((await t.call('GET', '/api/v1/rule-sets', undefined, { as: 'admin' })).body.current).toBe(DEFAULT_RULE_SET.version);
+    expect((await t.call('POST', '/api/v1/evaluations', blockedDesign)).body.verdict).toBe('blocked');
   });
 
   it('attack: a malformed definition and its adoption written around the functions are skipped and reported, never a 5xx', async () => {
@@ -304,7 +353,7 @@ describe('rule sets', () => {
     await superuser.query(`INSERT INTO rule_set_adoptions (id, version, adopted_at) VALUES (gen_random_uuid(), 'malformed-1', '2099-01-01')`);
     const sets = await t.call('GET', '/api/v1/rule-sets', undefined, { as: 'admin' });
     expect(sets.status).toBe(200);
-    expect(sets.body.invalid).toEqual([expect.objectContaining({ version: 'malformed-1' })]);
+    expect(sets.body.invalid).toEqual(expect.arrayContaining([expect.objectContaining({ version: 'malformed-1' })]));
     expect(sets.body.items.map((s: { version: string }) => s.version)).not.toContain('malformed-1');
     expect((await t.call('GET', '/api/v1/rule-sets/malformed-1', undefined, { as: 'admin' })).status).toBe(422);
     // the next refresh of the current set (here: an admin's adoption) skips the malformed latest adoption

@@ -14,12 +14,13 @@ import { createHash, randomBytes, randomUUID } from 'node:crypto';
 import { z } from 'zod';
 import { APP_CONFIG, type AppConfig } from '../infra/config';
 import { CLOCK, type Clock } from '../infra/clock';
-import { Database } from '../infra/database/database.service';
+import { Database, type Queryer } from '../infra/database/database.service';
+import { lockLedger, nextLink, type LedgerCursor } from '../records/ledger';
 import { notFound, ProblemError, validate, ValidationProblem } from '../infra/http/problem';
 import { functionRefusal } from '../records/record-store';
 import { ServiceKeys } from '../records/service-keys';
 import { checkUuid } from '../products/products.service';
-import { TS_TEXT } from '../records/chain';
+import { LINK_VERSION, linkHash, TS_TEXT } from '../records/chain';
 
 export const ROLES = ['author', 'reviewer', 'admin'] as const;
 export type Role = (typeof ROLES)[number];
@@ -129,8 +130,23 @@ export class IdentitiesService implements OnModuleInit {
     const input = validate(createUserSchema, body);
     const id = randomUUID();
     const roles = [...new Set(input.roles)];
-    await this.write(`SELECT leadline_create_user($1, $2, $3, $4)`, [await this.credentialOf(actor), id, input.name, roles]);
+    const credential = await this.credentialOf(actor);
+    await this.db.transaction(async (q) => {
+      const cursor = await lockLedger(q, 'identity');
+      const events = [
+        this.identityLink(cursor, 'user-created', actor, id, null, { name: input.name, roles }),
+        ...roles.map((role) => this.identityLink(cursor, 'role-granted', actor, id, null, { role })),
+      ];
+      await this.write(`SELECT leadline_create_user($1, $2, $3, $4, $5)`, [credential, id, input.name, roles, JSON.stringify(events)], q);
+    });
     return this.getUser(id);
+  }
+
+  /** The next link of the identity chain (records/ledger.ts): one user, role or token change, hashed and sealed. */
+  private identityLink(cursor: LedgerCursor, type: string, actor: IdentityActor, subjectUserId: string, tokenId: string | null, data: Record<string, unknown>) {
+    return nextLink(this.keys.key, cursor, {
+      kind: 'identity-event', id: randomUUID(), type, actorId: actor?.id ?? null, actorTokenId: actor?.tokenId ?? null, subjectUserId, tokenId, data,
+    });
   }
 
   /**
@@ -143,9 +159,9 @@ export class IdentitiesService implements OnModuleInit {
     return actor.credential;
   }
 
-  private async write<T = Record<string, unknown>>(sql: string, params: unknown[]): Promise<T[]> {
+  private async write<T = Record<string, unknown>>(sql: string, params: unknown[], q: Queryer = this.db): Promise<T[]> {
     try {
-      return await this.db.query<T>(sql, params);
+      return await q.query<T>(sql, params);
     } catch (err) {
       throw functionRefusal(err) ?? err;
     }
@@ -201,9 +217,17 @@ export class IdentitiesService implements OnModuleInit {
 
   private async storeToken(userId: string, token: string, label: string | null, actor: IdentityActor, expiresAt: Date | null): Promise<string> {
     const id = randomUUID();
-    await this.write(`SELECT leadline_issue_token($1, $2, $3, $4, $5, $6, $7)`, [
-      await this.credentialOf(actor), id, userId, this.keys.key.tokenHash(token), label, expiresAt ? expiresAt.toISOString() : null, this.ttlDays,
-    ]);
+    const credential = await this.credentialOf(actor);
+    await this.db.transaction(async (q) => {
+      const cursor = await lockLedger(q, 'identity');
+      // no expiry asked for (the bootstrap token): the default lifetime from now; stored to the millisecond, printed to the microsecond
+      const expires = expiresAt ?? new Date(Date.parse(cursor.now) + this.ttlDays * DAY_MS);
+      const expiresText = expires.toISOString().replace(/Z$/, '000Z');
+      const event = this.identityLink(cursor, 'token-issued', actor, userId, id, { label, expiresAt: expiresText, forAnotherUser: actor !== null && actor.id !== userId });
+      await this.write(`SELECT leadline_issue_token($1, $2, $3, $4, $5, $6, $7)`, [
+        credential, id, userId, this.keys.key.tokenHash(token), label, expires.toISOString(), JSON.stringify([event]),
+      ], q);
+    });
     return id;
   }
 
@@ -221,9 +245,65 @@ export class IdentitiesService implements OnModuleInit {
   async revokeToken(userId: string, tokenId: string, actor: IdentityActor): Promise<{ id: string; revoked: true }> {
     const rows = await this.db.query(`SELECT id FROM tokens WHERE id = $1 AND user_id = $2`, [checkUuid(tokenId, 'token'), checkUuid(userId, 'user')]);
     if (rows.length === 0) throw notFound(`token ${tokenId} of user ${userId}`);
-    await this.write(`SELECT leadline_revoke_token($1, $2, $3)`, [await this.credentialOf(actor), userId, tokenId]);
+    const credential = await this.credentialOf(actor);
+    await this.db.transaction(async (q) => {
+      const cursor = await lockLedger(q, 'identity');
+      const event = this.identityLink(cursor, 'token-revoked', actor, userId, tokenId, {});
+      await this.write(`SELECT leadline_revoke_token($1, $2, $3, $4)`, [credential, userId, tokenId, JSON.stringify([event])], q);
+    });
     this.cache.clear();
     return { id: tokenId, revoked: true };
+  }
+
+  /**
+   * Checks the identity chain like a product chain: every link's hash, previous hash and MAC in order, the head, and
+   * the rows it accounts for since it began (each user with its user-created event and roles, each keyed token with
+   * its token-issued event, each revocation with its token-revoked event). Names the first mismatch.
+   */
+  async verifyIdentities(): Promise<{ valid: boolean; links: number; headHash: string | null; firstBrokenLink: { seq: number; kind: string; id: string; reason: string } | null }> {
+    const [head] = await this.db.query<{ seq: string; hash: string; started_at: string }>(`SELECT seq, hash, started_at FROM ledger_heads WHERE ledger = 'identity'`);
+    const rows = await this.db.query<{ id: string; type: string; actor_id: string | null; actor_token_id: string | null; subject_user_id: string; token_id: string | null;
+      data: unknown; created_at: string; seq: string; hash: string; previous_hash: string | null; mac: string | null }>(
+      `SELECT id, type, actor_id, actor_token_id, subject_user_id, token_id, data, ${TS_TEXT('created_at')} AS created_at, seq, hash, previous_hash, mac
+         FROM identity_events WHERE seq IS NOT NULL AND seq <= $1 ORDER BY seq`,
+      [head.seq],
+    );
+    const broken = (seq: number, kind: string, id: string, reason: string) => ({ valid: false, links: seq - 1, headHash: null, firstBrokenLink: { seq, kind, id, reason } });
+    let previous: string | null = null;
+    let expected = 1;
+    for (const r of rows) {
+      const seq = Number(r.seq);
+      if (seq !== expected) return broken(expected, 'identity-event', r.id, `sequence gap: expected link ${expected}, found ${seq}`);
+      if (r.previous_hash !== previous) return broken(seq, 'identity-event', r.id, 'previous hash does not match the prior link');
+      const record = { kind: 'identity-event', id: r.id, type: r.type, actorId: r.actor_id, actorTokenId: r.actor_token_id, subjectUserId: r.subject_user_id,
+        tokenId: r.token_id, data: r.data, seq, createdAt: r.created_at, linkVersion: LINK_VERSION };
+      if (linkHash(record, previous) !== r.hash) return broken(seq, 'identity-event', r.id, 'content does not match its hash');
+      if (!this.keys.key.verifyLinkMac(r.hash, r.mac)) return broken(seq, 'identity-event', r.id, "the link's MAC does not verify with this service's record key: the service did not write it");
+      previous = r.hash;
+      expected++;
+    }
+    if (expected - 1 !== Number(head.seq) || (previous ?? '') !== head.hash) return broken(expected, 'identity-event', '', 'the identity chain head does not point at the last link (records missing)');
+    const [user] = await this.db.query<{ id: string }>(
+      `SELECT u.id FROM users u WHERE u.created_at >= $1 AND NOT EXISTS (
+         SELECT 1 FROM identity_events e WHERE e.seq IS NOT NULL AND e.type = 'user-created' AND e.subject_user_id = u.id
+            AND e.data->>'name' = u.name AND e.data->'roles' = to_jsonb(u.roles)) ORDER BY u.created_at LIMIT 1`,
+      [head.started_at],
+    );
+    if (user) return broken(0, 'user', user.id, 'the user row is not borne out by a user-created event of the identity chain');
+    const [token] = await this.db.query<{ id: string }>(
+      `SELECT t.id FROM tokens t WHERE (t.created_at >= $1 OR t.hash_kind = 'hmac') AND NOT EXISTS (
+         SELECT 1 FROM identity_events e WHERE e.seq IS NOT NULL AND e.type = 'token-issued' AND e.token_id = t.id AND e.subject_user_id = t.user_id)
+        ORDER BY t.created_at LIMIT 1`,
+      [head.started_at],
+    );
+    if (token) return broken(0, 'token', token.id, 'the token row is not borne out by a token-issued event of the identity chain');
+    const [revocation] = await this.db.query<{ token_id: string }>(
+      `SELECT r.token_id FROM token_revocations r WHERE r.revoked_at >= $1 AND NOT EXISTS (
+         SELECT 1 FROM identity_events e WHERE e.seq IS NOT NULL AND e.type = 'token-revoked' AND e.token_id = r.token_id) LIMIT 1`,
+      [head.started_at],
+    );
+    if (revocation) return broken(0, 'revocation', revocation.token_id, 'the revocation is not borne out by a token-revoked event of the identity chain');
+    return { valid: true, links: expected - 1, headHash: previous, firstBrokenLink: null };
   }
 
   /**

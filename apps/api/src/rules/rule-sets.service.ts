@@ -14,7 +14,8 @@ import { z } from 'zod';
 import { BUILT_IN_RULE_SETS, DEFAULT_RULE_SET, ruleSetDefinitionSchema, type RuleSet } from '@leadline/rules';
 import { Database, PG_UNIQUE_VIOLATION, pgErrorCode } from '../infra/database/database.service';
 import { ProblemError, notFound, validate } from '../infra/http/problem';
-import { TS_TEXT } from '../records/chain';
+import { LINK_VERSION, linkHash, TS_TEXT } from '../records/chain';
+import { lockLedger, nextLink } from '../records/ledger';
 import { functionRefusal, type Acting } from '../records/record-store';
 import { ServiceKeys } from '../records/service-keys';
 
@@ -34,6 +35,8 @@ export class RuleSetsService implements OnModuleInit, OnModuleDestroy {
   private currentVersion = DEFAULT_RULE_SET.version;
   private timer: NodeJS.Timeout | null = null;
   private readonly logger = new Logger('rule-sets');
+  /** adoptions whose link does not verify (logged once) */
+  private readonly unsealed = new Set<string>();
   /** stored versions whose definition does not validate, with the first problem */
   private readonly rejected = new Map<string, string>();
 
@@ -58,10 +61,35 @@ export class RuleSetsService implements OnModuleInit, OnModuleDestroy {
     if (this.timer) clearInterval(this.timer);
   }
 
-  /** The current set: the latest adoption (by the database's clock) whose definition validates; the default before any. */
+  /**
+   * The current set: the latest adoption in the adoption chain (by seq, at or below its head) whose link verifies (hash
+   * and MAC: the service wrote it) and whose definition validates; before the chain began, the latest adoption made
+   * before it; the default before any. A link that does not verify is skipped and logged, never judged with.
+   */
   private async refreshAdoption(): Promise<void> {
-    const rows = await this.db.query<{ version: string }>(`SELECT version FROM rule_set_adoptions ORDER BY adopted_at DESC, id DESC LIMIT 50`);
-    for (const { version } of rows) {
+    const rows = await this.db.query<{ id: string; version: string; adopted_by: string | null; note: string | null; adopted_at: string; seq: string; hash: string;
+      previous_hash: string | null; mac: string | null }>(
+      `SELECT a.id, a.version, a.adopted_by, a.note, ${TS_TEXT('a.adopted_at')} AS adopted_at, a.seq, a.hash, a.previous_hash, a.mac
+         FROM rule_set_adoptions a JOIN ledger_heads h ON h.ledger = 'rule-adoption' AND a.seq <= h.seq
+        ORDER BY a.seq DESC LIMIT 50`,
+    );
+    for (const r of rows) {
+      const record = { kind: 'rule-adoption', id: r.id, version: r.version, adoptedBy: r.adopted_by, note: r.note, seq: Number(r.seq), createdAt: r.adopted_at, linkVersion: LINK_VERSION };
+      if (linkHash(record, r.previous_hash) !== r.hash || !this.keys.key.verifyLinkMac(r.hash, r.mac)) {
+        if (!this.unsealed.has(r.id)) this.logger.error(`adoption ${r.seq} of rule set ${JSON.stringify(r.version)} does not verify (hash or MAC) and is skipped`);
+        this.unsealed.add(r.id);
+        continue;
+      }
+      if (await this.load(r.version)) {
+        this.currentVersion = r.version;
+        return;
+      }
+    }
+    const legacy = await this.db.query<{ version: string }>(
+      `SELECT a.version FROM rule_set_adoptions a JOIN ledger_heads h ON h.ledger = 'rule-adoption'
+        WHERE a.seq IS NULL AND a.adopted_at < h.started_at ORDER BY a.adopted_at DESC, a.id DESC LIMIT 50`,
+    );
+    for (const { version } of legacy) {
       if (await this.load(version)) {
         this.currentVersion = version;
         return;
@@ -74,8 +102,15 @@ export class RuleSetsService implements OnModuleInit, OnModuleDestroy {
   async adopt(version: string, body: unknown, actor: Acting | null) {
     const input = validate(adoptSchema, body) ?? {};
     await this.get(version);
+    const credential = await this.credentialOf(actor);
     try {
-      await this.db.query(`SELECT leadline_adopt_rule_set($1, $2, $3, $4)`, [await this.credentialOf(actor), randomUUID(), version, input.note ?? null]);
+      await this.db.transaction(async (q) => {
+        const cursor = await lockLedger(q, 'rule-adoption');
+        const link = nextLink(this.keys.key, cursor, { kind: 'rule-adoption', id: randomUUID(), version, adoptedBy: actor?.id ?? null, note: input.note ?? null });
+        await q.query(`SELECT leadline_adopt_rule_set($1, $2, $3, $4, $5, $6, $7, $8, $9)`, [
+          credential, link.id, version, link.note, link.seq, link.createdAt, link.hash, link.previousHash, link.mac,
+        ]);
+      });
     } catch (err) {
       throw functionRefusal(err) ?? err;
     }

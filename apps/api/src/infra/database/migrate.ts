@@ -71,7 +71,14 @@ export async function grantRuntime(q: { query(sql: string, params?: unknown[]): 
   await q.query(`GRANT SELECT (${columns.map((c) => ident(c.column_name)).join(', ')}) ON tokens TO ${r}`);
   for (const table of RUNTIME_INSERT_TABLES) await q.query(`GRANT INSERT ON ${table} TO ${r}`);
   await q.query(`GRANT EXECUTE ON ALL FUNCTIONS IN SCHEMA public TO ${r}`);
+  // helpers the record functions call with the owner's rights; called directly they would write without the checks
+  for (const fn of INTERNAL_FUNCTIONS) {
+    if (((await q.query(`SELECT to_regprocedure($1) AS f`, [fn])) as { f: string | null }[])[0]?.f) await q.query(`REVOKE EXECUTE ON FUNCTION ${fn} FROM ${r}`);
+  }
 }
+
+/** Functions only the record functions call (migrations/20261204220200). */
+export const INTERNAL_FUNCTIONS = ['leadline_ledger_next(text, bigint, text, text, text)', 'leadline_put_identity_events(uuid, uuid, jsonb)'];
 
 /** Tables the runtime role inserts into directly: none of them is a record, identity or rule table. */
 export const RUNTIME_INSERT_TABLES = ['idempotency_keys'];
