@@ -126,3 +126,28 @@ describe('demo seed', () => {
     expect(asked.tokens).toHaveLength(3);
   });
 });
+
+describe('keyed token hashes', () => {
+  it('stores new tokens as HMAC with the record key, never as the plain SHA-256 an attacker could compute', async () => {
+    const issued = await t.call('POST', `/api/v1/users/${t.users.reviewer}/tokens`, { label: 'keyed' }, { as: 'admin' });
+    const [row] = await t.db.query<{ token_hash: string; hash_kind: string }>(`SELECT token_hash, hash_kind FROM tokens WHERE id = $1`, [issued.body.id]);
+    expect(row).toEqual({ token_hash: t.app.get(ServiceKeys).key.tokenHash(issued.body.token), hash_kind: 'hmac' });
+    expect(row.token_hash).not.toBe(legacyTokenHash(issued.body.token));
+  });
+
+  it('refuses a token stored before keyed hashing (plain SHA-256) with LEADLINE_LEGACY_TOKENS=refuse, though it has not expired', async () => {
+    const strict = await startTestApp('pglite', { LEADLINE_LEGACY_TOKENS: 'refuse' });
+    try {
+      const token = `ll_${randomBytes(32).toString('base64url')}`;
+      // a row as the service wrote it before migrations/20261204220000 (hash_kind defaults to 'sha256')
+      await strict.db.query(`INSERT INTO tokens (id, user_id, token_hash, created_at, expires_at) VALUES ($1, $2, $3, now(), now() + interval '1 day')`, [
+        randomUUID(), strict.users.author, legacyTokenHash(token),
+      ]);
+      expect((await strict.call('GET', '/api/v1/products', undefined, asToken(token))).status).toBe(401);
+      expect((await strict.call('GET', '/api/v1/products', undefined, { as: 'author' })).status).toBe(200);
+    } finally {
+      await strict.close();
+    }
+    // the default (accept) takes the same kind of row until it expires: the test above, "refuses an expired token stored long ago…"
+  });
+});
