@@ -177,6 +177,8 @@ describe('forged approvals', () => {
     expect(verify.body).toMatchObject({ valid: false, firstBrokenLink: { seq: link.seq, kind: 'event', id: link.id } });
     expect(verify.body.firstBrokenLink.reason).toMatch(/MAC does not verify/);
     expect((await t.call('GET', `/api/v1/revisions/${opened.revisionId}`)).body.review.state).toBe('submitted');
+    const mine = (await t.call('GET', '/api/v1/me/revisions')).body.items.find((i: { revisionId: string }) => i.revisionId === opened.revisionId);
+    expect(mine).toMatchObject({ state: 'submitted', decidedBy: null, canWithdraw: true });
     const report = await t.call('GET', `/api/v1/revisions/${opened.revisionId}/report.html`);
     expect(report.status).toBe(200);
     expect(report.text).toMatch(/Submitted, awaiting review/);
