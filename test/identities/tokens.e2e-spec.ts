@@ -139,7 +139,7 @@ describe('keyed token hashes', () => {
     const strict = await startTestApp('pglite', { LEADLINE_LEGACY_TOKENS: 'refuse' });
     try {
       const token = `ll_${randomBytes(32).toString('base64url')}`;
-      // a row as the service wrote it before migrations/20261204220000 (hash_kind defaults to 'sha256')
+      // a row as the service wrote it before migrations/20261204230000 (hash_kind defaults to 'sha256')
       await strict.db.query(`INSERT INTO tokens (id, user_id, token_hash, created_at, expires_at) VALUES ($1, $2, $3, now(), now() + interval '1 day')`, [
         randomUUID(), strict.users.author, legacyTokenHash(token),
       ]);

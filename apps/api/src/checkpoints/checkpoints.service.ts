@@ -4,7 +4,7 @@
  * checkpoint (a printed report, a decision's response, a log) can later ask whether the chain still contains
  * that link with that hash: a chain rewound or rewritten by someone who can write the database, but does not
  * hold the key, no longer matches what was signed. Every key that signed is kept in the signing-key history
- * (table signing_keys, migrations/20261204220100) with the time it signs from; a start with a key other than the
+ * (table signing_keys, migrations/20261204230100) with the time it signs from; a start with a key other than the
  * latest one is refused unless LEADLINE_SIGNING_KEY_ROTATE is set, so a lost key is never silently replaced.
  */
 import { Inject, Injectable, Logger, OnModuleInit } from '@nestjs/common';

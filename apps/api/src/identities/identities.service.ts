@@ -2,7 +2,7 @@
  * Users, roles and bearer tokens. A token is 32 random bytes shown once; only its keyed hash is stored
  * (HMAC-SHA256 with the record key's token key, records/record-key.ts), so a token row cannot be made from the
  * database; tokens stored before keyed hashing (plain SHA-256) are accepted until they expire, unless
- * LEADLINE_LEGACY_TOKENS=refuse. Every write goes through a record function (migrations/20261204220000) that
+ * LEADLINE_LEGACY_TOKENS=refuse. Every write goes through a record function (migrations/20261204230000) that
  * checks the acting admin's own live token.
  * Every token expires (LEADLINE_TOKEN_TTL_DAYS unless the issuer asks for less). Revocation appends a row and
  * clears this process's cache, so it takes effect at once here (other instances of a multi-instance deployment
@@ -12,6 +12,7 @@
 import { Injectable, OnModuleInit, Inject, Logger } from '@nestjs/common';
 import { createHash, randomBytes, randomUUID } from 'node:crypto';
 import { z } from 'zod';
+import { displayableName } from '@leadline/contracts';
 import { APP_CONFIG, type AppConfig } from '../infra/config';
 import { CLOCK, type Clock } from '../infra/clock';
 import { Database, type Queryer } from '../infra/database/database.service';
@@ -35,7 +36,7 @@ export interface Principal {
 }
 
 export const createUserSchema = z.strictObject({
-  name: z.string().min(1).max(120),
+  name: z.string().min(1).max(120).superRefine(displayableName),
   roles: z.array(z.enum(ROLES)).min(1).max(3),
 });
 

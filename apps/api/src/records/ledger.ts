@@ -1,6 +1,6 @@
 /**
  * The chains that are not a product's: identity changes ('identity') and rule-set adoptions ('rule-adoption'),
- * migrations/20261204220200. A link is { record, previousHash } hashed as chain.ts hashes a product's links, and sealed
+ * migrations/20261204230200. A link is { record, previousHash } hashed as chain.ts hashes a product's links, and sealed
  * with the record key's link MAC; the service computes both under the ledger's lock (leadline_lock_ledger) and the
  * record functions check that the link is the next one and timed by the transaction's clock.
  */

@@ -5,7 +5,7 @@
  * calculation and undecided, the decider holds the reviewer role, is no admin, is not the author and did not act with
  * a token the author issued, and an approval has no blocking finding and acknowledges every warning; a withdrawal is
  * the author's, of the latest undecided revision. The same rules the service and the database functions enforce when
- * the links are written (reviews/reviews.service.ts, migrations/20261204220000); pure, no I/O.
+ * the links are written (reviews/reviews.service.ts, migrations/20261204230000); pure, no I/O.
  */
 import type { Finding, Verdict } from '@leadline/contracts';
 

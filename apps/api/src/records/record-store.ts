@@ -4,7 +4,7 @@
  * names the true previous hash; heads are found by primary key, never by scanning history.
  * The service is the one writer of links (link format 3): it computes each link's hash and its MAC with the record
  * key (record-key.ts, never stored in the database) and hands both to a SECURITY DEFINER function
- * (migrations/20261204220000) that checks the acting credential and the workflow's invariants, inserts the link and
+ * (migrations/20261204230000) that checks the acting credential and the workflow's invariants, inserts the link and
  * moves the head. The runtime role has no INSERT or UPDATE on the record tables.
  */
 import { Injectable, OnModuleInit } from '@nestjs/common';

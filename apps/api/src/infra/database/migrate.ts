@@ -3,7 +3,7 @@
  * (LEADLINE_MIGRATION_DATABASE_URL, default DATABASE_URL); afterwards the runtime role the service connects as is
  * granted SELECT and EXECUTE on the functions, and INSERT only where no record lives (RUNTIME_INSERT_TABLES): without
  * ownership it cannot ALTER, DROP, TRUNCATE or disable a trigger, and it writes records, identities and rule sets
- * only through the SECURITY DEFINER functions of migrations/20261204220000. The grants are repeated on every start, so tables added by later
+ * only through the SECURITY DEFINER functions of migrations/20261204230000. The grants are repeated on every start, so tables added by later
  * migrations are covered too.
  */
 import { Logger } from '@nestjs/common';
@@ -55,7 +55,7 @@ export async function migrateServer(config: MigrationConfig, logger = new Logger
 /**
  * SELECT on the tables (tokens without token_hash), INSERT on idempotency_keys only, EXECUTE on the functions;
  * everything else revoked. Every record, identity and rule row is written by the SECURITY DEFINER functions of
- * migrations/20261204220000, which check the acting credential and the invariants (docs/reliability.md, "Threat model").
+ * migrations/20261204230000, which check the acting credential and the invariants (docs/reliability.md, "Threat model").
  */
 export async function grantRuntime(q: { query(sql: string, params?: unknown[]): Promise<unknown> }, role: string): Promise<void> {
   const r = ident(role);
@@ -77,7 +77,7 @@ export async function grantRuntime(q: { query(sql: string, params?: unknown[]): 
   }
 }
 
-/** Functions only the record functions call (migrations/20261204220200). */
+/** Functions only the record functions call (migrations/20261204230200). */
 export const INTERNAL_FUNCTIONS = ['leadline_ledger_next(text, bigint, text, text, text)', 'leadline_put_identity_events(uuid, uuid, jsonb)'];
 
 /** Tables the runtime role inserts into directly: none of them is a record, identity or rule table. */

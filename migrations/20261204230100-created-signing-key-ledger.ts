@@ -4,12 +4,12 @@ import type { MigrationInterface, QueryRunner } from 'typeorm';
  * The history of the checkpoint signing keys: each public key with the time from which it signs (it signs until the
  * next row's time), chained by a SHA-256 over the previous row's hash and this row's fields, so an old key cannot be
  * dropped or its validity moved without breaking every later row. Written only by leadline_register_signing_key with
- * the service credential (migrations/20261204220000): the first start registers its key; a start with another key is
+ * the service credential (migrations/20261204230000): the first start registers its key; a start with another key is
  * refused by the service unless LEADLINE_SIGNING_KEY_ROTATE is set, and then the new key is appended. Checkpoints
  * signed by an earlier key keep verifying against its public key here.
  */
-export class CreatedSigningKeyLedger20261204220100 implements MigrationInterface {
-  name = 'CreatedSigningKeyLedger20261204220100';
+export class CreatedSigningKeyLedger20261204230100 implements MigrationInterface {
+  name = 'CreatedSigningKeyLedger20261204230100';
 
   async up(q: QueryRunner): Promise<void> {
     await q.query(`

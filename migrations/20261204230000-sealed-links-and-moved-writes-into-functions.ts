@@ -32,8 +32,8 @@ import type { MigrationInterface, QueryRunner } from 'typeorm';
  * Tokens gain hash_kind: rows before this migration hold a plain SHA-256 ('sha256', accepted until they expire unless
  * LEADLINE_LEGACY_TOKENS=refuse); new rows hold the keyed hash ('hmac').
  */
-export class SealedLinksAndMovedWritesIntoFunctions20261204220000 implements MigrationInterface {
-  name = 'SealedLinksAndMovedWritesIntoFunctions20261204220000';
+export class SealedLinksAndMovedWritesIntoFunctions20261204230000 implements MigrationInterface {
+  name = 'SealedLinksAndMovedWritesIntoFunctions20261204230000';
 
   async up(q: QueryRunner): Promise<void> {
     for (const table of ['revisions', 'events']) await q.query(`ALTER TABLE ${table} ADD COLUMN mac text`);

@@ -8,10 +8,10 @@ import type { MigrationInterface, QueryRunner } from 'typeorm';
  * the transaction's clock, then insert it. Rows written before this migration keep seq NULL: they prove what they
  * did before (nothing about who wrote them), and an unchained adoption counts only if it was made before the chain
  * began (ledger_heads.started_at), so a back-dated or future-dated row cannot become the current rule set.
- * The identity functions of 20261204220000 are replaced by ones that take the service's chained events.
+ * The identity functions of 20261204230000 are replaced by ones that take the service's chained events.
  */
-export class ChainedIdentityEventsAndAdoptions20261204220200 implements MigrationInterface {
-  name = 'ChainedIdentityEventsAndAdoptions20261204220200';
+export class ChainedIdentityEventsAndAdoptions20261204230200 implements MigrationInterface {
+  name = 'ChainedIdentityEventsAndAdoptions20261204230200';
 
   async up(q: QueryRunner): Promise<void> {
     await q.query(`
