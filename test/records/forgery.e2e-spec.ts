@@ -12,6 +12,7 @@ import { DEFAULT_RULE_SET } from '@leadline/rules';
 import { contentDigest, linkHash, TS_TEXT } from '../../apps/api/src/records/chain';
 import { legacyTokenHash } from '../../apps/api/src/identities/identities.service';
 import { RecordStore } from '../../apps/api/src/records/record-store';
+import { ServiceKeys } from '../../apps/api/src/records/service-keys';
 import { RuleSetsService } from '../../apps/api/src/rules/rule-sets.service';
 import { blockedDesign, clearDesign, warningDesign } from '../support/designs';
 import { startTestApp, type TestApp } from '../support/harness';
@@ -131,7 +132,9 @@ describe('forged approvals', () => {
     await expect(runtime.query(`SELECT leadline_move_head($1, 1, 'x')`, [p])).rejects.toThrow(/does not exist/);
     const reviewer = { id: t.users.reviewer, name: 'Checking engineer (test)' };
     const { rows: [token] } = await runtime.query(`SELECT id FROM tokens WHERE user_id = $1`, [t.users.reviewer]);
-    for (const credential of [null, token.id, sha256(t.tokens.reviewer), legacyTokenHash(t.tokens.reviewer)]) {
+    // even the service's own credential (someone holding the runtime credential and the record key) decides nothing
+    const service = t.app.get(ServiceKeys).key.serviceCredential;
+    for (const credential of [null, token.id, sha256(t.tokens.reviewer), legacyTokenHash(t.tokens.reviewer), service]) {
       await runtime.query('BEGIN');
       try {
         const h = await head(runtime, p);
