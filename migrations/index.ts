@@ -14,6 +14,10 @@ import { AddedTokenExpiry20261202110100 } from './20261202110100-added-token-exp
 import { CreatedIdentityEvents20261202110200 } from './20261202110200-created-identity-events';
 import { CreatedReassignmentIndex20261202120000 } from './20261202120000-created-reassignment-index';
 import { ResolvedRevisionProductInAppendFunction20261202130000 } from './20261202130000-resolved-revision-product-in-append-function';
+import { CreatedCaseInsensitiveProductCodeIndex20261204220000 } from './20261204220000-created-case-insensitive-product-code-index';
+import { SealedLinksAndMovedWritesIntoFunctions20261204230000 } from './20261204230000-sealed-links-and-moved-writes-into-functions';
+import { CreatedSigningKeyLedger20261204230100 } from './20261204230100-created-signing-key-ledger';
+import { ChainedIdentityEventsAndAdoptions20261204230200 } from './20261204230200-chained-identity-events-and-adoptions';
 
 export const MIGRATIONS = [
   CreatedRecordTables20261201220000,
@@ -31,4 +35,8 @@ export const MIGRATIONS = [
   CreatedIdentityEvents20261202110200,
   CreatedReassignmentIndex20261202120000,
   ResolvedRevisionProductInAppendFunction20261202130000,
+  CreatedCaseInsensitiveProductCodeIndex20261204220000,
+  SealedLinksAndMovedWritesIntoFunctions20261204230000,
+  CreatedSigningKeyLedger20261204230100,
+  ChainedIdentityEventsAndAdoptions20261204230200,
 ];

@@ -130,6 +130,12 @@ export const chainVerificationSchema = z.object({
   firstBrokenLink: z.object({ seq: z.number(), kind: z.enum(['revision', 'event', 'product', 'calculation', 'closure']), id: z.string(), reason: z.string() }).nullable(),
 });
 
+/** GET /identity-events/verify: the identity chain recomputed; the first link or row it does not bear out. */
+export const identityVerificationSchema = z.object({
+  valid: z.boolean(), links: z.number().int(), headHash: z.string().nullable(),
+  firstBrokenLink: z.object({ seq: z.number(), kind: z.enum(['identity-event', 'user', 'token', 'revocation']), id: z.string(), reason: z.string() }).nullable(),
+});
+
 /** Problem details (RFC 9457); some problems add members of their own (e.g. state, blocking), as the RFC allows. */
 export const problemSchema = z.looseObject({
   type: z.string(), title: z.string(), status: z.number().int(), detail: z.string().optional(), instance: z.string().optional(),

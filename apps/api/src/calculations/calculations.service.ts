@@ -6,6 +6,7 @@
 import { Injectable } from '@nestjs/common';
 import { randomUUID } from 'node:crypto';
 import type { Actor, RevisionRecord } from '@leadline/contracts';
+import { displayableName } from '@leadline/contracts';
 import { z } from 'zod';
 import { checksOf, governingCheck, type Check } from '@leadline/rules';
 import { Assessment, AssessmentService } from '../evaluations/assessment.service';
@@ -18,7 +19,7 @@ import { prepareSubmission, RecordStore, type RevisionRow } from '../records/rec
 import { RuleSetsService } from '../rules/rule-sets.service';
 
 export const openCalculationSchema = z.strictObject({
-  title: z.string().min(1).max(200),
+  title: z.string().min(1).max(200).superRefine(displayableName),
   design: z.unknown(),
 });
 
@@ -117,13 +118,10 @@ export class CalculationsService {
       const cursor = await this.records.lockHead(q, productId);
       if (!cursor) throw notFound(`product ${productId}`);
       const calculationId = randomUUID();
-      await q.query(`INSERT INTO calculations (id, product_id, title, created_by, created_at) VALUES ($1, $2, $3, $4, $5::timestamptz)`, [
-        calculationId, productId, input.title, actor?.id ?? null, cursor.now,
-      ]);
+      // the calculation-opened link writes the calculation row too (leadline_append_event)
       await this.records.appendEvent(q, cursor, {
         productId, type: 'calculation-opened', calculationId, revisionId: null, actor, data: { title: input.title },
       });
-      await this.records.saveHead(q, productId, cursor);
       const revision = await this.records.appendRevision(q, productId, calculationId, prepared, actor, cursor);
       return {
         status: 201,
@@ -139,13 +137,13 @@ export class CalculationsService {
     const assessment = this.assessor.assess(input.design, this.ruleSets.current(), 'design.');
     const prepared = prepareSubmission(submission(assessment, input.design, input.note ?? null));
     return this.idempotent(`revise:${calculationId}:${actor?.id ?? '-'}`, idempotencyKey, body, async (q) => {
-      // The append reads the calculation's product itself (one round trip; 404 when there is no such calculation)
+      // The append reads the calculation's product and locks its head (404 when there is no such calculation)
       const revision = await this.records.appendRevision(q, null, calculationId, prepared, actor);
       return {
         status: 201,
         body: { calculationId, revisionId: revision.id, revision: revision.revision, verdict: assessment.verdict, hash: revision.hash },
       };
-    }, true);
+    });
   }
 
   /**
@@ -167,7 +165,6 @@ export class CalculationsService {
         productId: calc.productId, type: 'calculation-reassigned', calculationId, revisionId: null, actor,
         data: { from, to, reason: input.reason ?? null },
       });
-      await this.records.saveHead(q, calc.productId, cursor);
       return { calculationId, owner: to, previousOwner: from, eventId: event.id, hash: event.hash, seq: event.seq, createdAt: event.createdAt };
     });
   }

@@ -66,6 +66,20 @@ export const configSchema = z.object({
   LEADLINE_CHROMIUM_WS_ENDPOINT: z.string().regex(/^wss?:\/\/\S+$/, 'a ws:// or wss:// address').optional(),
   /** Largest accepted request body [bytes] */
   LEADLINE_BODY_LIMIT: z.coerce.number().int().min(1024).default(256 * 1024),
+  /** Deepest nesting of objects and arrays a JSON body may have (400 naming the body above it) */
+  LEADLINE_JSON_MAX_DEPTH: z.coerce.number().int().min(8).max(1000).default(64),
+  /** Time a client has to send a whole request, headers and body [ms]; the connection is closed after it (408) */
+  LEADLINE_REQUEST_TIMEOUT_MS: z.coerce.number().int().min(100).max(600_000).default(30_000),
+  /** Time a client has to send the request headers [ms] (at most LEADLINE_REQUEST_TIMEOUT_MS) */
+  LEADLINE_HEADERS_TIMEOUT_MS: z.coerce.number().int().min(100).max(600_000).default(10_000),
+  /** Screw searches (POST /api/v1/sizing) one user may start per minute (429 with Retry-After above) */
+  LEADLINE_SEARCHES_PER_USER_PER_MINUTE: z.coerce.number().int().min(1).default(30),
+  /** Evaluations (POST /api/v1/evaluations and its charts) one user may ask for per minute (429 with Retry-After above) */
+  LEADLINE_EVALUATIONS_PER_USER_PER_MINUTE: z.coerce.number().int().min(1).default(600),
+  /** Submissions (products registered, calculations opened, revisions submitted) one user may make per minute (429 with Retry-After above) */
+  LEADLINE_SUBMISSIONS_PER_USER_PER_MINUTE: z.coerce.number().int().min(1).default(60),
+  /** PDFs (report.pdf, design-file.pdf) one user may ask for per minute (429 with Retry-After above) */
+  LEADLINE_PDFS_PER_USER_PER_MINUTE: z.coerce.number().int().min(1).default(20),
   /** Pool size for PostgreSQL */
   LEADLINE_DB_POOL: z.coerce.number().int().min(1).max(100).default(10),
   /**
@@ -94,6 +108,17 @@ export const configSchema = z.object({
   LEADLINE_DEMO_TOKEN_TTL_HOURS: z.coerce.number().int().min(1).max(720).default(12),
   /** Issue and print fresh demo tokens at start although the demo database is not empty (otherwise only on the first seed) */
   LEADLINE_DEMO_TOKENS: flag.default(false),
+  // --- Record keys, token hashing and signing-key history (docs/reliability.md, "Threat model") ---
+  /**
+   * Secret file (at least 64 hex digits, mode 0600) whose key seals every chain link (HMAC) and keys the stored token
+   * hashes; never stored in the database. Unset: <LEADLINE_DATA_DIR>/record-key, generated when missing
+   */
+  LEADLINE_RECORD_KEY_FILE: z.string().min(1).optional(),
+  /** Tokens stored before keyed hashing (plain SHA-256): accepted until they expire, or refused at once */
+  LEADLINE_LEGACY_TOKENS: z.enum(['accept', 'refuse']).default('accept'),
+  /** Start although a signing key that signed earlier checkpoints is not the configured one (an explicit rotation) */
+  LEADLINE_SIGNING_KEY_ROTATE: flag.default(false),
+  // --- end of record keys ---
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 

@@ -5,8 +5,8 @@
 import type { INestApplication } from '@nestjs/common';
 import { SwaggerModule, type OpenAPIObject } from '@nestjs/swagger';
 import {
-  calculationSchema, chainVerificationSchema, designInputSchema, evaluationResponseSchema, problemSchema, productSchema,
-  revisionReviewSchema, revisionWithChecksSchema, submissionResultSchema,
+  calculationSchema, chainVerificationSchema, designInputSchema, evaluationResponseSchema, identityVerificationSchema,
+  problemSchema, productSchema, revisionReviewSchema, revisionWithChecksSchema, submissionResultSchema,
 } from '@leadline/contracts';
 import { sizingRequestSchema, sizingResponseSchema } from '@leadline/contracts';
 import { z, type ZodType } from 'zod';
@@ -36,6 +36,8 @@ interface Route {
   query?: z.ZodObject;
   /** Media types of the success answer (default application/json) */
   produces?: string[];
+  /** Answered without a bearer token (@Public() on the handler) */
+  public?: boolean;
 }
 
 /** A light revision item (GET /calculations/{id}/revisions?view=summary). */
@@ -92,10 +94,11 @@ export const ROUTES: Route[] = [
   { method: 'get', path: '/api/v1/users/{id}/tokens', summary: "A user's tokens, without secrets (admin)", tag: 'identities' },
   { method: 'post', path: '/api/v1/users/{id}/tokens/{tokenId}/revoke', summary: 'Revoke a token at once (admin)', tag: 'identities' },
   { method: 'get', path: '/api/v1/identity-events', summary: 'User-level audit: users created, roles granted, tokens issued and revoked (admin)', tag: 'identities', query: identityEventsQuerySchema },
+  { method: 'get', path: '/api/v1/identity-events/verify', summary: 'Recompute the identity chain and name the first link or row it does not bear out (admin)', tag: 'identities', response: identityVerificationSchema },
   { method: 'post', path: '/api/v1/products/{id}/checkpoints', summary: "Sign the product chain's current head (Ed25519 checkpoint {productId, seq, headHash, time})", tag: 'records', status: 201 },
   { method: 'post', path: '/api/v1/checkpoints/verify', summary: 'Whether the signature is ours and the current chain still contains that link with that hash', tag: 'records', request: checkpointSchema },
-  { method: 'get', path: '/api/v1/checkpoints/public-key', summary: 'The Ed25519 public key that checks checkpoint signatures (no token needed)', tag: 'records' },
-  { method: 'get', path: '/health', summary: 'Database reachable', tag: 'health' },
+  { method: 'get', path: '/api/v1/checkpoints/public-key', summary: 'The Ed25519 public key that checks checkpoint signatures (no token needed)', tag: 'records', public: true },
+  { method: 'get', path: '/health', summary: 'Database reachable (no token needed)', tag: 'health', public: true },
 ];
 
 export function buildOpenApi(routes: Route[] = ROUTES): OpenAPIObject {
@@ -111,6 +114,8 @@ export function buildOpenApi(routes: Route[] = ROUTES): OpenAPIObject {
     paths[r.path][r.method] = {
       summary: r.summary,
       tags: [r.tag],
+      // OpenAPI 3.0.3, 4.7.10: an empty security list removes the document's bearer requirement for this operation
+      ...(r.public ? { security: [] } : {}),
       parameters: params,
       ...(r.request ? { requestBody: { required: true, content: { 'application/json': { schema: json(r.request, 'input') } } } } : {}),
       responses: {

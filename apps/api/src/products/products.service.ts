@@ -1,15 +1,16 @@
 import { Injectable } from '@nestjs/common';
 import { randomUUID } from 'node:crypto';
-import type { Actor } from '@leadline/contracts';
+import type { Acting } from '../records/record-store';
 import { z } from 'zod';
 import { Database, PG_UNIQUE_VIOLATION, pgErrorCode } from '../infra/database/database.service';
 import { ProblemError, notFound, validate } from '../infra/http/problem';
 import { TS_TEXT } from '../records/chain';
 import { RecordStore } from '../records/record-store';
+import { displayableName } from '@leadline/contracts';
 
 export const createProductSchema = z.strictObject({
-  code: z.string().min(1).max(60).regex(/^[A-Za-z0-9][A-Za-z0-9._-]*$/, 'letters, digits, ".", "_" and "-" only'),
-  name: z.string().min(1).max(200),
+  code: z.string().min(1).max(60).superRefine(displayableName).regex(/^[A-Za-z0-9][A-Za-z0-9._-]*$/, 'letters, digits, ".", "_" and "-" only'),
+  name: z.string().min(1).max(200).superRefine(displayableName),
   description: z.string().max(4000).optional(),
 });
 
@@ -30,24 +31,20 @@ export class ProductsService {
     private readonly records: RecordStore,
   ) {}
 
-  async create(body: unknown, actor: Actor | null): Promise<Product> {
+  async create(body: unknown, actor: Acting | null): Promise<Product> {
     const input = validate(createProductSchema, body);
     const id = randomUUID();
     try {
-      await this.db.transaction(async (q) => {
-        await q.query(`INSERT INTO products (id, code, name, description, created_by) VALUES ($1, $2, $3, $4, $5)`, [
-          id, input.code, input.name, input.description ?? null, actor?.id ?? null,
-        ]);
-        await q.query(`INSERT INTO chain_heads (product_id, seq, hash) VALUES ($1, 0, '')`, [id]);
-        const cursor = await this.records.lockHead(q, id);
-        await this.records.appendEvent(q, cursor!, {
-          productId: id, type: 'product-registered', calculationId: null, revisionId: null, actor,
-          data: { code: input.code, name: input.name, description: input.description ?? null },
-        });
-        await this.records.saveHead(q, id, cursor!);
-      });
+      // the product row, its chain head and its first link, in one record function (leadline_register_product)
+      await this.db.transaction((q) => this.records.registerProduct(q, { id, code: input.code, name: input.name, description: input.description ?? null }, actor));
     } catch (err) {
-      if (pgErrorCode(err) === PG_UNIQUE_VIOLATION) throw new ProblemError(409, 'Product code exists', `a product with code "${input.code}" already exists`);
+      if (pgErrorCode(err) === PG_UNIQUE_VIOLATION) {
+        const [held] = await this.db.query<{ code: string }>(`SELECT code FROM products WHERE lower(code) = lower($1) ORDER BY created_at LIMIT 1`, [input.code]);
+        const same = !held || held.code === input.code;
+        throw new ProblemError(409, 'Product code exists', same
+          ? `a product with code "${input.code}" already exists`
+          : `a product with code "${held.code}" already exists (codes are unique regardless of case)`, { errors: [{ path: 'code', message: 'already in use' }] });
+      }
       throw err;
     }
     return this.get(id);

@@ -6,7 +6,9 @@ import { CheckpointsService } from '../checkpoints/checkpoints.service';
 import { APP_CONFIG, type AppConfig } from '../infra/config';
 import { Database } from '../infra/database/database.service';
 import { ProductsService } from '../products/products.service';
+import { ProblemError } from '../infra/http/problem';
 import { TS_TEXT } from '../records/chain';
+import { RecordStore, type EventRow } from '../records/record-store';
 import { ReviewsService } from '../reviews/reviews.service';
 import type { ReportInput } from './report-model';
 
@@ -23,6 +25,7 @@ export class ReportInputService {
     private readonly reviews: ReviewsService,
     @Inject(APP_CONFIG) private readonly config: AppConfig,
     private readonly checkpoints: CheckpointsService,
+    private readonly records: RecordStore,
   ) {}
 
   async forRevision(revisionId: string): Promise<ReportInput> {
@@ -43,9 +46,10 @@ export class ReportInputService {
       ),
       // Every non-comment event (submission, decision, withdrawal: a handful), and comments up to the bound
       this.db.query<Record<string, any>>(
-        `SELECT id, product_id, seq, type, calculation_id, revision_id, actor, data, ${TS_TEXT('created_at')} AS created_at, hash, previous_hash
+        `SELECT id, product_id, seq, type, calculation_id, revision_id, actor, data, ${TS_TEXT('created_at')} AS created_at, hash, previous_hash,
+                link_version, token_id, mac
            FROM events
-          WHERE revision_id = $1
+          WHERE revision_id = $1 AND seq <= (SELECT h.seq FROM chain_heads h WHERE h.product_id = events.product_id)
             AND (type <> 'comment' OR seq IN (SELECT seq FROM events WHERE revision_id = $1 AND type = 'comment' ORDER BY seq LIMIT $2))
           ORDER BY seq`,
         [revisionId, this.config.LEADLINE_REPORT_COMMENTS],
@@ -68,7 +72,8 @@ export class ReportInputService {
       state: review.state,
       reviewer: review.decidedBy,
       decidedAt: review.decidedAt,
-      events: events.map(
+      // only links this service wrote (hash and MAC verify): a forged event is never printed as part of the record
+      events: events.filter((e) => this.records.sealedEvent(e as EventRow)).map(
         (e): ProductEvent => ({
           id: e.id, productId: e.product_id, seq: Number(e.seq), type: e.type, calculationId: e.calculation_id, revisionId: e.revision_id,
           actor: e.actor ?? null, data: e.data, createdAt: e.created_at, hash: e.hash, previousHash: e.previous_hash,
@@ -78,7 +83,11 @@ export class ReportInputService {
       history: all.map((r) => ({ id: r.id, revision: Number(r.revision), createdAt: r.created_at, verdict: r.verdict, state: states.get(r.id)!.state, author: r.author ?? null })),
       omittedHistory: Number(outside.before) + Number(outside.after) > 0 ? { before: Number(outside.before), after: Number(outside.after) } : null,
       generatedAt: now[0].now,
-      checkpoint: await this.checkpoints.signHead(revision.productId, now[0].now),
+      // no checkpoint over a chain that does not verify (the report then prints none; GET /products/:id/verify names the link)
+      checkpoint: await this.checkpoints.signHead(revision.productId, now[0].now).catch((err: unknown) => {
+        if (err instanceof ProblemError && err.status === 409) return undefined;
+        throw err;
+      }),
       checks,
     };
   }

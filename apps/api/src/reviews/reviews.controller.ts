@@ -27,7 +27,7 @@ export class ReviewsController {
   @HttpCode(201)
   async decide(@Param('id') id: string, @Body() body: unknown, @CurrentActor() actor: Actor, @CurrentRoles() roles: string[]) {
     const decided = await this.reviews.decide(id, body, actor, roles);
-    return { ...decided, checkpoint: this.checkpoints.afterDecision(decided.productId, decided.seq, decided.hash, decided.decidedAt) };
+    return { ...decided, checkpoint: await this.checkpoints.afterDecision(decided.productId, decided.seq, decided.hash, decided.decidedAt) };
   }
 
   /** A comment without a decision, general or on an input field or a finding. */
@@ -44,7 +44,7 @@ export class ReviewsController {
   @HttpCode(200)
   async withdraw(@Param('id') id: string, @Body() body: unknown, @CurrentActor() actor: Actor) {
     const withdrawn = await this.reviews.withdraw(id, body, actor);
-    return { ...withdrawn, checkpoint: this.checkpoints.afterDecision(withdrawn.productId, withdrawn.seq, withdrawn.hash, withdrawn.withdrawnAt) };
+    return { ...withdrawn, checkpoint: await this.checkpoints.afterDecision(withdrawn.productId, withdrawn.seq, withdrawn.hash, withdrawn.withdrawnAt) };
   }
 
   /** Revisions awaiting review, oldest first; filter by productId, calculationId, verdict, authorId. */
