@@ -87,7 +87,7 @@ const TABLE: Row[] = [
   { method: 'GET', path: '/api/v1/revisions/{id}/report.html', url: () => `/api/v1/revisions/${ids.revision}/report.html`, allowed: ALL },
   { method: 'GET', path: '/api/v1/revisions/{id}/report.pdf', url: () => `/api/v1/revisions/${ids.revision}/report.pdf`, allowed: ALL },
   { method: 'GET', path: '/api/v1/products/{id}/audit', url: () => `/api/v1/products/${ids.product}/audit?format=csv`, allowed: ALL },
-  // the design workbench and screw selection (issues 9 and 10): every signed-in role
+  // the design workbench and screw selection: every signed-in role
   { method: 'POST', path: '/api/v1/evaluations/charts', url: () => '/api/v1/evaluations/charts', body: () => clearDesign, allowed: ALL },
   { method: 'GET', path: '/api/v1/products/{id}/design-file.pdf', url: () => `/api/v1/products/${ids.product}/design-file.pdf`, allowed: ALL },
   { method: 'GET', path: '/api/v1/me', url: () => '/api/v1/me', allowed: ALL },
@@ -96,7 +96,7 @@ const TABLE: Row[] = [
     method: 'POST', path: '/api/v1/sizing', url: () => '/api/v1/sizing', allowed: ALL,
     body: () => ({ requirements: { ...SIZING_REQUIREMENTS }, search: { forms: ['trapezoidal'], starts: [1], majorDiameter: { min: '36 mm', max: '44 mm' }, limit: 3 } }),
   },
-  // admin only (issue 11 item 8: a chained, audited hand-over); the calculation's author is author2 afterwards
+  // admin only (a chained, audited hand-over); the calculation's author is author2 afterwards
   { method: 'POST', path: '/api/v1/calculations/{id}/reassignments', url: () => `/api/v1/calculations/${ids.reassignCalculation}/reassignments`, body: () => ({ userId: t.users.author2, reason: 'authorization table (test)' }), allowed: ['admin'] },
   { method: 'GET', path: '/api/v1/identity-events', url: () => '/api/v1/identity-events', allowed: ['admin'] },
   { method: 'GET', path: '/api/v1/identity-events/verify', url: () => '/api/v1/identity-events/verify', allowed: ['admin'] },

@@ -1,5 +1,5 @@
 /**
- * Signed checkpoints through HTTP (issue 11, item 3): every decision returns one, any can be requested, every
+ * Signed checkpoints through HTTP: every decision returns one, any can be requested, every
  * report prints one, and POST /api/v1/checkpoints/verify says whether the chain still contains the signed link
  * and whether the signature is ours. The rewound-head attack by the owner role is in least-privilege.e2e-spec.ts.
  */

@@ -1,5 +1,5 @@
 /**
- * Least privilege in PostgreSQL (issue 11, item 2), written as the attack: the service connects as a runtime role
+ * Least privilege in PostgreSQL, written as the attack: the service connects as a runtime role
  * (created here with a unique name on the shared server and dropped afterwards) while the migrations ran as an
  * owner role. The runtime role can read, and write only through the record functions (test/records/forgery.e2e-spec.ts
  * holds the attacks on those).

@@ -1,5 +1,5 @@
 /**
- * Tamper evidence, written as the attacks of issue 11: everything that decides a state is in the chain, and verify
+ * Tamper evidence, written as the attacks on it: everything that decides a state is in the chain, and verify
  * names the first row of a derived table (review closures, products, calculations) or a column (author_id,
  * actor_id) that the chain does not bear out. The tampering here runs as the test's database superuser with the
  * insert-only triggers disabled where needed; test/records/least-privilege.e2e-spec.ts repeats the closure forgery

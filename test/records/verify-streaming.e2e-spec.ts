@@ -1,5 +1,5 @@
 /**
- * Verification streams the chain (issue 12, growth fixes): bounded batches, each its own statement, the event loop
+ * Verification streams the chain: bounded batches, each its own statement, the event loop
  * and (on the embedded database) the one connection free between batches, consistent up to the head seen at start.
  */
 import { clearDesign } from '../support/designs';
