@@ -159,23 +159,28 @@ it('disables an endpoint whose receiver answers 410 Gone, and sends it nothing m
   expect((await t.call('GET', `/api/v1/webhooks/${endpoint.id}/attempts`, undefined, { as: 'admin' })).body.items).toMatchObject([{ status: 410, outcome: 'disabled' }]);
 });
 
-it('enqueues in the record transaction: a rolled-back event notifies nobody, a committed decision always does', async () => {
+it('enqueues in the record transaction: a rolled-back event leaves no job, a committed decision always does', async () => {
   const endpoint = await createEndpoint(['revision.approved', 'revision.rejected']);
   const opened = await t.call('POST', `/api/v1/products/${productId}/calculations`, { title: 'Sixth table screw', design: clearDesign });
   await drain();
   receiver.received.length = 0;
-  // An approval appended through the record store, then the transaction fails: event and job go together
+  // A comment appended through the record store, then the transaction fails: the event and its job go together
   const records = t.app.get(RecordStore);
+  let eventId = '';
   await expect(
     t.db.transaction(async (q) => {
       const cursor = (await records.lockHead(q, productId))!;
-      await records.appendEvent(q, cursor, {
-        productId, type: 'approved', calculationId: opened.body.calculationId, revisionId: opened.body.revisionId,
-        actor: { id: t.users.reviewer, name: 'Checking engineer (test)' }, data: { revision: 1, comment: 'rolled back' },
-      });
+      eventId = (await records.appendEvent(q, cursor, {
+        productId, type: 'comment', calculationId: opened.body.calculationId, revisionId: opened.body.revisionId,
+        actor: { id: t.users.author, name: 'Design author (test)' }, data: { revision: 1, text: 'rolled back', target: null },
+      })).id;
+      const [inside] = await q.query<{ n: string }>(`SELECT count(*) AS n FROM queue.jobs WHERE dedupe_key = $1`, [`event:${eventId}`]);
+      expect(Number(inside.n)).toBe(1);
       throw new Error('the transaction fails after the event was written');
     }),
   ).rejects.toThrow('the transaction fails');
+  const [after] = await t.db.query<{ n: string }>(`SELECT count(*) AS n FROM queue.jobs WHERE dedupe_key = $1`, [`event:${eventId}`]);
+  expect(Number(after.n)).toBe(0);
   await drain();
   expect(receiver.received).toEqual([]);
   const decided = await t.call('POST', `/api/v1/revisions/${opened.body.revisionId}/decisions`, { decision: 'approve', comment: 'Margins fine.' }, { as: 'reviewer' });

@@ -78,6 +78,7 @@ export class CalculationsController {
   @Get('revisions/:id')
   async revision(@Param('id') id: string) {
     const [record, review] = await Promise.all([this.calculations.revision(id), this.reviews.state(id)]);
-    return { ...record, review: { state: review.state, decidedBy: review.decidedBy, decidedAt: review.decidedAt } };
+    const { checks, governing } = await this.calculations.checksOf(record);
+    return { ...record, checks, governing, review: { state: review.state, decidedBy: review.decidedBy, decidedAt: review.decidedAt } };
   }
 }

@@ -1,5 +1,9 @@
 /**
- * Users, roles and bearer tokens. A token is 32 random bytes shown once; only its SHA-256 is stored.
+ * Users, roles and bearer tokens. A token is 32 random bytes shown once; only its keyed hash is stored
+ * (HMAC-SHA256 with the record key's token key, records/record-key.ts), so a token row cannot be made from the
+ * database; tokens stored before keyed hashing (plain SHA-256) are accepted until they expire, unless
+ * LEADLINE_LEGACY_TOKENS=refuse. Every write goes through a record function (migrations/20261204230000) that
+ * checks the acting admin's own live token.
  * Every token expires (LEADLINE_TOKEN_TTL_DAYS unless the issuer asks for less). Revocation appends a row and
  * clears this process's cache, so it takes effect at once here (other instances of a multi-instance deployment
  * stop accepting it within TOKEN_CACHE_MS). Creating a user (granting its roles), issuing and revoking a token
@@ -12,9 +16,12 @@ import { displayableName } from '@leadline/contracts';
 import { APP_CONFIG, type AppConfig } from '../infra/config';
 import { CLOCK, type Clock } from '../infra/clock';
 import { Database, type Queryer } from '../infra/database/database.service';
-import { notFound, validate, ValidationProblem } from '../infra/http/problem';
+import { lockLedger, nextLink, type LedgerCursor } from '../records/ledger';
+import { notFound, ProblemError, validate, ValidationProblem } from '../infra/http/problem';
+import { functionRefusal } from '../records/record-store';
+import { ServiceKeys } from '../records/service-keys';
 import { checkUuid } from '../products/products.service';
-import { TS_TEXT } from '../records/chain';
+import { LINK_VERSION, linkHash, TS_TEXT } from '../records/chain';
 
 export const ROLES = ['author', 'reviewer', 'admin'] as const;
 export type Role = (typeof ROLES)[number];
@@ -24,6 +31,8 @@ export interface Principal {
   name: string;
   roles: Role[];
   tokenId: string;
+  /** the stored hash of the presented token: the credential the record functions accept for this user's acts */
+  credential: string;
 }
 
 export const createUserSchema = z.strictObject({
@@ -48,14 +57,13 @@ export const identityEventsQuerySchema = z.object({
 });
 
 /** Who acts on identities: a user, with the id of the token they presented (null for the service itself). */
-export type IdentityActor = { id: string; tokenId?: string | null } | null;
-
-const actorTokenId = (actor: IdentityActor): string | null => (actor as { tokenId?: string | null } | null)?.tokenId ?? null;
+export type IdentityActor = { id: string; tokenId?: string | null; credential?: string | null } | null;
 
 export const TOKEN_CACHE_MS = 2000;
 const DAY_MS = 86_400_000;
 
-export function hashToken(token: string): string {
+/** A token as stored before keyed hashing (legacy rows, hash_kind 'sha256'). */
+export function legacyTokenHash(token: string): string {
   return createHash('sha256').update(token, 'utf8').digest('hex');
 }
 
@@ -69,6 +77,7 @@ export class IdentitiesService implements OnModuleInit {
     private readonly db: Database,
     @Inject(APP_CONFIG) private readonly config: AppConfig,
     @Inject(CLOCK) private readonly clock: Clock,
+    private readonly keys: ServiceKeys,
   ) {
     this.ttlDays = config.LEADLINE_TOKEN_TTL_DAYS;
   }
@@ -94,7 +103,7 @@ export class IdentitiesService implements OnModuleInit {
       [this.ttlDays, this.nowIso()],
     );
     if (live.length > 0) return;
-    const known = await this.db.query(`SELECT 1 FROM tokens WHERE token_hash = $1`, [hashToken(token)]);
+    const known = await this.db.query(`SELECT 1 FROM leadline_find_token($1, $2)`, [this.keys.key.tokenHash(token), legacyTokenHash(token)]);
     if (known.length > 0) {
       this.logger.warn('no admin holds a live token and LEADLINE_ADMIN_TOKEN has expired or was revoked: set a new value to restore admin access');
       return;
@@ -122,19 +131,41 @@ export class IdentitiesService implements OnModuleInit {
     const input = validate(createUserSchema, body);
     const id = randomUUID();
     const roles = [...new Set(input.roles)];
+    const credential = await this.credentialOf(actor);
     await this.db.transaction(async (q) => {
-      await q.query(`INSERT INTO users (id, name, roles, created_by) VALUES ($1, $2, $3, $4)`, [id, input.name, roles, actor?.id ?? null]);
-      await this.audit(q, 'user-created', actor, id, null, { name: input.name, roles });
-      for (const role of roles) await this.audit(q, 'role-granted', actor, id, null, { role });
+      const cursor = await lockLedger(q, 'identity');
+      const events = [
+        this.identityLink(cursor, 'user-created', actor, id, null, { name: input.name, roles }),
+        ...roles.map((role) => this.identityLink(cursor, 'role-granted', actor, id, null, { role })),
+      ];
+      await this.write(`SELECT leadline_create_user($1, $2, $3, $4, $5)`, [credential, id, input.name, roles, JSON.stringify(events)], q);
     });
     return this.getUser(id);
   }
 
-  private async audit(q: Queryer, type: string, actor: IdentityActor, subjectUserId: string, tokenId: string | null, data: Record<string, unknown>): Promise<void> {
-    await q.query(
-      `INSERT INTO identity_events (id, type, actor_id, actor_token_id, subject_user_id, token_id, data) VALUES ($1, $2, $3, $4, $5, $6, $7)`,
-      [randomUUID(), type, actor?.id ?? null, actorTokenId(actor), subjectUserId, tokenId, JSON.stringify(data)],
-    );
+  /** The next link of the identity chain (records/ledger.ts): one user, role or token change, hashed and sealed. */
+  private identityLink(cursor: LedgerCursor, type: string, actor: IdentityActor, subjectUserId: string, tokenId: string | null, data: Record<string, unknown>) {
+    return nextLink(this.keys.key, cursor, {
+      kind: 'identity-event', id: randomUUID(), type, actorId: actor?.id ?? null, actorTokenId: actor?.tokenId ?? null, subjectUserId, tokenId, data,
+    });
+  }
+
+  /**
+   * The credential an identity change is made with: the acting admin's stored token hash, or the service's own for
+   * the service's acts (bootstrap, demo seed). The record function checks it and audits the change.
+   */
+  private async credentialOf(actor: IdentityActor): Promise<string> {
+    if (actor === null) return this.keys.serviceCredential();
+    if (!actor.credential) throw new ProblemError(401, 'Authentication required', 'this change needs the acting admin\'s own bearer token');
+    return actor.credential;
+  }
+
+  private async write<T = Record<string, unknown>>(sql: string, params: unknown[], q: Queryer = this.db): Promise<T[]> {
+    try {
+      return await q.query<T>(sql, params);
+    } catch (err) {
+      throw functionRefusal(err) ?? err;
+    }
   }
 
   /** The user-level audit, newest first. */
@@ -187,15 +218,16 @@ export class IdentitiesService implements OnModuleInit {
 
   private async storeToken(userId: string, token: string, label: string | null, actor: IdentityActor, expiresAt: Date | null): Promise<string> {
     const id = randomUUID();
+    const credential = await this.credentialOf(actor);
     await this.db.transaction(async (q) => {
-      await q.query(`INSERT INTO tokens (id, user_id, token_hash, label, created_by, expires_at) VALUES ($1, $2, $3, $4, $5, $6)`, [
-        id, userId, hashToken(token), label, actor?.id ?? null, expiresAt ? expiresAt.toISOString() : null,
-      ]);
-      const [row] = await q.query<{ expires_at: string }>(
-        `SELECT ${TS_TEXT('COALESCE(expires_at, created_at + make_interval(days => $2::int))')} AS expires_at FROM tokens WHERE id = $1`,
-        [id, this.ttlDays],
-      );
-      await this.audit(q, 'token-issued', actor, userId, id, { label, expiresAt: row.expires_at, forAnotherUser: actor !== null && actor.id !== userId });
+      const cursor = await lockLedger(q, 'identity');
+      // no expiry asked for (the bootstrap token): the default lifetime from now; stored to the millisecond, printed to the microsecond
+      const expires = expiresAt ?? new Date(Date.parse(cursor.now) + this.ttlDays * DAY_MS);
+      const expiresText = expires.toISOString().replace(/Z$/, '000Z');
+      const event = this.identityLink(cursor, 'token-issued', actor, userId, id, { label, expiresAt: expiresText, forAnotherUser: actor !== null && actor.id !== userId });
+      await this.write(`SELECT leadline_issue_token($1, $2, $3, $4, $5, $6, $7)`, [
+        credential, id, userId, this.keys.key.tokenHash(token), label, expires.toISOString(), JSON.stringify([event]),
+      ], q);
     });
     return id;
   }
@@ -214,32 +246,90 @@ export class IdentitiesService implements OnModuleInit {
   async revokeToken(userId: string, tokenId: string, actor: IdentityActor): Promise<{ id: string; revoked: true }> {
     const rows = await this.db.query(`SELECT id FROM tokens WHERE id = $1 AND user_id = $2`, [checkUuid(tokenId, 'token'), checkUuid(userId, 'user')]);
     if (rows.length === 0) throw notFound(`token ${tokenId} of user ${userId}`);
+    const credential = await this.credentialOf(actor);
     await this.db.transaction(async (q) => {
-      const added = await q.query(`INSERT INTO token_revocations (token_id, revoked_by) VALUES ($1, $2) ON CONFLICT (token_id) DO NOTHING RETURNING token_id`, [tokenId, actor?.id ?? null]);
-      if (added.length > 0) await this.audit(q, 'token-revoked', actor, userId, tokenId, {});
+      const cursor = await lockLedger(q, 'identity');
+      const event = this.identityLink(cursor, 'token-revoked', actor, userId, tokenId, {});
+      await this.write(`SELECT leadline_revoke_token($1, $2, $3, $4)`, [credential, userId, tokenId, JSON.stringify([event])], q);
     });
     this.cache.clear();
     return { id: tokenId, revoked: true };
   }
 
-  /** Resolves a presented bearer token to its user, or null when unknown, revoked or expired. */
+  /**
+   * Checks the identity chain like a product chain: every link's hash, previous hash and MAC in order, the head, and
+   * the rows it accounts for since it began (each user with its user-created event and roles, each keyed token with
+   * its token-issued event, each revocation with its token-revoked event). Names the first mismatch.
+   */
+  async verifyIdentities(): Promise<{ valid: boolean; links: number; headHash: string | null; firstBrokenLink: { seq: number; kind: string; id: string; reason: string } | null }> {
+    const [head] = await this.db.query<{ seq: string; hash: string; started_at: string }>(`SELECT seq, hash, started_at FROM ledger_heads WHERE ledger = 'identity'`);
+    const rows = await this.db.query<{ id: string; type: string; actor_id: string | null; actor_token_id: string | null; subject_user_id: string; token_id: string | null;
+      data: unknown; created_at: string; seq: string; hash: string; previous_hash: string | null; mac: string | null }>(
+      `SELECT id, type, actor_id, actor_token_id, subject_user_id, token_id, data, ${TS_TEXT('created_at')} AS created_at, seq, hash, previous_hash, mac
+         FROM identity_events WHERE seq IS NOT NULL AND seq <= $1 ORDER BY seq`,
+      [head.seq],
+    );
+    const broken = (seq: number, kind: string, id: string, reason: string) => ({ valid: false, links: seq - 1, headHash: null, firstBrokenLink: { seq, kind, id, reason } });
+    let previous: string | null = null;
+    let expected = 1;
+    for (const r of rows) {
+      const seq = Number(r.seq);
+      if (seq !== expected) return broken(expected, 'identity-event', r.id, `sequence gap: expected link ${expected}, found ${seq}`);
+      if (r.previous_hash !== previous) return broken(seq, 'identity-event', r.id, 'previous hash does not match the prior link');
+      const record = { kind: 'identity-event', id: r.id, type: r.type, actorId: r.actor_id, actorTokenId: r.actor_token_id, subjectUserId: r.subject_user_id,
+        tokenId: r.token_id, data: r.data, seq, createdAt: r.created_at, linkVersion: LINK_VERSION };
+      if (linkHash(record, previous) !== r.hash) return broken(seq, 'identity-event', r.id, 'content does not match its hash');
+      if (!this.keys.key.verifyLinkMac(r.hash, r.mac)) return broken(seq, 'identity-event', r.id, "the link's MAC does not verify with this service's record key: the service did not write it");
+      previous = r.hash;
+      expected++;
+    }
+    if (expected - 1 !== Number(head.seq) || (previous ?? '') !== head.hash) return broken(expected, 'identity-event', '', 'the identity chain head does not point at the last link (records missing)');
+    const [user] = await this.db.query<{ id: string }>(
+      `SELECT u.id FROM users u WHERE u.created_at >= $1 AND NOT EXISTS (
+         SELECT 1 FROM identity_events e WHERE e.seq IS NOT NULL AND e.type = 'user-created' AND e.subject_user_id = u.id
+            AND e.data->>'name' = u.name AND e.data->'roles' = to_jsonb(u.roles)) ORDER BY u.created_at LIMIT 1`,
+      [head.started_at],
+    );
+    if (user) return broken(0, 'user', user.id, 'the user row is not borne out by a user-created event of the identity chain');
+    const [token] = await this.db.query<{ id: string }>(
+      `SELECT t.id FROM tokens t WHERE (t.created_at >= $1 OR t.hash_kind = 'hmac') AND NOT EXISTS (
+         SELECT 1 FROM identity_events e WHERE e.seq IS NOT NULL AND e.type = 'token-issued' AND e.token_id = t.id AND e.subject_user_id = t.user_id)
+        ORDER BY t.created_at LIMIT 1`,
+      [head.started_at],
+    );
+    if (token) return broken(0, 'token', token.id, 'the token row is not borne out by a token-issued event of the identity chain');
+    const [revocation] = await this.db.query<{ token_id: string }>(
+      `SELECT r.token_id FROM token_revocations r WHERE r.revoked_at >= $1 AND NOT EXISTS (
+         SELECT 1 FROM identity_events e WHERE e.seq IS NOT NULL AND e.type = 'token-revoked' AND e.token_id = r.token_id) LIMIT 1`,
+      [head.started_at],
+    );
+    if (revocation) return broken(0, 'revocation', revocation.token_id, 'the revocation is not borne out by a token-revoked event of the identity chain');
+    return { valid: true, links: expected - 1, headHash: previous, firstBrokenLink: null };
+  }
+
+  /**
+   * Resolves a presented bearer token to its user, or null when unknown, revoked or expired (by the service clock).
+   * The keyed hash is looked up, and the plain SHA-256 of a token stored before keyed hashing unless legacy tokens
+   * are refused.
+   */
   async authenticate(token: string): Promise<Principal | null> {
-    const hash = hashToken(token);
+    const hash = this.keys.key.tokenHash(token);
     const now = this.clock.now();
     const hit = this.cache.get(hash);
     if (hit && hit.until > now) return hit.principal;
-    const rows = await this.db.query<{ id: string; name: string; roles: Role[]; token_id: string; ms_left: string }>(
-      `SELECT u.id, u.name, u.roles, t.id AS token_id,
-              floor(extract(epoch FROM COALESCE(t.expires_at, t.created_at + make_interval(days => $1::int)) - $3::timestamptz) * 1000) AS ms_left
-         FROM tokens t JOIN users u ON u.id = t.user_id
-        WHERE t.token_hash = $2 AND ${this.liveSql('t', '$3')}`,
-      [this.ttlDays, hash, new Date(now).toISOString()],
+    const legacy = this.config.LEADLINE_LEGACY_TOKENS === 'accept' ? legacyTokenHash(token) : null;
+    const rows = await this.db.query<{ user_id: string; name: string; roles: Role[]; token_id: string; token_hash: string; revoked: boolean; ms_left: string }>(
+      `SELECT user_id, name, roles, token_id, token_hash, revoked,
+              floor(extract(epoch FROM COALESCE(expires_at, created_at + make_interval(days => $3::int)) - $4::timestamptz) * 1000) AS ms_left
+         FROM leadline_find_token($1, $2)`,
+      [hash, legacy, this.ttlDays, new Date(now).toISOString()],
     );
-    const principal = rows.length ? { id: rows[0].id, name: rows[0].name, roles: rows[0].roles, tokenId: rows[0].token_id } : null;
+    const live = rows.find((r) => !r.revoked && Number(r.ms_left) > 0);
+    const principal = live ? { id: live.user_id, name: live.name, roles: live.roles, tokenId: live.token_id, credential: live.token_hash } : null;
     if (principal) {
       // Oldest entry out first when full; a cached token is never trusted past its expiry
       if (this.cache.size >= 10000) this.cache.delete(this.cache.keys().next().value as string);
-      this.cache.set(hash, { principal, until: now + Math.min(TOKEN_CACHE_MS, Number(rows[0].ms_left)) });
+      this.cache.set(hash, { principal, until: now + Math.min(TOKEN_CACHE_MS, Number(live!.ms_left)) });
     }
     return principal;
   }

@@ -108,6 +108,17 @@ export const configSchema = z.object({
   LEADLINE_DEMO_TOKEN_TTL_HOURS: z.coerce.number().int().min(1).max(720).default(12),
   /** Issue and print fresh demo tokens at start although the demo database is not empty (otherwise only on the first seed) */
   LEADLINE_DEMO_TOKENS: flag.default(false),
+  // --- Record keys, token hashing and signing-key history (docs/reliability.md, "Threat model") ---
+  /**
+   * Secret file (at least 64 hex digits, mode 0600) whose key seals every chain link (HMAC) and keys the stored token
+   * hashes; never stored in the database. Unset: <LEADLINE_DATA_DIR>/record-key, generated when missing
+   */
+  LEADLINE_RECORD_KEY_FILE: z.string().min(1).optional(),
+  /** Tokens stored before keyed hashing (plain SHA-256): accepted until they expire, or refused at once */
+  LEADLINE_LEGACY_TOKENS: z.enum(['accept', 'refuse']).default('accept'),
+  /** Start although a signing key that signed earlier checkpoints is not the configured one (an explicit rotation) */
+  LEADLINE_SIGNING_KEY_ROTATE: flag.default(false),
+  // --- end of record keys ---
   /** Jobs (webhook deliveries, mails, design files) this instance runs at once; 0: it enqueues but runs none */
   LEADLINE_WORKERS: z.coerce.number().int().min(0).max(64).default(2),
   /** How often an idle instance looks for due jobs [ms] (PostgreSQL also wakes it at once by NOTIFY) */

@@ -1,9 +1,9 @@
 /**
  * Migrations and least privilege on PostgreSQL. The migrations run as the owner role
  * (LEADLINE_MIGRATION_DATABASE_URL, default DATABASE_URL); afterwards the runtime role the service connects as is
- * granted SELECT and INSERT on every table and EXECUTE on the functions, nothing else: without ownership it cannot
- * ALTER, DROP, TRUNCATE or disable a trigger, and without UPDATE it moves chain heads only through the SECURITY
- * DEFINER functions of migrations/20261202100100. The grants are repeated on every start, so tables added by later
+ * granted SELECT and EXECUTE on the functions, and INSERT only where no record lives (RUNTIME_INSERT_TABLES): without
+ * ownership it cannot ALTER, DROP, TRUNCATE or disable a trigger, and it writes records, identities and rule sets
+ * only through the SECURITY DEFINER functions of migrations/20261204230000. The grants are repeated on every start, so tables added by later
  * migrations are covered too.
  */
 import { Logger } from '@nestjs/common';
@@ -55,16 +55,36 @@ export async function migrateServer(config: MigrationConfig, logger = new Logger
   }
 }
 
-/** SELECT and INSERT on the record tables, EXECUTE on the chain functions; everything else revoked. */
-export async function grantRuntime(q: { query(sql: string): Promise<unknown> }, role: string): Promise<void> {
+/**
+ * SELECT on the tables (tokens without token_hash), INSERT on idempotency_keys only, EXECUTE on the functions;
+ * everything else revoked. Every record, identity and rule row is written by the SECURITY DEFINER functions of
+ * migrations/20261204230000, which check the acting credential and the invariants (docs/reliability.md, "Threat model").
+ */
+export async function grantRuntime(q: { query(sql: string, params?: unknown[]): Promise<unknown> }, role: string): Promise<void> {
   const r = ident(role);
   await q.query(`GRANT USAGE ON SCHEMA public TO ${r}`);
   await q.query(`REVOKE ALL ON ALL TABLES IN SCHEMA public FROM ${r}`);
-  await q.query(`GRANT SELECT, INSERT ON ALL TABLES IN SCHEMA public TO ${r}`);
+  await q.query(`GRANT SELECT ON ALL TABLES IN SCHEMA public TO ${r}`);
   await q.query(`REVOKE ALL ON ${MIGRATIONS_TABLE} FROM ${r}`);
+  // a token row's hash is the one thing the runtime role may not read: it is what the functions accept as a credential
+  await q.query(`REVOKE SELECT ON tokens FROM ${r}`);
+  const columns = (await q.query(
+    `SELECT column_name FROM information_schema.columns WHERE table_schema = 'public' AND table_name = 'tokens' AND column_name <> 'token_hash' ORDER BY ordinal_position`,
+  )) as { column_name: string }[];
+  await q.query(`GRANT SELECT (${columns.map((c) => ident(c.column_name)).join(', ')}) ON tokens TO ${r}`);
+  for (const table of RUNTIME_INSERT_TABLES) await q.query(`GRANT INSERT ON ${table} TO ${r}`);
   await q.query(`GRANT EXECUTE ON ALL FUNCTIONS IN SCHEMA public TO ${r}`);
+  // helpers the record functions call with the owner's rights; called directly they would write without the checks
+  for (const fn of INTERNAL_FUNCTIONS) {
+    if (((await q.query(`SELECT to_regprocedure($1) AS f`, [fn])) as { f: string | null }[])[0]?.f) await q.query(`REVOKE EXECUTE ON FUNCTION ${fn} FROM ${r}`);
+  }
 }
 
+/** Functions only the record functions call (migrations/20261204230200). */
+export const INTERNAL_FUNCTIONS = ['leadline_ledger_next(text, bigint, text, text, text)', 'leadline_put_identity_events(uuid, uuid, jsonb)'];
+
+/** Tables the runtime role inserts into directly: none of them is a record, identity or rule table. */
+export const RUNTIME_INSERT_TABLES = ['idempotency_keys'];
 /**
  * The queue schema (migrations/20261205000000): SELECT and INSERT on its tables (enqueue, record a delivery attempt,
  * set a mail preference) and EXECUTE on its functions, the only way a job, an endpoint or a lease changes.
