@@ -76,10 +76,10 @@ export class MailService implements OnApplicationShutdown {
     const recipients = await q.query<{ user_id: string; email: string }>(
       `SELECT DISTINCT ON (m.user_id) m.user_id, m.email, m.enabled
          FROM queue.mail_preferences m JOIN users u ON u.id = m.user_id
-        WHERE ${rule.to === 'reviewers' ? `'reviewer' = ANY (u.roles)` : `u.id = $1::uuid`}
+        WHERE (CASE WHEN $3::text = 'reviewers' THEN 'reviewer' = ANY (u.roles) ELSE u.id = $1::uuid END)
           AND u.id IS DISTINCT FROM $2::uuid
         ORDER BY m.user_id, m.set_at DESC, m.id DESC`,
-      [rule.to === 'author' ? rev.author_id : null, rev.actor_id],
+      [rule.to === 'author' ? rev.author_id : null, rev.actor_id, rule.to],
     ).then((rows) => rows.filter((r: any) => r.enabled && r.email));
     const base = this.config.LEADLINE_PUBLIC_URL.replace(/\/+$/, '');
     const link = rule.to === 'reviewers' ? `${base}/review/revisions/${revisionId}` : `${base}/design/calculations/${rev.calculation_id}`;
