@@ -34,8 +34,9 @@ describe.each(BACKENDS)('records on %s', (backend) => {
     expect(rev.status).toBe(200);
     expect(JSON.stringify(rev.body.input)).toBe(JSON.stringify(design));
     const stateless = await t.call('POST', '/api/v1/evaluations?trace=true', design);
-    const { verdict, ruleSetVersion, ...statelessEvaluation } = stateless.body;
+    const { verdict, ruleSetVersion, checks, governing, ...statelessEvaluation } = stateless.body;
     expect(rev.body.evaluation).toEqual(statelessEvaluation);
+    expect({ checks: rev.body.checks, governing: rev.body.governing }).toEqual({ checks, governing });
     expect(rev.body.verdict).toBe(verdict);
     expect(rev.body.findings).toEqual(stateless.body.findings);
     expect(rev.body.engineVersion).toBe(stateless.body.engineVersion);

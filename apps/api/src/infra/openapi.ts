@@ -6,7 +6,7 @@ import type { INestApplication } from '@nestjs/common';
 import { SwaggerModule, type OpenAPIObject } from '@nestjs/swagger';
 import {
   calculationSchema, chainVerificationSchema, designInputSchema, evaluationResponseSchema, identityVerificationSchema,
-  problemSchema, productSchema, revisionReviewSchema, revisionWithChecksSchema, revisionWithReviewSchema, submissionResultSchema,
+  problemSchema, productSchema, revisionReviewSchema, revisionWithChecksSchema, submissionResultSchema,
 } from '@leadline/contracts';
 import { sizingRequestSchema, sizingResponseSchema } from '@leadline/contracts';
 import { z, type ZodType } from 'zod';
@@ -68,7 +68,7 @@ export const ROUTES: Route[] = [
     method: 'get', path: '/api/v1/calculations/{id}/revisions', summary: "A calculation's revisions, oldest first, cursor-paged (after, limit; view=summary gives light items)", tag: 'calculations',
     query: revisionsQuerySchema,
     response: z.object({
-      items: z.array(z.union([revisionWithReviewSchema, revisionSummarySchema])),
+      items: z.array(z.union([revisionWithChecksSchema, revisionSummarySchema])),
       nextCursor: z.number().int().nullable().describe('the last revision number of this page when more follow, else null'),
     }),
   },
