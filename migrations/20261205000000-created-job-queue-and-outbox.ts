@@ -12,6 +12,7 @@ import type { MigrationInterface, QueryRunner } from 'typeorm';
  * The outbox: AFTER INSERT triggers on `events` and `rule_set_adoptions` enqueue one `event` job in the transaction
  * that appends the record, whichever code path appends it, so a committed decision always notifies and a rolled-back
  * one never does. The job carries a thin payload: the event's type and the ids it concerns, no design content.
+ * A trigger on `token_revocations` sends NOTIFY leadline_revocations, so every instance drops its cached token lookups.
  * Claiming takes ready jobs with FOR UPDATE SKIP LOCKED (any number of instances, each job to one of them); a
  * running job whose lease ran out (its instance died) is taken again. Times are passed in by the service's clock.
  */
@@ -170,7 +171,17 @@ export class CreatedJobQueueAndOutbox20261205000000 implements MigrationInterfac
       END $$`);
     await q.query(`CREATE TRIGGER events_enqueue AFTER INSERT ON events FOR EACH ROW EXECUTE FUNCTION queue.enqueue_record_event()`);
     await q.query(`CREATE TRIGGER rule_set_adoptions_enqueue AFTER INSERT ON rule_set_adoptions FOR EACH ROW EXECUTE FUNCTION queue.enqueue_record_event()`);
+    // A revocation tells every instance listening to drop its cached token lookups at once
+    await q.query(`
+      CREATE FUNCTION queue.notify_revocation() RETURNS trigger
+      LANGUAGE plpgsql SECURITY DEFINER SET search_path = pg_catalog, pg_temp AS $$
+      BEGIN
+        PERFORM pg_notify('leadline_revocations', NEW.token_id::text);
+        RETURN NULL;
+      END $$`);
+    await q.query(`CREATE TRIGGER token_revocations_notify AFTER INSERT ON token_revocations FOR EACH ROW EXECUTE FUNCTION queue.notify_revocation()`);
     for (const fn of [
+      'queue.notify_revocation()',
       'queue.claim(text, text[], integer, timestamptz, integer)',
       'queue.finish(uuid, text, text, jsonb, text, timestamptz)',
       'queue.report_progress(uuid, text, jsonb, timestamptz)',
@@ -183,6 +194,7 @@ export class CreatedJobQueueAndOutbox20261205000000 implements MigrationInterfac
   }
 
   async down(q: QueryRunner): Promise<void> {
+    await q.query(`DROP TRIGGER token_revocations_notify ON token_revocations`);
     await q.query(`DROP TRIGGER rule_set_adoptions_enqueue ON rule_set_adoptions`);
     await q.query(`DROP TRIGGER events_enqueue ON events`);
     await q.query(`DROP SCHEMA queue CASCADE`);

@@ -7,6 +7,8 @@ import type { NestFastifyApplication } from '@nestjs/platform-fastify';
 import { Client } from 'pg';
 import { createApp } from '../../apps/api/src/app.factory';
 import { Database } from '../../apps/api/src/infra/database/database.service';
+import { once } from 'node:events';
+import { RevocationListener } from '../../apps/api/src/notifications/revocation-listener';
 import { QueueService, type Job } from '../../apps/api/src/queue/queue.service';
 import { TestClock } from '../support/clock';
 import { startTestApp, UNLIMITED, type TestApp } from '../support/harness';
@@ -86,4 +88,18 @@ it('keeps the runtime role to SELECT, INSERT and the queue functions', async () 
   } finally {
     await runtime.end();
   }
+});
+
+it('refuses a token revoked on one instance on the other at once, although the other had it cached', async () => {
+  const other = second.getHttpAdapter().getInstance();
+  const me = () => other.inject({ method: 'GET', url: '/api/v1/me', headers: { authorization: `Bearer ${t.tokens.author2}` } });
+  expect((await me()).statusCode).toBe(200);
+  expect((await me()).statusCode).toBe(200); // now answered from the second instance's two-second cache
+  const tokens = await t.call('GET', `/api/v1/users/${t.users.author2}/tokens`, undefined, { as: 'admin' });
+  const tokenId = tokens.body.items[0].id;
+  const notice = once(second.get(RevocationListener).events, 'revoked');
+  expect((await t.call('POST', `/api/v1/users/${t.users.author2}/tokens/${tokenId}/revoke`, undefined, { as: 'admin' })).status).toBe(200);
+  // The NOTIFY is sent at the revocation's commit; the other instance drops its cache when it arrives
+  expect(await notice).toEqual([tokenId]);
+  expect((await me()).statusCode).toBe(401);
 });

@@ -5,11 +5,12 @@ import { WebhooksService } from '../webhooks/webhooks.service';
 import { MailService } from './mail.service';
 import { NotificationsController } from './notifications.controller';
 import { OutboxDispatcher } from './outbox.dispatcher';
+import { RevocationListener } from './revocation-listener';
 
-/** Record events leave the service: signed webhooks and notification mail, both run by the job queue. */
+/** Record events leave the service: signed webhooks and notification mail, both run by the job queue; revocations reach every instance. */
 @Module({
   imports: [QueueModule],
   controllers: [WebhooksController, NotificationsController],
-  providers: [WebhooksService, MailService, OutboxDispatcher],
+  providers: [WebhooksService, MailService, OutboxDispatcher, RevocationListener],
 })
 export class NotificationsModule {}
