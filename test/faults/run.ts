@@ -12,6 +12,7 @@ import { randomBytes } from 'node:crypto';
 import { chmodSync, existsSync, mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
+import { createServer } from 'node:http';
 import { Client } from 'pg';
 
 const ROOT = resolve(__dirname, '../../..');
@@ -533,6 +534,66 @@ async function twoProcesses(): Promise<Figures> {
   }
 }
 
+/**
+ * The queue: a service that commits record events but runs no jobs (LEADLINE_WORKERS=0) is killed with SIGKILL; a new
+ * process on the same database delivers every event's webhook after the restart. Then two processes with workers
+ * share the queue: every message arrives, none twice (the receiver answers 200 to all).
+ */
+async function queueDelivery(): Promise<Figures> {
+  const began = Date.now();
+  const db = await createDatabase(SERVER_URL);
+  const seen = new Map<string, number>();
+  const receiver = createServer((req, res) => {
+    req.resume();
+    req.on('end', () => {
+      const id = String(req.headers['webhook-id']);
+      seen.set(id, (seen.get(id) ?? 0) + 1);
+      res.writeHead(200).end();
+    });
+  });
+  await new Promise<void>((r) => receiver.listen(0, '127.0.0.1', r));
+  const hook = `http://127.0.0.1:${(receiver.address() as { port: number }).port}/hook`;
+  const env = { DATABASE_URL: db.url, LEADLINE_DB_POOL: '5', LEADLINE_WEBHOOK_ALLOW_PRIVATE: 'true', LEADLINE_QUEUE_POLL_MS: '500' };
+  const waitFor = async (n: number, ms: number) => {
+    const deadline = Date.now() + ms;
+    while (seen.size < n && Date.now() < deadline) await sleep(100);
+    return seen.size;
+  };
+  try {
+    const a = await startService(PORT_BASE + 7, { ...env, LEADLINE_WORKERS: '0' });
+    const actors = await setupActors(a.url);
+    const endpoint = await call(a.url, 'POST', '/api/v1/webhooks', ADMIN_TOKEN, { url: hook, events: ['calculation.opened', 'revision.submitted'] });
+    if (endpoint.status !== 201) throw new Error(`endpoint: ${endpoint.status} ${JSON.stringify(endpoint.body)}`);
+    const OPENED = 25;
+    await openCalculation(a.url, actors.author, 'QK-1', OPENED);
+    const expectedBeforeKill = OPENED * 2; // calculation.opened and revision.submitted for each
+    const beforeKill = seen.size;
+    await stopService(a, 'SIGKILL');
+    const b = await startService(PORT_BASE + 8, { ...env, LEADLINE_WORKERS: '2' });
+    const afterRestart = await waitFor(expectedBeforeKill, 60_000);
+    const c = await startService(PORT_BASE + 9, { ...env, LEADLINE_WORKERS: '2' });
+    const MORE = 20;
+    await Promise.all([openCalculation(b.url, actors.author, 'QK-2', MORE / 2), openCalculation(c.url, actors.author, 'QK-3', MORE / 2)]);
+    const total = expectedBeforeKill + MORE * 2;
+    const delivered = await waitFor(total, 60_000);
+    const duplicates = [...seen.values()].filter((n) => n > 1).length;
+    const jobs = await withClient(db.url, async (q) => (await q.query(`SELECT state, count(*)::int AS n FROM queue.jobs GROUP BY state ORDER BY state`)).rows);
+    await stopService(b, 'SIGKILL');
+    await stopService(c, 'SIGKILL');
+    return {
+      scenario: 'queue: kill -9 between commit and delivery, then two processes sharing the jobs',
+      pass: beforeKill === 0 && afterRestart === expectedBeforeKill && delivered === total && duplicates === 0,
+      seconds: (Date.now() - began) / 1000,
+      deliveredBeforeKill: beforeKill, eventsCommittedBeforeKill: expectedBeforeKill, deliveredAfterRestart: afterRestart,
+      messagesExpected: total, messagesDelivered: delivered, duplicateDeliveries: duplicates, jobStates: Object.fromEntries(jobs.map((r) => [r.state, r.n])),
+    };
+  } finally {
+    for (const svc of started) await stopService(svc, 'SIGKILL');
+    await new Promise<void>((r) => receiver.close(() => r()));
+    await db.drop();
+  }
+}
+
 /** Process ids of the service's Chromium (its direct children running the browser binary). */
 function chromiumChildren(pid: number): number[] {
   const out: number[] = [];
@@ -606,6 +667,7 @@ const SCENARIOS: Record<string, () => Promise<Figures>> = {
   'restart-postgres': restartDatabase,
   'two-processes': twoProcesses,
   'kill-chromium': killChromium,
+  'queue-delivery': queueDelivery,
 };
 
 function commit(): string {
@@ -642,7 +704,9 @@ function writeDocs(results: Figures[]): void {
     'restart — no 5xx other than 503 problem+json with Retry-After, /health answers 503 while the database is gone and 200 after,',
     'submissions succeed again without restarting the service, nothing acknowledged is lost. Two processes — contiguous numbers,',
     'exactly one decision per raced revision (201 + 409), one closure row each, chain valid. Chromium — requests caught by the kill',
-    'answer a problem+json error or a PDF (a retry on a fresh browser), never hang; the next requests get PDFs.',
+    'answer a problem+json error or a PDF (a retry on a fresh browser), never hang; the next requests get PDFs. Queue — webhook',
+    'messages of events committed by a process killed before running any job all arrive after a restart; with two processes running',
+    'jobs every message arrives once (by webhook-id).',
     '',
   ];
   const section = lines.join('\n');

@@ -36,6 +36,7 @@ beforeAll(async () => {
   ids.withdrawRevision = (await open('authz withdraw')).revisionId;
   ids.reassignCalculation = (await open('authz reassign')).calculationId;
   checkpoint = (await t.call('POST', `/api/v1/products/${ids.product}/checkpoints`, {}, { as: 'reviewer' })).body;
+  ids.webhook = (await t.call('POST', '/api/v1/webhooks', { url: 'https://93.184.215.14/hooks', events: ['calculation.opened'] }, { as: 'admin' })).body.id;
 });
 afterAll(() => t?.close());
 
@@ -103,6 +104,15 @@ const TABLE: Row[] = [
   // checkpoints: signing the head on request and verifying are open to every role; the public key needs no token
   { method: 'POST', path: '/api/v1/products/{id}/checkpoints', url: () => `/api/v1/products/${ids.product}/checkpoints`, body: () => ({}), allowed: ALL },
   { method: 'POST', path: '/api/v1/checkpoints/verify', url: () => '/api/v1/checkpoints/verify', body: () => checkpoint, allowed: ALL },
+  // webhook endpoints: admin only; the mail preference: every signed-in user, their own
+  { method: 'POST', path: '/api/v1/webhooks', url: () => '/api/v1/webhooks', body: () => ({ url: 'https://93.184.215.14/hooks', events: ['revision.approved'] }), allowed: ['admin'] },
+  { method: 'GET', path: '/api/v1/webhooks', url: () => '/api/v1/webhooks', allowed: ['admin'] },
+  { method: 'GET', path: '/api/v1/webhooks/{id}', url: () => `/api/v1/webhooks/${ids.webhook}`, allowed: ['admin'] },
+  { method: 'POST', path: '/api/v1/webhooks/{id}/disable', url: () => `/api/v1/webhooks/${ids.webhook}/disable`, allowed: ['admin'] },
+  { method: 'POST', path: '/api/v1/webhooks/{id}/rotate', url: () => `/api/v1/webhooks/${ids.webhook}/rotate`, allowed: ['admin'] },
+  { method: 'GET', path: '/api/v1/webhooks/{id}/attempts', url: () => `/api/v1/webhooks/${ids.webhook}/attempts`, allowed: ['admin'] },
+  { method: 'GET', path: '/api/v1/me/notifications', url: () => '/api/v1/me/notifications', allowed: ALL },
+  { method: 'PUT', path: '/api/v1/me/notifications', url: () => '/api/v1/me/notifications', body: () => ({ email: 'someone@example.test', enabled: false }), allowed: ALL },
   { method: 'GET', path: '/api/v1/checkpoints/public-key', url: () => '/api/v1/checkpoints/public-key', allowed: ALL, open: true },
 ];
 

@@ -146,6 +146,38 @@ const CALLS: Record<string, Calls> = {
     ok: (c) => c.t.call('POST', `/api/v1/rule-sets/${DEFAULT_RULE_SET.version}/adopt`, { note: 'conformance: keep the default' }, { as: 'admin' }),
     bad: (c) => c.t.call('POST', '/api/v1/rule-sets/2099.01-1/adopt', {}, { as: 'admin' }),
   },
+  'POST /api/v1/webhooks': {
+    ok: (c) => c.t.call('POST', '/api/v1/webhooks', { url: 'https://93.184.215.14/hooks', events: ['revision.approved'] }, { as: 'admin' }),
+    bad: (c) => c.t.call('POST', '/api/v1/webhooks', { url: 'http://127.0.0.1/hooks', events: ['revision.approved'] }, { as: 'admin' }),
+  },
+  'GET /api/v1/webhooks': {
+    ok: (c) => c.t.call('GET', '/api/v1/webhooks', undefined, { as: 'admin' }),
+    bad: (c) => c.t.call('GET', '/api/v1/webhooks', undefined, { as: 'reviewer' }),
+  },
+  'GET /api/v1/webhooks/{id}': {
+    ok: async (c) => c.t.call('GET', `/api/v1/webhooks/${await endpoint(c)}`, undefined, { as: 'admin' }),
+    bad: (c) => c.t.call('GET', `/api/v1/webhooks/${MISSING}`, undefined, { as: 'admin' }),
+  },
+  'POST /api/v1/webhooks/{id}/disable': {
+    ok: async (c) => c.t.call('POST', `/api/v1/webhooks/${await endpoint(c)}/disable`, undefined, { as: 'admin' }),
+    bad: (c) => c.t.call('POST', `/api/v1/webhooks/${MISSING}/disable`, undefined, { as: 'admin' }),
+  },
+  'POST /api/v1/webhooks/{id}/rotate': {
+    ok: async (c) => c.t.call('POST', `/api/v1/webhooks/${await endpoint(c)}/rotate`, undefined, { as: 'admin' }),
+    bad: (c) => c.t.call('POST', `/api/v1/webhooks/${MISSING}/rotate`, undefined, { as: 'admin' }),
+  },
+  'GET /api/v1/webhooks/{id}/attempts': {
+    ok: async (c) => c.t.call('GET', `/api/v1/webhooks/${await endpoint(c)}/attempts`, undefined, { as: 'admin' }),
+    bad: (c) => c.t.call('GET', `/api/v1/webhooks/${MISSING}/attempts`, undefined, { as: 'admin' }),
+  },
+  'GET /api/v1/me/notifications': {
+    ok: (c) => c.t.call('GET', '/api/v1/me/notifications'),
+    bad: (c) => c.t.call('GET', '/api/v1/me/notifications', undefined, { as: 'anonymous' }),
+  },
+  'PUT /api/v1/me/notifications': {
+    ok: (c) => c.t.call('PUT', '/api/v1/me/notifications', { email: 'author@example.test', enabled: true }),
+    bad: (c) => c.t.call('PUT', '/api/v1/me/notifications', { email: 'nobody', enabled: true }),
+  },
   'POST /api/v1/users': {
     ok: (c) => c.t.call('POST', '/api/v1/users', { name: 'Conformance reviewer (test)', roles: ['reviewer'] }, { as: 'admin' }),
     bad: (c) => c.t.call('POST', '/api/v1/users', { name: 'No roles', roles: ['wizard'] }, { as: 'admin' }),
@@ -222,6 +254,12 @@ const CALLS: Record<string, Calls> = {
 };
 
 /** Operations without a client error to provoke (public, no input). */
+/** A webhook endpoint registered for one call (a public address literal: nothing is delivered in this suite) */
+async function endpoint(c: Ctx): Promise<string> {
+  const res = await c.t.call('POST', '/api/v1/webhooks', { url: 'https://93.184.215.14/hooks', events: ['calculation.opened'] }, { as: 'admin' });
+  return res.body.id;
+}
+
 const NO_4XX = new Set(['GET /health', 'GET /api/v1/checkpoints/public-key']);
 
 interface Operation {

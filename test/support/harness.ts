@@ -108,6 +108,8 @@ export async function startTestApp(
     LEADLINE_ADMIN_TOKEN: adminToken,
     // Suites make many requests as one user: the per-user limits are tested on their own, with low settings
     ...UNLIMITED,
+    // Jobs run when a test drains the queue (QueueService.drain), never in the background of a suite
+    LEADLINE_WORKERS: '0',
     ...(shared ? { LEADLINE_CHROMIUM_WS_ENDPOINT: shared } : {}),
     ...env,
   };

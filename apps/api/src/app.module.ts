@@ -20,6 +20,7 @@ import { RulesModule } from './rules/rules.module';
 import { SizingModule } from './sizing/sizing.module';
 import { WorkbenchModule } from './workbench/workbench.module';
 import { DesignFileModule } from './design-file/design-file.module';
+import { NotificationsModule } from './notifications/notifications.module';
 
 /** What a process hands the service besides its configuration. */
 export interface RuntimeOptions {
@@ -54,6 +55,7 @@ export class AppModule {
         SizingModule,
         WorkbenchModule,
         DesignFileModule,
+        NotificationsModule,
         ...extraModules,
       ],
       providers: [

@@ -5,8 +5,8 @@
  * LEADLINE_LEGACY_TOKENS=refuse. Every write goes through a record function (migrations/20261204230000) that
  * checks the acting admin's own live token.
  * Every token expires (LEADLINE_TOKEN_TTL_DAYS unless the issuer asks for less). Revocation appends a row and
- * clears this process's cache, so it takes effect at once here (other instances of a multi-instance deployment
- * stop accepting it within TOKEN_CACHE_MS). Creating a user (granting its roles), issuing and revoking a token
+ * clears this process's cache, so it takes effect at once here; other instances on PostgreSQL clear theirs when the
+ * revocation's NOTIFY arrives (notifications/revocation-listener.ts), at the latest after TOKEN_CACHE_MS. Creating a user (granting its roles), issuing and revoking a token
  * are appended to identity_events, with the acting user and the token they acted with.
  */
 import { Injectable, OnModuleInit, Inject, Logger } from '@nestjs/common';
@@ -241,6 +241,11 @@ export class IdentitiesService implements OnModuleInit {
          FROM tokens t LEFT JOIN token_revocations r ON r.token_id = t.id WHERE t.user_id = $1 ORDER BY t.created_at`,
       [userId, this.ttlDays, this.nowIso()],
     );
+  }
+
+  /** Forgets every cached token lookup (a token was revoked, possibly on another instance). */
+  forgetCachedTokens(): void {
+    this.cache.clear();
   }
 
   async revokeToken(userId: string, tokenId: string, actor: IdentityActor): Promise<{ id: string; revoked: true }> {

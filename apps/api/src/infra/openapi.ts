@@ -20,11 +20,13 @@ import { commentSchema, decisionSchema, withdrawSchema } from '../reviews/review
 import { impactSchema } from '../rules/impact.service';
 import { recheckResponseSchema, recheckSchema } from '../rules/recheck.service';
 import { adoptSchema } from '../rules/rule-sets.service';
+import { mailPreferenceSchema } from '../notifications/mail.service';
+import { createEndpointSchema } from '../webhooks/webhooks.service';
 
 const json = (schema: ZodType, io: 'input' | 'output') => z.toJSONSchema(schema, { io, target: 'openapi-3.0', unrepresentable: 'any' });
 
 interface Route {
-  method: 'get' | 'post';
+  method: 'get' | 'post' | 'put';
   path: string;
   summary: string;
   tag: string;
@@ -98,6 +100,14 @@ export const ROUTES: Route[] = [
   { method: 'post', path: '/api/v1/products/{id}/checkpoints', summary: "Sign the product chain's current head (Ed25519 checkpoint {productId, seq, headHash, time})", tag: 'records', status: 201 },
   { method: 'post', path: '/api/v1/checkpoints/verify', summary: 'Whether the signature is ours and the current chain still contains that link with that hash', tag: 'records', request: checkpointSchema },
   { method: 'get', path: '/api/v1/checkpoints/public-key', summary: 'The Ed25519 public key that checks checkpoint signatures (no token needed)', tag: 'records', public: true },
+  { method: 'post', path: '/api/v1/webhooks', summary: 'Register a webhook endpoint (admin; Standard Webhooks); the answer holds its whsec_ secret, shown once', tag: 'webhooks', request: createEndpointSchema, status: 201 },
+  { method: 'get', path: '/api/v1/webhooks', summary: 'Webhook endpoints, without secrets (admin)', tag: 'webhooks' },
+  { method: 'get', path: '/api/v1/webhooks/{id}', summary: 'One webhook endpoint, without its secret (admin)', tag: 'webhooks' },
+  { method: 'post', path: '/api/v1/webhooks/{id}/disable', summary: 'Stop deliveries to an endpoint (admin)', tag: 'webhooks' },
+  { method: 'post', path: '/api/v1/webhooks/{id}/rotate', summary: 'A new secret for an endpoint, shown once (admin)', tag: 'webhooks' },
+  { method: 'get', path: '/api/v1/webhooks/{id}/attempts', summary: 'Every delivery attempt to an endpoint, newest first: status, error, outcome, next attempt (admin)', tag: 'webhooks' },
+  { method: 'get', path: '/api/v1/me/notifications', summary: "The caller's mail preference (address, on or off)", tag: 'notifications' },
+  { method: 'put', path: '/api/v1/me/notifications', summary: "Set the caller's mail preference: notifications go to this address when enabled", tag: 'notifications', request: mailPreferenceSchema },
   { method: 'get', path: '/health', summary: 'Database reachable (no token needed)', tag: 'health', public: true },
 ];
 

@@ -46,7 +46,10 @@ export async function migrateServer(config: MigrationConfig, logger = new Logger
     await owner.runMigrations({ transaction: 'each' });
     const role = runtimeRole(config);
     const [{ current_user: me }] = await owner.query(`SELECT current_user`);
-    if (role && role !== me) await grantRuntime(owner, role);
+    if (role && role !== me) {
+      await grantRuntime(owner, role);
+      await grantQueue(owner, role);
+    }
   } finally {
     await owner.destroy();
   }
@@ -82,6 +85,18 @@ export const INTERNAL_FUNCTIONS = ['leadline_ledger_next(text, bigint, text, tex
 
 /** Tables the runtime role inserts into directly: none of them is a record, identity or rule table. */
 export const RUNTIME_INSERT_TABLES = ['idempotency_keys'];
+/**
+ * The queue schema (migrations/20261205000000): SELECT and INSERT on its tables (enqueue, record a delivery attempt,
+ * set a mail preference) and EXECUTE on its functions, the only way a job, an endpoint or a lease changes.
+ */
+export async function grantQueue(q: { query(sql: string): Promise<unknown> }, role: string): Promise<void> {
+  const r = ident(role);
+  await q.query(`GRANT USAGE ON SCHEMA queue TO ${r}`);
+  await q.query(`REVOKE ALL ON ALL TABLES IN SCHEMA queue FROM ${r}`);
+  await q.query(`GRANT SELECT, INSERT ON queue.jobs, queue.webhook_endpoints, queue.webhook_attempts, queue.mail_preferences TO ${r}`);
+  await q.query(`GRANT EXECUTE ON FUNCTION queue.claim(text, text[], integer, timestamptz, integer), queue.finish(uuid, text, text, jsonb, text, timestamptz),
+    queue.report_progress(uuid, text, jsonb, timestamptz), queue.disable_endpoint(uuid, text), queue.rotate_endpoint_secret(uuid, text) TO ${r}`);
+}
 
 /** Warns when the service's own connection is a superuser or owns the record tables (it could then rewrite them). */
 export async function warnIfPrivileged(q: { query(sql: string): Promise<{ superuser: boolean; owner: boolean }[]> }, logger = new Logger('database')): Promise<void> {
