@@ -18,7 +18,7 @@ import { CreatedCaseInsensitiveProductCodeIndex20261204220000 } from './20261204
 import { SealedLinksAndMovedWritesIntoFunctions20261204230000 } from './20261204230000-sealed-links-and-moved-writes-into-functions';
 import { CreatedSigningKeyLedger20261204230100 } from './20261204230100-created-signing-key-ledger';
 import { ChainedIdentityEventsAndAdoptions20261204230200 } from './20261204230200-chained-identity-events-and-adoptions';
-import { CreatedJobQueueAndOutbox20261205000000 } from './20261205000000-created-job-queue-and-outbox';
+import { CreatedJobQueueAndOutbox20261205000200 } from './20261205000200-created-job-queue-and-outbox';
 
 export const MIGRATIONS = [
   CreatedRecordTables20261201220000,
@@ -40,5 +40,5 @@ export const MIGRATIONS = [
   SealedLinksAndMovedWritesIntoFunctions20261204230000,
   CreatedSigningKeyLedger20261204230100,
   ChainedIdentityEventsAndAdoptions20261204230200,
-  CreatedJobQueueAndOutbox20261205000000,
+  CreatedJobQueueAndOutbox20261205000200,
 ];

@@ -1,6 +1,6 @@
 /**
  * Token revocation honoured by every instance at once: a trigger on `token_revocations` sends
- * NOTIFY leadline_revocations when the revocation commits (migrations/20261205000000); each instance on PostgreSQL
+ * NOTIFY leadline_revocations when the revocation commits (migrations/20261205000200); each instance on PostgreSQL
  * listens and drops its cached token lookups on arrival. If the listening connection is lost, the cache's own
  * lifetime (two seconds) still bounds the delay. The embedded database is one process: its own revocation clears
  * its cache directly.

@@ -1,5 +1,5 @@
 /**
- * The durable job queue on the service's own database (schema `queue`, migrations/20261205000000).
+ * The durable job queue on the service's own database (schema `queue`, migrations/20261205000200).
  *
  * Enqueue inside the caller's transaction (`enqueue(q, ...)`): the job exists exactly when the transaction commits.
  * Record events enqueue themselves by trigger (the outbox). Every instance runs up to LEADLINE_WORKERS jobs at once;

@@ -86,7 +86,7 @@ export const INTERNAL_FUNCTIONS = ['leadline_ledger_next(text, bigint, text, tex
 /** Tables the runtime role inserts into directly: none of them is a record, identity or rule table. */
 export const RUNTIME_INSERT_TABLES = ['idempotency_keys'];
 /**
- * The queue schema (migrations/20261205000000): SELECT and INSERT on its tables (enqueue, record a delivery attempt,
+ * The queue schema (migrations/20261205000200): SELECT and INSERT on its tables (enqueue, record a delivery attempt,
  * set a mail preference) and EXECUTE on its functions, the only way a job, an endpoint or a lease changes.
  */
 export async function grantQueue(q: { query(sql: string): Promise<unknown> }, role: string): Promise<void> {

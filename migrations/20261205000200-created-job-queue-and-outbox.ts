@@ -16,8 +16,8 @@ import type { MigrationInterface, QueryRunner } from 'typeorm';
  * Claiming takes ready jobs with FOR UPDATE SKIP LOCKED (any number of instances, each job to one of them); a
  * running job whose lease ran out (its instance died) is taken again. Times are passed in by the service's clock.
  */
-export class CreatedJobQueueAndOutbox20261205000000 implements MigrationInterface {
-  name = 'CreatedJobQueueAndOutbox20261205000000';
+export class CreatedJobQueueAndOutbox20261205000200 implements MigrationInterface {
+  name = 'CreatedJobQueueAndOutbox20261205000200';
 
   async up(q: QueryRunner): Promise<void> {
     await q.query(`CREATE SCHEMA queue`);
