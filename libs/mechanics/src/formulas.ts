@@ -111,7 +111,7 @@ const list: readonly Formula[] = [
   { id: 'nut-bore-pressure', symbol: 'p_i', equation: 'p_i = F_r / (pi D_4 p) (first thread over one pitch of the bore)', source: 'radial force spread over one pitch of the bore at the nut thread root: common practice' },
   { id: 'nut-body-hoop-stress', symbol: 'sigma_t', equation: 'sigma_t = p_i (D_o^2 + D_4^2) / (D_o^2 - D_4^2) at the bore', source: `Lame, thick-walled cylinder under internal pressure (${SHIGLEY}, Sec. 3-16, Eq. (3-50), number from memory)` },
   { id: 'nut-body-von-mises', symbol: "sigma'_nut", equation: "sigma' = sqrt(((s_t - s_r)^2 + (s_r - s_a)^2 + (s_a - s_t)^2) / 2), s_r = -p_i, s_a = +/- sigma_a (worse sign)", source: `${SHIGLEY}, Eq. (5-12)` },
-  { id: 'nut-flange-shear', symbol: 'tau_f', equation: 'tau_f = F / (pi D_o t_f)', source: "direct shear on the flange root cylinder, as the stripping planes of Machinery's Handbook 'Strength of screw threads' (from memory)" },
+  { id: 'nut-flange-shear', symbol: 'tau_f', equation: 'tau_f = F / (pi D_o t_f)', source: "direct shear on the flange root cylinder, as the stripping planes of Machinery's Handbook, 29th ed., 'Strength of screw threads' (edition from memory)" },
   { id: 'nut-flange-bending', symbol: 'sigma_f', equation: 'sigma_f = 6 F a / (pi D_o t_f^2), a = (D_f - D_o) / 4', source: `cantilever ring of ${SHIGLEY}, Eq. (8-10) applied to the flange, load at mid-width (common practice)` },
   { id: 'worn-thread-thickness', symbol: 't_w', equation: 't_w = max(0, t_n - w), w the axial wear', source: 'axial play equals the loss of axial thread thickness (flank geometry; common practice of nut-wear gauging)' },
   // engine 1.2: operation, heat and wear life
