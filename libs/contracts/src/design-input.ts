@@ -14,6 +14,7 @@ import {
   BUTTRESS_PROFILES,
   TOLERANCE_CLASSES,
   HOISTING_CLASSES,
+  threadGeometry,
   iso2903Row,
   DIMENSION_HINT,
   type Design,
@@ -526,6 +527,13 @@ function normalizeDesign(input: Parsed): DesignParseResult {
         motorInertia: opt(dr.motorInertia, 'inertia', 'drive.motorInertia'),
       }
     : null;
+  // The nut body's wall lies outside the nut thread's root (D_4, above the major diameter where the form has a clearance)
+  if (issues.length === 0 && majorDiameter !== null && pitch !== null && nut.outsideDiameter != null && (th.form !== 'buttress' || loadFlankAngle !== null)) {
+    const root = threadGeometry({ form: th.form, majorDiameter, pitch, starts: th.starts ?? 1, loadFlankAngle }).nutMajorDiameter;
+    if (!(nut.outsideDiameter > root)) {
+      issues.push({ path: 'nut.outsideDiameter', message: `must be larger than the nut thread's root diameter (${Number((root * 1000).toPrecision(6))} mm)` });
+    }
+  }
   if (issues.length > 0 || majorDiameter === null || pitch === null || threadFriction === null) {
     return { success: false, issues };
   }
