@@ -41,7 +41,9 @@ export const sizingRequirementsSchema = z.strictObject({
   duty: design.duty,
   friction: design.friction,
   collar: z.union([collarRatioSchema, collarSchema]).describe('a collar as in a design, or { kind, meanDiameterRatio }'),
-  nut: design.nut.omit({ length: true }).describe('nut material and optional allowables as in a design; the search sets the length'),
+  // The nut body's outside diameter and flange depend on the thread size the search picks: not a requirement
+  nut: design.nut.omit({ length: true, outsideDiameter: true, flange: true })
+    .describe('nut material and optional allowables as in a design; the search sets the length (the body and flange follow the size chosen)'),
   screw: design.screw,
   drive: design.drive,
 });

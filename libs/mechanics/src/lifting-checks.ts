@@ -108,7 +108,8 @@ export function liftingChecks(x: LiftingInputs) {
     hoopStress: number; radialStress: number; vonMises: number; safetyFactor: number | null;
     flange: { outsideDiameter: number; thickness: number; shear: number; bending: number; safetyFactor: number | null } | null;
   };
-  const Do = nut.outsideDiameter ?? null;
+  // An outside diameter inside the nut thread's root leaves no wall (the input refuses it; guarded for designs built in code)
+  const Do = nut.outsideDiameter != null && nut.outsideDiameter > x.nutMajorDiameter ? nut.outsideDiameter : null;
   if (Do !== null) {
     const Di = x.nutMajorDiameter;
     const area = (Math.PI / 4) * (Do * Do - Di * Di);
