@@ -92,7 +92,7 @@ export const evaluationSchema = z.object({
   }).nullable().optional().describe("the nut's threads worn by the wear allowed (engine 1.2)"),
   operation: z.object({
     stroke: nnum, travelTime: nnum, linearSpeed: nnum, rotationalSpeed: nnum, motorPower: nnum, heatPerCycle: nnum, runningPowerLoss: nnum,
-    meanPowerLoss: nnum, meanPowerLossBasis: z.enum(['cycles-per-hour', 'duty-cycle']).nullable(),
+    meanPowerLoss: nnum, meanPowerLossBasis: z.string().nullable().describe("'cycles-per-hour' or 'duty-cycle' (the larger when both are given); null without either"),
   }).optional().describe('stroke [m], travel time [s], speeds, motor power [W], heat per cycle [J], power losses [W] (engine 1.2)'),
   thermal: z.object({
     ambientTemperature: num, ambientBasis: z.enum(['stated', 'default']), heatTransferCoefficient: num, nutSurfaceArea: num, temperatureRise: num,
@@ -122,7 +122,7 @@ export const evaluationSchema = z.object({
   }).nullable().optional().describe('Goodman fatigue of the screw root and nut threads under repeated lifting (engine 1.2)'),
   collarBearing: z.object({
     kind: z.enum(['plain', 'annular', 'rolling']), bearingPressure: nnum, allowablePressure: nnum, pressureRatio: nnum, dynamicRating: nnum,
-    staticRating: nnum, rollingElement: z.enum(['ball', 'roller']).nullable(), ratingSource: z.string().nullable(), ratingLife: nnum.describe('10^6 rev'),
+    staticRating: nnum, rollingElement: z.string().nullable().describe("'ball' or 'roller' as stated; null: not stated (taken as roller)"), ratingSource: z.string().nullable(), ratingLife: nnum.describe('10^6 rev'),
     ratingLifeHours: nnum, staticSafetyFactor: nnum,
   }).nullable().optional().describe('the collar as a bearing: plain pressure, or rolling L10 and static safety (engine 1.2)'),
   notComputed: z.array(z.object({ subject: z.string(), missing: z.array(z.string()), reason: z.string() })).optional()
