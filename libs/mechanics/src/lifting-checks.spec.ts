@@ -216,6 +216,40 @@ describe('operation, heat and dynamics (hand arithmetic on the cited formulas)',
   });
 });
 
+describe("wear life by Archard's law (Archard 1953; Hutchings, Tribology, Sec. 5.2, from memory)", () => {
+  // p = 20 kN / (pi 36.5 x 3.5 x 10 mm^2) = 4.98333 MPa (Shigley 10th ed., Eq. (8-9)); w = 1.5 mm (the safety nut gap):
+  // s = w cos 15 deg / (k p) with k = 1e-6 mm^3/(N*m) = 1e-15 m^2/N: 290,747 m; v_s at 60 rpm 0.114882 m/s -> 703.01 running h;
+  // one cycle slides 2 x 0.5 m x pi d_m / (l cos lambda) = 16.412 m: 17,715.9 cycles, at 4 cycles/h 4,428.98 h
+  const e = run(jack({
+    nut: { safetyNut: { length: '28 mm', gap: '1.5 mm' }, wearCoefficient: { value: '1e-6 mm^3/(N*m)', source: 'pin-on-disc test of an invented laboratory' } },
+    duty: { speed: '60 rpm', stroke: '500 mm', cyclesPerHour: 4 },
+  }));
+
+  it('sliding distance, running hours, cycles and hours', () => {
+    expectClose(e.wearLife?.slidingDistance ?? NaN, 290747.39, { rtol: 1e-7 });
+    expectClose(e.wearLife?.runningHours ?? NaN, 703.01222, { rtol: 1e-7 });
+    expectClose(e.wearLife?.cycles ?? NaN, 17715.908, { rtol: 1e-7 });
+    expectClose(e.wearLife?.hours ?? NaN, 4428.9770, { rtol: 1e-7 });
+    expect(e.wearLife?.wearCoefficientSource).toMatch(/pin-on-disc/);
+  });
+
+  it('without a wear coefficient the wear life is listed as not computed, naming it', () => {
+    const plain = run(jack({ nut: { safetyNut: { length: '28 mm', gap: '1.5 mm' } } }));
+    expect(plain.wearLife).toBeNull();
+    expect(plain.notComputed?.find((n) => n.subject === 'wearLife')?.missing).toEqual(['nut.wearCoefficient (with its source)']);
+  });
+});
+
+describe('plastic nut temperature limit', () => {
+  it("a nylon nut carries its limit (Mott Table 16-1, 93 C, from memory) and the pV-by-temperature gap is named", () => {
+    const e = run(jack({ nut: { material: 'nylon', allowablePressure: '5 MPa', outsideDiameter: '60 mm' }, duty: { speed: '60 rpm', dutyCycle: 0.1 } }));
+    expectClose(e.thermal?.maxTemperature ?? NaN, 366.15, { rtol: 1e-12 });
+    expectClose(e.thermal?.temperatureMargin ?? NaN, 366.15 - (e.thermal?.nutTemperature ?? NaN), { rtol: 1e-12 });
+    expect(e.thermal?.ambientBasis).toBe('default'); // 40 C, IEC 60204-1 (from memory)
+    expect(e.notComputed?.some((n) => n.subject === 'wear.pvAtTemperature')).toBe(true);
+  });
+});
+
 describe('stopping a descending load (Meriam & Kraige, Dynamics, 7th ed., Sec. 5/2, from memory)', () => {
   // J_s = (pi 7801 x 1 / 32)(0.032^4 + 0.040^4)/2 = 1.381835e-3; J_L = (20000 / 9.80665)(0.007 / 2 pi)^2 = 2.531312e-3 kg*m^2;
   // T_0 = 22.28169 N*m; 0.05 s free: omega_1 = 2 pi + (T_0 / J) 0.05 = 290.9862 rad/s; alpha_b = (50 - T_0) / J = 7083.381;
