@@ -66,6 +66,13 @@ export const sizingSearchSchema = z.strictObject({
         .describe('nut lengths to try as multiples of the major diameter (default 1.5, 2, 2.5, 3)'),
     })
     .optional(),
+  toleranceClass: z
+    .strictObject({
+      trapezoidal: z.string().max(20).optional().describe('"7H/7e" (ISO 2903; sizes without its limits are then left out)'),
+      acme: z.string().max(20).optional().describe('"2G", "3G" or "4G" (ASME B1.5)'),
+    })
+    .optional()
+    .describe("tolerance class per thread form; each candidate is judged at the class's minimum-material diameters and its design carries it"),
   objective: z.enum(SIZING_OBJECTIVES).optional().describe('how candidates are ranked (default smallest-diameter)'),
   limit: z.number().int('limit must be a whole number').min(1, 'limit must be at least 1').max(500, 'limit must not exceed 500').optional()
     .describe('most candidates listed (default 20)'),
