@@ -141,7 +141,7 @@ export const PRESENTATION: Readonly<Record<string, FormulaPresentation>> = {
   // engine 1.2 formulas: display kinds only (the report lists the substituted inputs)
   'allowable-pressure-no-speed': { inputs: { p_allow: 'pressure', classes: 'count' }, result: 'pressure' },
   'critical-speed-thread-mass': { result: 'rpm' },
-  'motor-holding-torque-no-friction': { inputs: { T_0: 'torque', i: 'ratio' }, result: 'torque' },
+  'motor-holding-torque-no-friction': { inputs: { T_0: 'torque', i: 'ratio' }, result: 'torque', substitute: (v) => `${v.T_0} / ${v.i}` },
   'nut-body-axial-stress': { inputs: { D_4: 'length' }, result: 'stress' },
   'nut-radial-flank-force': { result: 'force' },
   'nut-bore-pressure': { inputs: { F_r: 'force', D_4: 'length' }, result: 'pressure' },
