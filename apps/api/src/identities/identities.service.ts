@@ -8,6 +8,7 @@
 import { Injectable, OnModuleInit, Inject, Logger } from '@nestjs/common';
 import { createHash, randomBytes, randomUUID } from 'node:crypto';
 import { z } from 'zod';
+import { displayableName } from '@leadline/contracts';
 import { APP_CONFIG, type AppConfig } from '../infra/config';
 import { CLOCK, type Clock } from '../infra/clock';
 import { Database, type Queryer } from '../infra/database/database.service';
@@ -26,7 +27,7 @@ export interface Principal {
 }
 
 export const createUserSchema = z.strictObject({
-  name: z.string().min(1).max(120),
+  name: z.string().min(1).max(120).superRefine(displayableName),
   roles: z.array(z.enum(ROLES)).min(1).max(3),
 });
 
