@@ -110,6 +110,43 @@ describe('request validation', () => {
   });
 });
 
+describe('tolerance class (search.toleranceClass)', () => {
+  it('each candidate is judged at the class and its design carries it; the same design evaluated alone agrees exactly', () => {
+    const p = plan({ requirements: TEXTBOOK_JACK, search: { forms: ['trapezoidal', 'acme'], toleranceClass: { trapezoidal: '7H/7e', acme: '3G' } } });
+    const r = searchScrews(p, DEFAULT_RULE_SET);
+    expect(r.candidates.length).toBeGreaterThan(0);
+    for (const c of r.candidates) {
+      const input = c.design as { thread: { form: string; toleranceClass?: string } };
+      expect(input.thread.toleranceClass).toBe(input.thread.form === 'trapezoidal' ? '7H/7e' : '3G');
+      const parsed = parseDesign(c.design);
+      if (!parsed.success) throw new Error(JSON.stringify(parsed.issues));
+      const e = evaluate(parsed.design);
+      expect(e.geometry.minimumMaterial.toleranceClass).toBe(input.thread.toleranceClass);
+      expect(e.torque.raise.atMaxFriction).toBe(c.figures.raiseTorque);
+      expect(e.safetyFactors.buckling).toBe(c.figures.bucklingFactor);
+    }
+  });
+
+  it('a class never raises a strength factor of a candidate (ISO 2903 and ASME B1.5 minimum material)', () => {
+    const basic = plan({ requirements: TEXTBOOK_JACK, search: { majorDiameter: { max: '60 mm' } } });
+    const classed = plan({ requirements: TEXTBOOK_JACK, search: { majorDiameter: { max: '60 mm' }, toleranceClass: { trapezoidal: '7H/7e', acme: '2G' } } });
+    for (const size of classed.sizes) {
+      const [pa, pb] = [parseDesign(candidateInput(basic, size, 1, 2)), parseDesign(candidateInput(classed, size, 1, 2))];
+      if (!pa.success || !pb.success) throw new Error(`${size.designation} rejected`);
+      const a = evaluate(pa.design).safetyFactors;
+      const b = evaluate(pb.design).safetyFactors;
+      for (const k of ['bodyVonMises', 'firstThreadRoot', 'strippingScrew', 'buckling'] as const) {
+        if (a[k] !== null && b[k] !== null) expect([size.designation, k, (b[k] as number) <= (a[k] as number) * (1 + 1e-12)]).toEqual([size.designation, k, true]);
+      }
+    }
+  });
+
+  it('a class the form does not hold names the field', () => {
+    const p = parseSizingRequest({ requirements: TEXTBOOK_JACK, search: { toleranceClass: { acme: '7H/7e' } } });
+    expect(p.success ? [] : p.issues.map((i) => i.path)).toEqual(['search.toleranceClass.acme']);
+  });
+});
+
 describe('floorSignificant', () => {
   it('rounds down to 5 significant figures and never up', () => {
     expect(floorSignificant(87684.99, 5)).toBe(87684);
