@@ -13,7 +13,7 @@
  */
 import { parseDesign, type DesignInput } from '@leadline/contracts';
 import { evaluate, type Design, type Evaluation } from '@leadline/mechanics';
-import { DEFAULT_RULE_SET, type Thresholds } from '../rule-set';
+import { RULE_SET_2026_12_2, type Thresholds } from '../rule-set';
 import type { RuleContext } from '../rule';
 
 /**
@@ -65,8 +65,11 @@ export function withDuty(input: DesignInput, duty: Partial<DesignInput['duty']>)
   return { ...input, duty: { ...input.duty, ...duty } };
 }
 
-/** A rule context under the default thresholds unless given. */
-export function contextOf(e: Evaluated, thresholds: Thresholds = DEFAULT_RULE_SET.thresholds): RuleContext {
+/**
+ * A rule context under rule set 2026.12-2 unless given: the specs of the rules written before 2026.12-3 pin the static
+ * path as that version judges it (still built in, judging its revisions); the 2026.12-3 specs pass its thresholds.
+ */
+export function contextOf(e: Evaluated, thresholds: Thresholds = RULE_SET_2026_12_2.thresholds): RuleContext {
   return { design: e.design, evaluation: e.evaluation, thresholds };
 }
 
