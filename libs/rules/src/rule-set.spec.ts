@@ -1,10 +1,11 @@
-import { BUILT_IN_RULE_SETS, DEFAULT_RULE_SET, RULE_SET_2026_12_1, RULE_SET_2026_12_2, nutThreadMinSafetyFactor, parseRuleSet, ruleSetDefinitionSchema } from './rule-set';
+import { BUILT_IN_RULE_SETS, DEFAULT_RULE_SET, RULE_SET_2026_12_1, RULE_SET_2026_12_2, RULE_SET_2026_12_3, nutThreadMinSafetyFactor, parseRuleSet, ruleSetDefinitionSchema } from './rule-set';
 
 const clone = <T>(x: T): T => JSON.parse(JSON.stringify(x)) as T;
 
 describe('rule-set definition', () => {
-  it('the default rule set is version 2026.12-3 and passes its own schema', () => {
-    expect(DEFAULT_RULE_SET.version).toBe('2026.12-3');
+  it('the default rule set is version 2026.12-2 and 2026.12-3 passes its own schema', () => {
+    expect(DEFAULT_RULE_SET.version).toBe('2026.12-2');
+    expect(ruleSetDefinitionSchema.parse(RULE_SET_2026_12_3)).toEqual(RULE_SET_2026_12_3);
     expect(ruleSetDefinitionSchema.parse(DEFAULT_RULE_SET)).toEqual(DEFAULT_RULE_SET);
   });
 
@@ -30,7 +31,7 @@ describe('rule-set definition', () => {
 
   it('2026.12-3 keeps every 2026.12-2 threshold', () => {
     for (const [group, values] of Object.entries(RULE_SET_2026_12_2.thresholds)) {
-      expect((DEFAULT_RULE_SET.thresholds as Record<string, unknown>)[group]).toEqual(values);
+      expect((RULE_SET_2026_12_3.thresholds as Record<string, unknown>)[group]).toEqual(values);
     }
   });
 

@@ -302,8 +302,12 @@ export const RULE_SET_2026_12_3: RuleSet = {
 /** Rule sets built into the service, oldest first; the service stores each of them at start. */
 export const BUILT_IN_RULE_SETS: readonly RuleSet[] = Object.freeze([RULE_SET_2026_12_1, RULE_SET_2026_12_2, RULE_SET_2026_12_3]);
 
-/** The rule set new submissions are judged by until an admin adopts another. */
-export const DEFAULT_RULE_SET: RuleSet = RULE_SET_2026_12_3;
+/**
+ * The rule set new submissions are judged by until an admin adopts another (POST /api/v1/rule-sets/:version/adopt).
+ * 2026.12-3 is built in and adoptable; it is not yet the start default because it blocks every lifting design that lacks
+ * the engine 1.2 inputs (nut outside diameter, safety nut or wear limit, load cycles, duty), stored demo work included.
+ */
+export const DEFAULT_RULE_SET: RuleSet = RULE_SET_2026_12_2;
 
 /** Whether strength checks on lifting duty read the dynamic factors (2026.12-3 on). */
 export function dynamicFactorOnLifting(t: Thresholds): boolean {
