@@ -262,6 +262,9 @@ it('takes a design from a new product to an approved second revision and its des
   close(await figure(author, 'nut-pressure-allowable'), e.wear.allowablePressure, 1e-6);
   close(await figure(author, 'pv'), e.wear.pv, 1e-6);
   close(await figure(author, 'drive-margin'), e.drive.margin);
+  // engine 1.2 operation figures: lifting speed in m/min, motor power in W
+  close(await figure(author, 'lifting-speed'), e.operation.linearSpeed, 60);
+  close(await figure(author, 'motor-power'), e.operation.motorPower);
   close(await figure(author, 'drive-required'), e.drive.peakTorqueAtMotor);
   expect(await text(author, '[data-figure="nut-pressure-class"]')).toBe(e.wear.allowablePressureClass);
   close(await figure(author, 'brake-holding'), e.brake.holdingTorqueNoFriction);

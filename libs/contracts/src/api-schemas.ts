@@ -62,7 +62,8 @@ export const evaluationSchema = z.object({
     // added with engine 1.1 (absent from evaluations stored by earlier engine versions)
     allowablePressureClass: z.string().nullable().optional().describe('which allowable applied: the class of a speed-rated table, or the single value at any speed'),
     allowablePressureSource: z.string().nullable().optional(),
-    allowablePressureBasis: z.enum(['speed-rated', 'any-speed']).nullable().optional(),
+    allowablePressureBasis: z.enum(['speed-rated', 'lowest-class-no-speed', 'any-speed']).nullable().optional()
+      .describe("'lowest-class-no-speed' (engine 1.2): no speed given, the lowest allowable of the classes"),
   }),
   power: z.object({ input: nnum, linearSpeed: nnum, rotationalSpeed: nnum }),
   brake: z.object({
@@ -78,6 +79,55 @@ export const evaluationSchema = z.object({
     peakTorqueAtMotor: num.optional(), holdingTorqueAtMotor: num.optional(),
   }).nullable(),
   safetyFactors: z.object({ bodyVonMises: num, firstThreadRoot: num, strippingScrew: num, strippingNut: nnum, nutThreadRoot: nnum.optional().describe("the nut's own threads; null without a nut yield"), buckling: nnum }),
+  // added with engine 1.2 (absent from evaluations stored by earlier engine versions)
+  nutBody: z.object({
+    outsideDiameter: num, boreDiameter: num, sectionArea: num, axialStress: num, radialForce: num, borePressure: num, hoopStress: num,
+    radialStress: num, vonMises: num, safetyFactor: nnum,
+    flange: z.object({ outsideDiameter: num, thickness: num, shear: num, bending: num, safetyFactor: nnum }).nullable(),
+  }).nullable().optional().describe('nut body and flange stresses [Pa] (engine 1.2); null without nut.outsideDiameter'),
+  safetyNut: z.object({
+    length: num, gap: num, engagedThreads: num, strippingScrew: num, strippingNut: num, strippingScrewFactor: num, strippingNutFactor: nnum, gapOverPitch: num,
+  }).nullable().optional().describe('safety (follower) nut as the second load path (engine 1.2)'),
+  wornThread: z.object({
+    wear: num, basis: z.enum(['stated', 'safety-nut-gap']), wearOverPitch: num, nutThickness: num, wornNutThickness: num, strippingNut: num, strippingNutFactor: nnum,
+  }).nullable().optional().describe("the nut's threads worn by the wear allowed (engine 1.2)"),
+  operation: z.object({
+    stroke: nnum, travelTime: nnum, linearSpeed: nnum, rotationalSpeed: nnum, motorPower: nnum, heatPerCycle: nnum, runningPowerLoss: nnum,
+    meanPowerLoss: nnum, meanPowerLossBasis: z.string().nullable().describe("'cycles-per-hour' or 'duty-cycle' (the larger when both are given); null without either"),
+  }).optional().describe('stroke [m], travel time [s], speeds, motor power [W], heat per cycle [J], power losses [W] (engine 1.2)'),
+  thermal: z.object({
+    ambientTemperature: num, ambientBasis: z.enum(['stated', 'default']), heatTransferCoefficient: num, nutSurfaceArea: num, temperatureRise: num,
+    nutTemperature: num, maxTemperature: nnum, maxTemperatureSource: z.string().nullable(), temperatureMargin: nnum,
+  }).nullable().optional().describe('steady nut temperature by a heat balance [K] (engine 1.2)'),
+  wearLife: z.object({
+    wearCoefficient: num, wearCoefficientSource: z.string(), allowableWear: num, slidingDistance: num, runningHours: nnum, cycles: nnum, hours: nnum,
+  }).nullable().optional().describe("Archard wear life from the design's wear coefficient (engine 1.2)"),
+  dynamics: z.object({
+    dynamicFactor: num, basis: z.enum(['stated', 'hoisting-class', 'not-lifting']), hoistingClass: z.string().nullable(), hoistingSpeed: nnum, dynamicLoad: num,
+    safetyFactors: z.object({
+      bodyVonMises: num, firstThreadRoot: num, strippingScrew: num, strippingNut: nnum, nutThreadRoot: nnum, buckling: nnum, nutBody: nnum, nutFlange: nnum,
+      safetyNutStripping: nnum,
+    }),
+  }).optional().describe('dynamic factor and the strength factors divided by it (engine 1.2)'),
+  stopping: z.object({
+    brakeTorqueAtScrew: num, loadTorque: num, inertia: num, responseTime: num, stops: z.boolean(), stoppingAngle: nnum, stoppingDistance: nnum,
+    stoppingTime: nnum, brakeEnergy: nnum,
+  }).nullable().optional().describe('stopping a descending load with the brake [rad, m, s, J] (engine 1.2)'),
+  fatigue: z.object({
+    cycles: num, dynamicFactor: num, stressConcentration: num,
+    screwRoot: z.object({
+      maxStress: num, amplitude: num, mean: num, tensileStrength: num, specimenEnduranceLimit: num, surfaceFactor: num, sizeFactor: num,
+      loadFactor: num, enduranceLimit: num, safetyFactor: num,
+    }).nullable(),
+    nutThread: z.object({ maxStress: num, amplitude: num, mean: num, tensileStrength: num, fatigueStrength: num, safetyFactor: num }).nullable(),
+  }).nullable().optional().describe('Goodman fatigue of the screw root and nut threads under repeated lifting (engine 1.2)'),
+  collarBearing: z.object({
+    kind: z.enum(['plain', 'annular', 'rolling']), bearingPressure: nnum, allowablePressure: nnum, pressureRatio: nnum, dynamicRating: nnum,
+    staticRating: nnum, rollingElement: z.string().nullable().describe("'ball' or 'roller' as stated; null: not stated (taken as roller)"), ratingSource: z.string().nullable(), ratingLife: nnum.describe('10^6 rev'),
+    ratingLifeHours: nnum, staticSafetyFactor: nnum,
+  }).nullable().optional().describe('the collar as a bearing: plain pressure, or rolling L10 and static safety (engine 1.2)'),
+  notComputed: z.array(z.object({ subject: z.string(), missing: z.array(z.string()), reason: z.string() })).optional()
+    .describe('every check the engine could not compute and the inputs it lacks (engine 1.2)'),
   findings: z.array(findingSchema),
   trace: z.record(z.string(), z.object({ formula: z.string(), inputs: z.record(z.string(), num) })),
 });

@@ -186,7 +186,28 @@ describe('parseDesign: library entries and standard sizes', () => {
       'collar/soft-steel-cast-iron': [0.12, 0.17], 'collar/hard-steel-cast-iron': [0.09, 0.15],
       'collar/soft-steel-bronze': [0.08, 0.1], 'collar/hard-steel-bronze': [0.06, 0.08],
     };
-    expect(Object.fromEntries(FRICTION_LIBRARY.map((e) => [e.id, [e.min, e.max]]))).toEqual(table);
+    const sliding = FRICTION_LIBRARY.filter((e) => e.contact === 'sliding');
+    expect(Object.fromEntries(sliding.map((e) => [e.id, [e.min, e.max]]))).toEqual(table);
+  });
+
+  it('rolling thrust bearings as collar entries: SKF catalogue constant mu (from memory) 0.0013 ball, 0.005 cylindrical, 0.0018 spherical, 0.005 needle; max 2 mu', () => {
+    const rolling = FRICTION_LIBRARY.filter((e) => e.contact === 'rolling');
+    expect(rolling.every((e) => e.surface === 'collar')).toBe(true);
+    expect(Object.fromEntries(rolling.map((e) => [e.id, [e.min, e.max]]))).toEqual({
+      'collar/rolling/thrust-ball': [0.0013, 0.0026],
+      'collar/rolling/cylindrical-roller-thrust': [0.005, 0.01],
+      'collar/rolling/spherical-roller-thrust': [0.0018, 0.0036],
+      'collar/rolling/needle-roller-thrust': [0.005, 0.01],
+    });
+  });
+
+  it('a rolling collar with a rolling entry: the raise torque falls by the collar torque the sliding pair had', () => {
+    const input = shigleySi();
+    const sliding = evaluate(parsed({ ...input, collar: { kind: 'rolling', meanDiameter: '40 mm' }, friction: { ...input.friction, collar: { entry: 'collar/hard-steel-bronze' } } }));
+    const rolling = evaluate(parsed({ ...input, collar: { kind: 'rolling', meanDiameter: '40 mm' }, friction: { ...input.friction, collar: { entry: 'collar/rolling/thrust-ball' } } }));
+    // T_c = F f_c d_c / 2 (Shigley 10th ed., Eq. (8-6)): 6.4 kN x 0.0026 x 0.040 / 2 = 0.3328 N*m at maximum friction
+    expectClose(rolling.torque.collar.atMaxFriction, 0.3328, { rtol: 1e-9 });
+    expect(rolling.torque.raise.atMaxFriction).toBeLessThan(sliding.torque.raise.atMaxFriction);
   });
 
   it('a screw material supplies Sy, E and density; a nut material its allowables (overridable field by field)', () => {
@@ -233,8 +254,14 @@ describe('parseDesign: every validation error names the field at fault', () => {
     ['size of another form', 'thread.size', /is a trapezoidal size, but thread.form is acme/, (d) => (d.thread = { form: 'acme', size: 'Tr 24x5' })],
     ['size disagreeing with a given major diameter', 'thread.majorDiameter', /disagrees with size Tr 24x5/, (d) => (d.thread = { form: 'trapezoidal', size: 'Tr 24x5', majorDiameter: '25 mm' })],
     ['neither size nor major diameter', 'thread.majorDiameter', /required unless thread.size/, (d) => delete d.thread.majorDiameter],
-    ['nut material of its own without an allowable pressure', 'nut.material', /"unobtainium" is not a library nut material.*needs nut.allowablePressure/, (d) => { d.nut.material = 'unobtainium'; delete d.nut.allowablePressure; }],
-    ['nut material of its own without a pV limit at speed', 'nut.material', /needs nut.allowablePv \(a speed is given\)/, (d) => { d.nut.material = 'unobtainium'; delete d.nut.allowablePv; }],
+    ['a nut outside diameter inside the thread', 'nut.outsideDiameter', /must be larger than the thread's major diameter/, (d) => (d.nut.outsideDiameter = '32 mm')],
+    ['a flange without the nut outside diameter', 'nut.outsideDiameter', /a flange needs/, (d) => (d.nut.flange = { outsideDiameter: '80 mm', thickness: '10 mm' })],
+    ['a flange smaller than the nut body', 'nut.flange.outsideDiameter', /larger than the nut's outside diameter/, (d) => { d.nut.outsideDiameter = '50 mm'; d.nut.flange = { outsideDiameter: '45 mm', thickness: '10 mm' }; }],
+    ['bearing ratings without their source', 'collar.ratingSource', /name where the bearing's ratings come from/, (d) => (d.collar = { kind: 'rolling', meanDiameter: '40 mm', dynamicRating: '30 kN' })],
+    ['a temperature in a length unit', 'duty.ambientTemperature', /not a temperature/, (d) => (d.duty.ambientTemperature = '20 mm')],
+    ['a brake response time without a brake', 'duty.brakeResponseTime', /needs duty.brake true/, (d) => { d.duty.brake = false; d.duty.brakeResponseTime = '50 ms'; }],
+    ['a dynamic factor below 1', 'duty.dynamicFactor', /at least 1/, (d) => (d.duty.dynamicFactor = 0.9)],
+    ['a wear coefficient without its source', 'nut.wearCoefficient.source', /expected string|Invalid input/, (d) => (d.nut.wearCoefficient = { value: '1e-6 mm^3/(N*m)' })],
     ['a value overflowing on conversion ("1e308 GPa")', 'screw.elasticModulus', /too large to compute with/, (d) => (d.screw.elasticModulus = '1e308 GPa')],
     ['friction range inside the choice with "min": "NaN"', 'friction.collar.min', /expected number, received string/, (d) => (d.friction.collar = { min: 'NaN', max: 0.2, source: otherSource })],
     ['friction range inside the choice with a bad source kind', 'friction.thread.source.kind', /expected one of/, (d) => (d.friction.thread = { min: 0.1, max: 0.2, source: { kind: 'guess', reference: 'x' } })],
@@ -282,11 +309,10 @@ describe('parseDesign: every validation error names the field at fault', () => {
   it('reports several independent problems at once, each with its own path', () => {
     const input = shigleySi() as Record<string, any>; // eslint-disable-line @typescript-eslint/no-explicit-any
     input.collar = { kind: 'annular', outerDiameter: '20 mm', innerDiameter: '50 mm', model: 'uniform-wear' };
-    input.nut.material = 'unobtainium';
-    delete input.nut.allowablePressure;
+    input.nut.length = '0.5 mm';
     input.duty.linearSpeed = '1 m/min';
     const result = parseDesign(input);
-    expect(result.success ? [] : result.issues.map((i) => i.path).sort()).toEqual(['collar.innerDiameter', 'duty.linearSpeed', 'nut.material']);
+    expect(result.success ? [] : result.issues.map((i) => i.path).sort()).toEqual(['collar.innerDiameter', 'duty.linearSpeed', 'nut.length']);
   });
 });
 
@@ -299,6 +325,19 @@ describe("parseDesign: a nut material of the design's own", () => {
     expect(design.nut.allowablePressure).toBe(10e6);
     expect(design.nut.allowablePv).toBe(1.5e6);
     expect(design.nut.yieldStrength).toBe(120e6);
+  });
+
+  it('without its allowables it is still evaluated: each check it cannot compute is listed with the missing value (no refusal)', () => {
+    const input = shigleySi();
+    const design = parsed({ ...input, duty: { kind: 'lifting', speed: '30 rpm', brake: true }, nut: { length: '24 mm', material: 'own bronze N-7' } });
+    expect(design.nut.materialSource).toBe('design');
+    const e = evaluate(design);
+    expect(e.wear.allowablePressure).toBeNull();
+    expect(e.wear.pressureRatio).toBeNull();
+    const missing = Object.fromEntries((e.notComputed ?? []).map((n) => [n.subject, n.missing]));
+    expect(missing['wear.pressureRatio']?.[0]).toMatch(/nut.allowablePressure/);
+    expect(missing['wear.pvRatio']).toEqual(['nut.allowablePv']);
+    expect(missing['safetyFactors.strippingNut']).toEqual(['nut.yieldStrength']);
   });
 
   it('without a speed, pV is not needed', () => {
@@ -321,6 +360,37 @@ describe("parseDesign: a nut material of the design's own", () => {
       nut: { length: '24 mm', material: 'bronze', allowablePressureBySpeed: [{ upToRubbingSpeed: '3 m/min', allowablePressure: '12 MPa' }, { allowablePressure: '2 MPa' }] },
     });
     expect(design.nut.pressureBySpeed?.map((s) => [s.upToRubbingSpeed, s.allowablePressure])).toEqual([[0.05, 12e6], [null, 2e6]]);
+  });
+});
+
+describe('parseDesign: engine 1.2 inputs in engine units', () => {
+  it('temperatures to kelvin (degC + 273.15, degF by 5/9, NIST SP 811 B.8), wear rate mm^3/(N*m) = 1e-9 m^2/N, inertia, lengths', () => {
+    const input = shigleySi();
+    const design = parsed({
+      ...input,
+      nut: { ...input.nut, outsideDiameter: '60 mm', flange: { outsideDiameter: '90 mm', thickness: '12 mm' }, safetyNut: { length: '16 mm', gap: '1 mm' },
+        maxTemperature: '212 degF', wearCoefficient: { value: '2e-6 mm^3/(N*m)', source: 'pin-on-disc test report of an invented lab' } },
+      duty: { ...input.duty, ambientTemperature: '20 degC', stroke: '300 mm', cycles: 2e5, hoistingClass: 'HC3', brakeResponseTime: '80 ms' },
+      drive: { availableTorque: '40 N*m', motorInertia: '0.0012 kg*m^2' },
+    });
+    expectClose(design.duty.ambientTemperature ?? NaN, 293.15, { rtol: 1e-12 });
+    expectClose(design.nut.maxTemperature ?? NaN, 373.15, { rtol: 1e-12 });
+    expectClose(design.nut.wearCoefficient?.value ?? NaN, 2e-15, { rtol: 1e-12 });
+    expect(design.nut.safetyNut).toEqual({ length: 0.016, gap: 0.001 });
+    expect(design.drive?.motorInertia).toBe(0.0012);
+    expect(design.duty.hoistingClass).toBe('HC3');
+    expectClose(design.duty.brakeResponseTime ?? NaN, 0.08, { rtol: 1e-12 });
+  });
+
+  it("a trapezoidal nut's wall must clear the nut thread's root D4 = d + 2 a_c (ISO 2901: Tr 40x7, 41 mm)", () => {
+    const input = shigleySi();
+    const result = parseDesign({ ...input, thread: { form: 'trapezoidal', size: 'Tr 40x7' }, nut: { ...input.nut, outsideDiameter: '40.5 mm' } });
+    expect(result.success ? [] : result.issues.map((i) => [i.path, i.message])).toEqual([['nut.outsideDiameter', "must be larger than the nut thread's root diameter (41 mm)"]]);
+  });
+
+  it('a library screw material supplies its tensile strength (Shigley Table A-20, 1018 CD 440 MPa, from memory)', () => {
+    const design = parsed({ ...shigleySi(), screw: { material: 'steel-1018-cd', unsupportedLength: '600 mm', ends: 'fixed-free' } });
+    expect(design.screw.tensileStrength).toBe(440e6);
   });
 });
 

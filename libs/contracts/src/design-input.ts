@@ -13,6 +13,8 @@ import {
   QuantityError,
   BUTTRESS_PROFILES,
   TOLERANCE_CLASSES,
+  HOISTING_CLASSES,
+  threadGeometry,
   iso2903Row,
   DIMENSION_HINT,
   type Design,
@@ -44,15 +46,25 @@ export const frictionRangeSchema = z.union([
   z.strictObject({ entry: z.string().min(1).max(100).describe('id of a friction-library entry (GET /api/v1/friction-sources)') }),
 ]);
 
+const collarAllowable = () => quantity('stress', 'allowable mean bearing pressure of the collar pair (from the handbook or supplier)').optional();
+
 export const collarSchema = z.discriminatedUnion('kind', [
-  z.strictObject({ kind: z.literal('plain'), meanDiameter: length('collar mean diameter') }),
+  z.strictObject({ kind: z.literal('plain'), meanDiameter: length('collar mean diameter'), allowablePressure: collarAllowable() }),
   z.strictObject({
     kind: z.literal('annular'),
     outerDiameter: length('collar outer diameter'),
     innerDiameter: length('collar inner diameter'),
     model: z.enum(['uniform-wear', 'uniform-pressure']),
+    allowablePressure: collarAllowable(),
   }),
-  z.strictObject({ kind: z.literal('rolling'), meanDiameter: length('bearing mean diameter') }),
+  z.strictObject({
+    kind: z.literal('rolling'),
+    meanDiameter: length('bearing mean diameter'),
+    dynamicRating: quantity('force', 'basic dynamic axial load rating C_a from the bearing data').optional(),
+    staticRating: quantity('force', 'basic static axial load rating C_0a from the bearing data').optional(),
+    rollingElement: z.enum(['ball', 'roller']).optional().describe('rolling elements: "ball" (life exponent 3) or "roller" (10/3, the default)'),
+    ratingSource: z.string().min(1).max(500).optional().describe('where the ratings come from: catalogue, designation, page'),
+  }),
   z.strictObject({ kind: z.literal('none') }),
 ]);
 
@@ -94,6 +106,29 @@ export const designInputSchema = z.strictObject({
       .describe('allowable pressure against rubbing speed, slowest first (overrides the material)'),
     allowablePv: quantity('pv', 'allowable pV at the mean diameter, e.g. "2.5 MPa*m/s" (overrides the material)').optional(),
     yieldStrength: quantity('stress', 'nut material yield strength (overrides the material)').optional(),
+    outsideDiameter: length('outside diameter of the nut body (for the nut body and heat checks)').optional(),
+    flange: z
+      .strictObject({ outsideDiameter: length('flange outside diameter'), thickness: length('flange thickness') })
+      .optional()
+      .describe('flange of a flanged nut (the load passes through it)'),
+    safetyNut: z
+      .strictObject({
+        length: length('engaged length of the safety (follower) nut'),
+        gap: length('axial gap before the safety nut takes the load (the wear allowed on the main nut)'),
+      })
+      .optional()
+      .describe('safety (follower) nut, same thread and material as the nut'),
+    tensileStrength: quantity('stress', 'nut material tensile strength (fatigue; overrides the material)').optional(),
+    fatigueStrength: quantity('stress', 'nut material fatigue strength at the design cycles duty.cycles (bronzes have no endurance limit)').optional(),
+    maxTemperature: quantity('temperature', 'highest service temperature of the nut material (overrides the material)').optional(),
+    wearCoefficient: z
+      .strictObject({
+        value: quantity('specificWearRate', 'specific wear rate k of the thread pair (Archard)'),
+        source: z.string().min(1, 'name the test report, supplier document or handbook').max(500),
+      })
+      .optional()
+      .describe('specific wear rate of the screw/nut pair with its source, for the wear life'),
+    allowableWear: length('axial wear (play) allowed on the nut before it is replaced (default: the safety nut gap)').optional(),
   }),
   screw: z.strictObject({
     material: z.string().max(60).optional().describe('screw material id from the library; supplies the three values below'),
@@ -105,6 +140,7 @@ export const designInputSchema = z.strictObject({
     endConditionBasis: z.enum(['recommended', 'theoretical']).optional(),
     whirlSpan: length('rotating span between the bearings, for whirl (default: screw.unsupportedLength)').optional(),
     whirlEnds: z.enum(END_CONDITIONS).optional().describe('end conditions of the rotating span, for whirl (default: screw.ends)'),
+    tensileStrength: quantity('stress', 'minimum tensile strength, for fatigue (overrides the material)').optional(),
   }),
   duty: z.strictObject({
     kind: z.enum(['lifting', 'positioning', 'clamping']),
@@ -114,6 +150,14 @@ export const designInputSchema = z.strictObject({
     vibration: z.boolean().optional(),
     brakeTorque: quantity('torque', 'rated static torque of the brake, at the shaft it sits on (needs duty.brake true)').optional(),
     brakeLocation: z.enum(['screw', 'motor']).optional().describe('shaft the brake sits on: "screw" (default) or "motor" (ahead of drive.gearbox)'),
+    stroke: length('travel of the nut per stroke').optional(),
+    cyclesPerHour: z.number().finite().positive('must be greater than zero').max(1e5).optional().describe('full cycles (raise and lower one stroke) per hour'),
+    dutyCycle: z.number().finite().positive('must be within 0..1 (above 0)').max(1, 'must be within 0..1').optional().describe('fraction of the time the screw runs, 0..1'),
+    ambientTemperature: quantity('temperature', 'ambient temperature around the nut (default 40 degC)').optional(),
+    cycles: z.number().finite().positive('must be greater than zero').max(1e12).optional().describe('load cycles over the design life, for fatigue'),
+    hoistingClass: z.enum(HOISTING_CLASSES).optional().describe('hoisting class of EN 13001-2 for the dynamic factor on lifting duty (default HC2)'),
+    dynamicFactor: z.number().finite().min(1, 'a dynamic factor is at least 1').max(10).optional().describe('dynamic factor on the lifted load (overrides the hoisting class)'),
+    brakeResponseTime: quantity('time', 'time from the stop command until the brake holds').optional(),
   }),
   drive: z
     .strictObject({
@@ -128,6 +172,7 @@ export const designInputSchema = z.strictObject({
           reverseEfficiency: z.number().finite().positive('efficiency must be within 0..1 (above 0)').max(1, 'efficiency must be within 0..1').describe('reverse efficiency, load driving the gearbox backwards'),
         })
         .optional(),
+      motorInertia: quantity('inertia', "mass moment of inertia of the motor's rotor and brake disc, for the stopping distance").optional(),
     })
     .optional(),
 });
@@ -212,6 +257,9 @@ export const PLAUSIBLE_RANGE: Readonly<Record<Dimension, { readonly min: number;
   mass: { min: 1e-6, max: 1e9, text: '1 mg to 1,000,000 t', reason: 'the force bound divided by standard gravity, rounded up' },
   time: { min: 1e-6, max: 1e6, text: '1 us to 1e6 s', reason: 'an acceleration takes between microseconds and days' },
   linearAcceleration: { min: 1e-6, max: 1e5, text: '1 um/s^2 to 1e5 m/s^2', reason: 'about 10,000 g, beyond any screw drive' },
+  temperature: { min: 1, max: 2000, text: '1 K to 2000 K', reason: 'absolute zero below, steel melts below 2000 K' },
+  inertia: { min: 1e-12, max: 1e6, text: '1e-12 to 1e6 kg*m^2', reason: 'from the smallest servo rotor to far beyond any screw drive' },
+  specificWearRate: { min: 1e-24, max: 1e-6, text: '1e-24 to 1e-6 m^2/N', reason: 'measured specific wear rates lie between about 1e-18 and 1e-12 m^2/N' },
 };
 
 /** Converts a shape-valid input into engine units and checks the rules that span fields. */
@@ -324,14 +372,26 @@ function normalizeDesign(input: Parsed): DesignParseResult {
   let collar: Design['collar'];
   switch (c.kind) {
     case 'plain':
+      collar = { kind: 'plain', meanDiameter: q(c.meanDiameter, 'length', 'collar.meanDiameter'), allowablePressure: opt(c.allowablePressure, 'stress', 'collar.allowablePressure') };
+      break;
     case 'rolling':
-      collar = { kind: c.kind, meanDiameter: q(c.meanDiameter, 'length', 'collar.meanDiameter') };
+      collar = {
+        kind: 'rolling',
+        meanDiameter: q(c.meanDiameter, 'length', 'collar.meanDiameter'),
+        dynamicRating: opt(c.dynamicRating, 'force', 'collar.dynamicRating'),
+        staticRating: opt(c.staticRating, 'force', 'collar.staticRating'),
+        rollingElement: c.rollingElement ?? null,
+        ratingSource: c.ratingSource ?? null,
+      };
+      if ((c.dynamicRating !== undefined || c.staticRating !== undefined) && c.ratingSource === undefined) {
+        issues.push({ path: 'collar.ratingSource', message: "name where the bearing's ratings come from (catalogue, designation)" });
+      }
       break;
     case 'annular': {
       const outer = q(c.outerDiameter, 'length', 'collar.outerDiameter');
       const inner = q(c.innerDiameter, 'length', 'collar.innerDiameter');
       if (inner >= outer) issues.push({ path: 'collar.innerDiameter', message: 'inner diameter must be smaller than the outer diameter' });
-      collar = { kind: 'annular', outerDiameter: outer, innerDiameter: inner, model: c.model };
+      collar = { kind: 'annular', outerDiameter: outer, innerDiameter: inner, model: c.model, allowablePressure: opt(c.allowablePressure, 'stress', 'collar.allowablePressure') };
       break;
     }
     case 'none':
@@ -342,19 +402,8 @@ function normalizeDesign(input: Parsed): DesignParseResult {
   // accepted when the design gives the values the wear checks need (allowable pressure; pV too when a speed is given)
   const n = input.nut;
   const nutMaterial = n.material === undefined ? null : findNutMaterial(n.material);
-  const speedGiven = input.duty.speed !== undefined || input.duty.linearSpeed !== undefined;
-  if (nutMaterial === undefined) {
-    const needs = [
-      n.allowablePressure === undefined && n.allowablePressureBySpeed === undefined ? 'nut.allowablePressure (or nut.allowablePressureBySpeed)' : null,
-      speedGiven && n.allowablePv === undefined ? 'nut.allowablePv (a speed is given)' : null,
-    ].filter((x): x is string => x !== null);
-    if (needs.length > 0) {
-      issues.push({
-        path: 'nut.material',
-        message: `"${n.material}" is not a library nut material (see GET /api/v1/materials); as a material of the design's own it needs ${needs.join(' and ')}`,
-      });
-    }
-  }
+  // A material of the design's own without the allowables is evaluated: each check it cannot compute is listed in the
+  // evaluation's notComputed (and judged by the rules), never a refusal of the whole design
   if (n.allowablePressure !== undefined && n.allowablePressureBySpeed !== undefined) {
     issues.push({ path: 'nut.allowablePressureBySpeed', message: 'give either nut.allowablePressure (any speed) or nut.allowablePressureBySpeed, not both' });
   }
@@ -390,8 +439,25 @@ function normalizeDesign(input: Parsed): DesignParseResult {
     pressureBySpeed: ownPressure !== null ? null : (ownSteps ?? (nutMaterial && nutMaterial.pressureBySpeed.length > 0 ? nutMaterial.pressureBySpeed : null)),
     allowablePv: opt(n.allowablePv, 'pv', 'nut.allowablePv') ?? nutMaterial?.allowablePv ?? null,
     yieldStrength: opt(n.yieldStrength, 'stress', 'nut.yieldStrength') ?? nutMaterial?.yieldStrength ?? null,
+    outsideDiameter: opt(n.outsideDiameter, 'length', 'nut.outsideDiameter'),
+    flange: n.flange ? { outsideDiameter: q(n.flange.outsideDiameter, 'length', 'nut.flange.outsideDiameter'), thickness: q(n.flange.thickness, 'length', 'nut.flange.thickness') } : null,
+    safetyNut: n.safetyNut ? { length: q(n.safetyNut.length, 'length', 'nut.safetyNut.length'), gap: q(n.safetyNut.gap, 'length', 'nut.safetyNut.gap') } : null,
+    tensileStrength: opt(n.tensileStrength, 'stress', 'nut.tensileStrength') ?? nutMaterial?.tensileStrength ?? null,
+    fatigueStrength: opt(n.fatigueStrength, 'stress', 'nut.fatigueStrength'),
+    maxTemperature: opt(n.maxTemperature, 'temperature', 'nut.maxTemperature') ?? nutMaterial?.maxTemperature ?? null,
+    maxTemperatureSource: n.maxTemperature !== undefined ? 'design input (nut.maxTemperature)' : nutMaterial?.maxTemperature != null ? nutMaterial.maxTemperatureSource : null,
+    wearCoefficient: n.wearCoefficient ? { value: q(n.wearCoefficient.value, 'specificWearRate', 'nut.wearCoefficient.value'), source: n.wearCoefficient.source } : null,
+    allowableWear: opt(n.allowableWear, 'length', 'nut.allowableWear'),
   };
+  if (nut.flange && nut.outsideDiameter == null) issues.push({ path: 'nut.outsideDiameter', message: 'a flange needs the nut body\'s outside diameter' });
+  if (nut.flange && nut.outsideDiameter != null && !(nut.flange.outsideDiameter > nut.outsideDiameter)) {
+    issues.push({ path: 'nut.flange.outsideDiameter', message: "must be larger than the nut's outside diameter" });
+  }
   if (pitch !== null && nut.length < pitch) issues.push({ path: 'nut.length', message: 'the nut must engage at least one full pitch' });
+  if (pitch !== null && nut.safetyNut && nut.safetyNut.length < pitch) issues.push({ path: 'nut.safetyNut.length', message: 'the safety nut must engage at least one full pitch' });
+  if (majorDiameter !== null && nut.outsideDiameter != null && !(nut.outsideDiameter > majorDiameter)) {
+    issues.push({ path: 'nut.outsideDiameter', message: "must be larger than the thread's major diameter" });
+  }
 
   // Screw, with its library material
   const s = input.screw;
@@ -414,6 +480,7 @@ function normalizeDesign(input: Parsed): DesignParseResult {
     endConditionBasis: s.endConditionBasis ?? 'recommended',
     whirlSpan: opt(s.whirlSpan, 'length', 'screw.whirlSpan'),
     whirlEnds: s.whirlEnds ?? null,
+    tensileStrength: opt(s.tensileStrength, 'stress', 'screw.tensileStrength') ?? screwMaterial?.tensileStrength ?? null,
   };
 
   // Duty
@@ -429,7 +496,16 @@ function normalizeDesign(input: Parsed): DesignParseResult {
     vibration: d.vibration ?? false,
     brakeTorque: opt(d.brakeTorque, 'torque', 'duty.brakeTorque'),
     brakeLocation: d.brakeLocation ?? 'screw',
+    stroke: opt(d.stroke, 'length', 'duty.stroke'),
+    cyclesPerHour: d.cyclesPerHour ?? null,
+    dutyCycle: d.dutyCycle ?? null,
+    ambientTemperature: opt(d.ambientTemperature, 'temperature', 'duty.ambientTemperature'),
+    cycles: d.cycles ?? null,
+    hoistingClass: d.hoistingClass ?? null,
+    dynamicFactor: d.dynamicFactor ?? null,
+    brakeResponseTime: opt(d.brakeResponseTime, 'time', 'duty.brakeResponseTime'),
   };
+  if (d.brakeResponseTime !== undefined && !d.brake) issues.push({ path: 'duty.brakeResponseTime', message: 'a brake response time needs duty.brake true' });
 
   const axial = q(input.load.axial, 'force', 'load.axial');
   if (d.brakeTorque !== undefined && !d.brake) issues.push({ path: 'duty.brakeTorque', message: 'a brake torque needs duty.brake true' });
@@ -448,8 +524,16 @@ function normalizeDesign(input: Parsed): DesignParseResult {
         accelerationTime: opt(dr.accelerationTime, 'time', 'drive.accelerationTime'),
         acceleration: opt(dr.acceleration, 'linearAcceleration', 'drive.acceleration'),
         gearbox: dr.gearbox ?? null,
+        motorInertia: opt(dr.motorInertia, 'inertia', 'drive.motorInertia'),
       }
     : null;
+  // The nut body's wall lies outside the nut thread's root (D_4, above the major diameter where the form has a clearance)
+  if (issues.length === 0 && majorDiameter !== null && pitch !== null && nut.outsideDiameter != null && (th.form !== 'buttress' || loadFlankAngle !== null)) {
+    const root = threadGeometry({ form: th.form, majorDiameter, pitch, starts: th.starts ?? 1, loadFlankAngle }).nutMajorDiameter;
+    if (!(nut.outsideDiameter > root)) {
+      issues.push({ path: 'nut.outsideDiameter', message: `must be larger than the nut thread's root diameter (${Number((root * 1000).toPrecision(6))} mm)` });
+    }
+  }
   if (issues.length > 0 || majorDiameter === null || pitch === null || threadFriction === null) {
     return { success: false, issues };
   }

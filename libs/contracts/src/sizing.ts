@@ -42,7 +42,9 @@ export const sizingRequirementsSchema = z.strictObject({
   duty: design.duty,
   friction: design.friction,
   collar: z.union([collarRatioSchema, collarSchema]).describe('a collar as in a design, or { kind, meanDiameterRatio }'),
-  nut: design.nut.omit({ length: true }).describe('nut material and optional allowables as in a design; the search sets the length'),
+  // The nut body's outside diameter and flange depend on the thread size the search picks: not a requirement
+  nut: design.nut.omit({ length: true, outsideDiameter: true, flange: true })
+    .describe('nut material and optional allowables as in a design; the search sets the length (the body and flange follow the size chosen)'),
   screw: design.screw,
   drive: design.drive,
 });
@@ -65,6 +67,13 @@ export const sizingSearchSchema = z.strictObject({
         .describe('nut lengths to try as multiples of the major diameter (default 1.5, 2, 2.5, 3)'),
     })
     .optional(),
+  toleranceClass: z
+    .strictObject({
+      trapezoidal: z.string().max(20).optional().describe('"7H/7e" (ISO 2903; sizes without its limits are then left out)'),
+      acme: z.string().max(20).optional().describe('"2G", "3G" or "4G" (ASME B1.5)'),
+    })
+    .optional()
+    .describe("tolerance class per thread form; each candidate is judged at the class's minimum-material diameters and its design carries it"),
   objective: z.enum(SIZING_OBJECTIVES).optional().describe('how candidates are ranked (default smallest-diameter)'),
   limit: z.number().int('limit must be a whole number').min(1, 'limit must be at least 1').max(500, 'limit must not exceed 500').optional()
     .describe('most candidates listed (default 20)'),

@@ -8,6 +8,7 @@
 import { parseDesign, type DesignInput } from '@leadline/contracts';
 import { evaluate } from './evaluate';
 import { expectClose } from './test-support';
+import { ENGINE_1_2_CHANGES } from '../../../test/support/contract-changes';
 
 interface ContractExample {
   readonly name: string;
@@ -165,10 +166,26 @@ describe('Leadline contract examples (computed independently from the engine iss
     const parsed = parseDesign(example.input);
     if (!parsed.success) throw new Error(JSON.stringify(parsed.issues));
     const evaluation = evaluate(parsed.design);
-    for (const [path, expected] of Object.entries(example.expect)) {
+    const changed = ENGINE_1_2_CHANGES[example.name] ?? {};
+    for (const [path, contract] of Object.entries(example.expect)) {
+      const expected = changed[path] ?? contract;
       const actual = at(evaluation, path);
       if (typeof expected === 'number') expectClose(actual as number, expected, { rtol: 0.005, label: path });
       else expect([path, actual]).toEqual([path, expected]);
+    }
+  });
+
+  it('every engine 1.2 change names a field the contract checks, and moves it on the safe side', () => {
+    for (const [name, fields] of Object.entries(ENGINE_1_2_CHANGES)) {
+      const example = EXAMPLES.find((e) => e.name === name);
+      for (const [path, value] of Object.entries(fields)) {
+        const contract = example?.expect[path];
+        expect([name, path, contract !== undefined]).toEqual([name, path, true]);
+        if (typeof value !== 'number' || typeof contract !== 'number') continue;
+        // stresses rise in magnitude; critical load, speed and slenderness margin fall
+        if (path.startsWith('stresses.') || path === 'buckling.slenderness') expect(Math.abs(value)).toBeGreaterThan(Math.abs(contract));
+        else expect(value).toBeLessThan(contract);
+      }
     }
   });
 

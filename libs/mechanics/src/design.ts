@@ -2,6 +2,7 @@
  * A design in engine units (SI base units; rotational speed in rev/min), as produced by the
  * design-input schema in libs/contracts after validation and unit conversion.
  */
+import type { HoistingClass } from './dynamics';
 import type { FrictionSourceKind } from './friction';
 import type { PressureSpeedPoint } from './materials';
 import type { EndCondition } from './mechanics';
@@ -15,15 +16,29 @@ export interface FrictionRange {
   readonly entry?: string;
 }
 
+/** A rolling thrust bearing's catalogue data (engine 1.2) */
+export interface RollingBearingData {
+  /** Basic dynamic axial load rating C_a [N] */
+  readonly dynamicRating?: number | null;
+  /** Basic static axial load rating C_0a [N] */
+  readonly staticRating?: number | null;
+  /** Rolling elements: ball (life exponent 3) or roller (10/3) */
+  readonly rollingElement?: 'ball' | 'roller' | null;
+  /** Where the ratings come from (catalogue, page) */
+  readonly ratingSource?: string | null;
+}
+
 export type Collar =
-  | { readonly kind: 'plain'; readonly meanDiameter: number }
+  | { readonly kind: 'plain'; readonly meanDiameter: number; readonly allowablePressure?: number | null }
   | {
       readonly kind: 'annular';
       readonly outerDiameter: number;
       readonly innerDiameter: number;
       readonly model: 'uniform-wear' | 'uniform-pressure';
+      /** Allowable mean bearing pressure of the collar pair [Pa] (engine 1.2) */
+      readonly allowablePressure?: number | null;
     }
-  | { readonly kind: 'rolling'; readonly meanDiameter: number }
+  | ({ readonly kind: 'rolling'; readonly meanDiameter: number } & RollingBearingData)
   | { readonly kind: 'none' };
 
 export type DutyKind = 'lifting' | 'positioning' | 'clamping';
@@ -54,6 +69,24 @@ export interface Design {
     readonly pressureBySpeed?: readonly PressureSpeedPoint[] | null;
     readonly allowablePv: number | null;
     readonly yieldStrength: number | null;
+    // Engine 1.2 (absent in designs normalized before): body, flange, safety nut, wear, fatigue and temperature data
+    /** Outside diameter of the nut body [m] */
+    readonly outsideDiameter?: number | null;
+    /** Flange of a flanged nut: outside diameter and thickness [m] */
+    readonly flange?: { readonly outsideDiameter: number; readonly thickness: number } | null;
+    /** Safety (follower) nut: its engaged length and the axial gap before it takes the load [m] */
+    readonly safetyNut?: { readonly length: number; readonly gap: number } | null;
+    /** Tensile strength of the nut material [Pa] (fatigue) */
+    readonly tensileStrength?: number | null;
+    /** Fatigue strength of the nut material at the design's cycles [Pa] */
+    readonly fatigueStrength?: number | null;
+    /** Highest service temperature of the nut material [K] */
+    readonly maxTemperature?: number | null;
+    readonly maxTemperatureSource?: string | null;
+    /** Specific wear rate k of the thread pair [m^2/N] and where it comes from */
+    readonly wearCoefficient?: { readonly value: number; readonly source: string } | null;
+    /** Axial wear (play) allowed before the nut is replaced [m] */
+    readonly allowableWear?: number | null;
   };
   readonly screw: {
     readonly material: string | null;
@@ -67,6 +100,8 @@ export interface Design {
     readonly whirlSpan?: number | null;
     /** End conditions of the rotating span for whirl; absent or null: the column's ends */
     readonly whirlEnds?: EndCondition | null;
+    /** Tensile strength [Pa] (fatigue; engine 1.2) */
+    readonly tensileStrength?: number | null;
   };
   readonly duty: {
     readonly kind: DutyKind;
@@ -80,6 +115,23 @@ export interface Design {
     readonly brakeTorque?: number | null;
     /** Shaft the brake sits on: the screw (default) or the motor, ahead of the gearbox */
     readonly brakeLocation?: 'screw' | 'motor';
+    // Engine 1.2
+    /** Travel of the nut per stroke [m] */
+    readonly stroke?: number | null;
+    /** Full cycles (raise and lower one stroke) per hour */
+    readonly cyclesPerHour?: number | null;
+    /** Fraction of the time the screw runs [-] */
+    readonly dutyCycle?: number | null;
+    /** Ambient temperature [K] */
+    readonly ambientTemperature?: number | null;
+    /** Load cycles over the design life (fatigue) */
+    readonly cycles?: number | null;
+    /** Hoisting class of EN 13001-2 for the dynamic factor on lifting duty */
+    readonly hoistingClass?: HoistingClass | null;
+    /** Dynamic factor stated by the design (overrides the hoisting class) */
+    readonly dynamicFactor?: number | null;
+    /** Time from the stop command until the brake holds [s] */
+    readonly brakeResponseTime?: number | null;
   };
   readonly drive: {
     /** Torque the drive delivers at start [N*m]: at the motor shaft when a gearbox is given, else at the screw */
@@ -92,6 +144,8 @@ export interface Design {
     readonly acceleration?: number | null;
     /** Gearbox between motor and screw: ratio motor/screw speed, forward and reverse efficiency */
     readonly gearbox?: { readonly ratio: number; readonly efficiency: number; readonly reverseEfficiency: number } | null;
+    /** Mass moment of inertia of the motor's rotor (and brake disc) [kg*m^2] (engine 1.2) */
+    readonly motorInertia?: number | null;
   } | null;
   /** The unit system the design was entered in; reports answer in the same one */
   readonly unitSystem: 'SI' | 'US';

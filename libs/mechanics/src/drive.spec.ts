@@ -47,7 +47,7 @@ describe('acceleration, peak and holding torque through a gearbox (hand arithmet
   // T_R = 10000 x 0.004 / (2 pi) = 6.366198 N*m; alpha = 2 pi x 5 rev/s / 0.25 s = 125.6637 rad/s^2;
   // m = 10000 / 9.80665 = 1019.716 kg; J_L = m (0.004 / 2 pi)^2 = 4.132754e-4; J_s = (pi 7850 x 1 / 32)(0.032^4 + 0.036^4)/2
   // = 1.051271e-3 kg*m^2; T_a = (J_s + J_L) alpha = 0.1840403 N*m; T_peak = 6.550238 N*m; at the motor (i = 5, eta 0.9):
-  // 1.455608 N*m; holding at the motor T_0 eta_r / i = 6.366198 x 0.6 / 5 = 0.7639437 N*m.
+  // 1.455608 N*m; holding at the motor with friction lost on the whole train, T_0 / i = 6.366198 / 5 = 1.2732396 N*m.
   const e = run(ideal({ availableTorque: '3 N*m', accelerationTime: '0.25 s', gearbox: { ratio: 5, efficiency: 0.9, reverseEfficiency: 0.6 } }));
   const d = e.drive;
 
@@ -71,8 +71,8 @@ describe('acceleration, peak and holding torque through a gearbox (hand arithmet
     expectClose(d?.margin ?? NaN, 3 / 1.455608, { rtol: 1e-6 });
   });
 
-  it('holding torque at the motor through the reverse efficiency', () => {
-    expectClose(d?.holdingTorqueAtMotor ?? NaN, 0.7639437, { rtol: 1e-6 });
+  it('holding torque at the motor: T_0 / i, the reverse efficiency 0.6 not credited (engine 1.2)', () => {
+    expectClose(d?.holdingTorqueAtMotor ?? NaN, 1.2732396, { rtol: 1e-6 });
     expectClose(e.brake.holdingTorqueNoFriction, 6.366198, { rtol: 1e-6 });
   });
 

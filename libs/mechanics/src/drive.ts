@@ -111,3 +111,17 @@ export function motorTorqueThroughGearbox(T: number, i: number, eta: number): nu
 export function motorHoldingTorqueThroughGearbox(T: number, i: number, etaR: number): number {
   return (T * etaR) / i;
 }
+
+/**
+ * Torque that reaches a motor-side brake from the load with thread friction lost: whatever removes the thread's
+ * friction (vibration) removes the gearbox's too, so the gearbox's reverse efficiency is not credited (eta_r = 1).
+ * T_h,m = T_0 / i
+ * @param T0 - zero-friction holding torque at the screw, F l / (2 pi) [N*m]
+ * @param i - gear ratio, motor speed over screw speed [-]
+ * @returns torque at the motor [N*m]; never below T_0 eta_r / i for any eta_r <= 1
+ * Source: power balance through a gear train with eta_r = 1 (Shigley 10th ed., Sec. 13-13, from memory); friction lost on the
+ * whole train: common practice, consistent with the zero-friction holding torque. Id: motor-holding-torque-no-friction.
+ */
+export function motorHoldingTorqueNoFriction(T0: number, i: number): number {
+  return T0 / i;
+}

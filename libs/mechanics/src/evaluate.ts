@@ -8,10 +8,15 @@ import * as brakeMath from './brake';
 import * as driveMath from './drive';
 import * as whirl from './whirl';
 import { pressureStepAt } from './materials';
+import { liftingChecks, type LiftingChecks } from './lifting-checks';
 import { minimumMaterial, type MinimumMaterial } from './tolerances';
 import { DEG, threadGeometry, threadThicknessAtDepth } from './threads';
 
-export const ENGINE_VERSION = '1.1.0';
+/**
+ * Version of the engine that produced an evaluation; stored with every revision. Evaluations of earlier versions stay
+ * as stored (their fields are a subset: see libs/contracts api-schemas, where each later field is optional).
+ */
+export const ENGINE_VERSION = '1.2.0';
 
 /** A pair of values at the two ends of the friction range. */
 export interface AtFriction {
@@ -111,8 +116,8 @@ export interface Evaluation {
     /** End conditions of the rotating span (the column's unless stated) */
     readonly ends: m.EndCondition;
     /**
-     * Fixed ends taken as only partly fixed (common practice), where the column uses the recommended basis and an
-     * end is fixed: simply supported shaft over L / sqrt(C_recommended); null otherwise
+     * Fixed ends taken as only partly fixed (common practice), wherever an end of the rotating span is fixed, whatever
+     * the column's basis (engine 1.2): simply supported shaft over L / sqrt(C_recommended); null otherwise
      */
     readonly partlyFixed: {
       readonly rpm: number;
@@ -132,8 +137,11 @@ export interface Evaluation {
     /** Which allowable applied: the class of a speed-rated table, or the design's single value at any speed */
     readonly allowablePressureClass: string | null;
     readonly allowablePressureSource: string | null;
-    /** 'speed-rated': chosen for the rubbing speed (or the lowest-speed class when no speed is given); 'any-speed': a single value */
-    readonly allowablePressureBasis: 'speed-rated' | 'any-speed' | null;
+    /**
+     * 'speed-rated': chosen for the rubbing speed; 'lowest-class-no-speed': no speed given, the lowest allowable of the
+     * classes (engine 1.2; before, the lowest-speed class); 'any-speed': a single value
+     */
+    readonly allowablePressureBasis: 'speed-rated' | 'lowest-class-no-speed' | 'any-speed' | null;
     readonly allowablePv: number | null;
     readonly pressureRatio: number | null;
     readonly pvRatio: number | null;
@@ -148,7 +156,7 @@ export interface Evaluation {
     /** Reverse (back-driving) efficiency at minimum thread friction; <= 0 means the load cannot drive the screw */
     readonly reverseEfficiency: number;
     readonly location: 'screw' | 'motor';
-    /** Zero-friction holding torque at the brake's shaft (through the gearbox's reverse efficiency on the motor) [N*m] */
+    /** Zero-friction holding torque at the brake's shaft: T_0, or T_0 / i on the motor (engine 1.2; before, T_0 eta_r / i) [N*m] */
     readonly requiredTorque: number;
     /** Rated brake torque as stated [N*m], else null */
     readonly ratedTorque: number | null;
@@ -177,7 +185,7 @@ export interface Evaluation {
     readonly gearbox: { readonly ratio: number; readonly efficiency: number; readonly reverseEfficiency: number } | null;
     /** Peak torque referred to the motor through the gearbox [N*m] (= peakTorque without one) */
     readonly peakTorqueAtMotor: number;
-    /** Zero-friction holding torque referred to the motor through the gearbox's reverse efficiency [N*m] */
+    /** Zero-friction holding torque referred to the motor, T_0 / i (engine 1.2; before, T_0 eta_r / i) [N*m] */
     readonly holdingTorqueAtMotor: number;
   } | null;
   /** Capacity over demand for each strength check (yield-based; shear against 0.577 S_y) */
@@ -190,6 +198,19 @@ export interface Evaluation {
     readonly nutThreadRoot: number | null;
     readonly buckling: number | null;
   };
+  // Engine 1.2 groups (absent from evaluations stored by earlier versions): see lifting-checks.ts
+  readonly nutBody?: LiftingChecks['nutBody'];
+  readonly safetyNut?: LiftingChecks['safetyNut'];
+  readonly wornThread?: LiftingChecks['wornThread'];
+  readonly operation?: LiftingChecks['operation'];
+  readonly thermal?: LiftingChecks['thermal'];
+  readonly wearLife?: LiftingChecks['wearLife'];
+  readonly dynamics?: LiftingChecks['dynamics'];
+  readonly stopping?: LiftingChecks['stopping'];
+  readonly fatigue?: LiftingChecks['fatigue'];
+  readonly collarBearing?: LiftingChecks['collarBearing'];
+  /** Every check the engine could not compute, with the inputs it lacks (engine 1.2) */
+  readonly notComputed?: LiftingChecks['notComputed'];
   /** Filled by the rules module; the engine itself judges nothing */
   readonly findings: readonly unknown[];
   /** Formula id and substituted inputs behind each result, keyed by result path */
@@ -291,7 +312,8 @@ export function evaluate(design: Design): Evaluation {
   const holdNoFriction = brakeMath.holdingTorqueNoFriction(F, l);
   const holdMinFriction = brakeMath.holdingTorqueAtFriction(F, dm, l, fMin, alphaN);
   const reverseEff = brakeMath.reverseEfficiency(F, dm, l, fMin, alphaN);
-  const holdAtMotor = gearbox ? driveMath.motorHoldingTorqueThroughGearbox(holdNoFriction, gearbox.ratio, gearbox.reverseEfficiency) : holdNoFriction;
+  // A motor-side brake: friction lost on the thread is lost in the gearbox too, so its reverse efficiency is not credited
+  const holdAtMotor = gearbox ? driveMath.motorHoldingTorqueNoFriction(holdNoFriction, gearbox.ratio) : holdNoFriction;
   const brakeLocation = duty.brakeLocation ?? 'screw';
   const brakeRequired = brakeLocation === 'motor' ? holdAtMotor : holdNoFriction;
   const brakeRated = duty.brakeTorque ?? null;
@@ -299,7 +321,7 @@ export function evaluate(design: Design): Evaluation {
   trace['brake.holdingTorqueMinFriction'] = entry('brake-holding-torque-min-friction', threadInputs(fMin));
   trace['brake.reverseEfficiency'] = entry('reverse-efficiency', threadInputs(fMin));
   if (brakeLocation === 'motor' && gearbox) {
-    trace['brake.requiredTorque'] = entry('motor-holding-torque-through-gearbox', { T: holdNoFriction, i: gearbox.ratio, eta_r: gearbox.reverseEfficiency });
+    trace['brake.requiredTorque'] = entry('motor-holding-torque-no-friction', { T_0: holdNoFriction, i: gearbox.ratio });
   }
   if (brakeRated !== null) trace['brake.ratio'] = entry('brake-torque-ratio', { T_brake: brakeRated, T_0: brakeRequired });
 
@@ -389,18 +411,21 @@ export function evaluate(design: Design): Evaluation {
   const whirlSpan = screw.whirlSpan ?? L;
   const whirlEnds = screw.whirlEnds ?? screw.ends;
   const betaL = m.WHIRL_FREQUENCY_FACTOR[whirlEnds];
-  const nc = m.criticalSpeedRpm(betaL, dr, whirlSpan, screw.elasticModulus, screw.density);
-  trace['criticalSpeed.rpm'] = entry('critical-speed', { beta_1L: betaL, d_r: dr, L: whirlSpan, E: screw.elasticModulus, rho: screw.density });
+  // Stiffness of the root section, mass of the thread (pitch diameter)
+  const dmMass = mm.pitchDiameter;
+  const nc = m.criticalSpeedRpmThreadMass(betaL, dr, dmMass, whirlSpan, screw.elasticModulus, screw.density);
+  trace['criticalSpeed.rpm'] = entry('critical-speed-thread-mass', { beta_1L: betaL, d_r: dr, d_m: dmMass, L: whirlSpan, E: screw.elasticModulus, rho: screw.density });
   if (rpm !== null) trace['criticalSpeed.ratio'] = entry('critical-speed-ratio', { n: rpm, n_c: nc });
-  // Fixed ends only partly fixed, with the partial fixity the recommended column constants assume (common practice)
+  // Fixed ends only partly fixed, with the partial fixity the recommended column constants assume (common practice);
+  // a property of the bearings, so independent of the basis the column check uses
   let partlyFixed: Evaluation['criticalSpeed']['partlyFixed'] = null;
-  if (screw.endConditionBasis === 'recommended' && whirlEnds.startsWith('fixed')) {
+  if (whirlEnds.startsWith('fixed')) {
     const Cw = m.END_CONDITION_CONSTANT.recommended[whirlEnds];
     const betaLp = whirl.partlyFixedFrequencyFactor(Cw);
-    const ncp = m.criticalSpeedRpm(betaLp, dr, whirlSpan, screw.elasticModulus, screw.density);
+    const ncp = m.criticalSpeedRpmThreadMass(betaLp, dr, dmMass, whirlSpan, screw.elasticModulus, screw.density);
     partlyFixed = { rpm: ncp, frequencyFactor: betaLp, factor: whirl.partlyFixedSpeedFactor(Cw, betaL), endConditionConstant: Cw, ratio: rpm === null ? null : rpm / ncp };
     trace['criticalSpeed.partlyFixed.frequencyFactor'] = entry('critical-speed-partly-fixed', { C: Cw });
-    trace['criticalSpeed.partlyFixed.rpm'] = entry('critical-speed', { beta_1L: betaLp, d_r: dr, L: whirlSpan, E: screw.elasticModulus, rho: screw.density });
+    trace['criticalSpeed.partlyFixed.rpm'] = entry('critical-speed-thread-mass', { beta_1L: betaLp, d_r: dr, d_m: dmMass, L: whirlSpan, E: screw.elasticModulus, rho: screw.density });
     trace['criticalSpeed.partlyFixed.factor'] = entry('critical-speed-partly-fixed-factor', { C: Cw, beta_1L: betaL });
     if (rpm !== null) trace['criticalSpeed.partlyFixed.ratio'] = entry('critical-speed-ratio', { n: rpm, n_c: ncp });
   }
@@ -411,15 +436,18 @@ export function evaluate(design: Design): Evaluation {
   // Allowable pressure: the design's single value at any speed, else the speed-rated step for the actual rubbing speed
   const step = nut.allowablePressure === null && nut.pressureBySpeed ? pressureStepAt(nut.pressureBySpeed, vs) : null;
   const allowablePressure = nut.allowablePressure ?? step?.allowablePressure ?? null;
-  const allowablePressureBasis = nut.allowablePressure !== null ? 'any-speed' : step ? 'speed-rated' : null;
+  const allowablePressureBasis = nut.allowablePressure !== null ? 'any-speed' : step ? (vs === null ? 'lowest-class-no-speed' : 'speed-rated') : null;
   const allowablePressureClass =
     nut.allowablePressure !== null
       ? "the design's own value, used at any rubbing speed"
       : step === null
         ? null
         : vs === null
-          ? `${step.application}; no operating speed was given, so the lowest-speed class is assumed`
+          ? `${step.application}; no operating speed was given, so the lowest allowable of the speed classes is used (the most conservative)`
           : step.application;
+  if (allowablePressureBasis === 'lowest-class-no-speed' && allowablePressure !== null && nut.pressureBySpeed) {
+    trace['wear.allowablePressure'] = entry('allowable-pressure-no-speed', { p_allow: allowablePressure, classes: nut.pressureBySpeed.length });
+  }
   const allowablePressureSource = nut.allowablePressure !== null ? 'design input (nut.allowablePressure)' : (step?.source ?? null);
   trace['wear.bearingPressure'] = entry('nut-bearing-pressure', { F, d_m: dm, h, n_t: nt });
   if (vs !== null) {
@@ -463,7 +491,7 @@ export function evaluate(design: Design): Evaluation {
     const peakAtMotor = gearbox ? driveMath.motorTorqueThroughGearbox(peak, gearbox.ratio, gearbox.efficiency) : peak;
     if (gearbox) {
       trace['drive.peakTorqueAtMotor'] = entry('motor-torque-through-gearbox', { T: peak, i: gearbox.ratio, eta_g: gearbox.efficiency });
-      trace['drive.holdingTorqueAtMotor'] = entry('motor-holding-torque-through-gearbox', { T: holdNoFriction, i: gearbox.ratio, eta_r: gearbox.reverseEfficiency });
+      trace['drive.holdingTorqueAtMotor'] = entry('motor-holding-torque-no-friction', { T_0: holdNoFriction, i: gearbox.ratio });
     }
     drive = {
       availableTorque: dd.availableTorque,
@@ -485,6 +513,34 @@ export function evaluate(design: Design): Evaluation {
   }
 
   const shearYield = SHEAR_YIELD_RATIO * screw.yieldStrength;
+  const safetyFactors: Evaluation['safetyFactors'] = {
+    bodyVonMises: screw.yieldStrength / bodyVm,
+    firstThreadRoot: screw.yieldStrength / first.vonMises,
+    strippingScrew: shearYield / stripScrew,
+    strippingNut: nut.yieldStrength === null ? null : (SHEAR_YIELD_RATIO * nut.yieldStrength) / stripNut,
+    nutThreadRoot:
+      nut.yieldStrength === null ? null : Math.min(nut.yieldStrength / nutBending, (SHEAR_YIELD_RATIO * nut.yieldStrength) / nutShear),
+    buckling: bucklingFactor,
+  };
+  const lifting = liftingChecks({
+    design, F, lead: l, pitch: p, meanDiameter: dm, minorDiameter: dr, majorDiameter: mm.majorDiameter,
+    nutMajorDiameter: g.nutMajorDiameter, nutMinorDiameter: D1, flankAngle: alpha, leadAngle: lambda, engagedThreads: nt,
+    raiseTorqueMax: raise.atMaxFriction, lowerTorqueMax: lower.atMaxFriction, rpm, linearSpeed,
+    holdingTorqueNoFriction: holdNoFriction, firstThreadLoad: Ffirst, screwRootVonMises: first.vonMises, nutRootBending: nutBending,
+    screwStripThickness: tScrew, nutStripThickness: tNut, bearingPressure: pressure, slidingVelocity: vs,
+    screwInertia: drive?.screwInertia ?? driveMath.screwInertia(screw.density, whirlSpan, dr, g.majorDiameter),
+    loadMass: drive?.loadMass ?? null, staticFactors: safetyFactors, trace,
+  });
+  // Checks of the 1.1 groups that could not be computed, beside the new groups' own
+  if (allowablePressure === null) {
+    lifting.notComputed.push({ subject: 'wear.pressureRatio', missing: ['nut.allowablePressure (or nut.allowablePressureBySpeed, or a library nut.material)'], reason: 'nut wear (mean flank pressure) is not judged without an allowable pressure for the nut material' });
+  }
+  if (vs === null) lifting.notComputed.push({ subject: 'wear.pvRatio', missing: ['duty.speed or duty.linearSpeed'], reason: 'pV needs the rubbing speed' });
+  else if (nut.allowablePv === null) lifting.notComputed.push({ subject: 'wear.pvRatio', missing: ['nut.allowablePv'], reason: 'pV is not judged without an allowable pV for the nut material' });
+  if (safetyFactors.strippingNut === null) {
+    lifting.notComputed.push({ subject: 'safetyFactors.strippingNut', missing: ['nut.yieldStrength'], reason: "stripping and root strength of the nut's own threads are not judged without the nut material's yield strength" });
+  }
+  if (rpm === null) lifting.notComputed.push({ subject: 'criticalSpeed.ratio', missing: ['duty.speed or duty.linearSpeed'], reason: 'whirl is not judged without the operating speed' });
   return {
     engineVersion: ENGINE_VERSION,
     geometry: {
@@ -571,15 +627,18 @@ export function evaluate(design: Design): Evaluation {
       ratio: brakeRated === null ? null : brakeRated / brakeRequired,
     },
     drive,
-    safetyFactors: {
-      bodyVonMises: screw.yieldStrength / bodyVm,
-      firstThreadRoot: screw.yieldStrength / first.vonMises,
-      strippingScrew: shearYield / stripScrew,
-      strippingNut: nut.yieldStrength === null ? null : (SHEAR_YIELD_RATIO * nut.yieldStrength) / stripNut,
-      nutThreadRoot:
-        nut.yieldStrength === null ? null : Math.min(nut.yieldStrength / nutBending, (SHEAR_YIELD_RATIO * nut.yieldStrength) / nutShear),
-      buckling: bucklingFactor,
-    },
+    safetyFactors,
+    nutBody: lifting.nutBody,
+    safetyNut: lifting.safetyNut,
+    wornThread: lifting.wornThread,
+    operation: lifting.operation,
+    thermal: lifting.thermal,
+    wearLife: lifting.wearLife,
+    dynamics: lifting.dynamics,
+    stopping: lifting.stopping,
+    fatigue: lifting.fatigue,
+    collarBearing: lifting.collarBearing,
+    notComputed: lifting.notComputed,
     findings: [],
     trace,
   };

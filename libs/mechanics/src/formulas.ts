@@ -100,6 +100,47 @@ const list: readonly Formula[] = [
   { id: 'peak-torque', symbol: 'T_peak', equation: 'T_peak = T_R,max + T_a', source: 'common practice: the drive must supply the steady raise torque and the acceleration torque at once' },
   { id: 'motor-torque-through-gearbox', symbol: 'T_m', equation: 'T_m = T / (i eta_g)', source: `power balance through a gear train (${SHIGLEY}, Sec. 13-13, from memory)` },
   { id: 'motor-holding-torque-through-gearbox', symbol: 'T_h,m', equation: 'T_h,m = T_0 eta_r / i', source: `power balance with power flowing from the output, reverse efficiency eta_r (${SHIGLEY}, Sec. 13-13, from memory)` },
+  // engine 1.2: corrections on the safe side
+  { id: 'allowable-pressure-no-speed', symbol: 'p_allow', equation: 'p_allow = min_i p_allow,i over the speed classes (no operating speed given)', source: 'Shigley 9th ed. Table 8-4 classes after Rothbart (from memory), read on the safe side: the screw may run at any speed (common practice)' },
+  { id: 'critical-speed-thread-mass', symbol: 'n_c', equation: 'n_c = (beta_1 L)^2 / (2 pi L^2) sqrt(E I_r / (rho A_m)) x 60, I_r = pi d_r^4 / 64, A_m = pi d_m^2 / 4', source: 'Thomson, Theory of Vibration with Applications, Sec. 9.5 (Euler-Bernoulli beam, first mode); stiffness on the root, mass on the pitch diameter (the thread ridges carry mass, little stiffness): common practice' },
+  { id: 'motor-holding-torque-no-friction', symbol: 'T_h,m', equation: 'T_h,m = T_0 / i (gearbox reverse efficiency not credited, eta_r = 1)', source: `power balance through a gear train (${SHIGLEY}, Sec. 13-13, from memory) with eta_r = 1: friction lost on the thread is lost on the gearbox too (common practice)` },
+  { id: 'minor-diameter-acme-root', symbol: 'd_r', equation: 'd_r = d - p - a, a = 0.020 in (10 TPI and coarser), 0.010 in (finer)', source: 'ASME B1.5 external minor diameter maximum, common to classes 2G, 3G, 4G (from memory)' },
+  // engine 1.2: nut body and flange, safety nut, worn thread
+  { id: 'nut-body-axial-stress', symbol: 'sigma_a', equation: 'sigma_a = 4 F / (pi (D_o^2 - D_4^2))', source: `${SHIGLEY}, Eq. (3-22) normal stress on the nut body's ring section (bore at the nut thread root D_4)` },
+  { id: 'nut-radial-flank-force', symbol: 'F_r', equation: 'F_r = F_t tan(alpha) (first-thread load, friction neglected)', source: `statics of the flank normal force (${SHIGLEY}, Fig. 8-7, from memory); friction neglected, the larger push: common practice` },
+  { id: 'nut-bore-pressure', symbol: 'p_i', equation: 'p_i = F_r / (pi D_4 p) (first thread over one pitch of the bore)', source: 'radial force spread over one pitch of the bore at the nut thread root: common practice' },
+  { id: 'nut-body-hoop-stress', symbol: 'sigma_t', equation: 'sigma_t = p_i (D_o^2 + D_4^2) / (D_o^2 - D_4^2) at the bore', source: `Lame, thick-walled cylinder under internal pressure (${SHIGLEY}, Sec. 3-16, Eq. (3-50), number from memory)` },
+  { id: 'nut-body-von-mises', symbol: "sigma'_nut", equation: "sigma' = sqrt(((s_t - s_r)^2 + (s_r - s_a)^2 + (s_a - s_t)^2) / 2), s_r = -p_i, s_a = +/- sigma_a (worse sign)", source: `${SHIGLEY}, Eq. (5-12)` },
+  { id: 'nut-flange-shear', symbol: 'tau_f', equation: 'tau_f = F / (pi D_o t_f)', source: "direct shear on the flange root cylinder, as the stripping planes of Machinery's Handbook, 29th ed., 'Strength of screw threads' (edition from memory)" },
+  { id: 'nut-flange-bending', symbol: 'sigma_f', equation: 'sigma_f = 6 F a / (pi D_o t_f^2), a = (D_f - D_o) / 4', source: `cantilever ring of ${SHIGLEY}, Eq. (8-10) applied to the flange, load at mid-width (common practice)` },
+  { id: 'worn-thread-thickness', symbol: 't_w', equation: 't_w = max(0, t_n - w), w the axial wear', source: 'axial play equals the loss of axial thread thickness (flank geometry; common practice of nut-wear gauging)' },
+  // engine 1.2: operation, heat and wear life
+  { id: 'travel-time', symbol: 't_s', equation: 't_s = s / v', source: 'uniform motion, s = v t (Meriam & Kraige, Engineering Mechanics: Dynamics, 7th ed., Sec. 2/2, from memory)' },
+  { id: 'motor-power', symbol: 'P_m', equation: 'P_m = T_R,max 2 pi n / eta_g (eta_g = 1 without a gearbox)', source: `${SHIGLEY}, Eq. (3-40) (power = torque x angular speed) through the gearbox's forward efficiency` },
+  { id: 'friction-heat-per-cycle', symbol: 'Q', equation: 'Q = 2 pi (s / l) (T_R + T_L) (raise and lower one stroke)', source: `energy balance of the screw, work per turn 2 pi T (${SHIGLEY}, Eq. (8-4))` },
+  { id: 'friction-power-running', symbol: 'P_run', equation: 'P_run = pi n (T_R + T_L) (mean of raising and lowering)', source: `${SHIGLEY}, Eq. (3-40), losses of raising and lowering averaged` },
+  { id: 'mean-power-loss-cycles', symbol: 'P_mean', equation: 'P_mean = Q z / 3600, z cycles per hour', source: `heat per cycle times the cycle rate (energy balance on ${SHIGLEY}, Eq. (8-4))` },
+  { id: 'mean-power-loss-duty-cycle', symbol: 'P_mean', equation: 'P_mean = P_run ED, ED the fraction of time running', source: `running loss times the fraction of time running (${SHIGLEY}, Eq. (3-40))` },
+  { id: 'nut-outside-surface', symbol: 'A', equation: 'A = pi D_o L + (pi / 2) (D_o^2 - d^2)', source: 'the nut taken as a plain cylinder, mantle and both end faces (geometry; common practice for the heat balance)' },
+  { id: 'nut-temperature-rise', symbol: 'dT', equation: 'dT = P_mean / (h A), h = 10 W/(m^2 K)', source: "Newton's law of cooling, steady state (Incropera & DeWitt, Fundamentals of Heat and Mass Transfer, Eq. (1.3a), Table 1.1 free convection 2-25 W/(m^2 K), from memory); all heat into the nut, screw conduction neglected (the safe side)" },
+  { id: 'wear-life-archard', symbol: 's_life', equation: 's_life = w cos(alpha) / (k p) (sliding distance to an axial wear w)', source: 'Archard, J. Appl. Phys. 24 (1953) 981; dimensional wear coefficient k (Hutchings, Tribology, Sec. 5.2, from memory)' },
+  { id: 'sliding-per-travel', symbol: 's_slide/s', equation: 's_slide / s = pi d_m / (l cos lambda)', source: 'helix kinematics, as the sliding velocity (Bhandari, Design of Machine Elements, 3rd ed., Sec. 6.13, from memory)' },
+  // engine 1.2: lifting dynamics and stopping
+  { id: 'dynamic-factor-hoisting', symbol: 'phi_2', equation: 'phi_2 = phi_2,min + beta_2 v_h (HC1 1.05/0.17, HC2 1.10/0.34, HC3 1.15/0.51, HC4 1.20/0.68)', source: 'EN 13001-2, Sec. 4.2.2.2, Table 2 (from memory); default class HC2 on lifting duty: common practice' },
+  { id: 'stopping-inertia', symbol: 'J', equation: 'J = J_s + m (l / (2 pi))^2 + J_m i^2', source: 'kinetic energy of screw, load and motor referred to the screw (Meriam & Kraige, Engineering Mechanics: Dynamics, 7th ed., Sec. 6/6, from memory)' },
+  { id: 'stopping-angle', symbol: 'theta_stop', equation: 'theta = omega_0 t_r + (T_0 / J) t_r^2 / 2 + omega_1^2 / (2 (T_b - T_0) / J), omega_1 = omega_0 + (T_0 / J) t_r; s = theta l / (2 pi)', source: 'constant angular acceleration (Meriam & Kraige, Dynamics, 7th ed., Sec. 5/2, Eq. 6/1, from memory); thread and gearbox friction lost (the safe side, as the brake check)' },
+  { id: 'brake-energy', symbol: 'E_b', equation: 'E_b = T_b omega_1^2 / (2 alpha_b)', source: 'work of a constant torque W = T theta (Meriam & Kraige, Dynamics, 7th ed., Sec. 6/6, from memory)' },
+  // engine 1.2: fatigue
+  { id: 'endurance-limit-specimen', symbol: "S_e'", equation: "S_e' = 0.5 S_ut (S_ut <= 1400 MPa), 700 MPa above", source: `${SHIGLEY}, Eq. (6-8)` },
+  { id: 'fatigue-surface-factor', symbol: 'k_a', equation: 'k_a = 4.51 S_ut^-0.265 (MPa), machined or cold drawn', source: `${SHIGLEY}, Eq. (6-19), Table 6-2` },
+  { id: 'fatigue-size-factor', symbol: 'k_b', equation: 'k_b = 1.24 d^-0.107 (2.79-51 mm), 1.51 d^-0.157 (51-254 mm)', source: `${SHIGLEY}, Eq. (6-20)` },
+  { id: 'endurance-limit-part', symbol: 'S_e', equation: "S_e = k_a k_b k_c S_e', k_c = 0.85 (axial, taken for the combined root stress)", source: `${SHIGLEY}, Eqs. (6-18), (6-26); thread root K_f = 2.8, cut threads, Table 8-16 (from memory)` },
+  { id: 'goodman-safety-factor', symbol: 'n_f', equation: 'n_f = 1 / (sigma_a / S_e + sigma_m / S_ut), sigma_a = sigma_m = K_f phi sigma_max / 2 (0 -> max each lift)', source: `${SHIGLEY}, Eq. (6-41) (modified Goodman)` },
+  // engine 1.2: the collar as a bearing
+  { id: 'collar-bearing-pressure', symbol: 'p_c', equation: 'p_c = 4 F / (pi (D_o^2 - D_i^2))', source: 'Bhandari, Design of Machine Elements, 3rd ed., Sec. 6.8 (unit bearing pressure of the collar, from memory)' },
+  { id: 'bearing-rating-life', symbol: 'L_10', equation: 'L_10 = (C_a / P_a)^p [10^6 rev], p = 3 ball, 10/3 roller, P_a = F', source: `ISO 281:2007, Eq. (1) (from memory); ${SHIGLEY}, Eq. (11-1)` },
+  { id: 'bearing-rating-life-hours', symbol: 'L_10h', equation: 'L_10h = 10^6 L_10 / (60 n)', source: 'ISO 281:2007, Sec. 6 (from memory)' },
+  { id: 'bearing-static-safety', symbol: 's_0', equation: 's_0 = C_0a / P_0a, P_0a = F', source: `ISO 76:2006 (from memory); ${SHIGLEY}, Sec. 11-6` },
 ];
 
 /** The formula registry, by id. */

@@ -12,6 +12,8 @@ export interface ScrewMaterial {
   readonly elasticModulus: number;
   /** Mass density [kg/m^3] */
   readonly density: number;
+  /** Minimum (or, where said, typical) tensile strength [Pa], for fatigue (Goodman) */
+  readonly tensileStrength: number;
   readonly source: string;
 }
 
@@ -23,14 +25,14 @@ const A5 = "Shigley's Mechanical Engineering Design, Table A-5 (E; density = wei
 // typical value; the one typical value left (4140 Q&T) says so and names what overrides it.
 const A20 = 'Shigley Table A-20, deterministic ASTM minimum strengths (from memory)';
 export const SCREW_MATERIALS: readonly ScrewMaterial[] = [
-  { id: 'steel-1018-cd', name: 'AISI 1018 cold drawn', yieldStrength: 370 * MPA, elasticModulus: 207 * GPA, density: 7801, source: `Sy 370 MPa (54 kpsi) minimum, ${A20}; ${A5}` },
-  { id: 'steel-1045-cd', name: 'AISI 1045 cold drawn', yieldStrength: 530 * MPA, elasticModulus: 207 * GPA, density: 7801, source: `Sy 530 MPa (77 kpsi) minimum, ${A20}; ${A5}` },
-  { id: 'steel-1045-hr', name: 'AISI 1045 hot rolled', yieldStrength: 310 * MPA, elasticModulus: 207 * GPA, density: 7801, source: `Sy 310 MPa (45 kpsi) minimum, ${A20}; ${A5}` },
+  { id: 'steel-1018-cd', name: 'AISI 1018 cold drawn', yieldStrength: 370 * MPA, tensileStrength: 440 * MPA, elasticModulus: 207 * GPA, density: 7801, source: `Sy 370 MPa (54 kpsi), Sut 440 MPa (64 kpsi) minimum, ${A20}; ${A5}` },
+  { id: 'steel-1045-cd', name: 'AISI 1045 cold drawn', yieldStrength: 530 * MPA, tensileStrength: 630 * MPA, elasticModulus: 207 * GPA, density: 7801, source: `Sy 530 MPa (77 kpsi), Sut 630 MPa (91 kpsi) minimum, ${A20}; ${A5}` },
+  { id: 'steel-1045-hr', name: 'AISI 1045 hot rolled', yieldStrength: 310 * MPA, tensileStrength: 570 * MPA, elasticModulus: 207 * GPA, density: 7801, source: `Sy 310 MPa (45 kpsi), Sut 570 MPa (82 kpsi) minimum, ${A20}; ${A5}` },
   {
-    id: 'steel-4140-qt650', name: 'AISI 4140 Q&T 650 C', yieldStrength: 655 * MPA, elasticModulus: 207 * GPA, density: 7801,
-    source: `Sy 655 MPa, Shigley Table A-21 (from memory): a typical value of the heat treatment, not a specification minimum; give screw.yieldStrength from the mill certificate to replace it; ${A5}`,
+    id: 'steel-4140-qt650', name: 'AISI 4140 Q&T 650 C', yieldStrength: 655 * MPA, tensileStrength: 758 * MPA, elasticModulus: 207 * GPA, density: 7801,
+    source: `Sy 655 MPa, Sut 758 MPa, Shigley Table A-21 (from memory): a typical value of the heat treatment, not a specification minimum; give screw.yieldStrength from the mill certificate to replace it; ${A5}`,
   },
-  { id: 'stainless-304-annealed', name: 'AISI 304 annealed bar', yieldStrength: 205 * MPA, elasticModulus: 190 * GPA, density: 7750, source: `Sy 205 MPa (30 ksi) minimum, ASTM A276 (from memory); ${A5} (stainless 18-8)` },
+  { id: 'stainless-304-annealed', name: 'AISI 304 annealed bar', yieldStrength: 205 * MPA, tensileStrength: 515 * MPA, elasticModulus: 190 * GPA, density: 7750, source: `Sy 205 MPa (30 ksi), Sut 515 MPa (75 ksi) minimum, ASTM A276 (from memory); ${A5} (stainless 18-8)` },
 ];
 
 /**
@@ -64,6 +66,11 @@ export interface NutMaterial {
   /** Yield strength for the nut-thread stripping check [Pa]; null where unknown */
   readonly yieldStrength: number | null;
   readonly yieldSource: string;
+  /** Minimum tensile strength [Pa] for fatigue (Goodman); null where unknown */
+  readonly tensileStrength: number | null;
+  /** Highest service temperature of the nut material [K]; null where none is held (metals: not limiting at screw temperatures) */
+  readonly maxTemperature: number | null;
+  readonly maxTemperatureSource: string;
 }
 
 const PSI = 6894.757293168361; // 1 psi in Pa, NIST SP 811 B.8
@@ -100,6 +107,9 @@ export const NUT_MATERIALS: readonly NutMaterial[] = [
     allowablePvSource: 'Mott, Machine Elements in Mechanical Design, Table 16-1, leaded tin bronze 75,000 psi*ft/min',
     yieldStrength: 14000 * PSI,
     yieldSource: 'ASTM B584 C93200 minimum yield 14 ksi (97 MPa; tensile 30 ksi minimum) (from memory)',
+    tensileStrength: 30000 * PSI,
+    maxTemperature: null,
+    maxTemperatureSource: 'metal nut: not limiting at screw operating temperatures',
   },
   {
     id: 'manganese-bronze',
@@ -111,6 +121,9 @@ export const NUT_MATERIALS: readonly NutMaterial[] = [
     allowablePvSource: 'Mott, Table 16-1, manganese bronze C86200 150,000 psi*ft/min',
     yieldStrength: 45000 * PSI,
     yieldSource: 'ASTM B584 C86200 minimum yield 45 ksi (310 MPa; tensile 90 ksi minimum) (from memory)',
+    tensileStrength: 90000 * PSI,
+    maxTemperature: null,
+    maxTemperatureSource: 'metal nut: not limiting at screw operating temperatures',
   },
   {
     id: 'aluminum-bronze',
@@ -122,6 +135,9 @@ export const NUT_MATERIALS: readonly NutMaterial[] = [
     allowablePvSource: 'Mott, Table 16-1, aluminum bronze C95400 125,000 psi*ft/min',
     yieldStrength: 30000 * PSI,
     yieldSource: 'ASTM B148 C95400 minimum yield 30 ksi (207 MPa; tensile 75 ksi minimum), as cast (from memory)',
+    tensileStrength: 75000 * PSI,
+    maxTemperature: null,
+    maxTemperatureSource: 'metal nut: not limiting at screw operating temperatures',
   },
   {
     id: 'cast-iron',
@@ -133,6 +149,9 @@ export const NUT_MATERIALS: readonly NutMaterial[] = [
     allowablePvSource: 'no published pV limit held',
     yieldStrength: null,
     yieldSource: 'grey iron has no yield point; stripping judged on the screw only',
+    tensileStrength: null,
+    maxTemperature: null,
+    maxTemperatureSource: 'metal nut: not limiting at screw operating temperatures',
   },
   {
     id: 'nylon',
@@ -144,6 +163,9 @@ export const NUT_MATERIALS: readonly NutMaterial[] = [
     allowablePvSource: 'Mott, Table 16-1, nylon 3,000 psi*ft/min',
     yieldStrength: null,
     yieldSource: 'supplier data required',
+    tensileStrength: null,
+    maxTemperature: 273.15 + 93,
+    maxTemperatureSource: 'Mott, Machine Elements in Mechanical Design, Table 16-1, nylon, 200 F (93 C) (from memory, low confidence): give nut.maxTemperature from the supplier',
   },
   {
     id: 'uhmw-pe',
@@ -155,20 +177,39 @@ export const NUT_MATERIALS: readonly NutMaterial[] = [
     allowablePvSource: 'Mott, Table 16-1, UHMW 4,000 psi*ft/min',
     yieldStrength: null,
     yieldSource: 'supplier data required',
+    tensileStrength: null,
+    maxTemperature: 273.15 + 66,
+    maxTemperatureSource: 'Mott, Machine Elements in Mechanical Design, Table 16-1, UHMW, 150 F (66 C) (from memory, low confidence): give nut.maxTemperature from the supplier',
   },
 ];
 
 /**
  * The allowable mean bearing pressure that applies at a rubbing speed: the first step whose speed range covers it.
  * @param points - steps from low to high speed (PressureSpeedPoint)
- * @param rubbingSpeed - rubbing speed at the mean diameter [m/s]; null when no speed is known (the first, lowest-speed step applies)
+ * @param rubbingSpeed - rubbing speed at the mean diameter [m/s]; null when no speed is known (see pressureStepWithoutSpeed)
  * @returns the step that applies, or null when no step covers the speed
  * Source: step reading of Shigley 9th ed. Table 8-4 classes (from memory); never rises with speed when the steps do not.
  */
 export function pressureStepAt(points: readonly PressureSpeedPoint[], rubbingSpeed: number | null): PressureSpeedPoint | null {
   if (points.length === 0) return null;
-  if (rubbingSpeed === null) return points[0];
+  if (rubbingSpeed === null) return pressureStepWithoutSpeed(points);
   return points.find((p) => p.upToRubbingSpeed === null || rubbingSpeed <= p.upToRubbingSpeed) ?? null;
+}
+
+/**
+ * The allowable when no operating speed is known: the lowest allowable of all the classes (the most conservative, as
+ * the screw may run at any speed), never the generous low-speed class.
+ * p_allow = min_i p_allow,i over the steps with a value
+ * @param points - steps from low to high speed
+ * @returns the step with the lowest allowable, or null when no step has a value
+ * Source: Shigley 9th ed. Table 8-4 classes (from memory), read on the safe side (common practice). Id: allowable-pressure-no-speed.
+ */
+export function pressureStepWithoutSpeed(points: readonly PressureSpeedPoint[]): PressureSpeedPoint | null {
+  let lowest: PressureSpeedPoint | null = null;
+  for (const p of points) {
+    if (p.allowablePressure !== null && (lowest === null || p.allowablePressure < (lowest.allowablePressure as number))) lowest = p;
+  }
+  return lowest;
 }
 
 export function findScrewMaterial(id: string): ScrewMaterial | undefined {

@@ -285,6 +285,26 @@ export function criticalSpeedRpm(betaL: number, d: number, L: number, E: number,
 }
 
 /**
+ * First critical (whirling) speed with the stiffness of the root section and the mass of the thread: a screw's
+ * ridges add mass but little stiffness, so I is taken on the root diameter and the mass per length on the pitch
+ * diameter (engine 1.2; criticalSpeedRpm takes both on the root).
+ * n_c = (beta_1 L)^2 (60 / (2 pi)) (1 / L^2) sqrt(E I_r / (rho A_m)) = (beta_1 L)^2 (60 / (2 pi)) (d_r^2 / (4 d_m L^2)) sqrt(E / rho)
+ * @param betaL - frequency factor beta_1 L [-]
+ * @param dr - root (minor) diameter, for I = pi d_r^4 / 64 [m]
+ * @param dm - pitch (mean) diameter, for the mass per length rho pi d_m^2 / 4 [m]
+ * @param L - length between supports [m]
+ * @param E - elastic modulus [Pa]
+ * @param rho - mass density [kg/m^3]
+ * @returns speed [rev/min]; neglects gyroscopic and axial-load effects.
+ * Source: Thomson, Theory of Vibration with Applications, Sec. 9.5 (Euler-Bernoulli beam, omega = (beta_1 L)^2 sqrt(EI / (m L^4)));
+ * thread mass on the pitch diameter: common practice (shared reference columns-and-speed.md 3.4 notes the ridges' mass). Id: critical-speed-thread-mass.
+ */
+export function criticalSpeedRpmThreadMass(betaL: number, dr: number, dm: number, L: number, E: number, rho: number): number {
+  const omega = (betaL ** 2 / L ** 2) * ((dr * dr) / (4 * dm)) * Math.sqrt(E / rho);
+  return (omega * 60) / (2 * Math.PI);
+}
+
+/**
  * Mean bearing pressure on the engaged flanks of the nut.
  * p = F / (pi d_m h n_t)
  * @returns pressure [Pa]

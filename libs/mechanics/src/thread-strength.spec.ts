@@ -7,7 +7,7 @@
 import { parseDesign, type DesignInput } from '@leadline/contracts';
 import fc from 'fast-check';
 import { evaluate, type Evaluation } from './evaluate';
-import { NUT_MATERIALS, pressureStepAt } from './materials';
+import { findNutMaterial, NUT_MATERIALS, pressureStepAt } from './materials';
 import { firstThreadLoad, rootVonMises, rootVonMisesWorseFillet } from './mechanics';
 import { expectClose } from './test-support';
 import { checkProperty } from '../../../test/support/property';
@@ -206,10 +206,26 @@ describe('item 1: nut bearing pressure against rubbing speed (Shigley 9th ed. Ta
     expect(e.wear.allowablePressureClass).toMatch(/hoisting screw/);
   });
 
-  it('without an operating speed the lowest-speed class is assumed, and the class says so', () => {
+  it('without an operating speed the lowest allowable of the classes (150 psi, lead screw) is used, with its basis and a trace entry', () => {
+    // Table 8-4 steel/bronze classes 1600, 800 and 150 psi (low ends, from memory): the most conservative is 150 psi
     const e = run(trTwoStart(undefined));
-    expectClose(e.wear.allowablePressure ?? NaN, 1600 * PSI, { rtol: 1e-12 });
+    expectClose(e.wear.allowablePressure ?? NaN, 150 * PSI, { rtol: 1e-12 });
+    expect(e.wear.allowablePressureBasis).toBe('lowest-class-no-speed');
     expect(e.wear.allowablePressureClass).toMatch(/no operating speed was given/);
+    expect(e.trace['wear.allowablePressure']).toEqual({ formula: 'allowable-pressure-no-speed', inputs: { p_allow: 150 * PSI, classes: 3 } });
+  });
+
+  it('law (fast-check): without a speed the allowable is never above the lowest class of the material', () => {
+    const bronzes = ['bronze', 'manganese-bronze', 'aluminum-bronze', 'cast-iron'];
+    checkProperty(
+      fc.property(fc.constantFrom(...bronzes), fc.integer({ min: 20, max: 200 }), (material, lengthMm) => {
+        const e = run(trTwoStart(undefined, { length: `${lengthMm} mm`, material }));
+        const classes = findNutMaterial(material)?.pressureBySpeed ?? [];
+        const lowest = Math.min(...classes.map((c) => c.allowablePressure ?? Infinity));
+        return e.wear.allowablePressure !== null && e.wear.allowablePressure <= lowest;
+      }),
+      { numRuns: 40 },
+    );
   });
 
   it("a design's own single allowable is used at any speed, and says so", () => {

@@ -68,8 +68,27 @@ describe('ASME B1.5 Acme classes (limits computed in threads.md Secs. 2.2, 2.3 f
     expectClose(mm.engagedHeight, 0.09 * IN, { rtol: 1e-9 }); // (0.99 - 0.81) / 2
   });
 
-  it('without a class the basic profile is used', () => {
-    const g = geometryOf('1-5 ACME');
+  it('without a class: the basic profile, but the screw root every class shares, d - p - 0.020 in (1-5: 0.7800 in; 1 1/2-4: 1.2300 in)', () => {
+    // threads.md Sec. 2.2, "2G ext. minor max" column (computed from the recalled B1.5 formulas), 4 decimals printed
+    for (const [size, minorMax] of [['1-5 ACME', 0.78], ['1 1/2-4 ACME', 1.23], ['1/4-16 ACME', 0.1775]] as const) {
+      const g = geometryOf(size);
+      const mm = minimumMaterial(g, null);
+      expectClose(mm.minorDiameter / 0.0254, minorMax, { rtol: 0, atol: 0.00005, label: size });
+      expect([mm.pitchDiameter, mm.engagedHeight, mm.majorDiameter]).toEqual([g.meanDiameter, g.threadHeight, g.majorDiameter]);
+      expect(mm.basis).toMatch(/root of every ASME B1.5 class/);
+    }
+  });
+
+  it('law: naming a class never gives a larger root than no class (so a class never raises a body strength factor)', () => {
+    for (const size of ['1/4-16 ACME', '1-5 ACME', '1 1/2-4 ACME', '5-2 ACME']) {
+      const g = geometryOf(size);
+      const none = minimumMaterial(g, null).minorDiameter;
+      for (const c of ['2G', '3G', '4G']) expect(minimumMaterial(g, c).minorDiameter).toBeLessThanOrEqual(none);
+    }
+  });
+
+  it('other forms without a class keep the basic profile', () => {
+    const g = threadGeometry({ form: 'trapezoidal', majorDiameter: 0.04, pitch: 0.007, starts: 1, loadFlankAngle: null });
     const mm = minimumMaterial(g, null);
     expect([mm.minorDiameter, mm.pitchDiameter, mm.engagedHeight]).toEqual([g.minorDiameter, g.meanDiameter, g.threadHeight]);
     expect(mm.basis).toMatch(/minimum-material diameters are smaller/);

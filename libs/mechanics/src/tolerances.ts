@@ -47,6 +47,24 @@ export interface MinimumMaterial {
  */
 export function minimumMaterial(g: ThreadGeometry, toleranceClass: string | null): MinimumMaterial {
   const basicNutMinor = g.nutMinorDiameter;
+  if (toleranceClass === null && g.form === 'acme') {
+    // No class named: the root every ASME B1.5 class shares, the external minor diameter's maximum d - p - a
+    // (a = 0.020 in for 10 TPI and coarser, 0.010 in finer), never the basic d - p, which no class reaches
+    const din = g.majorDiameter / INCH;
+    const p = g.pitch / INCH;
+    return {
+      toleranceClass: null,
+      majorDiameter: g.majorDiameter,
+      pitchDiameter: g.meanDiameter,
+      minorDiameter: acmeRootWithoutClass(din, p) * INCH,
+      nutMinorDiameter: basicNutMinor,
+      nutPitchDiameter: g.meanDiameter,
+      engagedHeight: g.threadHeight,
+      basis:
+        'no tolerance class named: basic profile, with the root of every ASME B1.5 class, the external minor diameter maximum ' +
+        'd - p - 0.020 in (10 TPI and coarser) or d - p - 0.010 in (finer), for the screw body (formulas from memory)',
+    };
+  }
   if (toleranceClass === null) {
     return {
       toleranceClass: null,
@@ -82,7 +100,7 @@ export function minimumMaterial(g: ThreadGeometry, toleranceClass: string | null
       '4G': [0.004 * Math.sqrt(din), 0.002 * Math.sqrt(din) + 0.01 * Math.sqrt(p)],
     }[toleranceClass as '2G' | '3G' | '4G'];
     const E = din - p / 2;
-    const minorMax = din - p - (p >= 0.1 - 1e-12 ? 0.02 : 0.01);
+    const minorMax = acmeRootWithoutClass(din, p);
     d = (din - 0.05 * p) * INCH;
     d2 = (E - allowance - tolerance) * INCH;
     d3 = (minorMax - 1.5 * tolerance) * INCH;
@@ -91,6 +109,18 @@ export function minimumMaterial(g: ThreadGeometry, toleranceClass: string | null
     basis = `ASME B1.5 class ${toleranceClass} (allowance and tolerance formulas from memory)`;
   }
   return { toleranceClass, majorDiameter: d, pitchDiameter: d2, minorDiameter: d3, nutMinorDiameter: D1, nutPitchDiameter: D2, engagedHeight: (d - D1) / 2, basis };
+}
+
+/**
+ * External minor diameter maximum of an ASME B1.5 Acme thread, shared by the classes 2G, 3G and 4G.
+ * d_r,max = d - p - a, a = 0.020 in (10 TPI and coarser) or 0.010 in (finer than 10 TPI)
+ * @param din - major diameter [in]
+ * @param p - pitch [in]
+ * @returns minor diameter [in]
+ * Source: ASME B1.5 (from memory, e.g. 1 1/2-4: 1.2300 in). Id: minor-diameter-acme-root.
+ */
+export function acmeRootWithoutClass(din: number, p: number): number {
+  return din - p - (p >= 0.1 - 1e-12 ? 0.02 : 0.01);
 }
 
 /** The ISO 2903 7H/7e row of a standard size, or undefined. */

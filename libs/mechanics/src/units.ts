@@ -32,7 +32,10 @@ export type Dimension =
   | 'pv'
   | 'mass'
   | 'time'
-  | 'linearAcceleration';
+  | 'linearAcceleration'
+  | 'temperature'
+  | 'inertia'
+  | 'specificWearRate';
 
 /** mathjs base-dimension exponents: [MASS, LENGTH, TIME, CURRENT, TEMPERATURE, LUMINOUS, AMOUNT, ANGLE, BIT]. */
 const DIMENSIONS: Record<Dimension, number[]> = {
@@ -48,6 +51,9 @@ const DIMENSIONS: Record<Dimension, number[]> = {
   mass: [1, 0, 0, 0, 0, 0, 0, 0, 0],
   time: [0, 0, 1, 0, 0, 0, 0, 0, 0],
   linearAcceleration: [0, 1, -2, 0, 0, 0, 0, 0, 0],
+  temperature: [0, 0, 0, 0, 1, 0, 0, 0, 0],
+  inertia: [1, 2, 0, 0, 0, 0, 0, 0, 0],
+  specificWearRate: [-1, 1, 2, 0, 0, 0, 0, 0, 0],
 };
 
 /** What a dimension is called in error messages, with example units. */
@@ -64,16 +70,19 @@ export const DIMENSION_HINT: Record<Dimension, string> = {
   mass: 'a mass such as "250 kg" or "550 lb"',
   time: 'a time such as "0.5 s" or "200 ms"',
   linearAcceleration: 'a linear acceleration such as "0.5 m/s^2" or "20 in/s^2"',
+  temperature: 'a temperature such as "20 degC", "68 degF" or "293.15 K"',
+  inertia: 'a mass moment of inertia such as "0.002 kg*m^2" or "5 lb*in^2"',
+  specificWearRate: 'a specific wear rate such as "1e-6 mm^3/(N*m)"',
 };
 
 /**
- * The SI value the engine works in for each dimension: m, N, Pa, N*m, kg/m^3, m/s, rad.
+ * The SI value the engine works in for each dimension: m, N, Pa, N*m, kg/m^3, m/s, rad, K, kg*m^2, m^2/N.
  * Rotational speed is the one exception: rev/min, the unit the Evaluation reports speeds in.
  */
 const RAD_PER_S_TO_RPM = 60 / (2 * Math.PI);
 
 /** Units that belong to the US customary system; anything else entered counts as SI. */
-const US_CUSTOMARY = /(^|[^a-z])(in|inch|ft|foot|lbf|lb|lbm|psi|ksi|kpsi|Mpsi|kip|mil)([^a-z]|$)/;
+const US_CUSTOMARY = /(^|[^a-z])(in|inch|ft|foot|lbf|lb|lbm|psi|ksi|kpsi|Mpsi|kip|mil|degF|fahrenheit)([^a-z]|$)/;
 
 interface ResolvedUnit {
   readonly dimension: Dimension | null;
@@ -133,7 +142,8 @@ export function parseQuantity(text: string, dimension: Dimension): Quantity | Qu
   if (unit.dimension !== dimension) {
     return new QuantityError(`"${text}" is not ${DIMENSION_HINT[dimension]}`);
   }
-  const si = value * unit.factor;
+  // Temperatures carry an offset (degC, degF): converted by mathjs to kelvin, never by a factor alone
+  const si = dimension === 'temperature' ? math.unit(value, match[2]).toNumber('K') : value * unit.factor;
   // A finite number can still overflow in conversion ("1e308 GPa" is 1e317 Pa): refuse it rather than compute with Infinity
   if (!Number.isFinite(si)) return new QuantityError(`"${text}" converts to a number too large to compute with`);
   return { si, usCustomary: unit.usCustomary };
@@ -145,5 +155,6 @@ export function fromSi(si: number, unitText: string, dimension: Dimension): numb
   if (unit instanceof Error || unit.dimension !== dimension) {
     throw new Error(`cannot express ${dimension} in "${unitText}"`);
   }
+  if (dimension === 'temperature') return math.unit(si, 'K').toNumber(unitText);
   return si / unit.factor;
 }

@@ -2,12 +2,14 @@
  * Whirl span and ends separate from the column, and fixed ends taken as only partly fixed.
  * Check values computed from Thomson, Theory of Vibration with Applications, frequency factors (
  * Appendix D / Table 9.5-1): d_r = 32 mm, L = 1500 mm, E = 207 GPa, rho = 7850 kg/m^3: pinned-pinned 1720.8 rev/min,
- * fixed-fixed 3900.8 rev/min, fixed-free 613.0 rev/min (printed to 0.1 rev/min).
+ * fixed-fixed 3900.8 rev/min, fixed-free 613.0 rev/min (printed to 0.1 rev/min). Those take the mass on the root diameter; engine
+ * 1.2 takes it on the pitch diameter (stiffness on the root), which scales every speed by d_r / d_m (Thomson, Sec. 9.5,
+ * omega = (beta_1 L)^2 sqrt(E I / (rho A L^4))): here 32 / 34, and the printed 0.05 rev/min rounding alike.
  */
 import { parseDesign, type DesignInput } from '@leadline/contracts';
 import fc from 'fast-check';
 import { evaluate } from './evaluate';
-import { END_CONDITIONS } from './mechanics';
+import { criticalSpeedRpm, END_CONDITIONS } from './mechanics';
 import { expectClose } from './test-support';
 import { checkProperty } from '../../../test/support/property';
 
@@ -28,6 +30,9 @@ function design(screw: Partial<DesignInput['screw']> = {}, speed?: string): Desi
   };
 }
 
+/** Square 36x4: d_r = 32 mm, d_m = 34 mm (Shigley 10th ed., Fig. 8-3): the reference speeds scale by 32 / 34 */
+const MASS = 32 / 34;
+
 function run(input: DesignInput) {
   const parsed = parseDesign(input);
   if (!parsed.success) throw new Error(JSON.stringify(parsed.issues));
@@ -38,7 +43,7 @@ describe('whirl span and ends (shared reference columns-and-speed.md 3.3)', () =
   it('the stated whirl span and ends give the classical fixed-fixed first mode 3900.8 rev/min (0.1 rev/min printed)', () => {
     const e = run(design({ whirlSpan: '1500 mm', whirlEnds: 'fixed-fixed' }));
     expect(e.geometry.minorDiameter).toBeCloseTo(0.032, 12);
-    expectClose(e.criticalSpeed.rpm, 3900.8, { rtol: 0, atol: 0.05 });
+    expectClose(e.criticalSpeed.rpm, 3900.8 * MASS, { rtol: 0, atol: 0.05 * MASS });
     expect(e.criticalSpeed.span).toBe(1.5);
     expect(e.criticalSpeed.ends).toBe('fixed-fixed');
     expect(e.buckling.endConditionConstant).toBe(0.25); // the column keeps its own ends (fixed-free)
@@ -46,7 +51,7 @@ describe('whirl span and ends (shared reference columns-and-speed.md 3.3)', () =
 
   it('without whirl fields the column length and ends are used: fixed-free 613.0 rev/min at 1500 mm', () => {
     const e = run(design({ unsupportedLength: '1500 mm' }));
-    expectClose(e.criticalSpeed.rpm, 613.0, { rtol: 0, atol: 0.05 });
+    expectClose(e.criticalSpeed.rpm, 613.0 * MASS, { rtol: 0, atol: 0.05 * MASS });
     expect(e.criticalSpeed.span).toBe(1.5);
     expect(e.criticalSpeed.ends).toBe('fixed-free');
   });
@@ -55,21 +60,31 @@ describe('whirl span and ends (shared reference columns-and-speed.md 3.3)', () =
     const e = run(design({ whirlSpan: '1500 mm', whirlEnds: 'fixed-fixed' }, '1950 rpm'));
     const pf = e.criticalSpeed.partlyFixed;
     expect(pf).not.toBeNull();
-    expectClose(pf?.rpm ?? NaN, 1.2 * 1720.8, { rtol: 0, atol: 0.06 }); // 1.2 x the 0.05 rounding of 1720.8
+    expectClose(pf?.rpm ?? NaN, 1.2 * 1720.8 * MASS, { rtol: 0, atol: 0.06 * MASS }); // 1.2 x the 0.05 rounding of 1720.8
     expect(pf?.endConditionConstant).toBe(1.2); // Shigley 9th ed., Table 4-2, recommended
     // factor pi^2 C / (beta_1 L)^2 with (beta_1 L)^2 = 22.3733 (Thomson, Appendix D): 11.8435 / 22.3733 = 0.52936
     expectClose(pf?.factor ?? NaN, 0.52936, { rtol: 2e-5 });
-    expectClose(pf?.ratio ?? NaN, 1950 / 2064.96, { rtol: 1e-4 });
-    expectClose(e.criticalSpeed.ratio ?? NaN, 1950 / 3900.8, { rtol: 2e-5 });
+    expectClose(pf?.ratio ?? NaN, 1950 / (2064.96 * MASS), { rtol: 1e-4 });
+    expectClose(e.criticalSpeed.ratio ?? NaN, 1950 / (3900.8 * MASS), { rtol: 2e-5 });
   });
 
   it('fixed-pinned partly fixed factor 11.8435 / 15.4182 = 0.76815 (Thomson Table 9.5-1 (beta_1 L)^2)', () => {
     expectClose(run(design({ whirlEnds: 'fixed-pinned' })).criticalSpeed.partlyFixed?.factor ?? NaN, 0.76815, { rtol: 2e-5 });
   });
 
-  it('no partly fixed figure for pinned-pinned ends or on the theoretical basis', () => {
+  it('no partly fixed figure for pinned-pinned ends; the column basis does not change the whirl figures (engine 1.2)', () => {
     expect(run(design({ whirlEnds: 'pinned-pinned' })).criticalSpeed.partlyFixed).toBeNull();
-    expect(run(design({ whirlEnds: 'fixed-fixed', endConditionBasis: 'theoretical' })).criticalSpeed.partlyFixed).toBeNull();
+    const theoretical = run(design({ whirlEnds: 'fixed-fixed', endConditionBasis: 'theoretical' }, '1950 rpm')).criticalSpeed;
+    const recommended = run(design({ whirlEnds: 'fixed-fixed', endConditionBasis: 'recommended' }, '1950 rpm')).criticalSpeed;
+    expect(theoretical.partlyFixed).toEqual(recommended.partlyFixed);
+    expect(theoretical.rpm).toBe(recommended.rpm);
+  });
+
+  it('the pitch-diameter mass lowers the critical speed by d_r / d_m against the root-only model (Thomson, Sec. 9.5)', () => {
+    const e = run(design({ whirlSpan: '1500 mm', whirlEnds: 'pinned-pinned' }));
+    const rootOnly = criticalSpeedRpm(Math.PI, 0.032, 1.5, 207e9, 7850);
+    expectClose(rootOnly, 1720.8, { rtol: 0, atol: 0.05 }); // columns-and-speed.md 3.3, the root-only model
+    expectClose(e.criticalSpeed.rpm / rootOnly, 32 / 34, { rtol: 1e-12 });
   });
 
   it('property: the partly fixed critical speed never exceeds the classical one', () => {

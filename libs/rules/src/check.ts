@@ -21,7 +21,7 @@ export type CheckStatus = 'pass' | 'warning' | 'fail' | 'not-computed';
 export type CheckQuantity = 'factor' | 'fraction';
 
 /** What a check is about, for grouping (the report's lowest strength factor is over the 'strength' group). */
-export type CheckGroup = 'holding' | 'strength' | 'column' | 'speed' | 'wear' | 'drive';
+export type CheckGroup = 'holding' | 'strength' | 'column' | 'speed' | 'wear' | 'drive' | 'fatigue' | 'bearing' | 'heat';
 
 /** Severity of the rule's finding in a case the declaration names. */
 export type CheckSeverity = 'blocking' | 'warning' | 'info';

@@ -7,7 +7,7 @@ import type { Finding } from '@leadline/contracts';
 import fc from 'fast-check';
 import { judge, verdictOf } from './judge';
 import { RULE_REGISTRY } from './registry';
-import { DEFAULT_RULE_SET, parseRuleSet, type RuleSet, type Thresholds } from './rule-set';
+import { RULE_SET_2026_12_2, parseRuleSet, type RuleSet, type Thresholds } from './rule-set';
 import { evaluated, FAST_AXIS_INPUT, JACK_INPUT, withDuty } from './testing/designs';
 import { designInputArbitrary as designInput } from './testing/arbitrary';
 import { checkProperty } from '../../../test/support/property';
@@ -32,22 +32,22 @@ describe('verdictOf', () => {
 describe('judge', () => {
   it('a lifting screw that does not self-lock and has no brake is blocked', () => {
     const e = evaluated(FAST_AXIS_INPUT);
-    const findings = judge(e.design, e.evaluation);
+    const findings = judge(e.design, e.evaluation, RULE_SET_2026_12_2);
     expect(findings.find((x) => x.ruleId === 'lifting-self-locking')?.severity).toBe('blocking');
     expect(verdictOf(findings)).toBe('blocked');
   });
 
   it('the same design on positioning duty does not block', () => {
     const e = evaluated(withDuty(FAST_AXIS_INPUT, { kind: 'positioning' }));
-    const findings = judge(e.design, e.evaluation);
+    const findings = judge(e.design, e.evaluation, RULE_SET_2026_12_2);
     expect(findings.filter((x) => x.severity === 'blocking')).toEqual([]);
     expect(findings.find((x) => x.ruleId === 'lifting-self-locking')?.severity).toBe('info');
     expect(verdictOf(findings)).toBe('clear');
   });
 
-  it('the reference jack is clear under the default rule set, with the lifting reminder as information', () => {
+  it('the reference jack is clear under rule set 2026.12-2, with the lifting reminder as information', () => {
     const e = evaluated(JACK_INPUT);
-    const findings = judge(e.design, e.evaluation);
+    const findings = judge(e.design, e.evaluation, RULE_SET_2026_12_2);
     expect(findings.map((x) => `${x.ruleId}:${x.severity}`)).toEqual(['lifting-self-locking:info']);
     expect(verdictOf(findings)).toBe('clear');
   });
@@ -55,7 +55,7 @@ describe('judge', () => {
   it('reports findings in registry order', () => {
     const e = evaluated({ ...JACK_INPUT, nut: { length: '21 mm', material: 'nylon' }, duty: { ...JACK_INPUT.duty, speed: undefined } });
     const order = RULE_REGISTRY.map((r) => r.id);
-    const ids = judge(e.design, e.evaluation).map((x) => x.ruleId);
+    const ids = judge(e.design, e.evaluation, RULE_SET_2026_12_2).map((x) => x.ruleId);
     expect(ids.length).toBeGreaterThan(3);
     expect([...ids].sort((a, b) => order.indexOf(a) - order.indexOf(b))).toEqual(ids);
   });
@@ -63,7 +63,7 @@ describe('judge', () => {
   it('a new rule-set version with a stricter buckling factor changes the verdict of a borderline jack', () => {
     // The jack's buckling factor is about 3.65: above the default lifting minimum 3.5, below 4.0.
     const e = evaluated(JACK_INPUT);
-    const raw = JSON.parse(JSON.stringify(DEFAULT_RULE_SET)) as RuleSet;
+    const raw = JSON.parse(JSON.stringify(RULE_SET_2026_12_2)) as RuleSet;
     const next = parseRuleSet({
       ...raw,
       version: '2027.01-1',
@@ -71,7 +71,7 @@ describe('judge', () => {
       thresholds: { ...raw.thresholds, buckling: { minSafetyFactor: { ...raw.thresholds.buckling.minSafetyFactor, lifting: 4.0 } } },
     });
     if (!next.success) throw new Error(JSON.stringify(next.issues));
-    const before = judge(e.design, e.evaluation, DEFAULT_RULE_SET);
+    const before = judge(e.design, e.evaluation, RULE_SET_2026_12_2);
     const after = judge(e.design, e.evaluation, next.ruleSet);
     expect(verdictOf(before)).toBe('clear');
     expect(verdictOf(after)).toBe('blocked');
@@ -116,7 +116,7 @@ describe('judge over a sample of designs (property)', () => {
     assertSeeded(
       fc.property(designInput, (input) => {
         const e = evaluated(input);
-        const findings = judge(e.design, e.evaluation);
+        const findings = judge(e.design, e.evaluation, RULE_SET_2026_12_2);
         const seen = new Set<string>();
         for (const x of findings) {
           expect(ids.has(x.ruleId)).toBe(true);
@@ -136,10 +136,10 @@ describe('judge over a sample of designs (property)', () => {
     assertSeeded(
       fc.property(designInput, (input) => {
         const e = evaluated(input);
-        const first = judge(e.design, e.evaluation);
-        expect(judge(e.design, e.evaluation)).toEqual(first);
+        const first = judge(e.design, e.evaluation, RULE_SET_2026_12_2);
+        expect(judge(e.design, e.evaluation, RULE_SET_2026_12_2)).toEqual(first);
         const stored = JSON.parse(JSON.stringify(e)) as typeof e;
-        expect(judge(stored.design, stored.evaluation)).toEqual(first);
+        expect(judge(stored.design, stored.evaluation, RULE_SET_2026_12_2)).toEqual(first);
       }),
       50,
     );
@@ -150,10 +150,10 @@ describe('judge over a sample of designs (property)', () => {
       fc.property(designInput, (input) => {
         const lifting = evaluated(withDuty(input, { kind: 'lifting' }));
         const positioning = evaluated(withDuty(input, { kind: 'positioning' }));
-        const vl = verdictOf(judge(lifting.design, lifting.evaluation));
-        const vp = verdictOf(judge(positioning.design, positioning.evaluation));
+        const vl = verdictOf(judge(lifting.design, lifting.evaluation, RULE_SET_2026_12_2));
+        const vp = verdictOf(judge(positioning.design, positioning.evaluation, RULE_SET_2026_12_2));
         expect(RANK[vp]).toBeLessThanOrEqual(RANK[vl]);
-        const selfLocking = judge(positioning.design, positioning.evaluation).find((x) => x.ruleId === 'lifting-self-locking');
+        const selfLocking = judge(positioning.design, positioning.evaluation, RULE_SET_2026_12_2).find((x) => x.ruleId === 'lifting-self-locking');
         expect(selfLocking?.severity ?? 'info').toBe('info');
       }),
       RUNS,
@@ -161,12 +161,12 @@ describe('judge over a sample of designs (property)', () => {
   });
 
   it('a stricter rule set never gives a better verdict (what an impact report relies on)', () => {
-    const strict = parseRuleSet({ version: '2027.01-1', description: 'every threshold 20 % stricter', thresholds: stricter(DEFAULT_RULE_SET.thresholds) });
+    const strict = parseRuleSet({ version: '2027.01-1', description: 'every threshold 20 % stricter', thresholds: stricter(RULE_SET_2026_12_2.thresholds) });
     if (!strict.success) throw new Error(JSON.stringify(strict.issues));
     assertSeeded(
       fc.property(designInput, (input) => {
         const e = evaluated(input);
-        const base = verdictOf(judge(e.design, e.evaluation));
+        const base = verdictOf(judge(e.design, e.evaluation, RULE_SET_2026_12_2));
         const tightened = verdictOf(judge(e.design, e.evaluation, strict.ruleSet));
         expect(RANK[tightened]).toBeGreaterThanOrEqual(RANK[base]);
       }),

@@ -20,6 +20,17 @@ import { shaftWhirlSpeedRule } from './rules/shaft-whirl-speed.rule';
 import { threadFrictionRangeRule } from './rules/thread-friction-range.rule';
 import { threadRootYieldRule } from './rules/thread-root-yield.rule';
 import { brakeHoldingTorqueRule } from './rules/brake-holding-torque.rule';
+import { nutBodyYieldRule } from './rules/nut-body-yield.rule';
+import { nutBodyFlangeRule } from './rules/nut-body-flange.rule';
+import { safetyNutStrippingRule } from './rules/safety-nut-stripping.rule';
+import { nutWornThreadStrippingRule } from './rules/nut-worn-thread-stripping.rule';
+import { nutTemperatureRule } from './rules/nut-temperature.rule';
+import { brakeStoppingRule } from './rules/brake-stopping.rule';
+import { screwRootFatigueRule } from './rules/screw-root-fatigue.rule';
+import { nutThreadFatigueRule } from './rules/nut-thread-fatigue.rule';
+import { collarBearingPressureRule } from './rules/collar-bearing-pressure.rule';
+import { collarBearingStaticRule } from './rules/collar-bearing-static.rule';
+import { engineNotComputedRule } from './rules/engine-not-computed.rule';
 
 export const RULE_REGISTRY: readonly Rule[] = Object.freeze([
   liftingSelfLockingRule,
@@ -38,6 +49,17 @@ export const RULE_REGISTRY: readonly Rule[] = Object.freeze([
   threadFrictionRangeRule,
   nutEngagedThreadsRule,
   brakeHoldingTorqueRule,
+  nutBodyYieldRule,
+  nutBodyFlangeRule,
+  safetyNutStrippingRule,
+  nutWornThreadStrippingRule,
+  nutTemperatureRule,
+  brakeStoppingRule,
+  screwRootFatigueRule,
+  nutThreadFatigueRule,
+  collarBearingPressureRule,
+  collarBearingStaticRule,
+  engineNotComputedRule,
 ]);
 
 /** Every numeric check the rules declare, in registry order: the one list the API, search, re-check and report read. */

@@ -3,7 +3,7 @@
  * the default rule set, so without this test a changed default would pass them silently. Changing a number here is a
  * new rule-set version (never an edit of a stored one) and needs its basis stated in rule-set.ts.
  */
-import { BUILT_IN_RULE_SETS, DEFAULT_RULE_SET, RULE_SET_2026_12_1, RULE_SET_2026_12_2 } from './rule-set';
+import { BUILT_IN_RULE_SETS, DEFAULT_RULE_SET, RULE_SET_2026_12_1, RULE_SET_2026_12_2, RULE_SET_2026_12_3 } from './rule-set';
 
 /** The thresholds of 2026.12-1, each with its basis (rule-set.ts states the same). */
 const PINNED_2026_12_1 = {
@@ -32,9 +32,8 @@ describe('default thresholds, pinned with their basis', () => {
     expect(RULE_SET_2026_12_1.thresholds).toEqual(PINNED_2026_12_1);
   });
 
-  it('2026.12-2 is the default: every 2026.12-1 threshold kept, plus the groups it adds', () => {
-    expect(DEFAULT_RULE_SET).toBe(RULE_SET_2026_12_2);
-    expect(DEFAULT_RULE_SET.version).toBe('2026.12-2');
+  it('2026.12-2 is kept: every 2026.12-1 threshold, plus the groups it adds', () => {
+    expect(RULE_SET_2026_12_2.version).toBe('2026.12-2');
     expect(RULE_SET_2026_12_2.thresholds).toEqual({
       ...PINNED_2026_12_1,
       // engine 1.1: the nut's own threads take the screw threads' factors (common practice, as strength above)
@@ -46,7 +45,30 @@ describe('default thresholds, pinned with their basis', () => {
     });
   });
 
-  it('the service stores both built-in versions, oldest first', () => {
-    expect(BUILT_IN_RULE_SETS.map((r) => r.version)).toEqual(['2026.12-1', '2026.12-2']);
+  it('2026.12-2 stays the start default; 2026.12-3 keeps every 2026.12-2 threshold, plus the groups of the engine 1.2 checks', () => {
+    expect(DEFAULT_RULE_SET).toBe(RULE_SET_2026_12_2);
+    expect(RULE_SET_2026_12_3.thresholds).toEqual({
+      ...RULE_SET_2026_12_2.thresholds,
+      // strength on lifting duty with the dynamic factor phi_2 (EN 13001-2 Sec. 4.2.2.2, from memory)
+      dynamicFactor: { onLifting: true },
+      // nut body and flange: the strength factors (common practice, ASME BTH-1 analogy, from memory)
+      nutBody: { minSafetyFactor: { lifting: 3.0, positioning: 2.0, clamping: 2.0 } },
+      // safety nut: the lifting minimum 3.0 whatever the duty; worn main nut: the strength factors (common practice)
+      safetyNut: { minSafetyFactor: 3.0, minWornSafetyFactor: { lifting: 3.0, positioning: 2.0, clamping: 2.0 } },
+      // nut temperature at or below the material limit (common practice)
+      nutTemperature: { minTemperatureMargin: 0 },
+      // a brake must stop a descending load (common practice)
+      stopping: { mustStop: true },
+      // Goodman factor 1.5 (common practice)
+      fatigue: { minSafetyFactor: 1.5 },
+      // collar pressure within its allowable; rolling thrust bearing s_0 >= 1 (ISO 76, from memory; common practice)
+      collarBearing: { maxPressureRatio: 1, minStaticSafetyFactor: 1 },
+      // a figure the engine could not compute blocks on lifting duty (the safe side)
+      notComputed: { onLifting: 'blocking' },
+    });
+  });
+
+  it('the service stores every built-in version, oldest first', () => {
+    expect(BUILT_IN_RULE_SETS.map((r) => r.version)).toEqual(['2026.12-1', '2026.12-2', '2026.12-3']);
   });
 });

@@ -75,6 +75,49 @@ export const thresholdsSchema = z
       })
       .optional()
       .describe('added in 2026.12-2; absent in earlier versions (the brake-holding-torque rule then does not run)'),
+    // Added in 2026.12-3 for the engine 1.2 figures; optional so that 2026.12-1 and 2026.12-2 parse and judge as before.
+    dynamicFactor: z
+      .strictObject({
+        onLifting: z.boolean().describe("whether the strength checks on lifting duty read the engine's dynamic factors (static factor / dynamic factor)"),
+      })
+      .optional()
+      .describe('added in 2026.12-3; absent in earlier versions (strength checks then read the static factors)'),
+    nutBody: z
+      .strictObject({ minSafetyFactor: byDuty('static yield factor of safety of the nut body and its flange') })
+      .optional()
+      .describe('added in 2026.12-3; absent in earlier versions (the nut-body rules then do not run)'),
+    safetyNut: z
+      .strictObject({
+        minSafetyFactor: atLeastOne('static factor of safety of the safety nut against stripping when it carries the load'),
+        minWornSafetyFactor: byDuty("stripping factor of safety of the main nut's threads worn by the wear allowed"),
+      })
+      .optional()
+      .describe('added in 2026.12-3; absent in earlier versions (the safety-nut and worn-thread rules then do not run)'),
+    nutTemperature: z
+      .strictObject({ minTemperatureMargin: z.number().finite().min(0).describe('kelvin the estimated nut temperature must stay below the material limit') })
+      .optional()
+      .describe('added in 2026.12-3; absent in earlier versions (the nut-temperature rule then does not run)'),
+    stopping: z
+      .strictObject({ mustStop: z.boolean().describe('whether a brake that cannot stop a descending load blocks') })
+      .optional()
+      .describe('added in 2026.12-3; absent in earlier versions (the brake-stopping rule then does not run)'),
+    fatigue: z
+      .strictObject({ minSafetyFactor: atLeastOne('Goodman factor of safety of the screw root and nut threads under repeated lifting') })
+      .optional()
+      .describe('added in 2026.12-3; absent in earlier versions (the fatigue rules then do not run)'),
+    collarBearing: z
+      .strictObject({
+        maxPressureRatio: positive('largest plain-collar bearing pressure as a fraction of its allowable'),
+        minStaticSafetyFactor: atLeastOne('static safety C_0a / P_0a of a rolling thrust bearing'),
+      })
+      .optional()
+      .describe('added in 2026.12-3; absent in earlier versions (the collar-bearing rules then do not run)'),
+    notComputed: z
+      .strictObject({
+        onLifting: z.enum(['blocking', 'info']).describe('severity on lifting duty of a check the engine could not compute (always information otherwise)'),
+      })
+      .optional()
+      .describe('added in 2026.12-3; absent in earlier versions (the engine-not-computed rule then does not run)'),
   })
   .superRefine((t, ctx) => {
     const issue = (path: PropertyKey[], message: string) => ctx.addIssue({ code: 'custom', path, message });
@@ -200,11 +243,76 @@ export const RULE_SET_2026_12_2: RuleSet = {
   },
 };
 
-/** Rule sets built into the service, oldest first; the service stores each of them at start. */
-export const BUILT_IN_RULE_SETS: readonly RuleSet[] = Object.freeze([RULE_SET_2026_12_1, RULE_SET_2026_12_2]);
+/**
+ * Rule set 2026.12-3: every 2026.12-2 threshold unchanged, plus the checks on the engine 1.2 figures (nut body and flange,
+ * safety nut and worn thread, nut temperature, stopping a descending load, fatigue, the collar as a bearing, the
+ * dynamic factor on lifting, and every figure the engine could not compute). Defaults sit on the safe side.
+ */
+export const RULE_SET_2026_12_3: RuleSet = {
+  version: '2026.12-3',
+  description:
+    'Lifting checks of engine 1.2: strength on lifting duty with the dynamic factor, nut body and flange, safety nut and ' +
+    'worn thread, nut temperature, brake stopping, fatigue, collar bearing; a figure the engine could not compute blocks on ' +
+    'lifting duty; every 2026.12-2 threshold kept.',
+  thresholds: {
+    ...RULE_SET_2026_12_2.thresholds,
+    dynamicFactor: {
+      // EN 13001-2 Sec. 4.2.2.2 (from memory): the hoisting load is multiplied by phi_2 for the strength proof, so the
+      // static minimum factors above are held against the factors divided by phi_2 on lifting duty.
+      onLifting: true,
+    },
+    nutBody: {
+      // The nut body carries the whole load like the screw: the same factors (common practice, by analogy with ASME BTH-1, from memory)
+      minSafetyFactor: { ...RULE_SET_2026_12_1.thresholds.strength.minSafetyFactor },
+    },
+    safetyNut: {
+      // Common practice: the safety nut is the last load path of a lifting design, so it takes the lifting strength minimum;
+      // the worn main nut carries the load until it is replaced, so it takes the strength minimum of its duty.
+      minSafetyFactor: RULE_SET_2026_12_1.thresholds.strength.minSafetyFactor.lifting,
+      minWornSafetyFactor: { ...RULE_SET_2026_12_1.thresholds.strength.minSafetyFactor },
+    },
+    nutTemperature: {
+      // Common practice: the estimated steady nut temperature must not exceed the material's service limit (margin >= 0 K);
+      // the heat balance itself takes the upper ambient of IEC 60204-1 when none is given (from memory).
+      minTemperatureMargin: 0,
+    },
+    stopping: {
+      // Common practice: a brake that cannot bring a descending load to rest (brake torque at the screw not above the
+      // zero-friction load torque) lets the load fall; it blocks.
+      mustStop: true,
+    },
+    fatigue: {
+      // Common practice: a Goodman factor of 1.5 on the endurance (or fatigue) strength for repeated lifting (Shigley
+      // 10th ed. Sec. 6-12 uses the Goodman line; the factor 1.5 is common practice, not from a standard).
+      minSafetyFactor: 1.5,
+    },
+    collarBearing: {
+      // The allowable collar pressure is already a "safe" value of the pair (design input with its source): exceeding it blocks.
+      // Static safety s_0 = C_0a / P_0a >= 1: ISO 76 / bearing catalogues ask s_0 >= 1 for normal running (common practice).
+      maxPressureRatio: 1,
+      minStaticSafetyFactor: 1,
+    },
+    notComputed: {
+      // The safe side: on lifting duty a check the engine could not compute is never passed; it blocks and names the value to give.
+      onLifting: 'blocking',
+    },
+  },
+};
 
-/** The rule set new submissions are judged by until an admin adopts another. */
+/** Rule sets built into the service, oldest first; the service stores each of them at start. */
+export const BUILT_IN_RULE_SETS: readonly RuleSet[] = Object.freeze([RULE_SET_2026_12_1, RULE_SET_2026_12_2, RULE_SET_2026_12_3]);
+
+/**
+ * The rule set new submissions are judged by until an admin adopts another (POST /api/v1/rule-sets/:version/adopt).
+ * 2026.12-3 is built in and adoptable; it is not yet the start default because it blocks every lifting design that lacks
+ * the engine 1.2 inputs (nut outside diameter, safety nut or wear limit, load cycles, duty), stored demo work included.
+ */
 export const DEFAULT_RULE_SET: RuleSet = RULE_SET_2026_12_2;
+
+/** Whether strength checks on lifting duty read the dynamic factors (2026.12-3 on). */
+export function dynamicFactorOnLifting(t: Thresholds): boolean {
+  return t.dynamicFactor?.onLifting === true;
+}
 
 /**
  * Minimum factors for the nut's own threads, for reports and margins. A definition without the group (2026.12-1, where

@@ -13,7 +13,7 @@ import {
   type SizingObjective,
   type SizingRequirements,
 } from '@leadline/contracts';
-import { INCH, MM, parseQuantity, QuantityError, THREAD_SIZES, type Design, type ThreadSize } from '@leadline/mechanics';
+import { INCH, iso2903Row, MM, parseQuantity, QuantityError, THREAD_SIZES, TOLERANCE_CLASSES, type Design, type ThreadSize } from '@leadline/mechanics';
 import type { z } from 'zod';
 
 export interface SizingPlan {
@@ -27,6 +27,8 @@ export interface SizingPlan {
   readonly nutLengthRatios: readonly number[];
   readonly objective: SizingObjective;
   readonly limit: number;
+  /** Tolerance class by thread form (search.toleranceClass); a form without one uses the basic profile */
+  readonly toleranceClass: Readonly<Partial<Record<SizingForm, string>>>;
 }
 
 export type SizingParseResult =
@@ -71,8 +73,9 @@ export function candidateInput(plan: SizingPlan, size: ThreadSize, starts: numbe
     'meanDiameterRatio' in r.collar
       ? { kind: r.collar.kind, meanDiameter: lengthText(r.collar.meanDiameterRatio * size.majorDiameter, size) }
       : r.collar;
+  const toleranceClass = plan.toleranceClass[size.form as SizingForm];
   return {
-    thread: { form: size.form, size: size.designation, starts },
+    thread: { form: size.form, size: size.designation, starts, ...(toleranceClass ? { toleranceClass } : {}) },
     load: r.load,
     friction: r.friction,
     collar,
@@ -133,6 +136,14 @@ export function parseSizingRequest(raw: unknown): SizingParseResult {
   const dMax = diameter(search.majorDiameter?.max, 'search.majorDiameter.max');
   if (dMin !== null && dMax !== null && dMin > dMax) issues.push({ path: 'search.majorDiameter.min', message: 'min must not exceed max' });
 
+  const toleranceClass: Partial<Record<SizingForm, string>> = {};
+  for (const [form, cls] of Object.entries(search.toleranceClass ?? {}) as [SizingForm, string | undefined][]) {
+    if (cls === undefined) continue;
+    const held = TOLERANCE_CLASSES[form] ?? [];
+    if (!held.includes(cls)) issues.push({ path: `search.toleranceClass.${form}`, message: `${form} threads take one of ${held.map((c) => `"${c}"`).join(', ')}` });
+    else toleranceClass[form] = cls;
+  }
+
   if (issues.length > 0 || !parsed.success) return { success: false, issues };
 
   const forms = new Set<SizingForm>(search.forms ?? SIZING_DEFAULTS.forms);
@@ -140,6 +151,8 @@ export function parseSizingRequest(raw: unknown): SizingParseResult {
   const sizes = THREAD_SIZES.filter(
     (s) =>
       forms.has(s.form as SizingForm) &&
+      // a trapezoidal class can only be judged on sizes whose ISO 2903 limits are held
+      (s.form !== 'trapezoidal' || toleranceClass.trapezoidal === undefined || iso2903Row(s.majorDiameter, s.pitch) !== undefined) &&
       (dMin === null || s.majorDiameter >= dMin - tolerance) &&
       (dMax === null || s.majorDiameter <= dMax + tolerance),
   );
@@ -155,6 +168,7 @@ export function parseSizingRequest(raw: unknown): SizingParseResult {
       nutLengthRatios: unique(search.nutLength?.ratios ?? SIZING_DEFAULTS.nutLengthRatios).sort((a, b) => a - b),
       objective: search.objective ?? SIZING_DEFAULTS.objective,
       limit: search.limit ?? SIZING_DEFAULTS.limit,
+      toleranceClass,
     },
   };
 }

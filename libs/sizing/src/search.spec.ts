@@ -5,7 +5,7 @@
 import fc from 'fast-check';
 import { parseDesign } from '@leadline/contracts';
 import { evaluate, THREAD_SIZES } from '@leadline/mechanics';
-import { DEFAULT_RULE_SET, judge, NUT_INDEPENDENT_RULES } from '@leadline/rules';
+import { RULE_SET_2026_12_2, judge, NUT_INDEPENDENT_RULES } from '@leadline/rules';
 import { IMPOSSIBLE, LEAD_SCREW, requirementsArbitrary, TEXTBOOK_JACK } from '../../../test/support/sizing';
 import { firstBlockingRule } from './checks';
 import { candidateInput, parseSizingRequest, type SizingPlan } from './request';
@@ -27,7 +27,7 @@ describe('pruning', () => {
         const seen = [1, 1.5, 2.5, 4].map((ratio) => {
           const parsed = parseDesign(candidateInput(p, size, starts, ratio));
           if (!parsed.success) throw new Error(JSON.stringify(parsed.issues));
-          const findings = judge(parsed.design, evaluate(parsed.design), DEFAULT_RULE_SET);
+          const findings = judge(parsed.design, evaluate(parsed.design), RULE_SET_2026_12_2);
           return JSON.stringify(findings.filter((f) => NUT_INDEPENDENT_RULES.has(f.ruleId)).map((f) => [f.ruleId, f.severity, f.measured]));
         });
         expect(new Set(seen).size).toBe(1);
@@ -38,7 +38,7 @@ describe('pruning', () => {
 
   it('the pruned search counts every candidate exactly as evaluating each one would', () => {
     const p = plan({ requirements: TEXTBOOK_JACK, search: { majorDiameter: { max: '60 mm' } } });
-    const r = searchScrews(p, DEFAULT_RULE_SET);
+    const r = searchScrews(p, RULE_SET_2026_12_2);
     const exhaustive: Record<string, number> = {};
     let passed = 0;
     for (const size of p.sizes) {
@@ -46,7 +46,7 @@ describe('pruning', () => {
         for (const ratio of p.nutLengthRatios) {
           const parsed = parseDesign(candidateInput(p, size, starts, ratio));
           if (!parsed.success) throw new Error('invalid');
-          const rule = firstBlockingRule(judge(parsed.design, evaluate(parsed.design), DEFAULT_RULE_SET));
+          const rule = firstBlockingRule(judge(parsed.design, evaluate(parsed.design), RULE_SET_2026_12_2));
           if (rule === null) passed++;
           else exhaustive[rule] = (exhaustive[rule] ?? 0) + 1;
         }
@@ -60,7 +60,7 @@ describe('pruning', () => {
   });
 
   it('impossible requirements are answered with no candidates, every one counted in rejected', () => {
-    const r = searchScrews(plan({ requirements: IMPOSSIBLE }), DEFAULT_RULE_SET);
+    const r = searchScrews(plan({ requirements: IMPOSSIBLE }), RULE_SET_2026_12_2);
     expect(r.candidates).toEqual([]);
     expect(Object.values(r.rejected).reduce((a, b) => a + b, 0)).toBe(r.searched);
     expect(r.headroom).toEqual([]);
@@ -72,14 +72,14 @@ describe('headroom', () => {
     checkProperty(
       fc.property(requirementsArbitrary, (requirements) => {
         const p = plan({ requirements, search: { majorDiameter: { max: '50 mm' } } });
-        const r = searchScrews(p, DEFAULT_RULE_SET);
+        const r = searchScrews(p, RULE_SET_2026_12_2);
         expect(r.headroom).toHaveLength(Math.min(3, r.candidates.length));
         for (const h of r.headroom) {
           const c = r.candidates[h.rank - 1];
           const at = (load: number) => {
             const parsed = parseDesign({ ...c.design, load: { ...c.design.load, axial: `${load} N` } });
             if (!parsed.success) throw new Error(JSON.stringify(parsed.issues));
-            return judge(parsed.design, evaluate(parsed.design), DEFAULT_RULE_SET);
+            return judge(parsed.design, evaluate(parsed.design), RULE_SET_2026_12_2);
           };
           const F = parseFloat(h.axialLoad as string);
           expect(at(F).some((f) => f.severity === 'blocking')).toBe(false);
@@ -107,6 +107,43 @@ describe('request validation', () => {
     expect(p.starts).toEqual([1, 2, 3, 4]);
     expect(p.nutLengthRatios).toEqual([1.5, 2, 2.5, 3]);
     expect(p.objective).toBe('smallest-diameter');
+  });
+});
+
+describe('tolerance class (search.toleranceClass)', () => {
+  it('each candidate is judged at the class and its design carries it; the same design evaluated alone agrees exactly', () => {
+    const p = plan({ requirements: TEXTBOOK_JACK, search: { forms: ['trapezoidal', 'acme'], toleranceClass: { trapezoidal: '7H/7e', acme: '3G' } } });
+    const r = searchScrews(p, RULE_SET_2026_12_2);
+    expect(r.candidates.length).toBeGreaterThan(0);
+    for (const c of r.candidates) {
+      const input = c.design as { thread: { form: string; toleranceClass?: string } };
+      expect(input.thread.toleranceClass).toBe(input.thread.form === 'trapezoidal' ? '7H/7e' : '3G');
+      const parsed = parseDesign(c.design);
+      if (!parsed.success) throw new Error(JSON.stringify(parsed.issues));
+      const e = evaluate(parsed.design);
+      expect(e.geometry.minimumMaterial.toleranceClass).toBe(input.thread.toleranceClass);
+      expect(e.torque.raise.atMaxFriction).toBe(c.figures.raiseTorque);
+      expect(e.safetyFactors.buckling).toBe(c.figures.bucklingFactor);
+    }
+  });
+
+  it('a class never raises a strength factor of a candidate (ISO 2903 and ASME B1.5 minimum material)', () => {
+    const basic = plan({ requirements: TEXTBOOK_JACK, search: { majorDiameter: { max: '60 mm' } } });
+    const classed = plan({ requirements: TEXTBOOK_JACK, search: { majorDiameter: { max: '60 mm' }, toleranceClass: { trapezoidal: '7H/7e', acme: '2G' } } });
+    for (const size of classed.sizes) {
+      const [pa, pb] = [parseDesign(candidateInput(basic, size, 1, 2)), parseDesign(candidateInput(classed, size, 1, 2))];
+      if (!pa.success || !pb.success) throw new Error(`${size.designation} rejected`);
+      const a = evaluate(pa.design).safetyFactors;
+      const b = evaluate(pb.design).safetyFactors;
+      for (const k of ['bodyVonMises', 'firstThreadRoot', 'strippingScrew', 'buckling'] as const) {
+        if (a[k] !== null && b[k] !== null) expect([size.designation, k, (b[k] as number) <= (a[k] as number) * (1 + 1e-12)]).toEqual([size.designation, k, true]);
+      }
+    }
+  });
+
+  it('a class the form does not hold names the field', () => {
+    const p = parseSizingRequest({ requirements: TEXTBOOK_JACK, search: { toleranceClass: { acme: '7H/7e' } } });
+    expect(p.success ? [] : p.issues.map((i) => i.path)).toEqual(['search.toleranceClass.acme']);
   });
 });
 

@@ -60,7 +60,7 @@ export interface SizingResult {
  * design equals what parsing that input gives and POST /evaluations reproduces the search's verdict and figures.
  */
 export function candidateDesign(plan: SizingPlan, size: ThreadSize, starts: number, nutLengthRatio: number): Design {
-  return withThread(plan.base, size, starts, ratioLength(size, nutLengthRatio), collarFor(plan, size));
+  return withThread(plan.base, size, starts, ratioLength(size, nutLengthRatio), collarFor(plan, size), classFor(plan, size));
 }
 
 /**
@@ -81,6 +81,11 @@ function ratioLength(size: ThreadSize, ratio: number): number {
   return value;
 }
 
+/** The tolerance class a candidate of this size is judged at (search.toleranceClass of its form), or null: basic profile. */
+function classFor(plan: SizingPlan, size: ThreadSize): string | null {
+  return (plan.toleranceClass as Readonly<Record<string, string | undefined>>)[size.form] ?? null;
+}
+
 /** The collar of a candidate: the requirements' own, or ratio x major diameter read from its text. */
 function collarFor(plan: SizingPlan, size: ThreadSize): Design['collar'] {
   const c = plan.base.collar;
@@ -88,10 +93,10 @@ function collarFor(plan: SizingPlan, size: ThreadSize): Design['collar'] {
   return { kind: c.kind, meanDiameter: ratioLength(size, plan.collarRatio) };
 }
 
-function withThread(base: Design, size: ThreadSize, starts: number, length: number, collar: Design['collar']): Design {
+function withThread(base: Design, size: ThreadSize, starts: number, length: number, collar: Design['collar'], toleranceClass: string | null): Design {
   return {
     ...base,
-    thread: { form: size.form, size: size.designation, majorDiameter: size.majorDiameter, pitch: size.pitch, starts, loadFlankAngle: null },
+    thread: { form: size.form, size: size.designation, majorDiameter: size.majorDiameter, pitch: size.pitch, starts, loadFlankAngle: null, toleranceClass },
     nut: { ...base.nut, length },
     collar,
   };
@@ -185,12 +190,13 @@ export function* searchSteps(plan: SizingPlan, ruleSet: RuleSet): Generator<void
 
   for (const size of plan.sizes) {
     const collar = collarFor(plan, size);
+    const toleranceClass = classFor(plan, size);
     const lengths = ratios.map((r) => ratioLength(size, r));
     for (const starts of plan.starts) {
       searched += ratios.length;
       let pick: Passing | null = null;
       for (let k = 0; k < ratios.length; k++) {
-        const j = judged(withThread(plan.base, size, starts, lengths[k], collar), ruleSet);
+        const j = judged(withThread(plan.base, size, starts, lengths[k], collar, toleranceClass), ruleSet);
         evaluations++;
         const blockedBy = firstBlockingRule(j.findings);
         if (blockedBy !== null) {

@@ -4,7 +4,7 @@
  * "clear". A wiring test: the engine is replaced by one that returns a real evaluation with one figure overflowed.
  */
 import * as mechanics from '@leadline/mechanics';
-import { DEFAULT_RULE_SET } from '@leadline/rules';
+import { RULE_SET_2026_12_2 } from '@leadline/rules';
 import { clearDesign } from '../../../../test/support/designs';
 import { ValidationProblem } from '../infra/http/problem';
 import { AssessmentService, nonFiniteFigure } from './assessment.service';
@@ -22,7 +22,7 @@ describe('AssessmentService: a figure that is not finite is never judged', () =>
   const service = new AssessmentService();
 
   it('the clear design is assessed clear with every figure finite (the real engine)', () => {
-    const a = service.assess(clearDesign, DEFAULT_RULE_SET);
+    const a = service.assess(clearDesign, RULE_SET_2026_12_2);
     expect(a.verdict).toBe('clear');
     expect(nonFiniteFigure(a.evaluation, 'evaluation')).toBeNull();
   });
@@ -37,7 +37,7 @@ describe('AssessmentService: a figure that is not finite is never judged', () =>
     });
     let thrown: unknown;
     try {
-      service.assess(clearDesign, DEFAULT_RULE_SET);
+      service.assess(clearDesign, RULE_SET_2026_12_2);
     } catch (err) {
       thrown = err;
     }
@@ -52,9 +52,9 @@ describe('AssessmentService: a figure that is not finite is never judged', () =>
       const e = realEvaluate(design);
       return { ...e, stresses: { ...e.stresses, body: { ...e.stresses.body, vonMises: Infinity } } };
     });
-    expect(() => service.assess(clearDesign, DEFAULT_RULE_SET, 'design.')).toThrow(ValidationProblem);
+    expect(() => service.assess(clearDesign, RULE_SET_2026_12_2, 'design.')).toThrow(ValidationProblem);
     try {
-      service.assess(clearDesign, DEFAULT_RULE_SET, 'design.');
+      service.assess(clearDesign, RULE_SET_2026_12_2, 'design.');
     } catch (err) {
       expect((err as ValidationProblem).errors[0].path).toBe('design');
     }

@@ -8,7 +8,7 @@ import { buildReportView } from './report-model';
 import { harrowgateReportInput, harrowgateUsReportInput, HARROWGATE_INPUT } from './fixtures/harrowgate.fixture';
 import { parseDesign } from '@leadline/contracts';
 import { evaluate } from '@leadline/mechanics';
-import { checksOf, DEFAULT_RULE_SET } from '@leadline/rules';
+import { checksOf, RULE_SET_2026_12_2 } from '@leadline/rules';
 
 /** The Harrowgate report input with its design replaced (findings kept: only the figures are read here). */
 function withDesign(raw: unknown): ReportInput {
@@ -19,7 +19,7 @@ function withDesign(raw: unknown): ReportInput {
   return {
     ...base,
     revision: { ...base.revision, input: raw, normalized: parsed.design, evaluation },
-    checks: checksOf(parsed.design, evaluation, DEFAULT_RULE_SET.thresholds),
+    checks: checksOf(parsed.design, evaluation, RULE_SET_2026_12_2.thresholds),
   };
 }
 

@@ -57,18 +57,19 @@ describe('brake-holding-torque', () => {
     expect(brakeHoldingTorque(contextOf(e))?.severity).toBe('warning');
   });
 
-  it('a brake on the motor is checked at the motor: T_0 eta_r / i through the gearbox', () => {
-    // Jack: F = 20 kN, lead 7 mm -> T_0 = 20000 x 0.007 / (2 pi) = 22.282 N*m; gearbox i = 10, eta_r = 0.5 -> 1.1141 N*m
+  it('a brake on the motor is checked at the motor: T_0 / i, the gearbox reverse efficiency not credited (engine 1.2)', () => {
+    // Jack: F = 20 kN, lead 7 mm -> T_0 = 20000 x 0.007 / (2 pi) = 22.282 N*m (Shigley 10th ed., Eq. (8-4) with e = 1);
+    // gearbox i = 10 -> 2.2282 N*m at the motor whatever its reverse efficiency (hand arithmetic)
     const input = withDuty(
       { ...JACK_INPUT, drive: { availableTorque: '20 N*m', gearbox: { ratio: 10, efficiency: 0.9, reverseEfficiency: 0.5 } } },
-      { brake: true, brakeTorque: '2 N*m', brakeLocation: 'motor' },
+      { brake: true, brakeTorque: '4 N*m', brakeLocation: 'motor' },
     );
     const e = evaluated(input);
-    expect(e.evaluation.brake.requiredTorque).toBeCloseTo((20000 * 0.007) / (2 * Math.PI) * 0.05, 9);
+    expect(e.evaluation.brake.requiredTorque).toBeCloseTo((20000 * 0.007) / (2 * Math.PI) / 10, 9);
     const f = brakeHoldingTorque(contextOf(e));
-    expect(f?.severity).toBe('blocking'); // 2 / 1.1141 = 1.80 < 2
+    expect(f?.severity).toBe('blocking'); // 4 / 2.2282 = 1.80 < 2
     expect(f?.message).toMatch(/at the motor shaft/);
-    expect(brakeHoldingTorque(contextOf(evaluated(withDuty(input, { brakeTorque: '2.3 N*m' }))))).toBeNull(); // 2.06 >= 2
+    expect(brakeHoldingTorque(contextOf(evaluated(withDuty(input, { brakeTorque: '4.6 N*m' }))))).toBeNull(); // 2.06 >= 2
   });
 
   it('is not run under rule set 2026.12-1 (old revisions keep being judged as before)', () => {

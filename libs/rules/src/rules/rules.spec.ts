@@ -5,7 +5,7 @@
  * Designs are evaluated by the real engine; values marked SYNTHETIC replace one evaluation field with a spread copy.
  */
 import { FRICTION_LIBRARY } from '@leadline/mechanics';
-import { DEFAULT_RULE_SET } from '../rule-set';
+import { RULE_SET_2026_12_2 } from '../rule-set';
 import { contextOf, evaluated, FAST_AXIS_INPUT, JACK_INPUT, JUST, withDuty, type Evaluated } from '../testing/designs';
 import { liftingSelfLocking } from './lifting-self-locking.rule';
 import { screwBodyYield } from './screw-body-yield.rule';
@@ -23,7 +23,7 @@ import { threadFrictionRange } from './thread-friction-range.rule';
 import { nutEngagedThreads } from './nut-engaged-threads.rule';
 
 describe('lifting-self-locking', () => {
-  const MIN = DEFAULT_RULE_SET.thresholds.selfLocking.minMargin;
+  const MIN = RULE_SET_2026_12_2.thresholds.selfLocking.minMargin;
   const NO_SUBSTITUTE = /no substitute for a brake where a fall can hurt someone/;
 
   /** SYNTHETIC: the real jack evaluation with the self-locking margin replaced (locks follows the engine's margin > 1). */
@@ -98,7 +98,7 @@ describe('lifting-self-locking', () => {
 
   it('takes its minimum margin from the thresholds', () => {
     const margin = jack.evaluation.selfLocking.margin;
-    const stricter = { ...DEFAULT_RULE_SET.thresholds, selfLocking: { minMargin: JUST.above(margin) } };
+    const stricter = { ...RULE_SET_2026_12_2.thresholds, selfLocking: { minMargin: JUST.above(margin) } };
     const f = liftingSelfLocking(contextOf(jack, stricter));
     expect(f?.severity).toBe('warning');
     expect(f?.limit).toBe(stricter.selfLocking.minMargin);
@@ -106,7 +106,7 @@ describe('lifting-self-locking', () => {
 });
 
 describe('screw-body-yield', () => {
-  const MIN = DEFAULT_RULE_SET.thresholds.strength.minSafetyFactor;
+  const MIN = RULE_SET_2026_12_2.thresholds.strength.minSafetyFactor;
 
   /** SYNTHETIC: the body factor of safety replaced; the stresses stay the engine's. */
   function withFactor(e: Evaluated, bodyVonMises: number): Evaluated {
@@ -158,7 +158,7 @@ describe('screw-body-yield', () => {
 });
 
 describe('thread-root-yield', () => {
-  const MIN = DEFAULT_RULE_SET.thresholds.strength.minSafetyFactor;
+  const MIN = RULE_SET_2026_12_2.thresholds.strength.minSafetyFactor;
 
   /** SYNTHETIC: the first-thread root factor of safety replaced. */
   function withFactor(e: Evaluated, firstThreadRoot: number): Evaluated {
@@ -192,7 +192,7 @@ describe('thread-root-yield', () => {
 });
 
 describe('screw-thread-stripping', () => {
-  const MIN = DEFAULT_RULE_SET.thresholds.strength.minSafetyFactor.lifting;
+  const MIN = RULE_SET_2026_12_2.thresholds.strength.minSafetyFactor.lifting;
 
   /** SYNTHETIC: the screw stripping factor of safety replaced. */
   function withFactor(e: Evaluated, strippingScrew: number): Evaluated {
@@ -217,7 +217,7 @@ describe('screw-thread-stripping', () => {
 });
 
 describe('nut-thread-stripping', () => {
-  const MIN = DEFAULT_RULE_SET.thresholds.strength.minSafetyFactor.lifting;
+  const MIN = RULE_SET_2026_12_2.thresholds.strength.minSafetyFactor.lifting;
 
   /** SYNTHETIC: the nut stripping factor of safety replaced. */
   function withFactor(e: Evaluated, strippingNut: number): Evaluated {
@@ -256,7 +256,7 @@ describe('nut-thread-stripping', () => {
 });
 
 describe('column-buckling', () => {
-  const MIN = DEFAULT_RULE_SET.thresholds.buckling.minSafetyFactor;
+  const MIN = RULE_SET_2026_12_2.thresholds.buckling.minSafetyFactor;
 
   /** SYNTHETIC: the buckling factor replaced; the rest of the column result stays the engine's. */
   function withFactor(e: Evaluated, safetyFactor: number): Evaluated {
@@ -328,7 +328,7 @@ describe('column-end-fixity', () => {
 });
 
 describe('shaft-whirl-speed', () => {
-  const { maxRatio, warnRatio } = DEFAULT_RULE_SET.thresholds.criticalSpeed;
+  const { maxRatio, warnRatio } = RULE_SET_2026_12_2.thresholds.criticalSpeed;
 
   /** SYNTHETIC: the operating fraction of critical speed replaced (operating speed made consistent with it). */
   function withRatio(e: Evaluated, ratio: number): Evaluated {
@@ -368,7 +368,7 @@ describe('shaft-whirl-speed', () => {
 });
 
 describe('nut-bearing-pressure', () => {
-  const { maxPressureRatio, warnPressureRatio } = DEFAULT_RULE_SET.thresholds.wear;
+  const { maxPressureRatio, warnPressureRatio } = RULE_SET_2026_12_2.thresholds.wear;
 
   /** SYNTHETIC: the pressure ratio replaced, with the bearing pressure made consistent with it. */
   function withRatio(e: Evaluated, pressureRatio: number): Evaluated {
@@ -409,7 +409,7 @@ describe('nut-bearing-pressure', () => {
 });
 
 describe('nut-pv', () => {
-  const { maxPvRatio, warnPvRatio } = DEFAULT_RULE_SET.thresholds.wear;
+  const { maxPvRatio, warnPvRatio } = RULE_SET_2026_12_2.thresholds.wear;
 
   /** SYNTHETIC: the pV ratio replaced, with pV made consistent with it. */
   function withRatio(e: Evaluated, pvRatio: number): Evaluated {
@@ -453,7 +453,7 @@ describe('nut-pv', () => {
 });
 
 describe('drive-torque-margin', () => {
-  const { minMargin, warnMargin } = DEFAULT_RULE_SET.thresholds.drive;
+  const { minMargin, warnMargin } = RULE_SET_2026_12_2.thresholds.drive;
 
   /** SYNTHETIC: the drive margin replaced, with the available torque made consistent with it. */
   function withMargin(e: Evaluated, margin: number): Evaluated {
@@ -528,7 +528,7 @@ describe('friction-source-assumed', () => {
 });
 
 describe('thread-friction-range', () => {
-  const MIN_SPREAD = DEFAULT_RULE_SET.thresholds.friction.minThreadSpreadRatio;
+  const MIN_SPREAD = RULE_SET_2026_12_2.thresholds.friction.minThreadSpreadRatio;
 
   /** SYNTHETIC: the design's thread friction range replaced (min 0.125 is exact in binary, so max/min is exact). */
   function withRange(e: Evaluated, min: number, max: number): Evaluated {
@@ -561,7 +561,7 @@ describe('thread-friction-range', () => {
 });
 
 describe('nut-engaged-threads', () => {
-  const { min, max } = DEFAULT_RULE_SET.thresholds.engagedThreads;
+  const { min, max } = RULE_SET_2026_12_2.thresholds.engagedThreads;
 
   /** SYNTHETIC: the engaged-thread count replaced. */
   function withThreads(e: Evaluated, engagedThreads: number): Evaluated {

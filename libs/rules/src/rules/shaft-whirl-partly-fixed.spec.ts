@@ -1,7 +1,8 @@
 /**
  * shaft-whirl-speed with the partly fixed critical speed: the lower of the two speeds governs.
  * Real engine evaluations; check speeds from Thomson, Theory of Vibration with Applications, Sec. 9.5 frequency factors (d_r = 32 mm, L = 1500 mm,
- * steel): classical fixed-fixed 3900.8 rev/min, partly fixed 1.2 x 1720.8 = 2065 rev/min (hand arithmetic).
+ * steel): classical fixed-fixed 3900.8 rev/min, partly fixed 1.2 x 1720.8 = 2065 rev/min (hand arithmetic); engine 1.2 takes the
+ * mass on the pitch diameter (d_m = 34 mm), which scales both by d_r / d_m = 32 / 34 (Thomson, Sec. 9.5): 3671.3 and 1943.5 rev/min.
  */
 import type { DesignInput } from '@leadline/contracts';
 import { RULE_SET_2026_12_2 } from '../rule-set';
@@ -23,25 +24,28 @@ const input = (speed: string, basis: 'recommended' | 'theoretical' = 'recommende
 
 describe('shaft-whirl-speed: the lower critical speed governs', () => {
   const { maxRatio, warnRatio } = RULE_SET_2026_12_2.thresholds.criticalSpeed;
+  const partly = (2064.96 * 32) / 34;
 
-  it('1950 rev/min: 50 % of the classical 3900.8 but 94 % of the partly fixed 2065 rev/min -> blocking, on the partly fixed ratio', () => {
+  it('1950 rev/min: 53 % of the classical 3671 but 100 % of the partly fixed 1943.5 rev/min -> blocking, on the partly fixed ratio', () => {
     const f = shaftWhirlSpeed(contextOf(evaluated(input('1950 rpm'))));
     expect(f?.severity).toBe('blocking');
     expect(f?.subject).toBe('criticalSpeed.partlyFixed.ratio');
-    expect(f?.measured as number).toBeCloseTo(1950 / 2064.96, 3);
+    expect(f?.measured as number).toBeCloseTo(1950 / partly, 3);
     expect(f?.limit).toBe(maxRatio);
     expect(f?.message).toMatch(/partly fixed/);
     expect(f?.basis).toMatch(/Table 4-2/);
   });
 
-  it('the same speed on the theoretical basis has no partly fixed figure: 50 % of 3900.8 is below the warning level', () => {
-    expect(0.5).toBeLessThan(warnRatio);
-    expect(shaftWhirlSpeed(contextOf(evaluated(input('1950 rpm', 'theoretical'))))).toBeNull();
+  it('the column basis "theoretical" does not switch the partly fixed whirl off (engine 1.2): the same speed blocks', () => {
+    expect(0.53).toBeLessThan(warnRatio); // the classical ratio alone would pass
+    const f = shaftWhirlSpeed(contextOf(evaluated(input('1950 rpm', 'theoretical'))));
+    expect(f?.severity).toBe('blocking');
+    expect(f?.subject).toBe('criticalSpeed.partlyFixed.ratio');
   });
 
-  it('1400 rev/min: 68 % of the partly fixed speed warns (warning level 60 %)', () => {
+  it('1400 rev/min: 72 % of the partly fixed speed warns (warning level 60 %)', () => {
     const f = shaftWhirlSpeed(contextOf(evaluated(input('1400 rpm'))));
     expect(f?.severity).toBe('warning');
-    expect(f?.measured as number).toBeCloseTo(1400 / 2064.96, 3);
+    expect(f?.measured as number).toBeCloseTo(1400 / partly, 3);
   });
 });

@@ -7,12 +7,24 @@ import type { DutyKind } from '@leadline/mechanics';
 import type { Check, CheckDeclaration } from '../check';
 import { mpa, sig, sigPair } from '../format';
 import type { RuleContext } from '../rule';
-import { missingValueSeverityOnLifting } from '../rule-set';
+import { dynamicFactorOnLifting, missingValueSeverityOnLifting } from '../rule-set';
 
 /** Common practice behind the minimum static factors of safety. */
 export const STRENGTH_BASIS =
   'common practice on yield (defaults: lifting 3.0, other duty 2.0), by analogy with ASME BTH-1 design factors ' +
   'N_d = 3.00 (Category B) and 2.00 (Category A) (from memory; BTH-1 does not itself cover screw jacks)';
+
+type DynamicKey = keyof NonNullable<RuleContext['evaluation']['dynamics']>['safetyFactors'];
+
+/**
+ * The key of the dynamic factor a strength check reads instead of its static factor: on lifting duty under rule sets
+ * with dynamicFactor.onLifting (2026.12-3 on), `dynamics.safetyFactors.<key>` = static factor / phi (EN 13001-2
+ * Sec. 4.2.2.2, from memory); null otherwise (the static factor, as earlier rule sets judged).
+ */
+function dynamicKey(ctx: RuleContext, subject: string): DynamicKey | null {
+  if (ctx.design.duty.kind !== 'lifting' || !dynamicFactorOnLifting(ctx.thresholds)) return null;
+  return subject.startsWith('safetyFactors.') ? (subject.slice('safetyFactors.'.length) as DynamicKey) : null;
+}
 
 /**
  * The declaration of a static-strength check: a factor of safety against the rule set's minimum for the duty kind
@@ -37,11 +49,14 @@ export function strengthDeclaration(d: {
     group: 'strength',
     quantity: 'factor',
     limitKind: 'minimum',
-    subject: () => d.subject,
+    subject: (ctx) => (dynamicKey(ctx, d.subject) === null ? d.subject : `dynamics.${d.subject}`),
     applies: d.applies ?? (() => true),
-    value: d.needsNutYield
-      ? (ctx) => (ctx.design.nut.yieldStrength === null ? null : d.value(ctx) ?? null)
-      : (ctx) => d.value(ctx) ?? null,
+    value: (ctx) => {
+      if (d.needsNutYield && ctx.design.nut.yieldStrength === null) return null;
+      const key = dynamicKey(ctx, d.subject);
+      // An evaluation stored by an engine before 1.2 has no dynamics group: missing, never the static factor
+      return key === null ? d.value(ctx) ?? null : ctx.evaluation.dynamics?.safetyFactors?.[key] ?? null;
+    },
     limit: d.limit ?? ((ctx) => ctx.thresholds.strength.minSafetyFactor[ctx.design.duty.kind]),
     missing: (ctx) => (ctx.design.duty.kind === 'lifting' && missingValueSeverityOnLifting(ctx.thresholds) === 'blocking' ? 'blocking' : 'info'),
   };
@@ -65,8 +80,28 @@ export interface StrengthCheck {
 
 /** A blocking finding when the factor of safety falls short of the minimum, else null. */
 export function strengthFinding(c: StrengthCheck): Finding | null {
-  if (c.check.status !== 'fail' || c.check.value === null) return null;
+  if (c.check.status !== 'fail') return null;
+  const dynamic = c.check.subject.startsWith('dynamics.');
+  if (c.check.value === null) {
+    // Only a dynamic factor can be missing here: an evaluation stored by an engine before 1.2 (never passed silently)
+    return {
+      ruleId: c.check.ruleId,
+      severity: 'blocking',
+      measured: null,
+      limit: c.check.limit,
+      unit: '-',
+      subject: c.check.subject,
+      message:
+        `${c.what}: the factor of safety with the dynamic factor (${c.check.subject}) is not in this evaluation, which an ` +
+        `earlier engine computed. On lifting duty a strength check that cannot be computed blocks; re-evaluate the design ` +
+        `to check it against the minimum ${sig(c.check.limit)}.`,
+      basis: `${STRENGTH_BASIS}; ${c.formulaBasis}`,
+    };
+  }
   const [n, limit] = sigPair(c.check.value, c.check.limit);
+  // With the dynamic factor, static factor / dynamic factor = strength / (phi x stress)
+  const phi = dynamic ? c.strength / c.stress / c.check.value : null;
+  const factorText = phi === null ? 'a factor of safety' : `with the dynamic factor ${sig(phi)} on lifting duty a factor of safety`;
   return {
     ruleId: c.check.ruleId,
     severity: 'blocking',
@@ -75,7 +110,7 @@ export function strengthFinding(c: StrengthCheck): Finding | null {
     unit: '-',
     subject: c.check.subject,
     message:
-      `${c.what}: stress ${mpa(c.stress)} against ${c.strengthName} ${mpa(c.strength)} gives a factor of safety of ${n}, ` +
+      `${c.what}: stress ${mpa(c.stress)} against ${c.strengthName} ${mpa(c.strength)} gives ${factorText} of ${n}, ` +
       `below the minimum ${limit} for ${c.duty} duty. Below this margin, load peaks, material scatter and model ` +
       `simplifications can reach yield. ${c.remedy}`,
     basis: `${STRENGTH_BASIS}; ${c.formulaBasis}`,

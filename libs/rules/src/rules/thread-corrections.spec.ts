@@ -5,7 +5,7 @@
  * D4 41 mm, ISO 2901 basic profile).
  */
 import { judge } from '../judge';
-import { RULE_SET_2026_12_1, DEFAULT_RULE_SET } from '../rule-set';
+import { RULE_SET_2026_12_1, RULE_SET_2026_12_2 } from '../rule-set';
 import { contextOf, evaluated, JACK_INPUT, JUST, withDuty } from '../testing/designs';
 import { liftingSelfLocking } from './lifting-self-locking.rule';
 import { nutBearingPressure } from './nut-bearing-pressure.rule';
@@ -39,7 +39,7 @@ describe("nut-thread-root-yield (the nut's own threads)", () => {
   it('the minimum comes from the rule set: just below the measured factor passes, just above blocks', () => {
     const e = evaluated(tinBronzeJack);
     const n = e.evaluation.safetyFactors.nutThreadRoot as number;
-    const at = (lifting: number) => ({ ...DEFAULT_RULE_SET.thresholds, nutThreads: { minSafetyFactor: { lifting, positioning: 2, clamping: 2 } } });
+    const at = (lifting: number) => ({ ...RULE_SET_2026_12_2.thresholds, nutThreads: { minSafetyFactor: { lifting, positioning: 2, clamping: 2 } } });
     expect(nutThreadRootYield(contextOf(e, at(JUST.below(n))))).toBeNull();
     expect(nutThreadRootYield(contextOf(e, at(JUST.above(n))))?.severity).toBe('blocking');
   });

@@ -13,7 +13,7 @@
  */
 import { parseDesign, type DesignInput } from '@leadline/contracts';
 import { evaluate, type Design, type Evaluation } from '@leadline/mechanics';
-import { DEFAULT_RULE_SET, type Thresholds } from '../rule-set';
+import { RULE_SET_2026_12_2, type Thresholds } from '../rule-set';
 import type { RuleContext } from '../rule';
 
 /**
@@ -65,10 +65,29 @@ export function withDuty(input: DesignInput, duty: Partial<DesignInput['duty']>)
   return { ...input, duty: { ...input.duty, ...duty } };
 }
 
-/** A rule context under the default thresholds unless given. */
-export function contextOf(e: Evaluated, thresholds: Thresholds = DEFAULT_RULE_SET.thresholds): RuleContext {
+/**
+ * A rule context under rule set 2026.12-2 unless given: the specs of the rules written before 2026.12-3 pin the static
+ * path as that version judges it (still built in, judging its revisions); the 2026.12-3 specs pass its thresholds.
+ */
+export function contextOf(e: Evaluated, thresholds: Thresholds = RULE_SET_2026_12_2.thresholds): RuleContext {
   return { design: e.design, evaluation: e.evaluation, thresholds };
 }
 
 /** Relative steps for "just above" and "just below" a threshold. */
 export const JUST = { above: (x: number) => x * (1 + 1e-6), below: (x: number) => x * (1 - 1e-6) } as const;
+
+/**
+ * The invented jack with every input of the engine 1.2 checks: a flanged nut with its outside diameter, a safety nut, load
+ * cycles and a duty, a nut temperature limit, a plain annular collar with its allowable, a brake of stated torque. Invented
+ * values, chosen only so that each check has a figure.
+ */
+export const FULL_LIFTING_INPUT: DesignInput = {
+  ...JACK_INPUT,
+  collar: { kind: 'annular', outerDiameter: '60 mm', innerDiameter: '42 mm', model: 'uniform-wear', allowablePressure: '20 MPa' },
+  nut: {
+    length: '56 mm', material: 'aluminum-bronze', outsideDiameter: '80 mm', flange: { outsideDiameter: '120 mm', thickness: '15 mm' },
+    safetyNut: { length: '28 mm', gap: '1 mm' }, tensileStrength: '600 MPa', fatigueStrength: '150 MPa', maxTemperature: '120 degC',
+  },
+  duty: { kind: 'lifting', speed: '20 rpm', brake: true, brakeTorque: '200 N*m', stroke: '300 mm', cyclesPerHour: 10, cycles: 100000, brakeResponseTime: '0.05 s' },
+  drive: { availableTorque: '200 N*m' },
+};

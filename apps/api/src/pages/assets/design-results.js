@@ -81,9 +81,23 @@ export function renderResults(panel, e, system) {
     row('Nut pV', value('pv', w.pv === null ? 'no speed given' : q(w.pv, 'pv')), w.allowablePv === null ? 'no allowable given' : ['allowable ', value('pv-allowable', q(w.allowablePv, 'pv'))], w.pvRatio === null ? status(null) : status(w.pvRatio <= 1, 'within the allowable', 'ABOVE the allowable')),
     row('Drive margin', e.drive ? [value('drive-margin', sig(e.drive.margin)), ' = available / required'] : value('drive-margin', 'no drive torque given'), e.drive ? ['required ', value('drive-required', q(e.drive.requiredTorque, 'torque')), driveBasis(e.drive), ', available ', q(e.drive.availableTorque, 'torque')] : ''),
   ];
+  if (e.operation) rows.push(operationRow(e.operation, q));
   if (e.brake) rows.push(brakeRow(e.brake, e.drive, q));
   panel.figures.tBodies[0].replaceChildren(...rows);
   renderFindings(panel.findings, e.findings);
+}
+
+/** Stroke, travel time, lifting speed, motor power and friction heat (engine 1.2; absent from earlier evaluations). */
+function operationRow(o, q) {
+  const or = function (v, kind, none) {
+    return v === null || v === undefined ? none : q(v, kind);
+  };
+  return row('Operation', [
+    'stroke ', value('stroke', or(o.stroke, 'length', 'not given')),
+    '; travel time ', value('travel-time', or(o.travelTime, 'time', 'not computed')),
+    '; speed ', value('lifting-speed', or(o.linearSpeed, 'travelSpeed', 'no speed given')),
+    '; motor power ', value('motor-power', or(o.motorPower, 'power', 'no speed given')),
+  ], ['friction heat ', value('mean-power-loss', or(o.meanPowerLoss, 'power', 'no duty given')), ' mean', o.heatPerCycle === null ? '' : ', ' + sig(o.heatPerCycle / 1000) + ' kJ per cycle']);
 }
 
 /** Which allowable pressure applied: the rubbing-speed class of a speed-rated table, or one value at any speed. */

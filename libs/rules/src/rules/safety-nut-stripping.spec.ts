@@ -1,0 +1,25 @@
+/**
+ * safety-nut-stripping: limit 3.0, the lifting strength minimum (common practice by analogy with ASME BTH-1, from memory).
+ */
+import type { Evaluation } from '@leadline/mechanics';
+import { FULL_LIFTING_INPUT } from '../testing/designs';
+import { limitCases } from '../testing/limit-cases';
+import { safetyNutStrippingRule } from './safety-nut-stripping.rule';
+
+type Mutable<T> = { -readonly [K in keyof T]: Mutable<T[K]> };
+
+describe('safety-nut-stripping', () => {
+  limitCases({
+    rule: safetyNutStrippingRule,
+    input: FULL_LIFTING_INPUT,
+    limit: 3,
+    kind: 'minimum',
+    past: 'blocking',
+    group: 'safetyNut',
+    withValue: (e, v) => {
+      const m = e as Mutable<Evaluation>;
+      m.dynamics!.safetyFactors.safetyNutStripping = v;
+      return e;
+    },
+  });
+});
