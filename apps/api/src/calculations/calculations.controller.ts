@@ -65,7 +65,7 @@ export class CalculationsController {
     return {
       items: page.items.map((r) => {
         const s = states.get(r.id)!;
-        return { ...r, review: { state: s.state, decidedBy: s.decidedBy, decidedAt: s.decidedAt } };
+        return { ...r, review: { state: s.state, decidedBy: s.decidedBy, decidedAt: s.decidedAt, signature: s.signature } };
       }),
       nextCursor: page.nextCursor,
     };
@@ -75,6 +75,6 @@ export class CalculationsController {
   @Get('revisions/:id')
   async revision(@Param('id') id: string) {
     const [record, review] = await Promise.all([this.calculations.revision(id), this.reviews.state(id)]);
-    return { ...record, review: { state: review.state, decidedBy: review.decidedBy, decidedAt: review.decidedAt } };
+    return { ...record, review: { state: review.state, decidedBy: review.decidedBy, decidedAt: review.decidedAt, signature: review.signature } };
   }
 }

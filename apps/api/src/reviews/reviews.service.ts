@@ -12,6 +12,10 @@ import { checkUuid } from '../products/products.service';
 import { TS_TEXT } from '../records/chain';
 import { RecordStore, type Acting } from '../records/record-store';
 import { checkCommentRate } from './comment-limit';
+import { AccountsService } from '../identities/accounts.service';
+import type { Principal } from '../identities/identities.service';
+import { ReauthenticationsService } from '../identities/reauthentications.service';
+import { PASSWORD_MAX } from '../identities/passwords';
 
 export const targetSchema = z.union([
   z.strictObject({ field: z.string().min(1).max(200).describe('input field path, e.g. "thread.pitch"') }),
@@ -20,8 +24,18 @@ export const targetSchema = z.union([
 
 export const commentSchema = z.strictObject({ text: z.string().trim().min(1, 'a comment needs text').max(8000), target: targetSchema.optional() });
 
+/** How the decider signs, at the moment of deciding (docs/reliability.md, electronic signatures). */
+export const signatureSchema = z.discriminatedUnion('method', [
+  z.strictObject({ method: z.literal('password'), password: z.string().min(1).max(PASSWORD_MAX).describe("the signer's own password") }),
+  z.strictObject({
+    method: z.literal('oidc'),
+    reauthentication: z.uuid().describe('id of the fresh identity-provider login (GET /api/v1/auth/oidc/start?purpose=sign)'),
+  }),
+]);
+
 export const decisionSchema = z.strictObject({
   decision: z.enum(['approve', 'reject']),
+  signature: signatureSchema.optional().describe('required: the decider signs with something only they hold'),
   comment: z.string().max(8000).optional(),
   acknowledgements: z.array(z.strictObject({ finding: z.string().min(1).max(100), comment: z.string().trim().min(1, 'an acknowledgement needs a comment').max(4000) })).max(100).optional(),
   comments: z.array(commentSchema).max(100).optional().describe('comments attached to input fields or findings'),
@@ -46,6 +60,37 @@ export const CLOSED = (alias: string, kind?: 'approved' | 'rejected' | 'withdraw
   `EXISTS (SELECT 1 FROM revision_closures x JOIN events xe ON xe.id = x.event_id AND xe.revision_id = x.revision_id AND xe.type = x.kind
             WHERE x.revision_id = ${alias}.id${kind ? ` AND x.kind = '${kind}'` : ''})`;
 
+/** A decision's signature as the API and the reports show it. */
+export interface Signature {
+  signerId: string;
+  printedName: string;
+  meaning: string;
+  method: string;
+  /** Hash of the signed revision's record: the signature belongs to that record only */
+  revisionHash: string;
+  /** Date and time of signing with its UTC offset (the decision event's database time) */
+  signedAt: string;
+  /** First 16 hex digits of the decision event's link hash, which covers the signature fields */
+  fingerprint: string;
+}
+
+/** What a signature means, by decision (printed on the record; 21 CFR 11.50(a)(3)). */
+export const SIGNATURE_MEANING = { approved: 'approved as checking engineer', rejected: 'rejected as checking engineer' } as const;
+
+/** A decision event's signature for display (null for decisions recorded before signatures). */
+export function signatureOf(data: unknown, createdAt: string | null, hash: string | null): Signature | null {
+  const sig = (data as { signature?: Omit<Signature, 'signedAt' | 'fingerprint'> } | null)?.signature;
+  if (!sig || !createdAt || !hash) return null;
+  return { ...sig, signedAt: createdAt.replace(/Z$/, '+00:00'), fingerprint: hash.slice(0, 16) };
+}
+
+/** Who is deciding, and how they authenticated on this request. */
+export interface SignerContext {
+  principal: Principal;
+  /** Client address key of the failure limiter */
+  client: string;
+}
+
 export interface RevisionState {
   id: string;
   productId: string;
@@ -57,6 +102,7 @@ export interface RevisionState {
   state: ReviewState;
   decidedBy: Actor | null;
   decidedAt: string | null;
+  signature: Signature | null;
 }
 
 @Injectable()
@@ -65,6 +111,8 @@ export class ReviewsService {
     private readonly db: Database,
     private readonly records: RecordStore,
     @Inject(APP_CONFIG) private readonly config: AppConfig,
+    private readonly accounts: AccountsService,
+    private readonly reauthentications: ReauthenticationsService,
   ) {}
 
   async state(id: string, q: Queryer = this.db): Promise<RevisionState> {
@@ -84,13 +132,13 @@ export class ReviewsService {
   private async states(q: Queryer, where: string, params: unknown[]): Promise<RevisionState[]> {
     const rows = await q.query<{
       id: string; product_id: string; calculation_id: string; revision: number; author_id: string | null; findings: Finding[]; input: string;
-      closure: ReviewState | null; superseded: boolean; actor: Actor | null; decided_at: string | null;
+      closure: ReviewState | null; superseded: boolean; actor: Actor | null; decided_at: string | null; decision_data: unknown; decision_hash: string | null;
     }>(
       // A closure counts only as the index of a decision or withdrawal event of this very revision (the chain is the
       // record; a closure row without its event changes nothing and verify reports it). The author is the hashed one.
       `SELECT r.id, r.product_id, r.calculation_id, r.revision, (r.author->>'id')::uuid AS author_id, r.findings, r.input::text AS input,
               CASE WHEN e.id IS NOT NULL THEN c.kind END AS closure,
-              ${SUPERSEDED('r')} AS superseded, e.actor, ${TS_TEXT('e.created_at')} AS decided_at
+              ${SUPERSEDED('r')} AS superseded, e.actor, ${TS_TEXT('e.created_at')} AS decided_at, e.data AS decision_data, e.hash AS decision_hash
          FROM revisions r
          LEFT JOIN revision_closures c ON c.revision_id = r.id
          LEFT JOIN events e ON e.id = c.event_id AND e.revision_id = r.id AND e.type = c.kind
@@ -103,6 +151,7 @@ export class ReviewsService {
       state: r.closure ?? (r.superseded ? 'superseded' : 'submitted'),
       decidedBy: r.closure ? r.actor : null,
       decidedAt: r.decided_at,
+      signature: r.closure === 'approved' || r.closure === 'rejected' ? signatureOf(r.decision_data, r.decided_at, r.decision_hash) : null,
     }));
   }
 
@@ -111,12 +160,13 @@ export class ReviewsService {
    * never with an admin's token, no blocking findings, every warning acknowledged, exactly one decision.
    * @param roles - the deciding caller's roles
    */
-  async decide(revisionId: string, body: unknown, actor: Acting, roles: readonly string[] = []) {
+  async decide(revisionId: string, body: unknown, actor: Acting, roles: readonly string[], signer: SignerContext) {
     if (roles.includes('admin')) {
       throw new ProblemError(403, 'Admins do not decide', 'an admin identity can issue tokens, so it may not approve or reject; decide with a reviewer identity that is not an admin');
     }
     const input = validate(decisionSchema, body);
     const head = await this.state(revisionId);
+    await this.checkSignature(input.signature, signer, head);
     return this.db.transaction(async (q) => {
       const cursor = (await this.records.lockHead(q, head.productId))!;
       const rev = await this.state(revisionId, q);
@@ -154,14 +204,43 @@ export class ReviewsService {
         if (acknowledgements.length) throw new ValidationProblem([{ path: 'acknowledgements', message: 'acknowledgements belong to an approval' }]);
       }
       const kind = input.decision === 'approve' ? 'approved' : 'rejected';
+      const [{ hash: revisionHash }] = await q.query<{ hash: string }>(`SELECT hash FROM revisions WHERE id = $1`, [rev.id]);
+      const signature = { signerId: actor.id, printedName: actor.name, meaning: SIGNATURE_MEANING[kind], method: input.signature!.method, revisionHash };
       const event = await this.records.appendEvent(q, cursor, {
         productId: rev.productId, type: kind, calculationId: rev.calculationId, revisionId: rev.id, actor,
-        data: { revision: rev.revision, comment: input.comment ?? null, acknowledgements, comments },
+        data: { revision: rev.revision, comment: input.comment ?? null, acknowledgements, comments, signature },
       });
       await this.close(q, rev.id, kind, event.id, actor);
       await this.records.saveHead(q, rev.productId, cursor);
-      return { revisionId: rev.id, state: kind, eventId: event.id, hash: event.hash, decidedAt: event.createdAt, seq: event.seq, productId: rev.productId };
+      return {
+        revisionId: rev.id, state: kind, eventId: event.id, hash: event.hash, decidedAt: event.createdAt, seq: event.seq, productId: rev.productId,
+        signature: signatureOf({ signature }, event.createdAt, event.hash),
+      };
     });
+  }
+
+  /**
+   * Nobody signs for anyone else: the decider acts with their own session or a token they issued themselves, and
+   * signs with something only they hold, checked now. Refusals are 403 naming `signature`.
+   */
+  private async checkSignature(signature: z.infer<typeof signatureSchema> | undefined, signer: SignerContext, rev: RevisionState): Promise<void> {
+    const p = signer.principal;
+    const refuse = (path: string, detail: string): never => {
+      throw new ProblemError(403, 'Signature not accepted', detail, { errors: [{ path, message: detail }] });
+    };
+    if (p.authMethod === 'token' && p.tokenIssuedBy !== p.id) {
+      refuse('signature', 'this token was issued by another person: a decision needs your own session or a token you issued yourself (POST /api/v1/account/tokens)');
+    }
+    if (!signature) refuse('signature', 'a decision is an electronic signature: send signature {method, ...} with your own credential');
+    const sig = signature!;
+    if (!this.config.LEADLINE_SIGNATURE_METHODS.includes(sig.method)) {
+      refuse('signature.method', `this site accepts signatures by ${this.config.LEADLINE_SIGNATURE_METHODS.join(', ')}`);
+    }
+    if (sig.method === 'password') {
+      if (!(await this.accounts.verifySignerPassword(p.id, sig.password, signer.client))) refuse('signature.password', 'not your password');
+      return;
+    }
+    await this.reauthentications.consume(sig.reauthentication, p, rev.id, refuse);
   }
 
   async comment(revisionId: string, body: unknown, actor: Actor) {

@@ -1,0 +1,49 @@
+/**
+ * Fresh logins at the identity provider for signing a decision (OpenID Connect Core 1.0 §3.1.2.1 max_age=0, checked
+ * by the ID token's auth_time): each is bound to one user and one revision, must be newer than the moment the signing
+ * started, is accepted for REAUTH_VALID_MS after the login, and is used at most once.
+ */
+import { Inject, Injectable } from '@nestjs/common';
+import { randomUUID } from 'node:crypto';
+import { CLOCK, type Clock } from '../infra/clock';
+import { Database, PG_UNIQUE_VIOLATION, pgErrorCode } from '../infra/database/database.service';
+import type { Principal } from './identities.service';
+
+/** How long after the fresh login the signature must be made [ms] (common practice: a few minutes). */
+export const REAUTH_VALID_MS = 5 * 60_000;
+
+@Injectable()
+export class ReauthenticationsService {
+  constructor(
+    private readonly db: Database,
+    @Inject(CLOCK) private readonly clock: Clock,
+  ) {}
+
+  /** Records a fresh login; null when the provider's auth_time is older than the start of the signing. */
+  async record(userId: string, revisionId: string, startedAt: number, authTime: number): Promise<string | null> {
+    if (authTime < startedAt) return null;
+    const id = randomUUID();
+    await this.db.query(`INSERT INTO reauthentications (id, user_id, revision_id, method, started_at, auth_time) VALUES ($1, $2, $3, 'oidc', $4, $5)`, [
+      id, userId, revisionId, new Date(startedAt).toISOString(), new Date(authTime).toISOString(),
+    ]);
+    return id;
+  }
+
+  /** Uses a fresh login for a signature by `principal` on `revisionId`, or refuses through `refuse`. */
+  async consume(id: string, principal: Principal, revisionId: string, refuse: (path: string, detail: string) => never): Promise<void> {
+    const [row] = await this.db.query<{ user_id: string; revision_id: string; started_at: Date; auth_time: Date }>(
+      `SELECT user_id, revision_id, started_at, auth_time FROM reauthentications WHERE id = $1`,
+      [id],
+    );
+    if (!row || row.user_id !== principal.id) refuse('signature.reauthentication', 'not a fresh login of yours');
+    if (row.revision_id !== revisionId) refuse('signature.reauthentication', 'this fresh login was made for signing another revision');
+    if (new Date(row.auth_time).getTime() < new Date(row.started_at).getTime()) refuse('signature.reauthentication', 'the login is older than the start of the signing');
+    if (this.clock.now() - new Date(row.auth_time).getTime() > REAUTH_VALID_MS) refuse('signature.reauthentication', 'the fresh login is too old; sign in at the identity provider again');
+    try {
+      await this.db.query(`INSERT INTO reauthentication_uses (reauthentication_id) VALUES ($1)`, [id]);
+    } catch (err) {
+      if (pgErrorCode(err) === PG_UNIQUE_VIOLATION) refuse('signature.reauthentication', 'this fresh login has signed already');
+      throw err;
+    }
+  }
+}
