@@ -46,7 +46,7 @@ export const emailSchema = z
 
 export const createUserSchema = z.strictObject({
   name: z.string().trim().min(1).max(120).describe('printed name, as it appears on signatures; never changed'),
-  email: emailSchema.describe('sign-in name, unique (compared without case)'),
+  email: emailSchema.optional().describe('sign-in name, unique (compared without case); a user without one has no password and uses tokens only'),
   roles: z.array(z.enum(ROLES)).min(1).max(3),
 });
 
@@ -158,7 +158,7 @@ export class IdentitiesService implements OnModuleInit {
    */
   async createUser(body: unknown, actor: IdentityActor) {
     const input = validate(createUserSchema, body);
-    return this.insertUser(input, actor);
+    return this.insertUser({ ...input, email: input.email ?? null }, actor);
   }
 
   private async insertUser(input: { name: string; email: string | null; roles: Role[] }, actor: IdentityActor) {
