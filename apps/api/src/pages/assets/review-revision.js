@@ -41,6 +41,7 @@ function renderHeader(rev, product, calculation) {
   fact(facts, 'Revision', String(rev.revision) + (rev.note ? ' — ' + rev.note : ''));
   const state = el('span', {}, badge('state', rev.review.state, STATES));
   if (rev.review.decidedBy) state.append(' by ' + rev.review.decidedBy.name + ' at ' + time(rev.review.decidedAt) + ' UTC');
+  if (rev.review.signature) state.append('; signed: ' + rev.review.signature.meaning + ', ' + rev.review.signature.signedAt + ', by ' + rev.review.signature.method + ' (signature ' + rev.review.signature.fingerprint + ')');
   fact(facts, 'Review state', state);
   fact(facts, 'Verdict of the rules', badge('verdict', rev.verdict, VERDICTS));
   fact(facts, 'Author', rev.author ? rev.author.name : '–');
@@ -119,18 +120,24 @@ function setUpDecision(rev, reload) {
     if (sentComments.length) body.comments = sentComments.map(function (area) {
       return { text: area.value.trim(), target: { finding: area.dataset.finding } };
     });
+    // without a password the service refuses the unsigned decision itself (403 naming signature)
+    if ($('signature-password').value) body.signature = { method: 'password', password: $('signature-password').value };
     const button = $('decision-submit');
     button.disabled = true;
     try {
       const result = await api('/api/v1/revisions/' + encodeURIComponent(rev.id) + '/decisions', { method: 'POST', body: body });
       $('decision').hidden = true;
       const done = $('decision-done');
-      done.replaceChildren('Revision ' + rev.revision + ' ' + result.state + ' at ' + time(result.decidedAt) + ' UTC. Event hash ', el('code', { class: 'hash wrap' }, result.hash), '.');
+      const sig = result.signature;
+      done.replaceChildren('Revision ' + rev.revision + ' ' + result.state + ' at ' + time(result.decidedAt) + ' UTC, signed by ' + sig.printedName + ' (' + sig.meaning + '; signature ' + sig.fingerprint + '). Event hash ', el('code', { class: 'hash wrap' }, result.hash), '.');
       done.hidden = false;
+      $('signature-password').value = '';
       reload();
     } catch (err) {
+      $('signature-password').value = '';
       showProblem(slot, err);
       markInvalid(err, sentAcks, sentComments, acks);
+      if (((err.problem && err.problem.errors) || []).some(function (i) { return /^signature/.test(String(i.path)); })) $('signature-password').setAttribute('aria-invalid', 'true');
       slot.scrollIntoView({ block: 'nearest' });
     } finally {
       button.disabled = false;
