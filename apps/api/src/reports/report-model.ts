@@ -3,6 +3,7 @@
  * system, rounded to engineering significant figures and laid out in reading order. Pure: the same input
  * gives the same view (generatedAt is an input), so the report of a stored revision can be reproduced.
  */
+import { SIGNATURE_METHOD_LABELS, signatureOf, type Signature } from '../reviews/signature';
 import type { Actor, Finding, ProductEvent, ReviewState, RevisionRecord, Severity, Verdict } from '@leadline/contracts';
 import {
   FORMULAS,
@@ -168,6 +169,19 @@ export interface FindingGroup {
   readonly findings: readonly FindingView[];
 }
 
+/** One decision's signature block (reviews/signature.ts). */
+export interface SignatureView {
+  readonly printedName: string;
+  readonly meaning: string;
+  readonly signedAt: string;
+  /** signedAt split for print: the date, and the time with its offset */
+  readonly signedDate: string;
+  readonly signedTime: string;
+  readonly method: string;
+  readonly fingerprint: string;
+  readonly revisionHash: string;
+}
+
 export interface EventView {
   readonly seq: number;
   readonly type: string;
@@ -245,6 +259,8 @@ export interface ReportView {
   readonly checks: readonly CheckRow[];
   readonly findingGroups: readonly FindingGroup[];
   readonly events: readonly EventView[];
+  /** A signature block per decision of this revision, in chain order */
+  readonly signatures: readonly SignatureView[];
   /** What the review record leaves out, and where the full trail is (null when it prints everything) */
   readonly eventsOmitted: string | null;
   readonly history: readonly HistoryRow[];
@@ -796,6 +812,15 @@ function scalarText(value: unknown): string {
   return String(value);
 }
 
+function buildSignatures(events: readonly ProductEvent[]): SignatureView[] {
+  return [...events]
+    .sort((a, b) => a.seq - b.seq)
+    .filter((ev) => ev.type === 'approved' || ev.type === 'rejected')
+    .map((ev) => signatureOf(ev.data, ev.createdAt, ev.hash))
+    .filter((s): s is Signature => s !== null)
+    .map((s) => ({ printedName: s.printedName, meaning: s.meaning, signedAt: s.signedAt, signedDate: s.signedAt.slice(0, 10), signedTime: s.signedAt.slice(11), method: SIGNATURE_METHOD_LABELS[s.method] ?? s.method, fingerprint: s.fingerprint, revisionHash: s.revisionHash }));
+}
+
 function buildEvents(events: readonly ProductEvent[]): EventView[] {
   return [...events]
     .sort((a, b) => a.seq - b.seq)
@@ -1094,6 +1119,7 @@ export function buildReportView(input: ReportInput): ReportView {
     checks: buildChecks(findings, system),
     findingGroups: buildFindingGroups(findings, input.events, system),
     events: buildEvents(input.events),
+    signatures: buildSignatures(input.events),
     historyOmitted: input.omittedHistory
       ? `Listed: the revisions around this one. Not listed: ${input.omittedHistory.before} earlier and ${input.omittedHistory.after} later ` +
         `revision${input.omittedHistory.before + input.omittedHistory.after === 1 ? '' : 's'}; every revision is in GET /api/v1/calculations/${calculation.id}/revisions.`

@@ -12,6 +12,9 @@ import { checkUuid } from '../products/products.service';
 import { TS_TEXT } from '../records/chain';
 import { RecordStore, type Acting } from '../records/record-store';
 import { checkCommentRate } from './comment-limit';
+import { SIGNATURE_MEANING, signatureOf, type Signature } from './signature';
+
+export { SIGNATURE_MEANING, signatureOf, type Signature } from './signature';
 import { AccountsService } from '../identities/accounts.service';
 import type { Principal } from '../identities/identities.service';
 import { ReauthenticationsService } from '../identities/reauthentications.service';
@@ -59,30 +62,6 @@ export const SUPERSEDED = (alias: string) =>
 export const CLOSED = (alias: string, kind?: 'approved' | 'rejected' | 'withdrawn') =>
   `EXISTS (SELECT 1 FROM revision_closures x JOIN events xe ON xe.id = x.event_id AND xe.revision_id = x.revision_id AND xe.type = x.kind
             WHERE x.revision_id = ${alias}.id${kind ? ` AND x.kind = '${kind}'` : ''})`;
-
-/** A decision's signature as the API and the reports show it. */
-export interface Signature {
-  signerId: string;
-  printedName: string;
-  meaning: string;
-  method: string;
-  /** Hash of the signed revision's record: the signature belongs to that record only */
-  revisionHash: string;
-  /** Date and time of signing with its UTC offset (the decision event's database time) */
-  signedAt: string;
-  /** First 16 hex digits of the decision event's link hash, which covers the signature fields */
-  fingerprint: string;
-}
-
-/** What a signature means, by decision (printed on the record; 21 CFR 11.50(a)(3)). */
-export const SIGNATURE_MEANING = { approved: 'approved as checking engineer', rejected: 'rejected as checking engineer' } as const;
-
-/** A decision event's signature for display (null for decisions recorded before signatures). */
-export function signatureOf(data: unknown, createdAt: string | null, hash: string | null): Signature | null {
-  const sig = (data as { signature?: Omit<Signature, 'signedAt' | 'fingerprint'> } | null)?.signature;
-  if (!sig || !createdAt || !hash) return null;
-  return { ...sig, signedAt: createdAt.replace(/Z$/, '+00:00'), fingerprint: hash.slice(0, 16) };
-}
 
 /** Who is deciding, and how they authenticated on this request. */
 export interface SignerContext {
