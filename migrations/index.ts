@@ -14,7 +14,7 @@ import { AddedTokenExpiry20261202110100 } from './20261202110100-added-token-exp
 import { CreatedIdentityEvents20261202110200 } from './20261202110200-created-identity-events';
 import { CreatedReassignmentIndex20261202120000 } from './20261202120000-created-reassignment-index';
 import { ResolvedRevisionProductInAppendFunction20261202130000 } from './20261202130000-resolved-revision-product-in-append-function';
-import { CreatedAccountsAndSessions20261204220000 } from './20261204220000-created-accounts-and-sessions';
+import { CreatedAccountsAndSessions20261204230000 } from './20261204230000-created-accounts-and-sessions';
 
 export const MIGRATIONS = [
   CreatedRecordTables20261201220000,
@@ -32,5 +32,5 @@ export const MIGRATIONS = [
   CreatedIdentityEvents20261202110200,
   CreatedReassignmentIndex20261202120000,
   ResolvedRevisionProductInAppendFunction20261202130000,
-  CreatedAccountsAndSessions20261204220000,
+  CreatedAccountsAndSessions20261204230000,
 ];
