@@ -161,7 +161,21 @@ export class IdentitiesService implements OnModuleInit {
     return this.insertUser({ ...input, email: input.email ?? null }, actor);
   }
 
-  private async insertUser(input: { name: string; email: string | null; roles: Role[] }, actor: IdentityActor) {
+  /**
+   * The user an identity provider vouches for, by email: created on first sign-in (no activation code: they never
+   * get a local password), with the roles of the provider's role claim, which then decides their roles at each
+   * sign-in (changes are identity events by the service). A deactivated user stays refused.
+   */
+  async providerUser(identity: { email: string; name: string; roles: Role[] }) {
+    const [found] = await this.db.query<{ id: string }>(`SELECT id FROM users WHERE lower(email) = lower($1)`, [identity.email]);
+    if (!found) return this.insertUser({ ...identity, activation: false }, null);
+    const user = await this.getUser(found.id);
+    if (!user.active) throw new ProblemError(403, 'User deactivated', 'this account is deactivated; ask an admin');
+    const same = user.roles.length === identity.roles.length && identity.roles.every((r) => user.roles.includes(r));
+    return same ? user : this.setRoles(user.id, { roles: identity.roles }, null);
+  }
+
+  private async insertUser(input: { name: string; email: string | null; roles: Role[]; activation?: boolean }, actor: IdentityActor) {
     const id = randomUUID();
     const roles = [...new Set(input.roles)];
     let activation: { activationCode: string; activationExpiresAt: string } | null = null;
@@ -178,7 +192,7 @@ export class IdentitiesService implements OnModuleInit {
       }
       await this.audit(q, 'user-created', actor, id, null, { name: input.name, email: input.email, roles });
       for (const role of roles) await this.audit(q, 'role-granted', actor, id, null, { role });
-      if (input.email !== null) activation = await this.issueCode(q, id, 'activation', actor);
+      if (input.email !== null && input.activation !== false) activation = await this.issueCode(q, id, 'activation', actor);
     });
     const user = await this.getUser(id);
     const code = activation as { activationCode: string; activationExpiresAt: string } | null;

@@ -29,13 +29,22 @@ export class ReauthenticationsService {
     return id;
   }
 
-  /** Uses a fresh login for a signature by `principal` on `revisionId`, or refuses through `refuse`. */
-  async consume(id: string, principal: Principal, revisionId: string, refuse: (path: string, detail: string) => never): Promise<void> {
-    const [row] = await this.db.query<{ user_id: string; revision_id: string; started_at: Date; auth_time: Date }>(
-      `SELECT user_id, revision_id, started_at, auth_time FROM reauthentications WHERE id = $1`,
-      [id],
+  /**
+   * Uses a fresh login for a signature by `principal` on `revisionId` (the one named, or the newest unused one of
+   * this user for this revision), or refuses through `refuse`.
+   */
+  async consume(id: string | undefined, principal: Principal, revisionId: string, refuse: (path: string, detail: string) => never): Promise<void> {
+    const [row] = await this.db.query<{ id: string; user_id: string; revision_id: string; started_at: Date; auth_time: Date }>(
+      id
+        ? `SELECT id, user_id, revision_id, started_at, auth_time FROM reauthentications WHERE id = $1`
+        : `SELECT r.id, r.user_id, r.revision_id, r.started_at, r.auth_time FROM reauthentications r
+            WHERE r.user_id = $1 AND r.revision_id = $2 AND NOT EXISTS (SELECT 1 FROM reauthentication_uses u WHERE u.reauthentication_id = r.id)
+            ORDER BY r.created_at DESC LIMIT 1`,
+      id ? [id] : [principal.id, revisionId],
     );
-    if (!row || row.user_id !== principal.id) refuse('signature.reauthentication', 'not a fresh login of yours');
+    if (!row) refuse('signature', 'no fresh login at the identity provider for signing this revision: sign in there again first');
+    id = row.id;
+    if (row.user_id !== principal.id) refuse('signature.reauthentication', 'not a fresh login of yours');
     if (row.revision_id !== revisionId) refuse('signature.reauthentication', 'this fresh login was made for signing another revision');
     if (new Date(row.auth_time).getTime() < new Date(row.started_at).getTime()) refuse('signature.reauthentication', 'the login is older than the start of the signing');
     if (this.clock.now() - new Date(row.auth_time).getTime() > REAUTH_VALID_MS) refuse('signature.reauthentication', 'the fresh login is too old; sign in at the identity provider again');

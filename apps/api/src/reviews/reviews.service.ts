@@ -32,7 +32,7 @@ export const signatureSchema = z.discriminatedUnion('method', [
   z.strictObject({ method: z.literal('password'), password: z.string().min(1).max(PASSWORD_MAX).describe("the signer's own password") }),
   z.strictObject({
     method: z.literal('oidc'),
-    reauthentication: z.uuid().describe('id of the fresh identity-provider login (GET /api/v1/auth/oidc/start?purpose=sign)'),
+    reauthentication: z.uuid().optional().describe('id of the fresh identity-provider login (default: your newest unused one for this revision; GET /api/v1/auth/oidc/start?purpose=sign&revision=)'),
   }),
 ]);
 

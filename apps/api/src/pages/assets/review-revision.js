@@ -120,8 +120,10 @@ function setUpDecision(rev, reload) {
     if (sentComments.length) body.comments = sentComments.map(function (area) {
       return { text: area.value.trim(), target: { finding: area.dataset.finding } };
     });
-    // without a password the service refuses the unsigned decision itself (403 naming signature)
-    if ($('signature-password').value) body.signature = { method: 'password', password: $('signature-password').value };
+    // signed at the identity provider (a fresh login for this revision), or with the password given now; without
+    // either the service refuses the unsigned decision itself (403 naming signature)
+    if (oidcSigner()) body.signature = { method: 'oidc' };
+    else if ($('signature-password').value) body.signature = { method: 'password', password: $('signature-password').value };
     const button = $('decision-submit');
     button.disabled = true;
     try {
@@ -161,6 +163,24 @@ function markInvalid(err, sentAcks, sentComments, acks) {
   });
 }
 
+/** A user signed in at the identity provider signs there too (a fresh login, max_age=0), not with a password. */
+function oidcSigner() {
+  const me = currentUser();
+  return Boolean(me && me.authMethod === 'oidc');
+}
+
+/** For a provider-signed-in user: the link to the fresh login for this revision, and what came back from it. */
+function setUpProviderSignature(revisionId) {
+  if (!oidcSigner()) return;
+  $('signature-password-field').hidden = true;
+  $('signature-oidc').hidden = false;
+  $('signature-oidc-start').setAttribute('href', '/api/v1/auth/oidc/start?purpose=sign&revision=' + encodeURIComponent(revisionId) + '&next=' + encodeURIComponent(location.pathname));
+  const status = $('signature-oidc-status');
+  if (location.hash === '#signed-at-provider') status.textContent = 'Identity confirmed at the provider: record the decision now.';
+  else if (location.hash === '#provider-login-too-old') status.textContent = 'The provider did not ask you to sign in again; confirm once more.';
+  else status.textContent = 'Confirm first, then record the decision.';
+}
+
 async function revisionPage() {
   const id = pathId(/^\/review\/revisions\/([^/]+)$/);
   const base = '/api/v1/revisions/' + encodeURIComponent(id);
@@ -183,6 +203,7 @@ async function revisionPage() {
       done.textContent = 'This revision awaits review; a checking engineer records the decision.';
       done.hidden = false;
     } else if (rev.review.state === 'submitted') {
+      setUpProviderSignature(rev.id);
       setUpDecision(rev, function () {
         loadHeader().catch(function (err) {
           showProblem(problemSlot, err);
