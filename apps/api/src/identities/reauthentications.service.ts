@@ -20,7 +20,9 @@ export class ReauthenticationsService {
   ) {}
 
   /** Records a fresh login; null when the provider's auth_time is older than the start of the signing. */
-  async record(userId: string, revisionId: string, startedAt: number, authTime: number): Promise<string | null> {
+  async record(userId: string, revisionId: string, startedAtMs: number, authTime: number): Promise<string | null> {
+    // auth_time is whole seconds (OpenID Connect Core 1.0 §2, NumericDate): compare at that precision
+    const startedAt = Math.floor(startedAtMs / 1000) * 1000;
     if (authTime < startedAt) return null;
     const id = randomUUID();
     await this.db.query(`INSERT INTO reauthentications (id, user_id, revision_id, method, started_at, auth_time) VALUES ($1, $2, $3, 'oidc', $4, $5)`, [
