@@ -11,6 +11,7 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { Client } from 'pg';
 import { prepareSubmission } from '../apps/api/src/records/record-store';
+import { BENCH_UNLIMITED } from './limits';
 
 const root = join(__dirname, '../..');
 const sizes = (process.env.BENCH_CSV_SIZES ?? '10000,100000').split(',').map(Number);
@@ -32,7 +33,7 @@ async function main() {
   // holds a bounded live set, whatever the RSS peaks (which include garbage V8 has not collected yet)
   const heapFlags = process.env.BENCH_SERVER_HEAP_MB ? [`--max-old-space-size=${process.env.BENCH_SERVER_HEAP_MB}`] : [];
   const server = spawn(process.execPath, [...heapFlags, join(root, 'dist/apps/api/src/main.js')], {
-    env: { ...process.env, DATABASE_URL: u.toString(), PORT: String(port), LEADLINE_ADMIN_TOKEN: adminToken, LEADLINE_DEMO_SEED: 'false', LOG_LEVEL: 'error' },
+    env: { ...process.env, DATABASE_URL: u.toString(), PORT: String(port), LEADLINE_ADMIN_TOKEN: adminToken, LEADLINE_DEMO_SEED: 'false', LOG_LEVEL: 'error', ...BENCH_UNLIMITED },
     stdio: ['ignore', 'ignore', 'inherit'],
   });
   const db = new Client({ connectionString: u.toString() });

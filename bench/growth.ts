@@ -18,6 +18,7 @@ import { createApp } from '../apps/api/src/app.factory';
 import { Database } from '../apps/api/src/infra/database/database.service';
 import { prepareSubmission, type RevisionSubmission } from '../apps/api/src/records/record-store';
 import { CalculationsService } from '../apps/api/src/calculations/calculations.service';
+import { BENCH_UNLIMITED } from './limits';
 
 export interface GrowthOptions {
   url: string;
@@ -59,7 +60,7 @@ async function withMemory<T>(work: () => Promise<T>): Promise<{ result: T; ms: n
 
 async function startApp(url: string, admin: string) {
   const t0 = performance.now();
-  const { app } = await createApp({ env: { LOG_LEVEL: 'warn', LEADLINE_DEMO_SEED: 'false', LEADLINE_ADMIN_TOKEN: admin, DATABASE_URL: url } });
+  const { app } = await createApp({ env: { LOG_LEVEL: 'warn', LEADLINE_DEMO_SEED: 'false', LEADLINE_ADMIN_TOKEN: admin, DATABASE_URL: url, ...BENCH_UNLIMITED } });
   await app.listen({ port: 0, host: '127.0.0.1' });
   const startMs = performance.now() - t0;
   const base = `http://127.0.0.1:${(app.getHttpServer().address() as { port: number }).port}`;

@@ -30,6 +30,7 @@ import { BaselineModule, BENCH_ROWS_DDL, setBenchRow, setFixedResponse } from '.
 import { benchDbFloor } from './db-floor';
 import { benchGrowth } from './growth';
 import { verdictOf } from '@leadline/rules';
+import { BENCH_UNLIMITED } from './limits';
 
 const root = join(__dirname, '../..');
 const design = readFileSync(join(root, 'test/fixtures/ok/trapezoidal-jack.json'), 'utf8');
@@ -108,7 +109,7 @@ function engineMicros(): { perEvaluationUs: number } {
 
 async function http(env: Record<string, string>) {
   const admin = `ll_bench_admin_${process.pid}_${'x'.repeat(16)}`;
-  const { app } = await createApp({ env: { LOG_LEVEL: 'warn', LEADLINE_DEMO_SEED: 'false', LEADLINE_ADMIN_TOKEN: admin, ...env }, extraModules: [BaselineModule] });
+  const { app } = await createApp({ env: { LOG_LEVEL: 'warn', LEADLINE_DEMO_SEED: 'false', LEADLINE_ADMIN_TOKEN: admin, ...BENCH_UNLIMITED, ...env }, extraModules: [BaselineModule] });
   await app.listen({ port: 0, host: '127.0.0.1' });
   const address = app.getHttpServer().address() as { port: number };
   const base = `http://127.0.0.1:${address.port}`;

@@ -7,7 +7,11 @@
 import { evaluate } from '@leadline/mechanics';
 import { DEFAULT_RULE_SET, judge } from '@leadline/rules';
 import { candidateDesign, parseSizingRequest, screwBlockingRule, searchScrews, type SizingPlan } from '@leadline/sizing';
+import { execFile } from 'node:child_process';
+import { join } from 'node:path';
 import { createApp } from '../apps/api/src/app.factory';
+import { WORST_CASE_SIZING } from './sizing-worst-case';
+import { BENCH_UNLIMITED } from './limits';
 
 /** An invented 20 kN jack over 800 mm at 30 rev/min, the collar at 1.6 d: the default search space. */
 const REQUEST = {
@@ -110,7 +114,7 @@ export async function benchSizing(rounds = Number(process.env.BENCH_ROUNDS ?? 3)
   console.log(JSON.stringify(inProcess));
 
   const admin = `ll_bench_admin_${process.pid}_${'y'.repeat(16)}`;
-  const { app } = await createApp({ env: { LOG_LEVEL: 'warn', LEADLINE_DEMO_SEED: 'false', LEADLINE_ADMIN_TOKEN: admin, LEADLINE_DATA_DIR: 'memory://' } });
+  const { app } = await createApp({ env: { LOG_LEVEL: 'warn', LEADLINE_DEMO_SEED: 'false', LEADLINE_ADMIN_TOKEN: admin, LEADLINE_DATA_DIR: 'memory://', ...BENCH_UNLIMITED } });
   try {
     await app.listen({ port: 0, host: '127.0.0.1' });
     const base = `http://127.0.0.1:${(app.getHttpServer().address() as { port: number }).port}`;
@@ -128,10 +132,78 @@ export async function benchSizing(rounds = Number(process.env.BENCH_ROUNDS ?? 3)
     for (let i = 0; i < 20 * rounds; i++) times.push(await call());
     const httpResult = { name: 'sizing: POST /api/v1/sizing, full default search, one at a time', requests: times.length, p50Ms: round(median(times)), p95Ms: round(quantile(times, 0.95)), goal: 'p50 < 150 ms' };
     console.log(JSON.stringify(httpResult));
-    return { inProcess, http: httpResult };
+    const health = await healthDuringSearch(base, headers);
+    return { inProcess, http: httpResult, health };
   } finally {
     await app.close();
   }
+}
+
+interface Probe {
+  requests: number;
+  p50Ms: number;
+  p99Ms: number;
+  maxMs: number;
+}
+
+/** GET /health one after another from a process of its own for `seconds`. */
+function probeHealth(base: string, seconds: number): Promise<Probe> {
+  return new Promise((resolve, reject) => {
+    execFile(process.execPath, [join(__dirname, 'health-probe.js'), JSON.stringify({ url: `${base}/health`, seconds })], (err, stdout) =>
+      err ? reject(err) : resolve(JSON.parse(stdout.trim().split('\n').pop() as string) as Probe));
+  });
+}
+
+/**
+ * /health latency while the worst-case search (bench/sizing-worst-case.ts) runs: idle; with `clients` clients each
+ * sending one worst-case search after another over HTTP (sliced, as the service runs it); and, as the before
+ * figure, the same search run whole on the server's event loop (what the route did before it was sliced).
+ */
+async function healthDuringSearch(base: string, headers: Record<string, string>, seconds = Number(process.env.BENCH_SECONDS ?? 5)) {
+  const parsed = parseSizingRequest(WORST_CASE_SIZING);
+  if (!parsed.success) throw new Error(JSON.stringify(parsed.issues));
+  const body = JSON.stringify(WORST_CASE_SIZING);
+  const t0 = process.hrtime.bigint();
+  const once = searchScrews(parsed.plan, DEFAULT_RULE_SET);
+  const searchMs = round(ms(t0));
+  const rows: Record<string, unknown>[] = [];
+  const idle = await probeHealth(base, seconds);
+  rows.push({ name: 'health while idle', ...idle });
+  for (const clients of [1, 8]) {
+    let stop = false;
+    let searches = 0;
+    const loops = Array.from({ length: clients }, async () => {
+      while (!stop) {
+        const r = await fetch(`${base}/api/v1/sizing`, { method: 'POST', headers, body });
+        await r.arrayBuffer();
+        if (r.status !== 200) throw new Error(`sizing answered ${r.status}`);
+        searches++;
+      }
+    });
+    const probe = await probeHealth(base, seconds);
+    stop = true;
+    await Promise.all(loops);
+    rows.push({ name: `health during worst-case searches, sliced (${clients} client${clients > 1 ? 's' : ''})`, searches, ...probe });
+  }
+  {
+    // before: the search run whole on the event loop, one after another, as the route ran it unsliced
+    let stop = false;
+    let searches = 0;
+    const loop = (async () => {
+      while (!stop) {
+        searchScrews(parsed.plan, DEFAULT_RULE_SET);
+        searches++;
+        await new Promise((r) => setImmediate(r));
+      }
+    })();
+    const probe = await probeHealth(base, seconds);
+    stop = true;
+    await loop;
+    rows.push({ name: 'health during worst-case searches run whole on the event loop (before slicing; 1 at a time)', searches, ...probe });
+  }
+  const result = { name: 'sizing: /health latency while the worst-case search runs', candidates: once.searched, evaluations: once.evaluations, oneSearchInProcessMs: searchMs, rows, goal: 'health < 100 ms' };
+  console.log(JSON.stringify(result));
+  return result;
 }
 
 if (require.main === module) {

@@ -10,6 +10,7 @@ import { join } from 'node:path';
 import puppeteer from 'puppeteer-core';
 import { createApp } from '../apps/api/src/app.factory';
 import { CHROMIUM_FLAGS } from '../apps/api/src/infra/pdf/browser-pool';
+import { BENCH_UNLIMITED } from './limits';
 
 const EDITS = 50;
 const DEBOUNCE_MS = 150;
@@ -21,7 +22,7 @@ const percentile = (xs: readonly number[], p: number): number => {
 
 export async function benchWorkbench(): Promise<Record<string, unknown>> {
   const admin = `ll_bench_admin_${process.pid}_${'w'.repeat(16)}`;
-  const { app } = await createApp({ env: { LOG_LEVEL: 'warn', LEADLINE_DEMO_SEED: 'false', LEADLINE_DATA_DIR: 'memory://', LEADLINE_ADMIN_TOKEN: admin } });
+  const { app } = await createApp({ env: { LOG_LEVEL: 'warn', LEADLINE_DEMO_SEED: 'false', LEADLINE_DATA_DIR: 'memory://', LEADLINE_ADMIN_TOKEN: admin, ...BENCH_UNLIMITED } });
   await app.listen({ port: 0, host: '127.0.0.1' });
   const base = `http://127.0.0.1:${(app.getHttpServer().address() as { port: number }).port}`;
   const asAdmin = { authorization: `Bearer ${admin}`, 'content-type': 'application/json' };

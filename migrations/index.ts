@@ -14,6 +14,7 @@ import { AddedTokenExpiry20261202110100 } from './20261202110100-added-token-exp
 import { CreatedIdentityEvents20261202110200 } from './20261202110200-created-identity-events';
 import { CreatedReassignmentIndex20261202120000 } from './20261202120000-created-reassignment-index';
 import { ResolvedRevisionProductInAppendFunction20261202130000 } from './20261202130000-resolved-revision-product-in-append-function';
+import { CreatedCaseInsensitiveProductCodeIndex20261204220000 } from './20261204220000-created-case-insensitive-product-code-index';
 import { CreatedAccountsAndSessions20261204230000 } from './20261204230000-created-accounts-and-sessions';
 
 export const MIGRATIONS = [
@@ -32,5 +33,6 @@ export const MIGRATIONS = [
   CreatedIdentityEvents20261202110200,
   CreatedReassignmentIndex20261202120000,
   ResolvedRevisionProductInAppendFunction20261202130000,
+  CreatedCaseInsensitiveProductCodeIndex20261204220000,
   CreatedAccountsAndSessions20261204230000,
 ];

@@ -21,6 +21,13 @@ const SERVER_URL = process.env.DATABASE_URL ?? 'postgres://postgres@127.0.0.1:54
 const PORT_BASE = Number(process.env.FAULTS_PORT_BASE ?? 3400);
 const PG_PORT = Number(process.env.FAULTS_PG_PORT ?? 3499);
 const PG_BIN = process.env.FAULTS_PG_BIN ?? '/usr/lib/postgresql/15/bin';
+/** The fault runs submit a thousand revisions as one author in seconds: the per-user limits are raised for them. */
+const UNLIMITED: Record<string, string> = {
+  LEADLINE_SEARCHES_PER_USER_PER_MINUTE: '100000000',
+  LEADLINE_EVALUATIONS_PER_USER_PER_MINUTE: '100000000',
+  LEADLINE_SUBMISSIONS_PER_USER_PER_MINUTE: '100000000',
+  LEADLINE_PDFS_PER_USER_PER_MINUTE: '100000000',
+};
 const ADMIN_TOKEN = `ll_faults_admin_${randomBytes(16).toString('hex')}`;
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
@@ -43,7 +50,7 @@ let started: Service[] = [];
 async function startService(port: number, env: Record<string, string>): Promise<Service> {
   const child = spawn(process.execPath, [MAIN], {
     cwd: ROOT,
-    env: { PATH: process.env.PATH ?? '', HOME: process.env.HOME ?? '/tmp', PORT: String(port), HOST: '127.0.0.1', LOG_LEVEL: 'warn', LEADLINE_DEMO_SEED: 'false', LEADLINE_ADMIN_TOKEN: ADMIN_TOKEN, ...env },
+    env: { PATH: process.env.PATH ?? '', HOME: process.env.HOME ?? '/tmp', PORT: String(port), HOST: '127.0.0.1', LOG_LEVEL: 'warn', LEADLINE_DEMO_SEED: 'false', LEADLINE_ADMIN_TOKEN: ADMIN_TOKEN, ...UNLIMITED, ...env },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
   const output: string[] = [];

@@ -107,6 +107,14 @@ export interface StartOptions {
   ownBrowser?: boolean;
 }
 
+/** Per-user limits high enough that no suite meets them unless it sets its own (test/hardening/user-limits). */
+export const UNLIMITED: Record<string, string> = {
+  LEADLINE_SEARCHES_PER_USER_PER_MINUTE: '100000',
+  LEADLINE_EVALUATIONS_PER_USER_PER_MINUTE: '1000000',
+  LEADLINE_SUBMISSIONS_PER_USER_PER_MINUTE: '1000000',
+  LEADLINE_PDFS_PER_USER_PER_MINUTE: '100000',
+};
+
 export async function startTestApp(
   backend: Backend,
   env: Record<string, string> = {},
@@ -119,6 +127,8 @@ export async function startTestApp(
     LOG_LEVEL: 'silent',
     LEADLINE_DEMO_SEED: 'false',
     LEADLINE_ADMIN_TOKEN: adminToken,
+    // Suites make many requests as one user: the per-user limits are tested on their own, with low settings
+    ...UNLIMITED,
     ...(shared ? { LEADLINE_CHROMIUM_WS_ENDPOINT: shared } : {}),
     ...env,
   };

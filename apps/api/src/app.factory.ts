@@ -10,6 +10,7 @@ import { loadConfig, type AppConfig } from './infra/config';
 import { ProblemFilter } from './infra/http/problem';
 import { TextInputInterceptor } from './infra/http/text-input';
 import { addSecurityHeaders } from './infra/http/security-headers';
+import { registerJsonBodyParser } from './infra/http/json-body';
 import { createLogger, PinoNestLogger } from './infra/logging';
 import { mountOpenApi } from './infra/openapi';
 
@@ -31,10 +32,21 @@ export async function createApp(options: CreateAppOptions): Promise<{ app: NestF
     loggerInstance: logger,
     bodyLimit: config.LEADLINE_BODY_LIMIT,
     trustProxy: config.LEADLINE_TRUST_PROXY,
+    // A request (headers and body) must arrive within its time-out, or Node answers 408 and closes the connection;
+    // the checking interval is short enough for a short configured time-out to act promptly.
+    requestTimeout: config.LEADLINE_REQUEST_TIMEOUT_MS,
+    http: {
+      requestTimeout: config.LEADLINE_REQUEST_TIMEOUT_MS,
+      headersTimeout: Math.min(config.LEADLINE_HEADERS_TIMEOUT_MS, config.LEADLINE_REQUEST_TIMEOUT_MS),
+      connectionsCheckingInterval: Math.max(50, Math.min(30_000, Math.floor(Math.min(config.LEADLINE_HEADERS_TIMEOUT_MS, config.LEADLINE_REQUEST_TIMEOUT_MS) / 4))),
+    },
   });
+  registerJsonBodyParser(adapter.getInstance(), { maxDepth: config.LEADLINE_JSON_MAX_DEPTH, bodyLimit: config.LEADLINE_BODY_LIMIT });
   const app = await NestFactory.create<NestFastifyApplication>(AppModule.forRoot(config, options.extraModules ?? [], options.runtime ?? {}), adapter, {
     logger: new PinoNestLogger(logger),
     bufferLogs: false,
+    // the body parser is registerJsonBodyParser's (JSON only, depth-limited), not Nest's JSON + form-encoded pair
+    bodyParser: false,
   });
   app.useGlobalFilters(new ProblemFilter());
   app.useGlobalInterceptors(new TextInputInterceptor());

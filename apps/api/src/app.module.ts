@@ -1,4 +1,5 @@
 import { Module, type DynamicModule, type Type } from '@nestjs/common';
+import { APP_INTERCEPTOR } from '@nestjs/core';
 import { ConfigModule } from '@nestjs/config';
 import { CalculationsModule } from './calculations/calculations.module';
 import { CheckpointsModule } from './checkpoints/checkpoints.module';
@@ -9,6 +10,7 @@ import { ReportsModule } from './reports/reports.module';
 import { ReviewsModule } from './reviews/reviews.module';
 import { APP_CONFIG, type AppConfig } from './infra/config';
 import { CLOCK, systemClock, type Clock } from './infra/clock';
+import { UserLimitInterceptor } from './infra/http/user-limits';
 import { DatabaseModule } from './infra/database/database.module';
 import { LibraryModule } from './library/library.module';
 import { PagesModule } from './pages/pages.module';
@@ -57,6 +59,7 @@ export class AppModule {
       providers: [
         { provide: APP_CONFIG, useValue: config },
         { provide: CLOCK, useValue: runtime.clock ?? systemClock },
+        { provide: APP_INTERCEPTOR, useClass: UserLimitInterceptor },
       ],
       exports: [APP_CONFIG, CLOCK],
     };

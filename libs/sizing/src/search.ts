@@ -115,6 +115,20 @@ function judged(design: Design, ruleSet: RuleSet): Judged {
   return { design, evaluation, findings, verdict: verdictOf(findings) };
 }
 
+const NO_TRACE: Evaluation['trace'] = Object.freeze({});
+
+/**
+ * An evaluation kept for ranking without its formula trace (most of its size; no answer of the search prints it):
+ * a worst-case search keeps one per screw, thousands, and retained traces made the heap large enough for
+ * garbage-collection pauses of tens of milliseconds. Copied key by key (a spread followed by a key is a slow path).
+ */
+function withoutTrace(e: Evaluation): Evaluation {
+  const lean: Record<string, unknown> = {};
+  const source = e as unknown as Record<string, unknown>;
+  for (const key in source) lean[key] = key === 'trace' ? NO_TRACE : source[key];
+  return lean as unknown as Evaluation;
+}
+
 interface Passing extends Judged {
   readonly size: ThreadSize;
   readonly starts: number;
@@ -143,6 +157,19 @@ const VERDICT_ORDER: Record<Verdict, number> = { clear: 0, 'needs-acknowledgemen
  * torque, then the size name.
  */
 export function searchScrews(plan: SizingPlan, ruleSet: RuleSet): SizingResult {
+  const steps = searchSteps(plan, ruleSet);
+  for (;;) {
+    const step = steps.next();
+    if (step.done) return step.value;
+  }
+}
+
+/**
+ * The same search in steps: it pauses after each screw (size and starts, up to a dozen evaluations) and after each
+ * headroom bisection, so a caller can let other work run between steps (a service keeps its event loop free while a
+ * large search runs). Driving it to the end gives exactly searchScrews' answer.
+ */
+export function* searchSteps(plan: SizingPlan, ruleSet: RuleSet): Generator<void, SizingResult, void> {
   const rejected: Record<string, number> = {};
   const reject = (ruleId: string, count = 1) => {
     rejected[ruleId] = (rejected[ruleId] ?? 0) + count;
@@ -175,9 +202,12 @@ export function searchScrews(plan: SizingPlan, ruleSet: RuleSet): SizingResult {
           continue;
         }
         passed++;
-        if (pick === null || VERDICT_ORDER[j.verdict] < VERDICT_ORDER[pick.verdict]) pick = { ...j, size, starts, ratio: ratios[k] };
+        if (pick === null || VERDICT_ORDER[j.verdict] < VERDICT_ORDER[pick.verdict]) {
+          pick = { design: j.design, evaluation: withoutTrace(j.evaluation), findings: j.findings, verdict: j.verdict, size, starts, ratio: ratios[k] };
+        }
       }
       if (pick) best.push(pick);
+      yield;
     }
   }
 
@@ -205,13 +235,11 @@ export function searchScrews(plan: SizingPlan, ruleSet: RuleSet): SizingResult {
   }));
   const best3 = keyed.slice(0, Math.min(3, candidates.length)).map(({ p }) => p);
 
-  const headroom = candidates.slice(0, 3).map((c, i) => ({
-    rank: c.rank,
-    size: c.size,
-    starts: c.starts,
-    nutLength: c.nutLength,
-    ...loadHeadroom(best3[i].design, ruleSet, best3[i].evaluation),
-  }));
+  const headroom: SizingHeadroom[] = [];
+  for (const [i, c] of candidates.slice(0, 3).entries()) {
+    yield;
+    headroom.push({ rank: c.rank, size: c.size, starts: c.starts, nutLength: c.nutLength, ...loadHeadroom(best3[i].design, ruleSet, best3[i].evaluation) });
+  }
 
   return {
     ruleSetVersion: ruleSet.version,

@@ -1,4 +1,5 @@
 import { Body, Controller, Get, Headers, HttpCode, Param, Post, Query, Res } from '@nestjs/common';
+import { UserLimit } from '../infra/http/user-limits';
 import type { FastifyReply } from 'fastify';
 import type { Actor } from '@leadline/contracts';
 import { Roles } from '../identities/auth.guard';
@@ -16,6 +17,7 @@ export class CalculationsController {
   /** Opens a calculation (one screw position) with revision 1. */
   @Post('products/:id/calculations')
   @Roles('author')
+  @UserLimit('submissions')
   async open(
     @Param('id') productId: string,
     @Body() body: unknown,
@@ -36,6 +38,7 @@ export class CalculationsController {
   /** Adds the next revision; the previous one becomes superseded. */
   @Post('calculations/:id/revisions')
   @Roles('author')
+  @UserLimit('submissions')
   async addRevision(
     @Param('id') calculationId: string,
     @Body() body: unknown,

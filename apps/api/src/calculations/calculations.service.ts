@@ -6,6 +6,7 @@
 import { Injectable } from '@nestjs/common';
 import { randomUUID } from 'node:crypto';
 import type { Actor, RevisionRecord } from '@leadline/contracts';
+import { displayableName } from '@leadline/contracts';
 import { z } from 'zod';
 import { Assessment, AssessmentService } from '../evaluations/assessment.service';
 import { Database, type Queryer } from '../infra/database/database.service';
@@ -17,7 +18,7 @@ import { prepareSubmission, RecordStore, type RevisionRow } from '../records/rec
 import { RuleSetsService } from '../rules/rule-sets.service';
 
 export const openCalculationSchema = z.strictObject({
-  title: z.string().min(1).max(200),
+  title: z.string().min(1).max(200).superRefine(displayableName),
   design: z.unknown(),
 });
 

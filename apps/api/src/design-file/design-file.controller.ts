@@ -1,10 +1,12 @@
 import { Controller, Get, Inject, Param, Query, Res } from '@nestjs/common';
+import { UserLimit } from '../infra/http/user-limits';
 import type { FastifyReply } from 'fastify';
 import { existsSync } from 'node:fs';
 import { z } from 'zod';
 import { APP_CONFIG, type AppConfig } from '../infra/config';
 import { ProblemError, validate } from '../infra/http/problem';
 import { PdfRenderer } from '../infra/pdf/browser-pool';
+import { pdfForReply, refuseWhenPdfQueueFull } from '../infra/pdf/pdf-reply';
 import { checkUuid } from '../products/products.service';
 import { DesignFileService } from './design-file.service';
 
@@ -21,14 +23,19 @@ export class DesignFileController {
 
   /** ?paper=A4 (default) or Letter. */
   @Get(':id/design-file.pdf')
+  @UserLimit('pdfs')
   async designFile(@Param('id') id: string, @Query() query: unknown, @Res({ passthrough: true }) reply: FastifyReply) {
     checkUuid(id, 'product');
     const { paper } = validate(paperSchema, query);
     if (!this.config.LEADLINE_CHROMIUM_WS_ENDPOINT && !existsSync(this.config.LEADLINE_CHROMIUM_PATH)) {
       throw new ProblemError(503, 'PDF rendering unavailable', `no Chromium at ${this.config.LEADLINE_CHROMIUM_PATH} (LEADLINE_CHROMIUM_PATH)`);
     }
-    const file = await this.files.build(id);
-    const buffer = await this.pdf.render(file.html, { format: paper, headerLabel: file.headerLabel, footerNote: file.footerNote });
+    // A full queue answers 503 with Retry-After before the file is assembled; a client that goes away cancels it
+    refuseWhenPdfQueueFull(this.pdf);
+    const { file, buffer } = await pdfForReply(reply, async (signal) => {
+      const file = await this.files.build(id);
+      return { file, buffer: await this.pdf.render(file.html, { format: paper, headerLabel: file.headerLabel, footerNote: file.footerNote, signal }) };
+    });
     reply.header('content-type', 'application/pdf').header('content-disposition', `inline; filename="${file.fileName.replace(/[^A-Za-z0-9._-]+/g, '-')}"`);
     return buffer;
   }

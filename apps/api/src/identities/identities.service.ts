@@ -8,6 +8,7 @@
 import { Injectable, OnModuleInit, Inject, Logger } from '@nestjs/common';
 import { createHash, randomBytes, randomUUID } from 'node:crypto';
 import { z } from 'zod';
+import { displayableName } from '@leadline/contracts';
 import { APP_CONFIG, type AppConfig } from '../infra/config';
 import { CLOCK, type Clock } from '../infra/clock';
 import { Database, PG_UNIQUE_VIOLATION, pgErrorCode, type Queryer } from '../infra/database/database.service';
@@ -45,7 +46,7 @@ export const emailSchema = z
   .regex(/^[^\s@]+@[^\s@]+$/, 'an email address (name@domain)');
 
 export const createUserSchema = z.strictObject({
-  name: z.string().trim().min(1).max(120).describe('printed name, as it appears on signatures; never changed'),
+  name: z.string().trim().min(1).max(120).superRefine(displayableName).describe('printed name, as it appears on signatures; never changed'),
   email: emailSchema.optional().describe('sign-in name, unique (compared without case); a user without one has no password and uses tokens only'),
   roles: z.array(z.enum(ROLES)).min(1).max(3),
 });

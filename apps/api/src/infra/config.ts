@@ -70,6 +70,20 @@ export const configSchema = z.object({
   LEADLINE_CHROMIUM_WS_ENDPOINT: z.string().regex(/^wss?:\/\/\S+$/, 'a ws:// or wss:// address').optional(),
   /** Largest accepted request body [bytes] */
   LEADLINE_BODY_LIMIT: z.coerce.number().int().min(1024).default(256 * 1024),
+  /** Deepest nesting of objects and arrays a JSON body may have (400 naming the body above it) */
+  LEADLINE_JSON_MAX_DEPTH: z.coerce.number().int().min(8).max(1000).default(64),
+  /** Time a client has to send a whole request, headers and body [ms]; the connection is closed after it (408) */
+  LEADLINE_REQUEST_TIMEOUT_MS: z.coerce.number().int().min(100).max(600_000).default(30_000),
+  /** Time a client has to send the request headers [ms] (at most LEADLINE_REQUEST_TIMEOUT_MS) */
+  LEADLINE_HEADERS_TIMEOUT_MS: z.coerce.number().int().min(100).max(600_000).default(10_000),
+  /** Screw searches (POST /api/v1/sizing) one user may start per minute (429 with Retry-After above) */
+  LEADLINE_SEARCHES_PER_USER_PER_MINUTE: z.coerce.number().int().min(1).default(30),
+  /** Evaluations (POST /api/v1/evaluations and its charts) one user may ask for per minute (429 with Retry-After above) */
+  LEADLINE_EVALUATIONS_PER_USER_PER_MINUTE: z.coerce.number().int().min(1).default(600),
+  /** Submissions (products registered, calculations opened, revisions submitted) one user may make per minute (429 with Retry-After above) */
+  LEADLINE_SUBMISSIONS_PER_USER_PER_MINUTE: z.coerce.number().int().min(1).default(60),
+  /** PDFs (report.pdf, design-file.pdf) one user may ask for per minute (429 with Retry-After above) */
+  LEADLINE_PDFS_PER_USER_PER_MINUTE: z.coerce.number().int().min(1).default(20),
   /** Pool size for PostgreSQL */
   LEADLINE_DB_POOL: z.coerce.number().int().min(1).max(100).default(10),
   /**

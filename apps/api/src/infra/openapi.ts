@@ -37,6 +37,8 @@ interface Route {
   query?: z.ZodObject;
   /** Media types of the success answer (default application/json) */
   produces?: string[];
+  /** Answered without a bearer token (@Public() on the handler) */
+  public?: boolean;
 }
 
 /** A light revision item (GET /calculations/{id}/revisions?view=summary). */
@@ -106,8 +108,8 @@ export const ROUTES: Route[] = [
   { method: 'get', path: '/api/v1/identity-events', summary: 'User-level audit: users created, roles granted, tokens issued and revoked (admin)', tag: 'identities', query: identityEventsQuerySchema },
   { method: 'post', path: '/api/v1/products/{id}/checkpoints', summary: "Sign the product chain's current head (Ed25519 checkpoint {productId, seq, headHash, time})", tag: 'records', status: 201 },
   { method: 'post', path: '/api/v1/checkpoints/verify', summary: 'Whether the signature is ours and the current chain still contains that link with that hash', tag: 'records', request: checkpointSchema },
-  { method: 'get', path: '/api/v1/checkpoints/public-key', summary: 'The Ed25519 public key that checks checkpoint signatures (no token needed)', tag: 'records' },
-  { method: 'get', path: '/health', summary: 'Database reachable', tag: 'health' },
+  { method: 'get', path: '/api/v1/checkpoints/public-key', summary: 'The Ed25519 public key that checks checkpoint signatures (no token needed)', tag: 'records', public: true },
+  { method: 'get', path: '/health', summary: 'Database reachable (no token needed)', tag: 'health', public: true },
 ];
 
 export function buildOpenApi(routes: Route[] = ROUTES): OpenAPIObject {
@@ -123,6 +125,8 @@ export function buildOpenApi(routes: Route[] = ROUTES): OpenAPIObject {
     paths[r.path][r.method] = {
       summary: r.summary,
       tags: [r.tag],
+      // OpenAPI 3.0.3, 4.7.10: an empty security list removes the document's bearer requirement for this operation
+      ...(r.public ? { security: [] } : {}),
       parameters: params,
       ...(r.request ? { requestBody: { required: true, content: { 'application/json': { schema: json(r.request, 'input') } } } } : {}),
       responses: {

@@ -1,4 +1,5 @@
 import { Body, Controller, Get, Param, Post, Query } from '@nestjs/common';
+import { UserLimit } from '../infra/http/user-limits';
 import type { Actor } from '@leadline/contracts';
 import { Roles } from '../identities/auth.guard';
 import { CurrentActor } from '../infra/http/actor';
@@ -16,6 +17,7 @@ export class ProductsController {
   ) {}
 
   @Post()
+  @UserLimit('submissions')
   @Roles('author', 'admin')
   create(@Body() body: unknown, @CurrentActor() actor: Actor | null) {
     return this.products.create(body, actor);

@@ -6,10 +6,11 @@ import { Database, PG_UNIQUE_VIOLATION, pgErrorCode } from '../infra/database/da
 import { ProblemError, notFound, validate } from '../infra/http/problem';
 import { TS_TEXT } from '../records/chain';
 import { RecordStore } from '../records/record-store';
+import { displayableName } from '@leadline/contracts';
 
 export const createProductSchema = z.strictObject({
-  code: z.string().min(1).max(60).regex(/^[A-Za-z0-9][A-Za-z0-9._-]*$/, 'letters, digits, ".", "_" and "-" only'),
-  name: z.string().min(1).max(200),
+  code: z.string().min(1).max(60).superRefine(displayableName).regex(/^[A-Za-z0-9][A-Za-z0-9._-]*$/, 'letters, digits, ".", "_" and "-" only'),
+  name: z.string().min(1).max(200).superRefine(displayableName),
   description: z.string().max(4000).optional(),
 });
 
@@ -47,7 +48,13 @@ export class ProductsService {
         await this.records.saveHead(q, id, cursor!);
       });
     } catch (err) {
-      if (pgErrorCode(err) === PG_UNIQUE_VIOLATION) throw new ProblemError(409, 'Product code exists', `a product with code "${input.code}" already exists`);
+      if (pgErrorCode(err) === PG_UNIQUE_VIOLATION) {
+        const [held] = await this.db.query<{ code: string }>(`SELECT code FROM products WHERE lower(code) = lower($1) ORDER BY created_at LIMIT 1`, [input.code]);
+        const same = !held || held.code === input.code;
+        throw new ProblemError(409, 'Product code exists', same
+          ? `a product with code "${input.code}" already exists`
+          : `a product with code "${held.code}" already exists (codes are unique regardless of case)`, { errors: [{ path: 'code', message: 'already in use' }] });
+      }
       throw err;
     }
     return this.get(id);

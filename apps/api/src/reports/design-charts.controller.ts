@@ -1,4 +1,5 @@
 import { Body, Controller, HttpCode, Post, Query } from '@nestjs/common';
+import { UserLimit } from '../infra/http/user-limits';
 import { z } from 'zod';
 import { AssessmentService } from '../evaluations/assessment.service';
 import { validate } from '../infra/http/problem';
@@ -19,6 +20,7 @@ export class DesignChartsController {
   ) {}
 
   @Post('charts')
+  @UserLimit('evaluations')
   @HttpCode(200)
   async charts(@Body() body: unknown, @Query() query: unknown) {
     const { units } = validate(chartsQuerySchema, query);

@@ -1,6 +1,8 @@
 import { Controller, Get, Param, Query, Res } from '@nestjs/common';
+import { UserLimit } from '../infra/http/user-limits';
 import type { FastifyReply } from 'fastify';
-import { PdfBusyError, PdfCancelledError, PdfRenderer } from '../infra/pdf/browser-pool';
+import { PdfRenderer } from '../infra/pdf/browser-pool';
+import { pdfForReply, refuseWhenPdfQueueFull } from '../infra/pdf/pdf-reply';
 import { existsSync } from 'node:fs';
 import { Inject } from '@nestjs/common';
 import { APP_CONFIG, type AppConfig } from '../infra/config';
@@ -9,9 +11,6 @@ import { REPORT_CSP } from '../infra/http/security-headers';
 import { z } from 'zod';
 import { ReportInputService } from './report-input.service';
 import { ReportRenderer, reportPdfLabels } from './report-renderer';
-
-const busy = (retryAfter: number) =>
-  new ProblemError(503, 'PDF rendering busy', `every PDF page is in use and the queue is full; try again in ${retryAfter} s (the HTML report is not queued)`, { retryAfter });
 
 const pdfQuerySchema = z.object({ paper: z.enum(['A4', 'Letter']).default('A4') });
 
@@ -35,31 +34,20 @@ export class ReportsController {
 
   /** ?paper=A4 (default) or Letter. */
   @Get(':id/report.pdf')
+  @UserLimit('pdfs')
   async pdfReport(@Param('id') id: string, @Query() query: unknown, @Res({ passthrough: true }) reply: FastifyReply) {
     const { paper } = validate(pdfQuerySchema, query);
     if (!this.config.LEADLINE_CHROMIUM_WS_ENDPOINT && !existsSync(this.config.LEADLINE_CHROMIUM_PATH)) {
       throw new ProblemError(503, 'PDF rendering unavailable', `no Chromium at ${this.config.LEADLINE_CHROMIUM_PATH} (LEADLINE_CHROMIUM_PATH); the HTML report works without it`);
     }
-    if (this.pdf.full) throw busy(this.pdf.retryAfterSeconds());
+    const note = ' (the HTML report is not queued)';
+    refuseWhenPdfQueueFull(this.pdf, note);
     // A client that disconnects cancels its work: taken out of the queue, or its page closed mid-render.
-    const abandoned = new AbortController();
-    const onClose = () => {
-      if (!reply.raw.writableEnded) abandoned.abort();
-    };
-    reply.raw.once('close', onClose);
-    let buffer: Buffer;
-    let input: Awaited<ReturnType<ReportInputService['forRevision']>>;
-    try {
-      input = await this.inputs.forRevision(id);
+    const { buffer, input } = await pdfForReply(reply, async (signal) => {
+      const input = await this.inputs.forRevision(id);
       const { view, html } = await this.renderer.render(input);
-      buffer = await this.pdf.render(html, { format: paper, ...reportPdfLabels(view), signal: abandoned.signal });
-    } catch (err) {
-      if (err instanceof PdfBusyError) throw busy(err.retryAfterSeconds);
-      if (err instanceof PdfCancelledError) throw new ProblemError(499, 'Client closed request', 'the PDF was not rendered: the client disconnected');
-      throw err;
-    } finally {
-      reply.raw.off('close', onClose);
-    }
+      return { input, buffer: await this.pdf.render(html, { format: paper, ...reportPdfLabels(view), signal }) };
+    }, note);
     reply
       .header('content-type', 'application/pdf')
       .header('content-disposition', `inline; filename="${input.product.code}-${input.calculation.title.replace(/[^A-Za-z0-9._-]+/g, '-')}-rev${input.revision.revision}.pdf"`);

@@ -1,4 +1,5 @@
 import { Body, Controller, HttpCode, Post } from '@nestjs/common';
+import { UserLimit } from '../infra/http/user-limits';
 import { SizingService } from './sizing.service';
 
 @Controller('api/v1/sizing')
@@ -8,6 +9,7 @@ export class SizingController {
   /** Stateless: searches the standard sizes for screws that pass the stated requirements; nothing is stored. */
   @Post()
   @HttpCode(200)
+  @UserLimit('searches')
   size(@Body() body: unknown) {
     return this.sizing.size(body);
   }

@@ -10,10 +10,13 @@ import { PGliteDriver } from 'typeorm-pglite';
 import { MIGRATIONS } from '../../../../../migrations';
 import type { AppConfig } from '../config';
 import { lockDataDir, type DataDirLock } from './data-dir-lock';
+import { DATA_DIR_MODE, restrictDataDir } from './data-dir-mode';
 
 export interface DataSourceChoice {
   readonly dataSource: DataSource;
   readonly embedded: boolean;
+  /** The embedded database's folder on disk (not set for PostgreSQL or an in-memory database) */
+  readonly dataDir?: string;
 }
 
 const locks = new WeakMap<DataSource, DataDirLock>();
@@ -45,7 +48,8 @@ export function createDataSource(config: Pick<AppConfig, 'DATABASE_URL' | 'LEADL
   // A folder is opened by one process only: the lock is taken before PGlite touches the folder.
   let lock: DataDirLock | undefined;
   if (!dir.startsWith('memory://')) {
-    mkdirSync(dataDir, { recursive: true });
+    mkdirSync(dataDir, { recursive: true, mode: DATA_DIR_MODE });
+    restrictDataDir(dataDir);
     lock = lockDataDir(dataDir);
   }
   const options: DataSourceOptions = {
@@ -55,7 +59,7 @@ export function createDataSource(config: Pick<AppConfig, 'DATABASE_URL' | 'LEADL
   } as DataSourceOptions;
   const dataSource = new DataSource(options);
   if (lock) locks.set(dataSource, lock);
-  return { dataSource, embedded: true };
+  return { dataSource, embedded: true, ...(lock ? { dataDir } : {}) };
 }
 
 interface PgClientLike {

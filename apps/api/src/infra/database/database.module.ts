@@ -3,6 +3,7 @@ import { TypeOrmModule } from '@nestjs/typeorm';
 import { DataSource } from 'typeorm';
 import type { AppConfig } from '../config';
 import { createDataSource, guardPoolClients } from './data-source';
+import { restrictDataDir } from './data-dir-mode';
 import { Database } from './database.service';
 import { migrateServer, warnIfPrivileged } from './migrate';
 import { EmbeddedStatistics } from './statistics';
@@ -25,11 +26,12 @@ export class DatabaseModule {
             guardPoolClients(choice.dataSource);
             if (choice.embedded) await choice.dataSource.runMigrations({ transaction: 'each' });
             else await warnIfPrivileged(choice.dataSource);
+            if (choice.dataDir) restrictDataDir(choice.dataDir);
             return choice.dataSource;
           },
         }),
       ],
-      providers: [{ provide: Database, inject: [DataSource], useFactory: (ds: DataSource) => new Database(ds, choice.embedded) }, EmbeddedStatistics],
+      providers: [{ provide: Database, inject: [DataSource], useFactory: (ds: DataSource) => new Database(ds, choice.embedded, choice.dataDir) }, EmbeddedStatistics],
       exports: [Database],
     };
   }

@@ -8,6 +8,7 @@
 import { Injectable, OnApplicationShutdown } from '@nestjs/common';
 import { DataSource, type QueryRunner } from 'typeorm';
 import { dataDirLockOf } from './data-source';
+import { restrictDataDir } from './data-dir-mode';
 
 /** What a transaction body may do: run statements on its own connection. */
 export interface Queryer {
@@ -40,6 +41,8 @@ export class Database implements OnApplicationShutdown {
   constructor(
     readonly dataSource: DataSource,
     readonly embedded: boolean,
+    /** The embedded database's folder, restricted to the owner again when it is closed */
+    private readonly dataDir?: string,
   ) {
     this.queue = embedded ? new SerialQueue() : null;
   }
@@ -76,6 +79,7 @@ export class Database implements OnApplicationShutdown {
   async onApplicationShutdown(): Promise<void> {
     try {
       if (this.dataSource.isInitialized) await this.dataSource.destroy();
+      if (this.dataDir) restrictDataDir(this.dataDir);
     } finally {
       // The embedded folder is free for the next process only once PGlite has closed it
       dataDirLockOf(this.dataSource)?.release();

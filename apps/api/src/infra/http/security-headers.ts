@@ -1,7 +1,9 @@
 /**
  * Headers every response carries: X-Content-Type-Options: nosniff, so a browser never reads a JSON body, a CSV
- * download or a problem+json answer as HTML or script. The HTML report adds its own sandboxing policy
- * (REPORT_CSP); the reviewer pages set theirs in pages/.
+ * download or a problem+json answer as HTML or script. API answers (/api/v1/..., /health) also carry
+ * Cache-Control: no-store, so no browser or proxy keeps a record, a report or a newly issued token (RFC 9111,
+ * 5.2.2.5). The HTML report adds its own sandboxing policy (REPORT_CSP); the reviewer pages set theirs in pages/;
+ * the OpenAPI pages under /api/docs get DOCS_CSP.
  */
 import type { FastifyInstance } from 'fastify';
 
@@ -20,9 +22,31 @@ export const REPORT_CSP = [
   'sandbox',
 ].join('; ');
 
+/**
+ * The OpenAPI pages' policy (Swagger UI): its scripts and stylesheet from this origin only, its inline styles and
+ * data: icons, fetches of the OpenAPI document from this origin; nothing else loads, nothing frames it.
+ */
+export const DOCS_CSP = [
+  "default-src 'none'",
+  "script-src 'self'",
+  "style-src 'self' 'unsafe-inline'",
+  "img-src 'self' data:",
+  "connect-src 'self'",
+  "font-src 'self'",
+  "base-uri 'none'",
+  "form-action 'none'",
+  "frame-ancestors 'none'",
+].join('; ');
+
+const isApi = (path: string) => path.startsWith('/api/v1/') || path === '/api/v1' || path === '/health';
+const isDocs = (path: string) => path === '/api/docs' || (path.startsWith('/api/docs/') && path !== '/api/docs-json');
+
 export function addSecurityHeaders(fastify: FastifyInstance): void {
-  fastify.addHook('onSend', async (_request, reply, payload) => {
+  fastify.addHook('onSend', async (request, reply, payload) => {
     if (!reply.hasHeader('x-content-type-options')) reply.header('x-content-type-options', 'nosniff');
+    const path = request.url.split('?')[0];
+    if (isApi(path)) reply.header('cache-control', 'no-store');
+    else if (isDocs(path) && !reply.hasHeader('content-security-policy')) reply.header('content-security-policy', DOCS_CSP);
     return payload;
   });
 }
