@@ -46,7 +46,7 @@ export const emailSchema = z
   .regex(/^[^\s@]+@[^\s@]+$/, 'an email address (name@domain)');
 
 export const createUserSchema = z.strictObject({
-  name: z.string().trim().min(1).max(120).superRefine(displayableName).describe('printed name, as it appears on signatures; never changed'),
+  name: z.string().min(1).max(120).superRefine(displayableName).describe('printed name, as it appears on signatures; never changed'),
   email: emailSchema.optional().describe('sign-in name, unique (compared without case); a user without one has no password and uses tokens only'),
   roles: z.array(z.enum(ROLES)).min(1).max(3),
 });
