@@ -68,11 +68,15 @@ it('lets an admin manage users by keyboard only, each change an identity event [
   await press(page, '#roles-save');
   await page.waitForFunction(() => document.getElementById('manage-status')!.textContent!.startsWith('Roles saved'));
   expect((await user('third.checker@pages.example.com')).roles).toEqual(['author', 'reviewer']);
+  // the status line changes once the panel shows the new state
+  const status = (starts: string) => page.waitForFunction((s) => document.getElementById('manage-status')!.textContent!.startsWith(s), {}, starts);
   await press(page, '#toggle-active');
-  await page.waitForFunction(() => document.getElementById('toggle-active')!.textContent === 'Reactivate');
+  await status('Deactivated');
+  expect(await text(page, '#toggle-active')).toBe('Reactivate');
   expect((await user('third.checker@pages.example.com')).active).toBe(false);
   await press(page, '#toggle-active');
-  await page.waitForFunction(() => document.getElementById('toggle-active')!.textContent === 'Deactivate');
+  await status('Reactivated');
+  expect(await text(page, '#toggle-active')).toBe('Deactivate');
   await press(page, '#password-reset');
   await page.waitForSelector('#reset-code');
   expect(await text(page, '#reset-code')).toMatch(/^act_/);

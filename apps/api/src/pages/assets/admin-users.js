@@ -86,8 +86,9 @@ async function act(path, say, body) {
   try {
     const result = await api(path, { method: 'POST', body: body });
     clearProblem(slot);
-    $('manage-status').replaceChildren(...(typeof say === 'function' ? say(result) : [say]));
+    // the panel is read again first: the status line changes only once the page shows the new state
     await openUser(selected.id);
+    $('manage-status').replaceChildren(...(typeof say === 'function' ? say(result) : [say]));
   } catch (err) {
     showProblem(slot, err);
   }
