@@ -15,7 +15,7 @@ import { CreatedIdentityEvents20261202110200 } from './20261202110200-created-id
 import { CreatedReassignmentIndex20261202120000 } from './20261202120000-created-reassignment-index';
 import { ResolvedRevisionProductInAppendFunction20261202130000 } from './20261202130000-resolved-revision-product-in-append-function';
 import { CreatedCaseInsensitiveProductCodeIndex20261204220000 } from './20261204220000-created-case-insensitive-product-code-index';
-import { CreatedAccountsAndSessions20261204230000 } from './20261204230000-created-accounts-and-sessions';
+import { CreatedAccountsAndSessions20261205000000 } from './20261205000000-created-accounts-and-sessions';
 
 export const MIGRATIONS = [
   CreatedRecordTables20261201220000,
@@ -34,5 +34,5 @@ export const MIGRATIONS = [
   CreatedReassignmentIndex20261202120000,
   ResolvedRevisionProductInAppendFunction20261202130000,
   CreatedCaseInsensitiveProductCodeIndex20261204220000,
-  CreatedAccountsAndSessions20261204230000,
+  CreatedAccountsAndSessions20261205000000,
 ];

@@ -17,8 +17,8 @@ import type { MigrationInterface, QueryRunner } from 'typeorm';
  * Roles and deactivation are derived from identity_events (the newest event per role, and per user), never stored
  * by update; users.roles remains the roles granted at creation for rows that have no role event.
  */
-export class CreatedAccountsAndSessions20261204230000 implements MigrationInterface {
-  name = 'CreatedAccountsAndSessions20261204230000';
+export class CreatedAccountsAndSessions20261205000000 implements MigrationInterface {
+  name = 'CreatedAccountsAndSessions20261205000000';
 
   async up(q: QueryRunner): Promise<void> {
     await q.query(`ALTER TABLE users ADD COLUMN email text CHECK (email IS NULL OR (length(email) BETWEEN 3 AND 254 AND email = btrim(email)))`);
