@@ -10,7 +10,12 @@ import { spawn } from 'node:child_process';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { Client } from 'pg';
-import { prepareSubmission } from '../apps/api/src/records/record-store';
+import { DataSource } from 'typeorm';
+import { DEFAULT_RULE_SET } from '@leadline/rules';
+import { loadConfig } from '../apps/api/src/infra/config';
+import { Database } from '../apps/api/src/infra/database/database.service';
+import { prepareSubmission, RecordStore } from '../apps/api/src/records/record-store';
+import { ServiceKeys } from '../apps/api/src/records/service-keys';
 import { BENCH_UNLIMITED } from './limits';
 
 const root = join(__dirname, '../..');
@@ -38,6 +43,7 @@ async function main() {
   });
   const db = new Client({ connectionString: u.toString() });
   db.on('error', () => undefined);
+  let stopSeeder: () => Promise<unknown> = async () => undefined;
   const base = `http://127.0.0.1:${port}`;
   try {
     for (let i = 0; ; i++) {
@@ -57,20 +63,25 @@ async function main() {
     const product = await (await fetch(`${base}/api/v1/products`, { method: 'POST', headers: auth, body: JSON.stringify({ code: 'CSV-MEM', name: 'csv memory' }) })).json();
     const calc = await (await fetch(`${base}/api/v1/products/${product.id}/calculations`, { method: 'POST', headers: auth, body: JSON.stringify({ title: 'csv', design }) })).json();
     // The stored bytes do not matter to the CSV (it prints summaries), only the number of entries does
-    const s = prepareSubmission({ input: design, normalized: {}, evaluation: {}, findings: [], verdict: 'clear', engineVersion: '1', ruleSetVersion: '1', note: 'csv memory' });
+    const s = prepareSubmission({ input: design, normalized: {}, evaluation: {}, findings: [], verdict: 'clear', engineVersion: '1', ruleSetVersion: DEFAULT_RULE_SET.version, note: 'csv memory' });
     await db.connect();
-    const [{ n: argc }] = (await db.query(`SELECT max(pronargs)::int AS n FROM pg_proc WHERE proname = 'leadline_append_revision'`)).rows;
-    const extra = ', NULL'.repeat(Math.max(0, argc - 15));
+    // seeded through the service's chain writer (hash, MAC, record function), with the record key the server uses
+    // (both run in this folder: <LEADLINE_DATA_DIR>/record-key)
+    const seeder = new DataSource({ type: 'postgres', url: u.toString(), poolSize: 2, logging: false });
+    await seeder.initialize();
+    stopSeeder = () => seeder.destroy();
+    const seedDb = new Database(seeder, false);
+    const store = new RecordStore(seedDb, new ServiceKeys(seedDb, loadConfig({ DATABASE_URL: u.toString() })));
+    const owner = { id: user.id as string, name: 'CSV author' };
     let revisions = 1;
     const idle = rssMB(server.pid!);
     for (const size of sizes) {
       for (; revisions < size; revisions += 250) {
-        await db.query(
-          `WITH a AS (SELECT leadline_append_revision($1, $2, gen_random_uuid(), gen_random_uuid(), $3, $4::json, $5::json, $6::json, $7::json,
-             $8, $9, $10, $11, $12, $13${extra}) FROM generate_series(1, $14::int)) SELECT count(*) FROM a`,
-          [product.id, calc.calculationId, s.note, s.json.input, s.json.normalized, s.json.evaluation, s.json.findings, s.content, s.verdict, s.engineVersion,
-            s.ruleSetVersion, user.id, 'CSV author', Math.min(250, size - revisions)],
-        );
+        const n = Math.min(250, size - revisions);
+        await seedDb.transaction(async (q) => {
+          const cursor = (await store.lockHead(q, product.id))!;
+          for (let i = 0; i < n; i++) await store.appendRevision(q, product.id, calc.calculationId, s, owner, cursor);
+        });
       }
       for (const t of ['revisions', 'events']) await db.query(`ANALYZE ${t}`);
       const before = rssMB(server.pid!);
@@ -89,6 +100,7 @@ async function main() {
     }
   } finally {
     server.kill('SIGTERM');
+    await stopSeeder().catch(() => undefined);
     await db.end().catch(() => undefined);
     await new Promise((r) => setTimeout(r, 500));
     await admin.query(`DROP DATABASE IF EXISTS ${name} WITH (FORCE)`);

@@ -1,8 +1,8 @@
 /**
  * Growth: what reads and writes cost when one product's chain is long. On PostgreSQL (a scratch database):
  *   - one product is grown stage by stage to BENCH_GROWTH_MAX revisions (default 100k; each revision is two chain
- *     links: the revision and its submission event). Seeding is SQL generate_series through the real append function
- *     (leadline_append_revision, the one call every submission makes) with the benchmark's stored bytes;
+ *     links: the revision and its submission event). Seeding goes through the service's chain writer
+ *     (RecordStore.appendRevision, the record function every submission calls) with the benchmark's stored bytes;
  *   - at each stage: durable submission p50/p99 and throughput on that product's calculation (autocannon, 50
  *     connections), GET /products/:id/verify time and server memory, the audit trail's first page and a deep cursor
  *     page (p50/p99 of sequential requests), and the revision list's first and last page;
@@ -16,7 +16,7 @@ import { Client } from 'pg';
 import type { NestFastifyApplication } from '@nestjs/platform-fastify';
 import { createApp } from '../apps/api/src/app.factory';
 import { Database } from '../apps/api/src/infra/database/database.service';
-import { prepareSubmission, type RevisionSubmission } from '../apps/api/src/records/record-store';
+import { prepareSubmission, RecordStore, type RevisionSubmission } from '../apps/api/src/records/record-store';
 import { CalculationsService } from '../apps/api/src/calculations/calculations.service';
 import { BENCH_UNLIMITED } from './limits';
 
@@ -95,28 +95,21 @@ export async function benchGrowth(o: GrowthOptions) {
 
   const count = async () => Number((await app.get(Database).query<{ n: string }>(`SELECT count(*) AS n FROM revisions WHERE product_id = $1`, [product.id]))[0].n);
   /**
-   * Appends with SQL generate_series through the real append function (leadline_append_revision: head lock,
-   * numbering, both link hashes), in batches of 250 per statement (a long batch re-locks one head row many times in one transaction, and each lock walks the row versions the batch left behind); the stored bytes are the prepared submission's.
-   * The function's trailing optional arguments (a token id in later versions) are passed as NULL.
+   * Appends through the service's chain writer (RecordStore.appendRevision: head lock, numbering, both link hashes and
+   * MACs, the record function that checks and inserts), 250 per transaction; the stored bytes are the prepared
+   * submission's. The service credential acts for the growth author (the owner of the calculation).
    */
   const grow = async (target: number) => {
     const db = app.get(Database);
-    const [{ n: argc }] = await db.query<{ n: number }>(`SELECT max(pronargs)::int AS n FROM pg_proc WHERE proname = 'leadline_append_revision'`);
-    const extra = ', NULL'.repeat(Math.max(0, argc - 15));
+    const records = app.get(RecordStore);
     const t0 = performance.now();
     let done = 0;
     for (let left = target - (await count()); left > 0; left -= 250) {
       const n = Math.min(250, left);
-      await db.query(
-        // in the select list, so the function runs once per row of the series (an uncorrelated LATERAL would run once)
-        `WITH appended AS (
-           SELECT leadline_append_revision($2, $3, gen_random_uuid(), gen_random_uuid(), $4, $5::json, $6::json, $7::json, $8::json,
-                  $9, $10, $11, $12, $13, $14${extra}) AS a
-             FROM generate_series(1, $1::int) g)
-         SELECT count(*) FROM appended`,
-        [n, product.id, calc.calculationId, prepared.note, prepared.json.input, prepared.json.normalized, prepared.json.evaluation, prepared.json.findings,
-          prepared.content, prepared.verdict, prepared.engineVersion, prepared.ruleSetVersion, acting.id, acting.name],
-      );
+      await db.transaction(async (q) => {
+        const cursor = (await records.lockHead(q, product.id))!;
+        for (let i = 0; i < n; i++) await records.appendRevision(q, product.id, calc.calculationId, prepared, acting, cursor);
+      });
       done += n;
     }
     return { appended: done, perS: done ? Math.round(done / ((performance.now() - t0) / 1000)) : 0 };

@@ -1,5 +1,5 @@
 /**
- * Screw-selection benchmark (issue 9): the full default search (every trapezoidal and Acme size, starts 1 to 4, the
+ * Screw-selection benchmark: the full default search (every trapezoidal and Acme size, starts 1 to 4, the
  * default nut lengths) in-process against its floor, the same number of engine evaluations (evaluate + judge of
  * candidate designs already built), measured side by side in alternating rounds; then POST /api/v1/sizing over HTTP,
  * one request at a time, p50 and p95. Goals: search <= 1.2 x floor; HTTP p50 < 150 ms.

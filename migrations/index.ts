@@ -15,7 +15,11 @@ import { CreatedIdentityEvents20261202110200 } from './20261202110200-created-id
 import { CreatedReassignmentIndex20261202120000 } from './20261202120000-created-reassignment-index';
 import { ResolvedRevisionProductInAppendFunction20261202130000 } from './20261202130000-resolved-revision-product-in-append-function';
 import { CreatedCaseInsensitiveProductCodeIndex20261204220000 } from './20261204220000-created-case-insensitive-product-code-index';
+import { SealedLinksAndMovedWritesIntoFunctions20261204230000 } from './20261204230000-sealed-links-and-moved-writes-into-functions';
+import { CreatedSigningKeyLedger20261204230100 } from './20261204230100-created-signing-key-ledger';
+import { ChainedIdentityEventsAndAdoptions20261204230200 } from './20261204230200-chained-identity-events-and-adoptions';
 import { CreatedAccountsAndSessions20261205000000 } from './20261205000000-created-accounts-and-sessions';
+import { MovedAccountWritesIntoFunctions20261205000100 } from './20261205000100-moved-account-writes-into-functions';
 
 export const MIGRATIONS = [
   CreatedRecordTables20261201220000,
@@ -34,5 +38,9 @@ export const MIGRATIONS = [
   CreatedReassignmentIndex20261202120000,
   ResolvedRevisionProductInAppendFunction20261202130000,
   CreatedCaseInsensitiveProductCodeIndex20261204220000,
+  SealedLinksAndMovedWritesIntoFunctions20261204230000,
+  CreatedSigningKeyLedger20261204230100,
+  ChainedIdentityEventsAndAdoptions20261204230200,
   CreatedAccountsAndSessions20261205000000,
+  MovedAccountWritesIntoFunctions20261205000100,
 ];

@@ -2,7 +2,8 @@
 # Runs once, when the database volume is first initialised (postgres image: /docker-entrypoint-initdb.d).
 # Creates the two roles Leadline uses and its database; the superuser of this container is used only here.
 #   leadline_owner  owns the schema and runs the migrations (LEADLINE_MIGRATION_DATABASE_URL)
-#   leadline_app    the service's runtime role: SELECT and INSERT only, granted by the migrations (DATABASE_URL)
+#   leadline_app    the service's runtime role: SELECT, and writes only through the record functions, granted by the
+#                   migrations (DATABASE_URL); no INSERT on record, identity or rule tables
 set -eu
 psql -v ON_ERROR_STOP=1 --username "$POSTGRES_USER" --dbname postgres \
   -v owner_password="$LEADLINE_OWNER_PASSWORD" -v app_password="$LEADLINE_APP_PASSWORD" <<'SQL'

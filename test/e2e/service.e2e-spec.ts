@@ -85,7 +85,7 @@ it('evaluates the README example fixture', async () => {
   const res = await fetch(`${base}/api/v1/evaluations`, authed({ method: 'POST', headers: { 'content-type': 'application/json' }, body }));
   expect(res.status).toBe(200);
   const ev = await res.json();
-  expect(ev.geometry.minorDiameter).toBeCloseTo(0.032, 9); // Tr 40x7: d3 = 32.000 mm (ISO 2904, shared/reference/threads.md §1.2)
+  expect(ev.geometry.minorDiameter).toBeCloseTo(0.032, 9); // Tr 40x7: d3 = 32.000 mm (ISO 2904 §1.2)
   expect(ev.findings.every((f: { basis: string }) => f.basis.length > 0)).toBe(true);
 });
 

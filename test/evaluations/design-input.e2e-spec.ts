@@ -1,5 +1,5 @@
 /**
- * Design input through the real service on PostgreSQL (issue 13 item 12, issue 10 item 7): values that overflow on
+ * Design input through the real service on PostgreSQL (engine 1.1): values that overflow on
  * conversion and bad leaves inside a choice answer 422 naming the field and store nothing; a nut material of the
  * design's own is accepted with its allowables and reported as entered; a lifting nut without a yield blocks.
  */

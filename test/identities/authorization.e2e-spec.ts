@@ -105,6 +105,7 @@ const TABLE: Row[] = [
   // admin only (issue 11 item 8: a chained, audited hand-over); the calculation's author is author2 afterwards
   { method: 'POST', path: '/api/v1/calculations/{id}/reassignments', url: () => `/api/v1/calculations/${ids.reassignCalculation}/reassignments`, body: () => ({ userId: t.users.author2, reason: 'authorization table (test)' }), allowed: ['admin'] },
   { method: 'GET', path: '/api/v1/identity-events', url: () => '/api/v1/identity-events', allowed: ['admin'] },
+  { method: 'GET', path: '/api/v1/identity-events/verify', url: () => '/api/v1/identity-events/verify', allowed: ['admin'] },
   // checkpoints: signing the head on request and verifying are open to every role; the public key needs no token
   { method: 'POST', path: '/api/v1/products/{id}/checkpoints', url: () => `/api/v1/products/${ids.product}/checkpoints`, body: () => ({}), allowed: ALL },
   { method: 'POST', path: '/api/v1/checkpoints/verify', url: () => '/api/v1/checkpoints/verify', body: () => checkpoint, allowed: ALL },

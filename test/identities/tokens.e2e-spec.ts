@@ -7,7 +7,8 @@
  *   (insert-only, with the acting user and the token they used).
  */
 import { randomBytes, randomUUID } from 'node:crypto';
-import { hashToken } from '../../apps/api/src/identities/identities.service';
+import { legacyTokenHash } from '../../apps/api/src/identities/identities.service';
+import { ServiceKeys } from '../../apps/api/src/records/service-keys';
 import { seedDemo } from '../../apps/api/src/seed/demo-seed';
 import { TestClock } from '../support/clock';
 import { startTestApp, type TestApp } from '../support/harness';
@@ -43,7 +44,7 @@ describe('token expiry', () => {
       await t.db.query(
         `INSERT INTO tokens (id, user_id, token_hash, label, created_at, expires_at)
          VALUES ($1, $2, $3, 'old', now() - make_interval(days => $4::int), CASE WHEN $5::int IS NULL THEN NULL ELSE now() - make_interval(days => $5::int) END)`,
-        [randomUUID(), t.users.author, hashToken(token), createdDaysAgo, expiresDaysAgo],
+        [randomUUID(), t.users.author, legacyTokenHash(token), createdDaysAgo, expiresDaysAgo],
       );
       return token;
     };
@@ -78,7 +79,7 @@ describe('token expiry', () => {
 
 describe('user-level audit [GET /api/v1/identity-events]', () => {
   it('records a token issued for another user, with the admin and the admin token that issued it', async () => {
-    const [adminToken] = await t.db.query<{ id: string }>(`SELECT id FROM tokens WHERE token_hash = $1`, [hashToken(t.tokens.admin)]);
+    const [adminToken] = await t.db.query<{ id: string }>(`SELECT id FROM tokens WHERE token_hash = $1`, [t.app.get(ServiceKeys).key.tokenHash(t.tokens.admin)]);
     const issued = await t.call('POST', `/api/v1/users/${t.users.reviewer}/tokens`, { label: 'for the checker' }, { as: 'admin' });
     const events = await t.call('GET', `/api/v1/identity-events?user=${t.users.reviewer}`, undefined, { as: 'admin' });
     expect(events.status).toBe(200);
@@ -129,5 +130,30 @@ describe('demo seed', () => {
     const asked = await seedDemo(t.app, { issueTokens: true });
     expect(asked.seeded).toBe(false);
     expect(asked.tokens).toHaveLength(3);
+  });
+});
+
+describe('keyed token hashes', () => {
+  it('stores new tokens as HMAC with the record key, never as the plain SHA-256 an attacker could compute', async () => {
+    const issued = await t.call('POST', `/api/v1/users/${t.users.reviewer}/tokens`, { label: 'keyed' }, { as: 'admin' });
+    const [row] = await t.db.query<{ token_hash: string; hash_kind: string }>(`SELECT token_hash, hash_kind FROM tokens WHERE id = $1`, [issued.body.id]);
+    expect(row).toEqual({ token_hash: t.app.get(ServiceKeys).key.tokenHash(issued.body.token), hash_kind: 'hmac' });
+    expect(row.token_hash).not.toBe(legacyTokenHash(issued.body.token));
+  });
+
+  it('refuses a token stored before keyed hashing (plain SHA-256) with LEADLINE_LEGACY_TOKENS=refuse, though it has not expired', async () => {
+    const strict = await startTestApp('pglite', { LEADLINE_LEGACY_TOKENS: 'refuse' });
+    try {
+      const token = `ll_${randomBytes(32).toString('base64url')}`;
+      // a row as the service wrote it before migrations/20261204230000 (hash_kind defaults to 'sha256')
+      await strict.db.query(`INSERT INTO tokens (id, user_id, token_hash, created_at, expires_at) VALUES ($1, $2, $3, now(), now() + interval '1 day')`, [
+        randomUUID(), strict.users.author, legacyTokenHash(token),
+      ]);
+      expect((await strict.call('GET', '/api/v1/products', undefined, asToken(token))).status).toBe(401);
+      expect((await strict.call('GET', '/api/v1/products', undefined, { as: 'author' })).status).toBe(200);
+    } finally {
+      await strict.close();
+    }
+    // the default (accept) takes the same kind of row until it expires: the test above, "refuses an expired token stored long ago…"
   });
 });

@@ -245,6 +245,10 @@ const CALLS: Record<string, Calls> = {
     ok: (c) => c.t.call('GET', '/api/v1/identity-events?limit=5', undefined, { as: 'admin' }),
     bad: (c) => c.t.call('GET', '/api/v1/identity-events?limit=0', undefined, { as: 'admin' }),
   },
+  'GET /api/v1/identity-events/verify': {
+    ok: (c) => c.t.call('GET', '/api/v1/identity-events/verify', undefined, { as: 'admin' }),
+    bad: (c) => c.t.call('GET', '/api/v1/identity-events/verify', undefined, { as: 'author' }),
+  },
   'POST /api/v1/products/{id}/checkpoints': {
     ok: (c) => c.t.call('POST', `/api/v1/products/${c.productId}/checkpoints`, {}, { as: 'reviewer' }),
     bad: (c) => c.t.call('POST', `/api/v1/products/${MISSING}/checkpoints`, {}, { as: 'reviewer' }),

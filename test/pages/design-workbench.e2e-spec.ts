@@ -54,15 +54,6 @@ const text = (page: Page, selector: string) => page.$eval(selector, (e) => (e as
 /** axe-core, the width check and (ARTIFACTS=1) screenshots for the page as it stands (test/support/page-checks.ts). */
 const checkPage = (page: Page, name: string) => checkPageAt(page, `design/${name}`);
 
-/** What the results panel calls each strength or stability check (safetyFactors keys of the evaluation). */
-const LOWEST_CHECK_LABELS: Record<string, string> = {
-  bodyVonMises: 'screw body (von Mises)',
-  firstThreadRoot: 'first engaged thread root',
-  strippingScrew: 'screw thread stripping',
-  strippingNut: 'nut thread stripping',
-  nutThreadRoot: 'nut thread root (bending and shear)',
-  buckling: 'column buckling',
-};
 
 /** A figure of the results panel as a number ("−1.234 N·m" -> -1.234). */
 async function figure(page: Page, name: string): Promise<number> {
@@ -269,19 +260,24 @@ it('takes a design from a new product to an approved second revision and its des
   close(await figure(author, 'speed-ratio'), e.criticalSpeed.ratio);
   close(await figure(author, 'nut-pressure'), e.wear.bearingPressure, 1e-6);
   close(await figure(author, 'nut-pressure-allowable'), e.wear.allowablePressure, 1e-6);
-  close(await figure(author, 'nut-pv'), e.wear.pv, 1e-6);
+  close(await figure(author, 'pv'), e.wear.pv, 1e-6);
   close(await figure(author, 'drive-margin'), e.drive.margin);
   close(await figure(author, 'drive-required'), e.drive.peakTorqueAtMotor);
   expect(await text(author, '[data-figure="nut-pressure-class"]')).toBe(e.wear.allowablePressureClass);
   close(await figure(author, 'brake-holding'), e.brake.holdingTorqueNoFriction);
   close(await figure(author, 'brake-holding-min'), e.brake.holdingTorqueMinFriction);
   close(await figure(author, 'brake-ratio'), e.brake.ratio);
-  const factors = Object.entries(e.safetyFactors as Record<string, number | null>).filter((x): x is [string, number] => x[1] !== null);
-  const lowest = factors.reduce((a, b) => (b[1] < a[1] ? b : a));
-  close(await figure(author, 'lowest-factor'), lowest[1]);
+  // the lowest strength factor and the governing check are the stored revision's checks (the rules' declarations)
+  const record = (await t.call('GET', `/api/v1/revisions/${rev1.id}`)).body;
+  type C = { id: string; group: string; value: number | null; label: string };
+  const strength = (record.checks as C[]).filter((c) => c.group === 'strength' && c.value !== null);
   // the bronze nut's own threads are a strength check of their own (engine 1.1), among those the lowest is taken from
-  expect(factors.map((f) => f[0])).toContain('nutThreadRoot');
-  expect(await text(author, '[data-figure="lowest-check"]')).toBe(LOWEST_CHECK_LABELS[lowest[0]]);
+  expect(strength.map((c) => c.id)).toContain('nut-thread-root-yield');
+  const lowest = strength.reduce((a, b) => ((b.value as number) < (a.value as number) ? b : a));
+  close(await figure(author, 'lowest-factor'), lowest.value as number);
+  expect(await text(author, '[data-figure="lowest-check"]')).toBe(lowest.label);
+  close(await figure(author, 'governing-value'), record.governing.value, record.governing.quantity === 'fraction' ? 100 : 1);
+  expect(await text(author, '[data-figure="governing-check"]')).toBe(record.governing.label);
   expect(await text(author, '#results-findings')).toContain(rev1.findings.length ? rev1.findings[0].message : 'No findings.');
   await checkPage(author, 'design-form-saved');
   // the report link: the author reads the report; the decision form is the checking engineer's alone
@@ -348,7 +344,15 @@ it('takes a design from a new product to an approved second revision and its des
   expect(nutRow).toMatch(/nut\.length\s+60 mm\s+70 mm\s+Changed/);
   expect(await text(author, '#compare-inputs tr[data-path="load.axial"]')).toMatch(/18 kN\s+18 kN\s+same/);
   expect(await text(author, '#compare-inputs tr[data-path="friction.collar.source.kind"]')).toMatch(/\(not given\)\s+test\s+Changed/);
-  expect(await text(author, '#compare-results tr[data-path="wear.bearingPressure"]')).toContain('Changed');
+  // every result row has its label and its unit in the design's system; efficiencies in per cent
+  const pressureRow = await text(author, '#compare-results tr[data-path="wear.bearingPressure"]');
+  expect(pressureRow).toMatch(/^Mean bearing pressure[^\n]*\s+wear\.bearingPressure\s+[\d.]+ MPa\s+[\d.]+ MPa\s+Changed/);
+  // the review states differ (rejected against awaiting review) and are compared by value
+  expect(await text(author, '#compare-verdict')).toMatch(/Review state\s+Rejected\s+Awaiting review\s+Changed/);
+  const byRule = (r: { findings: { severity: string; ruleId: string }[] }) => r.findings.map((f) => `${f.severity} ${f.ruleId}`).join(', ') || 'none';
+  const rulesRow = await text(author, '#compare-verdict tr:nth-child(4)');
+  expect(rulesRow).toMatch(byRule(rev1) === byRule(rev2) ? /same$/ : /Changed$/);
+  expect(byRule(rev1)).not.toBe(byRule(rev2)); // this pair's findings differ, so the row must say so
   expect(await text(author, '#compare-verdict')).toMatch(new RegExp(`Verdict of the rules\\s+${rev1.verdict === 'clear' ? 'Clear\\s+Clear\\s+same' : '\\S.*\\s+Clear\\s+Changed'}`));
   await checkPage(author, 'calculation-compare');
 

@@ -3,6 +3,8 @@
  */
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
+import { DEFAULT_RULE_SET } from '@leadline/rules';
+import { prepareSubmission, RecordStore } from '../../apps/api/src/records/record-store';
 import { BACKENDS, countRecords, startTestApp, type TestApp } from '../support/harness';
 
 const design = JSON.parse(readFileSync(join(__dirname, '../fixtures/ok/trapezoidal-jack.json'), 'utf8'));
@@ -32,8 +34,9 @@ describe.each(BACKENDS)('records on %s', (backend) => {
     expect(rev.status).toBe(200);
     expect(JSON.stringify(rev.body.input)).toBe(JSON.stringify(design));
     const stateless = await t.call('POST', '/api/v1/evaluations?trace=true', design);
-    const { verdict, ruleSetVersion, ...statelessEvaluation } = stateless.body;
+    const { verdict, ruleSetVersion, checks, governing, ...statelessEvaluation } = stateless.body;
     expect(rev.body.evaluation).toEqual(statelessEvaluation);
+    expect({ checks: rev.body.checks, governing: rev.body.governing }).toEqual({ checks, governing });
     expect(rev.body.verdict).toBe(verdict);
     expect(rev.body.findings).toEqual(stateless.body.findings);
     expect(rev.body.engineVersion).toBe(stateless.body.engineVersion);
@@ -172,16 +175,12 @@ describe.each(BACKENDS)('records on %s', (backend) => {
     expect(res.status).toBe(404);
     expect(res.headers['content-type']).toMatch(/problem\+json/);
     expect(res.body.detail).toContain(`calculation ${unknown}`);
-    // The append function reads the product from the calculation; a caller naming another product is refused
+    // The append reads the product from the calculation; a caller naming another product is refused
     const mine = await open('product guard');
     const other = await t.call('POST', '/api/v1/products', { code: `GUARD-${backend}`, name: 'another product' });
     const after = await countRecords(t.db);
-    await expect(
-      t.db.query(
-        `SELECT * FROM leadline_append_revision($1, $2, gen_random_uuid(), gen_random_uuid(), null, '{}', '{}', '{}', '[]', 'x', 'clear', 'e', 'r', null, null, null)`,
-        [other.body.id, mine.body.calculationId],
-      ),
-    ).rejects.toThrow(/belongs to product/);
+    const s = prepareSubmission({ input: {}, normalized: {}, evaluation: {}, findings: [], verdict: 'clear', engineVersion: 'e', ruleSetVersion: DEFAULT_RULE_SET.version, note: null });
+    await expect(t.app.get(RecordStore).appendRevision(t.db, other.body.id, mine.body.calculationId, s, null)).rejects.toMatchObject({ status: 404 });
     expect(await countRecords(t.db)).toEqual(after);
     expect(after.revisions).toBe(before.revisions + 1);
   });

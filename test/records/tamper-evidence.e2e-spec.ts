@@ -10,7 +10,10 @@ import { DataSource } from 'typeorm';
 import { Client } from 'pg';
 import { MIGRATIONS } from '../../migrations';
 import { Database } from '../../apps/api/src/infra/database/database.service';
-import { linkHash } from '../../apps/api/src/records/chain';
+import { DEFAULT_RULE_SET } from '@leadline/rules';
+import { loadConfig } from '../../apps/api/src/infra/config';
+import { linkHash, TS_TEXT } from '../../apps/api/src/records/chain';
+import { ServiceKeys } from '../../apps/api/src/records/service-keys';
 import { prepareSubmission, RecordStore } from '../../apps/api/src/records/record-store';
 import { clearDesign, warningDesign } from '../support/designs';
 import { BACKENDS, countRecords, startTestApp, type TestApp } from '../support/harness';
@@ -101,7 +104,7 @@ describe.each(BACKENDS)('tamper evidence on %s', (backend) => {
     const tokens = (await t.call('GET', `/api/v1/users/${t.users.author}/tokens`, undefined, { as: 'admin' })).body;
     const tokenId = (Array.isArray(tokens) ? tokens : tokens.items)[0].id;
     const rows = await t.db.query<{ token_id: string; link_version: number }>(`SELECT token_id, link_version FROM revisions WHERE id = $1`, [opened.revisionId]);
-    expect(rows[0]).toEqual({ token_id: tokenId, link_version: 2 });
+    expect(rows[0]).toEqual({ token_id: tokenId, link_version: 3 });
     const events = await t.db.query<{ type: string; token_id: string }>(`SELECT type, token_id FROM events WHERE product_id = $1 ORDER BY seq`, [p]);
     expect(events.map((e) => e.type)).toEqual(['product-registered', 'calculation-opened', 'revision-submitted']);
     expect(events.every((e) => e.token_id === tokenId)).toBe(true);
@@ -175,7 +178,7 @@ describe.each(BACKENDS)('tamper evidence on %s', (backend) => {
   });
 });
 
-describe('links written before link format 2', () => {
+describe('links written before link formats 2 and 3', () => {
   const serverUrl = process.env.DATABASE_URL ?? 'postgres://postgres@127.0.0.1:5432/postgres';
   const name = `leadline_test_v1_${randomUUID().slice(0, 8)}`;
   const url = (() => {
@@ -217,7 +220,8 @@ describe('links written before link format 2', () => {
       );
     }
     await old.query(`INSERT INTO chain_heads (product_id, seq, hash) VALUES ($1, 2, $2)`, [productId, e2.hash]);
-    const s = prepareSubmission({ input: clearDesign, normalized: { a: 1 }, evaluation: { b: 2 }, findings: [], verdict: 'clear', engineVersion: 'old', ruleSetVersion: 'old', note: 'before format 2' });
+    await old.query(`INSERT INTO rule_sets (version, definition) VALUES ($1, $2)`, [DEFAULT_RULE_SET.version, JSON.stringify(DEFAULT_RULE_SET)]);
+    const s = prepareSubmission({ input: clearDesign, normalized: { a: 1 }, evaluation: { b: 2 }, findings: [], verdict: 'clear', engineVersion: 'old', ruleSetVersion: DEFAULT_RULE_SET.version, note: 'before format 2' });
     await old.query(`SELECT * FROM leadline_append_revision($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13, $14, $15)`, [
       productId, calculationId, randomUUID(), randomUUID(), s.note, s.json.input, s.json.normalized, s.json.evaluation, s.json.findings, s.content,
       s.verdict, s.engineVersion, s.ruleSetVersion, actor.id, actor.name,
@@ -228,13 +232,25 @@ describe('links written before link format 2', () => {
     await ds.initialize();
     try {
       await ds.runMigrations({ transaction: 'each' });
-      const store = new RecordStore(new Database(ds, false));
+      const db = new Database(ds, false);
+      const store = new RecordStore(db, new ServiceKeys(db, loadConfig({ LEADLINE_DATA_DIR: 'memory://' })));
       expect(await store.verify(productId)).toMatchObject({ valid: true, links: 4 });
       const [{ v }] = await ds.query(`SELECT array_agg(link_version ORDER BY seq) AS v FROM events WHERE product_id = $1`, [productId]);
       expect(v).toEqual([1, 1, 1]);
-      // a format-2 revision appended after the migration continues the same chain
-      await store.appendRevision(ds.manager, productId, calculationId, s, Object.assign({ ...actor }, { tokenId: randomUUID() }));
+      // a sealed (format 3) revision appended after the migrations continues the same chain
+      await store.appendRevision(db, productId, calculationId, s, Object.assign({ ...actor }, { tokenId: randomUUID() }));
       expect(await store.verify(productId)).toMatchObject({ valid: true, links: 6 });
+      // an unsealed link (format 2, hash correct) written after the sealed ones is reported: from the first seal on, every link is sealed
+      const [head] = await ds.query(`SELECT seq, hash, ${TS_TEXT('now()')} AS now FROM chain_heads WHERE product_id = $1`, [productId]);
+      const late = { kind: 'event', id: randomUUID(), productId, seq: Number(head.seq) + 1, type: 'comment', calculationId, revisionId: null, actor, data: { text: 'late' }, createdAt: head.now, linkVersion: 2, tokenId: null };
+      const lateHash = linkHash(late, head.hash);
+      await ds.query(
+        `INSERT INTO events (id, product_id, seq, type, calculation_id, actor_id, actor, data, created_at, hash, previous_hash, link_version)
+         VALUES ($1, $2, $3, 'comment', $4, $5, $6, $7, $8::timestamptz, $9, $10, 2)`,
+        [late.id, productId, late.seq, calculationId, actor.id, JSON.stringify(actor), JSON.stringify(late.data), head.now, lateHash, head.hash],
+      );
+      await ds.query(`UPDATE chain_heads SET seq = $2, hash = $3 WHERE product_id = $1`, [productId, late.seq, lateHash]);
+      expect((await store.verify(productId)).firstBrokenLink).toMatchObject({ seq: late.seq, reason: expect.stringMatching(/unsealed link of format 2 after the sealed links/) });
       // a token id slipped onto an old link (which does not hash it) is reported
       await ds.query(`ALTER TABLE events DISABLE TRIGGER USER`);
       await ds.query(`UPDATE events SET token_id = gen_random_uuid() WHERE product_id = $1 AND seq = 2`, [productId]);

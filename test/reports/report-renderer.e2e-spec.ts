@@ -1,7 +1,7 @@
 /** The calculation report rendered to HTML and to PDF in real Chromium (the run's one browser). */
 import { existsSync } from 'node:fs';
 import { PdfRenderer } from '../../apps/api/src/infra/pdf/browser-pool';
-import { sig } from '../../apps/api/src/reports/format';
+import { sig } from '@leadline/presentation';
 import { harrowgateReportInput, HARROWGATE_INPUT } from '../../apps/api/src/reports/fixtures/harrowgate.fixture';
 import { CAUTION_SHORT, CAUTION_TEXT } from '../../apps/api/src/reports/report-model';
 import { ReportRenderer, reportPdfLabels, templateCompilations, type RenderedReport } from '../../apps/api/src/reports/report-renderer';

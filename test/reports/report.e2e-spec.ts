@@ -3,7 +3,7 @@
  * The PDF's text is extracted with pdf-parse and checked against the stored evaluation.
  */
 import { PdfRenderer } from '../../apps/api/src/infra/pdf/browser-pool';
-import { formatQuantity, sig } from '../../apps/api/src/reports/format';
+import { formatQuantity, sig } from '@leadline/presentation';
 import { saveArtifact, screenshot } from '../support/artifacts';
 import { testBrowser } from '../support/browser';
 import { warningDesign } from '../support/designs';
@@ -84,8 +84,8 @@ it('renders a stored revision to PDF whose text carries the inputs, results, fin
   expect(text).toMatch(/no substitute for a brake/);
   expect(text.replace(/\s/g, '')).toContain(record.hash);
   // safety factors stand against the minimums of the rule set the revision was judged by (lifting duty)
-  expect(text).toMatch(/Screw body, Sy \/ von Mises [\d.]+ 3\.00 meets the minimum screw-body-yield/); // default rule set: 3.0 on lifting
-  expect(text).toMatch(/Column buckling, Pcr \/ F [\d.]+ 3\.50 meets the minimum column-buckling/);
+  expect(text).toMatch(/Screw body, Sy \/ von Mises [\d.]+ ≥ 3\.00 meets the limit screw-body-yield/); // default rule set: 3.0 on lifting
+  expect(text).toMatch(/Column buckling, Pcr \/ F [\d.]+ ≥ 3\.50 meets the limit column-buckling/);
   expect(text).not.toContain('no minimum recorded');
   const letter = await t.call('GET', `/api/v1/revisions/${revisionId}/report.pdf?paper=Letter`);
   expect(letter.status).toBe(200);

@@ -3,11 +3,13 @@
  * the audit trail's cursor pages, the streamed CSV/JSON downloads (and CSV formula neutralisation), the review
  * queue under superseded history, and the cursor-paged revision list. (Their cost is measured in bench/, not here.)
  */
+import { DEFAULT_RULE_SET } from '@leadline/rules';
 import { EmbeddedStatistics } from '../../apps/api/src/infra/database/statistics';
 import { prepareSubmission } from '../../apps/api/src/records/record-store';
 import { auditPageSql } from '../../apps/api/src/reviews/audit.service';
 import { clearDesign, warningDesign } from '../support/designs';
 import { BACKENDS, startTestApp, type TestApp } from '../support/harness';
+import { appendRevisions } from '../support/seed-records';
 
 /** A minimal RFC 4180 reader (quoted cells, doubled quotes, CRLF rows), written for this test. */
 function parseCsv(text: string): string[][] {
@@ -227,18 +229,9 @@ describe.each(BACKENDS)('audit page plan on a long chain on %s', (backend) => {
     productId = (await t.call('POST', '/api/v1/products', { code: `PLAN-${backend}`, name: 'Plan rig (test product)' })).body.id;
     const opened = await t.call('POST', `/api/v1/products/${productId}/calculations`, { title: 'long chain', design: clearDesign });
     expect(opened.status).toBe(201);
-    // Grown in SQL through the real append function (its later versions take a trailing token id: passed as NULL)
-    const [{ n: argc }] = await t.db.query<{ n: number }>(`SELECT max(pronargs)::int AS n FROM pg_proc WHERE proname = 'leadline_append_revision'`);
-    const extra = ', NULL'.repeat(Math.max(0, argc - 15));
-    const s = prepareSubmission({ input: { grown: true }, normalized: {}, evaluation: {}, findings: [], verdict: 'clear', engineVersion: '1', ruleSetVersion: '1', note: 'grown' });
-    for (let i = 0; i < appended; i += 500) {
-      await t.db.query(
-        `WITH a AS (SELECT leadline_append_revision($1, $2, gen_random_uuid(), gen_random_uuid(), $3, $4::json, $5::json, $6::json, $7::json,
-           $8, $9, $10, $11, $12, $13${extra}) FROM generate_series(1, 500)) SELECT count(*) FROM a`,
-        [productId, opened.body.calculationId, s.note, s.json.input, s.json.normalized, s.json.evaluation, s.json.findings, s.content, s.verdict,
-          s.engineVersion, s.ruleSetVersion, t.users.author, 'Design author (test)'],
-      );
-    }
+    // Grown through the record functions the service uses (RecordStore.appendRevision), in one transaction
+    const s = prepareSubmission({ input: { grown: true }, normalized: {}, evaluation: {}, findings: [], verdict: 'clear', engineVersion: '1', ruleSetVersion: DEFAULT_RULE_SET.version, note: 'grown' });
+    await appendRevisions(t, opened.body.calculationId, appended, s);
   }, 120_000);
   afterAll(() => t?.close());
 

@@ -1,5 +1,5 @@
 /**
- * Re-check of approved work after the issue 13 corrections, through HTTP on PostgreSQL: the demo's main lift screw was
+ * Re-check of approved work after the corrections of rule set 2026.12-2, through HTTP on PostgreSQL: the demo's main lift screw was
  * approved as judged by engine 1.0.0 under rule set 2026.12-1 (recorded in apps/api/src/seed/recorded-history.ts); the
  * current engine and rule set flag it. Nothing is written, and the stored revision keeps what it was judged with.
  */
@@ -54,6 +54,42 @@ describe('re-check of stored revisions [POST /api/v1/rule-sets/recheck]', () => 
     expect(await countRecords(t.db)).toEqual(before);
     const verify = await t.call('GET', `/api/v1/products/${calc.body.productId}/verify`, undefined, { as: 'reviewer' });
     expect(verify.body.valid).toBe(true);
+  });
+
+  it('the impact of rule set 2026.12-2 on the seeded demo answers 200 and includes the engine-1.0 revision [POST /api/v1/rule-sets/:version/impact]', async () => {
+    const res = await t.call('POST', '/api/v1/rule-sets/2026.12-2/impact', { scope: 'approved' }, { as: 'reviewer' });
+    expect(res.status).toBe(200);
+    const old = res.body.revisions.find((r: { judgedBy: string }) => r.judgedBy === '2026.12-1');
+    expect(old).toBeDefined();
+    const stored = (await t.call('GET', `/api/v1/revisions/${old.revisionId}`, undefined, { as: 'reviewer' })).body;
+    expect(stored.engineVersion).toBe('1.0.0');
+    // engine 1.0 did not compute the nut's own threads: under 2026.12-2 on lifting duty that check blocks, never passes
+    expect(old.verdict).toEqual({ from: 'clear', to: 'blocked' });
+    expect(old.findingChanges).toEqual(expect.arrayContaining([{ ruleId: 'nut-thread-root-yield', from: null, to: 'blocking' }]));
+    // the stored revision's own checks (rule set 2026.12-1, which has no nut-thread group) are read without error
+    expect(stored.checks.map((c: { id: string }) => c.id)).not.toContain('nut-thread-root-yield');
+    expect(stored.governing).not.toBeNull();
+    // and its report and the product's design file are served (a figure engine 1.0 did not compute is said so)
+    const report = await t.call('GET', `/api/v1/revisions/${old.revisionId}/report.html`, undefined, { as: 'reviewer' });
+    expect(report.status).toBe(200);
+    expect(report.text).toContain('not computed by engine 1.0.0');
+    // compared with a revision of the current engine: 200, and the figures engine 1.0 lacks are named as not computed
+    const current = (await t.call('POST', RECHECK, { scope: 'latest' }, { as: 'reviewer' })).body;
+    const calculations = await t.call('GET', `/api/v1/products/${stored.productId}`, undefined, { as: 'reviewer' });
+    const other = calculations.body.calculations.find((c: { id: string }) => c.id !== stored.calculationId);
+    const otherRevision = (await t.call('GET', `/api/v1/calculations/${other.id}/revisions`, undefined, { as: 'reviewer' })).body.items[0];
+    expect(otherRevision.engineVersion).not.toBe('1.0.0');
+    const diff = await t.call('GET', `/api/v1/revisions/${otherRevision.id}/diff?against=${old.revisionId}`, undefined, { as: 'reviewer' });
+    expect(diff.status).toBe(200);
+    expect(diff.body.results.find((r: { path: string }) => r.path.startsWith('brake.'))).toMatchObject({ notComputed: 'from' });
+    expect(current.examined).toBeGreaterThan(0);
+    // the product's design file, which holds the engine-1.0 approved revision's report, is printed
+    const file = await t.call('GET', `/api/v1/products/${stored.productId}/design-file.pdf`, undefined, { as: 'reviewer' });
+    expect(file.status).toBe(200);
+    expect(file.raw.subarray(0, 5).toString()).toBe('%PDF-');
+    const latest = await t.call('POST', '/api/v1/rule-sets/2026.12-2/impact', { scope: 'latest' }, { as: 'reviewer' });
+    expect(latest.status).toBe(200);
+    expect(latest.body.examined).toBe(4);
   });
 
   it('scopes: approved only finds the same revision; a product filter with no stored work examines nothing', async () => {

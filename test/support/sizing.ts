@@ -1,7 +1,6 @@
 /**
  * Requirement sets for the screw-selection tests (POST /api/v1/sizing). Library values (friction entries, nut and
- * screw materials) carry their sources in libs/mechanics (friction.ts, materials.ts) and in
- * /work/shared/reference/friction-and-materials.md.
+ * screw materials) carry their sources in libs/mechanics (friction.ts, materials.ts).
  */
 import fc from 'fast-check';
 
@@ -62,7 +61,7 @@ export const PRESS = {
   screw: { material: 'steel-4140-qt650', unsupportedLength: '300 mm', ends: 'pinned-pinned' },
 } as const;
 
-/** Impossible on purpose (issue 9): 2 MN over 6 m with one end free. */
+/** Impossible on purpose: 2 MN over 6 m with one end free. */
 export const IMPOSSIBLE = {
   ...TEXTBOOK_JACK,
   load: { axial: '2 MN', sense: 'compression' },

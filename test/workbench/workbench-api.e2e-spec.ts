@@ -92,8 +92,8 @@ it("prints the product's design file: cover, the approved revision's report, the
   const chain = (await t.call('GET', `/api/v1/products/${productId}/verify`)).body;
   expect(chain.valid).toBe(true);
   expect(text).toContain('Design file · WB-1');
-  expect(text).toMatch(/Ram screw 1 approved clear revision 1/);
-  expect(text).toMatch(/Clamp screw 2 awaiting review clear none approved/);
+  expect(text).toMatch(/Ram screw 1 Approved Clear revision 1/);
+  expect(text).toMatch(/Clamp screw 2 Awaiting review Clear none approved/);
   expect(text.replace(/\s/g, '')).toContain(approved.hash);
   expect(text).toContain(`Hash-chain verification: intact`);
   expect(text).toContain(`${chain.links} links recomputed`);

@@ -3,6 +3,7 @@
  * request schemas; clients can rely on the field names (add, never rename).
  */
 import { z } from 'zod';
+import { checkSchema, governingSchema } from './checks';
 
 const num = z.number();
 const nnum = z.number().nullable();
@@ -26,7 +27,7 @@ export const evaluationSchema = z.object({
     form: z.string(), size: z.string().nullable(), standard: z.string(), majorDiameter: num, pitch: num, starts: num, lead: num,
     meanDiameter: num, minorDiameter: num, threadHeight: num, crestClearance: num, nutMajorDiameter: num, flankAngle: num,
     leadAngle: num.describe('degrees'), normalFlankAngle: num.describe('degrees'), engagedThreads: num, rootThickness: num, nutRootThickness: num,
-    // added with issue 13 (absent from evaluations stored by earlier engine versions)
+    // added with engine 1.1 (absent from evaluations stored by earlier engine versions)
     nutMinorDiameter: num.optional().describe('basic minor diameter of the nut thread D1 [m]'),
     minimumMaterial: z.object({
       toleranceClass: z.string().nullable(), majorDiameter: num, pitchDiameter: num, minorDiameter: num, nutMinorDiameter: num,
@@ -40,8 +41,8 @@ export const evaluationSchema = z.object({
   selfLocking: z.object({ locks: z.boolean(), margin: num, boundaryFriction: num, backDrivingTorque: nnum }),
   stresses: z.object({
     body: z.object({ axial: num, torsion: num, vonMises: num, atMinFriction: z.object({ torsion: num, vonMises: num }) }),
-    firstThread: z.object({ bearing: num, rootBending: num, rootShear: num, vonMises: num, load: num.optional().describe('max(0.38 F, F / n_t) [N] (issue 13)') }),
-    nutThread: z.object({ rootBending: num, rootShear: num }).optional().describe("the nut's own threads at their root, first-thread load [Pa] (issue 13)"),
+    firstThread: z.object({ bearing: num, rootBending: num, rootShear: num, vonMises: num, load: num.optional().describe('max(0.38 F, F / n_t) [N]') }),
+    nutThread: z.object({ rootBending: num, rootShear: num }).optional().describe("the nut's own threads at their root, first-thread load [Pa]"),
     mean: z.object({ bearing: num, rootBending: num, rootShear: num, vonMises: num }),
     stripping: z.object({ screw: num, nut: num, screwArea: num.optional(), nutArea: num.optional() }),
   }),
@@ -51,14 +52,14 @@ export const evaluationSchema = z.object({
   }),
   criticalSpeed: z.object({
     rpm: num, frequencyFactor: num, operatingRpm: nnum, ratio: nnum,
-    // added with issue 13 (absent from evaluations stored by earlier engine versions)
+    // added with engine 1.1 (absent from evaluations stored by earlier engine versions)
     span: num.optional().describe('rotating span for whirl [m]'), ends: z.string().optional().describe('end conditions of the rotating span'),
     partlyFixed: z.object({ rpm: num, frequencyFactor: num, factor: num, endConditionConstant: num, ratio: nnum }).nullable().optional()
       .describe('fixed ends taken as only partly fixed (recommended basis); null when no end is fixed or the basis is theoretical'),
   }),
   wear: z.object({
     bearingPressure: num, slidingVelocity: nnum, pv: nnum, allowablePressure: nnum, allowablePv: nnum, pressureRatio: nnum, pvRatio: nnum,
-    // added with issue 13 (absent from evaluations stored by earlier engine versions)
+    // added with engine 1.1 (absent from evaluations stored by earlier engine versions)
     allowablePressureClass: z.string().nullable().optional().describe('which allowable applied: the class of a speed-rated table, or the single value at any speed'),
     allowablePressureSource: z.string().nullable().optional(),
     allowablePressureBasis: z.enum(['speed-rated', 'any-speed']).nullable().optional(),
@@ -67,22 +68,24 @@ export const evaluationSchema = z.object({
   brake: z.object({
     holdingTorqueNoFriction: num.describe('F l / (2 pi) [N*m]'), holdingTorqueMinFriction: num, reverseEfficiency: num,
     location: z.enum(['screw', 'motor']), requiredTorque: num, ratedTorque: nnum, ratio: nnum,
-  }).optional().describe('added with issue 13 (absent from evaluations stored by earlier engine versions)'),
+  }).optional().describe('added with engine 1.1 (absent from evaluations stored by earlier engine versions)'),
   drive: z.object({
     availableTorque: num, requiredTorque: num, margin: num,
-    // added with issue 13 (absent from evaluations stored by earlier engine versions)
+    // added with engine 1.1 (absent from evaluations stored by earlier engine versions)
     steadyTorque: num.optional(), loadMass: nnum.optional(), loadMassBasis: z.enum(['stated', 'weight', 'not-included']).optional(),
     angularAcceleration: nnum.optional(), screwInertia: num.optional(), loadInertia: nnum.optional(), accelerationTorque: num.optional(),
     peakTorque: num.optional(), gearbox: z.object({ ratio: num, efficiency: num, reverseEfficiency: num }).nullable().optional(),
     peakTorqueAtMotor: num.optional(), holdingTorqueAtMotor: num.optional(),
   }).nullable(),
-  safetyFactors: z.object({ bodyVonMises: num, firstThreadRoot: num, strippingScrew: num, strippingNut: nnum, nutThreadRoot: nnum.optional().describe("the nut's own threads (issue 13); null without a nut yield"), buckling: nnum }),
+  safetyFactors: z.object({ bodyVonMises: num, firstThreadRoot: num, strippingScrew: num, strippingNut: nnum, nutThreadRoot: nnum.optional().describe("the nut's own threads; null without a nut yield"), buckling: nnum }),
   findings: z.array(findingSchema),
   trace: z.record(z.string(), z.object({ formula: z.string(), inputs: z.record(z.string(), num) })),
 });
 
 export const evaluationResponseSchema = evaluationSchema.extend({
   trace: evaluationSchema.shape.trace.optional().describe('the formula trace, sent only with ?trace=true'),
+  checks: z.array(checkSchema).describe("every check the rules declare and apply to the design, against the rule set's limits"),
+  governing: governingSchema,
   verdict: z.enum(['blocked', 'needs-acknowledgement', 'clear']),
   ruleSetVersion: z.string(),
 });
@@ -124,9 +127,21 @@ export const revisionReviewSchema = z.object({
 /** A revision as the revision routes answer it: the record and its review state. */
 export const revisionWithReviewSchema = revisionRecordSchema.extend({ review: revisionReviewSchema });
 
+/** One revision (GET /revisions/:id): with its checks under the rule set it was judged by, derived on reading. */
+export const revisionWithChecksSchema = revisionWithReviewSchema.extend({
+  checks: z.array(checkSchema).describe('the checks of the rule set the revision was judged by, from its stored evaluation'),
+  governing: governingSchema,
+});
+
 export const chainVerificationSchema = z.object({
   productId: z.string().uuid(), valid: z.boolean(), links: z.number().int(), headHash: z.string().nullable(),
   firstBrokenLink: z.object({ seq: z.number(), kind: z.enum(['revision', 'event', 'product', 'calculation', 'closure']), id: z.string(), reason: z.string() }).nullable(),
+});
+
+/** GET /identity-events/verify: the identity chain recomputed; the first link or row it does not bear out. */
+export const identityVerificationSchema = z.object({
+  valid: z.boolean(), links: z.number().int(), headHash: z.string().nullable(),
+  firstBrokenLink: z.object({ seq: z.number(), kind: z.enum(['identity-event', 'user', 'token', 'revocation']), id: z.string(), reason: z.string() }).nullable(),
 });
 
 /** Problem details (RFC 9457); some problems add members of their own (e.g. state, blocking), as the RFC allows. */

@@ -290,7 +290,7 @@ describe('parseDesign: every validation error names the field at fault', () => {
   });
 });
 
-describe("parseDesign: a nut material of the design's own (issue 10 item 7)", () => {
+describe("parseDesign: a nut material of the design's own", () => {
   it('a name that is not a library id is accepted when the design gives the allowables, and kept as entered', () => {
     const input = shigleySi();
     const design = parsed({ ...input, nut: { ...input.nut, material: 'CuSn12 centrifugal cast (our spec N-12)' } });
@@ -324,7 +324,7 @@ describe("parseDesign: a nut material of the design's own (issue 10 item 7)", ()
   });
 });
 
-describe('parseDesign: units (issue 13 item 12)', () => {
+describe('parseDesign: units', () => {
   it('"kpsi" is accepted as ksi (1 kpsi = 1000 lbf/in^2, NIST SP 811 B.8)', () => {
     const input = shigleySi();
     const design = parsed({ ...input, screw: { ...input.screw, yieldStrength: '54 kpsi' } });
@@ -333,7 +333,7 @@ describe('parseDesign: units (issue 13 item 12)', () => {
   });
 });
 
-describe('parseDesign: plausible magnitudes (issue 13 item 12; sanity bounds, common practice)', () => {
+describe('parseDesign: plausible magnitudes (sanity bounds, common practice)', () => {
   type Mutation = (d: Record<string, any>) => void; // eslint-disable-line @typescript-eslint/no-explicit-any
   // Finite values that overflow the engine's figures to Infinity/NaN (the fuzz suite found a length of 1.9e229 mm).
   const cases: ReadonlyArray<readonly [string, string, RegExp, Mutation]> = [

@@ -3,3 +3,4 @@ export * from './records';
 export * from './api-schemas';
 export * from './sizing';
 export * from './text';
+export * from './checks';

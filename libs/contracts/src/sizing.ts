@@ -2,9 +2,10 @@
  * The screw-selection contract (POST /api/v1/sizing): requirements for one screw position and the search over the
  * standard size tables. The requirement pieces are the design input's own schemas (imported, never copied), so a
  * field a design accepts is accepted here with the same name and the same validation.
- * Field names are a contract (issue 9): add fields, never rename.
+ * Field names are a contract: add fields, never rename.
  */
 import { z } from 'zod';
+import { checkSchema } from './checks';
 import { collarSchema, designInputSchema } from './design-input';
 
 const design = designInputSchema.shape;
@@ -81,13 +82,9 @@ export type SizingSearch = z.output<typeof sizingSearchSchema>;
 const nnum = z.number().nullable();
 const verdict = z.enum(['blocked', 'needs-acknowledgement', 'clear']);
 
-export const sizingGoverningSchema = z.object({
-  check: z.string().describe('the check closest to its blocking limit'),
-  ruleId: z.string(),
-  ratio: z.number().describe('value / limit; a minimum-type check passes above 1, a maximum-type check below 1'),
-  value: z.number(),
-  limit: z.number(),
-  limitKind: z.enum(['minimum', 'maximum']),
+/** The governing check of a candidate: the declared check nearest its limit, with its label also as `check`. */
+export const sizingGoverningSchema = checkSchema.extend({
+  check: z.string().describe('the governing check in words (its label)'),
 });
 
 export const sizingFiguresSchema = z.object({
@@ -112,6 +109,7 @@ export const sizingCandidateSchema = z.object({
   nutLengthRatio: z.number(),
   verdict,
   governing: sizingGoverningSchema.nullable(),
+  checks: z.array(checkSchema).describe('every check the rules apply to the candidate, as POST /api/v1/evaluations answers them'),
   figures: sizingFiguresSchema,
   design: z.unknown().describe('a complete design input: POST it to /api/v1/evaluations for the same verdict and figures'),
 });

@@ -1,5 +1,5 @@
 /**
- * Brake and back-driving (issue 13 item 10): holding torque with thread friction lost, at minimum friction, and the
+ * Brake and back-driving: holding torque with thread friction lost, at minimum friction, and the
  * reverse efficiency, checked against Shigley's worked example and the square-thread closed form; the law that losing
  * friction never lowers the holding torque as a seeded property test.
  */
@@ -78,7 +78,7 @@ describe('square-thread closed form (from memory): reverse efficiency tan(lambda
   });
 });
 
-describe('property (issue 13): brake holding torque at f -> 0 >= at minimum friction', () => {
+describe('property: brake holding torque at f -> 0 >= at minimum friction', () => {
   it('for any load, geometry, friction and flank angle', () => {
     check(
       fc.property(

@@ -1,5 +1,5 @@
 /**
- * Drive sizing (issue 13 item 11): inertia, acceleration torque, peak torque at the motor and holding torque through the
+ * Drive sizing: inertia, acceleration torque, peak torque at the motor and holding torque through the
  * gearbox. Expected values are hand arithmetic (python, shown in the comments) on textbook relations that differ in form
  * from the code: solid cylinder J = m r^2 / 2 (Meriam & Kraige, Engineering Mechanics: Dynamics, 7th ed., Table D/4, from
  * memory); an ideal screw (f = 0, no collar) raises with T = F l / (2 pi) (Shigley 10th ed., Eq. (8-4) with e = 1).
@@ -103,7 +103,7 @@ describe('acceleration, peak and holding torque through a gearbox (hand arithmet
   });
 });
 
-describe('drive and brake input validation (issue 13 items 10, 11)', () => {
+describe('drive and brake input validation', () => {
   const issues = (input: DesignInput) => {
     const r = parseDesign(input);
     return r.success ? [] : r.issues.map((i) => i.path);

@@ -62,8 +62,8 @@ const list: readonly Formula[] = [
   { id: 'thread-stripping-nut', symbol: 'tau_n', equation: 'tau_n = F / (pi d t_n n_t), t_n = nut thread thickness at the screw major diameter d', source: "Machinery's Handbook, 29th ed. (edition from memory), 'Strength of screw threads': internal threads shear at the external major diameter (A_n = pi n L_e d_s,min [1/(2n) + 0.57735 (d_s,min - E_n,max)], from memory); FED-STD-H28/2 same plane" },
   { id: 'nut-thread-root-bending', symbol: 'sigma_b,n', equation: 'sigma_b,n = 6 F_t a_n / (pi D_4 b_n^2), a_n = (D_4 - d_m)/2', source: `${SHIGLEY}, Eq. (8-10) cantilever thread applied to the nut thread at its root (major) diameter D_4` },
   { id: 'nut-thread-root-shear', symbol: 'tau_r,n', equation: 'tau_r,n = 3 F_t / (2 pi D_4 b_n)', source: `${SHIGLEY}, Eq. (8-11), 3V/(2A) at the nut thread root` },
-  { id: 'tensile-stress-area-iso', symbol: 'A_s', equation: 'A_s = (pi/4) ((d_2 + d_3)/2)^2 = (pi/4) (d - 0.938194 P)^2', source: 'ISO 898-1 nominal stress area A_s,nom (formula from memory; values checked in shared/reference/threads.md Sec. 4)' },
-  { id: 'tensile-stress-area-unified', symbol: 'A_s', equation: 'A_s = 0.7854 (d - 0.9743/n)^2', source: 'ASME B1.1 tensile stress area (formula from memory; shared/reference/threads.md Sec. 5)' },
+  { id: 'tensile-stress-area-iso', symbol: 'A_s', equation: 'A_s = (pi/4) ((d_2 + d_3)/2)^2 = (pi/4) (d - 0.938194 P)^2', source: 'ISO 898-1 nominal stress area A_s,nom (formula from memory)' },
+  { id: 'tensile-stress-area-unified', symbol: 'A_s', equation: 'A_s = 0.7854 (d - 0.9743/n)^2', source: 'ASME B1.1 tensile stress area (formula from memory)' },
   // column
   { id: 'radius-of-gyration-round', symbol: 'k', equation: 'k = d_r / 4', source: `${SHIGLEY}, Sec. 4-12 (solid round: k = sqrt(I/A) = d/4)` },
   { id: 'slenderness', symbol: 'l/k', equation: 'l/k', source: `${SHIGLEY}, Sec. 4-12` },
@@ -82,15 +82,15 @@ const list: readonly Formula[] = [
   { id: 'linear-speed', symbol: 'v', equation: 'v = l n', source: `${SHIGLEY}, Sec. 8-2 (one turn advances one lead)` },
   { id: 'input-power', symbol: 'P', equation: 'P = T_R omega, omega = 2 pi n', source: `${SHIGLEY}, Eq. (3-40) (power = torque x angular speed)` },
   { id: 'drive-margin', symbol: 'T_av/T_R', equation: 'T_av / T_R,max (T_R,max: peak torque at the motor when acceleration or a gearbox is given)', source: 'common practice: the drive must exceed the starting raise torque at maximum friction' },
-  // brake and back-driving (issue 13 item 10)
+  // brake and back-driving
   { id: 'brake-holding-torque-no-friction', symbol: 'T_0', equation: 'T_0 = F l / (2 pi)', source: `${SHIGLEY}, Eq. (8-4) with e = 1; the limit f -> 0 of -T_L, ${JUVINALL}, Eq. (10.5)` },
   { id: 'brake-holding-torque-min-friction', symbol: 'T_h', equation: 'T_h = max(0, -T_L,thread) at f_min, collar ignored', source: `${JUVINALL}, Eq. (10.5) (lowering torque; equation number from memory)` },
   { id: 'reverse-efficiency', symbol: "e'", equation: "e' = -2 pi T_L,thread / (F l) at f_min; square thread tan(lambda - phi) / tan lambda", source: `energy balance on ${JUVINALL}, Eq. (10.5), the inverse of ${SHIGLEY}, Eq. (8-4); square-thread form from memory` },
   { id: 'brake-torque-ratio', symbol: 'T_brake/T_0', equation: 'T_brake / T_0 at the brake shaft', source: 'common practice: the brake holds the load with thread friction lost (f -> 0), with a factor from the rule set' },
-  // whirl with partly fixed ends (issue 13 item 9)
+  // whirl with partly fixed ends
   { id: 'critical-speed-partly-fixed', symbol: "(beta_1 L)'", equation: "(beta_1 L)' = pi sqrt(C), C the recommended end-condition constant", source: `common practice: simply supported shaft over the column's effective length L / sqrt(C) (Budynas & Nisbett, Shigley's Mechanical Engineering Design, 9th ed., Table 4-2 recommended C; Thomson, Theory of Vibration with Applications, Table 9.5-1)` },
   { id: 'critical-speed-partly-fixed-factor', symbol: "n_c'/n_c", equation: "n_c' / n_c = pi^2 C / (beta_1 L)^2", source: 'common practice: ratio of the partly fixed to the classical first-mode frequency factor squared (speed scales with (beta_1 L)^2, Thomson Sec. 9.5)' },
-  // drive (issue 13 item 11)
+  // drive
   { id: 'load-mass-from-weight', symbol: 'm', equation: 'm = F / g_n, g_n = 9.80665 m/s^2', source: 'NIST SP 811 (2008), Sec. 8.2: standard acceleration of gravity (3rd CGPM, 1901)' },
   { id: 'screw-inertia', symbol: 'J_s', equation: 'J_s = (pi rho L / 32) (d_r^4 + d^4) / 2', source: 'solid cylinder J = pi rho L d^4 / 32 (Meriam & Kraige, Engineering Mechanics: Dynamics, 7th ed., Table D/4, from memory); thread ridges as half the annulus between d_r and d: common practice' },
   { id: 'load-inertia-reflected', symbol: 'J_L', equation: 'J_L = m (l / (2 pi))^2', source: `kinetic energy balance m v^2/2 = J_L omega^2/2 with v = omega l / (2 pi) (${SHIGLEY}, Sec. 8-2 kinematics)` },

@@ -10,3 +10,4 @@ export * from './evaluate';
 export * from './brake';
 export * from './drive';
 export * from './whirl';
+export * from './chart-series';

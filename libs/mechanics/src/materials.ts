@@ -1,6 +1,6 @@
 /**
  * A small library of screw and nut materials. Each value names its source; "from memory" marks values
- * recalled rather than read (shared/reference/friction-and-materials.md, sections 2-4).
+ * recalled rather than read.
  */
 
 export interface ScrewMaterial {
@@ -19,7 +19,7 @@ const MPA = 1e6;
 const GPA = 1e9;
 const A5 = "Shigley's Mechanical Engineering Design, Table A-5 (E; density = weight density / 9.80665)";
 
-// Yield strengths are specification minimums where one is held (issue 13 item 6), so a check never leans on a
+// Yield strengths are specification minimums where one is held, so a check never leans on a
 // typical value; the one typical value left (4140 Q&T) says so and names what overrides it.
 const A20 = 'Shigley Table A-20, deterministic ASTM minimum strengths (from memory)';
 export const SCREW_MATERIALS: readonly ScrewMaterial[] = [
@@ -71,7 +71,7 @@ const PV_UNIT = PSI * 0.00508; // 1 psi*ft/min in Pa*m/s
 const FT_PER_MIN = 0.00508; // 1 ft/min in m/s, exact (0.3048 m / 60 s)
 
 /**
- * Shigley 9th ed. Table 8-4 after Rothbart (from memory; shared/reference/friction-and-materials.md section 2): safe
+ * Shigley 9th ed. Table 8-4 after Rothbart (from memory): safe
  * bearing pressure by application and rubbing speed. Each class takes the low end of its printed range (the safe
  * side), and a speed between two classes takes the faster class's value (10-20 and 40-50 ft/min are not printed).
  * The hand-press class (2500-3500 psi, low speed, well lubricated) is not used by default: it assumes an application

@@ -358,7 +358,7 @@ export function strippingArea(D: number, t: number, nt: number): number {
  * @param form - 'iso-metric' or 'unified'
  * @returns area [m^2]
  * Source: ISO 898-1 (stress area A_s,nom) and ASME B1.1 (tensile stress area), formulas as in
- * shared/reference/threads.md sections 4 and 5 (from memory). Id: tensile-stress-area-iso / -unified.
+ * recalled (from memory). Id: tensile-stress-area-iso / -unified.
  */
 export function tensileStressArea60(d: number, p: number, form: 'iso-metric' | 'unified'): number {
   const k = form === 'iso-metric' ? (0.649519 + 1.226869) / 2 : 0.9743;

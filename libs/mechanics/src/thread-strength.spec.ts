@@ -1,5 +1,5 @@
 /**
- * Issue 13 corrections to the thread checks, each against a published source or the source's own formula
+ * Engine 1.1 corrections to the thread checks, each against a published source or the source's own formula
  * evaluated here with published table values (never with the engine's numbers):
  * worse root fillet (item 2), short nuts (item 3), stripping shear planes (item 4), the nut's own threads (item 5),
  * the tensile stress area of 60 deg threads (item 7) and speed-rated nut pressure (item 1).

@@ -1,7 +1,6 @@
 /**
  * Standard thread tables: basic dimensions of each form replayed from the shared reference data
- * (/work/shared/reference/threads.md, copied into the tables below so that the suite needs nothing outside
- * the repository), and designation lookup.
+ * (copied into the tables below so that the suite needs nothing outside the repository), and designation lookup.
  *
  * Provenance (as the reference labels it): the thread standards themselves are paywalled and were not read.
  * The basic-profile relations are recalled (from memory); the tabulated values are computed from them and

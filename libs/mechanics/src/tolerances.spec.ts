@@ -1,10 +1,10 @@
 /**
- * Tolerance classes (issue 13 item 8): minimum-material diameters against class limits for several sizes, and the
+ * Tolerance classes: minimum-material diameters against class limits for several sizes, and the
  * checks using them.
  *  - ISO 2903 7H/7e: published limits, open dataset adrianschlatter/threadlib design/TR.csv (after mdmetric.com's
- *    ISO 2903 tables; shared/reference/threads.md Sec. 1.2), read at three preferred sizes and one with the file's
+ *    ISO 2903 tables), read at three preferred sizes and one with the file's
  *    ac anomaly. The engine combines its own ISO 2901 basic profile with the class tolerances.
- *  - ASME B1.5 2G/3G/4G: the limits of shared/reference/threads.md Secs. 2.2 and 2.3, computed there from the B1.5
+ *  - ASME B1.5 2G/3G/4G: limits computed from the B1.5
  *    formulas as recalled (from memory; no published table could be read), printed to 4 decimals.
  */
 import { parseDesign, type DesignInput } from '@leadline/contracts';

@@ -1,5 +1,5 @@
 /**
- * Tolerance classes and minimum-material diameters (issue 13 item 8). A design may name a class; the strength,
+ * Tolerance classes and minimum-material diameters. A design may name a class; the strength,
  * bearing and stripping checks then use the diameters at which the screw and nut have the least material:
  * the screw's smallest major, pitch and minor diameters, the nut's largest minor and pitch diameters.
  * Without a class the basic profile is used, and the report says the minimum-material figures are lower.
@@ -36,7 +36,7 @@ export interface MinimumMaterial {
 /**
  * Minimum-material diameters for a tolerance class.
  * ISO 2903 7H/7e: d_min = d - Td, d2_min = d2 + es - Td2, d3_min = d3 - Td3, D1_max = D1 + TD1, D2_max = D2 + TD2.
- * ASME B1.5 2G/3G/4G (formulas from memory, shared/reference/threads.md Sec. 2.1): allowance 0.008/0.006/0.004 sqrt(d),
+ * ASME B1.5 2G/3G/4G (formulas from memory): allowance 0.008/0.006/0.004 sqrt(d),
  * PD tolerance 0.006 sqrt(d) + 0.030 sqrt(p) / 0.0028 sqrt(d) + 0.014 sqrt(p) / 0.002 sqrt(d) + 0.010 sqrt(p) (in);
  * major min d - 0.05p; minor max d - p - 0.020 (10 TPI and coarser) or - 0.010, minor min = minor max - 1.5 PD tolerance;
  * nut minor max d - p + max(0.05p, 0.005); nut PD max = basic + PD tolerance (from memory).
@@ -88,7 +88,7 @@ export function minimumMaterial(g: ThreadGeometry, toleranceClass: string | null
     d3 = (minorMax - 1.5 * tolerance) * INCH;
     D1 = (din - p + Math.max(0.05 * p, 0.005)) * INCH;
     D2 = (E + tolerance) * INCH;
-    basis = `ASME B1.5 class ${toleranceClass} (allowance and tolerance formulas from memory, shared/reference/threads.md Sec. 2.1)`;
+    basis = `ASME B1.5 class ${toleranceClass} (allowance and tolerance formulas from memory)`;
   }
   return { toleranceClass, majorDiameter: d, pitchDiameter: d2, minorDiameter: d3, nutMinorDiameter: D1, nutPitchDiameter: D2, engagedHeight: (d - D1) / 2, basis };
 }

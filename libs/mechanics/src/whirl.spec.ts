@@ -1,6 +1,6 @@
 /**
- * Whirl span and ends separate from the column, and fixed ends taken as only partly fixed (issue 13 item 9).
- * Check values: /work/shared/reference/columns-and-speed.md Sec. 3.3 (computed there from Thomson's frequency factors,
+ * Whirl span and ends separate from the column, and fixed ends taken as only partly fixed.
+ * Check values computed from Thomson, Theory of Vibration with Applications, frequency factors (
  * Appendix D / Table 9.5-1): d_r = 32 mm, L = 1500 mm, E = 207 GPa, rho = 7850 kg/m^3: pinned-pinned 1720.8 rev/min,
  * fixed-fixed 3900.8 rev/min, fixed-free 613.0 rev/min (printed to 0.1 rev/min).
  */

@@ -1,37 +1,17 @@
 /**
- * Number formatting for finding messages: engineering significant figures, SI display units
- * (MPa for stress, N·m for torque). Locale-independent, so a message is the same on every server.
+ * Numbers in finding messages: the presentation module's message figures (libs/presentation), with the SI display
+ * units a message uses (MPa for stress, N·m for torque). Locale-independent, so a message is the same on every server.
  */
+import { MESSAGE_FIGURES, messageNumber, messagePair } from '@leadline/presentation';
 
 /** Default number of significant figures in messages. */
-export const SIGNIFICANT_FIGURES = 3;
+export const SIGNIFICANT_FIGURES = MESSAGE_FIGURES;
 
-/**
- * Formats a value to `digits` significant figures without exponent notation in the usual range.
- * Non-finite values are spelled out, so a message never shows "NaN".
- */
-export function sig(x: number, digits = SIGNIFICANT_FIGURES): string {
-  if (Number.isNaN(x)) return 'not computable';
-  if (!Number.isFinite(x)) return x > 0 ? 'unbounded' : '-unbounded';
-  if (x === 0) return '0';
-  const magnitude = Math.floor(Math.log10(Math.abs(x)));
-  if (magnitude >= digits - 1) {
-    const step = 10 ** (magnitude - digits + 1);
-    return String(Math.round(x / step) * step);
-  }
-  if (magnitude < -6) return x.toExponential(digits - 1);
-  return x.toFixed(digits - 1 - magnitude);
-}
+/** A value to `digits` significant figures; not-a-number spelled out, so a message never shows "NaN". */
+export const sig = messageNumber;
 
-/**
- * Formats a measured value and its limit with enough significant figures that they read differently
- * whenever they differ (2.9996 against 3 prints "2.9996" and "3.0000", not "3.00" twice).
- */
-export function sigPair(measured: number, limit: number, digits = SIGNIFICANT_FIGURES): [string, string] {
-  let n = digits;
-  while (n < 8 && measured !== limit && sig(measured, n) === sig(limit, n)) n++;
-  return [sig(measured, n), sig(limit, n)];
-}
+/** A measured value and its limit with enough figures that they read differently whenever they differ. */
+export const sigPair = messagePair;
 
 const MPA = 1e6;
 

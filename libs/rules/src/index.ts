@@ -7,6 +7,7 @@ export * from './rule';
 export * from './format';
 export * from './registry';
 export * from './judge';
+export * from './check';
 export * from './rules/lifting-self-locking.rule';
 export * from './rules/screw-body-yield.rule';
 export * from './rules/thread-root-yield.rule';

@@ -2,6 +2,7 @@
  * The one list of design rules. Order is the order findings are reported in; append new rules,
  * and never reuse an id for a different check (acknowledgements name findings by rule id).
  */
+import type { CheckDeclaration } from './check';
 import type { Rule, RuleSummary } from './rule';
 import { columnBucklingRule } from './rules/column-buckling.rule';
 import { columnEndFixityRule } from './rules/column-end-fixity.rule';
@@ -38,6 +39,15 @@ export const RULE_REGISTRY: readonly Rule[] = Object.freeze([
   nutEngagedThreadsRule,
   brakeHoldingTorqueRule,
 ]);
+
+/** Every numeric check the rules declare, in registry order: the one list the API, search, re-check and report read. */
+export const CHECK_DECLARATIONS: readonly CheckDeclaration[] = Object.freeze(RULE_REGISTRY.flatMap((r) => r.checks ?? []));
+
+/** Rules whose finding does not depend on the nut length (Rule.nutIndependent): the screw search prunes on them. */
+export const NUT_INDEPENDENT_RULES: ReadonlySet<string> = new Set(RULE_REGISTRY.filter((r) => r.nutIndependent === true).map((r) => r.id));
+
+/** Checks whose value does not change with the axial load (CheckDeclaration.loadIndependent). */
+export const LOAD_INDEPENDENT_CHECKS: ReadonlySet<string> = new Set(CHECK_DECLARATIONS.filter((d) => d.loadIndependent === true).map((d) => d.id));
 
 /** The rules as the API lists them: id, title, basis, description. */
 export const RULES: readonly RuleSummary[] = Object.freeze(

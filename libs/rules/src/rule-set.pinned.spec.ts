@@ -1,5 +1,5 @@
 /**
- * The default thresholds, pinned as literals with their basis (issue 12 item 4): the rule specs read their limits from
+ * The default thresholds, pinned as literals with their basis: the rule specs read their limits from
  * the default rule set, so without this test a changed default would pass them silently. Changing a number here is a
  * new rule-set version (never an edit of a stored one) and needs its basis stated in rule-set.ts.
  */
@@ -32,16 +32,16 @@ describe('default thresholds, pinned with their basis', () => {
     expect(RULE_SET_2026_12_1.thresholds).toEqual(PINNED_2026_12_1);
   });
 
-  it('2026.12-2 is the default: every 2026.12-1 threshold kept, plus the issue 13 groups', () => {
+  it('2026.12-2 is the default: every 2026.12-1 threshold kept, plus the groups it adds', () => {
     expect(DEFAULT_RULE_SET).toBe(RULE_SET_2026_12_2);
     expect(DEFAULT_RULE_SET.version).toBe('2026.12-2');
     expect(RULE_SET_2026_12_2.thresholds).toEqual({
       ...PINNED_2026_12_1,
-      // issue 13 item 5: the nut's own threads take the screw threads' factors (common practice, as strength above)
+      // engine 1.1: the nut's own threads take the screw threads' factors (common practice, as strength above)
       nutThreads: { minSafetyFactor: { lifting: 3.0, positioning: 2.0, clamping: 2.0 } },
-      // issue 13 item 12: on lifting duty a strength check that cannot be computed blocks (the safe side)
+      // engine 1.1: on lifting duty a strength check that cannot be computed blocks (the safe side)
       missingValues: { onLifting: 'blocking' },
-      // issue 13 item 10: brake rated torque at least 2 x F l / (2 pi) at its shaft (common practice)
+      // engine 1.1: brake rated torque at least 2 x F l / (2 pi) at its shaft (common practice)
       brake: { minHoldingFactor: 2 },
     });
   });

@@ -132,7 +132,7 @@ export const RULE_SET_2026_12_1: RuleSet = {
       minSafetyFactor: { lifting: 3.5, positioning: 2.5, clamping: 2.5 },
     },
     criticalSpeed: {
-      // Common practice: run at or below 80 % of the first critical speed (shared/reference/columns-and-speed.md 3.4);
+      // Common practice: run at or below 80 % of the first critical speed (from memory);
       // warn from 60 %, because end supports seldom fix the screw as fully as the theoretical factors assume.
       maxRatio: 0.8,
       warnRatio: 0.6,
@@ -169,7 +169,7 @@ export const RULE_SET_2026_12_1: RuleSet = {
 };
 
 /**
- * The rule set the service starts with (issue 13 corrections): every 2026.12-1 threshold unchanged, plus the
+ * The rule set the service starts with (corrections of rule set 2026.12-2): every 2026.12-1 threshold unchanged, plus the
  * thresholds of the checks added with it. Defaults sit on the safe side; each number names its basis.
  */
 export const RULE_SET_2026_12_2: RuleSet = {
@@ -181,17 +181,17 @@ export const RULE_SET_2026_12_2: RuleSet = {
   thresholds: {
     ...RULE_SET_2026_12_1.thresholds,
     nutThreads: {
-      // Issue 13 item 5: the nut's threads carry the same load as the screw's, so they take the same factors as the
+      // The nut's threads carry the same load as the screw's, so they take the same factors as the
       // screw threads (strength.minSafetyFactor above, common practice by analogy with ASME BTH-1, from memory).
       minSafetyFactor: { ...RULE_SET_2026_12_1.thresholds.strength.minSafetyFactor },
     },
     missingValues: {
-      // Issue 13 item 12, the safe side: on lifting duty a strength check that cannot be computed (e.g. no nut yield
+      // The safe side: on lifting duty a strength check that cannot be computed (e.g. no nut yield
       // strength) is never passed as "not applicable"; it blocks and names the value to give.
       onLifting: 'blocking',
     },
     brake: {
-      // Issue 13 item 10, common practice: the brake alone holds the load with thread friction lost (f -> 0), with a
+      // Common practice: the brake alone holds the load with thread friction lost (f -> 0), with a
       // factor of 2 for lining fade, wear and the dynamic torque of stopping a moving load. For comparison, hoist codes
       // ask holding brakes for at least 125 % of the hoisting torque at the brake (ASME B30.16, from memory), a torque
       // that includes friction; against the frictionless F l / (2 pi) the factor 2 is the stricter reading here.

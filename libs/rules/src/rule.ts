@@ -8,6 +8,7 @@
  */
 import type { Finding } from '@leadline/contracts';
 import type { Design, DutyKind, Evaluation } from '@leadline/mechanics';
+import type { CheckDeclaration } from './check';
 import type { Thresholds } from './rule-set';
 
 export interface RuleContext {
@@ -39,6 +40,14 @@ export interface Rule {
   /** What the rule checks and how it grades severity */
   readonly description: string;
   readonly check: RuleCheck;
+  /** The numeric checks the rule makes, declared once (check.ts); the rule decides with assessCheck on them */
+  readonly checks?: readonly CheckDeclaration[];
+  /**
+   * True when the rule's finding does not depend on the nut length (it reads only the thread, the load, the collar,
+   * the screw's material, length and ends, the duty and the drive). The screw search prunes a screw's other nut
+   * lengths when such a rule blocks it; a rule without the flag is treated as nut-dependent (never pruned on).
+   */
+  readonly nutIndependent?: boolean;
 }
 
 /** The listing the API shows for a rule. */

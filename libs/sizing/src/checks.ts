@@ -4,49 +4,13 @@
  */
 import type { Finding } from '@leadline/contracts';
 import type { Design, Evaluation } from '@leadline/mechanics';
-import {
-  BRAKE_HOLDING_TORQUE_ID,
-  brakeMinHoldingFactor,
-  COLUMN_BUCKLING_ID,
-  COLUMN_END_FIXITY_ID,
-  DRIVE_TORQUE_MARGIN_ID,
-  FRICTION_SOURCE_ASSUMED_ID,
-  LIFTING_SELF_LOCKING_ID,
-  NUT_BEARING_PRESSURE_ID,
-  NUT_PV_ID,
-  NUT_THREAD_ROOT_YIELD_ID,
-  NUT_THREAD_STRIPPING_ID,
-  nutThreadMinSafetyFactor,
-  SCREW_BODY_YIELD_ID,
-  SCREW_THREAD_STRIPPING_ID,
-  SHAFT_WHIRL_SPEED_ID,
-  THREAD_FRICTION_RANGE_ID,
-  THREAD_ROOT_YIELD_ID,
-  type Thresholds,
-} from '@leadline/rules';
-
-/**
- * Rules whose finding does not depend on the nut length: they read only the thread, the load, the collar, the
- * screw's material, length and ends, the duty and the drive. A candidate blocked by one of them is blocked at every
- * nut length, so the search judges the screw once and prunes its other nut lengths. A rule not named here
- * (including any rule added later) is treated as nut-dependent: never pruned on. sizing.spec.ts checks the claim
- * by evaluating every nut length of random screws.
- */
-export const NUT_INDEPENDENT_RULES: ReadonlySet<string> = new Set([
-  LIFTING_SELF_LOCKING_ID,
-  SCREW_BODY_YIELD_ID,
-  COLUMN_BUCKLING_ID,
-  COLUMN_END_FIXITY_ID,
-  SHAFT_WHIRL_SPEED_ID,
-  DRIVE_TORQUE_MARGIN_ID,
-  FRICTION_SOURCE_ASSUMED_ID,
-  THREAD_FRICTION_RANGE_ID,
-]);
+import { checksOf, lowestStrengthCheck, LOAD_INDEPENDENT_CHECKS, NUT_INDEPENDENT_RULES, type Check, type Thresholds } from '@leadline/rules';
 
 /**
  * The rule a blocked candidate is counted under: the first blocking finding, the screw's own (nut-independent)
  * rules before the nut's, each group in registry order. With this order a pruned candidate is counted under the
- * same rule it would have been had it been evaluated. Null when nothing blocks.
+ * same rule it would have been had it been evaluated. Null when nothing blocks. Which rules do not depend on the nut
+ * is declared by the rules themselves (Rule.nutIndependent); search.spec.ts checks the claim.
  */
 export function firstBlockingRule(findings: readonly Finding[]): string | null {
   let nutRule: string | null = null;
@@ -64,67 +28,22 @@ export function screwBlockingRule(findings: readonly Finding[]): string | null {
   return null;
 }
 
-/** Checks whose value does not change with the axial load (the self-locking margin and the whirl-speed ratio). */
-export const LOAD_INDEPENDENT_RULES: ReadonlySet<string> = new Set([LIFTING_SELF_LOCKING_ID, SHAFT_WHIRL_SPEED_ID]);
-
-export interface CheckMargin {
-  readonly check: string;
-  readonly ruleId: string;
-  readonly value: number;
-  /** The blocking limit of the rule set (not its warning level) */
-  readonly limit: number;
-  readonly limitKind: 'minimum' | 'maximum';
-  /** value / limit */
-  readonly ratio: number;
+/** The rules' declared checks of this design that have a value (the search ranks and bisects on numbers). */
+export function checkMargins(design: Design, e: Evaluation, t: Thresholds): Check[] {
+  return checksOf(design, e, t).filter((c) => c.value !== null);
 }
 
-/**
- * Every numeric check with a blocking limit that applies to this design, as value against limit. The limits are
- * the rule set's blocking thresholds, read the same way the rules read them (libs/rules/src/rules/*.rule.ts).
- */
-export function checkMargins(design: Design, e: Evaluation, t: Thresholds): CheckMargin[] {
-  const out: CheckMargin[] = [];
-  const add = (check: string, ruleId: string, value: number | null, limit: number, limitKind: 'minimum' | 'maximum') => {
-    if (value === null) return;
-    out.push({ check, ruleId, value, limit, limitKind, ratio: value / limit });
-  };
-  const strength = t.strength.minSafetyFactor[design.duty.kind];
-  const d = design.duty;
-  // Without a brake, a lifting screw that does not lock blocks (margin 1); with vibration it blocks whatever the margin.
-  if (d.kind === 'lifting' && !d.brake && !d.vibration) add('self-locking margin', LIFTING_SELF_LOCKING_ID, e.selfLocking.margin, 1, 'minimum');
-  add('screw body strength', SCREW_BODY_YIELD_ID, e.safetyFactors.bodyVonMises, strength, 'minimum');
-  add('first-thread root strength', THREAD_ROOT_YIELD_ID, e.safetyFactors.firstThreadRoot, strength, 'minimum');
-  add('screw thread stripping', SCREW_THREAD_STRIPPING_ID, e.safetyFactors.strippingScrew, strength, 'minimum');
-  add('nut thread stripping', NUT_THREAD_STRIPPING_ID, design.nut.yieldStrength === null ? null : e.safetyFactors.strippingNut, strength, 'minimum');
-  // The nut's own threads, where the rule set runs that rule (2026.12-2 on; nutThreads absent before)
-  if (t.nutThreads !== undefined && design.nut.yieldStrength !== null) {
-    add("nut's own thread root strength", NUT_THREAD_ROOT_YIELD_ID, e.safetyFactors.nutThreadRoot, nutThreadMinSafetyFactor(t)[d.kind], 'minimum');
-  }
-  if (e.buckling.applies) add('column buckling', COLUMN_BUCKLING_ID, e.buckling.safetyFactor ?? Number.NaN, t.buckling.minSafetyFactor[d.kind], 'minimum');
-  // As the whirl rule: the lower of the classical and the partly fixed critical speed governs
-  const pf = e.criticalSpeed.partlyFixed ?? null;
-  add('whirl speed', SHAFT_WHIRL_SPEED_ID, pf !== null && pf.rpm < e.criticalSpeed.rpm ? pf.ratio : e.criticalSpeed.ratio, t.criticalSpeed.maxRatio, 'maximum');
-  add('nut bearing pressure', NUT_BEARING_PRESSURE_ID, e.wear.pressureRatio, t.wear.maxPressureRatio, 'maximum');
-  add('nut pV', NUT_PV_ID, e.wear.pvRatio, t.wear.maxPvRatio, 'maximum');
-  add('drive torque margin', DRIVE_TORQUE_MARGIN_ID, e.drive?.margin ?? null, t.drive.minMargin, 'minimum');
-  // A stated brake torque blocks below its factor on lifting duty only (elsewhere the rule warns)
-  const brakeFactor = brakeMinHoldingFactor(t);
-  if (d.kind === 'lifting' && d.brake && brakeFactor !== null) add('brake holding torque', BRAKE_HOLDING_TORQUE_ID, e.brake.ratio, brakeFactor, 'minimum');
-  return out;
-}
+/** Whether a check's value changes with the axial load (declared by the check: self-locking and whirl do not). */
+export const loadDependent = (c: Check): boolean => !LOAD_INDEPENDENT_CHECKS.has(c.id);
 
 /** How far a check is from its limit as a factor: above 1 passes, below 1 fails; NaN counts as failed. */
-export function closeness(c: CheckMargin): number {
-  const x = c.limitKind === 'minimum' ? c.value / c.limit : c.limit / c.value;
-  return Number.isNaN(x) ? 0 : x;
+export function closeness(c: Check): number {
+  return c.margin === null || Number.isNaN(c.margin) ? 0 : c.margin;
 }
 
-/** The check closest to its blocking limit, or null when no numeric check applies. */
-export function governingCheck(design: Design, e: Evaluation, t: Thresholds): CheckMargin | null {
-  let best: CheckMargin | null = null;
-  for (const c of checkMargins(design, e, t)) if (best === null || closeness(c) < closeness(best)) best = c;
-  return best;
-}
+/** A candidate's governing check as the sizing answer shows it: the declared check, its label also as `check`. */
+export type SizingGoverning = Check & { readonly check: string };
+export const sizingGoverning = (c: Check | null): SizingGoverning | null => (c === null ? null : { ...c, check: c.label });
 
 export interface Figures {
   readonly raiseTorque: number;
@@ -148,24 +67,15 @@ export function massPerMetre(density: number, meanDiameter: number): number {
   return (density * Math.PI * meanDiameter * meanDiameter) / 4;
 }
 
-/** The figures a candidate is compared by, all read from its evaluation (SI units). */
-export function figuresOf(design: Design, e: Evaluation): Figures {
-  const sf = e.safetyFactors;
-  const strength: [string, number | null][] = [
-    ['screw body', sf.bodyVonMises],
-    ['first-thread root', sf.firstThreadRoot],
-    ['screw thread stripping', sf.strippingScrew],
-    ['nut thread stripping', sf.strippingNut],
-    ["nut's own thread root", sf.nutThreadRoot],
-  ];
-  let lowest = strength[0];
-  for (const s of strength) if (s[1] !== null && !(s[1] >= (lowest[1] as number))) lowest = s;
+/** The figures a candidate is compared by, all read from its evaluation and its declared checks (SI units). */
+export function figuresOf(design: Design, e: Evaluation, checks: readonly Check[]): Figures {
+  const lowest = lowestStrengthCheck(checks);
   return {
     raiseTorque: e.torque.raise.atMaxFriction,
     efficiency: e.efficiency.atMinFriction,
     selfLockingMargin: e.selfLocking.margin,
-    lowestStrengthSafetyFactor: lowest[1] as number,
-    lowestStrengthCheck: lowest[0],
+    lowestStrengthSafetyFactor: lowest?.value ?? Number.NaN,
+    lowestStrengthCheck: lowest?.label ?? 'none',
     bucklingFactor: e.buckling.applies ? e.buckling.safetyFactor : null,
     speedRatio: e.criticalSpeed.ratio,
     nutPressureRatio: e.wear.pressureRatio,

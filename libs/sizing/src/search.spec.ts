@@ -5,9 +5,9 @@
 import fc from 'fast-check';
 import { parseDesign } from '@leadline/contracts';
 import { evaluate, THREAD_SIZES } from '@leadline/mechanics';
-import { DEFAULT_RULE_SET, judge } from '@leadline/rules';
+import { DEFAULT_RULE_SET, judge, NUT_INDEPENDENT_RULES } from '@leadline/rules';
 import { IMPOSSIBLE, LEAD_SCREW, requirementsArbitrary, TEXTBOOK_JACK } from '../../../test/support/sizing';
-import { NUT_INDEPENDENT_RULES, firstBlockingRule } from './checks';
+import { firstBlockingRule } from './checks';
 import { candidateInput, parseSizingRequest, type SizingPlan } from './request';
 import { floorSignificant, searchScrews } from './search';
 import { checkProperty } from '../../../test/support/property';

@@ -9,9 +9,9 @@
  */
 import type { DesignInput, Finding, Verdict } from '@leadline/contracts';
 import { ENGINE_VERSION, evaluate, parseQuantity, QuantityError, type Design, type Evaluation, type ThreadSize } from '@leadline/mechanics';
-import { judge, verdictOf, type RuleSet } from '@leadline/rules';
+import { checksOf, governingCheck, judge, verdictOf, type Check, type RuleSet } from '@leadline/rules';
 import {
-  checkMargins, closeness, figuresOf, firstBlockingRule, governingCheck, LOAD_INDEPENDENT_RULES, screwBlockingRule, type CheckMargin, type Figures,
+  checkMargins, closeness, figuresOf, firstBlockingRule, loadDependent, massPerMetre, screwBlockingRule, sizingGoverning, type Figures, type SizingGoverning,
 } from './checks';
 import { candidateInput, lengthText, type SizingPlan } from './request';
 
@@ -23,7 +23,9 @@ export interface SizingCandidate {
   readonly nutLength: string;
   readonly nutLengthRatio: number;
   readonly verdict: Verdict;
-  readonly governing: Omit<CheckMargin, never> | null;
+  readonly governing: SizingGoverning | null;
+  /** Every check the rules apply to the candidate, as an evaluation answer carries them */
+  readonly checks: readonly Check[];
   readonly figures: Figures;
   readonly design: DesignInput;
 }
@@ -145,7 +147,7 @@ export function objectiveKey(objective: SizingPlan['objective'], design: Design,
     case 'highest-efficiency':
       return -e.efficiency.atMinFriction;
     case 'lightest':
-      return figuresOf(design, e).massPerMetre;
+      return massPerMetre(design.screw.density, e.geometry.meanDiameter);
   }
 }
 
@@ -221,7 +223,9 @@ export function* searchSteps(plan: SizingPlan, ruleSet: RuleSet): Generator<void
       a.p.starts - b.p.starts,
   );
 
-  const candidates: SizingCandidate[] = keyed.slice(0, plan.limit).map(({ p }, i) => ({
+  const candidates: SizingCandidate[] = keyed.slice(0, plan.limit).map(({ p }, i) => {
+    const checks = checksOf(p.design, p.evaluation, ruleSet.thresholds);
+    return {
     rank: i + 1,
     size: p.size.designation,
     form: p.size.form,
@@ -229,10 +233,12 @@ export function* searchSteps(plan: SizingPlan, ruleSet: RuleSet): Generator<void
     nutLength: lengthText(p.ratio * p.size.majorDiameter, p.size),
     nutLengthRatio: p.ratio,
     verdict: p.verdict,
-    governing: governingCheck(p.design, p.evaluation, ruleSet.thresholds),
-    figures: figuresOf(p.design, p.evaluation),
+    governing: sizingGoverning(governingCheck(checks)),
+    checks,
+    figures: figuresOf(p.design, p.evaluation, checks),
     design: candidateInput(plan, p.size, p.starts, p.ratio),
-  }));
+    };
+  });
   const best3 = keyed.slice(0, Math.min(3, candidates.length)).map(({ p }) => p);
 
   const headroom: SizingHeadroom[] = [];
@@ -277,7 +283,7 @@ const HEADROOM_DIGITS = 5;
 export function loadHeadroom(design: Design, ruleSet: RuleSet, evaluation: Evaluation = evaluate(design)): { axialLoad: string | null; factor: number | null; blockedBy: string | null } {
   const at = (F: number) => firstBlockingRule(judged({ ...design, load: { ...design.load, axial: F } }, ruleSet).findings);
   const F0 = design.load.axial;
-  const dependent = checkMargins(design, evaluation, ruleSet.thresholds).filter((c) => !LOAD_INDEPENDENT_RULES.has(c.ruleId));
+  const dependent = checkMargins(design, evaluation, ruleSet.thresholds).filter(loadDependent);
   const factors = dependent.map(closeness).filter((x) => x > 0 && Number.isFinite(x));
   const guess = F0 * (factors.length > 0 ? Math.max(1, Math.min(...factors)) : 2);
   let lo: number;

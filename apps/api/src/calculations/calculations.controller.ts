@@ -65,10 +65,15 @@ export class CalculationsController {
     const page = await this.calculations.revisionsPage(calculationId, query);
     if (page.items.length === 0) return page;
     const states = await this.reviews.statesOfCalculation(calculationId, { from: page.items[0].revision, to: page.items[page.items.length - 1].revision });
+    // A full revision carries its checks as GET /revisions/:id does (derived from the record under its rule set)
+    const checks = await Promise.all(page.items.map((r) => ('evaluation' in r ? this.calculations.checksOf(r) : null)));
     return {
-      items: page.items.map((r) => {
+      items: page.items.map((r, i) => {
         const s = states.get(r.id)!;
-        return { ...r, review: { state: s.state, decidedBy: s.decidedBy, decidedAt: s.decidedAt, signature: s.signature } };
+        const c = checks[i];
+        return c === null
+          ? { ...r, review: { state: s.state, decidedBy: s.decidedBy, decidedAt: s.decidedAt, signature: s.signature } }
+          : { ...r, checks: c.checks, governing: c.governing, review: { state: s.state, decidedBy: s.decidedBy, decidedAt: s.decidedAt, signature: s.signature } };
       }),
       nextCursor: page.nextCursor,
     };
@@ -78,6 +83,7 @@ export class CalculationsController {
   @Get('revisions/:id')
   async revision(@Param('id') id: string) {
     const [record, review] = await Promise.all([this.calculations.revision(id), this.reviews.state(id)]);
-    return { ...record, review: { state: review.state, decidedBy: review.decidedBy, decidedAt: review.decidedAt, signature: review.signature } };
+    const { checks, governing } = await this.calculations.checksOf(record);
+    return { ...record, checks, governing, review: { state: review.state, decidedBy: review.decidedBy, decidedAt: review.decidedAt, signature: review.signature } };
   }
 }

@@ -8,6 +8,7 @@ import { randomUUID } from 'node:crypto';
 import type { Actor, RevisionRecord } from '@leadline/contracts';
 import { displayableName } from '@leadline/contracts';
 import { z } from 'zod';
+import { checksOf, governingCheck, type Check } from '@leadline/rules';
 import { Assessment, AssessmentService } from '../evaluations/assessment.service';
 import { Database, type Queryer } from '../infra/database/database.service';
 import { notFound, ProblemError, validate, ValidationProblem } from '../infra/http/problem';
@@ -117,13 +118,10 @@ export class CalculationsService {
       const cursor = await this.records.lockHead(q, productId);
       if (!cursor) throw notFound(`product ${productId}`);
       const calculationId = randomUUID();
-      await q.query(`INSERT INTO calculations (id, product_id, title, created_by, created_at) VALUES ($1, $2, $3, $4, $5::timestamptz)`, [
-        calculationId, productId, input.title, actor?.id ?? null, cursor.now,
-      ]);
+      // the calculation-opened link writes the calculation row too (leadline_append_event)
       await this.records.appendEvent(q, cursor, {
         productId, type: 'calculation-opened', calculationId, revisionId: null, actor, data: { title: input.title },
       });
-      await this.records.saveHead(q, productId, cursor);
       const revision = await this.records.appendRevision(q, productId, calculationId, prepared, actor, cursor);
       return {
         status: 201,
@@ -139,13 +137,13 @@ export class CalculationsService {
     const assessment = this.assessor.assess(input.design, this.ruleSets.current(), 'design.');
     const prepared = prepareSubmission(submission(assessment, input.design, input.note ?? null));
     return this.idempotent(`revise:${calculationId}:${actor?.id ?? '-'}`, idempotencyKey, body, async (q) => {
-      // The append reads the calculation's product itself (one round trip; 404 when there is no such calculation)
+      // The append reads the calculation's product and locks its head (404 when there is no such calculation)
       const revision = await this.records.appendRevision(q, null, calculationId, prepared, actor);
       return {
         status: 201,
         body: { calculationId, revisionId: revision.id, revision: revision.revision, verdict: assessment.verdict, hash: revision.hash },
       };
-    }, true);
+    });
   }
 
   /**
@@ -167,7 +165,6 @@ export class CalculationsService {
         productId: calc.productId, type: 'calculation-reassigned', calculationId, revisionId: null, actor,
         data: { from, to, reason: input.reason ?? null },
       });
-      await this.records.saveHead(q, calc.productId, cursor);
       return { calculationId, owner: to, previousOwner: from, eventId: event.id, hash: event.hash, seq: event.seq, createdAt: event.createdAt };
     });
   }
@@ -247,6 +244,16 @@ export class CalculationsService {
     const page = rows.slice(0, q.limit);
     const items = page.map((r) => (q.view === 'summary' ? toRevisionSummary(r) : toRevisionRecord(r)));
     return { items, nextCursor: rows.length > q.limit ? items[items.length - 1].revision : null };
+  }
+
+  /**
+   * The declared checks of a stored revision and the governing one, under the rule set it was judged by: derived on
+   * reading from its stored design and evaluation (an earlier engine's missing figures read as not computed).
+   */
+  async checksOf(record: RevisionRecord): Promise<{ checks: Check[]; governing: Check | null }> {
+    const { thresholds } = (await this.ruleSets.get(record.ruleSetVersion)).definition;
+    const checks = checksOf(record.normalized, record.evaluation, thresholds);
+    return { checks, governing: governingCheck(checks) };
   }
 
   async revision(id: string): Promise<RevisionRecord> {

@@ -20,15 +20,16 @@ export class CheckpointsController {
     return this.checkpoints.verify(body);
   }
 
-  /** The public key that checks checkpoint signatures (SPKI PEM), for auditors who verify offline. */
+  /** The public key that checks checkpoint signatures (SPKI PEM), and every earlier one with its validity, for auditors who verify offline. */
   @Get('checkpoints/public-key')
   @Public()
-  publicKey() {
+  async publicKey() {
     const key = this.checkpoints.key;
     return {
       algorithm: CHECKPOINT_ALGORITHM,
       keyId: key.keyId,
       publicKey: key.publicKeyPem,
+      history: await this.checkpoints.history(),
       signedText: 'RFC 8785 canonical JSON of {"type":"leadline-checkpoint","productId","seq","headHash","time"}; the signature is base64',
     };
   }

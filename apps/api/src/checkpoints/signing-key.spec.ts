@@ -1,5 +1,5 @@
 import { createPublicKey, generateKeyPairSync, verify } from 'node:crypto';
-import { mkdtempSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { chmodSync, mkdtempSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { SigningKey } from './signing-key';
@@ -27,13 +27,16 @@ describe('checkpoint signing key', () => {
     expect(key.verify('some text', 'not base64 at all!')).toBe(false);
   });
 
-  it('uses a configured key file and refuses a missing one or a key of another kind', () => {
+  it('uses a configured key file and refuses a missing one, one that group or others can read, or a key of another kind', () => {
     const path = join(dir, 'given.pem');
-    writeFileSync(path, generateKeyPairSync('ed25519').privateKey.export({ type: 'pkcs8', format: 'pem' }));
+    writeFileSync(path, generateKeyPairSync('ed25519').privateKey.export({ type: 'pkcs8', format: 'pem' }), { mode: 0o600 });
     expect(SigningKey.load(path, 'memory://').source).toEqual({ origin: 'file', path });
+    chmodSync(path, 0o644);
+    expect(() => SigningKey.load(path, 'memory://')).toThrow(/mode 0644: group or others can reach it/);
+    chmodSync(path, 0o600);
     expect(() => SigningKey.load(join(dir, 'missing.pem'), dir)).toThrow(/does not exist/);
     const rsa = join(dir, 'rsa.pem');
-    writeFileSync(rsa, generateKeyPairSync('rsa', { modulusLength: 1024 }).privateKey.export({ type: 'pkcs8', format: 'pem' }));
+    writeFileSync(rsa, generateKeyPairSync('rsa', { modulusLength: 1024 }).privateKey.export({ type: 'pkcs8', format: 'pem' }), { mode: 0o600 });
     expect(() => SigningKey.load(rsa, dir)).toThrow(/not an Ed25519 key/);
     expect(readFileSync(path, 'utf8')).toMatch(/BEGIN PRIVATE KEY/);
   });

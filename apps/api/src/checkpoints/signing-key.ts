@@ -2,10 +2,12 @@
  * The Ed25519 key that signs checkpoints, kept outside the database: a PKCS#8 PEM file named by
  * LEADLINE_SIGNING_KEY_FILE, or <LEADLINE_DATA_DIR>/signing-key.pem, generated (mode 0600) when missing. With an
  * in-memory data folder (tests) the key lives only in memory. node:crypto only (RFC 8032 Ed25519: deterministic).
+ * A key file that group or others may read is refused.
  */
 import { createHash, createPrivateKey, createPublicKey, generateKeyPairSync, sign, verify, type KeyObject } from 'node:crypto';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
+import { checkPrivateFile } from '../records/record-key';
 
 export interface SigningKeySource {
   /** where the key came from, for the start-up log */
@@ -48,12 +50,16 @@ export class SigningKey {
   static load(keyFile: string | undefined, dataDir: string): SigningKey {
     if (keyFile) {
       const path = resolve(keyFile);
-      if (!existsSync(path)) throw new Error(`LEADLINE_SIGNING_KEY_FILE ${path} does not exist (create it with: openssl genpkey -algorithm ed25519 -out ${path})`);
+      if (!existsSync(path)) throw new Error(`LEADLINE_SIGNING_KEY_FILE ${path} does not exist (create it with: umask 077; openssl genpkey -algorithm ed25519 -out ${path})`);
+      checkPrivateFile(path, 'LEADLINE_SIGNING_KEY_FILE');
       return new SigningKey(createPrivateKey(readFileSync(path)), { origin: 'file', path });
     }
     if (dataDir.startsWith('memory://')) return new SigningKey(generateKeyPairSync('ed25519').privateKey, { origin: 'memory', path: null });
     const path = resolve(dataDir, 'signing-key.pem');
-    if (existsSync(path)) return new SigningKey(createPrivateKey(readFileSync(path)), { origin: 'file', path });
+    if (existsSync(path)) {
+      checkPrivateFile(path, 'the checkpoint signing key');
+      return new SigningKey(createPrivateKey(readFileSync(path)), { origin: 'file', path });
+    }
     mkdirSync(dirname(path), { recursive: true });
     const pem = generateKeyPairSync('ed25519').privateKey.export({ type: 'pkcs8', format: 'pem' }).toString();
     try {

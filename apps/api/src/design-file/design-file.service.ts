@@ -5,36 +5,20 @@
  * as a compact table, and the hash-chain verification with the head hash.
  */
 import { Injectable } from '@nestjs/common';
-import { readdirSync, readFileSync } from 'node:fs';
-import { basename, join } from 'node:path';
-import Handlebars from 'handlebars';
 import { CalculationsService } from '../calculations/calculations.service';
 import { Database } from '../infra/database/database.service';
 import { ProductsService } from '../products/products.service';
 import { TS_TEXT } from '../records/chain';
 import { RecordStore } from '../records/record-store';
-import { CAUTION_SHORT, CAUTION_TEXT, formatDate } from '../reports/report-model';
+import { formatDate, formatTime, STATES, VERDICTS, wordFor } from '@leadline/presentation';
+import { CAUTION_SHORT, CAUTION_TEXT } from '../reports/report-model';
 import { ReportInputService } from '../reports/report-input.service';
-import { findTemplatesDir, ReportRenderer } from '../reports/report-renderer';
+import { Templates, type Template } from '../infra/templates';
+import { ReportRenderer } from '../reports/report-renderer';
 import { AuditService } from '../reviews/audit.service';
 import { ReviewsService } from '../reviews/reviews.service';
 
-const STATE_WORDS: Record<string, string> = { submitted: 'awaiting review', approved: 'approved', rejected: 'rejected', withdrawn: 'withdrawn', superseded: 'superseded' };
-const VERDICT_WORDS: Record<string, string> = { clear: 'clear', 'needs-acknowledgement': 'needs acknowledgement', blocked: 'blocked' };
 
-/**
- * The <body> of a rendered report with every id (and each reference to one) prefixed, so that several reports
- * can share one document without their chart clip paths or section anchors colliding.
- */
-export function reportBody(html: string, prefix: string): string {
-  const start = html.search(/<body[^>]*>/i);
-  const end = html.search(/<\/body>/i);
-  const body = start >= 0 && end > start ? html.slice(html.indexOf('>', start) + 1, end) : html;
-  return body
-    .replace(/\sid="([^"]+)"/g, (_m, id: string) => ` id="${prefix}-${id}"`)
-    .replace(/url\(#([^)]+)\)/g, (_m, id: string) => `url(#${prefix}-${id})`)
-    .replace(/href="#([^"]+)"/g, (_m, id: string) => `href="#${prefix}-${id}"`);
-}
 
 export interface DesignFile {
   readonly html: string;
@@ -45,7 +29,7 @@ export interface DesignFile {
 
 @Injectable()
 export class DesignFileService {
-  private readonly template: Handlebars.TemplateDelegate;
+  private readonly template: Template<Record<string, unknown>>;
 
   constructor(
     private readonly db: Database,
@@ -57,12 +41,7 @@ export class DesignFileService {
     private readonly inputs: ReportInputService,
     private readonly renderer: ReportRenderer,
   ) {
-    const dir = findTemplatesDir();
-    const hbs = Handlebars.create();
-    for (const file of readdirSync(join(dir, 'partials'))) {
-      if (file.endsWith('.hbs')) hbs.registerPartial(basename(file, '.hbs'), readFileSync(join(dir, 'partials', file), 'utf8'));
-    }
-    this.template = hbs.compile(readFileSync(join(dir, 'reports', 'design-file.hbs'), 'utf8'), { strict: false });
+    this.template = Templates.of().template('reports/design-file');
   }
 
   async build(productId: string): Promise<DesignFile> {
@@ -81,12 +60,13 @@ export class DesignFileService {
       const approved = [...revisions].reverse().find((r) => states.get(r.id)?.state === 'approved') ?? null;
       calculations.push({
         title: calc.title,
-        latest: latest ? { revision: latest.revision, state: STATE_WORDS[states.get(latest.id)!.state], verdict: VERDICT_WORDS[latest.verdict] } : { revision: '—', state: '—', verdict: '—' },
+        latest: latest ? { revision: latest.revision, state: wordFor(STATES, states.get(latest.id)!.state), verdict: wordFor(VERDICTS, latest.verdict) } : { revision: '—', state: '—', verdict: '—' },
         approved: approved ? { revision: approved.revision, hash: approved.hash } : null,
       });
       if (approved) {
-        const { html } = await this.renderer.render(await this.inputs.forRevision(approved.id));
-        reports.push({ body: reportBody(html, `r${reports.length + 1}`) });
+        // The report's body alone, its ids prefixed so several reports share one document (chart clip paths, anchors)
+        const { html } = await this.renderer.render(await this.inputs.forRevision(approved.id), { idPrefix: `r${reports.length + 1}-`, bodyOnly: true });
+        reports.push({ body: html });
       }
     }
     const summary = chain.valid
@@ -98,7 +78,7 @@ export class DesignFileService {
       calculations,
       reports,
       caution: CAUTION_TEXT,
-      trail: trail.map((e) => ({ seq: e.seq, time: e.time.replace('T', ' ').replace(/(\.\d+)?Z$/, ''), type: e.type, actor: e.actor?.name ?? '—', revision: e.revision ?? '', summary: e.summary, hash: e.hash })),
+      trail: trail.map((e) => ({ seq: e.seq, time: formatTime(e.time), type: e.type, actor: e.actor?.name ?? '—', revision: e.revision ?? '', summary: e.summary, hash: e.hash })),
       chain: {
         result: chain.valid ? 'intact' : 'BROKEN',
         summary,

@@ -1,5 +1,5 @@
 /**
- * The assessment's second line of defence (issue 13 item 12): when the engine still produces a figure that is not
+ * The assessment's second line of defence: when the engine still produces a figure that is not
  * finite (the contract's plausible ranges should prevent it), the design is refused with 422 and never judged
  * "clear". A wiring test: the engine is replaced by one that returns a real evaluation with one figure overflowed.
  */

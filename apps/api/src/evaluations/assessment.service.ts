@@ -5,13 +5,16 @@
 import { Injectable } from '@nestjs/common';
 import { parseDesign, type Finding, type Verdict } from '@leadline/contracts';
 import { evaluate, ENGINE_VERSION, type Design, type Evaluation } from '@leadline/mechanics';
-import { judge, verdictOf, type RuleSet } from '@leadline/rules';
+import { judgeWithChecks, verdictOf, type Check, type RuleSet } from '@leadline/rules';
 import { ValidationProblem } from '../infra/http/problem';
 
 export interface Assessment {
   readonly design: Design;
   readonly evaluation: Evaluation;
   readonly findings: readonly Finding[];
+  /** Every declared check that applies, and the governing one (not part of the stored record: derived on reading) */
+  readonly checks: readonly Check[];
+  readonly governing: Check | null;
   readonly verdict: Verdict;
   readonly engineVersion: string;
   readonly ruleSetVersion: string;
@@ -35,11 +38,13 @@ export class AssessmentService {
         message: `the design cannot be computed: ${broken} is not a finite number (check the magnitudes of the input values)`,
       }]);
     }
-    const findings = judge(parsed.design, evaluation, ruleSet);
+    const { findings, checks, governing } = judgeWithChecks(parsed.design, evaluation, ruleSet);
     return {
       design: parsed.design,
       evaluation: { ...evaluation, findings },
       findings,
+      checks,
+      governing,
       verdict: verdictOf(findings),
       engineVersion: ENGINE_VERSION,
       ruleSetVersion: ruleSet.version,

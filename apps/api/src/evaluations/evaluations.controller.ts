@@ -24,6 +24,8 @@ export class EvaluationsController {
     const evaluation = a.evaluation as unknown as Record<string, unknown>;
     for (const key in evaluation) if (key !== 'trace') answer[key] = evaluation[key];
     if (trace === 'true') answer.trace = evaluation.trace;
+    answer.checks = a.checks;
+    answer.governing = a.governing;
     answer.verdict = a.verdict;
     answer.ruleSetVersion = a.ruleSetVersion;
     return answer;

@@ -37,7 +37,7 @@ export class AccountsController {
   async signOut(@Req() req: Req, @Res({ passthrough: true }) reply: FastifyReply) {
     const sessionId = req.principal?.sessionId;
     if (!sessionId) throw new ProblemError(409, 'Not a page session', 'a bearer token is revoked by an admin, not signed out');
-    await this.accounts.signOut(sessionId);
+    await this.accounts.signOut(req.principal!.credential);
     reply.removeHeader('set-cookie'); // the guard's renewed cookie
     reply.header('set-cookie', setCookieHeader(SESSION_COOKIE, '', req.protocol === 'https', 'Strict', 0));
   }

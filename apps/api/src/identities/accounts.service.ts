@@ -12,7 +12,9 @@ import { CLOCK, type Clock } from '../infra/clock';
 import { Database, PG_UNIQUE_VIOLATION, pgErrorCode } from '../infra/database/database.service';
 import { ProblemError, validate } from '../infra/http/problem';
 import { FailureLimiter } from './failure-limiter';
-import { CURRENT_ROLES, emailSchema, hashToken, IdentitiesService, USER_ACTIVE, type Principal, type Role } from './identities.service';
+import { codeHash, CURRENT_ROLES, emailSchema, IdentitiesService, USER_ACTIVE, type Principal, type Role } from './identities.service';
+import { functionRefusal } from '../records/record-store';
+import { ServiceKeys } from '../records/service-keys';
 import { hashPassword, PASSWORD_MAX, PASSWORD_MIN, verifyPassword } from './passwords';
 import { cookieSealedBy, csrfToken, hashSecret, newSealKey, newSessionSecret, readCookie, sealCookie } from './session-cookie';
 
@@ -53,6 +55,7 @@ export class AccountsService {
   constructor(
     private readonly db: Database,
     private readonly identities: IdentitiesService,
+    private readonly keys: ServiceKeys,
     @Inject(APP_CONFIG) config: AppConfig,
     @Inject(CLOCK) private readonly clock: Clock,
   ) {
@@ -79,7 +82,7 @@ export class AccountsService {
         WHERE c.code_hash = $1 AND c.expires_at > $2::timestamptz AND ${USER_ACTIVE('u')}
           AND NOT EXISTS (SELECT 1 FROM password_credentials p WHERE p.activation_id = c.id)
           AND NOT EXISTS (SELECT 1 FROM activation_codes n WHERE n.user_id = c.user_id AND n.created_at > c.created_at)`,
-      [hashToken(input.activationCode), this.nowIso()],
+      [codeHash(input.activationCode), this.nowIso()],
     );
     if (!code) {
       this.limiter.fail(client, this.clock.now());
@@ -88,15 +91,15 @@ export class AccountsService {
       });
     }
     const hash = await hashPassword(input.password);
-    await this.db.transaction(async (q) => {
-      try {
-        await q.query(`INSERT INTO password_credentials (id, user_id, hash, activation_id) VALUES ($1, $2, $3, $4)`, [randomUUID(), code.user_id, hash, code.id]);
-      } catch (err) {
-        if (pgErrorCode(err) === PG_UNIQUE_VIOLATION) throw new ProblemError(403, 'Code not accepted', 'the activation code was used a moment ago', { errors: [{ path: 'activationCode', message: 'used' }] });
-        throw err;
+    try {
+      await this.identities.setPassword(input.activationCode, code, hash);
+    } catch (err) {
+      // used a moment ago (unique activation_id), or refused by leadline_set_password (used, replaced or expired by the database clock)
+      if (pgErrorCode(err) === PG_UNIQUE_VIOLATION || (err instanceof ProblemError && err.status === 403)) {
+        throw new ProblemError(403, 'Code not accepted', 'the activation code was used a moment ago, or has expired', { errors: [{ path: 'activationCode', message: 'used or expired' }] });
       }
-      await this.identities.auditPasswordSet(q, code.user_id, { codeId: code.id, purpose: code.purpose });
-    });
+      throw err;
+    }
     const user = await this.identities.getUser(code.user_id);
     return { userId: user.id, email: user.email, passwordSet: true };
   }
@@ -135,9 +138,12 @@ export class AccountsService {
     const key = newSealKey();
     const now = this.clock.now();
     const expiresAt = new Date(now + this.absoluteMs).toISOString();
-    await this.db.query(`INSERT INTO sessions (id, user_id, secret_hash, seal_key, method, auth_time, expires_at) VALUES ($1, $2, $3, $4, $5, $6, $7)`, [
-      randomUUID(), user.id, hashSecret(secret), key, method, new Date(authTime).toISOString(), expiresAt,
-    ]);
+    // the service credential: only the service, which checked the password or the provider's answer, starts a session
+    await this.db.query(`SELECT leadline_start_session($1, $2, $3, $4, $5, $6, $7, $8)`, [
+      await this.keys.serviceCredential(), randomUUID(), user.id, hashSecret(secret), key, method, new Date(authTime).toISOString(), expiresAt,
+    ]).catch((err) => {
+      throw functionRefusal(err) ?? err;
+    });
     return { cookie: sealCookie(secret, now, key), user: { id: user.id, name: user.name, email: user.email, roles: user.roles }, expiresAt };
   }
 
@@ -149,11 +155,11 @@ export class AccountsService {
   async resolveSession(value: string): Promise<{ principal: Principal; cookie: string; authTime: number }> {
     const cookie = readCookie(value);
     if (!cookie) throw new SessionRefused('the session cookie is not one this service set');
+    const secretHash = hashSecret(cookie.secret);
     const [row] = await this.db.query<{ id: string; user_id: string; name: string; roles: Role[]; seal_key: string; method: SessionMethod; auth_time: Date; expires_at: Date; ended: boolean; active: boolean }>(
-      `SELECT s.id, s.user_id, u.name, ${CURRENT_ROLES('u')} AS roles, s.seal_key, s.method, s.auth_time, s.expires_at,
-              EXISTS (SELECT 1 FROM session_ends x WHERE x.session_id = s.id) AS ended, ${USER_ACTIVE('u')} AS active
-         FROM sessions s JOIN users u ON u.id = s.user_id WHERE s.secret_hash = $1`,
-      [hashSecret(cookie.secret)],
+      `SELECT s.id, s.user_id, u.name, ${CURRENT_ROLES('u')} AS roles, s.seal_key, s.method, s.auth_time, s.expires_at, s.ended, ${USER_ACTIVE('u')} AS active
+         FROM leadline_find_session($1) s JOIN users u ON u.id = s.user_id`,
+      [secretHash],
     );
     if (!row || !cookieSealedBy(cookie, row.seal_key)) throw new SessionRefused('the session is unknown');
     const now = this.clock.now();
@@ -162,15 +168,15 @@ export class AccountsService {
     if (now >= new Date(row.expires_at).getTime()) throw new SessionRefused('the session reached its time limit; sign in again');
     if (now - cookie.seen > this.idleMs) throw new SessionRefused('the session timed out after a period without activity; sign in again');
     return {
-      principal: { id: row.user_id, name: row.name, roles: row.roles, tokenId: null, sessionId: row.id, authMethod: row.method, csrfToken: csrfToken(row.seal_key) },
+      principal: { id: row.user_id, name: row.name, roles: row.roles, tokenId: null, sessionId: row.id, authMethod: row.method, csrfToken: csrfToken(row.seal_key), credential: secretHash },
       cookie: sealCookie(cookie.secret, Math.max(now, cookie.seen), row.seal_key),
       authTime: new Date(row.auth_time).getTime(),
     };
   }
 
-  /** Ends a session (idempotent). */
-  async signOut(sessionId: string): Promise<void> {
-    await this.db.query(`INSERT INTO session_ends (session_id, reason) VALUES ($1, 'signed-out') ON CONFLICT (session_id) DO NOTHING`, [sessionId]);
+  /** Ends the session whose credential (secret hash) is given (idempotent). */
+  async signOut(credential: string): Promise<void> {
+    await this.db.query(`SELECT leadline_end_session($1)`, [credential]);
   }
 
   /**

@@ -77,4 +77,10 @@ export class IdentityEventsController {
   async list(@Query() query: unknown) {
     return { items: await this.identities.events(query) };
   }
+
+  /** Recomputes the identity chain (hashes, MACs, head) and the user, token and revocation rows it accounts for. */
+  @Get('verify')
+  verify() {
+    return this.identities.verifyIdentities();
+  }
 }

@@ -1,5 +1,9 @@
 /**
- * Users, roles and bearer tokens. A token is 32 random bytes shown once; only its SHA-256 is stored.
+ * Users, roles and bearer tokens. A token is 32 random bytes shown once; only its keyed hash is stored
+ * (HMAC-SHA256 with the record key's token key, records/record-key.ts), so a token row cannot be made from the
+ * database; tokens stored before keyed hashing (plain SHA-256) are accepted until they expire, unless
+ * LEADLINE_LEGACY_TOKENS=refuse. Every write goes through a record function (migrations/20261204230000) that
+ * checks the acting admin's own live token.
  * Every token expires (LEADLINE_TOKEN_TTL_DAYS unless the issuer asks for less). Revocation appends a row and
  * clears this process's cache, so it takes effect at once here (other instances of a multi-instance deployment
  * stop accepting it within TOKEN_CACHE_MS). Creating a user (granting its roles), issuing and revoking a token
@@ -12,9 +16,12 @@ import { displayableName } from '@leadline/contracts';
 import { APP_CONFIG, type AppConfig } from '../infra/config';
 import { CLOCK, type Clock } from '../infra/clock';
 import { Database, PG_UNIQUE_VIOLATION, pgErrorCode, type Queryer } from '../infra/database/database.service';
+import { lockLedger, nextLink, type LedgerCursor } from '../records/ledger';
 import { notFound, ProblemError, validate, ValidationProblem } from '../infra/http/problem';
+import { functionRefusal } from '../records/record-store';
+import { ServiceKeys } from '../records/service-keys';
 import { checkUuid } from '../products/products.service';
-import { TS_TEXT } from '../records/chain';
+import { LINK_VERSION, linkHash, TS_TEXT } from '../records/chain';
 
 export const ROLES = ['author', 'reviewer', 'admin'] as const;
 export type Role = (typeof ROLES)[number];
@@ -35,6 +42,11 @@ export interface Principal {
   authMethod: AuthMethod;
   /** The page session's CSRF token (sessions only) */
   csrfToken?: string | null;
+  /**
+   * What the record functions accept for this user's acts: the stored keyed hash of the presented token, or the
+   * page session's secret hash (neither readable by the runtime role)
+   */
+  credential: string;
 }
 
 /** An email address as a sign-in name: one @, something either side, no spaces (RFC 5321 §4.5.3.1.3 limits length to 254). */
@@ -57,14 +69,10 @@ export const setRolesSchema = z.strictObject({ roles: z.array(z.enum(ROLES)).max
  * SQL: the roles user `u` holds now: per role, the newest role-granted/role-revoked event decides; a role without
  * any event counts as granted when the user row was created with it (users created before role events existed).
  */
-export const CURRENT_ROLES = (u: string) => `ARRAY(SELECT r FROM unnest(ARRAY['author', 'reviewer', 'admin']) AS r WHERE COALESCE(
-    (SELECT ce.type = 'role-granted' FROM identity_events ce WHERE ce.subject_user_id = ${u}.id AND ce.type IN ('role-granted', 'role-revoked')
-        AND ce.data->>'role' = r ORDER BY ce.created_at DESC, ce.id DESC LIMIT 1),
-    r = ANY (${u}.roles)))`;
+export const CURRENT_ROLES = (u: string) => `leadline_user_roles(${u}.id)`;
 
-/** SQL: user `u` is active (not deactivated by its newest deactivation/reactivation event). */
-export const USER_ACTIVE = (u: string) => `NOT COALESCE((SELECT ae.type = 'user-deactivated' FROM identity_events ae
-    WHERE ae.subject_user_id = ${u}.id AND ae.type IN ('user-deactivated', 'user-reactivated') ORDER BY ae.created_at DESC, ae.id DESC LIMIT 1), false)`;
+/** SQL: user `u` is active (not deactivated by its newest deactivation/reactivation event; migrations/20261205000100). */
+export const USER_ACTIVE = (u: string) => `leadline_user_active(${u}.id)`;
 
 export const MAX_TOKEN_DAYS = 3650;
 
@@ -83,14 +91,21 @@ export const identityEventsQuerySchema = z.object({
 });
 
 /** Who acts on identities: a user, with the id of the token they presented (null for the service itself). */
-export type IdentityActor = { id: string; tokenId?: string | null } | null;
-
-const actorTokenId = (actor: IdentityActor): string | null => (actor as { tokenId?: string | null } | null)?.tokenId ?? null;
+export type IdentityActor = { id: string; tokenId?: string | null; credential?: string | null } | null;
 
 export const TOKEN_CACHE_MS = 2000;
 const DAY_MS = 86_400_000;
 
-export function hashToken(token: string): string {
+/** A one-time activation or reset code as stored: SHA-256 (leadline_set_password hashes the code it is given the same way). */
+export function codeHash(code: string): string {
+  return createHash('sha256').update(code, 'utf8').digest('hex');
+}
+
+const emailInUse = (email: string | null) =>
+  new ProblemError(409, 'Email in use', `${email} belongs to another user`, { errors: [{ path: 'email', message: 'already belongs to another user' }] });
+
+/** A token as stored before keyed hashing (legacy rows, hash_kind 'sha256'). */
+export function legacyTokenHash(token: string): string {
   return createHash('sha256').update(token, 'utf8').digest('hex');
 }
 
@@ -104,6 +119,7 @@ export class IdentitiesService implements OnModuleInit {
     private readonly db: Database,
     @Inject(APP_CONFIG) private readonly config: AppConfig,
     @Inject(CLOCK) private readonly clock: Clock,
+    private readonly keys: ServiceKeys,
   ) {
     this.ttlDays = config.LEADLINE_TOKEN_TTL_DAYS;
   }
@@ -129,7 +145,7 @@ export class IdentitiesService implements OnModuleInit {
       [this.ttlDays, this.nowIso()],
     );
     if (live.length > 0) return;
-    const known = await this.db.query(`SELECT 1 FROM tokens WHERE token_hash = $1`, [hashToken(token)]);
+    const known = await this.db.query(`SELECT 1 FROM leadline_find_token($1, $2)`, [this.keys.key.tokenHash(token), legacyTokenHash(token)]);
     if (known.length > 0) {
       this.logger.warn('no admin holds a live token and LEADLINE_ADMIN_TOKEN has expired or was revoked: set a new value to restore admin access');
       return;
@@ -179,21 +195,25 @@ export class IdentitiesService implements OnModuleInit {
   private async insertUser(input: { name: string; email: string | null; roles: Role[]; activation?: boolean }, actor: IdentityActor) {
     const id = randomUUID();
     const roles = [...new Set(input.roles)];
+    const credential = await this.credentialOf(actor);
     let activation: { activationCode: string; activationExpiresAt: string } | null = null;
     await this.db.transaction(async (q) => {
       if (input.email !== null) {
         const taken = await q.query(`SELECT 1 FROM users WHERE lower(email) = lower($1)`, [input.email]);
-        if (taken.length > 0) throw new ProblemError(409, 'Email in use', `${input.email} belongs to another user`, { errors: [{ path: 'email', message: 'already belongs to another user' }] });
+        if (taken.length > 0) throw emailInUse(input.email);
       }
+      const cursor = await lockLedger(q, 'identity');
+      const events = [
+        this.identityLink(cursor, 'user-created', actor, id, null, { name: input.name, email: input.email, roles }),
+        ...roles.map((role) => this.identityLink(cursor, 'role-granted', actor, id, null, { role })),
+      ];
       try {
-        await q.query(`INSERT INTO users (id, name, email, roles, created_by) VALUES ($1, $2, $3, $4, $5)`, [id, input.name, input.email, roles, actor?.id ?? null]);
+        await this.write(`SELECT leadline_create_account($1, $2, $3, $4, $5, $6)`, [credential, id, input.name, input.email, roles, JSON.stringify(events)], q);
       } catch (err) {
-        if (pgErrorCode(err) === PG_UNIQUE_VIOLATION) throw new ProblemError(409, 'Email in use', `${input.email} belongs to another user`, { errors: [{ path: 'email', message: 'already belongs to another user' }] });
+        if (pgErrorCode(err) === PG_UNIQUE_VIOLATION) throw emailInUse(input.email);
         throw err;
       }
-      await this.audit(q, 'user-created', actor, id, null, { name: input.name, email: input.email, roles });
-      for (const role of roles) await this.audit(q, 'role-granted', actor, id, null, { role });
-      if (input.email !== null && input.activation !== false) activation = await this.issueCode(q, id, 'activation', actor);
+      if (input.email !== null && input.activation !== false) activation = await this.issueCode(q, cursor, credential, id, 'activation', actor);
     });
     const user = await this.getUser(id);
     const code = activation as { activationCode: string; activationExpiresAt: string } | null;
@@ -201,14 +221,14 @@ export class IdentitiesService implements OnModuleInit {
   }
 
   /** A one-time code for the user to set their password (activation or reset); only its SHA-256 is stored. */
-  private async issueCode(q: Queryer, userId: string, purpose: 'activation' | 'reset', actor: IdentityActor) {
+  private async issueCode(q: Queryer, cursor: LedgerCursor, credential: string, userId: string, purpose: 'activation' | 'reset', actor: IdentityActor) {
     const code = `act_${randomBytes(24).toString('base64url')}`;
     const id = randomUUID();
-    const expiresAt = new Date(this.clock.now() + this.config.LEADLINE_ACTIVATION_HOURS * 3_600_000).toISOString();
-    await q.query(`INSERT INTO activation_codes (id, user_id, code_hash, purpose, expires_at, created_by) VALUES ($1, $2, $3, $4, $5, $6)`, [
-      id, userId, hashToken(code), purpose, expiresAt, actor?.id ?? null,
-    ]);
-    await this.audit(q, purpose === 'activation' ? 'activation-issued' : 'password-reset-issued', actor, userId, null, { codeId: id, expiresAt });
+    // stored to the millisecond, printed to the microsecond (as the database prints it)
+    const expires = new Date(this.clock.now() + this.config.LEADLINE_ACTIVATION_HOURS * 3_600_000);
+    const expiresAt = expires.toISOString();
+    const event = this.identityLink(cursor, purpose === 'activation' ? 'activation-issued' : 'password-reset-issued', actor, userId, null, { codeId: id, expiresAt });
+    await this.write(`SELECT leadline_issue_code($1, $2, $3, $4, $5, $6, $7)`, [credential, id, userId, codeHash(code), purpose, expiresAt, JSON.stringify([event])], q);
     return { activationCode: code, activationExpiresAt: expiresAt };
   }
 
@@ -220,7 +240,8 @@ export class IdentitiesService implements OnModuleInit {
     const user = await this.getUser(userId);
     if (!user.email) throw new ProblemError(409, 'No account', 'this user has no email and so no password; create an account with an email');
     if (!user.active) throw new ProblemError(409, 'User deactivated', 'reactivate the user first');
-    return this.db.transaction((q) => this.issueCode(q, user.id, 'reset', actor));
+    const credential = await this.credentialOf(actor);
+    return this.db.transaction(async (q) => this.issueCode(q, await lockLedger(q, 'identity'), credential, user.id, 'reset', actor));
   }
 
   /** Sets the roles a user holds: each role added is granted, each removed revoked (audited, in one transaction). */
@@ -231,11 +252,15 @@ export class IdentitiesService implements OnModuleInit {
     if (actor && actor.id === user.id && user.roles.includes('admin') && !wanted.has('admin')) {
       throw new ProblemError(409, 'Own admin role', 'an admin cannot revoke their own admin role; ask another admin', { errors: [{ path: 'roles', message: 'must keep admin for yourself' }] });
     }
+    const credential = await this.credentialOf(actor);
     await this.db.transaction(async (q) => {
+      const cursor = await lockLedger(q, 'identity');
+      const events = [];
       for (const role of ROLES) {
-        if (wanted.has(role) && !user.roles.includes(role)) await this.audit(q, 'role-granted', actor, user.id, null, { role });
-        if (!wanted.has(role) && user.roles.includes(role)) await this.audit(q, 'role-revoked', actor, user.id, null, { role });
+        if (wanted.has(role) && !user.roles.includes(role)) events.push(this.identityLink(cursor, 'role-granted', actor, user.id, null, { role }));
+        if (!wanted.has(role) && user.roles.includes(role)) events.push(this.identityLink(cursor, 'role-revoked', actor, user.id, null, { role }));
       }
+      if (events.length) await this.write(`SELECT leadline_change_identity($1, $2, $3)`, [credential, user.id, JSON.stringify(events)], q);
     });
     this.cache.clear();
     return this.getUser(user.id);
@@ -245,21 +270,52 @@ export class IdentitiesService implements OnModuleInit {
   async setActive(userId: string, active: boolean, actor: IdentityActor) {
     const user = await this.getUser(userId);
     if (!active && actor && actor.id === user.id) throw new ProblemError(409, 'Own account', 'an admin cannot deactivate themselves; ask another admin');
-    if (user.active !== active) await this.db.transaction((q) => this.audit(q, active ? 'user-reactivated' : 'user-deactivated', actor, user.id, null, {}));
+    if (user.active !== active) {
+      const credential = await this.credentialOf(actor);
+      await this.db.transaction(async (q) => {
+        const event = this.identityLink(await lockLedger(q, 'identity'), active ? 'user-reactivated' : 'user-deactivated', actor, user.id, null, {});
+        await this.write(`SELECT leadline_change_identity($1, $2, $3)`, [credential, user.id, JSON.stringify([event])], q);
+      });
+    }
     this.cache.clear();
     return this.getUser(user.id);
   }
 
-  /** The user's own record of a password set with a code (the acting user is the user themselves). */
-  async auditPasswordSet(q: Queryer, userId: string, data: Record<string, unknown>): Promise<void> {
-    await this.audit(q, 'password-set', { id: userId, tokenId: null }, userId, null, data);
+  /**
+   * Sets a password with a one-time code (leadline_set_password checks the code; the Argon2id hash is computed here,
+   * the database cannot). The password-set event names the user as its actor. Returns the user's id.
+   */
+  async setPassword(code: string, codeRow: { id: string; user_id: string; purpose: string }, hash: string): Promise<string> {
+    return this.db.transaction(async (q) => {
+      const event = this.identityLink(await lockLedger(q, 'identity'), 'password-set', { id: codeRow.user_id, tokenId: null }, codeRow.user_id, null, { codeId: codeRow.id, purpose: codeRow.purpose });
+      const [row] = await this.write<{ user_id: string }>(`SELECT leadline_set_password($1, $2, $3, $4) AS user_id`, [code, randomUUID(), hash, JSON.stringify([event])], q);
+      return row.user_id;
+    });
   }
 
-  private async audit(q: Queryer, type: string, actor: IdentityActor, subjectUserId: string, tokenId: string | null, data: Record<string, unknown>): Promise<void> {
-    await q.query(
-      `INSERT INTO identity_events (id, type, actor_id, actor_token_id, subject_user_id, token_id, data) VALUES ($1, $2, $3, $4, $5, $6, $7)`,
-      [randomUUID(), type, actor?.id ?? null, actorTokenId(actor), subjectUserId, tokenId, JSON.stringify(data)],
-    );
+  /** The next link of the identity chain (records/ledger.ts): one user, role or token change, hashed and sealed. */
+  private identityLink(cursor: LedgerCursor, type: string, actor: IdentityActor, subjectUserId: string, tokenId: string | null, data: Record<string, unknown>) {
+    return nextLink(this.keys.key, cursor, {
+      kind: 'identity-event', id: randomUUID(), type, actorId: actor?.id ?? null, actorTokenId: actor?.tokenId ?? null, subjectUserId, tokenId, data,
+    });
+  }
+
+  /**
+   * The credential an identity change is made with: the acting admin's stored token hash, or the service's own for
+   * the service's acts (bootstrap, demo seed). The record function checks it and audits the change.
+   */
+  private async credentialOf(actor: IdentityActor): Promise<string> {
+    if (actor === null) return this.keys.serviceCredential();
+    if (!actor.credential) throw new ProblemError(401, 'Authentication required', 'this change needs the acting user\'s own token or session');
+    return actor.credential;
+  }
+
+  private async write<T = Record<string, unknown>>(sql: string, params: unknown[], q: Queryer = this.db): Promise<T[]> {
+    try {
+      return await q.query<T>(sql, params);
+    } catch (err) {
+      throw functionRefusal(err) ?? err;
+    }
   }
 
   /** The user-level audit, newest first. */
@@ -317,15 +373,16 @@ export class IdentitiesService implements OnModuleInit {
 
   private async storeToken(userId: string, token: string, label: string | null, actor: IdentityActor, expiresAt: Date | null): Promise<string> {
     const id = randomUUID();
+    const credential = await this.credentialOf(actor);
     await this.db.transaction(async (q) => {
-      await q.query(`INSERT INTO tokens (id, user_id, token_hash, label, created_by, expires_at) VALUES ($1, $2, $3, $4, $5, $6)`, [
-        id, userId, hashToken(token), label, actor?.id ?? null, expiresAt ? expiresAt.toISOString() : null,
-      ]);
-      const [row] = await q.query<{ expires_at: string }>(
-        `SELECT ${TS_TEXT('COALESCE(expires_at, created_at + make_interval(days => $2::int))')} AS expires_at FROM tokens WHERE id = $1`,
-        [id, this.ttlDays],
-      );
-      await this.audit(q, 'token-issued', actor, userId, id, { label, expiresAt: row.expires_at, forAnotherUser: actor !== null && actor.id !== userId });
+      const cursor = await lockLedger(q, 'identity');
+      // no expiry asked for (the bootstrap token): the default lifetime from now; stored to the millisecond, printed to the microsecond
+      const expires = expiresAt ?? new Date(Date.parse(cursor.now) + this.ttlDays * DAY_MS);
+      const expiresText = expires.toISOString().replace(/Z$/, '000Z');
+      const event = this.identityLink(cursor, 'token-issued', actor, userId, id, { label, expiresAt: expiresText, forAnotherUser: actor !== null && actor.id !== userId });
+      await this.write(`SELECT leadline_issue_token($1, $2, $3, $4, $5, $6, $7)`, [
+        credential, id, userId, this.keys.key.tokenHash(token), label, expires.toISOString(), JSON.stringify([event]),
+      ], q);
     });
     return id;
   }
@@ -344,34 +401,93 @@ export class IdentitiesService implements OnModuleInit {
   async revokeToken(userId: string, tokenId: string, actor: IdentityActor): Promise<{ id: string; revoked: true }> {
     const rows = await this.db.query(`SELECT id FROM tokens WHERE id = $1 AND user_id = $2`, [checkUuid(tokenId, 'token'), checkUuid(userId, 'user')]);
     if (rows.length === 0) throw notFound(`token ${tokenId} of user ${userId}`);
+    const credential = await this.credentialOf(actor);
     await this.db.transaction(async (q) => {
-      const added = await q.query(`INSERT INTO token_revocations (token_id, revoked_by) VALUES ($1, $2) ON CONFLICT (token_id) DO NOTHING RETURNING token_id`, [tokenId, actor?.id ?? null]);
-      if (added.length > 0) await this.audit(q, 'token-revoked', actor, userId, tokenId, {});
+      const cursor = await lockLedger(q, 'identity');
+      const event = this.identityLink(cursor, 'token-revoked', actor, userId, tokenId, {});
+      await this.write(`SELECT leadline_revoke_token($1, $2, $3, $4)`, [credential, userId, tokenId, JSON.stringify([event])], q);
     });
     this.cache.clear();
     return { id: tokenId, revoked: true };
   }
 
-  /** Resolves a presented bearer token to its user, or null when unknown, revoked or expired. */
+  /**
+   * Checks the identity chain like a product chain: every link's hash, previous hash and MAC in order, the head, and
+   * the rows it accounts for since it began (each user with its user-created event and roles, each keyed token with
+   * its token-issued event, each revocation with its token-revoked event). Names the first mismatch.
+   */
+  async verifyIdentities(): Promise<{ valid: boolean; links: number; headHash: string | null; firstBrokenLink: { seq: number; kind: string; id: string; reason: string } | null }> {
+    const [head] = await this.db.query<{ seq: string; hash: string; started_at: string }>(`SELECT seq, hash, started_at FROM ledger_heads WHERE ledger = 'identity'`);
+    const rows = await this.db.query<{ id: string; type: string; actor_id: string | null; actor_token_id: string | null; subject_user_id: string; token_id: string | null;
+      data: unknown; created_at: string; seq: string; hash: string; previous_hash: string | null; mac: string | null }>(
+      `SELECT id, type, actor_id, actor_token_id, subject_user_id, token_id, data, ${TS_TEXT('created_at')} AS created_at, seq, hash, previous_hash, mac
+         FROM identity_events WHERE seq IS NOT NULL AND seq <= $1 ORDER BY seq`,
+      [head.seq],
+    );
+    const broken = (seq: number, kind: string, id: string, reason: string) => ({ valid: false, links: seq - 1, headHash: null, firstBrokenLink: { seq, kind, id, reason } });
+    let previous: string | null = null;
+    let expected = 1;
+    for (const r of rows) {
+      const seq = Number(r.seq);
+      if (seq !== expected) return broken(expected, 'identity-event', r.id, `sequence gap: expected link ${expected}, found ${seq}`);
+      if (r.previous_hash !== previous) return broken(seq, 'identity-event', r.id, 'previous hash does not match the prior link');
+      const record = { kind: 'identity-event', id: r.id, type: r.type, actorId: r.actor_id, actorTokenId: r.actor_token_id, subjectUserId: r.subject_user_id,
+        tokenId: r.token_id, data: r.data, seq, createdAt: r.created_at, linkVersion: LINK_VERSION };
+      if (linkHash(record, previous) !== r.hash) return broken(seq, 'identity-event', r.id, 'content does not match its hash');
+      if (!this.keys.key.verifyLinkMac(r.hash, r.mac)) return broken(seq, 'identity-event', r.id, "the link's MAC does not verify with this service's record key: the service did not write it");
+      previous = r.hash;
+      expected++;
+    }
+    if (expected - 1 !== Number(head.seq) || (previous ?? '') !== head.hash) return broken(expected, 'identity-event', '', 'the identity chain head does not point at the last link (records missing)');
+    const [user] = await this.db.query<{ id: string }>(
+      `SELECT u.id FROM users u WHERE u.created_at >= $1 AND NOT EXISTS (
+         SELECT 1 FROM identity_events e WHERE e.seq IS NOT NULL AND e.type = 'user-created' AND e.subject_user_id = u.id
+            AND e.data->>'name' = u.name AND e.data->'roles' = to_jsonb(u.roles)) ORDER BY u.created_at LIMIT 1`,
+      [head.started_at],
+    );
+    if (user) return broken(0, 'user', user.id, 'the user row is not borne out by a user-created event of the identity chain');
+    const [token] = await this.db.query<{ id: string }>(
+      `SELECT t.id FROM tokens t WHERE (t.created_at >= $1 OR t.hash_kind = 'hmac') AND NOT EXISTS (
+         SELECT 1 FROM identity_events e WHERE e.seq IS NOT NULL AND e.type = 'token-issued' AND e.token_id = t.id AND e.subject_user_id = t.user_id)
+        ORDER BY t.created_at LIMIT 1`,
+      [head.started_at],
+    );
+    if (token) return broken(0, 'token', token.id, 'the token row is not borne out by a token-issued event of the identity chain');
+    const [revocation] = await this.db.query<{ token_id: string }>(
+      `SELECT r.token_id FROM token_revocations r WHERE r.revoked_at >= $1 AND NOT EXISTS (
+         SELECT 1 FROM identity_events e WHERE e.seq IS NOT NULL AND e.type = 'token-revoked' AND e.token_id = r.token_id) LIMIT 1`,
+      [head.started_at],
+    );
+    if (revocation) return broken(0, 'revocation', revocation.token_id, 'the revocation is not borne out by a token-revoked event of the identity chain');
+    return { valid: true, links: expected - 1, headHash: previous, firstBrokenLink: null };
+  }
+
+  /**
+   * Resolves a presented bearer token to its user, or null when unknown, revoked or expired (by the service clock).
+   * The keyed hash is looked up, and the plain SHA-256 of a token stored before keyed hashing unless legacy tokens
+   * are refused.
+   */
   async authenticate(token: string): Promise<Principal | null> {
-    const hash = hashToken(token);
+    const hash = this.keys.key.tokenHash(token);
     const now = this.clock.now();
     const hit = this.cache.get(hash);
     if (hit && hit.until > now) return hit.principal;
-    const rows = await this.db.query<{ id: string; name: string; roles: Role[]; token_id: string; created_by: string | null; ms_left: string }>(
-      `SELECT u.id, u.name, ${CURRENT_ROLES('u')} AS roles, t.id AS token_id, t.created_by,
-              floor(extract(epoch FROM COALESCE(t.expires_at, t.created_at + make_interval(days => $1::int)) - $3::timestamptz) * 1000) AS ms_left
-         FROM tokens t JOIN users u ON u.id = t.user_id
-        WHERE t.token_hash = $2 AND ${this.liveSql('t', '$3')} AND ${USER_ACTIVE('u')}`,
-      [this.ttlDays, hash, new Date(now).toISOString()],
+    const legacy = this.config.LEADLINE_LEGACY_TOKENS === 'accept' ? legacyTokenHash(token) : null;
+    // current roles and deactivation from the identity events, as the record functions read them
+    const rows = await this.db.query<{ user_id: string; name: string; roles: Role[]; token_id: string; token_hash: string; revoked: boolean; active: boolean; created_by: string | null; ms_left: string }>(
+      `SELECT f.user_id, f.name, leadline_user_roles(f.user_id) AS roles, f.token_id, f.token_hash, f.revoked, leadline_user_active(f.user_id) AS active, t.created_by,
+              floor(extract(epoch FROM COALESCE(f.expires_at, f.created_at + make_interval(days => $3::int)) - $4::timestamptz) * 1000) AS ms_left
+         FROM leadline_find_token($1, $2) f JOIN tokens t ON t.id = f.token_id`,
+      [hash, legacy, this.ttlDays, new Date(now).toISOString()],
     );
-    const principal: Principal | null = rows.length
-      ? { id: rows[0].id, name: rows[0].name, roles: rows[0].roles, tokenId: rows[0].token_id, tokenIssuedBy: rows[0].created_by, authMethod: 'token' }
+    const live = rows.find((r) => !r.revoked && r.active && Number(r.ms_left) > 0);
+    const principal: Principal | null = live
+      ? { id: live.user_id, name: live.name, roles: live.roles, tokenId: live.token_id, tokenIssuedBy: live.created_by, authMethod: 'token', credential: live.token_hash }
       : null;
     if (principal) {
       // Oldest entry out first when full; a cached token is never trusted past its expiry
       if (this.cache.size >= 10000) this.cache.delete(this.cache.keys().next().value as string);
-      this.cache.set(hash, { principal, until: now + Math.min(TOKEN_CACHE_MS, Number(rows[0].ms_left)) });
+      this.cache.set(hash, { principal, until: now + Math.min(TOKEN_CACHE_MS, Number(live!.ms_left)) });
     }
     return principal;
   }

@@ -6,7 +6,8 @@
 import { Inject, Injectable } from '@nestjs/common';
 import { randomUUID } from 'node:crypto';
 import { CLOCK, type Clock } from '../infra/clock';
-import { Database, PG_UNIQUE_VIOLATION, pgErrorCode } from '../infra/database/database.service';
+import { Database } from '../infra/database/database.service';
+import { ServiceKeys } from '../records/service-keys';
 import type { Principal } from './identities.service';
 
 /** How long after the fresh login the signature must be made [ms] (common practice: a few minutes). */
@@ -17,6 +18,7 @@ export class ReauthenticationsService {
   constructor(
     private readonly db: Database,
     @Inject(CLOCK) private readonly clock: Clock,
+    private readonly keys: ServiceKeys,
   ) {}
 
   /** Records a fresh login; null when the provider's auth_time is older than the start of the signing. */
@@ -25,8 +27,9 @@ export class ReauthenticationsService {
     const startedAt = Math.floor(startedAtMs / 1000) * 1000;
     if (authTime < startedAt) return null;
     const id = randomUUID();
-    await this.db.query(`INSERT INTO reauthentications (id, user_id, revision_id, method, started_at, auth_time) VALUES ($1, $2, $3, 'oidc', $4, $5)`, [
-      id, userId, revisionId, new Date(startedAt).toISOString(), new Date(authTime).toISOString(),
+    // the service credential: the service checked the identity provider's answer
+    await this.db.query(`SELECT leadline_record_reauthentication($1, $2, $3, $4, $5, $6)`, [
+      await this.keys.serviceCredential(), id, userId, revisionId, new Date(startedAt).toISOString(), new Date(authTime).toISOString(),
     ]);
     return id;
   }
@@ -50,11 +53,8 @@ export class ReauthenticationsService {
     if (row.revision_id !== revisionId) refuse('signature.reauthentication', 'this fresh login was made for signing another revision');
     if (new Date(row.auth_time).getTime() < new Date(row.started_at).getTime()) refuse('signature.reauthentication', 'the login is older than the start of the signing');
     if (this.clock.now() - new Date(row.auth_time).getTime() > REAUTH_VALID_MS) refuse('signature.reauthentication', 'the fresh login is too old; sign in at the identity provider again');
-    try {
-      await this.db.query(`INSERT INTO reauthentication_uses (reauthentication_id) VALUES ($1)`, [id]);
-    } catch (err) {
-      if (pgErrorCode(err) === PG_UNIQUE_VIOLATION) refuse('signature.reauthentication', 'this fresh login has signed already');
-      throw err;
-    }
+    // used with the signer's own credential (leadline_use_reauthentication): false when it signed already
+    const [used] = await this.db.query<{ fresh: boolean }>(`SELECT leadline_use_reauthentication($1, $2) AS fresh`, [principal.credential, id]);
+    if (!used?.fresh) refuse('signature.reauthentication', 'this fresh login has signed already');
   }
 }

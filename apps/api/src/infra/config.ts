@@ -144,6 +144,17 @@ export const configSchema = z.object({
    * <this>/api/v1/auth/oidc/callback. Unset: taken from each request's Host (fine on one host, needed behind a proxy)
    */
   LEADLINE_PUBLIC_URL: z.string().url().optional(),
+  // --- Record keys, token hashing and signing-key history (docs/reliability.md, "Threat model") ---
+  /**
+   * Secret file (at least 64 hex digits, mode 0600) whose key seals every chain link (HMAC) and keys the stored token
+   * hashes; never stored in the database. Unset: <LEADLINE_DATA_DIR>/record-key, generated when missing
+   */
+  LEADLINE_RECORD_KEY_FILE: z.string().min(1).optional(),
+  /** Tokens stored before keyed hashing (plain SHA-256): accepted until they expire, or refused at once */
+  LEADLINE_LEGACY_TOKENS: z.enum(['accept', 'refuse']).default('accept'),
+  /** Start although a signing key that signed earlier checkpoints is not the configured one (an explicit rotation) */
+  LEADLINE_SIGNING_KEY_ROTATE: flag.default(false),
+  // --- end of record keys ---
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 

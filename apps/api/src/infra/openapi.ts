@@ -5,8 +5,8 @@
 import type { INestApplication } from '@nestjs/common';
 import { SwaggerModule, type OpenAPIObject } from '@nestjs/swagger';
 import {
-  calculationSchema, chainVerificationSchema, designInputSchema, evaluationResponseSchema, problemSchema, productSchema,
-  revisionReviewSchema, revisionWithReviewSchema, submissionResultSchema,
+  calculationSchema, chainVerificationSchema, designInputSchema, evaluationResponseSchema, identityVerificationSchema,
+  problemSchema, productSchema, revisionReviewSchema, revisionWithChecksSchema, submissionResultSchema,
 } from '@leadline/contracts';
 import { sizingRequestSchema, sizingResponseSchema } from '@leadline/contracts';
 import { z, type ZodType } from 'zod';
@@ -70,11 +70,11 @@ export const ROUTES: Route[] = [
     method: 'get', path: '/api/v1/calculations/{id}/revisions', summary: "A calculation's revisions, oldest first, cursor-paged (after, limit; view=summary gives light items)", tag: 'calculations',
     query: revisionsQuerySchema,
     response: z.object({
-      items: z.array(z.union([revisionWithReviewSchema, revisionSummarySchema])),
+      items: z.array(z.union([revisionWithChecksSchema, revisionSummarySchema])),
       nextCursor: z.number().int().nullable().describe('the last revision number of this page when more follow, else null'),
     }),
   },
-  { method: 'get', path: '/api/v1/revisions/{id}', summary: 'One revision: input as submitted, evaluation, findings, versions, hashes', tag: 'calculations', response: revisionWithReviewSchema },
+  { method: 'get', path: '/api/v1/revisions/{id}', summary: 'One revision: input as submitted, evaluation, findings, versions, hashes', tag: 'calculations', response: revisionWithChecksSchema },
   { method: 'get', path: '/api/v1/thread-sizes', summary: 'Standard thread sizes', tag: 'library' },
   { method: 'get', path: '/api/v1/friction-sources', summary: 'Friction coefficient ranges with their sources', tag: 'library' },
   { method: 'get', path: '/api/v1/materials', summary: 'Screw and nut materials', tag: 'library' },
@@ -106,6 +106,7 @@ export const ROUTES: Route[] = [
   { method: 'get', path: '/api/v1/users/{id}/tokens', summary: "A user's tokens, without secrets (admin)", tag: 'identities' },
   { method: 'post', path: '/api/v1/users/{id}/tokens/{tokenId}/revoke', summary: 'Revoke a token at once (admin)', tag: 'identities' },
   { method: 'get', path: '/api/v1/identity-events', summary: 'User-level audit: users created, roles granted, tokens issued and revoked (admin)', tag: 'identities', query: identityEventsQuerySchema },
+  { method: 'get', path: '/api/v1/identity-events/verify', summary: 'Recompute the identity chain and name the first link or row it does not bear out (admin)', tag: 'identities', response: identityVerificationSchema },
   { method: 'post', path: '/api/v1/products/{id}/checkpoints', summary: "Sign the product chain's current head (Ed25519 checkpoint {productId, seq, headHash, time})", tag: 'records', status: 201 },
   { method: 'post', path: '/api/v1/checkpoints/verify', summary: 'Whether the signature is ours and the current chain still contains that link with that hash', tag: 'records', request: checkpointSchema },
   { method: 'get', path: '/api/v1/checkpoints/public-key', summary: 'The Ed25519 public key that checks checkpoint signatures (no token needed)', tag: 'records', public: true },

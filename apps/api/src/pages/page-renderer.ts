@@ -3,12 +3,12 @@
  * once, and the script modules and stylesheets they load, read from disk once. The shells carry no data; each
  * page's module fetches everything from the JSON API with the user's token.
  */
+import { browserModuleSource } from '@leadline/presentation';
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
-import { basename, dirname, join } from 'node:path';
-import Handlebars from 'handlebars';
+import { dirname, join } from 'node:path';
 import { TOLERANCE_CLASSES } from '@leadline/mechanics';
 import { CAUTION_TEXT } from '../reports/report-model';
-import { findTemplatesDir } from '../reports/report-renderer';
+import { Templates, type Template } from '../infra/templates';
 
 /** The standard that defines each form's tolerance classes, for the design form's choice of class. */
 const TOLERANCE_STANDARDS: Readonly<Record<string, string>> = { trapezoidal: 'ISO 2903', acme: 'ASME B1.5' };
@@ -40,6 +40,9 @@ export const PAGE_SPECS = {
 
 export type PageName = keyof typeof PAGE_SPECS;
 export const PAGES = Object.keys(PAGE_SPECS) as PageName[];
+
+/** The presentation module as the pages import it (generated from libs/presentation at start). */
+export const PRESENTATION_ASSET = 'lib-presentation.js';
 
 /** Where the pages' assets are served (one place for /review and /design). */
 export const ASSET_BASE = '/review/assets/';
@@ -86,7 +89,7 @@ export function findAssetsDir(start: string = __dirname): string {
 }
 
 export class PageRenderer {
-  private readonly pages: Record<string, Handlebars.TemplateDelegate>;
+  private readonly pages: Record<string, Template<Record<string, unknown>>>;
   private readonly assets: Record<string, Asset>;
 
   /** Whether the sign-in page offers the identity provider (LEADLINE_OIDC_ISSUER set) */
@@ -94,22 +97,17 @@ export class PageRenderer {
 
   constructor(options: { templatesDir?: string; assetsDir?: string; oidc?: boolean } = {}) {
     this.oidc = options.oidc ?? false;
-    const pagesDir = join(options.templatesDir ?? findTemplatesDir(), 'pages');
-    // Isolated from the report templates' helpers and partials.
-    const hbs = Handlebars.create();
-    const partialsDir = join(pagesDir, 'partials');
-    for (const file of readdirSync(partialsDir)) {
-      if (file.endsWith('.hbs')) hbs.registerPartial(basename(file, '.hbs'), readFileSync(join(partialsDir, file), 'utf8'));
-    }
-    this.pages = Object.fromEntries(
-      PAGES.map((name) => [name, hbs.compile(readFileSync(join(pagesDir, `${name}.hbs`), 'utf8'), { strict: true })]),
-    );
+    // The service's one Handlebars environment (infra/templates.ts)
+    const templates = Templates.of(options.templatesDir);
+    this.pages = Object.fromEntries(PAGES.map((name) => [name, templates.template<Record<string, unknown>>(`pages/${name}`)]));
     const assetsDir = options.assetsDir ?? findAssetsDir();
     this.assets = {};
     for (const file of readdirSync(assetsDir)) {
       const type = CONTENT_TYPES[file.slice(file.lastIndexOf('.'))];
       if (type && /^[a-z0-9-]+\.(js|css)$/.test(file)) this.assets[file] = { body: readFileSync(join(assetsDir, file), 'utf8'), contentType: type };
     }
+    // Numbers, units, words and dates: the server's own presentation module, not a copy (libs/presentation)
+    this.assets[PRESENTATION_ASSET] = { body: browserModuleSource(), contentType: CONTENT_TYPES['.js'] };
   }
 
   render(page: PageName, styleNonce?: string): string {

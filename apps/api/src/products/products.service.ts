@@ -1,6 +1,6 @@
 import { Injectable } from '@nestjs/common';
 import { randomUUID } from 'node:crypto';
-import type { Actor } from '@leadline/contracts';
+import type { Acting } from '../records/record-store';
 import { z } from 'zod';
 import { Database, PG_UNIQUE_VIOLATION, pgErrorCode } from '../infra/database/database.service';
 import { ProblemError, notFound, validate } from '../infra/http/problem';
@@ -31,22 +31,12 @@ export class ProductsService {
     private readonly records: RecordStore,
   ) {}
 
-  async create(body: unknown, actor: Actor | null): Promise<Product> {
+  async create(body: unknown, actor: Acting | null): Promise<Product> {
     const input = validate(createProductSchema, body);
     const id = randomUUID();
     try {
-      await this.db.transaction(async (q) => {
-        await q.query(`INSERT INTO products (id, code, name, description, created_by) VALUES ($1, $2, $3, $4, $5)`, [
-          id, input.code, input.name, input.description ?? null, actor?.id ?? null,
-        ]);
-        await q.query(`INSERT INTO chain_heads (product_id, seq, hash) VALUES ($1, 0, '')`, [id]);
-        const cursor = await this.records.lockHead(q, id);
-        await this.records.appendEvent(q, cursor!, {
-          productId: id, type: 'product-registered', calculationId: null, revisionId: null, actor,
-          data: { code: input.code, name: input.name, description: input.description ?? null },
-        });
-        await this.records.saveHead(q, id, cursor!);
-      });
+      // the product row, its chain head and its first link, in one record function (leadline_register_product)
+      await this.db.transaction((q) => this.records.registerProduct(q, { id, code: input.code, name: input.name, description: input.description ?? null }, actor));
     } catch (err) {
       if (pgErrorCode(err) === PG_UNIQUE_VIOLATION) {
         const [held] = await this.db.query<{ code: string }>(`SELECT code FROM products WHERE lower(code) = lower($1) ORDER BY created_at LIMIT 1`, [input.code]);

@@ -72,7 +72,12 @@ export interface EventLink {
 
 /**
  * Link format versions. 1: the original links (no token id). 2: the record names its format version and the token
- * id used, so the hash covers who acted with which credential. Stored rows keep the version they were written
- * with (column link_version, default 1 for rows written before format 2 existed).
+ * id used, so the hash covers who acted with which credential. 3: as 2, and the link is sealed: column `mac` holds
+ * HMAC-SHA256 over the link hash with the record key (record-key.ts), which the database never holds, so only the
+ * service can write a link that verifies (migrations/20261204230000 says what older links still prove). Stored rows
+ * keep the version they were written with (column link_version, default 1 for rows written before format 2 existed).
  */
-export const LINK_VERSION = 2;
+export const LINK_VERSION = 3;
+
+/** The first link format that carries a MAC; from the first such link on, every link of a chain must carry one. */
+export const SEALED_LINK_VERSION = 3;

@@ -2,15 +2,21 @@
  * Appends records to a product's chain inside a transaction and reads them back.
  * The chain head row is locked FOR UPDATE, so appends to one product are serialized and every link
  * names the true previous hash; heads are found by primary key, never by scanning history.
- * The head is locked and moved only through the SECURITY DEFINER functions leadline_lock_head and
- * leadline_move_head (migrations/20261202100100): the service's runtime role has no UPDATE privilege.
+ * The service is the one writer of links (link format 3): it computes each link's hash and its MAC with the record
+ * key (record-key.ts, never stored in the database) and hands both to a SECURITY DEFINER function
+ * (migrations/20261204230000) that checks the acting credential and the workflow's invariants, inserts the link and
+ * moves the head. The runtime role has no INSERT or UPDATE on the record tables.
  */
-import { Injectable } from '@nestjs/common';
+import { Injectable, OnModuleInit } from '@nestjs/common';
 import { randomUUID } from 'node:crypto';
 import type { Actor, EventType, Finding, Verdict } from '@leadline/contracts';
 import { Database, PG_NO_DATA_FOUND, pgErrorCode, type Queryer } from '../infra/database/database.service';
 import { notFound, ProblemError } from '../infra/http/problem';
 import { contentDigest, LINK_VERSION, linkHash, TS_TEXT, type EventLink, type RevisionLink } from './chain';
+import { ServiceKeys } from './service-keys';
+import { MeaningState, type MeaningRules } from './meaning';
+import { ruleSetDefinitionSchema } from '@leadline/rules';
+import { SEALED_LINK_VERSION } from './chain';
 
 export interface ChainCursor {
   seq: number;
@@ -50,7 +56,7 @@ export function prepareSubmission(s: RevisionSubmission): PreparedSubmission {
  * The acting user as the controllers pass it: an Actor, optionally carrying the id of the bearer token used
  * (non-enumerable, see infra/http/actor.ts, so it never leaks into a stored or returned actor object).
  */
-export type Acting = Actor & { readonly tokenId?: string | null };
+export type Acting = Actor & { readonly tokenId?: string | null; readonly credential?: string | null };
 
 /** The actor as stored and hashed ({ id, name } only), and the token id it acted with. */
 export function splitActing(a: Acting | null): { actor: Actor | null; tokenId: string | null } {
@@ -59,6 +65,21 @@ export function splitActing(a: Acting | null): { actor: Actor | null; tokenId: s
 
 /** SQLSTATE raised by leadline_append_revision when the submitter does not own the calculation. */
 export const PG_NOT_OWNER = 'LL403';
+
+/**
+ * A refusal by one of the record functions, as an HTTP problem. The service checks the same rules first and answers
+ * with its own words; these arise only when a request races another or a caller bypasses the service.
+ */
+export function functionRefusal(err: unknown): ProblemError | null {
+  const code = pgErrorCode(err);
+  const message = String((err as { message?: string })?.message ?? '').replace(/^leadline: /, '');
+  if (code === 'LL401') return new ProblemError(401, 'Authentication required', 'the bearer token is unknown or revoked, or has expired');
+  if (code === 'LL403') return new ProblemError(403, 'Not permitted', message);
+  if (code === 'LL409') return new ProblemError(409, 'Conflict with the record', message);
+  if (code === 'LL422') return new ProblemError(422, 'Refused by the record', message);
+  if (code === PG_NO_DATA_FOUND) return notFound(message);
+  return null;
+}
 
 /** Links per verification batch: bounded memory (a revision link carries its stored content, ~12 KB). */
 export const VERIFY_BATCH = 256;
@@ -72,8 +93,21 @@ export interface AppendedRevision {
 }
 
 @Injectable()
-export class RecordStore {
-  constructor(readonly db: Database) {}
+export class RecordStore implements OnModuleInit {
+  constructor(
+    readonly db: Database,
+    readonly keys: ServiceKeys,
+  ) {}
+
+  /** Refuses to start when the database names another record key (docs/reliability.md, "Threat model"). */
+  async onModuleInit(): Promise<void> {
+    await this.keys.serviceCredential();
+  }
+
+  /** The credential a write is made with: the acting user's token hash, or the service's own when it acts by itself. */
+  private async credentialOf(acting: Acting | null): Promise<string> {
+    return acting?.credential ?? (await this.keys.serviceCredential());
+  }
 
   /** Locks the product's chain head for the rest of the transaction. */
   async lockHead(q: Queryer, productId: string): Promise<ChainCursor | null> {
@@ -82,12 +116,40 @@ export class RecordStore {
     return { seq: Number(rows[0].seq), hash: rows[0].hash === '' ? null : rows[0].hash, now: rows[0].now };
   }
 
-  /** Moves the head to the cursor's link (which must exist with that seq and hash). */
-  async saveHead(q: Queryer, productId: string, cursor: ChainCursor): Promise<void> {
-    await q.query(`SELECT leadline_move_head($1, $2, $3)`, [productId, cursor.seq, cursor.hash ?? '']);
+  /** Runs a record function call; its refusals become HTTP problems. */
+  private async call(q: Queryer, sql: string, params: unknown[]): Promise<void> {
+    try {
+      await q.query(sql, params);
+    } catch (err) {
+      throw functionRefusal(err) ?? err;
+    }
   }
 
-  /** Appends one event to the chain (link format 2: the token id is hashed); advances the cursor. */
+  /**
+   * Registers a product: its row, its chain head and the product-registered link, in one function call
+   * (leadline_register_product), timed by the transaction's clock.
+   */
+  async registerProduct(q: Queryer, p: { id: string; code: string; name: string; description: string | null }, acting: Acting | null): Promise<EventLink & { hash: string }> {
+    const [{ now }] = await q.query<{ now: string }>(`SELECT ${TS_TEXT('now()')} AS now`);
+    const { actor, tokenId } = splitActing(acting);
+    const link: EventLink = {
+      kind: 'event', id: randomUUID(), productId: p.id, seq: 1, type: 'product-registered', calculationId: null, revisionId: null, actor,
+      data: { code: p.code, name: p.name, description: p.description }, createdAt: now, linkVersion: LINK_VERSION, tokenId,
+    };
+    const hash = linkHash(link as unknown as Record<string, unknown>, null);
+    const credential = await this.credentialOf(acting);
+    await q.query(`SELECT leadline_register_product($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12)`, [
+      credential, p.id, p.code, p.name, p.description, link.id, actor ? JSON.stringify(actor) : null, tokenId, JSON.stringify(link.data), now, hash, this.keys.key.linkMac(hash),
+    ]).catch((err) => {
+      throw (pgErrorCode(err) === '23505' ? err : functionRefusal(err)) ?? err;
+    });
+    return { ...link, hash };
+  }
+
+  /**
+   * Appends one event to the chain through leadline_append_event (link format 3: hashed and sealed here, checked and
+   * inserted there, the head moved with it); advances the cursor.
+   */
   async appendEvent(
     q: Queryer,
     cursor: ChainCursor,
@@ -109,12 +171,10 @@ export class RecordStore {
       tokenId,
     };
     const hash = linkHash(link as unknown as Record<string, unknown>, cursor.hash);
-    await q.query(
-      `INSERT INTO events (id, product_id, seq, type, calculation_id, revision_id, actor_id, actor, data, created_at, hash, previous_hash, link_version, token_id)
-       VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10::timestamptz, $11, $12, $13, $14)`,
-      [link.id, link.productId, link.seq, link.type, link.calculationId, link.revisionId, actor?.id ?? null,
-        actor ? JSON.stringify(actor) : null, JSON.stringify(link.data), link.createdAt, hash, cursor.hash, LINK_VERSION, tokenId],
-    );
+    await this.call(q, `SELECT leadline_append_event($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13, $14)`, [
+      await this.credentialOf(e.actor), link.id, link.productId, link.seq, link.type, link.calculationId, link.revisionId,
+      actor ? JSON.stringify(actor) : null, tokenId, JSON.stringify(link.data), link.createdAt, hash, cursor.hash, this.keys.key.linkMac(hash),
+    ]);
     const previousHash = cursor.hash;
     cursor.seq = link.seq;
     cursor.hash = hash;
@@ -122,12 +182,11 @@ export class RecordStore {
   }
 
   /**
-   * Appends the next revision of a calculation and its submission event and moves the chain head, in one
-   * database call (leadline_append_revision, migrations/20261202100100): it locks the head, checks that the
-   * submitter owns the calculation, numbers the revision after the lock and computes both link hashes exactly as
-   * chain.ts does. Works inside a transaction or alone.
-   * @param productId - null to let the function read it from the calculation (migrations/20261202130000); when
-   *   given, it must be the calculation's product
+   * Appends the next revision of a calculation and its submission event (leadline_append_revision): the head is
+   * locked, the revision numbered under the lock, both links hashed and sealed here; the function checks that the
+   * submitter owns the calculation, that the verdict follows from the findings, and moves the head.
+   * Runs in the caller's transaction, or in one of its own when given the Database.
+   * @param productId - null to read it from the calculation; when given, it must be the calculation's product
    * @throws 404 when there is no such calculation (or product)
    * @param cursor - when given (inside a transaction that already holds the head), it is advanced past the new links
    */
@@ -139,28 +198,41 @@ export class RecordStore {
     acting: Acting | null,
     cursor?: ChainCursor,
   ): Promise<AppendedRevision> {
-    const id = randomUUID();
+    if (q instanceof Database) return q.transaction((tq) => this.appendRevision(tq, productId, calculationId, s, acting, cursor));
+    const [calc] = await q.query<{ product_id: string }>(`SELECT product_id FROM calculations WHERE id = $1`, [calculationId]);
+    if (!calc || (productId !== null && calc.product_id !== productId)) throw notFound(productId === null ? `calculation ${calculationId}` : `product ${productId}`);
+    const head = cursor ?? (await this.lockHead(q, calc.product_id));
+    if (!head) throw notFound(`product ${calc.product_id}`);
+    const [{ next }] = await q.query<{ next: number }>(`SELECT coalesce(max(revision), 0) + 1 AS next FROM revisions WHERE calculation_id = $1`, [calculationId]);
     const { actor, tokenId } = splitActing(acting);
-    let rows: { revision: number; seq: string; hash: string; previous_hash: string | null; created_at: string; event_hash: string }[];
+    const revision: RevisionLink = {
+      kind: 'revision', id: randomUUID(), productId: calc.product_id, calculationId, revision: Number(next), seq: head.seq + 1, note: s.note,
+      content: s.content, verdict: s.verdict, engineVersion: s.engineVersion, ruleSetVersion: s.ruleSetVersion, author: actor,
+      createdAt: head.now, linkVersion: LINK_VERSION, tokenId,
+    };
+    const hash = linkHash(revision as unknown as Record<string, unknown>, head.hash);
+    const event: EventLink = {
+      kind: 'event', id: randomUUID(), productId: calc.product_id, seq: head.seq + 2, type: 'revision-submitted', calculationId, revisionId: revision.id,
+      actor, data: { note: s.note, revision: revision.revision, revisionHash: hash, verdict: s.verdict }, createdAt: head.now, linkVersion: LINK_VERSION, tokenId,
+    };
+    const eventHash = linkHash(event as unknown as Record<string, unknown>, hash);
     try {
-      rows = await q.query(
-        `SELECT * FROM leadline_append_revision($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13, $14, $15, $16)`,
-        [productId, calculationId, id, randomUUID(), s.note, s.json.input, s.json.normalized, s.json.evaluation, s.json.findings, s.content,
-          s.verdict, s.engineVersion, s.ruleSetVersion, actor?.id ?? null, actor?.name ?? null, tokenId],
+      await q.query(
+        `SELECT leadline_append_revision($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13, $14, $15, $16, $17, $18, $19, $20, $21, $22, $23)`,
+        [await this.credentialOf(acting), calculationId, revision.id, revision.revision, revision.seq, s.note, s.json.input, s.json.normalized,
+          s.json.evaluation, s.json.findings, s.verdict, s.engineVersion, s.ruleSetVersion, actor ? JSON.stringify(actor) : null, tokenId,
+          head.now, hash, head.hash, this.keys.key.linkMac(hash), event.id, JSON.stringify(event.data), eventHash, this.keys.key.linkMac(eventHash)],
       );
     } catch (err) {
-      if (pgErrorCode(err) === PG_NO_DATA_FOUND) throw notFound(productId === null ? `calculation ${calculationId}` : `product ${productId}`);
       if (pgErrorCode(err) === PG_NOT_OWNER) {
         throw new ProblemError(403, 'Not the owner of this calculation', 'only the author who owns a calculation may add revisions to it (an admin can reassign it)');
       }
-      throw err;
+      throw functionRefusal(err) ?? err;
     }
-    const r = rows[0];
-    if (cursor) {
-      cursor.seq = Number(r.seq);
-      cursor.hash = r.event_hash;
-    }
-    return { id, revision: Number(r.revision), hash: r.hash, previousHash: r.previous_hash, createdAt: r.created_at };
+    const previousHash = head.hash;
+    head.seq = event.seq;
+    head.hash = eventHash;
+    return { id: revision.id, revision: revision.revision, hash, previousHash, createdAt: head.now };
   }
 
   /**
@@ -191,18 +263,20 @@ export class RecordStore {
     let previous: string | null = null;
     let expected = 1;
     let last: { seq: number; kind: 'revision' | 'event'; id: string } | null = null;
+    let sealedFrom: number | null = null;
+    const meaning = new MeaningState(await this.meaningRules(productId, headSeq));
     for (let lo = 0; lo < headSeq; lo += batch) {
       const hi = Math.min(lo + batch, headSeq);
       const revisions = await this.db.query<RevisionRow>(
         `SELECT id, product_id, calculation_id, revision, seq, note, input::text AS input, normalized::text AS normalized,
                 evaluation::text AS evaluation, findings::text AS findings, verdict, engine_version, rule_set_version, author_id, author,
-                ${TS_TEXT('created_at')} AS created_at, hash, previous_hash, link_version, token_id
+                ${TS_TEXT('created_at')} AS created_at, hash, previous_hash, link_version, token_id, mac
            FROM revisions WHERE product_id = $1 AND seq > $2 AND seq <= $3 ORDER BY seq`,
         [productId, lo, hi],
       );
       const events = await this.db.query<EventRow>(
         `SELECT id, product_id, seq, type, calculation_id, revision_id, actor_id, actor, data, ${TS_TEXT('created_at')} AS created_at,
-                hash, previous_hash, link_version, token_id
+                hash, previous_hash, link_version, token_id, mac
            FROM events WHERE product_id = $1 AND seq > $2 AND seq <= $3 ORDER BY seq`,
         [productId, lo, hi],
       );
@@ -212,11 +286,21 @@ export class RecordStore {
         if (l.seq !== expected) return broken(productId, expected - 1, { ...at, reason: `sequence gap: expected link ${expected}, found ${l.seq}` });
         if (l.row.previous_hash !== previous) return broken(productId, expected, { ...at, reason: 'previous hash does not match the prior link' });
         const version = Number(l.row.link_version ?? 1);
-        if (version !== 1 && version !== LINK_VERSION) return broken(productId, expected, { ...at, reason: `unknown link format ${version}` });
+        if (version !== 1 && version !== 2 && version !== LINK_VERSION) return broken(productId, expected, { ...at, reason: `unknown link format ${version}` });
         const body = l.kind === 'revision' ? revisionLinkOf(l.row as RevisionRow) : eventLinkOf(l.row as EventRow);
         if (linkHash(body as unknown as Record<string, unknown>, previous) !== l.row.hash) return broken(productId, expected, { ...at, reason: 'content does not match its hash' });
+        if (version >= SEALED_LINK_VERSION) {
+          sealedFrom ??= l.seq;
+          if (!this.keys.key.verifyLinkMac(l.row.hash, l.row.mac)) {
+            return broken(productId, expected, { ...at, reason: "the link's MAC does not verify with this service's record key: the service did not write it" });
+          }
+        } else if (sealedFrom !== null) {
+          return broken(productId, expected, { ...at, reason: `an unsealed link of format ${version} after the sealed links from ${sealedFrom} on` });
+        }
         const contradiction = columnContradiction(l, version);
         if (contradiction) return broken(productId, expected, { ...at, reason: contradiction });
+        const wrong = meaning.check(meaningLinkOf(l));
+        if (wrong) return broken(productId, expected, { ...at, reason: wrong });
         if (l.seq === 1) {
           const reason = registrationMismatch(l, product);
           if (reason) return broken(productId, expected, { seq: 1, kind: 'product', id: productId, reason });
@@ -239,6 +323,53 @@ export class RecordStore {
     const derived = await this.derivedMismatch(productId, headSeq);
     if (derived) return broken(productId, headSeq, derived);
     return { productId, valid: true, links: headSeq, headHash: previous, firstBrokenLink: null };
+  }
+
+  private readonly ruleSetValidity = new Map<string, boolean>();
+
+  /** Whether a stored rule-set definition is valid (definitions are immutable, so the answer is kept). */
+  async ruleSetValid(version: string, definition?: unknown): Promise<boolean> {
+    const known = this.ruleSetValidity.get(version);
+    if (known !== undefined) return known;
+    if (definition === undefined) {
+      const [row] = await this.db.query<{ definition: unknown }>(`SELECT definition FROM rule_sets WHERE version = $1`, [version]);
+      if (!row) return false;
+      definition = row.definition;
+    }
+    const parsed = ruleSetDefinitionSchema.safeParse(definition);
+    const valid = parsed.success && parsed.data.version === version;
+    this.ruleSetValidity.set(version, valid);
+    return valid;
+  }
+
+  /** What the meaning check reads beyond the chain: deciders' roles, issuers of their tokens, valid rule sets. */
+  private async meaningRules(productId: string, headSeq: number): Promise<MeaningRules> {
+    const users = await this.db.query<{ id: string; roles: string[] }>(
+      `SELECT u.id, u.roles FROM users u WHERE u.id IN (SELECT e.actor_id FROM events e WHERE e.product_id = $1 AND e.seq <= $2 AND e.type IN ('approved', 'rejected'))`,
+      [productId, headSeq],
+    );
+    const tokens = await this.db.query<{ id: string; created_by: string | null }>(
+      `SELECT t.id, t.created_by FROM tokens t WHERE t.id IN (SELECT e.token_id FROM events e WHERE e.product_id = $1 AND e.seq <= $2 AND e.type IN ('approved', 'rejected'))`,
+      [productId, headSeq],
+    );
+    const sets = await this.db.query<{ version: string; definition: unknown }>(
+      `SELECT s.version, s.definition FROM rule_sets s WHERE s.version IN (SELECT DISTINCT r.rule_set_version FROM revisions r WHERE r.product_id = $1 AND r.seq <= $2)`,
+      [productId, headSeq],
+    );
+    const valid = new Set<string>();
+    for (const r of sets) if (await this.ruleSetValid(r.version, r.definition)) valid.add(r.version);
+    const roles = new Map(users.map((u) => [u.id, u.roles]));
+    const issuers = new Map(tokens.map((t) => [t.id, t.created_by]));
+    return { rolesOf: (id) => roles.get(id) ?? null, tokenIssuer: (id) => issuers.get(id), ruleSetValid: (v) => valid.has(v) };
+  }
+
+  /**
+   * Whether a stored event is one this service wrote: its hash matches its content and, from link format 3 on, its
+   * MAC verifies. Review state is read only from such events (a closure pointing elsewhere closes nothing).
+   */
+  sealedEvent(row: EventRow): boolean {
+    if (linkHash(eventLinkOf(row) as unknown as Record<string, unknown>, row.previous_hash) !== row.hash) return false;
+    return Number(row.link_version ?? 1) < SEALED_LINK_VERSION || this.keys.key.verifyLinkMac(row.hash, row.mac);
   }
 
   /**
@@ -304,6 +435,21 @@ function mergeBySeq(revisions: RevisionRow[], events: EventRow[]): Link[] {
     else out.push({ seq: Number(e.seq), kind: 'event', row: events[j++] });
   }
   return out;
+}
+
+function meaningLinkOf(l: Link): Parameters<MeaningState['check']>[0] {
+  if (l.kind === 'revision') {
+    const r = l.row;
+    return {
+      kind: 'revision', id: r.id, calculationId: r.calculation_id, revision: Number(r.revision), verdict: r.verdict, ruleSetVersion: r.rule_set_version,
+      findings: r.findings, actorId: (r.author as { id?: string } | null)?.id ?? null, tokenId: r.token_id ?? null,
+    };
+  }
+  const e = l.row;
+  return {
+    kind: 'event', id: e.id, type: e.type, calculationId: e.calculation_id, revisionId: e.revision_id,
+    actorId: (e.actor as { id?: string } | null)?.id ?? null, tokenId: e.token_id ?? null, data: e.data,
+  };
 }
 
 /** A stored column the services read that contradicts the hashed record (author_id, actor_id, token_id). */
@@ -373,6 +519,7 @@ export interface RevisionRow {
   author_id?: string | null;
   link_version?: number | string;
   token_id?: string | null;
+  mac?: string | null;
 }
 
 export interface EventRow {
@@ -390,6 +537,7 @@ export interface EventRow {
   actor_id?: string | null;
   link_version?: number | string;
   token_id?: string | null;
+  mac?: string | null;
 }
 
 export function revisionLinkOf(r: RevisionRow): RevisionLink {

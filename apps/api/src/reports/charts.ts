@@ -1,22 +1,11 @@
 /**
  * Report charts, drawn on the server as SVG: vega-lite spec -> vega view (renderer 'none') -> toSVG().
- * The series are recomputed with the engine's own mechanics functions, so a chart can never disagree with
- * the tabulated results. Only the loaded vega modules are cached; nothing that depends on a revision is.
+ * The series are read from the revision's stored evaluation and formula trace (libs/mechanics chart-series.ts), so a
+ * chart shows what the revision's own engine computed and never disagrees with the tabulated results. Only the loaded vega modules are cached; nothing that depends on a revision is.
  */
 import type { RevisionRecord } from '@leadline/contracts';
-import {
-  END_CONDITION_CONSTANT,
-  collarTorqueMeanDiameter,
-  collarTorqueUniformPressure,
-  collarTorqueUniformWear,
-  eulerCriticalLoad,
-  johnsonCriticalLoad,
-  lowerTorque,
-  raiseTorque,
-  type Design,
-  type Evaluation,
-} from '@leadline/mechanics';
-import { coefficient, sig, toDisplay, unitSymbol, type UnitSystem } from './format';
+import { columnCurveFromTrace, torqueSweepFromTrace, type ColumnCurve, type Design, type Evaluation, type TorqueSweep } from '@leadline/mechanics';
+import { coefficient, sig, toDisplay, unitSymbol, type UnitSystem } from '@leadline/presentation';
 import type { ReportView, SafetyFactorRow } from './report-model';
 
 // ---------------------------------------------------------------------------------------------------------
@@ -47,125 +36,6 @@ function loadVega(): Promise<{ vega: VegaModule; vl: VegaLiteModule }> {
   })();
   modules.catch(() => (modules = null));
   return modules;
-}
-
-// ---------------------------------------------------------------------------------------------------------
-// Series (SI), pure
-
-export interface TorqueSweepPoint {
-  /** Thread friction coefficient */
-  readonly f: number;
-  /** Collar friction used with it */
-  readonly fc: number;
-  readonly raise: number;
-  readonly lower: number;
-  readonly lowerThread: number;
-}
-
-export interface TorqueSweep {
-  readonly points: readonly TorqueSweepPoint[];
-  readonly range: { readonly min: number; readonly max: number };
-  readonly boundaryFriction: number;
-}
-
-/**
- * Collar friction that goes with a thread friction f in the sweep: linear between the two ends of the
- * design's ranges (f_min -> f_c,min, f_max -> f_c,max), extended beyond them and never negative. With a
- * single-valued thread range, f_c scales in proportion to f. Either way the sweep passes through the
- * evaluation's own torques at minimum and maximum friction.
- */
-export function collarFrictionFor(f: number, design: Design): number {
-  const t = design.friction.thread;
-  const c = design.friction.collar;
-  if (!c) return 0;
-  if (t.max - t.min > 1e-12) return Math.max(0, c.min + ((f - t.min) * (c.max - c.min)) / (t.max - t.min));
-  return t.max > 0 ? (f * c.max) / t.max : c.max;
-}
-
-function collarTorque(design: Design, F: number, fc: number): number {
-  const collar = design.collar;
-  switch (collar.kind) {
-    case 'plain':
-    case 'rolling':
-      return collarTorqueMeanDiameter(F, fc, collar.meanDiameter);
-    case 'annular':
-      return collar.model === 'uniform-wear'
-        ? collarTorqueUniformWear(F, fc, collar.outerDiameter, collar.innerDiameter)
-        : collarTorqueUniformPressure(F, fc, collar.outerDiameter, collar.innerDiameter);
-    case 'none':
-      return 0;
-  }
-}
-
-/** Raise and lowering torque against thread friction from 0 to 1.5 × the maximum of the design's range. */
-export function torqueFrictionSweep(design: Design, evaluation: Evaluation, steps = 60): TorqueSweep {
-  const F = design.load.axial;
-  const { meanDiameter: dm, lead: l } = evaluation.geometry;
-  const alphaN = (evaluation.geometry.normalFlankAngle * Math.PI) / 180;
-  const fEnd = 1.5 * Math.max(design.friction.thread.max, evaluation.selfLocking.boundaryFriction, 0.01);
-  const fs = new Set<number>();
-  for (let i = 0; i <= steps; i++) fs.add((fEnd * i) / steps);
-  fs.add(design.friction.thread.min);
-  fs.add(design.friction.thread.max);
-  const points = [...fs]
-    .sort((a, b) => a - b)
-    .map((f) => {
-      const fc = collarFrictionFor(f, design);
-      const tc = collarTorque(design, F, fc);
-      const lowerThread = lowerTorque(F, dm, l, f, alphaN);
-      return { f, fc, raise: raiseTorque(F, dm, l, f, alphaN) + tc, lower: lowerThread + tc, lowerThread };
-    });
-  return { points, range: { min: design.friction.thread.min, max: design.friction.thread.max }, boundaryFriction: evaluation.selfLocking.boundaryFriction };
-}
-
-export interface ColumnCurve {
-  /** Critical stress P_cr / A [Pa] against slenderness l/k */
-  readonly johnson: readonly { readonly s: number; readonly stress: number }[];
-  readonly euler: readonly { readonly s: number; readonly stress: number }[];
-  /** Euler continued below the transition (where it does not govern) */
-  readonly eulerBelow: readonly { readonly s: number; readonly stress: number }[];
-  readonly transition: number;
-  readonly yieldStrength: number;
-  readonly design: { readonly s: number; readonly stress: number };
-  readonly critical: { readonly s: number; readonly stress: number };
-}
-
-/** Johnson and Euler branches of the column curve, with the design point; null when buckling does not apply. */
-export function columnCurve(design: Design, evaluation: Evaluation, steps = 60): ColumnCurve | null {
-  const b = evaluation.buckling;
-  if (!b.applies || b.criticalLoad === null) return null;
-  const C = END_CONDITION_CONSTANT[design.screw.endConditionBasis][design.screw.ends] ?? b.endConditionConstant;
-  const { elasticModulus: E, yieldStrength: Sy } = design.screw;
-  const dr = evaluation.geometry.minorDiameter;
-  const A = (Math.PI * dr * dr) / 4;
-  const transition = b.transitionSlenderness;
-  const sEnd = Math.max(1.4 * b.slenderness, 1.6 * transition);
-  const johnson = [];
-  for (let i = 0; i <= steps / 2; i++) {
-    const s = (transition * i) / (steps / 2);
-    johnson.push({ s, stress: johnsonCriticalLoad(C, E, Sy, A, s) / A });
-  }
-  const euler = [];
-  for (let i = 0; i <= steps; i++) {
-    const s = transition + ((sEnd - transition) * i) / steps;
-    euler.push({ s, stress: eulerCriticalLoad(C, E, A, s) / A });
-  }
-  // Euler's hyperbola below the transition, drawn only up to 1.5 S_y so the plot keeps its scale.
-  const sStart = Math.sqrt((C * Math.PI ** 2 * E) / (1.5 * Sy));
-  const eulerBelow = [];
-  for (let i = 0; i <= steps / 3; i++) {
-    const s = sStart + ((transition - sStart) * i) / (steps / 3);
-    eulerBelow.push({ s, stress: eulerCriticalLoad(C, E, A, s) / A });
-  }
-  return {
-    johnson,
-    euler,
-    eulerBelow,
-    transition,
-    yieldStrength: Sy,
-    design: { s: b.slenderness, stress: design.load.axial / A },
-    critical: { s: b.slenderness, stress: b.criticalLoad / A },
-  };
 }
 
 // ---------------------------------------------------------------------------------------------------------
@@ -310,7 +180,8 @@ export function columnSpec(curve: ColumnCurve, system: UnitSystem): Spec {
 }
 
 export function safetyFactorSpec(rows: readonly SafetyFactorRow[]): Spec | null {
-  const shown = rows.filter((r) => r.value !== null);
+  // Factors against minimums only (shares of an allowable are read in the table)
+  const shown = rows.filter((r) => r.value !== null && r.limitKind === 'minimum');
   if (shown.length === 0) return null;
   const limits = shown.map((r) => r.limit ?? 0);
   // Large factors (stripping is often 20+) would flatten the rest: cap the axis and print the true value.
@@ -318,12 +189,12 @@ export function safetyFactorSpec(rows: readonly SafetyFactorRow[]): Spec | null 
   const values = shown.map((r) => ({
     label: r.shortLabel,
     value: Math.min(r.value as number, cap),
-    text: `${r.valueText}${r.limit === null ? '' : `  (min ${r.limitText})`}`,
+    text: `${r.valueText}  (min ${r.limitText.replace(/^≥ /, '')})`,
     limit: r.limit,
-    status: r.status === 'below' ? 'below the minimum' : r.status === 'meets' ? 'meets the minimum' : 'no minimum recorded',
+    status: r.status === 'below' ? 'below the minimum' : r.status === 'warning' ? 'past the warning level' : 'meets the minimum',
   }));
   // The legend lists only the statuses that occur, in a fixed order and colour
-  const ALL_STATUS: readonly [string, string][] = [['meets the minimum', COLORS.ok], ['below the minimum', COLORS.bad], ['no minimum recorded', COLORS.none]];
+  const ALL_STATUS: readonly [string, string][] = [['meets the minimum', COLORS.ok], ['past the warning level', COLORS.none], ['below the minimum', COLORS.bad]];
   const present = ALL_STATUS.filter(([status]) => values.some((v) => v.status === status));
   const y = { field: 'label', type: 'nominal', title: null, sort: null, axis: { labelLimit: 200, labelFontSize: 10 } };
   return {
@@ -391,27 +262,29 @@ export async function specToSvg(spec: Spec, idPrefix: string, label: string): Pr
 }
 
 export interface ReportCharts {
-  readonly torqueFriction: string;
+  /** null when the stored trace lacks the torque entries (nothing is drawn that the revision's engine did not record) */
+  readonly torqueFriction: string | null;
   readonly column: string | null;
   readonly safetyFactors: string | null;
 }
 
 /** The report's three charts for one revision, rendered fresh each time. */
-export async function renderReportCharts(revision: RevisionRecord, view: ReportView): Promise<ReportCharts> {
+export async function renderReportCharts(revision: RevisionRecord, view: ReportView, idPrefix = ''): Promise<ReportCharts> {
   const sfSpec = safetyFactorSpec(view.safetyFactors);
   // One chart after the other, yielding to the event loop between them: a report never holds the loop for
   // longer than one chart's layout, so /health and other requests are served in between.
-  const design = await renderDesignCharts(revision.normalized, revision.evaluation, view.unitSystem);
+  const design = await renderDesignCharts(revision.normalized, revision.evaluation, view.unitSystem, idPrefix);
   await yieldToEventLoop();
-  const safetyFactors = sfSpec ? await specToSvg(sfSpec, 'factors', 'Safety factors against their minimums') : null;
+  const safetyFactors = sfSpec ? await specToSvg(sfSpec, `${idPrefix}factors`, 'Safety factors against their minimums') : null;
   return { ...design, safetyFactors };
 }
 
 /** The torque-friction chart and the column chart of any evaluated design, saved or not (the report's own charts). */
-export async function renderDesignCharts(design: Design, e: Evaluation, system: UnitSystem): Promise<Omit<ReportCharts, 'safetyFactors'>> {
-  const curve = columnCurve(design, e);
-  const torqueFriction = await specToSvg(torqueFrictionSpec(torqueFrictionSweep(design, e), system), 'torque', 'Torque against thread friction');
+export async function renderDesignCharts(design: Design, e: Evaluation, system: UnitSystem, idPrefix = ''): Promise<Omit<ReportCharts, 'safetyFactors'>> {
+  const curve = columnCurveFromTrace(e, design.load.axial);
+  const sweep = torqueSweepFromTrace(e);
+  const torqueFriction = sweep === null ? null : await specToSvg(torqueFrictionSpec(sweep, system), `${idPrefix}torque`, 'Torque against thread friction');
   await yieldToEventLoop();
-  const column = curve ? await specToSvg(columnSpec(curve, system), 'column', 'Column curve with the design point') : null;
+  const column = curve ? await specToSvg(columnSpec(curve, system), `${idPrefix}column`, 'Column curve with the design point') : null;
   return { torqueFriction, column };
 }

@@ -3,7 +3,7 @@
  * result, and the equation with the values substituted. The equations themselves, symbols and sources stay in
  * the engine's FORMULAS registry; this file only knows how to lay the numbers into them.
  */
-import type { QuantityKind } from './format';
+import type { QuantityKind } from '@leadline/presentation';
 
 /** Formatted inputs by trace symbol, e.g. { F: '28.0 kN', d_m: '29.0 mm' } */
 export type Substituted = Readonly<Record<string, string>>;

@@ -6,10 +6,10 @@ import { CheckpointsService } from '../checkpoints/checkpoints.service';
 import { APP_CONFIG, type AppConfig } from '../infra/config';
 import { Database } from '../infra/database/database.service';
 import { ProductsService } from '../products/products.service';
+import { ProblemError } from '../infra/http/problem';
 import { TS_TEXT } from '../records/chain';
+import { RecordStore, type EventRow } from '../records/record-store';
 import { ReviewsService } from '../reviews/reviews.service';
-import { RuleSetsService } from '../rules/rule-sets.service';
-import { ruleSetMinimums } from './minimums';
 import type { ReportInput } from './report-model';
 
 /** Revisions the history table lists on each side of the reported one. */
@@ -23,9 +23,9 @@ export class ReportInputService {
     private readonly calculations: CalculationsService,
     private readonly products: ProductsService,
     private readonly reviews: ReviewsService,
-    private readonly ruleSets: RuleSetsService,
     @Inject(APP_CONFIG) private readonly config: AppConfig,
     private readonly checkpoints: CheckpointsService,
+    private readonly records: RecordStore,
   ) {}
 
   async forRevision(revisionId: string): Promise<ReportInput> {
@@ -46,9 +46,10 @@ export class ReportInputService {
       ),
       // Every non-comment event (submission, decision, withdrawal: a handful), and comments up to the bound
       this.db.query<Record<string, any>>(
-        `SELECT id, product_id, seq, type, calculation_id, revision_id, actor, data, ${TS_TEXT('created_at')} AS created_at, hash, previous_hash
+        `SELECT id, product_id, seq, type, calculation_id, revision_id, actor, data, ${TS_TEXT('created_at')} AS created_at, hash, previous_hash,
+                link_version, token_id, mac
            FROM events
-          WHERE revision_id = $1
+          WHERE revision_id = $1 AND seq <= (SELECT h.seq FROM chain_heads h WHERE h.product_id = events.product_id)
             AND (type <> 'comment' OR seq IN (SELECT seq FROM events WHERE revision_id = $1 AND type = 'comment' ORDER BY seq LIMIT $2))
           ORDER BY seq`,
         [revisionId, this.config.LEADLINE_REPORT_COMMENTS],
@@ -62,9 +63,8 @@ export class ReportInputService {
     ]);
     const [from, to] = historyWindow(revision.revision);
     const states = await this.reviews.statesOfCalculation(revision.calculationId, { from, to });
-    // The minimums of the rule set this revision was judged by, on its duty (they print beside passing checks too)
-    const { thresholds } = (await this.ruleSets.get(revision.ruleSetVersion)).definition;
-    const minimums = ruleSetMinimums(thresholds, revision.normalized.duty.kind);
+    // The rules' declared checks under the rule set this revision was judged by (passing checks print their limits too)
+    const { checks } = await this.calculations.checksOf(revision);
     return {
       product: { id: product.id, code: product.code, name: product.name, description: product.description },
       calculation: { id: calculation.id, title: calculation.title },
@@ -72,7 +72,8 @@ export class ReportInputService {
       state: review.state,
       reviewer: review.decidedBy,
       decidedAt: review.decidedAt,
-      events: events.map(
+      // only links this service wrote (hash and MAC verify): a forged event is never printed as part of the record
+      events: events.filter((e) => this.records.sealedEvent(e as EventRow)).map(
         (e): ProductEvent => ({
           id: e.id, productId: e.product_id, seq: Number(e.seq), type: e.type, calculationId: e.calculation_id, revisionId: e.revision_id,
           actor: e.actor ?? null, data: e.data, createdAt: e.created_at, hash: e.hash, previousHash: e.previous_hash,
@@ -82,8 +83,12 @@ export class ReportInputService {
       history: all.map((r) => ({ id: r.id, revision: Number(r.revision), createdAt: r.created_at, verdict: r.verdict, state: states.get(r.id)!.state, author: r.author ?? null })),
       omittedHistory: Number(outside.before) + Number(outside.after) > 0 ? { before: Number(outside.before), after: Number(outside.after) } : null,
       generatedAt: now[0].now,
-      checkpoint: await this.checkpoints.signHead(revision.productId, now[0].now),
-      minimums,
+      // no checkpoint over a chain that does not verify (the report then prints none; GET /products/:id/verify names the link)
+      checkpoint: await this.checkpoints.signHead(revision.productId, now[0].now).catch((err: unknown) => {
+        if (err instanceof ProblemError && err.status === 409) return undefined;
+        throw err;
+      }),
+      checks,
     };
   }
 }

@@ -1,5 +1,5 @@
 import { FORMULAS } from '@leadline/mechanics';
-import { formatNumber } from './format';
+import { formatNumber } from '@leadline/presentation';
 import { harrowgateReportInput, harrowgateUsReportInput } from './fixtures/harrowgate.fixture';
 import { buildReportView, mathHtml, mathText } from './report-model';
 
@@ -63,11 +63,11 @@ describe('buildReportView', () => {
   });
 
   it('holds safety factors against the minimums the findings state', () => {
-    const buckling = view.safetyFactors.find((f) => f.key === 'buckling');
+    const buckling = view.safetyFactors.find((f) => f.key === 'column-buckling');
     // Euler, C = 1.2 (Shigley 9th ed. Table 4-2 recommended, fixed-pinned), E = 207 GPa, d_r = 25 mm, L = 650 mm:
     // l/k = 104, P_cr = 1.2 pi^2 E A / 104^2 = 111.3 kN, P_cr / F = 3.97 (hand arithmetic); minimum 3.5 on lifting duty (rule set 2026.12-2)
-    expect(buckling).toMatchObject({ limit: 3.5, limitText: '3.50', status: 'meets', limitFrom: 'column-buckling', valueText: '3.97' });
-    const body = view.safetyFactors.find((f) => f.key === 'bodyVonMises');
+    expect(buckling).toMatchObject({ limit: 3.5, limitText: '≥ 3.50', status: 'meets', limitFrom: 'column-buckling', valueText: '3.97' });
+    const body = view.safetyFactors.find((f) => f.key === 'screw-body-yield');
     expect(body).toMatchObject({ limit: 3, status: 'meets', limitFrom: 'screw-body-yield' }); // rule-set minimum printed beside a passing check
     const pressure = view.checks.find((c) => c.ruleId === 'nut-bearing-pressure');
     // p = F / (pi d_m h n_t) = 28 kN / (pi x 29 mm x 3 mm x 20) = 5.12 MPa (Shigley 10th ed. Eq. (8-9), hand arithmetic);
@@ -79,8 +79,11 @@ describe('buildReportView', () => {
   it('groups findings by severity with the acknowledgements from the review events', () => {
     // the fixture's findings are judge() under the default rule set: three warnings, each acknowledged at approval
     expect(view.findingGroups.map((g) => [g.severity, g.findings.length])).toEqual([['blocking', 0], ['warning', 3], ['info', 0]]);
+    // each acknowledgement as the review workflow writes it ({ finding, comment }), printed with who gave it
     expect(view.findingGroups[1].findings.map((f) => [f.ruleId, f.acknowledgedBy])).toEqual([
-      ['nut-bearing-pressure', 'Maren Lindqvist'], ['drive-torque-margin', 'Maren Lindqvist'], ['nut-engaged-threads', 'Maren Lindqvist'],
+      ['nut-bearing-pressure', 'Maren Lindqvist: accepted with the grease schedule of HLS-MM-320 6.2'],
+      ['drive-torque-margin', 'Maren Lindqvist: gear motor rated 220 N·m continuous, 330 N·m starting (supplier data sheet GM-220)'],
+      ['nut-engaged-threads', 'Maren Lindqvist: nut kept long for wear life at this rubbing speed; the first-thread check is independent of length'],
     ]);
     expect(view.findingCounts).toEqual({ blocking: 0, warning: 3, info: 0 });
   });

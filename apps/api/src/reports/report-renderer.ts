@@ -1,59 +1,16 @@
 /**
- * Renders the calculation report to HTML with Handlebars. Templates are read and compiled once per templates
- * directory and kept; the view and charts are built fresh for every report.
+ * Renders the calculation report with the service's one Handlebars environment (infra/templates.ts): a whole
+ * document, or only its body for embedding in another document (the design file, the review page), with every id
+ * prefixed and the style blocks carrying the embedding page's nonce, so no caller edits the HTML afterwards.
  */
-import { existsSync, readdirSync, readFileSync } from 'node:fs';
-import { basename, dirname, join, resolve } from 'node:path';
-import Handlebars from 'handlebars';
+import { Templates } from '../infra/templates';
 import { renderReportCharts, yieldToEventLoop, type ReportCharts } from './charts';
-import { buildReportView, CAUTION_SHORT, mathHtml, pathHtml, type ReportInput, type ReportView } from './report-model';
+import { buildReportView, CAUTION_SHORT, type ReportInput, type ReportView } from './report-model';
 
-const MAIN_TEMPLATE = join('reports', 'calculation-report.hbs');
+export { findTemplatesDir } from '../infra/templates';
 
-/** Finds the repository's templates/ folder from this file (source or dist) or the working directory. */
-export function findTemplatesDir(start: string = __dirname): string {
-  for (let dir = start; ; dir = dirname(dir)) {
-    const candidate = join(dir, 'templates');
-    if (existsSync(join(candidate, MAIN_TEMPLATE))) return candidate;
-    if (dirname(dir) === dir) break;
-  }
-  const fromCwd = resolve('templates');
-  if (existsSync(join(fromCwd, MAIN_TEMPLATE))) return fromCwd;
-  throw new Error(`templates/${MAIN_TEMPLATE} not found above ${start} or in the working directory`);
-}
-
-interface Compiled {
-  readonly report: Handlebars.TemplateDelegate<{ view: ReportView; charts: ReportCharts }>;
-}
-
-const compiledByDir = new Map<string, Compiled>();
-let compilations = 0;
-
-/** How many times templates were compiled in this process (the cache makes it one per directory). */
-export function templateCompilations(): number {
-  return compilations;
-}
-
-function compile(templatesDir: string): Compiled {
-  const cached = compiledByDir.get(templatesDir);
-  if (cached) return cached;
-  // An isolated environment: helpers and partials of other templates cannot leak in.
-  const hbs = Handlebars.create();
-  hbs.registerHelper('eq', (a: unknown, b: unknown) => a === b);
-  hbs.registerHelper('inc', (i: unknown) => Number(i) + 1);
-  // Both escape their argument before adding markup.
-  hbs.registerHelper('math', (text: unknown) => new hbs.SafeString(mathHtml(text === undefined || text === null ? '' : String(text))));
-  hbs.registerHelper('path', (text: unknown) => new hbs.SafeString(pathHtml(String(text ?? ''))));
-  const partialsDir = join(templatesDir, 'partials');
-  for (const file of readdirSync(partialsDir)) {
-    if (file.endsWith('.hbs')) hbs.registerPartial(basename(file, '.hbs'), readFileSync(join(partialsDir, file), 'utf8'));
-  }
-  const source = readFileSync(join(templatesDir, MAIN_TEMPLATE), 'utf8');
-  const compiled: Compiled = { report: hbs.compile(source, { strict: false, preventIndent: true }) };
-  compiledByDir.set(templatesDir, compiled);
-  compilations++;
-  return compiled;
-}
+/** How many templates were compiled in this process (each once per templates folder). */
+export const templateCompilations = (): number => Templates.compilations();
 
 export interface RenderedReport {
   readonly view: ReportView;
@@ -67,28 +24,44 @@ export interface ReportPdfLabels {
   readonly footerNote: string;
 }
 
+/** How a report is embedded: a prefix for its ids (and its charts' ids) and the nonce its style blocks carry. */
+export interface EmbedOptions {
+  /** Prefixed to every id and reference to one, e.g. "r2-" (letters, digits and hyphens) */
+  readonly idPrefix?: string;
+  /** The embedding page's style nonce (Content-Security-Policy style-src 'nonce-...') */
+  readonly styleNonce?: string | null;
+  /** Only the body (for a document that brings its own head and styles) */
+  readonly bodyOnly?: boolean;
+}
+
+type ReportContext = { view: ReportView; charts: ReportCharts; idPrefix: string; styleNonce: string | null };
+
 export class ReportRenderer {
-  private readonly templatesDir: string;
+  private readonly templates: Templates;
 
   constructor(options: { templatesDir?: string } = {}) {
-    this.templatesDir = options.templatesDir ?? findTemplatesDir();
-    compile(this.templatesDir);
+    this.templates = Templates.of(options.templatesDir);
+    this.templates.template('reports/calculation-report');
+    this.templates.template('report-body');
   }
 
-  /** HTML of a prepared view with its charts. */
-  renderHtml(view: ReportView, charts: ReportCharts): string {
-    return compile(this.templatesDir).report({ view, charts });
+  /** HTML of a prepared view with its charts: the whole document, or its body only. */
+  renderHtml(view: ReportView, charts: ReportCharts, options: EmbedOptions = {}): string {
+    const idPrefix = options.idPrefix ?? '';
+    if (!/^[A-Za-z0-9-]*$/.test(idPrefix)) throw new Error(`id prefix "${idPrefix}" may hold letters, digits and hyphens only`);
+    const context: ReportContext = { view, charts, idPrefix, styleNonce: options.styleNonce ?? null };
+    return this.templates.template<ReportContext>(options.bodyOnly ? 'report-body' : 'reports/calculation-report')(context);
   }
 
   /** Builds the view and charts of one revision and renders the HTML. */
-  async render(input: ReportInput): Promise<RenderedReport> {
+  async render(input: ReportInput, options: EmbedOptions = {}): Promise<RenderedReport> {
     // Each step is synchronous work; between steps the event loop serves other requests.
     await yieldToEventLoop();
     const view = buildReportView(input);
     await yieldToEventLoop();
-    const charts = await renderReportCharts(input.revision, view);
+    const charts = await renderReportCharts(input.revision, view, options.idPrefix ?? '');
     await yieldToEventLoop();
-    return { view, charts, html: this.renderHtml(view, charts) };
+    return { view, charts, html: this.renderHtml(view, charts, options) };
   }
 }
 

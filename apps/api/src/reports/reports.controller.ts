@@ -14,6 +14,15 @@ import { ReportRenderer, reportPdfLabels } from './report-renderer';
 
 const pdfQuerySchema = z.object({ paper: z.enum(['A4', 'Letter']).default('A4') });
 
+/** A page that embeds the report (the review page's frame) names its style nonce; the report's style blocks carry it. */
+export const htmlQuerySchema = z.object({
+  styleNonce: z
+    .string()
+    .regex(/^[A-Za-z0-9+/_-]{16,64}={0,2}$/, 'a style nonce is 16 to 64 base64 characters')
+    .optional()
+    .describe("the embedding page's Content-Security-Policy style nonce, put on the report's <style> blocks"),
+});
+
 /** The calculation report of a revision, as HTML and as PDF (Chromium, one browser reused). */
 @Controller('api/v1/revisions')
 export class ReportsController {
@@ -25,8 +34,9 @@ export class ReportsController {
   ) {}
 
   @Get(':id/report.html')
-  async html(@Param('id') id: string, @Res({ passthrough: true }) reply: FastifyReply) {
-    const { html } = await this.renderer.render(await this.inputs.forRevision(id));
+  async html(@Param('id') id: string, @Query() query: unknown, @Res({ passthrough: true }) reply: FastifyReply) {
+    const { styleNonce } = validate(htmlQuerySchema, query);
+    const { html } = await this.renderer.render(await this.inputs.forRevision(id), { styleNonce: styleNonce ?? null });
     // A static document: sandboxed (no script, opaque origin), nothing loaded from anywhere, never sniffed
     reply.header('content-type', 'text/html; charset=utf-8').header('content-security-policy', REPORT_CSP).header('x-content-type-options', 'nosniff');
     return html;

@@ -10,6 +10,7 @@ import { Roles } from '../identities/auth.guard';
 import { CurrentActor, CurrentRoles } from '../infra/http/actor';
 import { ProblemError, validate } from '../infra/http/problem';
 import { ProductsService } from '../products/products.service';
+import { resultPresentation } from '../reports/sections/calculation';
 import { AuditService, auditQuerySchema, changes, flatten } from './audit.service';
 import { ReviewsService } from './reviews.service';
 
@@ -29,7 +30,7 @@ export class ReviewsController {
   @HttpCode(201)
   async decide(@Param('id') id: string, @Body() body: unknown, @CurrentActor() actor: Actor, @CurrentRoles() roles: string[], @Req() req: FastifyRequest & { principal: Principal }) {
     const decided = await this.reviews.decide(id, body, actor, roles, { principal: req.principal, client: clientKey(req.ip) });
-    return { ...decided, checkpoint: this.checkpoints.afterDecision(decided.productId, decided.seq, decided.hash, decided.decidedAt) };
+    return { ...decided, checkpoint: await this.checkpoints.afterDecision(decided.productId, decided.seq, decided.hash, decided.decidedAt) };
   }
 
   /** A comment without a decision, general or on an input field or a finding. */
@@ -46,7 +47,7 @@ export class ReviewsController {
   @HttpCode(200)
   async withdraw(@Param('id') id: string, @Body() body: unknown, @CurrentActor() actor: Actor) {
     const withdrawn = await this.reviews.withdraw(id, body, actor);
-    return { ...withdrawn, checkpoint: this.checkpoints.afterDecision(withdrawn.productId, withdrawn.seq, withdrawn.hash, withdrawn.withdrawnAt) };
+    return { ...withdrawn, checkpoint: await this.checkpoints.afterDecision(withdrawn.productId, withdrawn.seq, withdrawn.hash, withdrawn.withdrawnAt) };
   }
 
   /** Revisions awaiting review, oldest first; filter by productId, calculationId, verdict, authorId. */
@@ -82,6 +83,7 @@ export class ReviewsController {
     };
     const friction = (r: typeof to) => ({ thread: r.normalized.friction.thread, collar: r.normalized.friction.collar });
     const byRule = (r: typeof to) => new Map(r.findings.map((f) => [f.ruleId, f]));
+    const [resultsFrom, resultsTo] = [results(from), results(to)];
     const a = byRule(from);
     const b = byRule(to);
     return {
@@ -90,7 +92,13 @@ export class ReviewsController {
       sameCalculation: to.calculationId === from.calculationId,
       inputs: changes(flatten(from.input), flatten(to.input)),
       frictionSources: changes(flatten(friction(from)), flatten(friction(to))),
-      results: changes(results(from), results(to)),
+      // each changed result with the report's label for its path and the kind of quantity it is (to print it with its unit)
+      // A figure one revision's engine did not compute is named as such (an earlier engine), not shown as a null value
+      results: changes(resultsFrom, resultsTo).map((c) => ({
+        ...c,
+        ...resultPresentation(c.path, to.evaluation.trace[c.path] ? to.evaluation : from.evaluation),
+        notComputed: !(c.path in resultsFrom) ? 'from' : !(c.path in resultsTo) ? 'to' : null,
+      })),
       findings: {
         added: [...b.values()].filter((f) => !a.has(f.ruleId)),
         removed: [...a.values()].filter((f) => !b.has(f.ruleId)),

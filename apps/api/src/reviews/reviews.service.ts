@@ -10,7 +10,7 @@ import { Database, PG_UNIQUE_VIOLATION, pgErrorCode, type Queryer } from '../inf
 import { ProblemError, ValidationProblem, notFound, validate } from '../infra/http/problem';
 import { checkUuid } from '../products/products.service';
 import { TS_TEXT } from '../records/chain';
-import { RecordStore, type Acting } from '../records/record-store';
+import { RecordStore, type Acting, type EventRow } from '../records/record-store';
 import { checkCommentRate } from './comment-limit';
 import { SIGNATURE_MEANING, signatureOf, type Signature } from './signature';
 
@@ -61,6 +61,7 @@ export const SUPERSEDED = (alias: string) =>
  */
 export const CLOSED = (alias: string, kind?: 'approved' | 'rejected' | 'withdrawn') =>
   `EXISTS (SELECT 1 FROM revision_closures x JOIN events xe ON xe.id = x.event_id AND xe.revision_id = x.revision_id AND xe.type = x.kind
+            JOIN chain_heads xh ON xh.product_id = xe.product_id AND xe.seq <= xh.seq
             WHERE x.revision_id = ${alias}.id${kind ? ` AND x.kind = '${kind}'` : ''})`;
 
 /** Who is deciding, and how they authenticated on this request. */
@@ -68,6 +69,12 @@ export interface SignerContext {
   principal: Principal;
   /** Client address key of the failure limiter */
   client: string;
+}
+
+/** A second decision that lost the race for the revision's one closure (its primary key). */
+function raced(err: unknown): never {
+  if (pgErrorCode(err) === PG_UNIQUE_VIOLATION) throw new ProblemError(409, 'Revision is not awaiting review', 'another decision was recorded first');
+  throw err;
 }
 
 export interface RevisionState {
@@ -111,27 +118,36 @@ export class ReviewsService {
   private async states(q: Queryer, where: string, params: unknown[]): Promise<RevisionState[]> {
     const rows = await q.query<{
       id: string; product_id: string; calculation_id: string; revision: number; author_id: string | null; findings: Finding[]; input: string;
-      closure: ReviewState | null; superseded: boolean; actor: Actor | null; decided_at: string | null; decision_data: unknown; decision_hash: string | null;
+      closure: ReviewState | null; superseded: boolean; decided_at: string | null; event: EventRow | null;
     }>(
-      // A closure counts only as the index of a decision or withdrawal event of this very revision (the chain is the
-      // record; a closure row without its event changes nothing and verify reports it). The author is the hashed one.
+      // A closure counts only as the index of a decision or withdrawal event of this very revision, at or below the
+      // chain head, whose link verifies (hash and MAC: the service wrote it); anything else changes nothing and verify
+      // reports it. The author is the hashed one.
       `SELECT r.id, r.product_id, r.calculation_id, r.revision, (r.author->>'id')::uuid AS author_id, r.findings, r.input::text AS input,
               CASE WHEN e.id IS NOT NULL THEN c.kind END AS closure,
-              ${SUPERSEDED('r')} AS superseded, e.actor, ${TS_TEXT('e.created_at')} AS decided_at, e.data AS decision_data, e.hash AS decision_hash
+              ${SUPERSEDED('r')} AS superseded, ${TS_TEXT('e.created_at')} AS decided_at,
+              CASE WHEN e.id IS NOT NULL THEN json_build_object('id', e.id, 'product_id', e.product_id, 'seq', e.seq, 'type', e.type,
+                'calculation_id', e.calculation_id, 'revision_id', e.revision_id, 'actor', e.actor, 'data', e.data,
+                'created_at', ${TS_TEXT('e.created_at')}, 'hash', e.hash, 'previous_hash', e.previous_hash, 'link_version', e.link_version,
+                'token_id', e.token_id, 'mac', e.mac) END AS event
          FROM revisions r
          LEFT JOIN revision_closures c ON c.revision_id = r.id
          LEFT JOIN events e ON e.id = c.event_id AND e.revision_id = r.id AND e.type = c.kind
+              AND e.seq <= (SELECT h.seq FROM chain_heads h WHERE h.product_id = e.product_id)
         WHERE ${where}`,
       params,
     );
-    return rows.map((r) => ({
-      id: r.id, productId: r.product_id, calculationId: r.calculation_id, revision: Number(r.revision), authorId: r.author_id,
-      findings: r.findings, input: JSON.parse(r.input),
-      state: r.closure ?? (r.superseded ? 'superseded' : 'submitted'),
-      decidedBy: r.closure ? r.actor : null,
-      decidedAt: r.decided_at,
-      signature: r.closure === 'approved' || r.closure === 'rejected' ? signatureOf(r.decision_data, r.decided_at, r.decision_hash) : null,
-    }));
+    return rows.map((r) => {
+      const closure = r.closure && r.event && this.records.sealedEvent(r.event) ? r.closure : null;
+      return {
+        id: r.id, productId: r.product_id, calculationId: r.calculation_id, revision: Number(r.revision), authorId: r.author_id,
+        findings: r.findings, input: JSON.parse(r.input),
+        state: closure ?? (r.superseded ? 'superseded' : 'submitted'),
+        decidedBy: closure ? ((r.event!.actor as Actor | null) ?? null) : null,
+        decidedAt: closure ? r.decided_at : null,
+        signature: closure === 'approved' || closure === 'rejected' ? signatureOf(r.event!.data, r.decided_at, r.event!.hash) : null,
+      };
+    });
   }
 
   /**
@@ -188,9 +204,7 @@ export class ReviewsService {
       const event = await this.records.appendEvent(q, cursor, {
         productId: rev.productId, type: kind, calculationId: rev.calculationId, revisionId: rev.id, actor,
         data: { revision: rev.revision, comment: input.comment ?? null, acknowledgements, comments, signature },
-      });
-      await this.close(q, rev.id, kind, event.id, actor);
-      await this.records.saveHead(q, rev.productId, cursor);
+      }).catch(raced);
       return {
         revisionId: rev.id, state: kind, eventId: event.id, hash: event.hash, decidedAt: event.createdAt, seq: event.seq, productId: rev.productId,
         signature: signatureOf({ signature }, event.createdAt, event.hash),
@@ -233,7 +247,6 @@ export class ReviewsService {
         productId: head.productId, type: 'comment', calculationId: head.calculationId, revisionId: head.id, actor,
         data: { revision: head.revision, text: input.text, target: input.target ?? null },
       });
-      await this.records.saveHead(q, head.productId, cursor);
       return { eventId: event.id, hash: event.hash, createdAt: event.createdAt };
     });
   }
@@ -250,20 +263,9 @@ export class ReviewsService {
       const event = await this.records.appendEvent(q, cursor, {
         productId: rev.productId, type: 'withdrawn', calculationId: rev.calculationId, revisionId: rev.id, actor,
         data: { revision: rev.revision, comment: input.comment ?? null },
-      });
-      await this.close(q, rev.id, 'withdrawn', event.id, actor);
-      await this.records.saveHead(q, rev.productId, cursor);
+      }).catch(raced);
       return { revisionId: rev.id, state: 'withdrawn', eventId: event.id, hash: event.hash, seq: event.seq, productId: rev.productId, withdrawnAt: event.createdAt };
     });
-  }
-
-  private async close(q: Queryer, revisionId: string, kind: string, eventId: string, actor: Actor): Promise<void> {
-    try {
-      await q.query(`INSERT INTO revision_closures (revision_id, kind, event_id, actor_id, created_at) VALUES ($1, $2, $3, $4, now())`, [revisionId, kind, eventId, actor.id]);
-    } catch (err) {
-      if (pgErrorCode(err) === PG_UNIQUE_VIOLATION) throw new ProblemError(409, 'Revision is not awaiting review', 'another decision was recorded first');
-      throw err;
-    }
   }
 
   /** Comment targets must name a field of the submitted input or one of the revision's findings. */

@@ -30,9 +30,12 @@ const verdictEnum = z.enum(['blocked', 'needs-acknowledgement', 'clear']);
 // null sits on the number branch: OpenAPI 3.0 allows `nullable` only beside a `type` (as in the finding schema)
 const scalar = z.union([z.number().nullable(), z.boolean(), z.string()]);
 const marginSchema = z
-  .object({ subject: z.string(), measured: z.number(), limit: z.number(), kind: z.enum(['min', 'max']), margin: z.number() })
+  .object({
+    subject: z.string(), ruleId: z.string(), label: z.string(), measured: z.number().nullable(), limit: z.number(), kind: z.enum(['min', 'max']),
+    margin: z.number().nullable(), status: z.enum(['pass', 'warning', 'fail', 'not-computed']),
+  })
   .nullable()
-  .describe('the check that meets its limit by the smallest factor (margin >= 1 meets it)');
+  .describe('the governing check: the one furthest past its limit, else the one that meets it by the smallest factor (margin >= 1 meets it)');
 const figuresSchema = z.object({ severity: z.enum(['blocking', 'warning', 'info']), measured: scalar, limit: scalar, unit: z.string().nullable(), subject: z.string().nullable() });
 
 /** The re-check's answer, as the OpenAPI document describes it. */
@@ -65,8 +68,10 @@ interface Judged {
   readonly findings: readonly Finding[];
 }
 
-const marginText = (m: CheckMargin | null) => (m === null ? null : { subject: m.subject, measured: m.measured, limit: m.limit, kind: m.kind, margin: m.margin });
-const fails = (m: CheckMargin | null) => m !== null && !(m.margin >= 1);
+const marginText = (m: CheckMargin | null) =>
+  m === null ? null : { subject: m.subject, ruleId: m.ruleId, label: m.label, measured: m.measured, limit: m.limit, kind: m.kind, margin: m.margin, status: m.status };
+// A check past its limit by the declarations' own reading (a missing value the rules block on included)
+const fails = (m: CheckMargin | null) => m !== null && m.status === 'fail';
 
 @Injectable()
 export class RecheckService {

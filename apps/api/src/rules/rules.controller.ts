@@ -29,7 +29,7 @@ export class RulesController {
   @Get()
   async list() {
     const sets = await this.ruleSets.list();
-    return { current: this.ruleSets.current().version, items: sets, rules: RULES, adoptions: await this.ruleSets.adoptions() };
+    return { current: this.ruleSets.current().version, items: sets, invalid: this.ruleSets.invalid(), rules: RULES, adoptions: await this.ruleSets.adoptions() };
   }
 
   /** Judge new submissions by this version from now on (stored revisions keep the version they were judged by). */
@@ -37,7 +37,7 @@ export class RulesController {
   @Roles('admin')
   @HttpCode(200)
   adopt(@Param('version') version: string, @Body() body: unknown, @CurrentActor() actor: Actor | null) {
-    return this.ruleSets.adopt(version, body, actor?.id ?? null);
+    return this.ruleSets.adopt(version, body, actor);
   }
 
   @Get(':version')
@@ -47,8 +47,8 @@ export class RulesController {
 
   @Post()
   @Roles('admin')
-  create(@Body() body: unknown) {
-    return this.ruleSets.create(body);
+  create(@Body() body: unknown, @CurrentActor() actor: Actor | null) {
+    return this.ruleSets.create(body, actor);
   }
 
   /** Which stored revisions would change verdict under this rule-set version (nothing is altered). */

@@ -60,7 +60,7 @@ export const DEMO_PRODUCTS = [
   {
     product: { code: 'CV-400', name: 'CV-400 scissor lift table', description: 'Fictional demo product of Corrin Vale Lifting Ltd: 1.8 t scissor lift table.' },
     calculations: [
-      // Approved before the issue 13 corrections: stored as judged then (engine 1.0.0, rule set 2026.12-1), see recorded-history.ts
+      // Approved before the corrections of rule set 2026.12-2: stored as judged then (engine 1.0.0, rule set 2026.12-1), see recorded-history.ts
       { title: 'Main lift screw', design: liftScrew, review: 'approve' as const, recorded: MAIN_LIFT_SCREW_ENGINE_1_0_0 },
       { title: 'Platform tilt screw', design: tiltScrew, review: null },
       { title: 'Fast-lift screw (proposal)', design: fastLiftScrew, review: 'reject' as const },

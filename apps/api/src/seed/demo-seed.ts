@@ -12,6 +12,7 @@ import { AccountsService } from '../identities/accounts.service';
 import { IdentitiesService, type Role } from '../identities/identities.service';
 import { APP_CONFIG, type AppConfig } from '../infra/config';
 import { Database } from '../infra/database/database.service';
+import { actingAs } from '../infra/http/actor';
 import { ProductsService } from '../products/products.service';
 import { prepareSubmission, RecordStore } from '../records/record-store';
 import { ReviewsService } from '../reviews/reviews.service';
@@ -29,17 +30,14 @@ async function openRecorded(app: INestApplicationContext, productId: string, tit
   const prepared = prepareSubmission({
     input: recorded.input, normalized: recorded.normalized, evaluation: recorded.evaluation, findings: recorded.findings,
     verdict: recorded.verdict, engineVersion: recorded.engineVersion, ruleSetVersion: recorded.ruleSetVersion,
-    note: `Demo history: judged by engine ${recorded.engineVersion} under rule set ${recorded.ruleSetVersion}, before the issue 13 corrections.`,
+    note: `Demo history: judged by engine ${recorded.engineVersion} under rule set ${recorded.ruleSetVersion}, before the corrections of rule set 2026.12-2.`,
   });
   return db.transaction(async (q) => {
     const cursor = await records.lockHead(q, productId);
     if (!cursor) throw new Error(`product ${productId} missing`);
     const calculationId = randomUUID();
-    await q.query(`INSERT INTO calculations (id, product_id, title, created_by, created_at) VALUES ($1, $2, $3, $4, $5::timestamptz)`, [
-      calculationId, productId, title, author.id, cursor.now,
-    ]);
+    // the calculation-opened link writes the calculation row too (leadline_append_event)
     await records.appendEvent(q, cursor, { productId, type: 'calculation-opened', calculationId, revisionId: null, actor: author, data: { title } });
-    await records.saveHead(q, productId, cursor);
     const revision = await records.appendRevision(q, productId, calculationId, prepared, author, cursor);
     return { calculationId, revisionId: revision.id, verdict: recorded.verdict };
   });
@@ -105,10 +103,20 @@ export async function seedDemo(app: INestApplicationContext, options: SeedOption
   const tokens = await issue(users.values());
   const checkerPassword = accounts.find((a) => a.name === 'Checking engineer (demo)')?.password;
 
-  const author: Actor = { id: users.get('Design author (demo)')!.id, name: 'Design author (demo)' };
-  const reviewer: Actor = { id: users.get('Checking engineer (demo)')!.id, name: 'Checking engineer (demo)' };
-  // The demo's decisions are signed with the checking engineer's own password, through the same check as every decision
-  const signer = { principal: { ...reviewer, roles: ['reviewer' as Role], tokenId: null, authMethod: 'password' as const }, client: 'demo seed' };
+  // the demo author acts with the token just issued to them, as through the API
+  const actingWith = async (name: string): Promise<Actor> => {
+    const principal = await identities.authenticate(tokens.find((t) => t.name === name)!.token);
+    return actingAs({ id: users.get(name)!.id, name }, principal!);
+  };
+  const author = await actingWith('Design author (demo)');
+  // The checking engineer signs in with their own password (a page session, their own credential) and signs the
+  // demo's decisions with it, through the same check as every decision
+  const checker = accounts.find((a) => a.name === 'Checking engineer (demo)');
+  const signedIn = checker ? await accountsService.signIn({ email: checker.email, password: checker.password }, 'demo seed') : null;
+  const session = signedIn ? await accountsService.resolveSession(signedIn.cookie) : null;
+  const reviewerPrincipal = session?.principal ?? (await identities.authenticate(tokens.find((t) => t.name === 'Checking engineer (demo)')!.token))!;
+  const reviewer = actingAs({ id: users.get('Checking engineer (demo)')!.id, name: 'Checking engineer (demo)' }, reviewerPrincipal);
+  const signer = { principal: reviewerPrincipal, client: 'demo seed' };
   const signature = { method: 'password', password: checkerPassword };
   const products = app.get(ProductsService);
   const calculations = app.get(CalculationsService);

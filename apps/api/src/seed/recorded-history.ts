@@ -1,5 +1,5 @@
 /**
- * Demo history: the main lift screw as it was judged and approved before the issue 13 corrections. This record was
+ * Demo history: the main lift screw as it was judged and approved before the corrections of rule set 2026.12-2. This record was
  * produced by running engine 1.0.0 and rule set 2026.12-1 exactly as they stood at commit 2da797f on the demo design
  * `liftScrew` (demo-designs.ts); the seed stores it as that revision's evaluation, so the demo shows one approved
  * revision that the corrected checks now flag (POST /api/v1/rule-sets/recheck). Invented demo data, not check data.

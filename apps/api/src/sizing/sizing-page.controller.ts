@@ -6,23 +6,14 @@
  */
 import { Controller, Get, Res } from '@nestjs/common';
 import type { FastifyReply } from 'fastify';
-import { readdirSync, readFileSync } from 'node:fs';
-import { basename, join } from 'node:path';
-import Handlebars from 'handlebars';
 import { Public } from '../identities/auth.guard';
 import { ASSET_BASE, contentSecurityPolicy } from '../pages/page-renderer';
 import { CAUTION_TEXT } from '../reports/report-model';
-import { findTemplatesDir } from '../reports/report-renderer';
+import { Templates } from '../infra/templates';
 
 /** Compiles the page once, with the pages' partials (layout, caution, sign-in). */
-export function renderSizingPage(templatesDir: string = findTemplatesDir()): string {
-  const pagesDir = join(templatesDir, 'pages');
-  const hbs = Handlebars.create();
-  const partialsDir = join(pagesDir, 'partials');
-  for (const file of readdirSync(partialsDir)) {
-    if (file.endsWith('.hbs')) hbs.registerPartial(basename(file, '.hbs'), readFileSync(join(partialsDir, file), 'utf8'));
-  }
-  const template = hbs.compile(readFileSync(join(pagesDir, 'design-sizing.hbs'), 'utf8'), { strict: true });
+export function renderSizingPage(templatesDir?: string): string {
+  const template = Templates.of(templatesDir).template<Record<string, unknown>>('pages/design-sizing');
   return template({ page: 'design-sizing', title: 'Find a screw', script: `${ASSET_BASE}design-sizing.js`, caution: CAUTION_TEXT, styleNonce: null });
 }
 

@@ -6,6 +6,7 @@ import { Injectable } from '@nestjs/common';
 import type { Finding, ReviewState } from '@leadline/contracts';
 import { z } from 'zod';
 import { Database } from '../infra/database/database.service';
+import { RecordStore, type EventRow } from '../records/record-store';
 import { validate } from '../infra/http/problem';
 import { TS_TEXT } from '../records/chain';
 import { SUPERSEDED } from '../reviews/reviews.service';
@@ -47,7 +48,10 @@ export interface MyRevision {
 
 @Injectable()
 export class MyWorkService {
-  constructor(private readonly db: Database) {}
+  constructor(
+    private readonly db: Database,
+    private readonly records: RecordStore,
+  ) {}
 
   async revisions(authorId: string, query: unknown): Promise<{ items: MyRevision[] }> {
     const q = validate(myRevisionsQuerySchema, query);
@@ -58,12 +62,18 @@ export class MyWorkService {
                 r.created_at AS created, ${TS_TEXT('r.created_at')} AS created_at, x.kind AS closure, d.actor AS decided_by,
                 ${TS_TEXT('x.created_at')} AS decided_at,
                 coalesce(x.kind, CASE WHEN ${SUPERSEDED('r')} THEN 'superseded' ELSE 'submitted' END) AS state,
+                ${SUPERSEDED('r')} AS superseded,
+                CASE WHEN d.id IS NOT NULL THEN json_build_object('id', d.id, 'product_id', d.product_id, 'seq', d.seq, 'type', d.type,
+                  'calculation_id', d.calculation_id, 'revision_id', d.revision_id, 'actor', d.actor, 'data', d.data,
+                  'created_at', ${TS_TEXT('d.created_at')}, 'hash', d.hash, 'previous_hash', d.previous_hash, 'link_version', d.link_version,
+                  'token_id', d.token_id, 'mac', d.mac) END AS decision,
                 (SELECT coalesce(json_agg(json_build_object('type', e.type, 'actor', e.actor, 'at', ${TS_TEXT('e.created_at')}, 'data', e.data) ORDER BY e.seq), '[]'::json)
                    FROM events e WHERE e.revision_id = r.id AND e.type IN ('comment', 'approved', 'rejected')
                     AND e.actor_id IS DISTINCT FROM r.author_id) AS remarks
            FROM revisions r JOIN calculations c ON c.id = r.calculation_id JOIN products p ON p.id = r.product_id
            LEFT JOIN revision_closures x ON x.revision_id = r.id
-           LEFT JOIN events d ON d.id = x.event_id
+           LEFT JOIN events d ON d.id = x.event_id AND d.revision_id = r.id AND d.type = x.kind
+                AND d.seq <= (SELECT h.seq FROM chain_heads h WHERE h.product_id = d.product_id)
           WHERE r.author_id = $1
        ) mine
        WHERE $2::text IS NULL OR state = $2
@@ -71,7 +81,12 @@ export class MyWorkService {
        LIMIT $3`,
       [authorId, q.state ?? null, q.limit],
     );
-    const items = rows.map((r): MyRevision => {
+    // as everywhere else, a closure counts only through a decision event whose link verifies (hash and MAC)
+    const sealed = rows.map((r): Record<string, any> => {
+      const closure = r.closure && r.decision && this.records.sealedEvent(r.decision as EventRow) ? r.closure : null;
+      return Object.assign(r, { closure, state: closure ?? (r.superseded ? 'superseded' : 'submitted') });
+    });
+    const items = sealed.filter((r) => !q.state || r.state === q.state).map((r): MyRevision => {
       const state = r.state as ReviewState;
       const comments: ReviewerComment[] = [];
       for (const e of (typeof r.remarks === 'string' ? JSON.parse(r.remarks) : r.remarks) as { type: string; actor: any; at: string; data: any }[]) {

@@ -7,7 +7,7 @@
  * Source (public, read): the limits of classes 7e and 7H in the open dataset adrianschlatter/threadlib,
  * design/TR.csv (commit 5c82b1a9), which cites mdmetric.com "thddat16" (ISO 2903 tables); the tolerances are each
  * row's max minus min, es = d2 max - (d - P/2). For Tr 22x8 to Tr 28x8 that file prints d3 and D4 with ac = 0.25
- * instead of ISO 2901's 0.5 (shared/reference/threads.md Sec. 7); both limits are shifted alike, so the tolerances
+ * instead of ISO 2901's 0.5; both limits are shifted alike, so the tolerances
  * taken here are unaffected and the engine applies them to its own basic profile.
  */
 /** [d, P, es, Td, Td2, Td3, TD1, TD2] in mm */

@@ -5,7 +5,8 @@
  */
 import type { Finding } from '@leadline/contracts';
 import { newtonMetres, sig, sigPair } from '../format';
-import { finding, fallsShort, type Rule, type RuleContext } from '../rule';
+import { assessCheck, type CheckDeclaration } from '../check';
+import { finding, type Rule, type RuleContext } from '../rule';
 import { brakeMinHoldingFactor } from '../rule-set';
 
 export const BRAKE_HOLDING_TORQUE_ID = 'brake-holding-torque';
@@ -14,9 +15,35 @@ const BASIS =
   'remove (T_0 = F l / (2 pi), the limit f -> 0 of the lowering torque, Juvinall & Marshek 5th ed. Eq. (10.5)), with a factor ' +
   'for lining fade, wear and the dynamic torque of stopping a moving load (default 2)';
 
-export function brakeHoldingTorque({ design, evaluation, thresholds }: RuleContext): Finding | null {
+/**
+ * Rated over zero-friction holding torque, with a brake fitted and under rule sets with the brake group: below the
+ * factor it blocks on lifting duty and warns otherwise; a brake without a stated torque warns on lifting duty.
+ */
+export const BRAKE_HOLDING_TORQUE_CHECK: CheckDeclaration = {
+  id: BRAKE_HOLDING_TORQUE_ID,
+  ruleId: BRAKE_HOLDING_TORQUE_ID,
+  label: 'Brake holding torque, T_brake / T_0 (thread friction lost)',
+  shortLabel: 'Brake holding',
+  group: 'holding',
+  quantity: 'factor',
+  limitKind: 'minimum',
+  subject: () => 'brake.ratio',
+  applies: ({ design, thresholds }) => brakeMinHoldingFactor(thresholds) !== null && design.duty.brake,
+  value: ({ design, evaluation }) => {
+    const b = evaluation.brake as RuleContext['evaluation']['brake'] | undefined;
+    const rated = design.duty.brakeTorque ?? null;
+    return rated === null || b === undefined ? null : b.ratio ?? rated / b.requiredTorque;
+  },
+  limit: ({ thresholds }) => brakeMinHoldingFactor(thresholds) as number,
+  pastLimit: ({ design }) => (design.duty.kind === 'lifting' ? 'blocking' : 'warning'),
+  missing: ({ design }) => (design.duty.kind === 'lifting' ? 'warning' : 'info'),
+};
+
+export function brakeHoldingTorque(ctx: RuleContext): Finding | null {
+  const { design, evaluation, thresholds } = ctx;
   const factor = brakeMinHoldingFactor(thresholds);
-  if (factor === null || !design.duty.brake) return null;
+  const check = assessCheck(BRAKE_HOLDING_TORQUE_CHECK, ctx);
+  if (factor === null || check === null) return null;
   const lifting = design.duty.kind === 'lifting';
   const b = evaluation.brake;
   const rated = design.duty.brakeTorque ?? null;
@@ -36,8 +63,8 @@ export function brakeHoldingTorque({ design, evaluation, thresholds }: RuleConte
         `State duty.brakeTorque (and duty.brakeLocation if it sits on the motor) so the check can be made.`,
     });
   }
-  const ratio = b.ratio ?? rated / b.requiredTorque;
-  if (!fallsShort(ratio, factor)) return null;
+  const ratio = check.value ?? Number.NaN;
+  if (check.status === 'pass') return null;
   const [m, l] = sigPair(ratio, factor);
   return finding(base, {
     severity: lifting ? 'blocking' : 'warning',
@@ -60,4 +87,5 @@ export const brakeHoldingTorqueRule: Rule = {
     "the brake's shaft blocks on lifting duty and warns otherwise; a brake without a stated torque warns on lifting duty " +
     '(information otherwise). Only in rule sets with the brake group (2026.12-2 on).',
   check: brakeHoldingTorque,
+  checks: [BRAKE_HOLDING_TORQUE_CHECK],
 };

@@ -1,5 +1,5 @@
 /**
- * brake-holding-torque (issue 13 item 10): real engine evaluations of the invented jack and fast axis, at, just above
+ * brake-holding-torque: real engine evaluations of the invented jack and fast axis, at, just above
  * and just below the factor; the missing-torque warning on lifting duty; absent from rule set 2026.12-1.
  * T_0 expected values are computed by hand from F l / (2 pi) (Shigley 10th ed., Eq. (8-4) with e = 1).
  */

@@ -1,7 +1,8 @@
 /** Column buckling of a screw in compression (Euler or J. B. Johnson, as the engine chose). */
 import type { Finding } from '@leadline/contracts';
 import { sig, sigPair } from '../format';
-import { fallsShort, type Rule, type RuleContext } from '../rule';
+import { assessCheck, type CheckDeclaration } from '../check';
+import type { Rule, RuleContext } from '../rule';
 
 export const COLUMN_BUCKLING_ID = 'column-buckling';
 const BASIS =
@@ -9,13 +10,29 @@ const BASIS =
   'fixity, crookedness and eccentricity; Shigley 9th ed. Table 4-2 restricts its recommended C to liberal factors of safety; ' +
   'Euler Eq. (4-43) and Johnson parabola, Shigley 9th ed. Sec. 4-11 ff.';
 
-export function columnBuckling({ design, evaluation, thresholds }: RuleContext): Finding | null {
+/** Only a screw in compression is a column; a factor the engine could not compute blocks (never passed silently). */
+export const COLUMN_BUCKLING_CHECK: CheckDeclaration = {
+  id: COLUMN_BUCKLING_ID,
+  ruleId: COLUMN_BUCKLING_ID,
+  label: 'Column buckling, P_cr / F',
+  shortLabel: 'Buckling',
+  group: 'column',
+  quantity: 'factor',
+  limitKind: 'minimum',
+  subject: () => 'buckling.safetyFactor',
+  applies: ({ evaluation }) => evaluation.buckling.applies,
+  value: ({ evaluation }) => evaluation.buckling.safetyFactor,
+  limit: ({ design, thresholds }) => thresholds.buckling.minSafetyFactor[design.duty.kind],
+  missing: () => 'blocking',
+};
+
+export function columnBuckling(ctx: RuleContext): Finding | null {
+  const { design, evaluation } = ctx;
   const b = evaluation.buckling;
-  if (!b.applies) return null;
-  const minimum = thresholds.buckling.minSafetyFactor[design.duty.kind];
-  const factor = b.safetyFactor ?? Number.NaN;
-  if (!fallsShort(factor, minimum)) return null;
-  const [n, limit] = sigPair(factor, minimum);
+  const check = assessCheck(COLUMN_BUCKLING_CHECK, ctx);
+  if (check === null || check.status !== 'fail') return null;
+  const minimum = check.limit;
+  const [n, limit] = sigPair(check.value ?? Number.NaN, minimum);
   const critical = b.criticalLoad === null ? 'not computable' : `${sig(b.criticalLoad / 1000)} kN`;
   return {
     ruleId: COLUMN_BUCKLING_ID,
@@ -40,4 +57,6 @@ export const columnBucklingRule: Rule = {
   basis: BASIS,
   description: 'Blocks when a compressed screw has a buckling factor P_cr / F below buckling.minSafetyFactor for the duty kind.',
   check: columnBuckling,
+  nutIndependent: true,
+  checks: [COLUMN_BUCKLING_CHECK],
 };

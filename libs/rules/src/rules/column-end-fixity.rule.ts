@@ -39,4 +39,5 @@ export const columnEndFixityRule: Rule = {
   basis: BASIS,
   description: 'Warns when a compressed screw is checked with a theoretical end-condition constant above the recommended one.',
   check: columnEndFixity,
+  nutIndependent: true,
 };

@@ -1,15 +1,34 @@
 /** Drive torque available at start against the raise torque at maximum friction, collar included. */
 import type { Finding } from '@leadline/contracts';
 import { newtonMetres, sig, sigPair } from '../format';
-import { finding, fallsShort, type Rule, type RuleContext } from '../rule';
+import { assessCheck, type CheckDeclaration } from '../check';
+import { finding, type Rule, type RuleContext } from '../rule';
 
 export const DRIVE_TORQUE_MARGIN_ID = 'drive-torque-margin';
 const BASIS =
   'common practice: torque reserve over the raise torque at maximum friction for starting friction, cold lubricant, ' +
   'supply-voltage drop and drive wear (defaults: block below 1.25, warn below 1.5)';
 
-export function driveTorqueMargin({ evaluation, thresholds }: RuleContext): Finding | null {
+/** Available over required torque at the motor; no drive given is information. */
+export const DRIVE_TORQUE_MARGIN_CHECK: CheckDeclaration = {
+  id: DRIVE_TORQUE_MARGIN_ID,
+  ruleId: DRIVE_TORQUE_MARGIN_ID,
+  label: 'Drive torque, T_av / T_R,max',
+  shortLabel: 'Drive torque',
+  group: 'drive',
+  quantity: 'factor',
+  limitKind: 'minimum',
+  subject: () => 'drive.margin',
+  applies: () => true,
+  value: ({ evaluation }) => evaluation.drive?.margin ?? null,
+  limit: ({ thresholds }) => thresholds.drive.minMargin,
+  warnLimit: ({ thresholds }) => thresholds.drive.warnMargin,
+};
+
+export function driveTorqueMargin(ctx: RuleContext): Finding | null {
+  const { evaluation, thresholds } = ctx;
   const { minMargin, warnMargin } = thresholds.drive;
+  const check = assessCheck(DRIVE_TORQUE_MARGIN_CHECK, ctx)!;
   const base = { ruleId: DRIVE_TORQUE_MARGIN_ID, unit: '-', subject: 'drive.margin', basis: BASIS } as const;
   const required = evaluation.torque.raise.atMaxFriction;
   const d = evaluation.drive;
@@ -24,8 +43,8 @@ export function driveTorqueMargin({ evaluation, thresholds }: RuleContext): Find
         `Give drive.availableTorque to check it.`,
     });
   }
-  const blocking = fallsShort(d.margin, minMargin);
-  if (!blocking && !fallsShort(d.margin, warnMargin)) return null;
+  if (check.status === 'pass') return null;
+  const blocking = check.status === 'fail';
   const limit = blocking ? minMargin : warnMargin;
   const [m, l] = sigPair(d.margin, limit);
   // Engine 1.1 on: the required torque is the peak at the motor (steady + acceleration, through the gearbox)
@@ -58,4 +77,6 @@ export const driveTorqueMarginRule: Rule = {
     'acceleration torque, through the gearbox) is below drive.minMargin, warns below drive.warnMargin; ' +
     'information when no drive is given.',
   check: driveTorqueMargin,
+  nutIndependent: true,
+  checks: [DRIVE_TORQUE_MARGIN_CHECK],
 };

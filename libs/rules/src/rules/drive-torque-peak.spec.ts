@@ -1,5 +1,5 @@
 /**
- * drive-torque-margin judges the peak torque at the motor, not the steady torque (issue 13 item 11).
+ * drive-torque-margin judges the peak torque at the motor, not the steady torque.
  * Real engine: the jack of testing/designs.ts (Tr 40x7, 20 kN, 60 rev/min) with a fast start and a gearbox.
  */
 import { RULE_SET_2026_12_2 } from '../rule-set';

@@ -37,4 +37,5 @@ export const frictionSourceAssumedRule: Rule = {
   basis: BASIS,
   description: "Warns when the thread or collar friction source kind is 'assumed'.",
   check: frictionSourceAssumed,
+  nutIndependent: true,
 };

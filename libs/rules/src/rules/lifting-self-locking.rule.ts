@@ -5,6 +5,7 @@
 import type { Finding } from '@leadline/contracts';
 import { newtonMetres, sig, sigPair } from '../format';
 import { findFrictionEntry } from '@leadline/mechanics';
+import { assessCheck, type CheckDeclaration } from '../check';
 import { finding, fallsShort, type Rule, type RuleContext } from '../rule';
 
 export const LIFTING_SELF_LOCKING_ID = 'lifting-self-locking';
@@ -21,7 +22,7 @@ const BASIS_MARGIN_LUBRICATED =
 
 /**
  * The basis of the self-locking margin for this design: the dry-to-oiled fall only applies when the range is not
- * already lubricated (issue 13 item 13). A library entry states its lubrication; a typed range says so in its reference.
+ * already lubricated. A library entry states its lubrication; a typed range says so in its reference.
  */
 export function marginBasis(design: RuleContext['design']): string {
   const f = design.friction.thread;
@@ -34,7 +35,31 @@ export function marginBasis(design: RuleContext['design']): string {
 
 const BASIS_VIBRATION = 'common practice: vibration lowers effective thread friction, so self-locking cannot be relied on';
 
-export function liftingSelfLocking({ design, evaluation, thresholds }: RuleContext): Finding | null {
+/**
+ * The numeric check of a lifting screw without a brake: the thread alone must hold the load (margin above 1; below
+ * the rule set's minimum margin it warns); under vibration it fails whatever the margin. With a brake fitted, or on
+ * other duty, self-locking is not a limit the design must meet (the rule then informs or warns only).
+ */
+export const LIFTING_SELF_LOCKING_CHECK: CheckDeclaration = {
+  id: LIFTING_SELF_LOCKING_ID,
+  ruleId: LIFTING_SELF_LOCKING_ID,
+  label: 'Self-locking margin, f_min / (cos α_n tan λ)',
+  shortLabel: 'Self-locking',
+  group: 'holding',
+  quantity: 'factor',
+  limitKind: 'minimum',
+  strict: true,
+  loadIndependent: true,
+  subject: () => 'selfLocking.margin',
+  applies: ({ design }) => design.duty.kind === 'lifting' && !design.duty.brake,
+  value: ({ evaluation }) => evaluation.selfLocking.margin,
+  limit: () => 1,
+  warnLimit: ({ thresholds }) => thresholds.selfLocking.minMargin,
+  forcedFailure: ({ design }) => (design.duty.vibration ? 'vibration without a brake: self-locking cannot be relied on' : null),
+};
+
+export function liftingSelfLocking(ctx: RuleContext): Finding | null {
+  const { design, evaluation, thresholds } = ctx;
   const { locks, margin, backDrivingTorque } = evaluation.selfLocking;
   const { kind, brake, vibration } = design.duty;
   const minMargin = thresholds.selfLocking.minMargin;
@@ -59,7 +84,8 @@ export function liftingSelfLocking({ design, evaluation, thresholds }: RuleConte
   }
 
   if (!brake) {
-    if (!locks) {
+    const check = assessCheck(LIFTING_SELF_LOCKING_CHECK, ctx)!;
+    if (check.status === 'fail' && !locks) {
       return finding(base, {
         severity: 'blocking',
         measured: margin,
@@ -71,7 +97,7 @@ export function liftingSelfLocking({ design, evaluation, thresholds }: RuleConte
         basis: `${BASIS_CONDITION}; ${BASIS_BRAKE}`,
       });
     }
-    if (vibration) {
+    if (check.status === 'fail') {
       return finding(base, {
         severity: 'blocking',
         measured: true,
@@ -84,7 +110,7 @@ export function liftingSelfLocking({ design, evaluation, thresholds }: RuleConte
         basis: `${BASIS_VIBRATION}; ${BASIS_BRAKE}`,
       });
     }
-    if (fallsShort(margin, minMargin)) {
+    if (check.status === 'warning') {
       const [m, l] = sigPair(margin, minMargin);
       return finding(base, {
         severity: 'warning',
@@ -159,4 +185,6 @@ export const liftingSelfLockingRule: Rule = {
     'self-locking margin below selfLocking.minMargin without a brake warns; not self-locking with a brake, or vibration ' +
     'with a brake, warns. Positioning and clamping duty: not self-locking is information only.',
   check: liftingSelfLocking,
+  nutIndependent: true,
+  checks: [LIFTING_SELF_LOCKING_CHECK],
 };

@@ -1,7 +1,8 @@
 /** Mean flank bearing pressure in the nut against the allowable for the nut material (wear). */
 import type { Finding } from '@leadline/contracts';
 import { mpa, percent, sig } from '../format';
-import { finding, exceeds, type Rule, type RuleContext } from '../rule';
+import { assessCheck, type CheckDeclaration } from '../check';
+import { finding, type Rule, type RuleContext } from '../rule';
 
 export const NUT_BEARING_PRESSURE_ID = 'nut-bearing-pressure';
 const BASIS =
@@ -17,9 +18,28 @@ function classNote(w: RuleContext['evaluation']['wear']): string {
   return `Allowable for the class "${w.allowablePressureClass ?? 'not known'}" (${at}; ${w.allowablePressureSource ?? 'no source'}).`;
 }
 
-export function nutBearingPressure({ evaluation, thresholds }: RuleContext): Finding | null {
+/** Mean pressure as a fraction of the allowable at the rubbing speed; no allowable on record warns. */
+export const NUT_BEARING_PRESSURE_CHECK: CheckDeclaration = {
+  id: NUT_BEARING_PRESSURE_ID,
+  ruleId: NUT_BEARING_PRESSURE_ID,
+  label: 'Nut bearing pressure over its allowable, p_b / p_allow',
+  shortLabel: 'Nut pressure',
+  group: 'wear',
+  quantity: 'fraction',
+  limitKind: 'maximum',
+  subject: () => 'wear.pressureRatio',
+  applies: () => true,
+  value: ({ evaluation }) => (evaluation.wear.allowablePressure === null ? null : evaluation.wear.pressureRatio),
+  limit: ({ thresholds }) => thresholds.wear.maxPressureRatio,
+  warnLimit: ({ thresholds }) => thresholds.wear.warnPressureRatio,
+  missing: () => 'warning',
+};
+
+export function nutBearingPressure(ctx: RuleContext): Finding | null {
+  const { evaluation, thresholds } = ctx;
   const w = evaluation.wear;
   const { maxPressureRatio, warnPressureRatio } = thresholds.wear;
+  const check = assessCheck(NUT_BEARING_PRESSURE_CHECK, ctx)!;
   const base = { ruleId: NUT_BEARING_PRESSURE_ID, unit: 'Pa', subject: 'wear.bearingPressure', basis: BASIS } as const;
   if (w.allowablePressure === null || w.pressureRatio === null) {
     return finding(base, {
@@ -34,8 +54,8 @@ export function nutBearingPressure({ evaluation, thresholds }: RuleContext): Fin
         `nut.allowablePressureBySpeed; an overloaded nut wears fast and, on lifting duty, loses thread strength.`,
     });
   }
-  const blocking = exceeds(w.pressureRatio, maxPressureRatio);
-  if (!blocking && !exceeds(w.pressureRatio, warnPressureRatio)) return null;
+  if (check.status === 'pass') return null;
+  const blocking = check.status === 'fail';
   const ratioLimit = blocking ? maxPressureRatio : warnPressureRatio;
   return finding(base, {
     severity: blocking ? 'blocking' : 'warning',
@@ -58,4 +78,5 @@ export const nutBearingPressureRule: Rule = {
     "(the nut material's speed classes, or the design's own single value at any speed), warns above wear.warnPressureRatio; " +
     'warns when no allowable is known for that speed.',
   check: nutBearingPressure,
+  checks: [NUT_BEARING_PRESSURE_CHECK],
 };

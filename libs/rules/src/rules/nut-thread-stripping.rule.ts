@@ -1,27 +1,33 @@
 /** Shear stripping of the nut threads at the screw's major diameter; without a nut yield: blocking on lifting duty, else information. */
 import type { Finding } from '@leadline/contracts';
 import { SHEAR_YIELD_RATIO } from '@leadline/mechanics';
+import { assessCheck } from '../check';
 import type { Rule, RuleContext } from '../rule';
-import { missingValueSeverityOnLifting } from '../rule-set';
-import { missingValueFinding, STRENGTH_BASIS, strengthFinding } from './strength-check';
+import { missingValueFinding, STRENGTH_BASIS, strengthDeclaration, strengthFinding } from './strength-check';
 
 export const NUT_THREAD_STRIPPING_ID = 'nut-thread-stripping';
 const FORMULA_BASIS =
   "stripping shear of the nut threads on the cylinder at the screw's major diameter (Machinery's Handbook, 'Strength of screw threads', from memory) against 0.577 S_y (Shigley 10th ed. Eq. (5-21))";
 
-export function nutThreadStripping({ design, evaluation, thresholds }: RuleContext): Finding | null {
-  const minimum = thresholds.strength.minSafetyFactor[design.duty.kind];
-  const factor = evaluation.safetyFactors.strippingNut;
-  if (factor === null || design.nut.yieldStrength === null) {
-    // Lifting duty: a check that cannot be computed for want of a value blocks (issue 13 item 12)
-    return missingValueFinding(NUT_THREAD_STRIPPING_ID, 'safetyFactors.strippingNut', "Nut thread stripping (shear at the screw's major diameter)", 'nut.yieldStrength', minimum, design.duty.kind, `${STRENGTH_BASIS}; ${FORMULA_BASIS}`, missingValueSeverityOnLifting(thresholds));
+export const NUT_THREAD_STRIPPING_CHECK = strengthDeclaration({
+  id: NUT_THREAD_STRIPPING_ID,
+  label: 'Nut thread stripping, 0.577 S_y,nut / τ_n',
+  shortLabel: 'Stripping, nut',
+  subject: 'safetyFactors.strippingNut',
+  value: ({ evaluation }) => evaluation.safetyFactors.strippingNut,
+  needsNutYield: true,
+});
+
+export function nutThreadStripping(ctx: RuleContext): Finding | null {
+  const { design, evaluation } = ctx;
+  const check = assessCheck(NUT_THREAD_STRIPPING_CHECK, ctx)!;
+  if (check.value === null || design.nut.yieldStrength === null) {
+    // Lifting duty: a check that cannot be computed for want of a value blocks (missingValues.onLifting)
+    return missingValueFinding(check, "Nut thread stripping (shear at the screw's major diameter)", 'nut.yieldStrength', design.duty.kind, `${STRENGTH_BASIS}; ${FORMULA_BASIS}`);
   }
   return strengthFinding({
-    ruleId: NUT_THREAD_STRIPPING_ID,
-    subject: 'safetyFactors.strippingNut',
+    check,
     what: "Nut thread stripping (shear at the screw's major diameter)",
-    safetyFactor: factor,
-    minimum,
     duty: design.duty.kind,
     stress: evaluation.stresses.stripping.nut,
     strength: SHEAR_YIELD_RATIO * design.nut.yieldStrength,
@@ -39,4 +45,5 @@ export const nutThreadStrippingRule: Rule = {
     'Blocks when the nut-thread stripping factor of safety is below strength.minSafetyFactor for the duty kind; ' +
     'without a nut yield strength it blocks on lifting duty (missingValues.onLifting, 2026.12-2) and is information otherwise.',
   check: nutThreadStripping,
+  checks: [NUT_THREAD_STRIPPING_CHECK],
 };

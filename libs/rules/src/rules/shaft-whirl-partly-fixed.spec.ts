@@ -1,6 +1,6 @@
 /**
- * shaft-whirl-speed with the partly fixed critical speed (issue 13 item 9): the lower of the two speeds governs.
- * Real engine evaluations; check speeds from /work/shared/reference/columns-and-speed.md Sec. 3.3 (d_r = 32 mm, L = 1500 mm,
+ * shaft-whirl-speed with the partly fixed critical speed: the lower of the two speeds governs.
+ * Real engine evaluations; check speeds from Thomson, Theory of Vibration with Applications, Sec. 9.5 frequency factors (d_r = 32 mm, L = 1500 mm,
  * steel): classical fixed-fixed 3900.8 rev/min, partly fixed 1.2 x 1720.8 = 2065 rev/min (hand arithmetic).
  */
 import type { DesignInput } from '@leadline/contracts';

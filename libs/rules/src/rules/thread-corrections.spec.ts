@@ -1,8 +1,8 @@
 /**
- * Rules of the issue 13 corrections through the real engine: the nut's own threads (item 5), a missing value on
+ * Rules of the corrections of rule set 2026.12-2 through the real engine: the nut's own threads (item 5), a missing value on
  * lifting duty (item 12), nut pressure against rubbing speed (item 1) and the two messages of item 13.
  * Check values are worked by hand from the named equations with the reference jack's numbers (Tr 40x7: d_m 36.5,
- * D4 41 mm, ISO 2901 basic profile, shared/reference/threads.md Sec. 1.2).
+ * D4 41 mm, ISO 2901 basic profile).
  */
 import { judge } from '../judge';
 import { RULE_SET_2026_12_1, DEFAULT_RULE_SET } from '../rule-set';
@@ -45,7 +45,7 @@ describe("nut-thread-root-yield (the nut's own threads)", () => {
   });
 });
 
-describe('a strength check that cannot be computed (issue 13 item 12)', () => {
+describe('a strength check that cannot be computed', () => {
   const iron: DesignInput = { ...JACK_INPUT, nut: { length: '56 mm', material: 'cast-iron' } };
 
   it('on lifting duty a nut without a yield strength blocks, naming nut.yieldStrength, in both nut checks', () => {
@@ -108,7 +108,7 @@ describe('nut-bearing-pressure against rubbing speed (Shigley 9th ed. Table 8-4 
   });
 });
 
-describe('messages (issue 13 item 13)', () => {
+describe('messages', () => {
   it('a long nut that the wear check needs is not advised to be shorter', () => {
     // 40 kN on the jack with an 84 mm nut (12 threads): with 10 threads the pressure would be above 80 % of 11.0 MPa
     const e = evaluated({ ...JACK_INPUT, load: { axial: '40 kN', sense: 'compression' }, nut: { length: '84 mm', material: 'aluminum-bronze' } });

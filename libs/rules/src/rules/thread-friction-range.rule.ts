@@ -40,4 +40,5 @@ export const threadFrictionRangeRule: Rule = {
   basis: BASIS,
   description: 'Warns when the thread friction min equals max, or max/min is below friction.minThreadSpreadRatio.',
   check: threadFrictionRange,
+  nutIndependent: true,
 };

@@ -1,7 +1,7 @@
 /**
  * Test support only (not exported from the package): realistic invented designs, evaluated by the real
  * engine, for the rule specs. Material and friction values come from the engine's libraries, whose
- * sources are in /work/shared/reference/friction-and-materials.md:
+ * sources are:
  *  - thread friction "thread/steel-bronze/oil" 0.10-0.16: Shigley 9th ed. Table 8-5 (after Rothbart & Brown);
  *  - collar friction "collar/hard-steel-bronze" 0.06-0.08: Shigley 9th ed. Table 8-6;
  *  - nut "bronze": allowable by rubbing speed, Shigley Table 8-4 (from memory): 1600 psi = 11.0 MPa up to 10 ft/min

@@ -1,9 +1,9 @@
 /**
  * Migrations and least privilege on PostgreSQL. The migrations run as the owner role
  * (LEADLINE_MIGRATION_DATABASE_URL, default DATABASE_URL); afterwards the runtime role the service connects as is
- * granted SELECT and INSERT on every table and EXECUTE on the functions, nothing else: without ownership it cannot
- * ALTER, DROP, TRUNCATE or disable a trigger, and without UPDATE it moves chain heads only through the SECURITY
- * DEFINER functions of migrations/20261202100100. The grants are repeated on every start, so tables added by later
+ * granted SELECT and EXECUTE on the functions, and INSERT only where no record lives (RUNTIME_INSERT_TABLES): without
+ * ownership it cannot ALTER, DROP, TRUNCATE or disable a trigger, and it writes records, identities and rule sets
+ * only through the SECURITY DEFINER functions of migrations/20261204230000. The grants are repeated on every start, so tables added by later
  * migrations are covered too.
  */
 import { Logger } from '@nestjs/common';
@@ -52,15 +52,42 @@ export async function migrateServer(config: MigrationConfig, logger = new Logger
   }
 }
 
-/** SELECT and INSERT on the record tables, EXECUTE on the chain functions; everything else revoked. */
-export async function grantRuntime(q: { query(sql: string): Promise<unknown> }, role: string): Promise<void> {
+/**
+ * SELECT on the tables (tokens without token_hash, sessions without secret_hash and seal_key), INSERT on idempotency_keys only, EXECUTE on the functions;
+ * everything else revoked. Every record, identity and rule row is written by the SECURITY DEFINER functions of
+ * migrations/20261204230000, which check the acting credential and the invariants (docs/reliability.md, "Threat model").
+ */
+export async function grantRuntime(q: { query(sql: string, params?: unknown[]): Promise<unknown> }, role: string): Promise<void> {
   const r = ident(role);
   await q.query(`GRANT USAGE ON SCHEMA public TO ${r}`);
   await q.query(`REVOKE ALL ON ALL TABLES IN SCHEMA public FROM ${r}`);
-  await q.query(`GRANT SELECT, INSERT ON ALL TABLES IN SCHEMA public TO ${r}`);
+  await q.query(`GRANT SELECT ON ALL TABLES IN SCHEMA public TO ${r}`);
   await q.query(`REVOKE ALL ON ${MIGRATIONS_TABLE} FROM ${r}`);
+  // a token row's hash and a session's secret hash are what the functions accept as a credential: the runtime role may not read them
+  for (const [table, hidden] of Object.entries(HIDDEN_COLUMNS)) {
+    await q.query(`REVOKE SELECT ON ${table} FROM ${r}`);
+    const columns = (await q.query(
+      `SELECT column_name FROM information_schema.columns WHERE table_schema = 'public' AND table_name = $1 AND NOT (column_name = ANY ($2::text[])) ORDER BY ordinal_position`,
+      [table, hidden],
+    )) as { column_name: string }[];
+    if (columns.length) await q.query(`GRANT SELECT (${columns.map((c) => ident(c.column_name)).join(', ')}) ON ${table} TO ${r}`);
+  }
+  for (const table of RUNTIME_INSERT_TABLES) await q.query(`GRANT INSERT ON ${table} TO ${r}`);
   await q.query(`GRANT EXECUTE ON ALL FUNCTIONS IN SCHEMA public TO ${r}`);
+  // helpers the record functions call with the owner's rights; called directly they would write without the checks
+  for (const fn of INTERNAL_FUNCTIONS) {
+    if (((await q.query(`SELECT to_regprocedure($1) AS f`, [fn])) as { f: string | null }[])[0]?.f) await q.query(`REVOKE EXECUTE ON FUNCTION ${fn} FROM ${r}`);
+  }
 }
+
+/** Columns the runtime role may not read: the stored credentials (and a session's seal key, which makes its cookies). */
+export const HIDDEN_COLUMNS: Readonly<Record<string, readonly string[]>> = { tokens: ['token_hash'], sessions: ['secret_hash', 'seal_key'] };
+
+/** Functions only the record functions call (migrations/20261204230200). */
+export const INTERNAL_FUNCTIONS = ['leadline_ledger_next(text, bigint, text, text, text)', 'leadline_put_identity_events(uuid, uuid, jsonb)'];
+
+/** Tables the runtime role inserts into directly: none of them is a record, identity or rule table. */
+export const RUNTIME_INSERT_TABLES = ['idempotency_keys'];
 
 /** Warns when the service's own connection is a superuser or owns the record tables (it could then rewrite them). */
 export async function warnIfPrivileged(q: { query(sql: string): Promise<{ superuser: boolean; owner: boolean }[]> }, logger = new Logger('database')): Promise<void> {

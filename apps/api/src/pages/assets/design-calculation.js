@@ -4,7 +4,7 @@
  */
 import { api } from './lib-api.js';
 import { $, el, pathId } from './lib-dom.js';
-import { badge, countFindings, findingCounts, sig, STATES, time, VERDICTS } from './lib-format.js';
+import { badge, countFindings, findingCounts, quantity, sig, STATES, time, verdictBadge } from './lib-format.js';
 import { clearProblem, showProblem } from './lib-problem.js';
 import { currentUser, startPage } from './lib-session.js';
 
@@ -21,6 +21,16 @@ function show(value) {
   if (value === null || value === undefined) return el('span', { class: 'muted' }, '(not given)');
   if (typeof value === 'number') return Number.isInteger(value) ? String(value) : sig(value);
   return String(value);
+}
+
+/**
+ * A result of one revision as the report prints it: with its unit in the design's system (efficiencies in per cent),
+ * or "not computed by engine X" where that revision's engine did not compute it.
+ */
+function showResult(value, kind, revision, system, missing) {
+  if (missing) return el('span', { class: 'muted' }, 'not computed by engine ' + revision.engineVersion);
+  if (typeof value === 'number' && kind) return quantity(value, kind, system);
+  return show(value);
 }
 
 function changedMark(changed) {
@@ -45,11 +55,13 @@ function renderComparison(diff, from, to) {
       return f.severity + ' ' + f.ruleId;
     }).join(', ') || 'none';
   };
+  // Every row compares its two values: a row is "Changed" exactly when they differ
   const vRows = [
-    ['Verdict of the rules', badge('verdict', from.verdict, VERDICTS), badge('verdict', to.verdict, VERDICTS), from.verdict !== to.verdict],
-    ['Review state', badge('state', from.review.state, STATES), badge('state', to.review.state, STATES), false],
+    ['Verdict of the rules', verdictBadge(from.verdict, from.review.state), verdictBadge(to.verdict, to.review.state), from.verdict !== to.verdict],
+    ['Review state', badge('state', from.review.state, STATES), badge('state', to.review.state, STATES), from.review.state !== to.review.state],
     ['Findings', findingCounts(countFindings(from.findings)), findingCounts(countFindings(to.findings)), diff.findings.added.length + diff.findings.removed.length + diff.findings.changed.length > 0],
-    ['Findings by rule', findingText(from), findingText(to), false],
+    ['Findings by rule', findingText(from), findingText(to), findingText(from) !== findingText(to)],
+    ['Engine and rule set', from.engineVersion + ' · ' + from.ruleSetVersion, to.engineVersion + ' · ' + to.ruleSetVersion, from.engineVersion !== to.engineVersion || from.ruleSetVersion !== to.ruleSetVersion],
     ['Added findings', '', diff.findings.added.map(function (f) { return f.severity + ' ' + f.ruleId + ': ' + f.message; }).join('; ') || 'none', diff.findings.added.length > 0],
     ['Removed findings', diff.findings.removed.map(function (f) { return f.severity + ' ' + f.ruleId + ': ' + f.message; }).join('; ') || 'none', '', diff.findings.removed.length > 0],
   ];
@@ -69,9 +81,13 @@ function renderComparison(diff, from, to) {
   }));
 
   const results = $('compare-results');
-  head(results, ['Result (SI units)', a, b, 'Relative change']);
+  const system = to.normalized && to.normalized.unitSystem === 'US' ? 'US' : 'SI';
+  head(results, ['Result (' + (system === 'US' ? 'US customary' : 'SI') + ' units)', a, b, 'Relative change']);
   results.tBodies[0].replaceChildren(...(diff.results.length ? diff.results.map(function (c) {
-    return el('tr', { class: 'changed', 'data-path': c.path }, el('th', { scope: 'row' }, el('code', {}, c.path)), el('td', {}, show(c.from)), el('td', {}, show(c.to)), el('td', {}, el('span', { class: 'changed-mark' }, 'Changed'), c.relativeChange === undefined ? '' : ' ' + (c.relativeChange > 0 ? '+' : '') + sig(c.relativeChange * 100) + ' %'));
+    return el('tr', { class: 'changed', 'data-path': c.path },
+      el('th', { scope: 'row' }, c.label || c.path, el('br'), el('code', { class: 'muted small' }, c.path)),
+      el('td', {}, showResult(c.from, c.quantity, from, system, c.notComputed === 'from')), el('td', {}, showResult(c.to, c.quantity, to, system, c.notComputed === 'to')),
+      el('td', {}, el('span', { class: 'changed-mark' }, 'Changed'), c.relativeChange === undefined ? '' : ' ' + (c.relativeChange > 0 ? '+' : '') + sig(c.relativeChange * 100) + ' %'));
   }) : [el('tr', {}, el('td', { colspan: 4 }, 'No result changed.'))]));
   $('comparison').hidden = false;
 }
@@ -105,7 +121,7 @@ async function calculationPage() {
         { 'data-revision': r.id },
         el('td', { class: 'num' }, r.revision),
         el('td', {}, badge('state', r.review.state, STATES)),
-        el('td', {}, badge('verdict', r.verdict, VERDICTS)),
+        el('td', {}, verdictBadge(r.verdict, r.review.state)),
         el('td', {}, findingCounts(countFindings(r.findings), true)),
         el('td', {}, r.author ? r.author.name : '–'),
         el('td', { class: 'note' }, r.note || ''),

@@ -1,7 +1,7 @@
 /* My work (/design/my-work): the signed-in author's revisions by review state; withdraw while awaiting review. */
 import { api } from './lib-api.js';
 import { $, el } from './lib-dom.js';
-import { badge, findingCounts, STATES, time, VERDICTS } from './lib-format.js';
+import { badge, findingCounts, STATES, time, verdictBadge } from './lib-format.js';
 import { showProblem } from './lib-problem.js';
 import { startPage } from './lib-session.js';
 
@@ -19,7 +19,7 @@ function item(r, reload) {
       ' ',
       badge('state', r.state, STATES),
       ' ',
-      badge('verdict', r.verdict, VERDICTS),
+      verdictBadge(r.verdict, r.state),
       ' ',
       findingCounts(r.findings, true),
     ),

@@ -1,7 +1,7 @@
 /* One product (/design/products/:id): its calculations with the latest revision, state and verdict; the design file. */
 import { api, download } from './lib-api.js';
 import { $, el, fillTable, pathId } from './lib-dom.js';
-import { badge, STATES, time, VERDICTS } from './lib-format.js';
+import { badge, STATES, time, verdictBadge } from './lib-format.js';
 import { showProblem } from './lib-problem.js';
 import { startPage } from './lib-session.js';
 
@@ -34,7 +34,7 @@ async function productPage() {
           el('td', {}, el('a', { href: '/design/calculations/' + encodeURIComponent(row.calculation.id), class: 'strong' }, row.calculation.title)),
           el('td', { class: 'num' }, r ? r.revision : '–'),
           el('td', {}, r ? badge('state', r.review.state, STATES) : '–'),
-          el('td', {}, r ? badge('verdict', r.verdict, VERDICTS) : '–'),
+          el('td', {}, r ? verdictBadge(r.verdict, r.review.state) : '–'),
           el('td', {}, r && r.author ? r.author.name : '–'),
           el('td', { class: 'nowrap' }, r ? time(r.createdAt) : ''),
         );

@@ -7,23 +7,41 @@ import { el } from './lib-dom.js';
 import { badge, countFindings, findingCounts, percent, quantity, sig, VERDICTS } from './lib-format.js';
 import { renderFindings } from './lib-findings.js';
 
-const CHECKS = {
-  bodyVonMises: 'screw body (von Mises)',
-  firstThreadRoot: 'first engaged thread root',
-  strippingScrew: 'screw thread stripping',
-  strippingNut: 'nut thread stripping',
-  nutThreadRoot: 'nut thread root (bending and shear)',
-  buckling: 'column buckling',
-};
-
-/** The strength or stability check with the lowest safety factor: { key, label, value } or null. */
-export function lowestSafetyFactor(factors) {
+/**
+ * The strength check with the lowest factor among the answer's `checks` (the rules' declarations, as the API
+ * answers them; the report's summary takes the same one), or null.
+ */
+export function lowestStrengthCheck(checks) {
   let lowest = null;
-  for (const [key, value] of Object.entries(factors || {})) {
-    if (value === null || value === undefined || !CHECKS[key]) continue;
-    if (!lowest || value < lowest.value) lowest = { key: key, label: CHECKS[key], value: value };
+  for (const c of checks || []) {
+    if (c.group !== 'strength' || c.value === null) continue;
+    if (!lowest || c.value < lowest.value) lowest = c;
   }
   return lowest;
+}
+
+/** A check's value or limit as printed: a factor with significant figures, a share of an allowable in per cent. */
+function checkFigure(c, x) {
+  return c.quantity === 'fraction' ? percent(x) : sig(x);
+}
+
+const CHECK_STATUS_WORDS = { pass: 'within the limit', warning: 'past the warning level', fail: 'PAST the limit', 'not-computed': 'not computed' };
+
+/** The governing check: its value, what it is, its limit and its status in words. */
+function governingRow(g) {
+  if (!g) return row('Governing check', 'no check has a value');
+  const limit = (g.limitKind === 'minimum' ? 'at least ' : 'at most ') + checkFigure(g, g.limit);
+  const words = g.note ? 'FAILS: ' + g.note : CHECK_STATUS_WORDS[g.status];
+  return row('Governing check', [value('governing-value', g.value === null ? 'not computed' : checkFigure(g, g.value)), ' — ', value('governing-check', g.label)], 'limit ' + limit,
+    el('span', { class: g.status === 'pass' ? 'ok-word' : 'bad-word' }, words));
+}
+
+/** What a lowering torque's sign means, said only for the signs present. */
+function loweringNote(t) {
+  const negative = t.atMinFriction < 0 || t.atMaxFriction < 0;
+  const positive = t.atMinFriction >= 0 || t.atMaxFriction >= 0;
+  if (negative && positive) return 'a negative value: the load drives the screw back; positive: torque is needed to lower';
+  return negative ? 'negative: the load drives the screw back' : 'positive: torque is needed to lower';
 }
 
 function value(figure, text) {
@@ -47,19 +65,20 @@ export function renderResults(panel, e, system) {
     return quantity(si, kind, system);
   };
   panel.verdict.replaceChildren('Verdict of the rules: ', badge('verdict', e.verdict, VERDICTS), ' ', findingCounts(countFindings(e.findings)), el('span', { class: 'muted small' }, ' · rule set ' + e.ruleSetVersion + ' · engine ' + e.engineVersion));
-  const lowest = lowestSafetyFactor(e.safetyFactors);
+  const lowest = lowestStrengthCheck(e.checks);
   const w = e.wear;
   const rows = [
     row('Raising torque (thread + collar)', [value('raise-min', q(e.torque.raise.atMinFriction, 'torque')), ' at lowest friction; ', value('raise-max', q(e.torque.raise.atMaxFriction, 'torque')), ' at highest']),
-    row('Lowering torque (thread + collar)', [value('lower-min', q(e.torque.lower.atMinFriction, 'torque')), ' at lowest friction; ', value('lower-max', q(e.torque.lower.atMaxFriction, 'torque')), ' at highest'], 'negative: the load drives the screw back'),
+    row('Lowering torque (thread + collar)', [value('lower-min', q(e.torque.lower.atMinFriction, 'torque')), ' at lowest friction; ', value('lower-max', q(e.torque.lower.atMaxFriction, 'torque')), ' at highest'], loweringNote(e.torque.lower)),
     row('Efficiency', [value('efficiency-min', percent(e.efficiency.atMinFriction)), ' at lowest friction; ', value('efficiency-max', percent(e.efficiency.atMaxFriction)), ' at highest']),
     row('Self-locking (thread, lowest friction)', [value('locking-margin', sig(e.selfLocking.margin)), ' margin f / (cos αₙ tan λ)'], 'locks above 1', status(e.selfLocking.locks, 'locks', 'does NOT lock')),
-    row('Lowest safety factor', lowest ? [value('lowest-factor', sig(lowest.value)), ' — ', value('lowest-check', lowest.label)] : 'none computed'),
+    governingRow(e.governing),
+    row('Lowest strength safety factor', lowest ? [value('lowest-factor', sig(lowest.value)), ' — ', value('lowest-check', lowest.label)] : 'none computed', lowest ? 'minimum ' + sig(lowest.limit) : ''),
     row('Buckling safety factor', e.buckling.applies ? [value('buckling-factor', sig(e.buckling.safetyFactor)), e.buckling.regime ? ' (' + e.buckling.regime + ' column)' : ''] : value('buckling-factor', 'does not apply (screw in tension)')),
     row('Whirl (critical speed)', [value('critical-speed', sig(e.criticalSpeed.rpm) + ' rpm'), ' critical; operating / critical = ', value('speed-ratio', e.criticalSpeed.ratio === null ? 'no speed given' : sig(e.criticalSpeed.ratio))]),
     ...partlyFixedRows(e.criticalSpeed.partlyFixed),
     row('Nut bearing pressure', value('nut-pressure', q(w.bearingPressure, 'pressure')), w.allowablePressure === null ? 'no allowable given' : ['allowable ', value('nut-pressure-allowable', q(w.allowablePressure, 'pressure')), ...allowableClass(w)], w.pressureRatio === null ? status(null) : status(w.pressureRatio <= 1, 'within the allowable', 'ABOVE the allowable')),
-    row('Nut pV', value('nut-pv', w.pv === null ? 'no speed given' : q(w.pv, 'pv')), w.allowablePv === null ? 'no allowable given' : ['allowable ', value('nut-pv-allowable', q(w.allowablePv, 'pv'))], w.pvRatio === null ? status(null) : status(w.pvRatio <= 1, 'within the allowable', 'ABOVE the allowable')),
+    row('Nut pV', value('pv', w.pv === null ? 'no speed given' : q(w.pv, 'pv')), w.allowablePv === null ? 'no allowable given' : ['allowable ', value('pv-allowable', q(w.allowablePv, 'pv'))], w.pvRatio === null ? status(null) : status(w.pvRatio <= 1, 'within the allowable', 'ABOVE the allowable')),
     row('Drive margin', e.drive ? [value('drive-margin', sig(e.drive.margin)), ' = available / required'] : value('drive-margin', 'no drive torque given'), e.drive ? ['required ', value('drive-required', q(e.drive.requiredTorque, 'torque')), driveBasis(e.drive), ', available ', q(e.drive.availableTorque, 'torque')] : ''),
   ];
   if (e.brake) rows.push(brakeRow(e.brake, e.drive, q));

@@ -113,10 +113,15 @@ function fieldFor(path) {
 const RULE_TITLES = {};
 
 /** "1.31 against ≥ 1" / "0.62 against ≤ 1": a check's value and its blocking limit, in words. */
-function governingText(g) {
+function governingText(g, checks) {
   if (!g) return el('span', { class: 'muted' }, 'no numeric check applies');
   const against = (g.limitKind === 'minimum' ? 'at least ' : 'at most ') + sig(g.limit);
-  return el('span', {}, el('strong', {}, g.check), ' ', sig(g.value), ' (limit ' + against + ')', el('span', { class: 'muted' }, ' · ' + g.ruleId));
+  // Checks past their warning level are named beside the governing one: the row's warning comes from them
+  const warned = (checks || []).filter(function (c) { return c.status === 'warning' && c.id !== g.id; });
+  const warnings = warned.length === 0 ? [] : [el('span', { class: 'muted' }, ' · warning: ' + warned.map(function (c) {
+    return c.shortLabel + (c.value === null ? ' not computed' : ' ' + sig(c.value) + ' (warning level ' + sig(c.warnLimit) + ')');
+  }).join('; '))];
+  return el.apply(null, ['span', {}, el('strong', {}, g.label), ' ', sig(g.value), ' (limit ' + against + ')', el('span', { class: 'muted' }, ' · ' + g.ruleId)].concat(warnings));
 }
 
 function renderAnswer(answer, onOpen) {
@@ -141,7 +146,7 @@ function renderAnswer(answer, onOpen) {
         el('td', { class: 'num' }, c.starts),
         el('td', { class: 'nowrap' }, c.nutLength),
         el('td', {}, badge('verdict', c.verdict, VERDICTS)),
-        el('td', { class: 'governing' }, governingText(c.governing)),
+        el('td', { class: 'governing' }, governingText(c.governing, c.checks)),
         el('td', { class: 'num nowrap' }, quantity(f.raiseTorque, 'torque', 'SI')),
         el('td', { class: 'num' }, percent(f.efficiency)),
         el('td', { class: 'num' }, sig(f.lowestStrengthSafetyFactor), el('span', { class: 'muted' }, ' ' + f.lowestStrengthCheck)),

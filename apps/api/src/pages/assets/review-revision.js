@@ -1,30 +1,19 @@
 /* One revision under review (/review/revisions/:id): header, report frame, findings, decision form. */
 import { api, download } from './lib-api.js';
 import { $, el, pathId } from './lib-dom.js';
-import { badge, STATES, time, VERDICTS } from './lib-format.js';
+import { badge, STATES, time, verdictBadge } from './lib-format.js';
 import { renderFindings, sortedFindings } from './lib-findings.js';
 import { clearProblem, showProblem } from './lib-problem.js';
 import { currentUser, startPage } from './lib-session.js';
 
 /**
  * The report goes into a sandboxed frame (no scripts, opaque origin) through srcdoc, which inherits this page's
- * policy. Its <style> blocks get this response's style nonce, and its few style attributes (column widths)
- * become rules of one more nonce'd block, so the report looks as it does on its own. The text is edited rather
- * than parsed because a parsed document would inherit the policy too and report every style attribute as a
- * violation; the report is the service's own escaped output, so a literal `<style` or `style="` can only be markup.
+ * policy. The service renders it for this page: its style blocks carry this response's style nonce and it has no
+ * style attributes, so it is shown exactly as served.
  */
-function reportDocument(html) {
+function styleNonce() {
   const meta = document.querySelector('meta[name="leadline-style-nonce"]');
-  const nonce = meta ? meta.content : '';
-  const rules = [];
-  return html
-    .replace(/\sstyle="([^"]*)"/g, function (_attr, declarations) {
-      if (/[<>{}]/.test(declarations)) return '';
-      rules.push('[data-ll-style="' + rules.length + '"]{' + declarations + '}');
-      return ' data-ll-style="' + (rules.length - 1) + '"';
-    })
-    .replace(/<\/head>/i, '<style>' + rules.join('\n') + '</style></head>')
-    .replace(/<style(?=[\s>])/gi, '<style nonce="' + nonce + '"');
+  return meta ? meta.content : '';
 }
 
 function fact(list, term, value) {
@@ -43,7 +32,7 @@ function renderHeader(rev, product, calculation) {
   if (rev.review.decidedBy) state.append(' by ' + rev.review.decidedBy.name + ' at ' + time(rev.review.decidedAt) + ' UTC');
   if (rev.review.signature) state.append('; signed: ' + rev.review.signature.meaning + ', ' + rev.review.signature.signedAt + ', by ' + rev.review.signature.method + ' (signature ' + rev.review.signature.fingerprint + ')');
   fact(facts, 'Review state', state);
-  fact(facts, 'Verdict of the rules', badge('verdict', rev.verdict, VERDICTS));
+  fact(facts, 'Verdict of the rules', verdictBadge(rev.verdict, rev.review.state));
   fact(facts, 'Author', rev.author ? rev.author.name : '–');
   fact(facts, 'Submitted', time(rev.createdAt) + ' UTC');
   fact(facts, 'Engine · rule set', rev.engineVersion + ' · ' + rev.ruleSetVersion);
@@ -219,7 +208,7 @@ async function revisionPage() {
       download(base + '/report.pdf', loaded.product.code + '-rev' + rev.revision + '.pdf', $('download-status'));
     });
     const frame = $('report-frame');
-    frame.srcdoc = reportDocument(await api(base + '/report.html', { as: 'text', accept: 'text/html' }));
+    frame.srcdoc = await api(base + '/report.html?styleNonce=' + encodeURIComponent(styleNonce()), { as: 'text', accept: 'text/html' });
   } catch (err) {
     showProblem(problemSlot, err);
   }

@@ -1,4 +1,4 @@
-import { coefficient, formatQuantity, MINUS, sig, siRecord } from './format';
+import { coefficient, countOf, formatQuantity, MINUS, sig, siRecord, verdictWord } from './presentation';
 
 describe('report number formatting', () => {
   it.each([
@@ -57,5 +57,15 @@ describe('report number formatting', () => {
     expect(formatQuantity(1 / 60, 'travelSpeed', 'SI')).toBe('1.000 m/min');
     expect(formatQuantity(14.97, 'angle', 'SI')).toBe('14.97°');
     expect(formatQuantity(0.219, 'percent', 'SI')).toBe('21.9 %');
+  });
+});
+
+describe('words for states and verdicts', () => {
+  it('an approved revision with warnings reads "Warnings acknowledged", not as if it still needed acknowledgement', () => {
+    expect(verdictWord('needs-acknowledgement', 'approved')).toBe('Warnings acknowledged');
+    expect(verdictWord('needs-acknowledgement', 'submitted')).toBe('Needs acknowledgement');
+    expect(verdictWord('blocked', 'rejected')).toBe('Blocked');
+    expect(countOf(1, 'warning')).toBe('1 warning');
+    expect(countOf(2, 'warning')).toBe('2 warnings');
   });
 });

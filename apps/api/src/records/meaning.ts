@@ -1,0 +1,113 @@
+/**
+ * What a chain must mean, checked link by link in chain order (verify streams the links through `MeaningState`):
+ * a revision's stored verdict follows from its stored findings and names a stored, valid rule set; a decision obeys the
+ * review rules as they stood at its link: the decided revision is earlier in the chain, is the latest revision of its
+ * calculation and undecided, the decider holds the reviewer role, is no admin, is not the author and did not act with
+ * a token the author issued, and an approval has no blocking finding and acknowledges every warning; a withdrawal is
+ * the author's, of the latest undecided revision. The same rules the service and the database functions enforce when
+ * the links are written (reviews/reviews.service.ts, migrations/20261204230000); pure, no I/O.
+ */
+import type { Finding, Verdict } from '@leadline/contracts';
+
+/** The verdict a list of findings gives: blocked by any blocking finding, else needs-acknowledgement by any warning. */
+export function verdictOf(findings: readonly Pick<Finding, 'severity'>[]): Verdict {
+  if (findings.some((f) => f.severity === 'blocking')) return 'blocked';
+  return findings.some((f) => f.severity === 'warning') ? 'needs-acknowledgement' : 'clear';
+}
+
+/** Facts from outside the chain that the rules read: users' roles, who issued a token, which rule sets are valid. */
+export interface MeaningRules {
+  rolesOf(userId: string): readonly string[] | null;
+  tokenIssuer(tokenId: string): string | null | undefined;
+  ruleSetValid(version: string): boolean;
+}
+
+interface RevisionFacts {
+  calculationId: string;
+  revision: number;
+  authorId: string | null;
+  blocking: boolean;
+  warnings: string[];
+  closed: boolean;
+}
+
+export interface MeaningLink {
+  kind: 'revision' | 'event';
+  id: string;
+  type?: string;
+  calculationId: string | null;
+  revisionId?: string | null;
+  revision?: number;
+  verdict?: string;
+  ruleSetVersion?: string;
+  /** the stored findings' JSON text (revisions) */
+  findings?: string;
+  actorId: string | null;
+  tokenId: string | null;
+  data?: unknown;
+}
+
+export class MeaningState {
+  private readonly revisions = new Map<string, RevisionFacts>();
+  private readonly latest = new Map<string, number>();
+
+  constructor(private readonly rules: MeaningRules) {}
+
+  /** The reason this link breaks the rules, or null. Links must be given in chain order. */
+  check(l: MeaningLink): string | null {
+    if (l.kind === 'revision') return this.revision(l);
+    if (l.type === 'approved' || l.type === 'rejected' || l.type === 'withdrawn') return this.closing(l);
+    return null;
+  }
+
+  private revision(l: MeaningLink): string | null {
+    let findings: Finding[];
+    try {
+      findings = JSON.parse(l.findings ?? 'null') as Finding[];
+    } catch {
+      return 'the stored findings are not JSON';
+    }
+    if (!Array.isArray(findings)) return 'the stored findings are not a list';
+    const expected = verdictOf(findings);
+    if (l.verdict !== expected) return `the stored verdict "${l.verdict}" does not follow from the stored findings (${expected})`;
+    if (!l.ruleSetVersion || !this.rules.ruleSetValid(l.ruleSetVersion)) return `the revision names rule set "${l.ruleSetVersion}", which is not stored as a valid rule set`;
+    this.revisions.set(l.id, {
+      calculationId: l.calculationId ?? '',
+      revision: l.revision ?? 0,
+      authorId: l.actorId,
+      blocking: findings.some((f) => f.severity === 'blocking'),
+      warnings: findings.filter((f) => f.severity === 'warning').map((f) => f.ruleId),
+      closed: false,
+    });
+    this.latest.set(l.calculationId ?? '', Math.max(this.latest.get(l.calculationId ?? '') ?? 0, l.revision ?? 0));
+    return null;
+  }
+
+  private closing(l: MeaningLink): string | null {
+    const rev = l.revisionId ? this.revisions.get(l.revisionId) : undefined;
+    if (!rev) return `the ${l.type} event names a revision that is not earlier in the chain`;
+    if (rev.closed) return `the ${l.type} event decides revision ${rev.revision}, which was decided or withdrawn already`;
+    if (this.latest.get(rev.calculationId) !== rev.revision) return `the ${l.type} event decides revision ${rev.revision}, which a newer revision had superseded`;
+    if (l.type === 'withdrawn') {
+      if (l.actorId !== rev.authorId) return `revision ${rev.revision} was withdrawn by someone other than its author`;
+    } else {
+      const roles = l.actorId ? this.rules.rolesOf(l.actorId) : null;
+      if (!roles || !roles.includes('reviewer')) return `the ${l.type} event was made by a user without the reviewer role`;
+      if (roles.includes('admin')) return `the ${l.type} event was made by an admin identity`;
+      if (rev.authorId !== null && l.actorId === rev.authorId) return `revision ${rev.revision} was decided by its own author`;
+      if (rev.authorId !== null && l.tokenId && this.rules.tokenIssuer(l.tokenId) === rev.authorId) {
+        return `revision ${rev.revision} was decided with a token its author issued`;
+      }
+      if (l.type === 'approved') {
+        if (rev.blocking) return `revision ${rev.revision} was approved although it has blocking findings`;
+        const acks = ((l.data as { acknowledgements?: { finding?: string; comment?: string }[] } | null)?.acknowledgements ?? []).filter(
+          (a) => typeof a?.comment === 'string' && a.comment.trim() !== '',
+        );
+        const missing = rev.warnings.find((w) => !acks.some((a) => a.finding === w));
+        if (missing) return `revision ${rev.revision} was approved without acknowledging warning "${missing}"`;
+      }
+    }
+    rev.closed = true;
+    return null;
+  }
+}

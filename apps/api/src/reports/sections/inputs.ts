@@ -1,0 +1,152 @@
+/**
+ * Section 2 of the report, the design input: as entered, in engine units, friction with its sources, materials and the thread geometry.
+ */
+import { FRICTION_LIBRARY, findNutMaterial, findScrewMaterial, type Design, type Evaluation, type FrictionRange } from '@leadline/mechanics';
+import { coefficient, formatQuantity, siRecord, sig, type QuantityKind, type UnitSystem } from '@leadline/presentation';
+import type { FrictionRow, InputRow, KeyValue, MaterialRow } from '../report-view';
+
+// ---------------------------------------------------------------------------------------------------------
+// Input tables
+
+export function flatten(value: unknown, prefix: string, out: InputRow[]): void {
+  if (value !== null && typeof value === 'object' && !Array.isArray(value)) {
+    for (const [k, v] of Object.entries(value as Record<string, unknown>)) flatten(v, prefix ? `${prefix}.${k}` : k, out);
+    return;
+  }
+  if (Array.isArray(value)) {
+    value.forEach((v, i) => flatten(v, `${prefix}[${i}]`, out));
+    return;
+  }
+  out.push({ path: prefix || '(input)', value: value === null || value === undefined ? '—' : String(value) });
+}
+
+/** Engine units of normalized-design leaves, by field name. */
+export const SI_UNIT_OF: Record<string, string> = {
+  majorDiameter: 'm', pitch: 'm', meanDiameter: 'm', outerDiameter: 'm', innerDiameter: 'm', length: 'm', unsupportedLength: 'm',
+  axial: 'N', allowablePressure: 'Pa', yieldStrength: 'Pa', elasticModulus: 'Pa', allowablePv: 'Pa·m/s', density: 'kg/m³',
+  speed: 'rpm', linearSpeed: 'm/s', availableTorque: 'N·m', loadFlankAngle: '°',
+  whirlSpan: 'm', brakeTorque: 'N·m', loadMass: 'kg', accelerationTime: 's', acceleration: 'm/s²',
+};
+
+export function engineUnitRows(design: Design): InputRow[] {
+  const rows: InputRow[] = [];
+  const walk = (value: unknown, prefix: string): void => {
+    if (prefix === 'friction') return; // printed with its sources in its own table
+    if (value !== null && typeof value === 'object') {
+      for (const [k, v] of Object.entries(value as Record<string, unknown>)) walk(v, prefix ? `${prefix}.${k}` : k);
+      return;
+    }
+    const key = prefix.split('.').pop() as string;
+    if (typeof value === 'number') rows.push({ path: prefix, value: siRecord(value), unit: SI_UNIT_OF[key] ?? '' });
+    else rows.push({ path: prefix, value: value === null ? '—' : String(value), unit: '' });
+  };
+  walk(design, '');
+  return rows;
+}
+
+export function frictionRows(design: Design): FrictionRow[] {
+  const row = (surface: string, r: FrictionRange | null): FrictionRow | null => {
+    if (!r) return null;
+    const entry = r.entry ? FRICTION_LIBRARY.find((e) => e.id === r.entry) : undefined;
+    return {
+      surface,
+      range: `${coefficient(r.min)} to ${coefficient(r.max)}`,
+      sourceKind: r.source.kind,
+      reference: r.source.reference,
+      entry: entry ? `${entry.id} (${entry.pair}, ${entry.lubrication})` : r.entry ?? 'typed in',
+    };
+  };
+  return [row('Thread, f', design.friction.thread), row('Collar, f_c', design.friction.collar)].filter((r): r is FrictionRow => r !== null);
+}
+
+export function entered(input: unknown, path: string): boolean {
+  return valueAtAny(input, path) !== undefined;
+}
+export function valueAtAny(root: unknown, path: string): unknown {
+  let node: unknown = root;
+  for (const key of path.split('.')) {
+    if (node === null || typeof node !== 'object') return undefined;
+    node = (node as Record<string, unknown>)[key];
+  }
+  return node;
+}
+
+export function materialRows(design: Design, input: unknown, system: UnitSystem): MaterialRow[] {
+  const q = (si: number | null, kind: QuantityKind) => (si === null ? 'not known' : formatQuantity(si, kind, system));
+  const screw = design.screw.material ? findScrewMaterial(design.screw.material) : undefined;
+  const nut = design.nut.material ? findNutMaterial(design.nut.material) : undefined;
+  const origin = (path: string, library: string | undefined) => (entered(input, path) ? 'as entered' : library ?? '—');
+  const screwName = screw ? `${screw.name} (${screw.id})` : design.screw.material ?? 'not named';
+  const nutName = nut ? `${nut.name} (${nut.id})` : design.nut.material ?? 'not named';
+  return [
+    { part: 'Screw', property: 'Material', value: screwName, origin: screw ? 'material library' : 'as entered' },
+    { part: 'Screw', property: 'Yield strength S_y', value: q(design.screw.yieldStrength, 'stress'), origin: origin('screw.yieldStrength', screw?.source) },
+    { part: 'Screw', property: 'Elastic modulus E', value: q(design.screw.elasticModulus, 'modulus'), origin: origin('screw.elasticModulus', screw?.source) },
+    { part: 'Screw', property: 'Density ρ', value: q(design.screw.density, 'density'), origin: origin('screw.density', screw?.source) },
+    { part: 'Nut', property: 'Material', value: nutName, origin: nut ? 'material library' : design.nut.material ? "as entered (the design's own material)" : 'as entered' },
+    design.nut.allowablePressure !== null || !design.nut.pressureBySpeed
+      ? { part: 'Nut', property: 'Allowable bearing pressure (used at any rubbing speed)', value: q(design.nut.allowablePressure, 'pressure'), origin: origin('nut.allowablePressure', nut?.allowablePressureSource) }
+      : {
+          part: 'Nut',
+          property: 'Allowable bearing pressure by rubbing speed',
+          value: design.nut.pressureBySpeed
+            .map((s) => `${q(s.allowablePressure, 'pressure')} ${s.upToRubbingSpeed === null ? 'above' : `to ${formatQuantity(s.upToRubbingSpeed, 'slidingSpeed', system)}`}`)
+            .join('; '),
+          origin: entered(input, 'nut.allowablePressureBySpeed') ? 'as entered' : 'Shigley 9th ed. Table 8-4 after Rothbart (from memory), low end of each class',
+        },
+    { part: 'Nut', property: 'Allowable pV', value: q(design.nut.allowablePv, 'pv'), origin: origin('nut.allowablePv', nut?.allowablePvSource) },
+    { part: 'Nut', property: 'Yield strength', value: q(design.nut.yieldStrength, 'stress'), origin: origin('nut.yieldStrength', nut?.yieldSource) },
+  ];
+}
+
+/** Tolerance class and the minimum-material diameters the checks used, or the statement that the basic profile was used. */
+export function minimumMaterialRows(g: Evaluation['geometry'], system: UnitSystem): KeyValue[] {
+  const mm = g.minimumMaterial;
+  if (!mm) return [];
+  if (mm.toleranceClass === null) {
+    return [{ label: 'Tolerance class', value: 'none named: the checks use the basic profile; the minimum-material diameters of any class are lower for the screw and higher for the nut, so real stresses are somewhat higher' }];
+  }
+  const L = (si: number) => formatQuantity(si, 'length', system);
+  return [
+    { label: 'Tolerance class (the strength, bearing and stripping checks use its minimum-material diameters)', value: `${mm.toleranceClass}: ${mm.basis}` },
+    { label: 'Minimum-material screw diameters: major, pitch, minor', value: `${L(mm.majorDiameter)}, ${L(mm.pitchDiameter)}, ${L(mm.minorDiameter)}` },
+    { label: 'Minimum-material nut diameters: minor D1, pitch D2', value: `${L(mm.nutMinorDiameter)}, ${L(mm.nutPitchDiameter)}` },
+    { label: 'Flank engagement at minimum material (d_min − D1_max) / 2', value: L(mm.engagedHeight) },
+  ];
+}
+
+/** What the report prints for a figure the revision's engine did not compute (a revision keeps its own engine's figures). */
+export const notComputedBy = (engineVersion: string): string => `not computed by engine ${engineVersion}`;
+
+export function geometryRows(e: Evaluation, system: UnitSystem, engineVersion: string): KeyValue[] {
+  const g = e.geometry;
+  const older = notComputedBy(engineVersion);
+  const L = (si: number) => formatQuantity(si, 'length', system);
+  const deg = (x: number) => formatQuantity(x, 'angle', system);
+  return [
+    { label: 'Form and standard', value: `${g.form}, ${g.standard}` },
+    { label: 'Size', value: g.size ?? 'not a standard size' },
+    { label: 'Major diameter d', value: L(g.majorDiameter) },
+    { label: 'Pitch p', value: L(g.pitch) },
+    { label: 'Starts n_s', value: String(g.starts) },
+    { label: 'Lead l', value: L(g.lead) },
+    { label: 'Mean diameter d_m', value: L(g.meanDiameter) },
+    { label: 'Minor diameter d_r (the section of the body, column and whirl checks)', value: L(g.minorDiameter) },
+    { label: 'Minor-diameter area π d_r² / 4', value: g.minorDiameterArea === undefined ? older : formatQuantity(g.minorDiameterArea, 'area', system) },
+    ...(g.tensileStressArea == null
+      ? []
+      : [{ label: 'Tensile stress area A_s (ISO 898-1 / ASME B1.1), for reference only: no check uses it', value: formatQuantity(g.tensileStressArea, 'area', system) }]),
+    { label: "Nut minor diameter D1 (the screw threads' stripping plane)", value: g.nutMinorDiameter === undefined ? older : L(g.nutMinorDiameter) },
+    ...minimumMaterialRows(g, system),
+    { label: 'Engaged flank height h', value: L(g.threadHeight) },
+    { label: 'Crest clearance a_c', value: L(g.crestClearance) },
+    { label: 'Nut major diameter D', value: L(g.nutMajorDiameter) },
+    { label: 'Load-flank angle α', value: deg(g.flankAngle) },
+    { label: 'Lead angle λ', value: deg(g.leadAngle) },
+    { label: 'Normal flank angle α_n', value: deg(g.normalFlankAngle) },
+    { label: 'Engaged threads n_t', value: sig(g.engagedThreads) },
+    { label: 'Thread thickness at the root, screw b', value: L(g.rootThickness) },
+    { label: 'Thread thickness at the root, nut b_n', value: L(g.nutRootThickness) },
+  ];
+}
+

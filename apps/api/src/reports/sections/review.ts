@@ -1,0 +1,63 @@
+/**
+ * Sections 7 and 8 of the report: the review record (events of this revision) and the revision history.
+ */
+import type { Actor, ProductEvent } from '@leadline/contracts';
+import { EVENTS, formatDate, wordFor } from '@leadline/presentation';
+import { SIGNATURE_METHOD_LABELS, signatureOf, type Signature } from '../../reviews/signature';
+import type { EventView, SignatureView } from '../report-view';
+
+// ---------------------------------------------------------------------------------------------------------
+// Events and history
+
+/** Where the review workflow puts an event's own words: a comment's text, a decision's or withdrawal's comment. */
+export const TEXT_KEYS = ['text', 'comment'];
+
+export function scalarText(value: unknown): string {
+  if (value === null || value === undefined) return '—';
+  if (typeof value === 'string') return value;
+  if (typeof value === 'number' || typeof value === 'boolean') return String(value);
+  if (Array.isArray(value)) return value.map(scalarText).join(', ');
+  if (typeof value === 'object') {
+    const o = value as Record<string, unknown>;
+    return Object.entries(o)
+      .map(([k, v]) => `${k}: ${scalarText(v)}`)
+      .join('; ');
+  }
+  return String(value);
+}
+
+/** The signature block of each decision of this revision, in chain order (reviews/signature.ts). */
+export function buildSignatures(events: readonly ProductEvent[]): SignatureView[] {
+  return [...events]
+    .sort((a, b) => a.seq - b.seq)
+    .filter((ev) => ev.type === 'approved' || ev.type === 'rejected')
+    .map((ev) => signatureOf(ev.data, ev.createdAt, ev.hash))
+    .filter((s): s is Signature => s !== null)
+    .map((s) => ({
+      printedName: s.printedName, meaning: s.meaning, signedAt: s.signedAt, signedDate: s.signedAt.slice(0, 10), signedTime: s.signedAt.slice(11),
+      method: SIGNATURE_METHOD_LABELS[s.method] ?? s.method, fingerprint: s.fingerprint, revisionHash: s.revisionHash,
+    }));
+}
+
+export function buildEvents(events: readonly ProductEvent[]): EventView[] {
+  return [...events]
+    .sort((a, b) => a.seq - b.seq)
+    .map((ev) => {
+      const textKey = TEXT_KEYS.find((k) => typeof ev.data[k] === 'string');
+      const details = Object.entries(ev.data)
+        .filter(([k]) => k !== textKey)
+        .map(([k, v]) => `${k}: ${scalarText(v)}`);
+      return {
+        seq: ev.seq,
+        type: ev.type,
+        typeLabel: wordFor(EVENTS, ev.type),
+        actor: actorName(ev.actor),
+        at: formatDate(ev.createdAt),
+        text: textKey ? (ev.data[textKey] as string) : null,
+        details,
+      };
+    });
+}
+
+export const actorName = (a: Actor | null | undefined): string => a?.name ?? '—';
+
