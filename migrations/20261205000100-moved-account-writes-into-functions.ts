@@ -31,7 +31,7 @@ export class MovedAccountWritesIntoFunctions20261205000100 implements MigrationI
         SELECT ARRAY(SELECT r FROM unnest(ARRAY['author', 'reviewer', 'admin']) AS r WHERE COALESCE(
           (SELECT ce.type = 'role-granted' FROM identity_events ce WHERE ce.subject_user_id = p_user AND ce.type IN ('role-granted', 'role-revoked')
               AND ce.data->>'role' = r ORDER BY ce.seq DESC NULLS LAST, ce.created_at DESC, ce.id DESC LIMIT 1),
-          r = ANY ((SELECT u.roles FROM users u WHERE u.id = p_user))))
+          (SELECT r = ANY (u.roles) FROM users u WHERE u.id = p_user)))
       $$`);
     await q.query(`
       CREATE FUNCTION leadline_user_active(p_user uuid) RETURNS boolean
