@@ -243,7 +243,9 @@ export async function startTestApp(
       const activated = await t.call('POST', '/api/v1/account/activate', { activationCode: created.body.activationCode, password: passwords[u.who] }, { as: 'anonymous' });
       if (activated.status !== 200) throw new Error(`activating ${u.who} answered ${activated.status}: ${activated.text}`);
       const session = await t.signIn(emails[u.who], passwords[u.who]);
-      tokens[u.who] = (await t.call('POST', '/api/v1/account/tokens', { label: 'test client' }, { session })).body.token;
+      const own = await t.call('POST', '/api/v1/account/tokens', { label: 'test client' }, { session });
+      if (own.status !== 201) throw new Error(`${u.who} issuing their own token answered ${own.status}: ${own.text}`);
+      tokens[u.who] = own.body.token;
     }),
   );
   return t;

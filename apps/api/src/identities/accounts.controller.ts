@@ -60,6 +60,6 @@ export class AccountsController {
   ownToken(@Body() body: unknown, @Req() req: Req) {
     const p = req.principal!;
     if (!p.sessionId) throw new ProblemError(403, 'Sign in first', 'issue your own tokens from a signed-in session (POST /api/v1/sessions), not with a token');
-    return this.identities.issueToken(p.id, body, { id: p.id, tokenId: null });
+    return this.identities.issueToken(p.id, body, { id: p.id, tokenId: p.tokenId ?? null, credential: p.credential });
   }
 }
