@@ -18,6 +18,8 @@ import { CreatedCaseInsensitiveProductCodeIndex20261204220000 } from './20261204
 import { SealedLinksAndMovedWritesIntoFunctions20261204230000 } from './20261204230000-sealed-links-and-moved-writes-into-functions';
 import { CreatedSigningKeyLedger20261204230100 } from './20261204230100-created-signing-key-ledger';
 import { ChainedIdentityEventsAndAdoptions20261204230200 } from './20261204230200-chained-identity-events-and-adoptions';
+import { CreatedAccountsAndSessions20261205000000 } from './20261205000000-created-accounts-and-sessions';
+import { MovedAccountWritesIntoFunctions20261205000100 } from './20261205000100-moved-account-writes-into-functions';
 import { CreatedJobQueueAndOutbox20261205000200 } from './20261205000200-created-job-queue-and-outbox';
 
 export const MIGRATIONS = [
@@ -40,5 +42,7 @@ export const MIGRATIONS = [
   SealedLinksAndMovedWritesIntoFunctions20261204230000,
   CreatedSigningKeyLedger20261204230100,
   ChainedIdentityEventsAndAdoptions20261204230200,
+  CreatedAccountsAndSessions20261205000000,
+  MovedAccountWritesIntoFunctions20261205000100,
   CreatedJobQueueAndOutbox20261205000200,
 ];

@@ -113,10 +113,10 @@ it("runs the README's short API tour as written: the blocked jack evaluates as b
   expect(clearFixture).toEqual(clearDesign); // the fixture is the clear jack the other tests use (test/support/designs.ts)
   const readme = readFileSync(join(root, 'README.md'), 'utf8');
   const block = /```sh\n([\s\S]*?)\n```/.exec(readme.slice(readme.indexOf('## A short API tour')))![1];
-  const reviewerToken = /Checking engineer \(demo\)\s+reviewer\s+(ll_\S+)/.exec(output)![1];
+  const reviewerPassword = /Checking engineer \(demo\)\s+reviewer\s+checker@demo\.example\.com\s+(\S+)/.exec(output)![1];
   const script = block
     .replace(/^export LEADLINE_TOKEN=.*$/m, `export LEADLINE_TOKEN=${token}`)
-    .replace(/^export REVIEWER_TOKEN=.*$/m, `export REVIEWER_TOKEN=${reviewerToken}`)
+    .replace(/^export REVIEWER_PASSWORD=.*$/m, `export REVIEWER_PASSWORD=${reviewerPassword}`)
     .replaceAll('http://127.0.0.1:3000', base);
   expect(script).toContain(`API=${base}/api/v1`);
   // run from a scratch folder that sees the repository's test/ (the tour names fixtures by relative path and writes reports)
@@ -132,6 +132,7 @@ it("runs the README's short API tour as written: the blocked jack evaluates as b
     const revision = await (await fetch(`${base}/api/v1/revisions/${rev}`, authed())).json();
     expect(revision.verdict).toBe('clear');
     expect(revision.review.state).toBe('approved');
+    expect(revision.review.signature).toMatchObject({ printedName: 'Checking engineer (demo)', meaning: 'approved as checking engineer', method: 'password' });
     expect(revision.input).toEqual(clearFixture);
     expect(readFileSync(join(dir, 'report.pdf')).subarray(0, 5).toString()).toBe('%PDF-');
     expect(readFileSync(join(dir, 'report.html'), 'utf8')).toContain('Safety caution');

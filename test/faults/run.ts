@@ -8,7 +8,7 @@
  * Ports: FAULTS_PORT_BASE (default 3400) and the next few; the private cluster listens on FAULTS_PG_PORT (3499).
  */
 import { execFileSync, spawn, type ChildProcess } from 'node:child_process';
-import { randomBytes } from 'node:crypto';
+import { randomBytes, randomUUID } from 'node:crypto';
 import { chmodSync, existsSync, mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
@@ -115,16 +115,35 @@ interface Actors {
   author: string;
   reviewer: string;
   reviewer2: string;
+  /** Each user's own password (a decision is signed with it) */
+  passwords: Record<'author' | 'reviewer' | 'reviewer2', string>;
 }
 
+/**
+ * The users of a run, as real users become them: the admin creates each with an email, the user sets their own
+ * password with the activation code, signs in and issues their own token (a token the admin issued never decides).
+ */
 async function setupActors(base: string): Promise<Actors> {
-  const mk = async (name: string, roles: string[]) => {
-    const u = await call(base, 'POST', '/api/v1/users', ADMIN_TOKEN, { name, roles });
+  const passwords = {} as Actors['passwords'];
+  const mk = async (who: keyof Actors['passwords'], name: string, roles: string[]) => {
+    const email = `${who}.${randomUUID()}@faults.example.com`;
+    passwords[who] = `${who} password for the fault runs`;
+    const u = await call(base, 'POST', '/api/v1/users', ADMIN_TOKEN, { name, email, roles });
     if (u.status !== 201) throw new Error(`create user: ${u.status} ${JSON.stringify(u.body)}`);
-    const t = await call(base, 'POST', `/api/v1/users/${u.body.id}/tokens`, ADMIN_TOKEN, {});
-    return t.body.token as string;
+    await call(base, 'POST', '/api/v1/account/activate', null, { activationCode: u.body.activationCode, password: passwords[who] });
+    const signed = await fetch(`${base}/api/v1/sessions`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email, password: passwords[who] }) });
+    const cookie = (signed.headers.get('set-cookie') ?? '').split(';')[0];
+    const me = (await (await fetch(`${base}/api/v1/me`, { headers: { cookie } })).json()) as { csrfToken: string };
+    const t = await fetch(`${base}/api/v1/account/tokens`, { method: 'POST', headers: { cookie, 'x-csrf-token': me.csrfToken, 'content-type': 'application/json' }, body: '{}' });
+    if (t.status !== 201) throw new Error(`own token: ${t.status}`);
+    return ((await t.json()) as { token: string }).token;
   };
-  return { author: await mk('Design author (faults)', ['author']), reviewer: await mk('Checking engineer (faults)', ['reviewer']), reviewer2: await mk('Second checker (faults)', ['reviewer']) };
+  return {
+    author: await mk('author', 'Design author (faults)', ['author']),
+    reviewer: await mk('reviewer', 'Checking engineer (faults)', ['reviewer']),
+    reviewer2: await mk('reviewer2', 'Second checker (faults)', ['reviewer']),
+    passwords,
+  };
 }
 
 async function openCalculation(base: string, token: string, code: string, count: number): Promise<{ productId: string; calculations: string[] }> {
@@ -508,8 +527,8 @@ async function twoProcesses(): Promise<Figures> {
       const c = await call(a.url, 'POST', `/api/v1/products/${productId}/calculations`, actors.author, { title: `decided ${i}`, design: DESIGN });
       const id = c.body.revisionId;
       const [x, y] = await Promise.all([
-        call(a.url, 'POST', `/api/v1/revisions/${id}/decisions`, actors.reviewer, { decision: 'approve', comment: 'process A' }),
-        call(b.url, 'POST', `/api/v1/revisions/${id}/decisions`, actors.reviewer2, { decision: 'reject', comment: 'process B' }),
+        call(a.url, 'POST', `/api/v1/revisions/${id}/decisions`, actors.reviewer, { decision: 'approve', comment: 'process A', signature: { method: 'password', password: actors.passwords.reviewer } }),
+        call(b.url, 'POST', `/api/v1/revisions/${id}/decisions`, actors.reviewer2, { decision: 'reject', comment: 'process B', signature: { method: 'password', password: actors.passwords.reviewer2 } }),
       ]);
       const key = [x.status, y.status].sort().join('+');
       outcomes[key] = (outcomes[key] ?? 0) + 1;

@@ -117,9 +117,15 @@ describe('demo seed', () => {
       expect(Date.parse(token.expiresAt)).toBeLessThanOrEqual(clock.now() + 12 * 3_600_000 + 1000);
       expect((await get(token.token)).status).toBe(200);
     }
+    // the demo accounts: emails and generated passwords, printed once, that sign in
+    expect(first.accounts.map((a) => a.email)).toEqual(['author@demo.example.com', 'checker@demo.example.com', 'admin@demo.example.com']);
+    for (const a of first.accounts) {
+      expect(a.password.length).toBeGreaterThanOrEqual(15);
+      expect((await t.call('POST', '/api/v1/sessions', { email: a.email, password: a.password }, { as: 'anonymous' })).status).toBe(201);
+    }
     const [{ n }] = await t.db.query<{ n: string }>(`SELECT count(*) AS n FROM tokens`);
     const again = await seedDemo(t.app);
-    expect(again).toEqual({ seeded: false, products: [], tokens: [] });
+    expect(again).toEqual({ seeded: false, products: [], tokens: [], accounts: [] });
     expect((await t.db.query<{ n: string }>(`SELECT count(*) AS n FROM tokens`))[0].n).toBe(n);
     const asked = await seedDemo(t.app, { issueTokens: true });
     expect(asked.seeded).toBe(false);

@@ -37,6 +37,12 @@ interface Calls {
   bad?(c: Ctx): Promise<Answer>;
 }
 
+/** A user for the admin routes to act on (created once). */
+let subjectId: string | null = null;
+async function subject(c: { t: { call: (...a: any[]) => Promise<{ body: any }> } }): Promise<string> {
+  subjectId ??= (await c.t.call('POST', '/api/v1/users', { name: 'Conformance subject (test)', roles: ['author'] }, { as: 'admin' })).body.id as string;
+  return subjectId;
+}
 const MISSING = '00000000-0000-4000-8000-000000000000';
 const NEXT_RULE_SET = { ...DEFAULT_RULE_SET, version: '2027.05-1', description: 'conformance test copy of the default rule set' };
 
@@ -93,6 +99,44 @@ const CALLS: Record<string, Calls> = {
   'GET /api/v1/materials': {
     ok: (c) => c.t.call('GET', '/api/v1/materials'),
     bad: (c) => c.t.call('GET', '/api/v1/materials', undefined, { as: 'anonymous' }),
+  },
+  'POST /api/v1/users/{id}/roles': {
+    ok: async (c) => c.t.call('POST', `/api/v1/users/${await subject(c)}/roles`, { roles: ['author', 'reviewer'] }, { as: 'admin' }),
+    bad: async (c) => c.t.call('POST', `/api/v1/users/${await subject(c)}/roles`, { roles: ['owner'] }, { as: 'admin' }),
+  },
+  'POST /api/v1/users/{id}/deactivate': {
+    ok: async (c) => c.t.call('POST', `/api/v1/users/${await subject(c)}/deactivate`, undefined, { as: 'admin' }),
+    bad: async (c) => c.t.call('POST', `/api/v1/users/${MISSING}/deactivate`, undefined, { as: 'admin' }),
+  },
+  'POST /api/v1/users/{id}/reactivate': {
+    ok: async (c) => c.t.call('POST', `/api/v1/users/${await subject(c)}/reactivate`, undefined, { as: 'admin' }),
+    bad: async (c) => c.t.call('POST', `/api/v1/users/${await subject(c)}/reactivate`, undefined, { as: 'reviewer' }),
+  },
+  'POST /api/v1/users/{id}/password-reset': {
+    ok: async (c) => c.t.call('POST', `/api/v1/users/${c.t.users.author2}/password-reset`, undefined, { as: 'admin' }),
+    bad: async (c) => c.t.call('POST', `/api/v1/users/${MISSING}/password-reset`, undefined, { as: 'admin' }),
+  },
+  'POST /api/v1/sessions': {
+    ok: (c) => c.t.call('POST', '/api/v1/sessions', { email: c.t.emails.reviewer, password: c.t.passwords.reviewer }, { as: 'anonymous' }),
+    bad: (c) => c.t.call('POST', '/api/v1/sessions', { email: 'not an email', password: 'x' }, { as: 'anonymous' }),
+  },
+  'DELETE /api/v1/sessions/current': {
+    ok: async (c) => c.t.call('DELETE', '/api/v1/sessions/current', undefined, { session: await c.t.signIn(c.t.emails.reviewer, c.t.passwords.reviewer) }),
+    bad: async (c) => {
+      const s = await c.t.signIn(c.t.emails.reviewer, c.t.passwords.reviewer);
+      return c.t.call('DELETE', '/api/v1/sessions/current', undefined, { session: { cookie: s.cookie, csrf: '' } });
+    },
+  },
+  'POST /api/v1/account/activate': {
+    ok: async (c) => {
+      const created = await c.t.call('POST', '/api/v1/users', { name: 'Conformance user (test)', email: 'conformance@openapi.example.com', roles: ['author'] }, { as: 'admin' });
+      return c.t.call('POST', '/api/v1/account/activate', { activationCode: created.body.activationCode, password: 'a password of the conformance user' }, { as: 'anonymous' });
+    },
+    bad: (c) => c.t.call('POST', '/api/v1/account/activate', { activationCode: 'act_unknown', password: 'short' }, { as: 'anonymous' }),
+  },
+  'POST /api/v1/account/tokens': {
+    ok: async (c) => c.t.call('POST', '/api/v1/account/tokens', { label: 'conformance' }, { session: await c.t.signIn(c.t.emails.author, c.t.passwords.author) }),
+    bad: (c) => c.t.call('POST', '/api/v1/account/tokens', { label: 'by token' }, { as: 'author' }),
   },
   'POST /api/v1/revisions/{id}/decisions': {
     ok: async (c) => c.t.call('POST', `/api/v1/revisions/${await c.freshRevision()}/decisions`, { decision: 'approve', comment: 'checked' }, { as: 'reviewer' }),
@@ -346,6 +390,7 @@ describe('OpenAPI document conformance', () => {
     const status = String(res.status);
     const documented = op.responses[status] ?? op.responses[`${status[0]}XX`];
     if (!documented) return [`status ${status} is not documented (documented: ${Object.keys(op.responses).join(', ')})`];
+    if (status === '204' && !documented.content) return res.text === '' ? [] : ['a 204 answer has a body'];
     const type = String(res.headers['content-type'] ?? '').split(';')[0].trim();
     const media = documented.content?.[type];
     if (!media) return [`media type "${type}" is not documented for ${status} (documented: ${Object.keys(documented.content ?? {}).join(', ')})`];

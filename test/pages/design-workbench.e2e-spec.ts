@@ -14,7 +14,7 @@ import type { HTTPRequest, Page } from 'puppeteer-core';
 import { screenshot } from '../support/artifacts';
 import { testBrowser, type TestBrowser } from '../support/browser';
 import { checkPage as checkPageAt } from '../support/page-checks';
-import { chooseOption, tabTo, typeInto } from '../support/keyboard';
+import { chooseOption, signInByKeyboard, tabTo, typeInto } from '../support/keyboard';
 import { pdfText } from '../support/pdf-text';
 import { logRequests } from '../support/requests';
 import { startPagesApp, type PagesApp } from './pages-app';
@@ -44,12 +44,9 @@ async function enterOn(page: Page, selector: string, navigates = true): Promise<
   else await page.keyboard.press('Enter');
 }
 
-async function signIn(page: Page, token: string): Promise<void> {
-  await page.waitForSelector('#sign-in:not([hidden])');
-  await tabTo(page, '#token-input');
-  await page.keyboard.type(token);
-  await page.keyboard.press('Enter');
-  await page.waitForSelector('#content:not([hidden])');
+/** Signs in on the sign-in page by keyboard, as the given page user (test/support/keyboard.ts). */
+async function signIn(page: Page, who: 'author' | 'reviewer'): Promise<void> {
+  await signInByKeyboard(page, t.accounts[who].email, t.accounts[who].password);
 }
 
 const text = (page: Page, selector: string) => page.$eval(selector, (e) => (e as HTMLElement).innerText);
@@ -91,9 +88,12 @@ async function decide(page: Page, revisionId: string, decision: 'approve' | 'rej
     expect(await page.$eval('input[value="reject"]', (r) => (r as HTMLInputElement).checked)).toBe(true);
   }
   await typeInto(page, '#decision-comment', comment);
+  // the decision is signed with the reviewer's own password, given again now
+  await typeInto(page, '#signature-password', t.accounts.reviewer.password);
   await enterOn(page, '#decision-submit', false);
   await page.waitForSelector('#decision-done:not([hidden]), #decision-problem .problem');
   expect(await text(page, '#decision-problem')).toBe('');
+  expect(await text(page, '#decision-done')).toContain(`signed by Checking engineer (test) (${decision === 'approve' ? 'approved' : 'rejected'} as checking engineer; signature `);
 }
 
 beforeAll(async () => {
@@ -129,7 +129,7 @@ it('takes a design from a new product to an approved second revision and its des
   const author = await newTab();
   // ---- products: sign in, register ----
   await author.goto(`${t.baseUrl}/design`);
-  await signIn(author, t.tokens.author);
+  await signIn(author, 'author');
   await author.waitForSelector('#products-count:not(:empty)');
   expect(await author.$eval('nav a[aria-current="page"]', (a) => a.textContent)).toBe('Products and calculations');
   await typeInto(author, '#p-code', 'bad code!');
@@ -293,7 +293,7 @@ it('takes a design from a new product to an approved second revision and its des
   // ---- the reviewer rejects revision 1 ----
   const reviewer = await newTab();
   await reviewer.goto(`${t.baseUrl}/review`);
-  await signIn(reviewer, t.tokens.reviewer);
+  await signIn(reviewer, 'reviewer');
   await decide(reviewer, rev1.id, 'reject', 'State the collar friction source you will test against.');
   await author.bringToFront(); // headless Chromium runs a background tab's page scripts only when it comes to the front
   expect((await t.call('GET', `/api/v1/revisions/${rev1.id}`)).body.review.state).toBe('rejected');
@@ -413,7 +413,7 @@ it('exports the design input exactly as the API takes it, and imports one from a
   const opened = (await t.call('POST', `/api/v1/products/${product.id}/calculations`, { title: 'Platform screw', design })).body;
   const page = await newTab();
   await page.goto(`${t.baseUrl}/design/calculations/${opened.calculationId}/revise`);
-  await signIn(page, t.tokens.author);
+  await signIn(page, 'author');
   await page.waitForSelector('#design:not([hidden])');
   await waitForEvaluationAfter(page, 0);
   const dir = mkdtempSync(join(tmpdir(), 'leadline-export-'));
@@ -482,7 +482,7 @@ it('keeps every imported field it has no control for: export and the saved revis
   const opened = (await t.call('POST', `/api/v1/products/${product.id}/calculations`, { title: 'Gantry screw', design: plain })).body;
   const page = await newTab();
   await page.goto(`${t.baseUrl}/design/calculations/${opened.calculationId}/revise`);
-  await signIn(page, t.tokens.author);
+  await signIn(page, 'author');
   await waitForEvaluationAfter(page, 0);
   expect(await page.$eval('#kept-fields', (e) => (e as HTMLElement).hidden)).toBe(true);
   const dir = mkdtempSync(join(tmpdir(), 'leadline-kept-'));
@@ -537,7 +537,7 @@ it('takes a tolerance class and a gearbox by keyboard, in the order of the sheet
   const opened = (await t.call('POST', `/api/v1/products/${product.id}/calculations`, { title: 'Beam screw', design: plain })).body;
   const page = await newTab();
   await page.goto(`${t.baseUrl}/design/calculations/${opened.calculationId}/revise`);
-  await signIn(page, t.tokens.author);
+  await signIn(page, 'author');
   await waitForEvaluationAfter(page, 0);
 
   // the new fields come in the order of the sheet: thread, nut, screw, duty, drive and its gearbox
@@ -595,7 +595,7 @@ it('drops a late answer to an earlier edit: the panel shows the evaluation of wh
   const opened = (await t.call('POST', `/api/v1/products/${product.id}/calculations`, { title: 'Ram screw', design })).body;
   const page = await newTab();
   await page.goto(`${t.baseUrl}/design/calculations/${opened.calculationId}/revise`);
-  await signIn(page, t.tokens.author);
+  await signIn(page, 'author');
   await waitForEvaluationAfter(page, 0);
   // hold back the answer to the 20 kN edit until the 22 kN edit after it has been answered and shown
   await page.setRequestInterception(true);
@@ -628,7 +628,7 @@ it('lets the author withdraw a revision awaiting review from "my work" [POST /ap
   const opened = (await t.call('POST', `/api/v1/products/${product.id}/calculations`, { title: 'Hoist screw', design })).body;
   const page = await newTab();
   await page.goto(`${t.baseUrl}/design/my-work`);
-  await signIn(page, t.tokens.author);
+  await signIn(page, 'author');
   await page.waitForSelector(`#work-submitted li[data-revision="${opened.revisionId}"]`);
   await enterOn(page, `#work-submitted li[data-revision="${opened.revisionId}"] button.withdraw`, false);
   await page.waitForSelector(`#work-other li[data-revision="${opened.revisionId}"]`);
@@ -642,9 +642,9 @@ it('lets the author withdraw a revision awaiting review from "my work" [POST /ap
   expect(await page.$$('#revisions button.withdraw')).toHaveLength(0);
 });
 
-it('never puts a token in a URL, and the pages raise no script or policy error', () => {
-  const tokens = Object.values(t.tokens);
-  expect(visitedUrls.filter((u) => tokens.some((tok) => u.includes(tok)))).toEqual([]);
+it('never puts a token or a password in a URL, and the pages raise no script or policy error', () => {
+  const secrets = [...Object.values(t.tokens), ...Object.values(t.accounts).map((a) => a.password)];
+  expect(visitedUrls.filter((u) => secrets.some((s) => u.includes(s) || u.includes(encodeURIComponent(s))))).toEqual([]);
   expect(visitedUrls.filter((u) => !u.startsWith(t.baseUrl + '/') && !/^(about:|blob:|data:)/.test(u))).toEqual([]);
   // refused requests (422 while a field is wrong) are logged by Chromium as failed loads; nothing else may be
   expect(consoleProblems.filter((m) => !/status of (401|403|422)/.test(m))).toEqual([]);

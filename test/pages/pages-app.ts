@@ -16,6 +16,8 @@ export interface PagesApp {
   /** http://127.0.0.1:<port> */
   baseUrl: string;
   tokens: Record<PageUser, string>;
+  /** Emails and passwords the pages sign in with (the admin is the bootstrap admin: a token only, no account) */
+  accounts: Record<Exclude<PageUser, 'admin'>, { email: string; password: string }>;
   call(method: string, url: string, body?: unknown, as?: PageUser): Promise<{ status: number; body: any; headers: Record<string, unknown>; raw: Buffer }>;
   close(): Promise<void>;
 }
@@ -27,6 +29,11 @@ export async function startPagesApp(env: Record<string, string> = {}, logDestina
     app: t.app,
     baseUrl: t.baseUrl as string,
     tokens,
+    accounts: {
+      author: { email: t.emails.author, password: t.passwords.author },
+      reviewer: { email: t.emails.reviewer, password: t.passwords.reviewer },
+      checkerAuthor: { email: t.emails.reviewer2, password: t.passwords.reviewer2 },
+    },
     call: (method, url, body, as = 'author') => t.call(method, url, body, { as: AS[as] }),
     close: () => t.close(),
   };

@@ -1,8 +1,8 @@
 /**
  * The reviewer pages in real Chromium against the real service on real PostgreSQL: sign-in, queue, one revision
  * with its report and a warning, a refused and then an accepted approval, the audit trail with its chain check,
- * downloads, the four-eyes refusal, and where the token may (sessionStorage, Authorization header) and may not
- * (URL, cookie, log) go. The run's one browser, in a context of this file's own; screenshots with ARTIFACTS=1.
+ * downloads, the four-eyes refusal, the signature at the decision, sign-in through the sign-in page and sign-out,
+ * and where credentials may (an HttpOnly session cookie) and may not (URL, script storage, log) go. The run's one browser, in a context of this file's own; screenshots with ARTIFACTS=1.
  */
 import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -54,10 +54,12 @@ async function newTab(): Promise<Page> {
   return page;
 }
 
-async function signIn(page: Page, token: string): Promise<void> {
-  await page.waitForSelector('#sign-in:not([hidden])');
-  await page.type('#token-input', token);
-  await page.click('#sign-in-form button[type=submit]');
+/** Signs in on the sign-in page the app sent this tab to, and waits for the page it came from. */
+async function signIn(page: Page, who: 'reviewer' | 'checkerAuthor'): Promise<void> {
+  await page.waitForSelector('#sign-in-form');
+  await page.type('#email-input', t.accounts[who].email);
+  await page.type('#password-input', t.accounts[who].password);
+  await Promise.all([page.waitForNavigation(), page.click('#sign-in-form button[type=submit]')]);
   await page.waitForSelector('#content:not([hidden])');
 }
 
@@ -138,13 +140,19 @@ it('serves the page shells without data, with a strict Content-Security-Policy a
 it('lets a checking engineer sign in, find the revision in the queue, read its report, and approve it once the warning is acknowledged [POST /api/v1/revisions/:id/decisions]', async () => {
   const page = await newTab();
   await page.goto(`${t.baseUrl}/review`);
-  await page.waitForSelector('#sign-in:not([hidden])');
-  await page.type('#token-input', 'll_not-a-real-token');
+  // no session: the page sends the tab to the sign-in page, which will bring it back here
+  await page.waitForSelector('#sign-in-form');
+  expect(page.url()).toBe(`${t.baseUrl}/sign-in?next=${encodeURIComponent('/review')}`);
+  expect(await seriousViolations(page)).toEqual([]);
+  await page.type('#email-input', t.accounts.reviewer.email);
+  await page.type('#password-input', 'not the password of anyone');
   await page.click('#sign-in-form button[type=submit]');
   await page.waitForSelector('#sign-in-problem .problem');
-  expect(await text(page, '#sign-in-problem')).toMatch(/Authentication required[\s\S]*unknown or revoked/);
-  await page.$eval('#token-input', (e) => ((e as HTMLInputElement).value = ''));
-  await signIn(page, t.tokens.reviewer);
+  expect(await text(page, '#sign-in-problem')).toMatch(/Sign-in refused[\s\S]*HTTP 401/);
+  expect(await page.$eval('#password-input', (e) => (e as HTMLInputElement).value)).toBe('');
+  await page.$eval('#email-input', (e) => ((e as HTMLInputElement).value = ''));
+  await signIn(page, 'reviewer');
+  expect(page.url()).toBe(`${t.baseUrl}/review`);
 
   // the queue, oldest first
   await page.waitForSelector(`#queue tr[data-revision="${revisionId}"]`);
@@ -199,8 +207,14 @@ it('lets a checking engineer sign in, find the revision in the queue, read its r
   await screenshot(page, 'review/pages-revision', { fullPage: true });
   expect(await seriousViolations(page)).toEqual([]);
 
-  // approving without acknowledging the warning is refused, with the field path shown
+  // approving without a signature is refused, naming it
   await page.type('#decision-comment', 'Checked at both ends of the friction range.');
+  await page.click('#decision-submit');
+  await page.waitForSelector('#decision-problem .problem');
+  expect(await text(page, '#decision-problem')).toMatch(/Signature not accepted[\s\S]*HTTP 403[\s\S]*signature a decision is an electronic signature/);
+  expect(await page.$eval('#signature-password', (e) => e.getAttribute('aria-invalid'))).toBe('true');
+  // approving without acknowledging the warning is refused, with the field path shown
+  await page.type('#signature-password', t.accounts.reviewer.password);
   await page.click('#decision-submit');
   await page.waitForSelector('#decision-problem .problem');
   const refusal = await text(page, '#decision-problem');
@@ -213,11 +227,13 @@ it('lets a checking engineer sign in, find the revision in the queue, read its r
   await screenshot(decisionPanel!, 'review/pages-approve-refused');
   expect(await seriousViolations(page)).toEqual([]);
 
-  // acknowledged: approved
+  // acknowledged and signed with the reviewer's own password: approved, the signature shown
   await page.type('#ack-0', 'Friction test scheduled with the nut supplier; the range covers it.');
+  await page.type('#signature-password', t.accounts.reviewer.password);
   await page.click('#decision-submit');
   await page.waitForSelector('#decision-done:not([hidden])');
-  expect(await text(page, '#decision-done')).toMatch(/^Revision 1 approved at /);
+  expect(await text(page, '#decision-done')).toMatch(/^Revision 1 approved at .* UTC, signed by Checking engineer \(test\) \(approved as checking engineer; signature [0-9a-f]{16}\)/);
+  expect(await page.$eval('#signature-password', (e) => (e as HTMLInputElement).value)).toBe('');
   await page.waitForFunction(() => document.getElementById('revision-header')!.innerText.includes('Approved by Checking engineer (test)'));
   const after = (await t.call('GET', `/api/v1/revisions/${revisionId}`)).body;
   expect(after.review).toMatchObject({ state: 'approved', decidedBy: { name: 'Checking engineer (test)' } });
@@ -255,10 +271,11 @@ it('lets a checking engineer sign in, find the revision in the queue, read its r
 it('shows the four-eyes refusal when a checker tries to approve their own revision [POST /api/v1/revisions/:id/decisions]', async () => {
   const page = await newTab();
   await page.goto(`${t.baseUrl}/review/revisions/${ownRevisionId}`);
-  await signIn(page, t.tokens.checkerAuthor); // the sign-in is on every page
+  await signIn(page, 'checkerAuthor'); // every page sends to the sign-in page and back
   await page.waitForSelector('#decision:not([hidden])');
   expect(await text(page, '#revision-header')).toMatch(/Author\s+Second checker \(test\)/);
   expect(await page.$$('#acknowledgements textarea')).toHaveLength(0); // a clear design has no warning
+  await page.type('#signature-password', t.accounts.checkerAuthor.password);
   await page.click('#decision-submit');
   await page.waitForSelector('#decision-problem .problem');
   const refusal = await text(page, '#decision-problem');
@@ -268,20 +285,28 @@ it('shows the four-eyes refusal when a checker tries to approve their own revisi
   expect((await t.call('GET', `/api/v1/revisions/${ownRevisionId}`)).body.review.state).toBe('submitted');
   await screenshot((await page.$('#decision'))!, 'review/pages-four-eyes');
   expect(await seriousViolations(page)).toEqual([]);
-  // the token is in this tab's sessionStorage and nowhere else in the browser
-  const storage = await page.evaluate(() => ({ session: Object.keys(sessionStorage), local: localStorage.length, cookie: document.cookie }));
-  expect(storage).toEqual({ session: ['leadline.reviewToken'], local: 0, cookie: '' });
+  // no credential in script storage: the session is an HttpOnly cookie that scripts cannot read
+  const storage = await page.evaluate(() => ({ session: sessionStorage.length, local: localStorage.length, cookie: document.cookie }));
+  expect(storage).toEqual({ session: 0, local: 0, cookie: '' });
+  // signing out ends the session: the page goes to the sign-in page and the old cookie is refused
+  const cookie = (await page.cookies()).find((c) => c.name === 'leadline_session')!;
+  await Promise.all([page.waitForNavigation(), page.click('#sign-out')]);
+  expect(new URL(page.url()).pathname).toBe('/sign-in');
+  const reuse = await fetch(`${t.baseUrl}/api/v1/me`, { headers: { cookie: `leadline_session=${cookie.value}` } });
+  expect(reuse.status).toBe(401);
 });
 
-it('never puts a token in a URL, a cookie or a log line, sends the CSP with every page, and violates none of it', async () => {
+it('never puts a token or a password in a URL or a log line, keeps the session in an HttpOnly SameSite=Strict cookie, sends the CSP with every page, and violates none of it', async () => {
   expect(visitedUrls.length).toBeGreaterThan(20);
-  const tokens = Object.values(t.tokens);
+  const tokens = [...Object.values(t.tokens), ...Object.values(t.accounts).map((a) => a.password)];
   const leaks = visitedUrls.filter((u) => tokens.some((tok) => u.includes(tok) || u.includes(encodeURIComponent(tok))));
   expect(leaks).toEqual([]);
   const foreign = visitedUrls.filter((u) => !u.startsWith(t.baseUrl + '/') && !/^(about:|blob:http:\/\/127\.0\.0\.1|data:)/.test(u));
   expect(foreign).toEqual([]);
-  expect(await browser.context.cookies()).toEqual([]);
-  const pages = documentHeaders.filter((d) => d.url.startsWith(`${t.baseUrl}/review`));
+  const cookies = await browser.cookies();
+  expect(cookies.length).toBeGreaterThan(0);
+  for (const c of cookies) expect({ name: c.name, httpOnly: c.httpOnly, sameSite: c.sameSite, path: c.path }).toEqual({ name: 'leadline_session', httpOnly: true, sameSite: 'Strict', path: '/' });
+  const pages = documentHeaders.filter((d) => d.url.startsWith(`${t.baseUrl}/review`) || d.url.startsWith(`${t.baseUrl}/sign-in`));
   expect(pages.length).toBeGreaterThanOrEqual(4);
   for (const d of pages) expect({ url: d.url, csp: d.csp }).toEqual({ url: d.url, csp: expect.stringContaining("default-src 'self'") });
   // the refused sign-in and the 422/403 refusals are logged by Chromium as failed loads; nothing else may be

@@ -65,8 +65,9 @@ describe('identity chain', () => {
   it('chains every user, role and token change; a user row or a link written around the functions is named by its verify [GET /api/v1/identity-events/verify]', async () => {
     const ok = await t.call('GET', '/api/v1/identity-events/verify', undefined, { as: 'admin' });
     expect(ok.body).toMatchObject({ valid: true, firstBrokenLink: null });
-    // the harness's users (test/support/harness.ts): the admin (user-created, role-granted), 4 users with 5 roles between them, 5 tokens issued
-    expect(ok.body.links).toBe(1 + 1 + 4 + 5 + 5);
+    // the harness's users (test/support/harness.ts): the admin (user-created, role-granted), 4 users with 5 roles between them,
+    // an activation code and a password set for each of the 4, 5 tokens issued
+    expect(ok.body.links).toBe(1 + 1 + 4 + 5 + 4 + 4 + 5);
     expect((await t.call('GET', '/api/v1/identity-events/verify')).status).toBe(403);
     const intruder = randomUUID();
     await superuser.query(`INSERT INTO users (id, name, roles) VALUES ($1, 'Intruder', '{reviewer}')`, [intruder]);
@@ -165,7 +166,7 @@ describe('forged approvals', () => {
     const reviewer = { id: t.users.reviewer, name: 'Checking engineer (test)' };
     const link = {
       kind: 'event', id: randomUUID(), productId: p, seq: h.seq + 1, type: 'approved', calculationId: opened.calculationId, revisionId: opened.revisionId,
-      actor: reviewer, data: { revision: 1, comment: 'forged', acknowledgements: [], comments: [] }, createdAt: h.now, linkVersion: 3, tokenId: null,
+      actor: reviewer, data: { revision: 1, comment: 'forged', acknowledgements: [], comments: [], signature: { signerId: reviewer.id, printedName: reviewer.name, meaning: 'approved as checking engineer', method: 'password', revisionHash: 'forged' } }, createdAt: h.now, linkVersion: 3, tokenId: null,
     };
     const hash = linkHash(link, h.hash);
     await superuser.query(
@@ -204,7 +205,7 @@ describe('forged approvals', () => {
       const h = await head(superuser, p);
       const link = {
         kind: 'event', id: randomUUID(), productId: p, seq: h.seq + 1, type: 'approved', calculationId: opened.calculationId, revisionId: opened.revisionId,
-        actor: author, data: { revision: 1, comment: null, acknowledgements: [], comments: [] }, createdAt: h.now, linkVersion: 3, tokenId: null,
+        actor: author, data: { revision: 1, comment: null, acknowledgements: [], comments: [], signature: { signerId: author.id, printedName: author.name, meaning: 'approved as checking engineer', method: 'password', revisionHash: 'forged' } }, createdAt: h.now, linkVersion: 3, tokenId: null,
       };
       const hash = linkHash(link, h.hash);
       await superuser.query(
@@ -265,7 +266,7 @@ describe('forged products', () => {
       verdict: 'clear', engineVersion: '1.1.0', ruleSetVersion: DEFAULT_RULE_SET.version, author,
     });
     add({ ...base, kind: 'event', id: randomUUID(), seq: 4, type: 'revision-submitted', calculationId: ids.calculation, revisionId: ids.revision, actor: author, data: { note: null, revision: 1, revisionHash, verdict: 'clear' } });
-    const approval = { ...base, kind: 'event', id: randomUUID(), seq: 5, type: 'approved', calculationId: ids.calculation, revisionId: ids.revision, actor: reviewer, data: { revision: 1, comment: null, acknowledgements: [], comments: [] } };
+    const approval = { ...base, kind: 'event', id: randomUUID(), seq: 5, type: 'approved', calculationId: ids.calculation, revisionId: ids.revision, actor: reviewer, data: { revision: 1, comment: null, acknowledgements: [], comments: [], signature: { signerId: reviewer.id, printedName: reviewer.name, meaning: 'approved as checking engineer', method: 'password', revisionHash: 'forged' } } };
     add(approval);
     await superuser.query(`INSERT INTO products (id, code, name, created_by) VALUES ($1, 'FP-1', 'forged', $2)`, [ids.product, author.id]);
     await superuser.query(`INSERT INTO calculations (id, product_id, title, created_by, created_at) VALUES ($1, $2, 'forged screw', $3, $4::timestamptz)`, [ids.calculation, ids.product, author.id, now]);

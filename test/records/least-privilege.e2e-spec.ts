@@ -74,12 +74,25 @@ it('refuses UPDATE, DELETE, TRUNCATE, ALTER TABLE ... DISABLE TRIGGER and DROP t
     [`INSERT INTO revision_closures (revision_id, kind, event_id, actor_id) SELECT id, 'approved', id, id FROM revisions LIMIT 1`, /permission denied/],
     [`CREATE OR REPLACE FUNCTION leadline_refuse_change() RETURNS trigger LANGUAGE plpgsql AS $$ BEGIN RETURN NEW; END $$`, /must be owner|permission denied/],
     [`SELECT * FROM schema_migrations`, /permission denied/],
+    // accounts and sessions: a session row or a password credential made by the runtime role would sign in as anyone
+    [`INSERT INTO sessions (id, user_id, secret_hash, seal_key, method, auth_time, expires_at) SELECT gen_random_uuid(), id, 'x', 'k', 'password', now(), now() + interval '1 hour' FROM users LIMIT 1`, /permission denied/],
+    [`INSERT INTO activation_codes (id, user_id, code_hash, purpose, expires_at) SELECT gen_random_uuid(), id, 'x', 'reset', now() + interval '1 hour' FROM users LIMIT 1`, /permission denied/],
+    [`INSERT INTO password_credentials (id, user_id, hash, activation_id) SELECT gen_random_uuid(), user_id, '$argon2id$x', id FROM activation_codes LIMIT 1`, /permission denied/],
+    [`INSERT INTO session_ends (session_id, reason) SELECT id, 'signed-out' FROM sessions LIMIT 1`, /permission denied/],
+    [`INSERT INTO reauthentications (id, user_id, revision_id, method, started_at, auth_time) SELECT gen_random_uuid(), u.id, r.id, 'oidc', now(), now() FROM users u, revisions r LIMIT 1`, /permission denied/],
+    [`INSERT INTO reauthentication_uses (reauthentication_id) SELECT id FROM reauthentications LIMIT 1`, /permission denied/],
+    [`SELECT secret_hash FROM sessions`, /permission denied/],
+    [`SELECT seal_key FROM sessions`, /permission denied/],
   ];
   for (const [sql, error] of refused) {
     await expect(t.db.query(sql)).rejects.toThrow(error);
   }
   // the head moves only inside the record functions, which take a credential
   await expect(t.db.query(`SELECT leadline_move_head($1, $2, $3)`, [productId, 99, 'f'.repeat(64)])).rejects.toThrow(/does not exist/);
+  // a session is started only with the service credential, which the runtime role does not hold
+  await expect(
+    t.db.query(`SELECT leadline_start_session($1, gen_random_uuid(), $2, $3, 'k', 'password', now(), now() + interval '1 hour')`, ['a'.repeat(64), t.users.reviewer, 'b'.repeat(64)]),
+  ).rejects.toThrow(/started by the service/);
   expect(await countRecords(t.db)).toEqual(before);
   expect((await t.call('GET', `/api/v1/products/${productId}/verify`)).body.valid).toBe(true);
 });

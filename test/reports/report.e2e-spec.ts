@@ -14,11 +14,13 @@ import { pdfText } from '../support/pdf-text';
 
 let t: TestApp;
 let revisionId: string;
+let productId: string;
 let record: any;
 
 beforeAll(async () => {
   t = await startTestApp('postgres', { LEADLINE_CHROMIUM_PATH: '/usr/bin/chromium' });
   const product = (await t.call('POST', '/api/v1/products', { code: 'KL-8', name: 'Kestrel KL-8 vehicle lift (test product)' })).body.id;
+  productId = product;
   const opened = await t.call('POST', `/api/v1/products/${product}/calculations`, { title: 'Column screw', design: warningDesign });
   revisionId = opened.body.revisionId;
   await t.call('POST', `/api/v1/revisions/${revisionId}/decisions`, {
@@ -29,6 +31,17 @@ beforeAll(async () => {
   record = (await t.call('GET', `/api/v1/revisions/${revisionId}`)).body;
 });
 afterAll(() => t?.close());
+
+it('prints the signature block of the approval in the design file [GET /api/v1/products/:id/design-file.pdf]', async () => {
+  const res = await t.call('GET', `/api/v1/products/${productId}/design-file.pdf`);
+  expect(res.status).toBe(200);
+  const flat = (await pdfText(res.raw)).text.replace(/\s+/g, ' ');
+  const signed = record.review.signature;
+  // the date, then the time with its offset (signedAt printed on two lines)
+  for (const part of ['Electronic signatures', 'Checking engineer (test)', 'approved as checking engineer', `${signed.signedAt.slice(0, 10)} ${signed.signedAt.slice(11)}`, 'password, given again at signing', signed.fingerprint]) {
+    expect(flat).toContain(part);
+  }
+});
 
 it('renders a stored revision to PDF whose text carries the inputs, results, findings, caution and hash [GET /api/v1/revisions/:id/report.pdf]', async () => {
   const res = await t.call('GET', `/api/v1/revisions/${revisionId}/report.pdf`);
@@ -43,6 +56,16 @@ it('renders a stored revision to PDF whose text carries the inputs, results, fin
   expect(text).toContain('18 kN');
   expect(text).toContain('KL-8');
   expect(text).toContain('Column screw');
+  // the signature block: printed name, meaning, date and time with its offset, method, fingerprint
+  const signed = record.review.signature;
+  const flat = text.replace(/\s+/g, ' ');
+  expect(flat).toContain('Electronic signatures');
+  expect(flat).toContain('Checking engineer (test)');
+  expect(flat).toContain('approved as checking engineer');
+  expect(flat).toContain(`${signed.signedAt.slice(0, 10)} ${signed.signedAt.slice(11)}`);
+  expect(signed.signedAt).toMatch(/\+00:00$/);
+  expect(flat).toContain('password, given again at signing');
+  expect(flat).toContain(signed.fingerprint);
   // Wiring test: the PDF served by the real service carries the stored record's results, formatted as the report formats
   // them (the formatter is checked on literal values in apps/api/src/reports/format.spec.ts, the figures in the engine specs)
   for (const [si, kind] of [

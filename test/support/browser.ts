@@ -9,9 +9,15 @@ import { chromiumEndpoint } from './run-resources';
 
 export interface TestBrowser {
   readonly browser: Browser;
-  /** The file's own context: pages opened here share cookies and storage with each other only */
+  /** The file's first context (pages opened with { shared: true } share it) */
   readonly context: BrowserContext;
-  newPage(viewport?: { width: number; height: number }): Promise<Page>;
+  /**
+   * A tab in a browser context of its own (its own cookies, so each signed-in user has their own session), or with
+   * { shared: true } in the file's first context
+   */
+  newPage(viewport?: { width: number; height: number }, options?: { shared?: boolean }): Promise<Page>;
+  /** Every cookie of every context this file opened */
+  cookies(): Promise<Awaited<ReturnType<BrowserContext['cookies']>>>;
   close(): Promise<void>;
 }
 
@@ -21,16 +27,25 @@ export async function testBrowser(): Promise<TestBrowser> {
     ? await puppeteer.connect({ browserWSEndpoint: endpoint })
     : await puppeteer.launch({ executablePath: process.env.LEADLINE_CHROMIUM_PATH ?? '/usr/bin/chromium', args: [...CHROMIUM_FLAGS], headless: true });
   const context = await browser.createBrowserContext();
+  const contexts = [context];
   return {
     browser,
     context,
-    async newPage(viewport = { width: 1280, height: 900 }) {
-      const page = await context.newPage();
+    async newPage(viewport = { width: 1280, height: 900 }, options = {}) {
+      let own = context;
+      if (!options.shared) {
+        own = await browser.createBrowserContext();
+        contexts.push(own);
+      }
+      const page = await own.newPage();
       await page.setViewport(viewport);
       return page;
     },
+    async cookies() {
+      return (await Promise.all(contexts.map((c) => c.cookies()))).flat();
+    },
     async close() {
-      await context.close().catch(() => undefined);
+      for (const c of contexts) await c.close().catch(() => undefined);
       if (endpoint) await browser.disconnect();
       else await browser.close();
     },

@@ -35,6 +35,19 @@ export interface CallOptions {
   headers?: Record<string, string>;
   /** Client address the request comes from (the failed-auth limit counts per address) */
   ip?: string;
+  /** Send this page session (its cookie and CSRF token) instead of a bearer token */
+  session?: TestSession;
+  /**
+   * A POST to /decisions without a `signature` is signed with the caller's own password (the harness's test
+   * password of `as`), as a reviewer's client would; `sign: false` sends the body as it is.
+   */
+  sign?: boolean;
+}
+
+/** A signed-in page session: the cookie as the browser would send it, and the CSRF token from GET /api/v1/me. */
+export interface TestSession {
+  cookie: string;
+  csrf: string;
 }
 
 export interface TestApp {
@@ -45,9 +58,17 @@ export interface TestApp {
   roles: { owner: string; runtime: string; ownerUrl: string; runtimeUrl: string } | null;
   /** http://127.0.0.1:<port> when started with { listen: true } (for a browser), else null */
   baseUrl: string | null;
-  /** Bearer tokens of the test users, and their ids */
+  /**
+   * Bearer tokens of the test users, and their ids. The users' tokens are their own (issued from their own signed-in
+   * session, so they may decide); the admin's is the bootstrap token.
+   */
   tokens: Record<Exclude<Who, 'anonymous'>, string>;
   users: Record<Exclude<Who, 'anonymous'>, string>;
+  /** The test users' emails and passwords (set by the users themselves with their activation codes) */
+  emails: Record<Exclude<Who, 'anonymous' | 'admin'>, string>;
+  passwords: Record<Exclude<Who, 'anonymous' | 'admin'>, string>;
+  /** Signs in with email and password (POST /api/v1/sessions) and reads the CSRF token */
+  signIn(email: string, password: string, options?: { ip?: string }): Promise<TestSession>;
   call(method: string, url: string, body?: unknown, options?: CallOptions): Promise<{ status: number; body: any; headers: Record<string, unknown>; text: string; raw: Buffer }>;
   close(): Promise<void>;
 }
@@ -163,6 +184,8 @@ export async function startTestApp(
   const fastify = app.getHttpAdapter().getInstance();
   const tokens = { admin: base.LEADLINE_ADMIN_TOKEN } as TestApp['tokens'];
   const users = {} as TestApp['users'];
+  const emails = {} as TestApp['emails'];
+  const passwords = {} as TestApp['passwords'];
   const t: TestApp = {
     app,
     db: app.get(Database),
@@ -171,9 +194,23 @@ export async function startTestApp(
     baseUrl,
     tokens,
     users,
+    emails,
+    passwords,
+    async signIn(email, password, options = {}) {
+      const res = await t.call('POST', '/api/v1/sessions', { email, password }, { as: 'anonymous', ip: options.ip });
+      if (res.status !== 201) throw new Error(`sign-in of ${email} answered ${res.status}: ${res.text}`);
+      const cookie = String(res.headers['set-cookie']).split(';')[0];
+      const me = await t.call('GET', '/api/v1/me', undefined, { session: { cookie, csrf: '' } });
+      return { cookie, csrf: me.body.csrfToken };
+    },
     async call(method, url, body, options = {}) {
       const who = options.as ?? 'author';
-      const auth: Record<string, string> = who === 'anonymous' ? {} : { authorization: `Bearer ${tokens[who]}` };
+      const auth: Record<string, string> = options.session
+        ? { cookie: options.session.cookie, 'x-csrf-token': options.session.csrf }
+        : who === 'anonymous' ? {} : { authorization: `Bearer ${tokens[who]}` };
+      if (method === 'POST' && /\/decisions$/.test(url) && options.sign !== false && body !== null && typeof body === 'object' && !('signature' in body) && who !== 'anonymous' && who !== 'admin') {
+        body = { ...(body as object), signature: { method: 'password', password: passwords[who] } };
+      }
       const res = await fastify.inject({
         method: method as 'GET',
         url,
@@ -196,11 +233,23 @@ export async function startTestApp(
   };
   const me = await t.call('GET', '/api/v1/users', undefined, { as: 'admin' });
   users.admin = me.body.items[0].id;
-  for (const u of TEST_USERS) {
-    const created = await t.call('POST', '/api/v1/users', { name: u.name, roles: u.roles }, { as: 'admin' });
-    users[u.who] = created.body.id;
-    tokens[u.who] = (await t.call('POST', `/api/v1/users/${created.body.id}/tokens`, {}, { as: 'admin' })).body.token;
-  }
+  // Each test user is created by the admin, sets their own password with the activation code, signs in and issues
+  // their own token: the path a real user takes (and a token the admin issued could not decide).
+  await Promise.all(
+    TEST_USERS.map(async (u) => {
+      emails[u.who] = `${u.who}@test.example.com`;
+      passwords[u.who] = `${u.who} password for tests`;
+      const created = await t.call('POST', '/api/v1/users', { name: u.name, email: emails[u.who], roles: u.roles }, { as: 'admin' });
+      if (created.status !== 201) throw new Error(`creating ${u.who} answered ${created.status}: ${created.text}`);
+      users[u.who] = created.body.id;
+      const activated = await t.call('POST', '/api/v1/account/activate', { activationCode: created.body.activationCode, password: passwords[u.who] }, { as: 'anonymous' });
+      if (activated.status !== 200) throw new Error(`activating ${u.who} answered ${activated.status}: ${activated.text}`);
+      const session = await t.signIn(emails[u.who], passwords[u.who]);
+      const own = await t.call('POST', '/api/v1/account/tokens', { label: 'test client' }, { session });
+      if (own.status !== 201) throw new Error(`${u.who} issuing their own token answered ${own.status}: ${own.text}`);
+      tokens[u.who] = own.body.token;
+    }),
+  );
   return t;
 }
 

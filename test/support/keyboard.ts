@@ -34,3 +34,16 @@ export async function chooseOption(page: Page, selector: string, value: string):
   for (let i = 0; i < index; i++) await page.keyboard.press('ArrowDown');
   expect(await page.$eval(selector, (s) => (s as HTMLSelectElement).value)).toBe(value);
 }
+
+/**
+ * Signs in on the sign-in page a page sent this tab to (its own /sign-in?next=...), by keyboard only, and waits for
+ * the page it came from to show its content.
+ */
+export async function signInByKeyboard(page: Page, email: string, password: string): Promise<void> {
+  await page.waitForSelector('#sign-in-form');
+  expect(new URL(page.url()).pathname).toBe('/sign-in');
+  await typeInto(page, '#email-input', email);
+  await typeInto(page, '#password-input', password);
+  await Promise.all([page.waitForNavigation(), page.keyboard.press('Enter')]);
+  await page.waitForSelector('#content:not([hidden])');
+}

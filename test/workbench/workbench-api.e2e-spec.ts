@@ -34,7 +34,7 @@ afterAll(async () => {
 
 it('names the signed-in user and their roles [GET /api/v1/me]', async () => {
   const me = await t.call('GET', '/api/v1/me');
-  expect(me.body).toEqual({ id: t.users.author, name: 'Design author (test)', roles: ['author'] });
+  expect(me.body).toEqual({ id: t.users.author, name: 'Design author (test)', roles: ['author'], authMethod: 'token', csrfToken: null });
   expect((await t.call('GET', '/api/v1/me', undefined, { as: 'anonymous' })).status).toBe(401);
 });
 

@@ -162,8 +162,16 @@ export const revisionRecordSchema = z.object({
 });
 
 /** Review state of a revision, derived from the record (GET /calculations/:id/revisions, GET /revisions/:id). */
+/** A decision's electronic signature as shown with the revision (null before a decision, or for decisions recorded before signatures). */
+export const signatureSchema = z.object({
+  signerId: z.string().uuid(), printedName: z.string(), meaning: z.string().describe('e.g. "approved as checking engineer"'),
+  method: z.enum(['password', 'oidc']), revisionHash: z.string().describe('hash of the signed revision record'),
+  signedAt: z.string().describe('date and time of signing with its UTC offset'), fingerprint: z.string().describe('first 16 hex digits of the signed decision event hash'),
+});
+
 export const revisionReviewSchema = z.object({
   state: z.enum(['submitted', 'approved', 'rejected', 'superseded', 'withdrawn']), decidedBy: actorSchema.nullable(), decidedAt: z.string().nullable(),
+  signature: signatureSchema.nullable(),
 });
 
 /** A revision as the revision routes answer it: the record and its review state. */

@@ -72,8 +72,8 @@ export class CalculationsController {
         const s = states.get(r.id)!;
         const c = checks[i];
         return c === null
-          ? { ...r, review: { state: s.state, decidedBy: s.decidedBy, decidedAt: s.decidedAt } }
-          : { ...r, checks: c.checks, governing: c.governing, review: { state: s.state, decidedBy: s.decidedBy, decidedAt: s.decidedAt } };
+          ? { ...r, review: { state: s.state, decidedBy: s.decidedBy, decidedAt: s.decidedAt, signature: s.signature } }
+          : { ...r, checks: c.checks, governing: c.governing, review: { state: s.state, decidedBy: s.decidedBy, decidedAt: s.decidedAt, signature: s.signature } };
       }),
       nextCursor: page.nextCursor,
     };
@@ -84,6 +84,6 @@ export class CalculationsController {
   async revision(@Param('id') id: string) {
     const [record, review] = await Promise.all([this.calculations.revision(id), this.reviews.state(id)]);
     const { checks, governing } = await this.calculations.checksOf(record);
-    return { ...record, checks, governing, review: { state: review.state, decidedBy: review.decidedBy, decidedAt: review.decidedAt } };
+    return { ...record, checks, governing, review: { state: review.state, decidedBy: review.decidedBy, decidedAt: review.decidedAt, signature: review.signature } };
   }
 }

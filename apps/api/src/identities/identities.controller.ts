@@ -10,6 +10,7 @@ import { IdentitiesService } from './identities.service';
 export class IdentitiesController {
   constructor(private readonly identities: IdentitiesService) {}
 
+  /** Creates a user ({name, email, roles}); the answer carries a one-time activationCode, never a password. */
   @Post()
   create(@Body() body: unknown, @CurrentActor() actor: Actor | null) {
     return this.identities.createUser(body, actor);
@@ -29,6 +30,33 @@ export class IdentitiesController {
   @Get(':id/tokens')
   async tokens(@Param('id') id: string) {
     return { items: await this.identities.listTokens(id) };
+  }
+
+  /** Sets the roles the user holds ({roles}); each added role is granted and each removed one revoked (audited). */
+  @Post(':id/roles')
+  @HttpCode(200)
+  roles(@Param('id') id: string, @Body() body: unknown, @CurrentActor() actor: Actor | null) {
+    return this.identities.setRoles(id, body, actor);
+  }
+
+  /** Deactivates the user: their tokens and sessions stop at once; the user, their name and signatures stay. */
+  @Post(':id/deactivate')
+  @HttpCode(200)
+  deactivate(@Param('id') id: string, @CurrentActor() actor: Actor | null) {
+    return this.identities.setActive(id, false, actor);
+  }
+
+  @Post(':id/reactivate')
+  @HttpCode(200)
+  reactivate(@Param('id') id: string, @CurrentActor() actor: Actor | null) {
+    return this.identities.setActive(id, true, actor);
+  }
+
+  /** A one-time code the admin hands to the user, who sets a new password with it; the admin never learns it. */
+  @Post(':id/password-reset')
+  @HttpCode(201)
+  passwordReset(@Param('id') id: string, @CurrentActor() actor: Actor | null) {
+    return this.identities.resetPassword(id, actor);
   }
 
   @Post(':id/tokens/:tokenId/revoke')

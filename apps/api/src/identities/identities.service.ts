@@ -15,7 +15,7 @@ import { z } from 'zod';
 import { displayableName } from '@leadline/contracts';
 import { APP_CONFIG, type AppConfig } from '../infra/config';
 import { CLOCK, type Clock } from '../infra/clock';
-import { Database, type Queryer } from '../infra/database/database.service';
+import { Database, PG_UNIQUE_VIOLATION, pgErrorCode, type Queryer } from '../infra/database/database.service';
 import { lockLedger, nextLink, type LedgerCursor } from '../records/ledger';
 import { notFound, ProblemError, validate, ValidationProblem } from '../infra/http/problem';
 import { functionRefusal } from '../records/record-store';
@@ -26,19 +26,53 @@ import { LINK_VERSION, linkHash, TS_TEXT } from '../records/chain';
 export const ROLES = ['author', 'reviewer', 'admin'] as const;
 export type Role = (typeof ROLES)[number];
 
+/** How the caller proved who they are on this request. */
+export type AuthMethod = 'token' | 'password' | 'oidc';
+
 export interface Principal {
   id: string;
   name: string;
   roles: Role[];
-  tokenId: string;
-  /** the stored hash of the presented token: the credential the record functions accept for this user's acts */
+  /** The bearer token presented (null for a page session) */
+  tokenId: string | null;
+  /** Who issued that token (null: the service itself, at bootstrap) */
+  tokenIssuedBy?: string | null;
+  /** The page session (null for a bearer token) */
+  sessionId?: string | null;
+  authMethod: AuthMethod;
+  /** The page session's CSRF token (sessions only) */
+  csrfToken?: string | null;
+  /**
+   * What the record functions accept for this user's acts: the stored keyed hash of the presented token, or the
+   * page session's secret hash (neither readable by the runtime role)
+   */
   credential: string;
 }
 
+/** An email address as a sign-in name: one @, something either side, no spaces (RFC 5321 §4.5.3.1.3 limits length to 254). */
+export const emailSchema = z
+  .string()
+  .trim()
+  .min(3)
+  .max(254)
+  .regex(/^[^\s@]+@[^\s@]+$/, 'an email address (name@domain)');
+
 export const createUserSchema = z.strictObject({
-  name: z.string().min(1).max(120).superRefine(displayableName),
+  name: z.string().min(1).max(120).superRefine(displayableName).describe('printed name, as it appears on signatures; never changed'),
+  email: emailSchema.optional().describe('sign-in name, unique (compared without case); a user without one has no password and uses tokens only'),
   roles: z.array(z.enum(ROLES)).min(1).max(3),
 });
+
+export const setRolesSchema = z.strictObject({ roles: z.array(z.enum(ROLES)).max(3).describe('the roles the user holds from now on') });
+
+/**
+ * SQL: the roles user `u` holds now: per role, the newest role-granted/role-revoked event decides; a role without
+ * any event counts as granted when the user row was created with it (users created before role events existed).
+ */
+export const CURRENT_ROLES = (u: string) => `leadline_user_roles(${u}.id)`;
+
+/** SQL: user `u` is active (not deactivated by its newest deactivation/reactivation event; migrations/20261205000100). */
+export const USER_ACTIVE = (u: string) => `leadline_user_active(${u}.id)`;
 
 export const MAX_TOKEN_DAYS = 3650;
 
@@ -61,6 +95,14 @@ export type IdentityActor = { id: string; tokenId?: string | null; credential?: 
 
 export const TOKEN_CACHE_MS = 2000;
 const DAY_MS = 86_400_000;
+
+/** A one-time activation or reset code as stored: SHA-256 (leadline_set_password hashes the code it is given the same way). */
+export function codeHash(code: string): string {
+  return createHash('sha256').update(code, 'utf8').digest('hex');
+}
+
+const emailInUse = (email: string | null) =>
+  new ProblemError(409, 'Email in use', `${email} belongs to another user`, { errors: [{ path: 'email', message: 'already belongs to another user' }] });
 
 /** A token as stored before keyed hashing (legacy rows, hash_kind 'sha256'). */
 export function legacyTokenHash(token: string): string {
@@ -90,16 +132,16 @@ export class IdentitiesService implements OnModuleInit {
   async onModuleInit(): Promise<void> {
     const token = this.config.LEADLINE_ADMIN_TOKEN;
     if (!token) return;
-    const admins = await this.db.query<{ id: string }>(`SELECT id FROM users WHERE 'admin' = ANY (roles) ORDER BY created_at, id LIMIT 1`);
+    const admins = await this.db.query<{ id: string }>(`SELECT id FROM users u WHERE 'admin' = ANY (${CURRENT_ROLES('u')}) ORDER BY created_at, id LIMIT 1`);
     if (admins.length === 0) {
-      const user = await this.createUser({ name: 'Administrator (bootstrap)', roles: ['admin'] }, null);
+      const user = await this.insertUser({ name: 'Administrator (bootstrap)', email: null, roles: ['admin'] }, null);
       await this.storeToken(user.id, token, 'bootstrap (LEADLINE_ADMIN_TOKEN)', null, null);
       this.logger.log(`bootstrap admin created (${user.id})`);
       return;
     }
     const live = await this.db.query(
       `SELECT 1 FROM tokens t JOIN users u ON u.id = t.user_id
-        WHERE 'admin' = ANY (u.roles) AND ${this.liveSql('t')} LIMIT 1`,
+        WHERE 'admin' = ANY (${CURRENT_ROLES('u')}) AND ${USER_ACTIVE('u')} AND ${this.liveSql('t')} LIMIT 1`,
       [this.ttlDays, this.nowIso()],
     );
     if (live.length > 0) return;
@@ -126,21 +168,129 @@ export class IdentitiesService implements OnModuleInit {
             AND COALESCE(${t}.expires_at, ${t}.created_at + make_interval(days => $1::int)) > ${now}::timestamptz`;
   }
 
-  /** Creates a user; the creation and each role it grants are audited in the same transaction. */
+  /**
+   * Creates a user with an email and roles, and a one-time activation code (returned once, stored as SHA-256) with
+   * which the user sets their own password (POST /api/v1/account/activate). The creation, each role and the code
+   * are audited in the same transaction.
+   */
   async createUser(body: unknown, actor: IdentityActor) {
     const input = validate(createUserSchema, body);
+    return this.insertUser({ ...input, email: input.email ?? null }, actor);
+  }
+
+  /**
+   * The user an identity provider vouches for, by email: created on first sign-in (no activation code: they never
+   * get a local password), with the roles of the provider's role claim, which then decides their roles at each
+   * sign-in (changes are identity events by the service). A deactivated user stays refused.
+   */
+  async providerUser(identity: { email: string; name: string; roles: Role[] }) {
+    const [found] = await this.db.query<{ id: string }>(`SELECT id FROM users WHERE lower(email) = lower($1)`, [identity.email]);
+    if (!found) return this.insertUser({ ...identity, activation: false }, null);
+    const user = await this.getUser(found.id);
+    if (!user.active) throw new ProblemError(403, 'User deactivated', 'this account is deactivated; ask an admin');
+    const same = user.roles.length === identity.roles.length && identity.roles.every((r) => user.roles.includes(r));
+    return same ? user : this.setRoles(user.id, { roles: identity.roles }, null);
+  }
+
+  private async insertUser(input: { name: string; email: string | null; roles: Role[]; activation?: boolean }, actor: IdentityActor) {
     const id = randomUUID();
     const roles = [...new Set(input.roles)];
     const credential = await this.credentialOf(actor);
+    let activation: { activationCode: string; activationExpiresAt: string } | null = null;
     await this.db.transaction(async (q) => {
+      if (input.email !== null) {
+        const taken = await q.query(`SELECT 1 FROM users WHERE lower(email) = lower($1)`, [input.email]);
+        if (taken.length > 0) throw emailInUse(input.email);
+      }
       const cursor = await lockLedger(q, 'identity');
       const events = [
-        this.identityLink(cursor, 'user-created', actor, id, null, { name: input.name, roles }),
+        this.identityLink(cursor, 'user-created', actor, id, null, { name: input.name, email: input.email, roles }),
         ...roles.map((role) => this.identityLink(cursor, 'role-granted', actor, id, null, { role })),
       ];
-      await this.write(`SELECT leadline_create_user($1, $2, $3, $4, $5)`, [credential, id, input.name, roles, JSON.stringify(events)], q);
+      try {
+        await this.write(`SELECT leadline_create_account($1, $2, $3, $4, $5, $6)`, [credential, id, input.name, input.email, roles, JSON.stringify(events)], q);
+      } catch (err) {
+        if (pgErrorCode(err) === PG_UNIQUE_VIOLATION) throw emailInUse(input.email);
+        throw err;
+      }
+      if (input.email !== null && input.activation !== false) activation = await this.issueCode(q, cursor, credential, id, 'activation', actor);
     });
-    return this.getUser(id);
+    const user = await this.getUser(id);
+    const code = activation as { activationCode: string; activationExpiresAt: string } | null;
+    return { ...user, activationCode: code?.activationCode ?? null, activationExpiresAt: code?.activationExpiresAt ?? null };
+  }
+
+  /** A one-time code for the user to set their password (activation or reset); only its SHA-256 is stored. */
+  private async issueCode(q: Queryer, cursor: LedgerCursor, credential: string, userId: string, purpose: 'activation' | 'reset', actor: IdentityActor) {
+    const code = `act_${randomBytes(24).toString('base64url')}`;
+    const id = randomUUID();
+    // stored to the millisecond, printed to the microsecond (as the database prints it)
+    const expires = new Date(this.clock.now() + this.config.LEADLINE_ACTIVATION_HOURS * 3_600_000);
+    const expiresAt = expires.toISOString();
+    const event = this.identityLink(cursor, purpose === 'activation' ? 'activation-issued' : 'password-reset-issued', actor, userId, null, { codeId: id, expiresAt });
+    await this.write(`SELECT leadline_issue_code($1, $2, $3, $4, $5, $6, $7)`, [credential, id, userId, codeHash(code), purpose, expiresAt, JSON.stringify([event])], q);
+    return { activationCode: code, activationExpiresAt: expiresAt };
+  }
+
+  /**
+   * A password reset: a new one-time code the admin hands to the user, who sets the new password with it. The admin
+   * never sets or learns the password; the old one keeps working until the user sets the new one.
+   */
+  async resetPassword(userId: string, actor: IdentityActor) {
+    const user = await this.getUser(userId);
+    if (!user.email) throw new ProblemError(409, 'No account', 'this user has no email and so no password; create an account with an email');
+    if (!user.active) throw new ProblemError(409, 'User deactivated', 'reactivate the user first');
+    const credential = await this.credentialOf(actor);
+    return this.db.transaction(async (q) => this.issueCode(q, await lockLedger(q, 'identity'), credential, user.id, 'reset', actor));
+  }
+
+  /** Sets the roles a user holds: each role added is granted, each removed revoked (audited, in one transaction). */
+  async setRoles(userId: string, body: unknown, actor: IdentityActor) {
+    const input = validate(setRolesSchema, body);
+    const user = await this.getUser(userId);
+    const wanted = new Set(input.roles);
+    if (actor && actor.id === user.id && user.roles.includes('admin') && !wanted.has('admin')) {
+      throw new ProblemError(409, 'Own admin role', 'an admin cannot revoke their own admin role; ask another admin', { errors: [{ path: 'roles', message: 'must keep admin for yourself' }] });
+    }
+    const credential = await this.credentialOf(actor);
+    await this.db.transaction(async (q) => {
+      const cursor = await lockLedger(q, 'identity');
+      const events = [];
+      for (const role of ROLES) {
+        if (wanted.has(role) && !user.roles.includes(role)) events.push(this.identityLink(cursor, 'role-granted', actor, user.id, null, { role }));
+        if (!wanted.has(role) && user.roles.includes(role)) events.push(this.identityLink(cursor, 'role-revoked', actor, user.id, null, { role }));
+      }
+      if (events.length) await this.write(`SELECT leadline_change_identity($1, $2, $3)`, [credential, user.id, JSON.stringify(events)], q);
+    });
+    this.cache.clear();
+    return this.getUser(user.id);
+  }
+
+  /** Deactivates (active=false) or reactivates a user; never deletes or renames. Tokens and sessions stop at once here. */
+  async setActive(userId: string, active: boolean, actor: IdentityActor) {
+    const user = await this.getUser(userId);
+    if (!active && actor && actor.id === user.id) throw new ProblemError(409, 'Own account', 'an admin cannot deactivate themselves; ask another admin');
+    if (user.active !== active) {
+      const credential = await this.credentialOf(actor);
+      await this.db.transaction(async (q) => {
+        const event = this.identityLink(await lockLedger(q, 'identity'), active ? 'user-reactivated' : 'user-deactivated', actor, user.id, null, {});
+        await this.write(`SELECT leadline_change_identity($1, $2, $3)`, [credential, user.id, JSON.stringify([event])], q);
+      });
+    }
+    this.cache.clear();
+    return this.getUser(user.id);
+  }
+
+  /**
+   * Sets a password with a one-time code (leadline_set_password checks the code; the Argon2id hash is computed here,
+   * the database cannot). The password-set event names the user as its actor. Returns the user's id.
+   */
+  async setPassword(code: string, codeRow: { id: string; user_id: string; purpose: string }, hash: string): Promise<string> {
+    return this.db.transaction(async (q) => {
+      const event = this.identityLink(await lockLedger(q, 'identity'), 'password-set', { id: codeRow.user_id, tokenId: null }, codeRow.user_id, null, { codeId: codeRow.id, purpose: codeRow.purpose });
+      const [row] = await this.write<{ user_id: string }>(`SELECT leadline_set_password($1, $2, $3, $4) AS user_id`, [code, randomUUID(), hash, JSON.stringify([event])], q);
+      return row.user_id;
+    });
   }
 
   /** The next link of the identity chain (records/ledger.ts): one user, role or token change, hashed and sealed. */
@@ -156,7 +306,7 @@ export class IdentitiesService implements OnModuleInit {
    */
   private async credentialOf(actor: IdentityActor): Promise<string> {
     if (actor === null) return this.keys.serviceCredential();
-    if (!actor.credential) throw new ProblemError(401, 'Authentication required', 'this change needs the acting admin\'s own bearer token');
+    if (!actor.credential) throw new ProblemError(401, 'Authentication required', 'this change needs the acting user\'s own token or session');
     return actor.credential;
   }
 
@@ -182,9 +332,13 @@ export class IdentitiesService implements OnModuleInit {
     );
   }
 
+  /** SQL select list of a user as the API shows it (alias u). */
+  private static readonly USER_COLUMNS = `u.id, u.name, u.email, ${CURRENT_ROLES('u')} AS roles, ${USER_ACTIVE('u')} AS active,
+      EXISTS (SELECT 1 FROM password_credentials pc WHERE pc.user_id = u.id) AS "hasPassword", ${TS_TEXT('u.created_at')} AS "createdAt"`;
+
   async getUser(id: string) {
-    const rows = await this.db.query<{ id: string; name: string; roles: Role[]; createdAt: string }>(
-      `SELECT id, name, roles, ${TS_TEXT('created_at')} AS "createdAt" FROM users WHERE id = $1`,
+    const rows = await this.db.query<{ id: string; name: string; email: string | null; roles: Role[]; active: boolean; hasPassword: boolean; createdAt: string }>(
+      `SELECT ${IdentitiesService.USER_COLUMNS} FROM users u WHERE u.id = $1`,
       [checkUuid(id, 'user')],
     );
     if (rows.length === 0) throw notFound(`user ${id}`);
@@ -192,7 +346,7 @@ export class IdentitiesService implements OnModuleInit {
   }
 
   async listUsers() {
-    return this.db.query(`SELECT id, name, roles, ${TS_TEXT('created_at')} AS "createdAt" FROM users ORDER BY created_at, id`);
+    return this.db.query(`SELECT ${IdentitiesService.USER_COLUMNS} FROM users u ORDER BY u.created_at, u.id`);
   }
 
   /**
@@ -200,7 +354,8 @@ export class IdentitiesService implements OnModuleInit {
    * expiresInDays, at expiresAt, or by default after LEADLINE_TOKEN_TTL_DAYS (at most MAX_TOKEN_DAYS).
    */
   async issueToken(userId: string, body: unknown, actor: IdentityActor, options: { ttlMs?: number } = {}): Promise<{ id: string; token: string; expiresAt: string }> {
-    await this.getUser(userId);
+    const user = await this.getUser(userId);
+    if (!user.active) throw new ProblemError(409, 'User deactivated', 'a deactivated user gets no token');
     const input = validate(createTokenSchema, body) ?? {};
     const now = this.clock.now();
     let expiresAt: Date;
@@ -236,7 +391,7 @@ export class IdentitiesService implements OnModuleInit {
     await this.getUser(userId);
     const expiry = 'COALESCE(t.expires_at, t.created_at + make_interval(days => $2::int))';
     return this.db.query(
-      `SELECT t.id, t.label, ${TS_TEXT('t.created_at')} AS "createdAt", r.token_id IS NOT NULL AS revoked,
+      `SELECT t.id, t.label, ${TS_TEXT('t.created_at')} AS "createdAt", r.token_id IS NOT NULL AS revoked, t.created_by AS "issuedBy",
               ${TS_TEXT(expiry)} AS "expiresAt", ${expiry} <= $3::timestamptz AS expired
          FROM tokens t LEFT JOIN token_revocations r ON r.token_id = t.id WHERE t.user_id = $1 ORDER BY t.created_at`,
       [userId, this.ttlDays, this.nowIso()],
@@ -323,14 +478,17 @@ export class IdentitiesService implements OnModuleInit {
     const hit = this.cache.get(hash);
     if (hit && hit.until > now) return hit.principal;
     const legacy = this.config.LEADLINE_LEGACY_TOKENS === 'accept' ? legacyTokenHash(token) : null;
-    const rows = await this.db.query<{ user_id: string; name: string; roles: Role[]; token_id: string; token_hash: string; revoked: boolean; ms_left: string }>(
-      `SELECT user_id, name, roles, token_id, token_hash, revoked,
-              floor(extract(epoch FROM COALESCE(expires_at, created_at + make_interval(days => $3::int)) - $4::timestamptz) * 1000) AS ms_left
-         FROM leadline_find_token($1, $2)`,
+    // current roles and deactivation from the identity events, as the record functions read them
+    const rows = await this.db.query<{ user_id: string; name: string; roles: Role[]; token_id: string; token_hash: string; revoked: boolean; active: boolean; created_by: string | null; ms_left: string }>(
+      `SELECT f.user_id, f.name, leadline_user_roles(f.user_id) AS roles, f.token_id, f.token_hash, f.revoked, leadline_user_active(f.user_id) AS active, t.created_by,
+              floor(extract(epoch FROM COALESCE(f.expires_at, f.created_at + make_interval(days => $3::int)) - $4::timestamptz) * 1000) AS ms_left
+         FROM leadline_find_token($1, $2) f JOIN tokens t ON t.id = f.token_id`,
       [hash, legacy, this.ttlDays, new Date(now).toISOString()],
     );
-    const live = rows.find((r) => !r.revoked && Number(r.ms_left) > 0);
-    const principal = live ? { id: live.user_id, name: live.name, roles: live.roles, tokenId: live.token_id, credential: live.token_hash } : null;
+    const live = rows.find((r) => !r.revoked && r.active && Number(r.ms_left) > 0);
+    const principal: Principal | null = live
+      ? { id: live.user_id, name: live.name, roles: live.roles, tokenId: live.token_id, tokenIssuedBy: live.created_by, authMethod: 'token', credential: live.token_hash }
+      : null;
     if (principal) {
       // Oldest entry out first when full; a cached token is never trusted past its expiry
       if (this.cache.size >= 10000) this.cache.delete(this.cache.keys().next().value as string);

@@ -4,6 +4,10 @@
 import { isIP } from 'node:net';
 import { z } from 'zod';
 
+/** How a decision may be signed (docs/reliability.md, electronic signatures). */
+export const SIGNATURE_METHODS = ['password', 'oidc'] as const;
+export type SignatureMethod = (typeof SIGNATURE_METHODS)[number];
+
 const flag = z
   .enum(['true', 'false', '1', '0'])
   .transform((v) => v === 'true' || v === '1');
@@ -108,6 +112,38 @@ export const configSchema = z.object({
   LEADLINE_DEMO_TOKEN_TTL_HOURS: z.coerce.number().int().min(1).max(720).default(12),
   /** Issue and print fresh demo tokens at start although the demo database is not empty (otherwise only on the first seed) */
   LEADLINE_DEMO_TOKENS: flag.default(false),
+  /** Minutes without a request after which a page session ends (OWASP Session Management Cheat Sheet: 15-30 min for high-value applications) */
+  LEADLINE_SESSION_IDLE_MINUTES: z.coerce.number().int().min(1).max(24 * 60).default(30),
+  /** Hours after sign-in after which a page session ends whatever its activity (same source: 4-8 h common) */
+  LEADLINE_SESSION_ABSOLUTE_HOURS: z.coerce.number().int().min(1).max(7 * 24).default(8),
+  /** Hours an activation or password-reset code stays valid */
+  LEADLINE_ACTIVATION_HOURS: z.coerce.number().int().min(1).max(30 * 24).default(72),
+  /** Signature methods a decision accepts (comma list of password, oidc) */
+  LEADLINE_SIGNATURE_METHODS: z
+    .string()
+    .default('password,oidc')
+    .transform((v, ctx) => {
+      const list = [...new Set(v.split(',').map((m) => m.trim()).filter(Boolean))];
+      const bad = list.filter((m) => !(SIGNATURE_METHODS as readonly string[]).includes(m));
+      if (list.length === 0 || bad.length > 0) {
+        ctx.addIssue({ code: 'custom', message: `a comma list of ${SIGNATURE_METHODS.join(', ')}; not understood: ${bad.join(', ') || v}` });
+        return z.NEVER;
+      }
+      return list as SignatureMethod[];
+    }),
+  /** OpenID Connect issuer (discovery at <issuer>/.well-known/openid-configuration); unset: local accounts only */
+  LEADLINE_OIDC_ISSUER: z.string().url().optional(),
+  /** Client id registered at the identity provider */
+  LEADLINE_OIDC_CLIENT_ID: z.string().min(1).optional(),
+  /** Client secret registered at the identity provider */
+  LEADLINE_OIDC_CLIENT_SECRET: z.string().min(1).optional(),
+  /** ID-token claim holding the user's roles (a list or a space-separated string of author, reviewer, admin) */
+  LEADLINE_OIDC_ROLE_CLAIM: z.string().min(1).default('roles'),
+  /**
+   * The service's own address as the browser reaches it (https://leadline.example.com); the OpenID redirect URI is
+   * <this>/api/v1/auth/oidc/callback. Unset: taken from each request's Host (fine on one host, needed behind a proxy)
+   */
+  LEADLINE_PUBLIC_URL: z.string().url().regex(/^https?:\/\//, 'an http:// or https:// address').optional(),
   // --- Record keys, token hashing and signing-key history (docs/reliability.md, "Threat model") ---
   /**
    * Secret file (at least 64 hex digits, mode 0600) whose key seals every chain link (HMAC) and keys the stored token
@@ -129,8 +165,6 @@ export const configSchema = z.object({
   LEADLINE_SMTP_URL: z.string().regex(/^smtps?:\/\/\S+$/, 'an smtp:// or smtps:// address').optional(),
   /** Sender of notification mail */
   LEADLINE_MAIL_FROM: z.string().min(3).default('Leadline <leadline@localhost>'),
-  /** Address users reach the service at; links in mails point there */
-  LEADLINE_PUBLIC_URL: z.string().url().regex(/^https?:\/\//, 'an http:// or https:// address').default('http://localhost:3000'),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 

@@ -14,7 +14,8 @@ import { ruleSetDefinitionSchema } from '@leadline/rules';
 import { checkpointSchema } from '../checkpoints/checkpoints.service';
 import { addRevisionSchema, openCalculationSchema, reassignSchema, revisionsQuerySchema } from '../calculations/calculations.service';
 import { auditQuerySchema } from '../reviews/audit.service';
-import { createTokenSchema, createUserSchema, identityEventsQuerySchema } from '../identities/identities.service';
+import { createTokenSchema, createUserSchema, identityEventsQuerySchema, setRolesSchema } from '../identities/identities.service';
+import { activateSchema, signInSchema } from '../identities/accounts.service';
 import { createProductSchema } from '../products/products.service';
 import { commentSchema, decisionSchema, withdrawSchema } from '../reviews/reviews.service';
 import { impactSchema } from '../rules/impact.service';
@@ -26,7 +27,7 @@ import { createEndpointSchema } from '../webhooks/webhooks.service';
 const json = (schema: ZodType, io: 'input' | 'output') => z.toJSONSchema(schema, { io, target: 'openapi-3.0', unrepresentable: 'any' });
 
 interface Route {
-  method: 'get' | 'post' | 'put';
+  method: 'get' | 'post' | 'put' | 'delete';
   path: string;
   summary: string;
   tag: string;
@@ -57,7 +58,10 @@ export const ROUTES: Route[] = [
   { method: 'get', path: '/api/v1/products/{id}', summary: 'One product with its calculations', tag: 'products', response: productSchema.extend({ calculations: z.array(calculationSchema) }) },
   { method: 'post', path: '/api/v1/evaluations/charts', summary: "The report's torque-friction and column charts (SVG) of an unsaved design (?units=SI|US); nothing stored", tag: 'evaluations', request: designInputSchema, response: z.object({ unitSystem: z.enum(['SI', 'US']), torqueFriction: z.string(), column: z.string().nullable() }), status: 200 },
   { method: 'get', path: '/api/v1/products/{id}/design-file.pdf', summary: "Design file, PDF: cover sheet, each calculation's latest approved report, audit trail, hash-chain check (?paper=A4|Letter)", tag: 'reports', produces: ['application/pdf'] },
-  { method: 'get', path: '/api/v1/me', summary: 'The signed-in user: id, name, roles', tag: 'identities', response: z.object({ id: z.string().uuid(), name: z.string(), roles: z.array(z.string()) }) },
+  {
+    method: 'get', path: '/api/v1/me', summary: 'The signed-in user: id, name, roles, how they authenticated, and (page sessions) the CSRF token to send as X-CSRF-Token', tag: 'identities',
+    response: z.object({ id: z.string().uuid(), name: z.string(), roles: z.array(z.string()), authMethod: z.enum(['token', 'password', 'oidc']), csrfToken: z.string().nullable() }),
+  },
   { method: 'get', path: '/api/v1/me/revisions', summary: "The signed-in author's revisions, newest first, with review state, decision and reviewers' comments (?state=, ?limit=)", tag: 'reviews' },
   { method: 'get', path: '/api/v1/products/{id}/verify', summary: "Recompute the product's hash chain", tag: 'records', response: chainVerificationSchema },
   { method: 'post', path: '/api/v1/products/{id}/calculations', summary: 'Open a calculation with revision 1', tag: 'calculations', request: openCalculationSchema.extend({ design: designInputSchema }), response: submissionResultSchema, status: 201, idempotent: true },
@@ -76,7 +80,7 @@ export const ROUTES: Route[] = [
   { method: 'get', path: '/api/v1/thread-sizes', summary: 'Standard thread sizes', tag: 'library' },
   { method: 'get', path: '/api/v1/friction-sources', summary: 'Friction coefficient ranges with their sources', tag: 'library' },
   { method: 'get', path: '/api/v1/materials', summary: 'Screw and nut materials', tag: 'library' },
-  { method: 'post', path: '/api/v1/revisions/{id}/decisions', summary: 'Approve or reject (reviewer, not the author; warnings acknowledged; no blocking findings)', tag: 'reviews', request: decisionSchema, status: 201 },
+  { method: 'post', path: '/api/v1/revisions/{id}/decisions', summary: "Approve or reject: an electronic signature with the decider's own credential (signature), by a reviewer who is not the author, with their own session or self-issued token; warnings acknowledged; no blocking findings", tag: 'reviews', request: decisionSchema, status: 201 },
   { method: 'post', path: '/api/v1/revisions/{id}/comments', summary: 'Comment, general or on an input field or a finding', tag: 'reviews', request: commentSchema, status: 201 },
   { method: 'post', path: '/api/v1/revisions/{id}/withdraw', summary: 'Withdraw by the author before a decision', tag: 'reviews', request: withdrawSchema.unwrap() },
   { method: 'get', path: '/api/v1/reviews/queue', summary: 'Revisions awaiting review, oldest first (productId, calculationId, verdict, authorId)', tag: 'reviews' },
@@ -90,8 +94,16 @@ export const ROUTES: Route[] = [
   { method: 'post', path: '/api/v1/rule-sets/{version}/impact', summary: 'Which revisions would change verdict under this version', tag: 'rules', request: impactSchema },
   { method: 'post', path: '/api/v1/rule-sets/recheck', summary: 'Re-check latest and approved revisions with the current engine and adopted rule set (nothing is written)', tag: 'rules', request: recheckSchema, response: recheckResponseSchema },
   { method: 'post', path: '/api/v1/rule-sets/{version}/adopt', summary: 'Judge new submissions by this version', tag: 'rules', request: adoptSchema.unwrap() },
-  { method: 'post', path: '/api/v1/users', summary: 'Create a user with roles (admin)', tag: 'identities', request: createUserSchema, status: 201 },
+  { method: 'post', path: '/api/v1/users', summary: 'Create a user with email and roles; the answer carries a one-time activationCode, never a password (admin)', tag: 'identities', request: createUserSchema, status: 201 },
   { method: 'get', path: '/api/v1/users', summary: 'List users (admin)', tag: 'identities' },
+  { method: 'post', path: '/api/v1/users/{id}/roles', summary: 'Set the roles a user holds; each grant and revocation is an identity event (admin)', tag: 'identities', request: setRolesSchema },
+  { method: 'post', path: '/api/v1/users/{id}/deactivate', summary: 'Deactivate a user: tokens and sessions stop at once; never deleted or renamed (admin)', tag: 'identities' },
+  { method: 'post', path: '/api/v1/users/{id}/reactivate', summary: 'Reactivate a user (admin)', tag: 'identities' },
+  { method: 'post', path: '/api/v1/users/{id}/password-reset', summary: 'A one-time code with which the user sets a new password; the admin never learns it (admin)', tag: 'identities', status: 201 },
+  { method: 'post', path: '/api/v1/sessions', summary: 'Sign in with {email, password}: sets the HttpOnly session cookie of the pages (no token needed)', tag: 'identities', request: signInSchema, status: 201 },
+  { method: 'delete', path: '/api/v1/sessions/current', summary: 'Sign out of the current page session (X-CSRF-Token required)', tag: 'identities', status: 204 },
+  { method: 'post', path: '/api/v1/account/activate', summary: 'Set your own password with the one-time {activationCode} an admin handed over (no token needed)', tag: 'identities', request: activateSchema },
+  { method: 'post', path: '/api/v1/account/tokens', summary: 'Issue a token to yourself for an API client, from a signed-in page session (returned once)', tag: 'identities', request: createTokenSchema.unwrap(), status: 201 },
   { method: 'post', path: '/api/v1/users/{id}/tokens', summary: 'Issue a token, returned once (admin)', tag: 'identities', request: createTokenSchema.unwrap(), status: 201 },
   { method: 'get', path: '/api/v1/users/{id}/tokens', summary: "A user's tokens, without secrets (admin)", tag: 'identities' },
   { method: 'post', path: '/api/v1/users/{id}/tokens/{tokenId}/revoke', summary: 'Revoke a token at once (admin)', tag: 'identities' },
@@ -129,7 +141,7 @@ export function buildOpenApi(routes: Route[] = ROUTES): OpenAPIObject {
       parameters: params,
       ...(r.request ? { requestBody: { required: true, content: { 'application/json': { schema: json(r.request, 'input') } } } } : {}),
       responses: {
-        [String(r.status ?? 200)]: {
+        [String(r.status ?? 200)]: r.status === 204 ? { description: 'done, no content' } : {
           description: 'success',
           content: Object.fromEntries((r.produces ?? ['application/json']).map((type) => [
             type,

@@ -81,7 +81,7 @@ export class MailService implements OnApplicationShutdown {
         ORDER BY m.user_id, m.set_at DESC, m.id DESC`,
       [rule.to === 'author' ? rev.author_id : null, rev.actor_id, rule.to],
     ).then((rows) => rows.filter((r: any) => r.enabled && r.email));
-    const base = this.config.LEADLINE_PUBLIC_URL.replace(/\/+$/, '');
+    const base = (this.config.LEADLINE_PUBLIC_URL ?? `http://127.0.0.1:${this.config.PORT}`).replace(/\/+$/, '');
     const link = rule.to === 'reviewers' ? `${base}/review/revisions/${revisionId}` : `${base}/design/calculations/${rev.calculation_id}`;
     const subject = `${rev.title} (${rev.code}), revision ${rev.revision}: ${rule.state}`;
     const text = [

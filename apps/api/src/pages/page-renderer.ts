@@ -34,6 +34,8 @@ export const PAGE_SPECS = {
   'design-calculation': { title: 'Calculation', script: 'design-calculation.js' },
   'design-my-work': { title: 'My work', script: 'design-my-work.js' },
   'design-form': { title: 'Screw design', script: 'design-form.js' },
+  'sign-in': { title: 'Sign in', script: 'sign-in.js' },
+  'admin-users': { title: 'Users', script: 'admin-users.js' },
 } as const satisfies Record<string, PageSpec>;
 
 export type PageName = keyof typeof PAGE_SPECS;
@@ -90,7 +92,11 @@ export class PageRenderer {
   private readonly pages: Record<string, Template<Record<string, unknown>>>;
   private readonly assets: Record<string, Asset>;
 
-  constructor(options: { templatesDir?: string; assetsDir?: string } = {}) {
+  /** Whether the sign-in page offers the identity provider (LEADLINE_OIDC_ISSUER set) */
+  private readonly oidc: boolean;
+
+  constructor(options: { templatesDir?: string; assetsDir?: string; oidc?: boolean } = {}) {
+    this.oidc = options.oidc ?? false;
     // The service's one Handlebars environment (infra/templates.ts)
     const templates = Templates.of(options.templatesDir);
     this.pages = Object.fromEntries(PAGES.map((name) => [name, templates.template<Record<string, unknown>>(`pages/${name}`)]));
@@ -107,7 +113,7 @@ export class PageRenderer {
   render(page: PageName, styleNonce?: string): string {
     const spec: PageSpec = PAGE_SPECS[page];
     return this.pages[page]({
-      page, title: spec.title, script: ASSET_BASE + spec.script, caution: CAUTION_TEXT, styleNonce: styleNonce ?? null,
+      page, title: spec.title, script: ASSET_BASE + spec.script, caution: CAUTION_TEXT, styleNonce: styleNonce ?? null, oidc: this.oidc,
       frictionSurfaces: [{ surface: 'thread' }, { surface: 'collar' }],
       toleranceOptions: TOLERANCE_OPTIONS,
       pressureSteps: [{ n: 1, i: 0 }, { n: 2, i: 1 }, { n: 3, i: 2 }],

@@ -8,7 +8,7 @@ import { formatDate, STATES_IN_FULL, VERDICTS_IN_FULL, wordFor, type UnitSystem 
 import { governingCheck } from '@leadline/rules';
 import { CAUTION_SHORT, CAUTION_TEXT, type InputRow, type KeyValue, type ReportInput, type ReportView } from './report-view';
 import { buildSections } from './sections/calculation';
-import { actorName, buildEvents } from './sections/review';
+import { actorName, buildEvents, buildSignatures } from './sections/review';
 import { buildChecks, buildFindingGroups, buildSafetyFactors } from './sections/checks';
 import { engineUnitRows, flatten, frictionRows, geometryRows, materialRows } from './sections/inputs';
 
@@ -85,6 +85,7 @@ export function buildReportView(input: ReportInput): ReportView {
     checks: buildChecks(findings, system),
     findingGroups: buildFindingGroups(findings, input.events, system),
     events: buildEvents(input.events),
+    signatures: buildSignatures(input.events),
     historyOmitted: input.omittedHistory
       ? `Listed: the revisions around this one. Not listed: ${input.omittedHistory.before} earlier and ${input.omittedHistory.after} later ` +
         `revision${input.omittedHistory.before + input.omittedHistory.after === 1 ? '' : 's'}; every revision is in GET /api/v1/calculations/${calculation.id}/revisions.`

@@ -148,6 +148,19 @@ export interface FindingGroup {
   readonly findings: readonly FindingView[];
 }
 
+/** One decision's signature block (reviews/signature.ts). */
+export interface SignatureView {
+  readonly printedName: string;
+  readonly meaning: string;
+  readonly signedAt: string;
+  /** signedAt split for print: the date, and the time with its offset */
+  readonly signedDate: string;
+  readonly signedTime: string;
+  readonly method: string;
+  readonly fingerprint: string;
+  readonly revisionHash: string;
+}
+
 export interface EventView {
   readonly seq: number;
   readonly type: string;
@@ -232,6 +245,8 @@ export interface ReportView {
   readonly checks: readonly CheckRow[];
   readonly findingGroups: readonly FindingGroup[];
   readonly events: readonly EventView[];
+  /** A signature block per decision of this revision, in chain order */
+  readonly signatures: readonly SignatureView[];
   /** What the review record leaves out, and where the full trail is (null when it prints everything) */
   readonly eventsOmitted: string | null;
   readonly history: readonly HistoryRow[];

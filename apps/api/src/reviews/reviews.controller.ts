@@ -1,4 +1,7 @@
-import { Body, Controller, Get, HttpCode, Param, Post, Query, StreamableFile } from '@nestjs/common';
+import { Body, Controller, Get, HttpCode, Param, Post, Query, Req, StreamableFile } from '@nestjs/common';
+import type { FastifyRequest } from 'fastify';
+import { clientKey } from '../identities/failure-limiter';
+import type { Principal } from '../identities/identities.service';
 import { Readable } from 'node:stream';
 import type { Actor } from '@leadline/contracts';
 import { CalculationsService } from '../calculations/calculations.service';
@@ -25,8 +28,8 @@ export class ReviewsController {
   @Post('revisions/:id/decisions')
   @Roles('reviewer')
   @HttpCode(201)
-  async decide(@Param('id') id: string, @Body() body: unknown, @CurrentActor() actor: Actor, @CurrentRoles() roles: string[]) {
-    const decided = await this.reviews.decide(id, body, actor, roles);
+  async decide(@Param('id') id: string, @Body() body: unknown, @CurrentActor() actor: Actor, @CurrentRoles() roles: string[], @Req() req: FastifyRequest & { principal: Principal }) {
+    const decided = await this.reviews.decide(id, body, actor, roles, { principal: req.principal, client: clientKey(req.ip) });
     return { ...decided, checkpoint: await this.checkpoints.afterDecision(decided.productId, decided.seq, decided.hash, decided.decidedAt) };
   }
 

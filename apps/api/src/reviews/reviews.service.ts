@@ -12,6 +12,13 @@ import { checkUuid } from '../products/products.service';
 import { TS_TEXT } from '../records/chain';
 import { RecordStore, type Acting, type EventRow } from '../records/record-store';
 import { checkCommentRate } from './comment-limit';
+import { SIGNATURE_MEANING, signatureOf, type Signature } from './signature';
+
+export { SIGNATURE_MEANING, signatureOf, type Signature } from './signature';
+import { AccountsService } from '../identities/accounts.service';
+import type { Principal } from '../identities/identities.service';
+import { ReauthenticationsService } from '../identities/reauthentications.service';
+import { PASSWORD_MAX } from '../identities/passwords';
 
 export const targetSchema = z.union([
   z.strictObject({ field: z.string().min(1).max(200).describe('input field path, e.g. "thread.pitch"') }),
@@ -20,8 +27,18 @@ export const targetSchema = z.union([
 
 export const commentSchema = z.strictObject({ text: z.string().trim().min(1, 'a comment needs text').max(8000), target: targetSchema.optional() });
 
+/** How the decider signs, at the moment of deciding (docs/reliability.md, electronic signatures). */
+export const signatureSchema = z.discriminatedUnion('method', [
+  z.strictObject({ method: z.literal('password'), password: z.string().min(1).max(PASSWORD_MAX).describe("the signer's own password") }),
+  z.strictObject({
+    method: z.literal('oidc'),
+    reauthentication: z.uuid().optional().describe('id of the fresh identity-provider login (default: your newest unused one for this revision; GET /api/v1/auth/oidc/start?purpose=sign&revision=)'),
+  }),
+]);
+
 export const decisionSchema = z.strictObject({
   decision: z.enum(['approve', 'reject']),
+  signature: signatureSchema.optional().describe('required: the decider signs with something only they hold'),
   comment: z.string().max(8000).optional(),
   acknowledgements: z.array(z.strictObject({ finding: z.string().min(1).max(100), comment: z.string().trim().min(1, 'an acknowledgement needs a comment').max(4000) })).max(100).optional(),
   comments: z.array(commentSchema).max(100).optional().describe('comments attached to input fields or findings'),
@@ -47,6 +64,13 @@ export const CLOSED = (alias: string, kind?: 'approved' | 'rejected' | 'withdraw
             JOIN chain_heads xh ON xh.product_id = xe.product_id AND xe.seq <= xh.seq
             WHERE x.revision_id = ${alias}.id${kind ? ` AND x.kind = '${kind}'` : ''})`;
 
+/** Who is deciding, and how they authenticated on this request. */
+export interface SignerContext {
+  principal: Principal;
+  /** Client address key of the failure limiter */
+  client: string;
+}
+
 /** A second decision that lost the race for the revision's one closure (its primary key). */
 function raced(err: unknown): never {
   if (pgErrorCode(err) === PG_UNIQUE_VIOLATION) throw new ProblemError(409, 'Revision is not awaiting review', 'another decision was recorded first');
@@ -64,6 +88,7 @@ export interface RevisionState {
   state: ReviewState;
   decidedBy: Actor | null;
   decidedAt: string | null;
+  signature: Signature | null;
 }
 
 @Injectable()
@@ -72,6 +97,8 @@ export class ReviewsService {
     private readonly db: Database,
     private readonly records: RecordStore,
     @Inject(APP_CONFIG) private readonly config: AppConfig,
+    private readonly accounts: AccountsService,
+    private readonly reauthentications: ReauthenticationsService,
   ) {}
 
   async state(id: string, q: Queryer = this.db): Promise<RevisionState> {
@@ -118,6 +145,7 @@ export class ReviewsService {
         state: closure ?? (r.superseded ? 'superseded' : 'submitted'),
         decidedBy: closure ? ((r.event!.actor as Actor | null) ?? null) : null,
         decidedAt: closure ? r.decided_at : null,
+        signature: closure === 'approved' || closure === 'rejected' ? signatureOf(r.event!.data, r.decided_at, r.event!.hash) : null,
       };
     });
   }
@@ -127,12 +155,13 @@ export class ReviewsService {
    * never with an admin's token, no blocking findings, every warning acknowledged, exactly one decision.
    * @param roles - the deciding caller's roles
    */
-  async decide(revisionId: string, body: unknown, actor: Acting, roles: readonly string[] = []) {
+  async decide(revisionId: string, body: unknown, actor: Acting, roles: readonly string[], signer: SignerContext) {
     if (roles.includes('admin')) {
       throw new ProblemError(403, 'Admins do not decide', 'an admin identity can issue tokens, so it may not approve or reject; decide with a reviewer identity that is not an admin');
     }
     const input = validate(decisionSchema, body);
     const head = await this.state(revisionId);
+    await this.checkSignature(input.signature, signer, head);
     return this.db.transaction(async (q) => {
       const cursor = (await this.records.lockHead(q, head.productId))!;
       const rev = await this.state(revisionId, q);
@@ -170,12 +199,41 @@ export class ReviewsService {
         if (acknowledgements.length) throw new ValidationProblem([{ path: 'acknowledgements', message: 'acknowledgements belong to an approval' }]);
       }
       const kind = input.decision === 'approve' ? 'approved' : 'rejected';
+      const [{ hash: revisionHash }] = await q.query<{ hash: string }>(`SELECT hash FROM revisions WHERE id = $1`, [rev.id]);
+      const signature = { signerId: actor.id, printedName: actor.name, meaning: SIGNATURE_MEANING[kind], method: input.signature!.method, revisionHash };
       const event = await this.records.appendEvent(q, cursor, {
         productId: rev.productId, type: kind, calculationId: rev.calculationId, revisionId: rev.id, actor,
-        data: { revision: rev.revision, comment: input.comment ?? null, acknowledgements, comments },
+        data: { revision: rev.revision, comment: input.comment ?? null, acknowledgements, comments, signature },
       }).catch(raced);
-      return { revisionId: rev.id, state: kind, eventId: event.id, hash: event.hash, decidedAt: event.createdAt, seq: event.seq, productId: rev.productId };
+      return {
+        revisionId: rev.id, state: kind, eventId: event.id, hash: event.hash, decidedAt: event.createdAt, seq: event.seq, productId: rev.productId,
+        signature: signatureOf({ signature }, event.createdAt, event.hash),
+      };
     });
+  }
+
+  /**
+   * Nobody signs for anyone else: the decider acts with their own session or a token they issued themselves, and
+   * signs with something only they hold, checked now. Refusals are 403 naming `signature`.
+   */
+  private async checkSignature(signature: z.infer<typeof signatureSchema> | undefined, signer: SignerContext, rev: RevisionState): Promise<void> {
+    const p = signer.principal;
+    const refuse = (path: string, detail: string): never => {
+      throw new ProblemError(403, 'Signature not accepted', detail, { errors: [{ path, message: detail }] });
+    };
+    if (p.authMethod === 'token' && p.tokenIssuedBy !== p.id) {
+      refuse('signature', 'this token was issued by another person: a decision needs your own session or a token you issued yourself (POST /api/v1/account/tokens)');
+    }
+    if (!signature) refuse('signature', 'a decision is an electronic signature: send signature {method, ...} with your own credential');
+    const sig = signature!;
+    if (!this.config.LEADLINE_SIGNATURE_METHODS.includes(sig.method)) {
+      refuse('signature.method', `this site accepts signatures by ${this.config.LEADLINE_SIGNATURE_METHODS.join(', ')}`);
+    }
+    if (sig.method === 'password') {
+      if (!(await this.accounts.verifySignerPassword(p.id, sig.password, signer.client))) refuse('signature.password', 'not your password');
+      return;
+    }
+    await this.reauthentications.consume(sig.reauthentication, p, rev.id, refuse);
   }
 
   async comment(revisionId: string, body: unknown, actor: Actor) {

@@ -1,13 +1,14 @@
 /**
  * Seeds the invented demo scenario through the same services the API uses, only into an empty database (no
  * products): demo users named by role, two products of a fictional company, their screw calculations and a first
- * review. The demo users' tokens are short-lived (LEADLINE_DEMO_TOKEN_TTL_HOURS) and are issued and printed only
+ * review. The demo accounts get generated passwords, printed once by the first seed. The demo users' tokens are short-lived (LEADLINE_DEMO_TOKEN_TTL_HOURS) and are issued and printed only
  * by that first seed, or on a later start when asked explicitly (LEADLINE_DEMO_TOKENS=true); only hashes are stored.
  */
 import type { INestApplicationContext } from '@nestjs/common';
 import type { Actor } from '@leadline/contracts';
-import { randomUUID } from 'node:crypto';
+import { randomBytes, randomUUID } from 'node:crypto';
 import { CalculationsService } from '../calculations/calculations.service';
+import { AccountsService } from '../identities/accounts.service';
 import { IdentitiesService, type Role } from '../identities/identities.service';
 import { APP_CONFIG, type AppConfig } from '../infra/config';
 import { Database } from '../infra/database/database.service';
@@ -42,16 +43,19 @@ async function openRecorded(app: INestApplicationContext, productId: string, tit
   });
 }
 
-export const DEMO_USERS: { name: string; roles: Role[] }[] = [
-  { name: 'Design author (demo)', roles: ['author'] },
-  { name: 'Checking engineer (demo)', roles: ['reviewer'] },
-  { name: 'Administrator (demo)', roles: ['admin'] },
+/** Demo users, named by role; their emails are in the reserved example.com domain (RFC 2606). */
+export const DEMO_USERS: { name: string; email: string; roles: Role[] }[] = [
+  { name: 'Design author (demo)', email: 'author@demo.example.com', roles: ['author'] },
+  { name: 'Checking engineer (demo)', email: 'checker@demo.example.com', roles: ['reviewer'] },
+  { name: 'Administrator (demo)', email: 'admin@demo.example.com', roles: ['admin'] },
 ];
 
 export interface SeedResult {
   seeded: boolean;
   products: { id: string; code: string }[];
   tokens: { name: string; roles: Role[]; token: string; expiresAt: string }[];
+  /** The demo accounts' emails and passwords: set and printed by the first seed only (only hashes are stored) */
+  accounts: { name: string; email: string; roles: Role[]; password: string }[];
 }
 
 export interface SeedOptions {
@@ -78,19 +82,42 @@ export async function seedDemo(app: INestApplicationContext, options: SeedOption
     return tokens;
   };
   // Not empty: nothing is seeded, and tokens only when asked for, for demo users that exist
-  if (Number(n) > 0) return { seeded: false, products: [], tokens: options.issueTokens && existing.length > 0 ? await issue(existing) : [] };
+  if (Number(n) > 0) return { seeded: false, products: [], tokens: options.issueTokens && existing.length > 0 ? await issue(existing) : [], accounts: [] };
 
+  // Each demo account is activated the way a user activates one (a one-time code, the user's own password)
+  const accountsService = app.get(AccountsService);
   const users = new Map<string, { id: string; name: string; roles: Role[] }>();
-  for (const u of DEMO_USERS) users.set(u.name, existing.find((e) => e.name === u.name) ?? (await identities.createUser(u, null)));
+  const accounts: SeedResult['accounts'] = [];
+  for (const u of DEMO_USERS) {
+    const found = existing.find((e) => e.name === u.name);
+    if (found) {
+      users.set(u.name, found);
+      continue;
+    }
+    const created = await identities.createUser(u, null);
+    const password = `demo-${randomBytes(15).toString('base64url')}`;
+    await accountsService.activate({ activationCode: created.activationCode, password }, 'demo seed');
+    users.set(u.name, created);
+    accounts.push({ name: u.name, email: u.email, roles: u.roles, password });
+  }
   const tokens = await issue(users.values());
+  const checkerPassword = accounts.find((a) => a.name === 'Checking engineer (demo)')?.password;
 
-  // the demo users act with the tokens just issued to them, as through the API
+  // the demo author acts with the token just issued to them, as through the API
   const actingWith = async (name: string): Promise<Actor> => {
     const principal = await identities.authenticate(tokens.find((t) => t.name === name)!.token);
     return actingAs({ id: users.get(name)!.id, name }, principal!);
   };
   const author = await actingWith('Design author (demo)');
-  const reviewer = await actingWith('Checking engineer (demo)');
+  // The checking engineer signs in with their own password (a page session, their own credential) and signs the
+  // demo's decisions with it, through the same check as every decision
+  const checker = accounts.find((a) => a.name === 'Checking engineer (demo)');
+  const signedIn = checker ? await accountsService.signIn({ email: checker.email, password: checker.password }, 'demo seed') : null;
+  const session = signedIn ? await accountsService.resolveSession(signedIn.cookie) : null;
+  const reviewerPrincipal = session?.principal ?? (await identities.authenticate(tokens.find((t) => t.name === 'Checking engineer (demo)')!.token))!;
+  const reviewer = actingAs({ id: users.get('Checking engineer (demo)')!.id, name: 'Checking engineer (demo)' }, reviewerPrincipal);
+  const signer = { principal: reviewerPrincipal, client: 'demo seed' };
+  const signature = { method: 'password', password: checkerPassword };
   const products = app.get(ProductsService);
   const calculations = app.get(CalculationsService);
   const reviews = app.get(ReviewsService);
@@ -108,7 +135,7 @@ export async function seedDemo(app: INestApplicationContext, options: SeedOption
         const acknowledgements = rev.findings
           .filter((f) => f.severity === 'warning')
           .map((f) => ({ finding: f.ruleId, comment: 'Checked against the supplier data sheet (demo).' }));
-        await reviews.decide(opened.revisionId, { decision: 'approve', comment: 'Checked; margins acceptable (demo).', acknowledgements }, reviewer);
+        await reviews.decide(opened.revisionId, { decision: 'approve', comment: 'Checked; margins acceptable (demo).', acknowledgements, signature }, reviewer, signer.principal.roles, signer);
       } else if (c.review === 'reject') {
         await reviews.decide(
           opened.revisionId,
@@ -116,11 +143,14 @@ export async function seedDemo(app: INestApplicationContext, options: SeedOption
             decision: 'reject',
             comment: 'Not self-locking on lifting duty without a brake (demo).',
             comments: [{ text: 'Add a spring-applied brake or use a single-start thread (demo).', target: { field: 'duty.brake' } }],
+            signature,
           },
           reviewer,
+          signer.principal.roles,
+          signer,
         );
       }
     }
   }
-  return { seeded: true, products: created, tokens };
+  return { seeded: true, products: created, tokens, accounts };
 }

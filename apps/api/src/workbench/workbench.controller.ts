@@ -7,11 +7,14 @@ import { MyWorkService } from './my-work.service';
 export class WorkbenchController {
   constructor(private readonly work: MyWorkService) {}
 
-  /** The caller: id, name and roles. */
+  /**
+   * The caller: id, name, roles, how they authenticated, and for a page session the CSRF token its state-changing
+   * requests send as X-CSRF-Token.
+   */
   @Get()
   me(@Req() req: { principal: Principal }) {
     const p = req.principal;
-    return { id: p.id, name: p.name, roles: p.roles };
+    return { id: p.id, name: p.name, roles: p.roles, authMethod: p.authMethod, csrfToken: p.csrfToken ?? null };
   }
 
   /** The caller's revisions, newest first, with review state, decision and reviewers' comments (?state=, ?limit=). */

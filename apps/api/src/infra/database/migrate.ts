@@ -56,7 +56,7 @@ export async function migrateServer(config: MigrationConfig, logger = new Logger
 }
 
 /**
- * SELECT on the tables (tokens without token_hash), INSERT on idempotency_keys only, EXECUTE on the functions;
+ * SELECT on the tables (tokens without token_hash, sessions without secret_hash and seal_key), INSERT on idempotency_keys only, EXECUTE on the functions;
  * everything else revoked. Every record, identity and rule row is written by the SECURITY DEFINER functions of
  * migrations/20261204230000, which check the acting credential and the invariants (docs/reliability.md, "Threat model").
  */
@@ -66,12 +66,15 @@ export async function grantRuntime(q: { query(sql: string, params?: unknown[]): 
   await q.query(`REVOKE ALL ON ALL TABLES IN SCHEMA public FROM ${r}`);
   await q.query(`GRANT SELECT ON ALL TABLES IN SCHEMA public TO ${r}`);
   await q.query(`REVOKE ALL ON ${MIGRATIONS_TABLE} FROM ${r}`);
-  // a token row's hash is the one thing the runtime role may not read: it is what the functions accept as a credential
-  await q.query(`REVOKE SELECT ON tokens FROM ${r}`);
-  const columns = (await q.query(
-    `SELECT column_name FROM information_schema.columns WHERE table_schema = 'public' AND table_name = 'tokens' AND column_name <> 'token_hash' ORDER BY ordinal_position`,
-  )) as { column_name: string }[];
-  await q.query(`GRANT SELECT (${columns.map((c) => ident(c.column_name)).join(', ')}) ON tokens TO ${r}`);
+  // a token row's hash and a session's secret hash are what the functions accept as a credential: the runtime role may not read them
+  for (const [table, hidden] of Object.entries(HIDDEN_COLUMNS)) {
+    await q.query(`REVOKE SELECT ON ${table} FROM ${r}`);
+    const columns = (await q.query(
+      `SELECT column_name FROM information_schema.columns WHERE table_schema = 'public' AND table_name = $1 AND NOT (column_name = ANY ($2::text[])) ORDER BY ordinal_position`,
+      [table, hidden],
+    )) as { column_name: string }[];
+    if (columns.length) await q.query(`GRANT SELECT (${columns.map((c) => ident(c.column_name)).join(', ')}) ON ${table} TO ${r}`);
+  }
   for (const table of RUNTIME_INSERT_TABLES) await q.query(`GRANT INSERT ON ${table} TO ${r}`);
   await q.query(`GRANT EXECUTE ON ALL FUNCTIONS IN SCHEMA public TO ${r}`);
   // helpers the record functions call with the owner's rights; called directly they would write without the checks
@@ -79,6 +82,9 @@ export async function grantRuntime(q: { query(sql: string, params?: unknown[]): 
     if (((await q.query(`SELECT to_regprocedure($1) AS f`, [fn])) as { f: string | null }[])[0]?.f) await q.query(`REVOKE EXECUTE ON FUNCTION ${fn} FROM ${r}`);
   }
 }
+
+/** Columns the runtime role may not read: the stored credentials (and a session's seal key, which makes its cookies). */
+export const HIDDEN_COLUMNS: Readonly<Record<string, readonly string[]>> = { tokens: ['token_hash'], sessions: ['secret_hash', 'seal_key'] };
 
 /** Functions only the record functions call (migrations/20261204230200). */
 export const INTERNAL_FUNCTIONS = ['leadline_ledger_next(text, bigint, text, text, text)', 'leadline_put_identity_events(uuid, uuid, jsonb)'];

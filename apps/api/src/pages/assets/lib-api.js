@@ -1,10 +1,16 @@
 /*
- * The API client of every page. The bearer token lives in sessionStorage (this tab only) and travels only in
- * the Authorization header: never in a cookie, a web address or a log line.
+ * The API client of every page. The pages are signed in by the HttpOnly session cookie the browser sends by itself
+ * (no credential in script storage or a web address); every state-changing request carries the session's CSRF token
+ * (from GET /api/v1/me) in the X-CSRF-Token header.
  */
 import { el } from './lib-dom.js';
 
-export const TOKEN_KEY = 'leadline.reviewToken';
+let csrf = null;
+
+/** The session's CSRF token, once GET /api/v1/me has given it (lib-session.js). */
+export function setCsrfToken(value) {
+  csrf = value;
+}
 
 /** A refusal (or an unreachable service, status 0) with its problem+json body. */
 export class ApiError extends Error {
@@ -15,33 +21,31 @@ export class ApiError extends Error {
   }
 }
 
-export function token() {
-  return sessionStorage.getItem(TOKEN_KEY);
-}
-
 let onUnauthorized = function () {};
 
-/** What to do when the stored token is refused (the session module signs out). */
+/** What to do when the session is refused (the session module goes to the sign-in page). */
 export function whenUnauthorized(handler) {
   onUnauthorized = handler;
 }
 
 /**
- * fetch with the stored token (or, while signing in, the candidate `bearer`); JSON, text or a blob back;
- * refusals become ApiError. A 401 on the stored token signs out. options: method, body, headers, accept,
- * as ('json' | 'text' | 'blob'), signal.
+ * fetch with the session cookie; JSON, text or a blob back; refusals become ApiError. A 401 goes to the sign-in
+ * page (except for the sign-in requests themselves, `public: true`). options: method, body, headers, accept,
+ * as ('json' | 'text' | 'blob'), signal, public.
  */
-export async function request(path, options, bearer) {
+export async function request(path, options) {
   options = options || {};
-  const headers = Object.assign({ authorization: 'Bearer ' + (bearer || token()), accept: options.accept || 'application/json' }, options.headers || {});
+  const method = options.method || 'GET';
+  const headers = Object.assign({ accept: options.accept || 'application/json' }, options.headers || {});
   if (options.body !== undefined) headers['content-type'] = 'application/json';
+  if (method !== 'GET' && method !== 'HEAD' && csrf) headers['x-csrf-token'] = csrf;
   let res;
   try {
     res = await fetch(path, {
-      method: options.method || 'GET',
+      method: method,
       headers: headers,
       body: options.body === undefined ? undefined : JSON.stringify(options.body),
-      credentials: 'omit',
+      credentials: 'same-origin',
       cache: 'no-store',
       referrerPolicy: 'no-referrer',
       signal: options.signal,
@@ -57,9 +61,10 @@ export async function request(path, options, bearer) {
     } catch (e) {
       problem = { title: res.statusText || 'Request refused' };
     }
-    if (res.status === 401 && !bearer) onUnauthorized(problem);
+    if (res.status === 401 && !options.public) onUnauthorized(problem);
     throw new ApiError(res.status, problem);
   }
+  if (res.status === 204) return null;
   if (options.as === 'blob') return { blob: await res.blob(), disposition: res.headers.get('content-disposition') };
   if (options.as === 'text') return res.text();
   return res.json();
@@ -74,7 +79,7 @@ export function newIdempotencyKey() {
   return 'page-' + crypto.randomUUID();
 }
 
-/** Downloads a file fetched with the token (a blob: address, so the token is not in any link). */
+/** Downloads a file fetched with the session (saved from a blob: address). */
 export async function download(path, fallbackName, status) {
   status.textContent = 'Preparing ' + fallbackName + '…';
   try {

@@ -1,12 +1,11 @@
 /*
- * Sign-in and the shared navigation of /review and /design. The token is checked against the API, kept in
- * sessionStorage and never put in a URL; the signed-in user's name and roles come from GET /api/v1/me.
+ * The signed-in user and the shared navigation of /review and /design. The session is the HttpOnly cookie set at
+ * the sign-in page; GET /api/v1/me says who is signed in and gives the CSRF token. Without a session the page goes
+ * to /sign-in and comes back here afterwards.
  */
-import { ApiError, request, token, TOKEN_KEY, whenUnauthorized } from './lib-api.js';
+import { request, setCsrfToken, whenUnauthorized } from './lib-api.js';
 import { $ } from './lib-dom.js';
-import { clearProblem, showProblem } from './lib-problem.js';
 
-let started = false;
 let me = null;
 
 /** The signed-in user ({ id, name, roles }), once the page has started. */
@@ -14,14 +13,11 @@ export function currentUser() {
   return me;
 }
 
-function signOut(problem) {
-  sessionStorage.removeItem(TOKEN_KEY);
-  $('content').hidden = true;
-  $('sign-out').hidden = true;
-  $('who').hidden = true;
-  $('sign-in').hidden = false;
-  if (problem) showProblem($('sign-in-problem'), new ApiError(401, problem));
-  $('token-input').focus();
+/** To the sign-in page, which brings the user back to this page (path and query, never another site). */
+function toSignIn(problem) {
+  const next = location.pathname + location.search;
+  const refused = problem && problem.detail && !/^sign in, or send/.test(problem.detail) ? '&refused=' + encodeURIComponent(problem.detail) : '';
+  location.assign('/sign-in?next=' + encodeURIComponent(next) + refused);
 }
 
 /** Marks the navigation link of this page (aria-current, and in words for sighted users by its style). */
@@ -36,50 +32,30 @@ function markNavigation() {
   if (best) best.setAttribute('aria-current', 'page');
 }
 
-async function signedIn(run) {
-  $('sign-in').hidden = true;
-  $('sign-out').hidden = false;
-  $('content').hidden = false;
-  if (started) return location.reload(); // signed in again after a refusal: start afresh
-  started = true;
+/** Reads who is signed in (or goes to sign in), then runs the page. */
+export async function startPage(run) {
+  whenUnauthorized(toSignIn);
+  markNavigation();
+  $('sign-out').addEventListener('click', async function () {
+    try {
+      await request('/api/v1/sessions/current', { method: 'DELETE' });
+    } finally {
+      location.assign('/sign-in');
+    }
+  });
   try {
     me = await request('/api/v1/me');
-    $('who').textContent = 'Signed in as ' + me.name;
-    $('who').hidden = false;
   } catch (err) {
-    return; // a 401 has signed out already
+    return; // a 401 has gone to the sign-in page already
   }
+  setCsrfToken(me.csrfToken);
+  $('who').textContent = 'Signed in as ' + me.name;
+  $('who').hidden = false;
+  $('sign-out').hidden = false;
+  if (me.roles.indexOf('admin') >= 0) {
+    const users = document.getElementById('nav-users');
+    if (users) users.hidden = false;
+  }
+  $('content').hidden = false;
   run();
-}
-
-/** Sets up sign-in and navigation, then runs the page once a token is accepted. */
-export function startPage(run) {
-  whenUnauthorized(signOut);
-  markNavigation();
-  $('sign-in-form').addEventListener('submit', async function (event) {
-    event.preventDefault();
-    const input = $('token-input');
-    const candidate = input.value.trim();
-    const slot = $('sign-in-problem');
-    if (!candidate) {
-      showProblem(slot, new ApiError(0, { title: 'Paste your token first' }));
-      return;
-    }
-    try {
-      await request('/api/v1/me', {}, candidate);
-    } catch (err) {
-      showProblem(slot, err);
-      return;
-    }
-    sessionStorage.setItem(TOKEN_KEY, candidate);
-    input.value = '';
-    clearProblem(slot);
-    signedIn(run);
-  });
-  $('sign-out').addEventListener('click', function () {
-    sessionStorage.removeItem(TOKEN_KEY);
-    location.assign(location.pathname.startsWith('/design') ? '/design' : '/review');
-  });
-  if (token()) signedIn(run);
-  else signOut(null);
 }

@@ -30,6 +30,7 @@ function renderHeader(rev, product, calculation) {
   fact(facts, 'Revision', String(rev.revision) + (rev.note ? ' — ' + rev.note : ''));
   const state = el('span', {}, badge('state', rev.review.state, STATES));
   if (rev.review.decidedBy) state.append(' by ' + rev.review.decidedBy.name + ' at ' + time(rev.review.decidedAt) + ' UTC');
+  if (rev.review.signature) state.append('; signed: ' + rev.review.signature.meaning + ', ' + rev.review.signature.signedAt + ', by ' + rev.review.signature.method + ' (signature ' + rev.review.signature.fingerprint + ')');
   fact(facts, 'Review state', state);
   fact(facts, 'Verdict of the rules', verdictBadge(rev.verdict, rev.review.state));
   fact(facts, 'Author', rev.author ? rev.author.name : '–');
@@ -108,18 +109,26 @@ function setUpDecision(rev, reload) {
     if (sentComments.length) body.comments = sentComments.map(function (area) {
       return { text: area.value.trim(), target: { finding: area.dataset.finding } };
     });
+    // signed at the identity provider (a fresh login for this revision), or with the password given now; without
+    // either the service refuses the unsigned decision itself (403 naming signature)
+    if (oidcSigner()) body.signature = { method: 'oidc' };
+    else if ($('signature-password').value) body.signature = { method: 'password', password: $('signature-password').value };
     const button = $('decision-submit');
     button.disabled = true;
     try {
       const result = await api('/api/v1/revisions/' + encodeURIComponent(rev.id) + '/decisions', { method: 'POST', body: body });
       $('decision').hidden = true;
       const done = $('decision-done');
-      done.replaceChildren('Revision ' + rev.revision + ' ' + result.state + ' at ' + time(result.decidedAt) + ' UTC. Event hash ', el('code', { class: 'hash wrap' }, result.hash), '.');
+      const sig = result.signature;
+      done.replaceChildren('Revision ' + rev.revision + ' ' + result.state + ' at ' + time(result.decidedAt) + ' UTC, signed by ' + sig.printedName + ' (' + sig.meaning + '; signature ' + sig.fingerprint + '). Event hash ', el('code', { class: 'hash wrap' }, result.hash), '.');
       done.hidden = false;
+      $('signature-password').value = '';
       reload();
     } catch (err) {
+      $('signature-password').value = '';
       showProblem(slot, err);
       markInvalid(err, sentAcks, sentComments, acks);
+      if (((err.problem && err.problem.errors) || []).some(function (i) { return /^signature/.test(String(i.path)); })) $('signature-password').setAttribute('aria-invalid', 'true');
       slot.scrollIntoView({ block: 'nearest' });
     } finally {
       button.disabled = false;
@@ -141,6 +150,24 @@ function markInvalid(err, sentAcks, sentComments, acks) {
     } else if ((m = /^acknowledgements\.(\d+)/.exec(path)) && sentAcks[m[1]]) sentAcks[m[1]].setAttribute('aria-invalid', 'true');
     else if ((m = /^comments\.(\d+)/.exec(path)) && sentComments[m[1]]) sentComments[m[1]].setAttribute('aria-invalid', 'true');
   });
+}
+
+/** A user signed in at the identity provider signs there too (a fresh login, max_age=0), not with a password. */
+function oidcSigner() {
+  const me = currentUser();
+  return Boolean(me && me.authMethod === 'oidc');
+}
+
+/** For a provider-signed-in user: the link to the fresh login for this revision, and what came back from it. */
+function setUpProviderSignature(revisionId) {
+  if (!oidcSigner()) return;
+  $('signature-password-field').hidden = true;
+  $('signature-oidc').hidden = false;
+  $('signature-oidc-start').setAttribute('href', '/api/v1/auth/oidc/start?purpose=sign&revision=' + encodeURIComponent(revisionId) + '&next=' + encodeURIComponent(location.pathname));
+  const status = $('signature-oidc-status');
+  if (location.hash === '#signed-at-provider') status.textContent = 'Identity confirmed at the provider: record the decision now.';
+  else if (location.hash === '#provider-login-too-old') status.textContent = 'The provider did not ask you to sign in again; confirm once more.';
+  else status.textContent = 'Confirm first, then record the decision.';
 }
 
 async function revisionPage() {
@@ -165,6 +192,7 @@ async function revisionPage() {
       done.textContent = 'This revision awaits review; a checking engineer records the decision.';
       done.hidden = false;
     } else if (rev.review.state === 'submitted') {
+      setUpProviderSignature(rev.id);
       setUpDecision(rev, function () {
         loadHeader().catch(function (err) {
           showProblem(problemSlot, err);

@@ -3,7 +3,8 @@
  */
 import type { Actor, ProductEvent } from '@leadline/contracts';
 import { EVENTS, formatDate, wordFor } from '@leadline/presentation';
-import type { EventView } from '../report-view';
+import { SIGNATURE_METHOD_LABELS, signatureOf, type Signature } from '../../reviews/signature';
+import type { EventView, SignatureView } from '../report-view';
 
 // ---------------------------------------------------------------------------------------------------------
 // Events and history
@@ -23,6 +24,19 @@ export function scalarText(value: unknown): string {
       .join('; ');
   }
   return String(value);
+}
+
+/** The signature block of each decision of this revision, in chain order (reviews/signature.ts). */
+export function buildSignatures(events: readonly ProductEvent[]): SignatureView[] {
+  return [...events]
+    .sort((a, b) => a.seq - b.seq)
+    .filter((ev) => ev.type === 'approved' || ev.type === 'rejected')
+    .map((ev) => signatureOf(ev.data, ev.createdAt, ev.hash))
+    .filter((s): s is Signature => s !== null)
+    .map((s) => ({
+      printedName: s.printedName, meaning: s.meaning, signedAt: s.signedAt, signedDate: s.signedAt.slice(0, 10), signedTime: s.signedAt.slice(11),
+      method: SIGNATURE_METHOD_LABELS[s.method] ?? s.method, fingerprint: s.fingerprint, revisionHash: s.revisionHash,
+    }));
 }
 
 export function buildEvents(events: readonly ProductEvent[]): EventView[] {
