@@ -22,6 +22,7 @@ import { CreatedAccountsAndSessions20261205000000 } from './20261205000000-creat
 import { MovedAccountWritesIntoFunctions20261205000100 } from './20261205000100-moved-account-writes-into-functions';
 import { CreatedJobQueueAndOutbox20261205000200 } from './20261205000200-created-job-queue-and-outbox';
 import { CreatedRenderedFiles20261206050000 } from './20261206050000-created-rendered-files';
+import { CreatedSharedLimitCounters20261206050100 } from './20261206050100-created-shared-limit-counters';
 
 export const MIGRATIONS = [
   CreatedRecordTables20261201220000,
@@ -47,4 +48,5 @@ export const MIGRATIONS = [
   MovedAccountWritesIntoFunctions20261205000100,
   CreatedJobQueueAndOutbox20261205000200,
   CreatedRenderedFiles20261206050000,
+  CreatedSharedLimitCounters20261206050100,
 ];
