@@ -11,7 +11,8 @@ import { TestClock } from '../support/clock';
 import { startTestApp, UNLIMITED, type TestApp } from '../support/harness';
 import { pdfText } from '../support/pdf-text';
 import { chromiumEndpoint } from '../support/run-resources';
-import { QueueService, LEASE_SECONDS } from '../../apps/api/src/queue/queue.service';
+import { QueueService } from '../../apps/api/src/queue/queue.service';
+import { APP_CONFIG, type AppConfig } from '../../apps/api/src/infra/config';
 
 const ROOT = resolve(__dirname, '../..');
 let t: TestApp;
@@ -139,7 +140,7 @@ it('a design-file job survives the death (SIGKILL) of the instance that took it:
   const queue = t.app.get(QueueService);
   await queue.drain();
   expect((await t.call('GET', `/api/v1/jobs/${jobId}`)).body).toMatchObject({ state: 'running', result: null });
-  clock.advance((LEASE_SECONDS + 5) * 1000);
+  clock.advance((t.app.get<AppConfig>(APP_CONFIG).LEADLINE_QUEUE_LEASE_SECONDS + 5) * 1000);
   await queue.drain();
   const done = (await t.call('GET', `/api/v1/jobs/${jobId}`)).body;
   expect(done).toMatchObject({ state: 'done', attempts: 2, result: { reused: false, recordHash: await headHash(), fileName: 'design-file-DF-7.pdf' } });

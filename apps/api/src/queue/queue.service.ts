@@ -64,9 +64,6 @@ export interface JobView {
   finishedAt: string | null;
 }
 
-export const LEASE_SECONDS = 120;
-/** A running job's lease is moved forward this often while its handler works (a heartbeat); a dead instance stops it */
-const HEARTBEAT_MS = (LEASE_SECONDS * 1000) / 4;
 export const JOB_CHANNEL = 'leadline_jobs';
 
 @Injectable()
@@ -84,12 +81,16 @@ export class QueueService implements OnApplicationBootstrap, OnApplicationShutdo
   private ticking: Promise<void> | null = null;
   private again = false;
   private readonly inFlight = new Set<Promise<void>>();
+  /** LEADLINE_QUEUE_LEASE_SECONDS; while a handler works its lease is moved forward every quarter of it (a heartbeat) */
+  private readonly leaseMs: number;
 
   constructor(
     private readonly db: Database,
     @Inject(APP_CONFIG) private readonly config: AppConfig,
     @Inject(CLOCK) private readonly clock: Clock,
-  ) {}
+  ) {
+    this.leaseMs = config.LEADLINE_QUEUE_LEASE_SECONDS * 1000;
+  }
 
   /**
    * Registers the handler of one kind of job (modules do this at construction). `visible`: its jobs are shown at
@@ -227,7 +228,7 @@ export class QueueService implements OnApplicationBootstrap, OnApplicationShutdo
     if (!kinds.length || limit <= 0) return [];
     const rows = await this.db.query<Record<string, any>>(
       `SELECT id, kind, payload, attempts, max_attempts, created_by FROM queue.claim($1, $2::text[], $3, $4, $5)`,
-      [this.worker, kinds, limit, new Date(this.clock.now()).toISOString(), LEASE_SECONDS],
+      [this.worker, kinds, limit, new Date(this.clock.now()).toISOString(), this.config.LEADLINE_QUEUE_LEASE_SECONDS],
     );
     return rows.map((r) => ({ id: r.id, kind: r.kind, payload: r.payload, attempts: r.attempts, maxAttempts: r.max_attempts, createdBy: r.created_by ?? null }));
   }
@@ -237,15 +238,15 @@ export class QueueService implements OnApplicationBootstrap, OnApplicationShutdo
     let outcome: JobOutcome;
     const heartbeat = setInterval(() => {
       this.db
-        .query(`SELECT queue.extend_lease($1, $2, $3)`, [job.id, this.worker, new Date(this.clock.now() + LEASE_SECONDS * 1000).toISOString()])
+        .query(`SELECT queue.extend_lease($1, $2, $3)`, [job.id, this.worker, new Date(this.clock.now() + this.leaseMs).toISOString()])
         .catch((err) => this.logger.warn(`${job.kind} job ${job.id}: the lease could not be extended (${(err as Error).message})`));
-    }, HEARTBEAT_MS);
+    }, this.leaseMs / 4);
     heartbeat.unref();
     try {
       outcome = (await handler(job, {
         progress: async (value) => {
           await this.db.query(`SELECT queue.report_progress($1, $2, $3::jsonb, $4)`, [
-            job.id, this.worker, JSON.stringify(value), new Date(this.clock.now() + LEASE_SECONDS * 1000).toISOString(),
+            job.id, this.worker, JSON.stringify(value), new Date(this.clock.now() + this.leaseMs).toISOString(),
           ]);
         },
       })) ?? { state: 'done' };
