@@ -33,7 +33,7 @@ export const signInSchema = z.strictObject({
   password: z.string().min(1).max(PASSWORD_MAX),
 });
 
-export type SessionMethod = 'password' | 'oidc';
+export type SessionMethod = 'password' | 'oidc' | 'passkey';
 
 /** What a sign-in hands to the controller: the cookie to set and who signed in. */
 export interface SignedIn {

@@ -8,6 +8,7 @@
  * the links are written (reviews/reviews.service.ts, migrations/20261204230000); pure, no I/O.
  */
 import type { Finding, Verdict } from '@leadline/contracts';
+import { passkeySignatureProblem, type RegisteredPasskey, type StoredAssertion } from './passkey-signature';
 
 /** The verdict a list of findings gives: blocked by any blocking finding, else needs-acknowledgement by any warning. */
 export function verdictOf(findings: readonly Pick<Finding, 'severity'>[]): Verdict {
@@ -20,6 +21,8 @@ export interface MeaningRules {
   rolesOf(userId: string): readonly string[] | null;
   tokenIssuer(tokenId: string): string | null | undefined;
   ruleSetValid(version: string): boolean;
+  /** A registered passkey by credential id, with its registration time (TS_TEXT), or null */
+  passkeyOf(credentialId: string): (RegisteredPasskey & { createdAt: string }) | null;
 }
 
 interface RevisionFacts {
@@ -29,6 +32,7 @@ interface RevisionFacts {
   blocking: boolean;
   warnings: string[];
   closed: boolean;
+  hash: string | null;
 }
 
 export interface MeaningLink {
@@ -45,6 +49,10 @@ export interface MeaningLink {
   actorId: string | null;
   tokenId: string | null;
   data?: unknown;
+  /** the link's hash (a decision's signature names its revision's) */
+  hash?: string | null;
+  /** the link's time (TS_TEXT) */
+  createdAt?: string | null;
 }
 
 export class MeaningState {
@@ -78,6 +86,7 @@ export class MeaningState {
       blocking: findings.some((f) => f.severity === 'blocking'),
       warnings: findings.filter((f) => f.severity === 'warning').map((f) => f.ruleId),
       closed: false,
+      hash: l.hash ?? null,
     });
     this.latest.set(l.calculationId ?? '', Math.max(this.latest.get(l.calculationId ?? '') ?? 0, l.revision ?? 0));
     return null;
@@ -106,8 +115,29 @@ export class MeaningState {
         const missing = rev.warnings.find((w) => !acks.some((a) => a.finding === w));
         if (missing) return `revision ${rev.revision} was approved without acknowledging warning "${missing}"`;
       }
+      const unsigned = this.signatureProblem(l, rev);
+      if (unsigned) return unsigned;
     }
     rev.closed = true;
     return null;
+  }
+
+  /**
+   * A decision's signature (decisions recorded before signatures carry none): it names the decided revision's hash,
+   * and a passkey signature verifies with the signer's own passkey, registered before the decision.
+   */
+  private signatureProblem(l: MeaningLink, rev: RevisionFacts): string | null {
+    const sig = (l.data as { signature?: { method?: string; revisionHash?: string; passkey?: StoredAssertion } } | null)?.signature;
+    if (!sig) return null;
+    if (rev.hash !== null && sig.revisionHash !== rev.hash) return `the ${l.type} event's signature names another record than revision ${rev.revision}`;
+    if (sig.method !== 'passkey') return null;
+    const assertion = sig.passkey;
+    if (!assertion || typeof assertion.credentialId !== 'string') return `the ${l.type} event's passkey signature carries no assertion`;
+    const key = this.rules.passkeyOf(assertion.credentialId);
+    if (!key) return `the ${l.type} event's passkey is not registered`;
+    if (key.userId !== l.actorId) return `the ${l.type} event was signed with another person's passkey`;
+    if (l.createdAt && key.createdAt > l.createdAt) return `the ${l.type} event was signed with a passkey registered after it`;
+    const problem = passkeySignatureProblem(assertion, key, sig.revisionHash ?? '');
+    return problem ? `the ${l.type} event: ${problem}` : null;
   }
 }

@@ -356,11 +356,18 @@ export class RecordStore implements OnModuleInit {
       `SELECT s.version, s.definition FROM rule_sets s WHERE s.version IN (SELECT DISTINCT r.rule_set_version FROM revisions r WHERE r.product_id = $1 AND r.seq <= $2)`,
       [productId, headSeq],
     );
+    const passkeys = await this.db.query<{ credential_id: string; user_id: string; public_key: string; rp_id: string; created_at: string }>(
+      `SELECT k.credential_id, k.user_id, k.public_key, k.rp_id, ${TS_TEXT('k.created_at')} AS created_at FROM passkey_credentials k
+        WHERE k.credential_id IN (SELECT e.data->'signature'->'passkey'->>'credentialId' FROM events e
+                                   WHERE e.product_id = $1 AND e.seq <= $2 AND e.type IN ('approved', 'rejected') AND e.data->'signature'->>'method' = 'passkey')`,
+      [productId, headSeq],
+    );
+    const keys = new Map(passkeys.map((k) => [k.credential_id, { userId: k.user_id, publicKey: k.public_key, rpId: k.rp_id, createdAt: k.created_at }]));
     const valid = new Set<string>();
     for (const r of sets) if (await this.ruleSetValid(r.version, r.definition)) valid.add(r.version);
     const roles = new Map(users.map((u) => [u.id, u.roles]));
     const issuers = new Map(tokens.map((t) => [t.id, t.created_by]));
-    return { rolesOf: (id) => roles.get(id) ?? null, tokenIssuer: (id) => issuers.get(id), ruleSetValid: (v) => valid.has(v) };
+    return { rolesOf: (id) => roles.get(id) ?? null, tokenIssuer: (id) => issuers.get(id), ruleSetValid: (v) => valid.has(v), passkeyOf: (id) => keys.get(id) ?? null };
   }
 
   /**
@@ -442,13 +449,13 @@ function meaningLinkOf(l: Link): Parameters<MeaningState['check']>[0] {
     const r = l.row;
     return {
       kind: 'revision', id: r.id, calculationId: r.calculation_id, revision: Number(r.revision), verdict: r.verdict, ruleSetVersion: r.rule_set_version,
-      findings: r.findings, actorId: (r.author as { id?: string } | null)?.id ?? null, tokenId: r.token_id ?? null,
+      findings: r.findings, actorId: (r.author as { id?: string } | null)?.id ?? null, tokenId: r.token_id ?? null, hash: r.hash,
     };
   }
   const e = l.row;
   return {
     kind: 'event', id: e.id, type: e.type, calculationId: e.calculation_id, revisionId: e.revision_id,
-    actorId: (e.actor as { id?: string } | null)?.id ?? null, tokenId: e.token_id ?? null, data: e.data,
+    actorId: (e.actor as { id?: string } | null)?.id ?? null, tokenId: e.token_id ?? null, data: e.data, createdAt: e.created_at,
   };
 }
 
