@@ -21,7 +21,7 @@ export class CreatedPasskeys20261206030000 implements MigrationInterface {
       CREATE TABLE passkey_credentials (
         id uuid PRIMARY KEY,
         user_id uuid NOT NULL REFERENCES users(id),
-        credential_id text NOT NULL UNIQUE CHECK (credential_id ~ '^[A-Za-z0-9_-]{1,1400}$'),
+        credential_id text NOT NULL UNIQUE CHECK (credential_id ~ '^[A-Za-z0-9_-]+$' AND length(credential_id) <= 1400),
         public_key text NOT NULL CHECK (public_key ~ '^[A-Za-z0-9_-]+$'),
         rp_id text NOT NULL CHECK (length(rp_id) BETWEEN 1 AND 253),
         counter bigint NOT NULL CHECK (counter >= 0),
