@@ -22,6 +22,7 @@ import { CreatedAccountsAndSessions20261205000000 } from './20261205000000-creat
 import { MovedAccountWritesIntoFunctions20261205000100 } from './20261205000100-moved-account-writes-into-functions';
 import { CreatedJobQueueAndOutbox20261205000200 } from './20261205000200-created-job-queue-and-outbox';
 import { CreatedPasskeys20261206030000 } from './20261206030000-created-passkeys';
+import { HidPasswordHashesAndReadCurrentRoles20261206030100 } from './20261206030100-hid-password-hashes-and-read-current-roles';
 
 export const MIGRATIONS = [
   CreatedRecordTables20261201220000,
@@ -47,4 +48,5 @@ export const MIGRATIONS = [
   MovedAccountWritesIntoFunctions20261205000100,
   CreatedJobQueueAndOutbox20261205000200,
   CreatedPasskeys20261206030000,
+  HidPasswordHashesAndReadCurrentRoles20261206030100,
 ];

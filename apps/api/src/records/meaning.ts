@@ -2,7 +2,7 @@
  * What a chain must mean, checked link by link in chain order (verify streams the links through `MeaningState`):
  * a revision's stored verdict follows from its stored findings and names a stored, valid rule set; a decision obeys the
  * review rules as they stood at its link: the decided revision is earlier in the chain, is the latest revision of its
- * calculation and undecided, the decider holds the reviewer role, is no admin, is not the author and did not act with
+ * calculation and undecided, the decider is a user on record, active and holding the reviewer role at the decision's time (identity events), is no admin, is not the author and did not act with
  * a token the author issued, and an approval has no blocking finding and acknowledges every warning; a withdrawal is
  * the author's, of the latest undecided revision. The same rules the service and the database functions enforce when
  * the links are written (reviews/reviews.service.ts, migrations/20261204230000); pure, no I/O.
@@ -18,7 +18,11 @@ export function verdictOf(findings: readonly Pick<Finding, 'severity'>[]): Verdi
 
 /** Facts from outside the chain that the rules read: users' roles, who issued a token, which rule sets are valid. */
 export interface MeaningRules {
-  rolesOf(userId: string): readonly string[] | null;
+  /**
+   * The deciding user of a decision event as the identity record stood at that event's time: their roles (the newest
+   * role events before it) and whether they were active; null when the event's actor is no user on record
+   */
+  signerAt(eventId: string): { roles: readonly string[]; active: boolean } | null;
   tokenIssuer(tokenId: string): string | null | undefined;
   ruleSetValid(version: string): boolean;
   /** A registered passkey by credential id, with its registration time (TS_TEXT), or null */
@@ -100,8 +104,11 @@ export class MeaningState {
     if (l.type === 'withdrawn') {
       if (l.actorId !== rev.authorId) return `revision ${rev.revision} was withdrawn by someone other than its author`;
     } else {
-      const roles = l.actorId ? this.rules.rolesOf(l.actorId) : null;
-      if (!roles || !roles.includes('reviewer')) return `the ${l.type} event was made by a user without the reviewer role`;
+      const signer = l.actorId ? this.rules.signerAt(l.id) : null;
+      if (!signer) return `the ${l.type} event names a decider who is no user on record`;
+      if (!signer.active) return `the ${l.type} event was made by a user who was deactivated at the time`;
+      const roles = signer.roles;
+      if (!roles.includes('reviewer')) return `the ${l.type} event was made by a user without the reviewer role`;
       if (roles.includes('admin')) return `the ${l.type} event was made by an admin identity`;
       if (rev.authorId !== null && l.actorId === rev.authorId) return `revision ${rev.revision} was decided by its own author`;
       if (rev.authorId !== null && l.tokenId && this.rules.tokenIssuer(l.tokenId) === rev.authorId) {
