@@ -21,6 +21,8 @@ import { ChainedIdentityEventsAndAdoptions20261204230200 } from './2026120423020
 import { CreatedAccountsAndSessions20261205000000 } from './20261205000000-created-accounts-and-sessions';
 import { MovedAccountWritesIntoFunctions20261205000100 } from './20261205000100-moved-account-writes-into-functions';
 import { CreatedJobQueueAndOutbox20261205000200 } from './20261205000200-created-job-queue-and-outbox';
+import { CreatedPasskeys20261206030000 } from './20261206030000-created-passkeys';
+import { HidPasswordHashesAndReadCurrentRoles20261206030100 } from './20261206030100-hid-password-hashes-and-read-current-roles';
 
 export const MIGRATIONS = [
   CreatedRecordTables20261201220000,
@@ -45,4 +47,6 @@ export const MIGRATIONS = [
   CreatedAccountsAndSessions20261205000000,
   MovedAccountWritesIntoFunctions20261205000100,
   CreatedJobQueueAndOutbox20261205000200,
+  CreatedPasskeys20261206030000,
+  HidPasswordHashesAndReadCurrentRoles20261206030100,
 ];

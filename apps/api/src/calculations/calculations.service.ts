@@ -13,6 +13,7 @@ import { Assessment, AssessmentService } from '../evaluations/assessment.service
 import { Database, type Queryer } from '../infra/database/database.service';
 import { notFound, ProblemError, validate, ValidationProblem } from '../infra/http/problem';
 import { checkUuid } from '../products/products.service';
+import { CURRENT_ROLES, USER_ACTIVE } from '../identities/identities.service';
 import { TS_TEXT } from '../records/chain';
 import { checkKey, findIdempotent, requestHash, storeIdempotent, type StoredResponse } from '../records/idempotency';
 import { prepareSubmission, RecordStore, type RevisionRow } from '../records/record-store';
@@ -153,8 +154,13 @@ export class CalculationsService {
   async reassign(calculationId: string, body: unknown, actor: Actor) {
     const calc = await this.get(calculationId);
     const input = validate(reassignSchema, body);
-    const [user] = await this.db.query<{ id: string; name: string; roles: string[] }>(`SELECT id, name, roles FROM users WHERE id = $1`, [input.userId]);
+    // roles and deactivation as the identity events say (the record function checks the same)
+    const [user] = await this.db.query<{ id: string; name: string; roles: string[]; active: boolean }>(
+      `SELECT u.id, u.name, ${CURRENT_ROLES('u')} AS roles, ${USER_ACTIVE('u')} AS active FROM users u WHERE u.id = $1`,
+      [input.userId],
+    );
     if (!user) throw new ValidationProblem([{ path: 'userId', message: `no user ${input.userId}` }]);
+    if (!user.active) throw new ValidationProblem([{ path: 'userId', message: `${user.name} is deactivated` }]);
     if (!user.roles.includes('author')) throw new ValidationProblem([{ path: 'userId', message: `${user.name} does not have the author role` }]);
     return this.db.transaction(async (q) => {
       const cursor = (await this.records.lockHead(q, calc.productId))!;

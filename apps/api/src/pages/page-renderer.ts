@@ -36,6 +36,7 @@ export const PAGE_SPECS = {
   'design-form': { title: 'Screw design', script: 'design-form.js' },
   'sign-in': { title: 'Sign in', script: 'sign-in.js' },
   'admin-users': { title: 'Users', script: 'admin-users.js' },
+  account: { title: 'Your account', script: 'account.js' },
 } as const satisfies Record<string, PageSpec>;
 
 export type PageName = keyof typeof PAGE_SPECS;

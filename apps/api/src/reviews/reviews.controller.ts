@@ -29,8 +29,16 @@ export class ReviewsController {
   @Roles('reviewer')
   @HttpCode(201)
   async decide(@Param('id') id: string, @Body() body: unknown, @CurrentActor() actor: Actor, @CurrentRoles() roles: string[], @Req() req: FastifyRequest & { principal: Principal }) {
-    const decided = await this.reviews.decide(id, body, actor, roles, { principal: req.principal, client: clientKey(req.ip) });
+    const decided = await this.reviews.decide(id, body, actor, roles, { principal: req.principal, client: clientKey(req.ip), hostname: req.hostname });
     return { ...decided, checkpoint: await this.checkpoints.afterDecision(decided.productId, decided.seq, decided.hash, decided.decidedAt) };
+  }
+
+  /** A challenge for signing this revision with your passkey: {challengeId, revisionHash, options} for navigator.credentials.get. */
+  @Post('revisions/:id/passkey-challenges')
+  @Roles('reviewer')
+  @HttpCode(201)
+  passkeyChallenge(@Param('id') id: string, @Req() req: FastifyRequest & { principal: Principal }) {
+    return this.reviews.passkeyChallenge(id, req.principal, req.hostname);
   }
 
   /** A comment without a decision, general or on an input field or a finding. */

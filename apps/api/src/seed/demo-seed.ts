@@ -116,7 +116,7 @@ export async function seedDemo(app: INestApplicationContext, options: SeedOption
   const session = signedIn ? await accountsService.resolveSession(signedIn.cookie) : null;
   const reviewerPrincipal = session?.principal ?? (await identities.authenticate(tokens.find((t) => t.name === 'Checking engineer (demo)')!.token))!;
   const reviewer = actingAs({ id: users.get('Checking engineer (demo)')!.id, name: 'Checking engineer (demo)' }, reviewerPrincipal);
-  const signer = { principal: reviewerPrincipal, client: 'demo seed' };
+  const signer = { principal: reviewerPrincipal, client: 'demo seed', hostname: 'localhost' };
   const signature = { method: 'password', password: checkerPassword };
   const products = app.get(ProductsService);
   const calculations = app.get(CalculationsService);

@@ -3,6 +3,7 @@ import { api, download } from './lib-api.js';
 import { $, el, pathId } from './lib-dom.js';
 import { badge, STATES, time, verdictBadge } from './lib-format.js';
 import { renderFindings, sortedFindings } from './lib-findings.js';
+import { passkeysAvailable, usePasskey } from './lib-passkey.js';
 import { clearProblem, showProblem } from './lib-problem.js';
 import { currentUser, startPage } from './lib-session.js';
 
@@ -111,11 +112,12 @@ function setUpDecision(rev, reload) {
     });
     // signed at the identity provider (a fresh login for this revision), or with the password given now; without
     // either the service refuses the unsigned decision itself (403 naming signature)
-    if (oidcSigner()) body.signature = { method: 'oidc' };
-    else if ($('signature-password').value) body.signature = { method: 'password', password: $('signature-password').value };
     const button = $('decision-submit');
     button.disabled = true;
     try {
+      if (passkeySigner()) body.signature = await passkeySignature(rev.id);
+      else if (oidcSigner()) body.signature = { method: 'oidc' };
+      else if ($('signature-password').value) body.signature = { method: 'password', password: $('signature-password').value };
       const result = await api('/api/v1/revisions/' + encodeURIComponent(rev.id) + '/decisions', { method: 'POST', body: body });
       $('decision').hidden = true;
       const done = $('decision-done');
@@ -126,7 +128,7 @@ function setUpDecision(rev, reload) {
       reload();
     } catch (err) {
       $('signature-password').value = '';
-      showProblem(slot, err);
+      showProblem(slot, err && err.name === 'NotAllowedError' ? { message: 'The passkey did not sign (cancelled or timed out).' } : err);
       markInvalid(err, sentAcks, sentComments, acks);
       if (((err.problem && err.problem.errors) || []).some(function (i) { return /^signature/.test(String(i.path)); })) $('signature-password').setAttribute('aria-invalid', 'true');
       slot.scrollIntoView({ block: 'nearest' });
@@ -150,6 +152,32 @@ function markInvalid(err, sentAcks, sentComments, acks) {
     } else if ((m = /^acknowledgements\.(\d+)/.exec(path)) && sentAcks[m[1]]) sentAcks[m[1]].setAttribute('aria-invalid', 'true');
     else if ((m = /^comments\.(\d+)/.exec(path)) && sentComments[m[1]]) sentComments[m[1]].setAttribute('aria-invalid', 'true');
   });
+}
+
+/** Whether the signer chose their passkey. */
+function passkeySigner() {
+  return !$('signature-passkey-field').hidden && $('signature-passkey').checked;
+}
+
+/** A passkey signature over this revision's record hash: the service's one-use challenge, signed by the authenticator. */
+async function passkeySignature(revisionId) {
+  const challenge = await api('/api/v1/revisions/' + encodeURIComponent(revisionId) + '/passkey-challenges', { method: 'POST' });
+  return { method: 'passkey', challengeId: challenge.challengeId, response: await usePasskey(challenge.options) };
+}
+
+/** Offers the passkey when this browser can use one and the signer has one here (chosen already after a passkey sign-in). */
+async function setUpPasskeySignature() {
+  if (!passkeysAvailable()) return;
+  const keys = (await api('/api/v1/account/passkeys')).items.filter(function (k) { return k.rpId === location.hostname; });
+  if (keys.length === 0) return;
+  $('signature-passkey-field').hidden = false;
+  const me = currentUser();
+  $('signature-passkey').checked = Boolean(me && me.authMethod === 'passkey');
+  const sync = function () {
+    $('signature-password-field').hidden = $('signature-passkey').checked || oidcSigner();
+  };
+  $('signature-passkey').addEventListener('change', sync);
+  sync();
 }
 
 /** A user signed in at the identity provider signs there too (a fresh login, max_age=0), not with a password. */
@@ -193,6 +221,9 @@ async function revisionPage() {
       done.hidden = false;
     } else if (rev.review.state === 'submitted') {
       setUpProviderSignature(rev.id);
+      setUpPasskeySignature().catch(function (err) {
+        showProblem(problemSlot, err);
+      });
       setUpDecision(rev, function () {
         loadHeader().catch(function (err) {
           showProblem(problemSlot, err);
