@@ -23,6 +23,8 @@ import { MovedAccountWritesIntoFunctions20261205000100 } from './20261205000100-
 import { CreatedJobQueueAndOutbox20261205000200 } from './20261205000200-created-job-queue-and-outbox';
 import { CreatedPasskeys20261206030000 } from './20261206030000-created-passkeys';
 import { HidPasswordHashesAndReadCurrentRoles20261206030100 } from './20261206030100-hid-password-hashes-and-read-current-roles';
+import { CreatedRenderedFiles20261206050000 } from './20261206050000-created-rendered-files';
+import { CreatedSharedLimitCounters20261206050100 } from './20261206050100-created-shared-limit-counters';
 
 export const MIGRATIONS = [
   CreatedRecordTables20261201220000,
@@ -49,4 +51,6 @@ export const MIGRATIONS = [
   CreatedJobQueueAndOutbox20261205000200,
   CreatedPasskeys20261206030000,
   HidPasswordHashesAndReadCurrentRoles20261206030100,
+  CreatedRenderedFiles20261206050000,
+  CreatedSharedLimitCounters20261206050100,
 ];

@@ -5,7 +5,9 @@
  */
 import { TestClock } from '../support/clock';
 import { clearDesign } from '../support/designs';
-import { countRecords, startTestApp, type TestApp } from '../support/harness';
+import { BACKENDS, countRecords, startTestApp, type TestApp } from '../support/harness';
+import { createApp } from '../../apps/api/src/app.factory';
+import { TokenBuckets } from '../../apps/api/src/infra/http/user-limits';
 import { LEAD_SCREW } from '../support/sizing';
 
 const clock = new TestClock();
@@ -20,7 +22,7 @@ beforeAll(async () => {
       LEADLINE_PDFS_PER_USER_PER_MINUTE: '1',
     },
     undefined,
-    { clock },
+    { clock, roles: true },
   );
 });
 afterAll(() => t?.close());
@@ -81,4 +83,56 @@ it('limits PDFs per user over both PDF routes [GET report.pdf, design-file.pdf]'
   expect((await t.call('GET', `/api/v1/revisions/${opened.body.revisionId}/report.html`, undefined, { as: 'reviewer' })).status).toBe(200);
   clock.advance(60_000);
   expect((await t.call('GET', `/api/v1/products/${product.body.id}/design-file.pdf`, undefined, { as: 'reviewer' })).status).toBe(200);
+  // the queued design file counts as a PDF too
+  expectLimited(await t.call('POST', `/api/v1/products/${product.body.id}/design-files`, {}, { as: 'reviewer' }), 'LEADLINE_PDFS_PER_USER_PER_MINUTE');
+});
+
+it('shares each user\'s allowance between two instances on one PostgreSQL', async () => {
+  const { app: second } = await createApp({
+    env: {
+      LOG_LEVEL: 'silent', LEADLINE_DEMO_SEED: 'false', LEADLINE_WORKERS: '0', DATABASE_URL: t.roles!.runtimeUrl, LEADLINE_MIGRATION_DATABASE_URL: t.roles!.ownerUrl,
+      LEADLINE_EVALUATIONS_PER_USER_PER_MINUTE: '3',
+    },
+    runtime: { clock },
+  });
+  try {
+    clock.advance(60_000);
+    const onSecond = async () => (await second.getHttpAdapter().getInstance().inject({
+      method: 'POST', url: '/api/v1/evaluations', headers: { 'content-type': 'application/json', authorization: `Bearer ${t.tokens.reviewer}` }, payload: JSON.stringify(clearDesign),
+    })).statusCode;
+    const onFirst = async () => (await t.call('POST', '/api/v1/evaluations', clearDesign, { as: 'reviewer' })).status;
+    // 3 a minute for one user, taken on either instance
+    expect([await onFirst(), await onSecond(), await onFirst()]).toEqual([200, 200, 200]);
+    expect(await onSecond()).toBe(429);
+    expect(await onFirst()).toBe(429);
+    clock.advance(20_000);
+    expect(await onSecond()).toBe(200);
+    expect(await onFirst()).toBe(429);
+  } finally {
+    await second.close();
+  }
+});
+
+describe.each(BACKENDS)('TokenBuckets on %s', (backend) => {
+  let db: TestApp;
+  beforeAll(async () => (db = await startTestApp(backend)));
+  afterAll(() => db?.close());
+
+  it('allows a minute\'s allowance at once, then one more each 60/perMinute seconds; a refused take costs nothing', async () => {
+    const b = new TokenBuckets(db.db, 'test:a', 3);
+    const t0 = Date.parse('2026-12-05T10:00:00Z');
+    expect([await b.take('u', t0), await b.take('u', t0), await b.take('u', t0)]).toEqual([0, 0, 0]);
+    expect(await b.take('u', t0)).toBe(20); // 3 a minute: the next one in 20 s
+    expect(await b.take('u', t0 + 19_000)).toBe(1); // 1 s left
+    expect(await b.take('u', t0 + 20_000)).toBe(0);
+    expect(await b.take('other', t0 + 20_000)).toBe(0); // every key has its own bucket
+    expect(await new TokenBuckets(db.db, 'test:b', 3).take('u', t0 + 20_000)).toBe(0); // and every kind
+  });
+
+  it('never holds more than a minute\'s allowance, however long a user was away', async () => {
+    const b = new TokenBuckets(db.db, 'test:c', 2);
+    expect(await b.take('u', 0)).toBe(0);
+    const later = 3_600_000;
+    expect([await b.take('u', later), await b.take('u', later), await b.take('u', later)]).toEqual([0, 0, 30]);
+  });
 });

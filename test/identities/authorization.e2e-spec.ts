@@ -7,6 +7,7 @@
 import { Writable } from 'node:stream';
 import { DEFAULT_RULE_SET } from '@leadline/rules';
 import { ROUTES } from '../../apps/api/src/infra/openapi';
+import { QueueService } from '../../apps/api/src/queue/queue.service';
 import { clearDesign, warningDesign } from '../support/designs';
 import { TEXTBOOK_JACK as SIZING_REQUIREMENTS } from '../support/sizing';
 import { startTestApp, type TestApp, type Who } from '../support/harness';
@@ -37,6 +38,10 @@ beforeAll(async () => {
   ids.reassignCalculation = (await open('authz reassign')).calculationId;
   checkpoint = (await t.call('POST', `/api/v1/products/${ids.product}/checkpoints`, {}, { as: 'reviewer' })).body;
   ids.webhook = (await t.call('POST', '/api/v1/webhooks', { url: 'https://93.184.215.14/hooks', events: ['calculation.opened'] }, { as: 'admin' })).body.id;
+  // a design file rendered by the queue (drained here: the harness runs no workers)
+  ids.designFileJob = (await t.call('POST', `/api/v1/products/${ids.product}/design-files`, {}, { as: 'author' })).body.jobId;
+  await t.app.get(QueueService).drain();
+  ids.designFileHref = (await t.call('GET', `/api/v1/jobs/${ids.designFileJob}`)).body.result.href;
   ids.subject = (await t.call('POST', '/api/v1/users', { name: 'Administered user (test)', email: 'administered@authz.example.com', roles: ['author'] }, { as: 'admin' })).body.id;
 });
 afterAll(() => t?.close());
@@ -97,6 +102,9 @@ const TABLE: Row[] = [
   // the design workbench and screw selection: every signed-in role
   { method: 'POST', path: '/api/v1/evaluations/charts', url: () => '/api/v1/evaluations/charts', body: () => clearDesign, allowed: ALL },
   { method: 'GET', path: '/api/v1/products/{id}/design-file.pdf', url: () => `/api/v1/products/${ids.product}/design-file.pdf`, allowed: ALL },
+  { method: 'POST', path: '/api/v1/products/{id}/design-files', url: () => `/api/v1/products/${ids.product}/design-files`, body: () => ({}), allowed: ALL },
+  { method: 'GET', path: '/api/v1/jobs/{id}', url: () => `/api/v1/jobs/${ids.designFileJob}`, allowed: ALL },
+  { method: 'GET', path: '/api/v1/products/{id}/design-files/{fileId}', url: () => ids.designFileHref, allowed: ALL },
   { method: 'GET', path: '/api/v1/me', url: () => '/api/v1/me', allowed: ALL },
   { method: 'GET', path: '/api/v1/me/revisions', url: () => '/api/v1/me/revisions', allowed: ALL },
   {

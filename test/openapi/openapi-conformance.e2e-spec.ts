@@ -12,6 +12,7 @@ import { DEFAULT_RULE_SET } from '@leadline/rules';
 import { clearDesign, warningDesign } from '../support/designs';
 import { TEXTBOOK_JACK } from '../support/sizing';
 import { startTestApp, type TestApp } from '../support/harness';
+import { QueueService } from '../../apps/api/src/queue/queue.service';
 
 type Answer = Awaited<ReturnType<TestApp['call']>>;
 
@@ -257,6 +258,18 @@ const CALLS: Record<string, Calls> = {
     ok: (c) => c.t.call('GET', `/api/v1/products/${c.productId}/design-file.pdf`, undefined, { as: 'reviewer' }),
     bad: (c) => c.t.call('GET', `/api/v1/products/${c.productId}/design-file.pdf?paper=A0`, undefined, { as: 'reviewer' }),
   },
+  'POST /api/v1/products/{id}/design-files': {
+    ok: (c) => c.t.call('POST', `/api/v1/products/${c.productId}/design-files`, { paper: 'Letter' }, { as: 'reviewer' }),
+    bad: (c) => c.t.call('POST', `/api/v1/products/${c.productId}/design-files`, { paper: 'A0' }, { as: 'reviewer' }),
+  },
+  'GET /api/v1/jobs/{id}': {
+    ok: async (c) => c.t.call('GET', `/api/v1/jobs/${(await designFileJob(c)).id}`),
+    bad: (c) => c.t.call('GET', `/api/v1/jobs/${MISSING}`),
+  },
+  'GET /api/v1/products/{id}/design-files/{fileId}': {
+    ok: async (c) => c.t.call('GET', (await designFileJob(c)).result.href),
+    bad: (c) => c.t.call('GET', `/api/v1/products/${c.productId}/design-files/${MISSING}`),
+  },
   'GET /api/v1/me': {
     ok: (c) => c.t.call('GET', '/api/v1/me'),
     bad: (c) => c.t.call('GET', '/api/v1/me', undefined, { as: 'anonymous' }),
@@ -299,6 +312,17 @@ const CALLS: Record<string, Calls> = {
 
 /** Operations without a client error to provoke (public, no input). */
 /** A webhook endpoint registered for one call (a public address literal: nothing is delivered in this suite) */
+/** A design file rendered by the queue (the harness runs no workers: the queue is drained here). */
+let renderedJob: any = null;
+async function designFileJob(c: Ctx): Promise<any> {
+  if (!renderedJob) {
+    const accepted = await c.t.call('POST', `/api/v1/products/${c.productId}/design-files`, {}, { as: 'reviewer' });
+    await c.t.app.get(QueueService).drain();
+    renderedJob = (await c.t.call('GET', accepted.headers.location as string)).body;
+  }
+  return renderedJob;
+}
+
 async function endpoint(c: Ctx): Promise<string> {
   const res = await c.t.call('POST', '/api/v1/webhooks', { url: 'https://93.184.215.14/hooks', events: ['calculation.opened'] }, { as: 'admin' });
   return res.body.id;

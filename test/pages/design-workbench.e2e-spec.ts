@@ -16,6 +16,7 @@ import { testBrowser, type TestBrowser } from '../support/browser';
 import { checkPage as checkPageAt } from '../support/page-checks';
 import { chooseOption, signInByKeyboard, tabTo, typeInto } from '../support/keyboard';
 import { pdfText } from '../support/pdf-text';
+import { QueueService } from '../../apps/api/src/queue/queue.service';
 import { logRequests } from '../support/requests';
 import { startPagesApp, type PagesApp } from './pages-app';
 
@@ -118,7 +119,7 @@ it('serves the /design shells without data, with the strict CSP and the caution,
     expect(html).toContain('Safety caution');
   }
   expect((await fetch(`${t.baseUrl}/design/products/not-a-uuid`)).status).toBe(404);
-  for (const name of ['design-form.js', 'design-fields.js', 'design-results.js', 'design-products.js', 'design-product.js', 'design-calculation.js', 'design-my-work.js']) {
+  for (const name of ['design-form.js', 'design-fields.js', 'design-results.js', 'design-products.js', 'design-product.js', 'design-file-job.js', 'design-calculation.js', 'design-my-work.js']) {
     const res = await fetch(`${t.baseUrl}/review/assets/${name}`);
     expect({ name, type: res.headers.get('content-type') }).toEqual({ name, type: 'text/javascript; charset=utf-8' });
     expect(await res.text()).not.toMatch(/innerHTML|insertAdjacentHTML|document\.write|localStorage|document\.cookie/);
@@ -381,7 +382,21 @@ it('takes a design from a new product to an approved second revision and its des
       else if (e.state === 'canceled') reject(new Error('download canceled'));
     });
   });
-  await enterOn(author, '#download-design-file', false);
+  // prepared by a queue worker (here: the test drains the queue), followed on the page, then offered for download
+  const asked = author.waitForResponse((r) => r.url().endsWith(`/api/v1/products/${productId}/design-files`) && r.request().method() === 'POST');
+  await enterOn(author, '#prepare-design-file', false);
+  expect((await asked).status()).toBe(202);
+  await author.waitForFunction(() => /^Waiting for a worker/.test(document.getElementById('download-status')!.textContent ?? ''));
+  expect(await author.$eval('#design-file-progress', (p) => (p as HTMLProgressElement).hidden)).toBe(false);
+  expect(await author.$eval('#download-design-file', (b) => (b as HTMLButtonElement).hidden)).toBe(true);
+  await checkPage(author, 'product-design-file-waiting');
+  await t.app.get(QueueService).drain();
+  await author.waitForSelector('#download-design-file:not([hidden])');
+  expect(await text(author, '#download-status')).toBe('Design file ready: design-file-BW-40.pdf.');
+  // the offer takes the focus: Enter downloads it
+  expect(await author.evaluate(() => document.activeElement?.id)).toBe('download-design-file');
+  await checkPage(author, 'product-design-file-ready');
+  await author.keyboard.press('Enter');
   const saved = await done;
   expect(saved.name).toBe('design-file-BW-40.pdf');
   expect(await text(author, '#download-status')).toBe('Downloaded design-file-BW-40.pdf.');

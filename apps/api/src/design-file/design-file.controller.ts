@@ -1,4 +1,6 @@
-import { Controller, Get, Inject, Param, Query, Res } from '@nestjs/common';
+import { Body, Controller, Get, HttpCode, Inject, Param, Post, Query, Res } from '@nestjs/common';
+import type { Actor } from '@leadline/contracts';
+import { CurrentActor } from '../infra/http/actor';
 import { UserLimit } from '../infra/http/user-limits';
 import type { FastifyReply } from 'fastify';
 import { existsSync } from 'node:fs';
@@ -9,6 +11,7 @@ import { PdfRenderer } from '../infra/pdf/browser-pool';
 import { pdfForReply, refuseWhenPdfQueueFull } from '../infra/pdf/pdf-reply';
 import { checkUuid } from '../products/products.service';
 import { DesignFileService } from './design-file.service';
+import { DesignFileJobs } from './design-file-jobs.service';
 
 const paperSchema = z.object({ paper: z.enum(['A4', 'Letter']).default('A4') });
 
@@ -18,6 +21,7 @@ export class DesignFileController {
   constructor(
     private readonly files: DesignFileService,
     private readonly pdf: PdfRenderer,
+    private readonly jobs: DesignFileJobs,
     @Inject(APP_CONFIG) private readonly config: AppConfig,
   ) {}
 
@@ -38,5 +42,28 @@ export class DesignFileController {
     });
     reply.header('content-type', 'application/pdf').header('content-disposition', `inline; filename="${file.fileName.replace(/[^A-Za-z0-9._-]+/g, '-')}"`);
     return buffer;
+  }
+
+  /**
+   * The design file rendered by a queue worker on any instance: 202 at once with the job's location
+   * (GET /api/v1/jobs/:id shows progress and, when done, where to download the file).
+   */
+  @Post(':id/design-files')
+  @HttpCode(202)
+  @UserLimit('pdfs')
+  async requestDesignFile(@Param('id') id: string, @Body() body: unknown, @CurrentActor() actor: Actor | null, @Res({ passthrough: true }) reply: FastifyReply) {
+    checkUuid(id, 'product');
+    const { jobId, paper } = await this.jobs.request(id, body, actor?.id ?? null);
+    const status = `/api/v1/jobs/${jobId}`;
+    reply.header('location', status);
+    return { jobId, state: 'ready', paper, status };
+  }
+
+  /** A design file a worker rendered (the href in its job's result). */
+  @Get(':id/design-files/:fileId')
+  async renderedDesignFile(@Param('id') id: string, @Param('fileId') fileId: string, @Res({ passthrough: true }) reply: FastifyReply) {
+    const file = await this.jobs.file(id, fileId);
+    reply.header('content-type', 'application/pdf').header('content-disposition', `attachment; filename="${file.fileName}"`);
+    return file.content;
   }
 }

@@ -25,7 +25,12 @@ export interface DesignFile {
   readonly headerLabel: string;
   readonly footerNote: string;
   readonly fileName: string;
+  /** The product's chain head hash the file prints (null when the chain did not verify) */
+  readonly headHash: string | null;
 }
+
+/** Called after each calculation is assembled: how many of how many. */
+export type AssemblyProgress = (done: number, total: number) => Promise<void> | void;
 
 @Injectable()
 export class DesignFileService {
@@ -44,7 +49,7 @@ export class DesignFileService {
     this.template = Templates.of().template('reports/design-file');
   }
 
-  async build(productId: string): Promise<DesignFile> {
+  async build(productId: string, onProgress?: AssemblyProgress): Promise<DesignFile> {
     const product = await this.products.get(productId);
     const [calcs, chain, trail, now] = await Promise.all([
       this.calculations.listForProduct(productId),
@@ -68,6 +73,7 @@ export class DesignFileService {
         const { html } = await this.renderer.render(await this.inputs.forRevision(approved.id), { idPrefix: `r${reports.length + 1}-`, bodyOnly: true });
         reports.push({ body: html });
       }
+      await onProgress?.(calculations.length, calcs.length);
     }
     const summary = chain.valid
       ? `intact: ${chain.links} links recomputed from the stored records`
@@ -86,6 +92,6 @@ export class DesignFileService {
         broken: chain.firstBrokenLink ? `seq. ${chain.firstBrokenLink.seq} (${chain.firstBrokenLink.kind} ${chain.firstBrokenLink.id}): ${chain.firstBrokenLink.reason}` : null,
       },
     });
-    return { html, headerLabel: `Design file · ${product.code} · ${product.name}`, footerNote: CAUTION_SHORT, fileName: `design-file-${product.code}.pdf` };
+    return { html, headerLabel: `Design file · ${product.code} · ${product.name}`, footerNote: CAUTION_SHORT, fileName: `design-file-${product.code}.pdf`, headHash: chain.valid ? chain.headHash ?? null : null };
   }
 }

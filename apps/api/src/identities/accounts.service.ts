@@ -48,7 +48,7 @@ export class SessionRefused extends Error {}
 @Injectable()
 export class AccountsService {
   /** Failed sign-ins and activations per client address (never per account: an account is never locked). */
-  readonly limiter = new FailureLimiter(10, 60_000);
+  readonly limiter: FailureLimiter;
   private readonly idleMs: number;
   private readonly absoluteMs: number;
 
@@ -59,6 +59,7 @@ export class AccountsService {
     @Inject(APP_CONFIG) config: AppConfig,
     @Inject(CLOCK) private readonly clock: Clock,
   ) {
+    this.limiter = new FailureLimiter(db, 'sign-in', 10, 60_000);
     this.idleMs = config.LEADLINE_SESSION_IDLE_MINUTES * 60_000;
     this.absoluteMs = config.LEADLINE_SESSION_ABSOLUTE_HOURS * 3_600_000;
   }
@@ -68,14 +69,14 @@ export class AccountsService {
   }
 
   /** Refuses a client address that failed too often (429), before any work. */
-  private checkLimit(client: string): void {
-    const wait = this.limiter.blocked(client, this.clock.now());
+  private async checkLimit(client: string): Promise<void> {
+    const wait = await this.limiter.blocked(client, this.clock.now());
     if (wait > 0) throw new ProblemError(429, 'Too many failed attempts', `too many failed attempts from this address; try again in ${wait} s`, { retryAfter: wait });
   }
 
   /** Sets the password of the user a valid, unused, unexpired activation or reset code belongs to. */
   async activate(body: unknown, client: string) {
-    this.checkLimit(client);
+    await this.checkLimit(client);
     const input = validate(activateSchema, body);
     const [code] = await this.db.query<{ id: string; user_id: string; purpose: string }>(
       `SELECT c.id, c.user_id, c.purpose FROM activation_codes c JOIN users u ON u.id = c.user_id
@@ -85,7 +86,7 @@ export class AccountsService {
       [codeHash(input.activationCode), this.nowIso()],
     );
     if (!code) {
-      this.limiter.fail(client, this.clock.now());
+      await this.limiter.fail(client, this.clock.now());
       throw new ProblemError(403, 'Code not accepted', 'the activation code is unknown, used, replaced by a newer one, or has expired; ask an admin for a new one', {
         errors: [{ path: 'activationCode', message: 'unknown, used, replaced or expired' }],
       });
@@ -119,7 +120,7 @@ export class AccountsService {
    * any other address.
    */
   async signIn(body: unknown, client: string): Promise<SignedIn> {
-    this.checkLimit(client);
+    await this.checkLimit(client);
     const input = validate(signInSchema, body);
     const [user] = await this.db.query<{ id: string; name: string; email: string; roles: Role[] }>(
       `SELECT u.id, u.name, u.email, ${CURRENT_ROLES('u')} AS roles FROM users u WHERE lower(u.email) = lower($1) AND ${USER_ACTIVE('u')}`,
@@ -127,7 +128,7 @@ export class AccountsService {
     );
     const ok = await verifyPassword(user ? await this.passwordHash(user.id) : null, input.password);
     if (!user || !ok) {
-      this.limiter.fail(client, this.clock.now());
+      await this.limiter.fail(client, this.clock.now());
       throw new ProblemError(401, 'Sign-in refused', 'the email or the password is not right (or the account is not active)', {
         errors: [{ path: 'password', message: 'email or password not right' }],
       });
@@ -187,9 +188,9 @@ export class AccountsService {
    * failures (the same limiter), so a stolen session cannot guess the password for long.
    */
   async verifySignerPassword(userId: string, password: string, client: string): Promise<boolean> {
-    this.checkLimit(client);
+    await this.checkLimit(client);
     const ok = await verifyPassword(await this.passwordHash(userId), password);
-    if (!ok) this.limiter.fail(client, this.clock.now());
+    if (!ok) await this.limiter.fail(client, this.clock.now());
     return ok;
   }
 }

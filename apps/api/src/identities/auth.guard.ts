@@ -4,11 +4,13 @@
  * Unauthenticated: 401. Wrong role: 403. Repeated failures from one address: 429 (with Retry-After) for the rest of
  * the window, for failures only; a valid token is always accepted.
  */
-import { CanActivate, ExecutionContext, Injectable, SetMetadata } from '@nestjs/common';
+import { CanActivate, ExecutionContext, Inject, Injectable, SetMetadata } from '@nestjs/common';
 import { Reflector } from '@nestjs/core';
 import type { FastifyReply, FastifyRequest } from 'fastify';
 import { AccountsService, SessionRefused } from './accounts.service';
 import { ProblemError } from '../infra/http/problem';
+import { CLOCK, type Clock } from '../infra/clock';
+import { Database } from '../infra/database/database.service';
 import { clientKey, FailureLimiter } from './failure-limiter';
 import { IdentitiesService, type Principal, type Role } from './identities.service';
 
@@ -24,13 +26,18 @@ export const Roles = (...roles: Role[]) => SetMetadata(ROLES_KEY, roles);
 
 @Injectable()
 export class AuthGuard implements CanActivate {
-  readonly limiter = new FailureLimiter();
+  /** Failed bearer tokens and forged session cookies per client address, shared by every instance */
+  readonly limiter: FailureLimiter;
 
   constructor(
     private readonly reflector: Reflector,
     private readonly identities: IdentitiesService,
     private readonly accounts: AccountsService,
-  ) {}
+    db: Database,
+    @Inject(CLOCK) private readonly clock: Clock,
+  ) {
+    this.limiter = new FailureLimiter(db, 'authentication');
+  }
 
   async canActivate(ctx: ExecutionContext): Promise<boolean> {
     const targets = [ctx.getHandler(), ctx.getClass()];
@@ -59,12 +66,12 @@ export class AuthGuard implements CanActivate {
       }
     }
     if (!principal) {
-      const wait = this.limiter.blocked(client);
+      const wait = await this.limiter.blocked(client, this.clock.now());
       if (wait > 0) {
         throw new ProblemError(429, 'Too many failed authentications', `too many failed authentications from this address; try again in ${wait} s`, { retryAfter: wait });
       }
       // an expired or signed-out session is not a guess: only bad tokens and forged cookies count as failures
-      if (token || refused === 'the session is unknown' || refused.startsWith('the session cookie')) this.limiter.fail(client);
+      if (token || refused === 'the session is unknown' || refused.startsWith('the session cookie')) await this.limiter.fail(client, this.clock.now());
       throw new ProblemError(401, 'Authentication required', refused);
     }
     // A page session's state-changing request must carry the session's CSRF token (OWASP CSRF Prevention Cheat

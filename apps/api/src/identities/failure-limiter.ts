@@ -1,50 +1,29 @@
+import type { Queryer } from '../infra/database/database.service';
+
 /**
- * Fixed-window counter of failed authentications per client address. Only failures are counted, and only
- * failures are refused: a valid token is accepted whatever its address did. Memory is bounded: when the
- * table is full, windows that have ended go first, then the oldest running one (the nearest to its end),
- * one at a time, so a flood of new addresses never wipes every other address's count at once.
+ * Fixed-window counter of failed authentications per client address, kept in the database (queue.limit_counters,
+ * migrations/20261206050100) so that every instance counts against the same number. Only failures are counted,
+ * and only failures are refused: a valid token is accepted whatever its address did, and an account is never
+ * locked. `scope` keeps separate counts apart (bearer tokens, sign-in). Times come from the caller's clock.
  */
 export class FailureLimiter {
-  // Insertion order is window-start order: a new window is always (re)inserted at the end.
-  private readonly windows = new Map<string, { start: number; failures: number }>();
   constructor(
+    private readonly db: Queryer,
+    readonly scope: string,
     readonly maxFailures = 10,
     readonly windowMs = 60_000,
-    readonly maxEntries = 10_000,
   ) {}
 
-  /** Addresses currently tracked. */
-  get size(): number {
-    return this.windows.size;
-  }
-
   /** Seconds until this address may fail again, or 0 when it is not limited. */
-  blocked(key: string, now = Date.now()): number {
-    const w = this.windows.get(key);
-    if (!w || now - w.start >= this.windowMs) return 0;
-    return w.failures >= this.maxFailures ? Math.max(1, Math.ceil((w.start + this.windowMs - now) / 1000)) : 0;
+  async blocked(key: string, now: number): Promise<number> {
+    const [row] = await this.db.query<{ wait: number }>(`SELECT queue.failures_blocked($1, $2, $3, $4, $5) AS wait`, [
+      this.scope, key, this.maxFailures, this.windowMs, new Date(now).toISOString(),
+    ]);
+    return Number(row?.wait ?? 0);
   }
 
-  fail(key: string, now = Date.now()): void {
-    const w = this.windows.get(key);
-    if (w && now - w.start < this.windowMs) {
-      w.failures++;
-      return;
-    }
-    this.windows.delete(key);
-    if (this.windows.size >= this.maxEntries) this.evict(now);
-    this.windows.set(key, { start: now, failures: 1 });
-  }
-
-  private evict(now: number): void {
-    for (const [k, w] of this.windows) {
-      if (now - w.start < this.windowMs) break;
-      this.windows.delete(k);
-    }
-    if (this.windows.size >= this.maxEntries) {
-      const oldest = this.windows.keys().next();
-      if (!oldest.done) this.windows.delete(oldest.value);
-    }
+  async fail(key: string, now: number): Promise<void> {
+    await this.db.query(`SELECT queue.record_failure($1, $2, $3, $4)`, [this.scope, key, this.windowMs, new Date(now).toISOString()]);
   }
 }
 

@@ -256,11 +256,20 @@ export class PasskeysService {
   /** Signs in with a passkey: a page session (method passkey) for the passkey's user. */
   async signIn(body: unknown, client: string, rp: RelyingParty): Promise<SignedIn> {
     const limiter = this.accounts.limiter;
-    const wait = limiter.blocked(client, this.clock.now());
+    const wait = await limiter.blocked(client, this.clock.now());
     if (wait > 0) throw new ProblemError(429, 'Too many failed attempts', `too many failed attempts from this address; try again in ${wait} s`, { retryAfter: wait });
     const input = validate(passkeySignInSchema, body);
+    // A refusal counts as a failed attempt (shared by every instance) before it is answered
+    try {
+      return await this.passkeySignIn(input, rp);
+    } catch (err) {
+      if (err instanceof ProblemError && err.status === 401) await limiter.fail(client, this.clock.now());
+      throw err;
+    }
+  }
+
+  private async passkeySignIn(input: z.infer<typeof passkeySignInSchema>, rp: RelyingParty): Promise<SignedIn> {
     const refuse = (detail: string): never => {
-      limiter.fail(client, this.clock.now());
       throw new ProblemError(401, 'Sign-in refused', detail, { errors: [{ path: 'response', message: detail }] });
     };
     const challenge = await this.challengeRow(input.challengeId);

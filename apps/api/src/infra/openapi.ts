@@ -23,6 +23,7 @@ import { recheckResponseSchema, recheckSchema } from '../rules/recheck.service';
 import { adoptSchema } from '../rules/rule-sets.service';
 import { mailPreferenceSchema } from '../notifications/mail.service';
 import { createEndpointSchema } from '../webhooks/webhooks.service';
+import { designFileAcceptedSchema, designFileJobSchema, designFileRequestSchema } from '../design-file/design-file-jobs.service';
 
 const json = (schema: ZodType, io: 'input' | 'output') => z.toJSONSchema(schema, { io, target: 'openapi-3.0', unrepresentable: 'any' });
 
@@ -57,6 +58,12 @@ export const ROUTES: Route[] = [
   { method: 'get', path: '/api/v1/products', summary: 'List products (limit, offset; q: code or name contains)', tag: 'products', response: z.object({ items: z.array(productSchema), total: z.number(), limit: z.number(), offset: z.number() }) },
   { method: 'get', path: '/api/v1/products/{id}', summary: 'One product with its calculations', tag: 'products', response: productSchema.extend({ calculations: z.array(calculationSchema) }) },
   { method: 'post', path: '/api/v1/evaluations/charts', summary: "The report's torque-friction and column charts (SVG) of an unsaved design (?units=SI|US); nothing stored", tag: 'evaluations', request: designInputSchema, response: z.object({ unitSystem: z.enum(['SI', 'US']), torqueFriction: z.string(), column: z.string().nullable() }), status: 200 },
+  {
+    method: 'post', path: '/api/v1/products/{id}/design-files', tag: 'reports', request: designFileRequestSchema, response: designFileAcceptedSchema, status: 202,
+    summary: 'Render the design file in the background (a queue worker on any instance): 202 with the job\'s address in the Location header and the body\'s status; a file of the same record (chain head hash) is reused',
+  },
+  { method: 'get', path: '/api/v1/jobs/{id}', summary: 'A queued design file: state, progress and, when done, the file\'s href', tag: 'reports', response: designFileJobSchema },
+  { method: 'get', path: '/api/v1/products/{id}/design-files/{fileId}', summary: 'A design file a worker rendered (the href of its job\'s result)', tag: 'reports', produces: ['application/pdf'] },
   { method: 'get', path: '/api/v1/products/{id}/design-file.pdf', summary: "Design file, PDF: cover sheet, each calculation's latest approved report, audit trail, hash-chain check (?paper=A4|Letter)", tag: 'reports', produces: ['application/pdf'] },
   {
     method: 'get', path: '/api/v1/me', summary: 'The signed-in user: id, name, roles, how they authenticated, and (page sessions) the CSRF token to send as X-CSRF-Token', tag: 'identities',

@@ -64,13 +64,14 @@ export interface JobView {
   finishedAt: string | null;
 }
 
-const LEASE_SECONDS = 120;
 export const JOB_CHANNEL = 'leadline_jobs';
 
 @Injectable()
 export class QueueService implements OnApplicationBootstrap, OnApplicationShutdown {
   private readonly logger = new Logger('queue');
   private readonly handlers = new Map<string, JobHandler>();
+  /** Kinds whose jobs any signed-in user may follow at GET /api/v1/jobs/:id (work a user asked for, not deliveries) */
+  private readonly visible = new Set<string>();
   /** This instance's name in leases: host, process and a random part (two apps in one process differ) */
   readonly worker = `${hostname()}:${process.pid}:${randomUUID().slice(0, 8)}`;
   private running = 0;
@@ -80,17 +81,30 @@ export class QueueService implements OnApplicationBootstrap, OnApplicationShutdo
   private ticking: Promise<void> | null = null;
   private again = false;
   private readonly inFlight = new Set<Promise<void>>();
+  /** LEADLINE_QUEUE_LEASE_SECONDS; while a handler works its lease is moved forward every quarter of it (a heartbeat) */
+  private readonly leaseMs: number;
 
   constructor(
     private readonly db: Database,
     @Inject(APP_CONFIG) private readonly config: AppConfig,
     @Inject(CLOCK) private readonly clock: Clock,
-  ) {}
+  ) {
+    this.leaseMs = config.LEADLINE_QUEUE_LEASE_SECONDS * 1000;
+  }
 
-  /** Registers the handler of one kind of job (modules do this at construction). */
-  handle(kind: string, handler: JobHandler): void {
+  /**
+   * Registers the handler of one kind of job (modules do this at construction). `visible`: its jobs are shown at
+   * GET /api/v1/jobs/:id (deliveries and fan-out are not: their payloads name endpoints and addresses).
+   */
+  handle(kind: string, handler: JobHandler, options: { visible?: boolean } = {}): void {
     if (this.handlers.has(kind)) throw new Error(`a handler for ${kind} jobs is registered already`);
     this.handlers.set(kind, handler);
+    if (options.visible) this.visible.add(kind);
+  }
+
+  /** Whether jobs of this kind may be shown to signed-in users. */
+  isVisible(kind: string): boolean {
+    return this.visible.has(kind);
   }
 
   /** Enqueues a job in the caller's transaction (or alone); returns its id, or null when the dedupe key existed. */
@@ -214,7 +228,7 @@ export class QueueService implements OnApplicationBootstrap, OnApplicationShutdo
     if (!kinds.length || limit <= 0) return [];
     const rows = await this.db.query<Record<string, any>>(
       `SELECT id, kind, payload, attempts, max_attempts, created_by FROM queue.claim($1, $2::text[], $3, $4, $5)`,
-      [this.worker, kinds, limit, new Date(this.clock.now()).toISOString(), LEASE_SECONDS],
+      [this.worker, kinds, limit, new Date(this.clock.now()).toISOString(), this.config.LEADLINE_QUEUE_LEASE_SECONDS],
     );
     return rows.map((r) => ({ id: r.id, kind: r.kind, payload: r.payload, attempts: r.attempts, maxAttempts: r.max_attempts, createdBy: r.created_by ?? null }));
   }
@@ -222,11 +236,17 @@ export class QueueService implements OnApplicationBootstrap, OnApplicationShutdo
   private async run(job: Job): Promise<void> {
     const handler = this.handlers.get(job.kind)!;
     let outcome: JobOutcome;
+    const heartbeat = setInterval(() => {
+      this.db
+        .query(`SELECT queue.extend_lease($1, $2, $3)`, [job.id, this.worker, new Date(this.clock.now() + this.leaseMs).toISOString()])
+        .catch((err) => this.logger.warn(`${job.kind} job ${job.id}: the lease could not be extended (${(err as Error).message})`));
+    }, this.leaseMs / 4);
+    heartbeat.unref();
     try {
       outcome = (await handler(job, {
         progress: async (value) => {
           await this.db.query(`SELECT queue.report_progress($1, $2, $3::jsonb, $4)`, [
-            job.id, this.worker, JSON.stringify(value), new Date(this.clock.now() + LEASE_SECONDS * 1000).toISOString(),
+            job.id, this.worker, JSON.stringify(value), new Date(this.clock.now() + this.leaseMs).toISOString(),
           ]);
         },
       })) ?? { state: 'done' };
@@ -236,6 +256,8 @@ export class QueueService implements OnApplicationBootstrap, OnApplicationShutdo
         ? { state: 'failed', error: message }
         : { state: 'retry', at: this.clock.now() + retryDelayMs(job.attempts), error: message };
       this.logger.warn(`${job.kind} job ${job.id} attempt ${job.attempts} failed: ${message}`);
+    } finally {
+      clearInterval(heartbeat);
     }
     const state = outcome.state === 'retry' ? 'ready' : outcome.state;
     await this.db.query(`SELECT queue.finish($1, $2, $3, $4::jsonb, $5, $6)`, [

@@ -1,5 +1,6 @@
 /* One product (/design/products/:id): its calculations with the latest revision, state and verdict; the design file. */
-import { api, download } from './lib-api.js';
+import { api } from './lib-api.js';
+import { designFilePanel } from './design-file-job.js';
 import { $, el, fillTable, pathId } from './lib-dom.js';
 import { badge, STATES, time, verdictBadge } from './lib-format.js';
 import { showProblem } from './lib-problem.js';
@@ -15,9 +16,7 @@ async function productPage() {
     $('product-description').textContent = product.description || '';
     $('new-calculation').setAttribute('href', '/design/products/' + encodeURIComponent(id) + '/new');
     $('audit-link').setAttribute('href', '/review/products/' + encodeURIComponent(id) + '/audit');
-    $('download-design-file').addEventListener('click', function () {
-      download('/api/v1/products/' + encodeURIComponent(id) + '/design-file.pdf', 'design-file-' + product.code + '.pdf', $('download-status'));
-    });
+    designFilePanel(id);
     const latest = await Promise.all(
       product.calculations.map(async function (c) {
         const revisions = (await api('/api/v1/calculations/' + encodeURIComponent(c.id) + '/revisions')).items;
