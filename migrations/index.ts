@@ -25,6 +25,7 @@ import { CreatedPasskeys20261206030000 } from './20261206030000-created-passkeys
 import { HidPasswordHashesAndReadCurrentRoles20261206030100 } from './20261206030100-hid-password-hashes-and-read-current-roles';
 import { CreatedRenderedFiles20261206050000 } from './20261206050000-created-rendered-files';
 import { CreatedSharedLimitCounters20261206050100 } from './20261206050100-created-shared-limit-counters';
+import { LeasedPerUserAllowances20261206060000 } from './20261206060000-leased-per-user-allowances';
 
 export const MIGRATIONS = [
   CreatedRecordTables20261201220000,
@@ -53,4 +54,5 @@ export const MIGRATIONS = [
   HidPasswordHashesAndReadCurrentRoles20261206030100,
   CreatedRenderedFiles20261206050000,
   CreatedSharedLimitCounters20261206050100,
+  LeasedPerUserAllowances20261206060000,
 ];

@@ -107,7 +107,8 @@ export async function grantQueue(q: { query(sql: string): Promise<unknown> }, ro
   await q.query(`GRANT SELECT, INSERT ON queue.jobs, queue.webhook_endpoints, queue.webhook_attempts, queue.mail_preferences, queue.rendered_files TO ${r}`);
   await q.query(`GRANT EXECUTE ON FUNCTION queue.claim(text, text[], integer, timestamptz, integer), queue.finish(uuid, text, text, jsonb, text, timestamptz),
     queue.report_progress(uuid, text, jsonb, timestamptz), queue.extend_lease(uuid, text, timestamptz), queue.failures_blocked(text, text, integer, integer, timestamptz),
-    queue.record_failure(text, text, integer, timestamptz), queue.take_allowance(text, text, double precision, timestamptz), queue.disable_endpoint(uuid, text), queue.rotate_endpoint_secret(uuid, text) TO ${r}`);
+    queue.record_failure(text, text, integer, timestamptz), queue.take_allowance(text, text, double precision, timestamptz),
+    queue.take_allowances(text, text, double precision, timestamptz, integer), queue.disable_endpoint(uuid, text), queue.rotate_endpoint_secret(uuid, text) TO ${r}`);
 }
 
 /** Warns when the service's own connection is a superuser or owns the record tables (it could then rewrite them). */
