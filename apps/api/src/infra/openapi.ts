@@ -16,7 +16,7 @@ import { addRevisionSchema, openCalculationSchema, reassignSchema, revisionsQuer
 import { auditQuerySchema } from '../reviews/audit.service';
 import { createTokenSchema, createUserSchema, identityEventsQuerySchema, setRolesSchema } from '../identities/identities.service';
 import { activateSchema, signInSchema } from '../identities/accounts.service';
-import { createProductSchema } from '../products/products.service';
+import { createProductSchema, productListSchema } from '../products/products.service';
 import { commentSchema, decisionSchema, withdrawSchema } from '../reviews/reviews.service';
 import { impactSchema } from '../rules/impact.service';
 import { recheckResponseSchema, recheckSchema } from '../rules/recheck.service';
@@ -55,7 +55,14 @@ export const ROUTES: Route[] = [
   { method: 'post', path: '/api/v1/evaluations', summary: 'Evaluate a design (stateless, nothing stored)', tag: 'evaluations', request: designInputSchema, response: evaluationResponseSchema, status: 200 },
   { method: 'post', path: '/api/v1/sizing', summary: 'Search the standard sizes for screws that pass stated requirements, ranked, with the rules that stopped the rest (stateless)', tag: 'sizing', request: sizingRequestSchema, response: sizingResponseSchema, status: 200 },
   { method: 'post', path: '/api/v1/products', summary: 'Register a product', tag: 'products', request: createProductSchema, response: productSchema, status: 201 },
-  { method: 'get', path: '/api/v1/products', summary: 'List products (limit, offset; q: code or name contains)', tag: 'products', response: z.object({ items: z.array(productSchema), total: z.number(), limit: z.number(), offset: z.number() }) },
+  {
+    method: 'get', path: '/api/v1/products', summary: 'List and search products (limit, offset; q: code, name, calculation title, thread size or author contains; state: latest revision of a calculation in this review state)', tag: 'products',
+    query: productListSchema,
+    response: z.object({
+      items: z.array(productSchema.extend({ matchedBy: z.array(z.enum(['code', 'name', 'calculation', 'size', 'author'])).describe('what q matched (empty without q)') })),
+      total: z.number(), limit: z.number(), offset: z.number(),
+    }),
+  },
   { method: 'get', path: '/api/v1/products/{id}', summary: 'One product with its calculations', tag: 'products', response: productSchema.extend({ calculations: z.array(calculationSchema) }) },
   { method: 'post', path: '/api/v1/evaluations/charts', summary: "The report's torque-friction and column charts (SVG) of an unsaved design (?units=SI|US); nothing stored", tag: 'evaluations', request: designInputSchema, response: z.object({ unitSystem: z.enum(['SI', 'US']), torqueFriction: z.string(), column: z.string().nullable() }), status: 200 },
   {

@@ -9,7 +9,7 @@ import { $, el } from './lib-dom.js';
 import { badge, VERDICTS } from './lib-format.js';
 import { clearFieldErrors, clearProblem, fieldErrors, showFieldErrors, showProblem } from './lib-problem.js';
 import { startPage } from './lib-session.js';
-import { fieldFor, fillDesign, keptInWords, readDesign, syncVisibility } from './design-fields.js';
+import { fieldFor, fillDesign, keptInWords, readDesign, syncVisibility, useLibrary } from './design-fields.js';
 import { renderResults, showChart } from './design-results.js';
 import { takeDraft } from './lib-draft.js';
 
@@ -54,6 +54,7 @@ async function loadLibrary() {
   $('f-screw-list').replaceChildren(...materials.screws.map(function (m) {
     return el('option', { value: m.id }, m.name);
   }));
+  useLibrary(materials);
 }
 
 /** Where the form stands: a new calculation of a product, or the next revision of a calculation. */

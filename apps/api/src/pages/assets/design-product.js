@@ -5,6 +5,7 @@ import { $, el, fillTable, pathId } from './lib-dom.js';
 import { badge, STATES, time, verdictBadge } from './lib-format.js';
 import { showProblem } from './lib-problem.js';
 import { startPage } from './lib-session.js';
+import { rememberProduct } from './lib-recent.js';
 
 async function productPage() {
   const id = pathId(/^\/design\/products\/([^/]+)$/);
@@ -12,6 +13,7 @@ async function productPage() {
   try {
     const product = await api('/api/v1/products/' + encodeURIComponent(id));
     document.title = product.code + ' · Products · Leadline';
+    rememberProduct(product.id);
     $('product-heading').textContent = product.code + ' — ' + product.name;
     $('product-description').textContent = product.description || '';
     $('new-calculation').setAttribute('href', '/design/products/' + encodeURIComponent(id) + '/new');
