@@ -21,6 +21,7 @@ import { ChainedIdentityEventsAndAdoptions20261204230200 } from './2026120423020
 import { CreatedAccountsAndSessions20261205000000 } from './20261205000000-created-accounts-and-sessions';
 import { MovedAccountWritesIntoFunctions20261205000100 } from './20261205000100-moved-account-writes-into-functions';
 import { CreatedJobQueueAndOutbox20261205000200 } from './20261205000200-created-job-queue-and-outbox';
+import { CreatedDesignDrafts20261206010000 } from './20261206010000-created-design-drafts';
 
 export const MIGRATIONS = [
   CreatedRecordTables20261201220000,
@@ -45,4 +46,5 @@ export const MIGRATIONS = [
   CreatedAccountsAndSessions20261205000000,
   MovedAccountWritesIntoFunctions20261205000100,
   CreatedJobQueueAndOutbox20261205000200,
+  CreatedDesignDrafts20261206010000,
 ];
