@@ -44,6 +44,14 @@ async function enterOn(page: Page, selector: string, navigates = true): Promise<
   else await page.keyboard.press('Enter');
 }
 
+/** Submits the next revision from the design form: the confirmation step, its note, then Submit (by keyboard). */
+async function submitRevision(page: Page, note: string): Promise<void> {
+  await enterOn(page, '#save-submit', false);
+  await page.waitForSelector('#confirm:not([hidden])');
+  await typeInto(page, '#f-note', note);
+  await enterOn(page, '#confirm-submit', false);
+}
+
 /** Signs in on the sign-in page by keyboard, as the given page user (test/support/keyboard.ts). */
 async function signIn(page: Page, who: 'author' | 'reviewer'): Promise<void> {
   await signInByKeyboard(page, t.accounts[who].email, t.accounts[who].password);
@@ -327,9 +335,8 @@ it('takes a design from a new product to an approved second revision and its des
   await chooseOption(author, '#f-collar-source-kind', 'test');
   await typeInto(author, '#f-collar-ref', 'Friction test report FT-112, thrust washer on bronze');
   await typeInto(author, '#f-nut-length', '70 mm');
-  await typeInto(author, '#f-note', 'Collar friction from our test FT-112; longer nut.');
   await waitForEvaluationAfter(author, 0);
-  await enterOn(author, '#save-submit', false);
+  await submitRevision(author, 'Collar friction from our test FT-112; longer nut.');
   await author.waitForSelector('#saved:not([hidden])');
   expect(await text(author, '#saved')).toContain('Stored as revision 2.');
   const rev2 = (await t.call('GET', `/api/v1/calculations/${calcId}/revisions`)).body.items[1];
@@ -502,8 +509,7 @@ it('keeps every imported field it has no control for: export and the saved revis
     await checkPage(page, 'design-form-kept');
 
     // saving sends them unchanged: the stored revision's input is the imported design
-    await typeInto(page, '#f-note', 'Imported with gearbox, tolerance class and whirl span.');
-    await enterOn(page, '#save-submit', false);
+    await submitRevision(page, 'Imported with gearbox, tolerance class and whirl span.');
     await page.waitForSelector('#saved:not([hidden]), #save-problem .problem');
     expect(await text(page, '#save-problem')).toBe('');
     const revisionId = await page.$eval('#saved', (e) => (e as HTMLElement).dataset.revision!);
@@ -578,8 +584,7 @@ it('takes a tolerance class and a gearbox by keyboard, in the order of the sheet
   await checkPage(page, 'design-form-gearbox');
 
   n = await evaluationNumber(page);
-  await typeInto(page, '#f-note', 'Gearbox 5:1 and tolerance class 7H/7e.');
-  await enterOn(page, '#save-submit', false);
+  await submitRevision(page, 'Gearbox 5:1 and tolerance class 7H/7e.');
   await page.waitForSelector('#saved:not([hidden]), #save-problem .problem');
   expect(await text(page, '#save-problem')).toBe('');
   const revisionId = await page.$eval('#saved', (e) => (e as HTMLElement).dataset.revision!);

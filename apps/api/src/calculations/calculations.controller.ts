@@ -96,11 +96,11 @@ export class CalculationsController {
     };
   }
 
-  /** One revision: input as submitted, evaluation, findings, versions and hashes. */
+  /** One revision: input as submitted, evaluation, findings, versions and hashes; its review state and what was said on it. */
   @Get('revisions/:id')
   async revision(@Param('id') id: string) {
-    const [record, review] = await Promise.all([this.calculations.revision(id), this.reviews.state(id)]);
+    const [record, review, remarks] = await Promise.all([this.calculations.revision(id), this.reviews.state(id), this.reviews.remarks(id)]);
     const { checks, governing } = await this.calculations.checksOf(record);
-    return { ...record, checks, governing, review: { state: review.state, decidedBy: review.decidedBy, decidedAt: review.decidedAt, signature: review.signature } };
+    return { ...record, checks, governing, review: { state: review.state, decidedBy: review.decidedBy, decidedAt: review.decidedAt, signature: review.signature, remarks } };
   }
 }
