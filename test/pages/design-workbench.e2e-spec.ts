@@ -90,11 +90,11 @@ async function decide(page: Page, revisionId: string, decision: 'approve' | 'rej
   await page.goto(`${t.baseUrl}/review/revisions/${revisionId}`);
   await page.waitForSelector('#decision:not([hidden]), #revision-problem .problem');
   expect(await text(page, '#revision-problem')).toBe('');
-  if (decision === 'reject') {
-    await tabTo(page, 'input[name="decision"][value="approve"]');
-    await page.keyboard.press('ArrowDown'); // radio group: to "Reject"
-    expect(await page.$eval('input[value="reject"]', (r) => (r as HTMLInputElement).checked)).toBe(true);
-  }
+  // no decision is preset: the reviewer chooses one
+  expect(await page.$$eval('input[name="decision"]:checked', (r) => r.length)).toBe(0);
+  await tabTo(page, 'input[name="decision"][value="approve"]');
+  await page.keyboard.press(decision === 'reject' ? 'ArrowDown' : 'Space'); // radio group: down to "Reject", or check "Approve"
+  expect(await page.$eval(`input[value="${decision}"]`, (r) => (r as HTMLInputElement).checked)).toBe(true);
   await typeInto(page, '#decision-comment', comment);
   // the decision is signed with the reviewer's own password, given again now
   await typeInto(page, '#signature-password', t.accounts.reviewer.password);

@@ -174,6 +174,12 @@ export const revisionReviewSchema = z.object({
   signature: signatureSchema.nullable(),
 });
 
+/**
+ * The shortest acknowledgement of a warning accepted with an approval: a reason the next reader can act on
+ * ("Friction test booked with the supplier"), not a token word such as "ok" (common practice for sign-off notes).
+ */
+export const ACKNOWLEDGEMENT_MIN_LENGTH = 20;
+
 /** One thing said on a revision: a comment (general, or on an input field or a finding), a decision's comment, an acknowledgement, a withdrawal's comment. */
 export const remarkSchema = z.object({
   kind: z.enum(['comment', 'decision', 'acknowledgement', 'withdrawal']),

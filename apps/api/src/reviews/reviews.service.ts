@@ -4,6 +4,7 @@
  */
 import { Inject, Injectable } from '@nestjs/common';
 import type { Actor, Finding, ReviewState } from '@leadline/contracts';
+import { ACKNOWLEDGEMENT_MIN_LENGTH } from '@leadline/contracts';
 import { z } from 'zod';
 import { APP_CONFIG, type AppConfig } from '../infra/config';
 import { Database, PG_UNIQUE_VIOLATION, pgErrorCode, type Queryer } from '../infra/database/database.service';
@@ -35,12 +36,6 @@ export const signatureSchema = z.discriminatedUnion('method', [
     reauthentication: z.uuid().optional().describe('id of the fresh identity-provider login (default: your newest unused one for this revision; GET /api/v1/auth/oidc/start?purpose=sign&revision=)'),
   }),
 ]);
-
-/**
- * The shortest acknowledgement accepted: a reason the next reader can act on ("Friction test booked with the supplier"),
- * not a token word such as "ok" (common practice for sign-off notes; the pages say so in the field's help).
- */
-export const ACKNOWLEDGEMENT_MIN_LENGTH = 20;
 
 export const decisionSchema = z.strictObject({
   decision: z.enum(['approve', 'reject']),

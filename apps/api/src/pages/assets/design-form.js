@@ -82,7 +82,10 @@ async function loadContext() {
       if (!err || err.status !== 404) throw err;
     }
   }
-  return { mode: 'revise', product: product, calculation: calculation, from: from, latest: revisions.items[revisions.items.length - 1], saved: saved };
+  const latest = revisions.items[revisions.items.length - 1];
+  // a draft saved before the latest revision was submitted has been overtaken by it (timestamps: the same exact format)
+  if (saved && latest && saved.savedAt < latest.createdAt) saved = null;
+  return { mode: 'revise', product: product, calculation: calculation, from: from, latest: latest, saved: saved };
 }
 
 function showContext(ctx) {
