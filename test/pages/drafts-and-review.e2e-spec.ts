@@ -9,7 +9,7 @@
  */
 import type { Page } from 'puppeteer-core';
 import { testBrowser, type TestBrowser } from '../support/browser';
-import { blockedDesign, warningDesign } from '../support/designs';
+import { blockedDesign, changedDesign, warningDesign } from '../support/designs';
 import { checkPage as checkPageAt } from '../support/page-checks';
 import { signInByKeyboard, tabTo, typeInto } from '../support/keyboard';
 import { startPagesApp, type PagesApp } from './pages-app';
@@ -208,6 +208,7 @@ describe.each(WIDTHS)('at %i px', (width) => {
     expect(await page.$eval('#compare-link', (a) => a.getAttribute('href'))).toBe(`/design/calculations/${ids.calculationId}#compare`);
     expect(await page.$$eval('input[name="decision"]:checked', (r) => r.length)).toBe(0);
     await page.waitForSelector('#decision:not([hidden])');
+    console.log('WIDE', await page.evaluate(() => Array.from(document.querySelectorAll('body *')).filter((e) => e.getBoundingClientRect().right > window.innerWidth + 1).map((e) => `${e.tagName}#${e.id}.${e.className} ${Math.round(e.getBoundingClientRect().right)}`).slice(0, 15).join('\n')));
     await checkPage(page, 'review-changes');
 
     // deciding without choosing: the decision is named in words and takes the focus
@@ -258,3 +259,20 @@ describe.each(WIDTHS)('at %i px', (width) => {
   });
 });
 
+
+it('keeps an approved revision in sight on the product page when a later one is withdrawn [GET /design/products/:id]', async () => {
+  const product = (await t.call('POST', '/api/v1/products', { code: 'DW-1', name: 'Fernhollow service lift (test product)' })).body;
+  const opened = (await t.call('POST', `/api/v1/products/${product.id}/calculations`, { title: 'Service screw', design: warningDesign })).body;
+  const approved = await t.call('POST', `/api/v1/revisions/${opened.revisionId}/decisions`, {
+    decision: 'approve', acknowledgements: [{ finding: 'friction-source-assumed', comment: 'Range brackets the handbook values.' }],
+  }, 'reviewer');
+  expect(approved.status).toBe(201);
+  const second = (await t.call('POST', `/api/v1/calculations/${opened.calculationId}/revisions`, { design: changedDesign(warningDesign, 'second'), note: 'to be withdrawn' })).body;
+  expect((await t.call('POST', `/api/v1/revisions/${second.revisionId}/withdraw`, {})).status).toBe(200);
+  const page = await tab(1280);
+  await page.goto(`${t.baseUrl}/design/products/${product.id}`);
+  await signInByKeyboard(page, t.accounts.author.email, t.accounts.author.password);
+  await page.waitForSelector(`#calculations tr[data-calculation="${opened.calculationId}"]`);
+  expect(await text(page, `#calculations tr[data-calculation="${opened.calculationId}"]`)).toMatch(/^Service screw\s+2\s+Withdrawn\s+Revision 1: Approved/);
+  await checkPageAt(page, 'drafts/product-approved-earlier', [1280]);
+});

@@ -169,7 +169,7 @@ export class CalculationsService {
       throw new ProblemError(409, 'Unchanged design', `the design equals revision ${n} (${previous.id}): change an input before submitting a new revision`, {
         revision: n,
         revisionId: previous.id,
-        errors: [{ path: 'design', message: `equals revision ${n}: nothing changed` }],
+        errors: [{ path: 'design', message: `equals revision ${n} (${previous.id}): nothing changed` }],
       });
     }
   }

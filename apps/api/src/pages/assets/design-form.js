@@ -14,7 +14,7 @@ import { startPage } from './lib-session.js';
 import { fieldFor, fillDesign, keptInWords, readDesign, syncVisibility } from './design-fields.js';
 import { renderResults, showChart } from './design-results.js';
 import { takeDraft } from './lib-draft.js';
-import { changedFields, changeRow, checkFigure } from './design-changes.js';
+import { changedFields, changeRow, checkFigure, labelOf } from './design-changes.js';
 
 const DEBOUNCE_MS = 150;
 
@@ -137,6 +137,14 @@ async function designPage() {
   showContext(ctx);
   const draft = ctx.mode === 'open' ? takeDraft() : null; // a design handed over by another page (screw selection)
   if (draft) $('design-context').textContent = 'Filled from ' + draft.origin + '. ' + $('design-context').textContent;
+  // what the latest revision reads as through this form (fields the form fills in by default included): the
+  // baseline the submit confirmation compares with, so only the author's own changes are listed
+  let baseline = null;
+  if (ctx.latest) {
+    fillDesign(ctx.latest.input);
+    syncVisibility();
+    baseline = readDesign();
+  }
   if (ctx.saved) {
     fillDesign(ctx.saved.design);
     $('f-note').value = ctx.saved.note || '';
@@ -284,7 +292,14 @@ async function designPage() {
   };
 
   function showRefusal(slot, err) {
-    showProblem(slot, err);
+    showProblem(slot, err, {
+      label: function (p) {
+        if (p === 'design') return 'Design';
+        if (p === 'title') return 'Calculation title';
+        if (p === 'note') return 'Revision note';
+        return labelOf(p);
+      },
+    });
     const errors = fieldErrors(err);
     const unplaced = showFieldErrors(document.getElementById('design'), errors, locate, { focus: true });
     if (unplaced.length === errors.length) {
@@ -353,7 +368,7 @@ async function designPage() {
   function openConfirm() {
     const next = ctx.latest.revision + 1;
     const design = readDesign();
-    const changes = changedFields(ctx.latest.input, design);
+    const changes = changedFields(baseline || ctx.latest.input, design);
     clearProblem($('confirm-problem'));
     $('confirm-heading').textContent = 'Submit revision ' + next + ' for review';
     $('confirm-before-heading').textContent = 'Revision ' + ctx.latest.revision;
@@ -423,6 +438,7 @@ async function designPage() {
       ctx.latest = latest;
     }
     showReviseControls(ctx);
+    baseline = design;
     // the note belonged to the revision just stored; the form offers no submission until the design changes
     $('f-note').value = '';
     confirmPanel.hidden = true;

@@ -3,7 +3,7 @@
  * results, that revision's decision and comments), what was said on this one, report frame, findings with the
  * comments on each, and the decision form (no preset decision; a blocked revision offers only Reject).
  */
-import { api, download } from './lib-api.js';
+import { api, ApiError, download } from './lib-api.js';
 import { $, el, pathId } from './lib-dom.js';
 import { badge, percent, quantity, sig, STATES, time, verdictBadge } from './lib-format.js';
 import { renderFindings, sortedFindings } from './lib-findings.js';
@@ -177,7 +177,7 @@ function setUpDecision(rev, reload) {
         const l = box && box.id ? document.querySelector('label[for="' + box.id + '"]') : null;
         return l ? l.textContent.replace(/\s*\(.*\)\s*$/, '').trim() : null;
       };
-      showProblem(slot, { status: 0, problem: { title: 'Not recorded: ' + issues.length + ' field' + (issues.length === 1 ? '' : 's') + ' to complete', errors: shown } }, { label: words });
+      showProblem(slot, new ApiError(0, { title: 'Not recorded: ' + issues.length + ' field' + (issues.length === 1 ? '' : 's') + ' to complete', errors: shown }), { label: words });
       showFieldErrors(form, shown, function (k) { return boxes[Number(k)]; }, { focus: true });
       return;
     }
