@@ -208,7 +208,6 @@ describe.each(WIDTHS)('at %i px', (width) => {
     expect(await page.$eval('#compare-link', (a) => a.getAttribute('href'))).toBe(`/design/calculations/${ids.calculationId}#compare`);
     expect(await page.$$eval('input[name="decision"]:checked', (r) => r.length)).toBe(0);
     await page.waitForSelector('#decision:not([hidden])');
-    console.log('WIDE', await page.evaluate(() => Array.from(document.querySelectorAll('body *')).filter((e) => e.getBoundingClientRect().right > window.innerWidth + 1).map((e) => `${e.tagName}#${e.id}.${e.className} ${Math.round(e.getBoundingClientRect().right)}`).slice(0, 15).join('\n')));
     await checkPage(page, 'review-changes');
 
     // deciding without choosing: the decision is named in words and takes the focus
