@@ -4,7 +4,7 @@
  * user is not affected, and the allowance comes back as the service's clock moves on (a TestClock, no waiting).
  */
 import { TestClock } from '../support/clock';
-import { clearDesign } from '../support/designs';
+import { changedDesign, clearDesign } from '../support/designs';
 import { BACKENDS, countRecords, startTestApp, type TestApp } from '../support/harness';
 import { createApp } from '../../apps/api/src/app.factory';
 import { LeasedAllowances, TokenBuckets } from '../../apps/api/src/infra/http/user-limits';
@@ -62,14 +62,14 @@ it('limits submissions per user and stores nothing for a refused one [POST /prod
   clock.advance(60_000);
   const product = await t.call('POST', '/api/v1/products', { code: 'UL-1', name: 'Limits' });
   const opened = await t.call('POST', `/api/v1/products/${product.body.id}/calculations`, { title: 'screw', design: clearDesign });
-  const revised = await t.call('POST', `/api/v1/calculations/${opened.body.calculationId}/revisions`, { design: clearDesign });
+  const revised = await t.call('POST', `/api/v1/calculations/${opened.body.calculationId}/revisions`, { design: changedDesign(clearDesign, 2) });
   expect([product.status, opened.status, revised.status]).toEqual([201, 201, 201]);
   const before = await countRecords(t.db);
-  expectLimited(await t.call('POST', `/api/v1/calculations/${opened.body.calculationId}/revisions`, { design: clearDesign }), 'LEADLINE_SUBMISSIONS_PER_USER_PER_MINUTE');
+  expectLimited(await t.call('POST', `/api/v1/calculations/${opened.body.calculationId}/revisions`, { design: changedDesign(clearDesign, 3) }), 'LEADLINE_SUBMISSIONS_PER_USER_PER_MINUTE');
   expectLimited(await t.call('POST', '/api/v1/products', { code: 'UL-2', name: 'Limits' }), 'LEADLINE_SUBMISSIONS_PER_USER_PER_MINUTE');
   expect(await countRecords(t.db)).toEqual(before);
   clock.advance(20_000); // 3 a minute: one more after 20 s
-  expect((await t.call('POST', `/api/v1/calculations/${opened.body.calculationId}/revisions`, { design: clearDesign })).status).toBe(201);
+  expect((await t.call('POST', `/api/v1/calculations/${opened.body.calculationId}/revisions`, { design: changedDesign(clearDesign, 3) })).status).toBe(201);
 });
 
 it('limits PDFs per user over both PDF routes [GET report.pdf, design-file.pdf]', async () => {

@@ -5,7 +5,7 @@
  * holds the attacks on those).
  */
 import { Client } from 'pg';
-import { clearDesign, warningDesign } from '../support/designs';
+import { changedDesign, clearDesign, warningDesign } from '../support/designs';
 import { countRecords, startTestApp, type TestApp } from '../support/harness';
 
 let t: TestApp;
@@ -47,7 +47,7 @@ it('serves the whole workflow as the runtime role', async () => {
   expect(next.status).toBe(201);
   const approved = await t.call('POST', `/api/v1/revisions/${next.body.revisionId}/decisions`, { decision: 'approve' }, { as: 'reviewer' });
   expect(approved.status).toBe(201);
-  const third = await t.call('POST', `/api/v1/calculations/${opened.body.calculationId}/revisions`, { design: clearDesign, note: 'to withdraw' });
+  const third = await t.call('POST', `/api/v1/calculations/${opened.body.calculationId}/revisions`, { design: changedDesign(clearDesign, 'to withdraw'), note: 'to withdraw' });
   expect((await t.call('POST', `/api/v1/revisions/${third.body.revisionId}/withdraw`, {})).status).toBe(200);
   const moved = await t.call('POST', `/api/v1/calculations/${opened.body.calculationId}/reassignments`, { userId: t.users.author2 }, { as: 'admin' });
   expect(moved.status).toBe(201);

@@ -138,13 +138,41 @@ export class CalculationsService {
     const assessment = this.assessor.assess(input.design, this.ruleSets.current(), 'design.');
     const prepared = prepareSubmission(submission(assessment, input.design, input.note ?? null));
     return this.idempotent(`revise:${calculationId}:${actor?.id ?? '-'}`, idempotencyKey, body, async (q) => {
-      // The append reads the calculation's product and locks its head (404 when there is no such calculation)
-      const revision = await this.records.appendRevision(q, null, calculationId, prepared, actor);
+      const [calc] = await q.query<{ product_id: string }>(`SELECT product_id FROM calculations WHERE id = $1`, [calculationId]);
+      if (!calc) throw notFound(`calculation ${calculationId}`);
+      // Under the head's lock, so two identical submissions racing each other cannot both pass
+      const cursor = await this.records.lockHead(q, calc.product_id);
+      if (!cursor) throw notFound(`product ${calc.product_id}`);
+      await this.refuseUnchanged(q, calculationId, prepared.json.normalized, actor);
+      const revision = await this.records.appendRevision(q, calc.product_id, calculationId, prepared, actor, cursor);
       return {
         status: 201,
         body: { calculationId, revisionId: revision.id, revision: revision.revision, verdict: assessment.verdict, hash: revision.hash },
       };
     });
+  }
+
+  /**
+   * A submission whose normalized design equals the previous revision's is refused (409 naming that revision): a
+   * revision records a change, and an accidental resubmission must not pass for one. Checked here, not in
+   * leadline_append_revision, because bulk test and benchmark state appends one stored design many times through
+   * the record function. The owner check comes first, so a stranger learns nothing of the design.
+   */
+  private async refuseUnchanged(q: Queryer, calculationId: string, normalized: string, actor: Actor | null): Promise<void> {
+    const owner = await this.owner(q, calculationId);
+    if (owner && actor && owner.id !== actor.id) return; // leadline_append_revision refuses it with 403
+    const [previous] = await q.query<{ id: string; revision: number; same: boolean }>(
+      `SELECT id, revision, normalized::jsonb = $2::jsonb AS same FROM revisions WHERE calculation_id = $1 ORDER BY revision DESC LIMIT 1`,
+      [calculationId, normalized],
+    );
+    if (previous?.same) {
+      const n = Number(previous.revision);
+      throw new ProblemError(409, 'Unchanged design', `the design equals revision ${n} (${previous.id}): change an input before submitting a new revision`, {
+        revision: n,
+        revisionId: previous.id,
+        errors: [{ path: 'design', message: `equals revision ${n} (${previous.id}): nothing changed` }],
+      });
+    }
   }
 
   /**

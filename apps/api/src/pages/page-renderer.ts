@@ -7,6 +7,7 @@ import { browserModuleSource } from '@leadline/presentation';
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { TOLERANCE_CLASSES } from '@leadline/mechanics';
+import { ACKNOWLEDGEMENT_MIN_LENGTH } from '@leadline/contracts';
 import { CAUTION_TEXT } from '../reports/report-model';
 import { Templates, type Template } from '../infra/templates';
 
@@ -118,6 +119,7 @@ export class PageRenderer {
       frictionSurfaces: [{ surface: 'thread' }, { surface: 'collar' }],
       toleranceOptions: TOLERANCE_OPTIONS,
       pressureSteps: [{ n: 1, i: 0 }, { n: 2, i: 1 }, { n: 3, i: 2 }],
+      acknowledgementMinLength: ACKNOWLEDGEMENT_MIN_LENGTH,
     });
   }
 

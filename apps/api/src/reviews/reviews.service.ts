@@ -4,6 +4,7 @@
  */
 import { Inject, Injectable } from '@nestjs/common';
 import type { Actor, Finding, ReviewState } from '@leadline/contracts';
+import { ACKNOWLEDGEMENT_MIN_LENGTH } from '@leadline/contracts';
 import { z } from 'zod';
 import { APP_CONFIG, type AppConfig } from '../infra/config';
 import { Database, PG_UNIQUE_VIOLATION, pgErrorCode, type Queryer } from '../infra/database/database.service';
@@ -47,9 +48,18 @@ export const decisionSchema = z.strictObject({
   decision: z.enum(['approve', 'reject']),
   signature: signatureSchema.optional().describe('required: the decider signs with something only they hold'),
   comment: z.string().max(8000).optional(),
-  acknowledgements: z.array(z.strictObject({ finding: z.string().min(1).max(100), comment: z.string().trim().min(1, 'an acknowledgement needs a comment').max(4000) })).max(100).optional(),
+  acknowledgements: z.array(z.strictObject({ finding: z.string().min(1).max(100), comment: z.string().trim().min(1, 'an acknowledgement needs a comment').min(ACKNOWLEDGEMENT_MIN_LENGTH, `give the reason for accepting this warning in at least ${ACKNOWLEDGEMENT_MIN_LENGTH} characters`).max(4000) })).max(100).optional(),
   comments: z.array(commentSchema).max(100).optional().describe('comments attached to input fields or findings'),
 });
+
+/** One thing said on a revision (GET /revisions/:id, review.remarks). */
+export interface Remark {
+  kind: 'comment' | 'decision' | 'acknowledgement' | 'withdrawal';
+  by: Actor | null;
+  at: string;
+  text: string;
+  target: { field: string } | { finding: string } | null;
+}
 
 export const withdrawSchema = z.strictObject({ comment: z.string().max(8000).optional() }).optional();
 
@@ -110,6 +120,33 @@ export class ReviewsService {
     private readonly reauthentications: ReauthenticationsService,
     private readonly passkeys: PasskeysService,
   ) {}
+
+  /**
+   * What was said on a revision, oldest first, as events up to the product's head: comments (general or on an input
+   * field or a finding), the decision's comment, its acknowledgements and comments, and a withdrawal's comment.
+   */
+  async remarks(revisionId: string): Promise<Remark[]> {
+    const rows = await this.db.query<{ type: string; actor: Actor | null; at: string; data: Record<string, any> }>(
+      `SELECT e.type, e.actor, ${TS_TEXT('e.created_at')} AS at, e.data FROM events e
+        WHERE e.revision_id = $1 AND e.type IN ('comment', 'approved', 'rejected', 'withdrawn')
+          AND e.seq <= (SELECT h.seq FROM chain_heads h WHERE h.product_id = e.product_id)
+        ORDER BY e.seq`,
+      [checkUuid(revisionId, 'revision')],
+    );
+    const out: Remark[] = [];
+    for (const e of rows) {
+      const data = e.data ?? {};
+      if (e.type === 'comment') {
+        out.push({ kind: 'comment', by: e.actor, at: e.at, text: data.text, target: data.target ?? null });
+        continue;
+      }
+      const kind = e.type === 'withdrawn' ? 'withdrawal' : 'decision';
+      if (data.comment) out.push({ kind, by: e.actor, at: e.at, text: data.comment, target: null });
+      for (const a of data.acknowledgements ?? []) out.push({ kind: 'acknowledgement', by: e.actor, at: e.at, text: a.comment, target: { finding: a.finding } });
+      for (const c of data.comments ?? []) out.push({ kind: 'comment', by: e.actor, at: e.at, text: c.text, target: c.target ?? null });
+    }
+    return out;
+  }
 
   async state(id: string, q: Queryer = this.db): Promise<RevisionState> {
     const [r] = await this.states(q, 'r.id = $1', [checkUuid(id, 'revision')]);
