@@ -91,7 +91,7 @@ export async function benchGrowth(o: GrowthOptions) {
   const calc = await post(`/api/v1/products/${product.id}/calculations`, { title: 'growth', design: o.design });
   const acting = { id: user.id as string, name: 'Growth author' };
   const prepared = prepareSubmission(o.submission);
-  const revisionBody = JSON.stringify({ design: o.design, note: 'growth' });
+  const revisionBody = numberedRevisionBody(o.design as never, 'growth');
 
   const count = async () => Number((await app.get(Database).query<{ n: string }>(`SELECT count(*) AS n FROM revisions WHERE product_id = $1`, [product.id]))[0].n);
   /**
@@ -206,3 +206,9 @@ export async function benchGrowth(o: GrowthOptions) {
 }
 
 export type { NestFastifyApplication };
+
+/** A revision body whose design differs per request ("{{n}}" numbered by bench/load.ts): an unchanged design is refused. */
+function numberedRevisionBody(design: { friction: { thread: { source: { reference: string } } } }, note: string): string {
+  const thread = design.friction.thread;
+  return JSON.stringify({ design: { ...design, friction: { ...design.friction, thread: { ...thread, source: { ...thread.source, reference: `${thread.source.reference} ({{n}})` } } } }, note });
+}

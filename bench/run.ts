@@ -180,7 +180,7 @@ async function benchHttp(url: string) {
   }
   const prepared = prepareSubmission(benchSubmission());
   setBenchRow(prepared, products);
-  const revisionBody = JSON.stringify({ design: JSON.parse(design), note: 'bench' });
+  const revisionBody = numberedRevisionBody(JSON.parse(design), 'bench');
   results.push(await sideBySide('durable submission (50 products) vs bare INSERT of a revision-sized row (same auth, body and pool)', at(`${base}/bench/insert`, 'POST', revisionBody), at(calcs.map((c) => `${base}/api/v1/calculations/${c}/revisions`), 'POST', revisionBody)));
   results.push(await sideBySide('durable submission (one calculation) vs bare INSERT of a revision-sized row', at(`${base}/bench/insert`, 'POST', revisionBody), at(`${base}/api/v1/calculations/${calcs[0]}/revisions`, 'POST', revisionBody)));
   await new Promise((r) => setTimeout(r, 1500)); // let requests still queued at the end drain
@@ -275,3 +275,9 @@ main().then(
     process.exit(1);
   },
 );
+
+/** A revision body whose design differs per request ("{{n}}" numbered by bench/load.ts): an unchanged design is refused. */
+function numberedRevisionBody(design: { friction: { thread: { source: { reference: string } } } }, note: string): string {
+  const thread = design.friction.thread;
+  return JSON.stringify({ design: { ...design, friction: { ...design.friction, thread: { ...thread, source: { ...thread.source, reference: `${thread.source.reference} ({{n}})` } } } }, note });
+}

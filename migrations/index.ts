@@ -21,8 +21,12 @@ import { ChainedIdentityEventsAndAdoptions20261204230200 } from './2026120423020
 import { CreatedAccountsAndSessions20261205000000 } from './20261205000000-created-accounts-and-sessions';
 import { MovedAccountWritesIntoFunctions20261205000100 } from './20261205000100-moved-account-writes-into-functions';
 import { CreatedJobQueueAndOutbox20261205000200 } from './20261205000200-created-job-queue-and-outbox';
+import { CreatedDesignDrafts20261206010000 } from './20261206010000-created-design-drafts';
+import { CreatedPasskeys20261206030000 } from './20261206030000-created-passkeys';
+import { HidPasswordHashesAndReadCurrentRoles20261206030100 } from './20261206030100-hid-password-hashes-and-read-current-roles';
 import { CreatedRenderedFiles20261206050000 } from './20261206050000-created-rendered-files';
 import { CreatedSharedLimitCounters20261206050100 } from './20261206050100-created-shared-limit-counters';
+import { LeasedPerUserAllowances20261206060000 } from './20261206060000-leased-per-user-allowances';
 
 export const MIGRATIONS = [
   CreatedRecordTables20261201220000,
@@ -47,6 +51,10 @@ export const MIGRATIONS = [
   CreatedAccountsAndSessions20261205000000,
   MovedAccountWritesIntoFunctions20261205000100,
   CreatedJobQueueAndOutbox20261205000200,
+  CreatedDesignDrafts20261206010000,
+  CreatedPasskeys20261206030000,
+  HidPasswordHashesAndReadCurrentRoles20261206030100,
   CreatedRenderedFiles20261206050000,
   CreatedSharedLimitCounters20261206050100,
+  LeasedPerUserAllowances20261206060000,
 ];

@@ -8,7 +8,7 @@ import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'no
 import { hostname, tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { DataDirLockedError, LOCK_FILE, lockDataDir } from '../../apps/api/src/infra/database/data-dir-lock';
-import { clearDesign } from '../support/designs';
+import { changedDesign, clearDesign } from '../support/designs';
 
 const ROOT = resolve(__dirname, '../..');
 const ADMIN = `ll_lock_test_admin_${'x'.repeat(24)}`;
@@ -83,7 +83,7 @@ describe('two service processes on one embedded data folder', () => {
     const acknowledged: string[] = [opened.body.revisionId];
     const revise = async (url: string, n: number) => {
       for (let i = 0; i < n; i++) {
-        const res = await call(url, author, 'POST', `/api/v1/calculations/${opened.body.calculationId}/revisions`, { design: clearDesign, note: `rev ${acknowledged.length + 1}` });
+        const res = await call(url, author, 'POST', `/api/v1/calculations/${opened.body.calculationId}/revisions`, { design: changedDesign(clearDesign, acknowledged.length + 1), note: `rev ${acknowledged.length + 1}` });
         expect(res.status).toBe(201);
         acknowledged.push(res.body.revisionId);
       }

@@ -18,6 +18,11 @@ import { Client } from 'pg';
 const ROOT = resolve(__dirname, '../../..');
 const MAIN = join(ROOT, 'dist/apps/api/src/main.js');
 const DESIGN = JSON.parse(readFileSync(join(ROOT, 'test/fixtures/ok/trapezoidal-jack.json'), 'utf8'));
+/** The design with its friction reference told apart: a new revision must change the design (409 otherwise). */
+const changed = (label: string | number) => ({
+  ...DESIGN,
+  friction: { ...DESIGN.friction, thread: { ...DESIGN.friction.thread, source: { ...DESIGN.friction.thread.source, reference: `${DESIGN.friction.thread.source.reference} (${label})` } } },
+});
 const SERVER_URL = process.env.DATABASE_URL ?? 'postgres://postgres@127.0.0.1:5432/postgres';
 const PORT_BASE = Number(process.env.FAULTS_PORT_BASE ?? 3400);
 const PG_PORT = Number(process.env.FAULTS_PG_PORT ?? 3499);
@@ -265,7 +270,7 @@ async function submitLoad(opts: {
       if (opts.until(stats)) return;
       const n = stats.attempted++;
       const calculationId = opts.calculations[n % opts.calculations.length];
-      const r = await call(opts.base(), 'POST', `/api/v1/calculations/${calculationId}/revisions`, opts.token, { design: DESIGN, note: `fault run ${n}` });
+      const r = await call(opts.base(), 'POST', `/api/v1/calculations/${calculationId}/revisions`, opts.token, { design: changed(`fault run ${n}`), note: `fault run ${n}` });
       stats.statuses[r.status] = (stats.statuses[r.status] ?? 0) + 1;
       if (r.status === 201) {
         stats.acknowledged++;
@@ -376,7 +381,7 @@ async function terminateConnections(): Promise<Figures> {
     await submitLoad({ base: () => svc.url, token: actors.author, calculations, concurrency: 8, acks, stats, until: () => Date.now() > stopAt });
     await killer;
     const after = await call(svc.url, 'GET', '/health', null);
-    const recovered = await call(svc.url, 'POST', `/api/v1/calculations/${calculations[0]}/revisions`, actors.author, { design: DESIGN, note: 'after the terminations' });
+    const recovered = await call(svc.url, 'POST', `/api/v1/calculations/${calculations[0]}/revisions`, actors.author, { design: changed('after the terminations'), note: 'after the terminations' });
     if (recovered.status === 201) acks.push({ calculationId: calculations[0], revisionId: recovered.body.revisionId, revision: recovered.body.revision, hash: recovered.body.hash });
     const chain = await verifyChain(svc.url, actors.author, productId);
     const rows = await storedRevisionsPg(db.url);
@@ -475,7 +480,7 @@ async function restartDatabase(): Promise<Figures> {
     // recovery: the first acknowledged submission after the database is back, without restarting the service
     let recoverySeconds = -1;
     for (let i = 0; i < 100; i++) {
-      const r = await call(base, 'POST', `/api/v1/calculations/${calculations[0]}/revisions`, actors.author, { design: DESIGN, note: `recovery ${i}` });
+      const r = await call(base, 'POST', `/api/v1/calculations/${calculations[0]}/revisions`, actors.author, { design: changed(`recovery ${i}`), note: `recovery ${i}` });
       if (r.status === 201) {
         acks.push({ calculationId: calculations[0], revisionId: r.body.revisionId, revision: r.body.revision, hash: r.body.hash });
         recoverySeconds = (Date.now() - upAt) / 1000;

@@ -1,6 +1,6 @@
 /** HTTP fuzz of POST /api/v1/revisions/:id/comments (test/fuzz/fuzz-support.ts): 700 inputs in the default run. */
 import fc from 'fast-check';
-import { clearDesign } from '../support/designs';
+import { changedDesign, clearDesign } from '../support/designs';
 import { SEED } from '../support/property';
 import { fuzz, FUZZ_TIMEOUT_MS, mutate, mutations, startFuzzTarget, type FuzzTarget, type Json } from './fuzz-support';
 
@@ -10,7 +10,7 @@ beforeAll(async () => (target = await startFuzzTarget('FZ-C', { LEADLINE_COMMENT
 afterAll(() => target?.close());
 
 it(`comments: no 5xx, every rejection names a field, no row written [POST /api/v1/revisions/:id/comments] (seed ${SEED})`, async () => {
-  const opened = await target.t.call('POST', `/api/v1/calculations/${target.calculationId}/revisions`, { design: clearDesign, note: 'to be commented' });
+  const opened = await target.t.call('POST', `/api/v1/calculations/${target.calculationId}/revisions`, { design: changedDesign(clearDesign, 'to be commented'), note: 'to be commented' });
   expect(opened.status).toBe(201);
   target.forget();
   const bases: Json[] = [{ text: 'why bronze?' }, { text: 'check the pitch', target: { field: 'thread.size' } }, { text: 'on the speed', target: { field: 'design.duty.speed' } }];

@@ -1,6 +1,6 @@
 /** HTTP fuzz of POST /api/v1/revisions/:id/decisions (test/fuzz/fuzz-support.ts): 700 inputs in the default run. */
 import fc from 'fast-check';
-import { clearDesign } from '../support/designs';
+import { changedDesign, clearDesign } from '../support/designs';
 import { SEED } from '../support/property';
 import { fuzz, FUZZ_TIMEOUT_MS, mutate, mutations, startFuzzTarget, type FuzzTarget, type Json } from './fuzz-support';
 
@@ -9,9 +9,10 @@ beforeAll(async () => (target = await startFuzzTarget('FZ-D')));
 afterAll(() => target?.close());
 
 it(`decisions: no 5xx, every rejection names a field, no row written [POST /api/v1/revisions/:id/decisions] (seed ${SEED})`, async () => {
+  let freshCount = 0;
   const fresh = async () => {
     target.forget();
-    const res = await target.t.call('POST', `/api/v1/calculations/${target.calculationId}/revisions`, { design: clearDesign, note: 'awaiting a fuzzed decision' });
+    const res = await target.t.call('POST', `/api/v1/calculations/${target.calculationId}/revisions`, { design: changedDesign(clearDesign, ++freshCount), note: 'awaiting a fuzzed decision' });
     expect(res.status).toBe(201);
     return res.body.revisionId as string;
   };

@@ -4,10 +4,10 @@
  * user is not affected, and the allowance comes back as the service's clock moves on (a TestClock, no waiting).
  */
 import { TestClock } from '../support/clock';
-import { clearDesign } from '../support/designs';
+import { changedDesign, clearDesign } from '../support/designs';
 import { BACKENDS, countRecords, startTestApp, type TestApp } from '../support/harness';
 import { createApp } from '../../apps/api/src/app.factory';
-import { TokenBuckets } from '../../apps/api/src/infra/http/user-limits';
+import { LeasedAllowances, TokenBuckets } from '../../apps/api/src/infra/http/user-limits';
 import { LEAD_SCREW } from '../support/sizing';
 
 const clock = new TestClock();
@@ -62,14 +62,14 @@ it('limits submissions per user and stores nothing for a refused one [POST /prod
   clock.advance(60_000);
   const product = await t.call('POST', '/api/v1/products', { code: 'UL-1', name: 'Limits' });
   const opened = await t.call('POST', `/api/v1/products/${product.body.id}/calculations`, { title: 'screw', design: clearDesign });
-  const revised = await t.call('POST', `/api/v1/calculations/${opened.body.calculationId}/revisions`, { design: clearDesign });
+  const revised = await t.call('POST', `/api/v1/calculations/${opened.body.calculationId}/revisions`, { design: changedDesign(clearDesign, 2) });
   expect([product.status, opened.status, revised.status]).toEqual([201, 201, 201]);
   const before = await countRecords(t.db);
-  expectLimited(await t.call('POST', `/api/v1/calculations/${opened.body.calculationId}/revisions`, { design: clearDesign }), 'LEADLINE_SUBMISSIONS_PER_USER_PER_MINUTE');
+  expectLimited(await t.call('POST', `/api/v1/calculations/${opened.body.calculationId}/revisions`, { design: changedDesign(clearDesign, 3) }), 'LEADLINE_SUBMISSIONS_PER_USER_PER_MINUTE');
   expectLimited(await t.call('POST', '/api/v1/products', { code: 'UL-2', name: 'Limits' }), 'LEADLINE_SUBMISSIONS_PER_USER_PER_MINUTE');
   expect(await countRecords(t.db)).toEqual(before);
   clock.advance(20_000); // 3 a minute: one more after 20 s
-  expect((await t.call('POST', `/api/v1/calculations/${opened.body.calculationId}/revisions`, { design: clearDesign })).status).toBe(201);
+  expect((await t.call('POST', `/api/v1/calculations/${opened.body.calculationId}/revisions`, { design: changedDesign(clearDesign, 3) })).status).toBe(201);
 });
 
 it('limits PDFs per user over both PDF routes [GET report.pdf, design-file.pdf]', async () => {
@@ -134,5 +134,30 @@ describe.each(BACKENDS)('TokenBuckets on %s', (backend) => {
     expect(await b.take('u', 0)).toBe(0);
     const later = 3_600_000;
     expect([await b.take('u', later), await b.take('u', later), await b.take('u', later)]).toEqual([0, 0, 30]);
+  });
+
+  it('two instances leasing from one bucket allow exactly its allowance together, in far fewer round trips than requests', async () => {
+    const bucket = new TokenBuckets(db.db, 'test:lease', 600);
+    let roundTrips = 0;
+    const counted = Object.assign(Object.create(bucket) as TokenBuckets, {
+      takeUpTo: (key: string, now: number, want: number) => { roundTrips++; return bucket.takeUpTo(key, now, want); },
+    });
+    const instances = [new LeasedAllowances(counted), new LeasedAllowances(counted)];
+    const now = Date.parse('2026-12-05T11:00:00Z');
+    let allowed = 0;
+    let refusedOnce = false;
+    for (let i = 0; i < 700 && !refusedOnce; i++) {
+      const lease = instances[i % 2];
+      if (lease.spendLocal('u') || (await lease.refill('u', now)) === 0) allowed++;
+      else refusedOnce = true;
+    }
+    // Leases of up to 600 / 20 = 30 tokens: the allowed requests cost a few dozen round trips, not 600 (a refused
+    // request asks the shared bucket each time, since it may have refilled)
+    expect(roundTrips).toBeLessThan(60);
+    // Both instances then drain what their leases still hold, and not one more is allowed at this instant
+    for (let i = 0; i < 100; i++) if (instances[i % 2].spendLocal('u')) allowed++;
+    expect(allowed).toBe(600); // the minute's allowance, spread over both instances, and not one more
+    expect(await instances[0].refill('u', now)).toBe(1); // 600 a minute: the next in 0.1 s, said as the whole second
+    expect(await instances[1].refill('u', now + 100)).toBe(0); // and 0.1 s later there is one
   });
 });

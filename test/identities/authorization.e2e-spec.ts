@@ -8,7 +8,7 @@ import { Writable } from 'node:stream';
 import { DEFAULT_RULE_SET } from '@leadline/rules';
 import { ROUTES } from '../../apps/api/src/infra/openapi';
 import { QueueService } from '../../apps/api/src/queue/queue.service';
-import { clearDesign, warningDesign } from '../support/designs';
+import { changedDesign, clearDesign, warningDesign } from '../support/designs';
 import { TEXTBOOK_JACK as SIZING_REQUIREMENTS } from '../support/sizing';
 import { startTestApp, type TestApp, type Who } from '../support/harness';
 
@@ -33,6 +33,8 @@ beforeAll(async () => {
   // separate records for the calls that change review state, so every allowed call is valid on its merits
   const open = async (title: string) => (await t.call('POST', `/api/v1/products/${ids.product}/calculations`, { title, design: warningDesign })).body;
   ids.reviseCalculation = (await open('authz revise')).calculationId;
+  ids.draftCalculation = (await open('authz draft')).calculationId;
+  expect((await t.call('PUT', `/api/v1/calculations/${ids.draftCalculation}/draft`, { design: warningDesign })).status).toBe(200);
   ids.decideRevision = (await open('authz decide')).revisionId;
   ids.withdrawRevision = (await open('authz withdraw')).revisionId;
   ids.reassignCalculation = (await open('authz reassign')).calculationId;
@@ -69,7 +71,9 @@ const TABLE: Row[] = [
   { method: 'GET', path: '/api/v1/products/{id}/audit', url: () => `/api/v1/products/${ids.product}/audit`, allowed: ALL },
   { method: 'POST', path: '/api/v1/products/{id}/calculations', url: () => `/api/v1/products/${ids.product}/calculations`, body: () => ({ title: 'x', design: clearDesign }), allowed: ['author'] },
   { method: 'GET', path: '/api/v1/calculations/{id}', url: () => `/api/v1/calculations/${ids.calculation}`, allowed: ALL },
-  { method: 'POST', path: '/api/v1/calculations/{id}/revisions', url: () => `/api/v1/calculations/${ids.reviseCalculation}/revisions`, body: () => ({ design: warningDesign }), allowed: ['author'] },
+  { method: 'POST', path: '/api/v1/calculations/{id}/revisions', url: () => `/api/v1/calculations/${ids.reviseCalculation}/revisions`, body: () => ({ design: changedDesign(warningDesign, unique()) }), allowed: ['author'] },
+  { method: 'PUT', path: '/api/v1/calculations/{id}/draft', url: () => `/api/v1/calculations/${ids.reviseCalculation}/draft`, body: () => ({ design: warningDesign }), allowed: ['author'] },
+  { method: 'GET', path: '/api/v1/calculations/{id}/draft', url: () => `/api/v1/calculations/${ids.draftCalculation}/draft`, allowed: ['author'] },
   { method: 'GET', path: '/api/v1/calculations/{id}/revisions', url: () => `/api/v1/calculations/${ids.calculation}/revisions`, allowed: ALL },
   { method: 'GET', path: '/api/v1/revisions/{id}', url: () => `/api/v1/revisions/${ids.revision}`, allowed: ALL },
   { method: 'GET', path: '/api/v1/revisions/{id}/diff', url: () => `/api/v1/revisions/${ids.revision}/diff?against=${ids.revision}`, allowed: ALL },

@@ -9,7 +9,7 @@
 import Ajv, { type ValidateFunction } from 'ajv';
 import addFormats from 'ajv-formats';
 import { DEFAULT_RULE_SET } from '@leadline/rules';
-import { clearDesign, warningDesign } from '../support/designs';
+import { changedDesign, clearDesign, warningDesign } from '../support/designs';
 import { TEXTBOOK_JACK } from '../support/sizing';
 import { startTestApp, type TestApp } from '../support/harness';
 import { QueueService } from '../../apps/api/src/queue/queue.service';
@@ -78,8 +78,19 @@ const CALLS: Record<string, Calls> = {
     bad: (c) => c.t.call('GET', `/api/v1/calculations/${MISSING}`),
   },
   'POST /api/v1/calculations/{id}/revisions': {
-    ok: (c) => c.t.call('POST', `/api/v1/calculations/${c.calculationId}/revisions`, { design: clearDesign, note: 'conformance' }),
+    ok: (c) => c.t.call('POST', `/api/v1/calculations/${c.calculationId}/revisions`, { design: changedDesign(clearDesign, 'conformance'), note: 'conformance' }),
     bad: (c) => c.t.call('POST', `/api/v1/calculations/${c.calculationId}/revisions`, { design: clearDesign, extra: true }),
+  },
+  'PUT /api/v1/calculations/{id}/draft': {
+    ok: (c) => c.t.call('PUT', `/api/v1/calculations/${c.calculationId}/draft`, { design: clearDesign, note: 'not yet submitted' }),
+    bad: (c) => c.t.call('PUT', `/api/v1/calculations/${c.calculationId}/draft`, { design: { ...clearDesign, load: { axial: '18 MPa', sense: 'compression' } } }),
+  },
+  'GET /api/v1/calculations/{id}/draft': {
+    ok: async (c) => {
+      await c.t.call('PUT', `/api/v1/calculations/${c.calculationId}/draft`, { design: warningDesign });
+      return c.t.call('GET', `/api/v1/calculations/${c.calculationId}/draft`);
+    },
+    bad: async (c) => c.t.call('GET', `/api/v1/calculations/${await c.freshCalculation()}/draft`),
   },
   'GET /api/v1/calculations/{id}/revisions': {
     ok: (c) => c.t.call('GET', `/api/v1/calculations/${c.calculationId}/revisions`),

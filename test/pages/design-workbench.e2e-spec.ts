@@ -32,7 +32,7 @@ async function newTab(): Promise<Page> {
   const page = await browser.newPage();
   page.on('request', (r) => visitedUrls.push(r.url()));
   page.on('console', (m) => {
-    if (m.type() === 'error' || /Content Security Policy/i.test(m.text())) consoleProblems.push(m.text());
+    if (m.type() === 'error' || /Content Security Policy/i.test(m.text())) consoleProblems.push(`${m.text()} ${m.location()?.url ?? ''}`.trim());
   });
   page.on('pageerror', (e) => consoleProblems.push(String(e)));
   return page;
@@ -43,6 +43,14 @@ async function enterOn(page: Page, selector: string, navigates = true): Promise<
   await tabTo(page, selector);
   if (navigates) await Promise.all([page.waitForNavigation(), page.keyboard.press('Enter')]);
   else await page.keyboard.press('Enter');
+}
+
+/** Submits the next revision from the design form: the confirmation step, its note, then Submit (by keyboard). */
+async function submitRevision(page: Page, note: string): Promise<void> {
+  await enterOn(page, '#save-submit', false);
+  await page.waitForSelector('#confirm:not([hidden])');
+  await typeInto(page, '#f-note', note);
+  await enterOn(page, '#confirm-submit', false);
 }
 
 /** Signs in on the sign-in page by keyboard, as the given page user (test/support/keyboard.ts). */
@@ -83,11 +91,11 @@ async function decide(page: Page, revisionId: string, decision: 'approve' | 'rej
   await page.goto(`${t.baseUrl}/review/revisions/${revisionId}`);
   await page.waitForSelector('#decision:not([hidden]), #revision-problem .problem');
   expect(await text(page, '#revision-problem')).toBe('');
-  if (decision === 'reject') {
-    await tabTo(page, 'input[name="decision"][value="approve"]');
-    await page.keyboard.press('ArrowDown'); // radio group: to "Reject"
-    expect(await page.$eval('input[value="reject"]', (r) => (r as HTMLInputElement).checked)).toBe(true);
-  }
+  // no decision is preset: the reviewer chooses one
+  expect(await page.$$eval('input[name="decision"]:checked', (r) => r.length)).toBe(0);
+  await tabTo(page, 'input[name="decision"][value="approve"]');
+  await page.keyboard.press(decision === 'reject' ? 'ArrowDown' : 'Space'); // radio group: down to "Reject", or check "Approve"
+  expect(await page.$eval(`input[value="${decision}"]`, (r) => (r as HTMLInputElement).checked)).toBe(true);
   await typeInto(page, '#decision-comment', comment);
   // the decision is signed with the reviewer's own password, given again now
   await typeInto(page, '#signature-password', t.accounts.reviewer.password);
@@ -328,9 +336,8 @@ it('takes a design from a new product to an approved second revision and its des
   await chooseOption(author, '#f-collar-source-kind', 'test');
   await typeInto(author, '#f-collar-ref', 'Friction test report FT-112, thrust washer on bronze');
   await typeInto(author, '#f-nut-length', '70 mm');
-  await typeInto(author, '#f-note', 'Collar friction from our test FT-112; longer nut.');
   await waitForEvaluationAfter(author, 0);
-  await enterOn(author, '#save-submit', false);
+  await submitRevision(author, 'Collar friction from our test FT-112; longer nut.');
   await author.waitForSelector('#saved:not([hidden])');
   expect(await text(author, '#saved')).toContain('Stored as revision 2.');
   const rev2 = (await t.call('GET', `/api/v1/calculations/${calcId}/revisions`)).body.items[1];
@@ -517,10 +524,9 @@ it('keeps every imported field it has no control for: export and the saved revis
     await checkPage(page, 'design-form-kept');
 
     // saving sends them unchanged: the stored revision's input is the imported design
-    await typeInto(page, '#f-note', 'Imported with gearbox, tolerance class and whirl span.');
-    await enterOn(page, '#save-submit', false);
-    await page.waitForSelector('#saved:not([hidden]), #save-problem .problem');
-    expect(await text(page, '#save-problem')).toBe('');
+    await submitRevision(page, 'Imported with gearbox, tolerance class and whirl span.');
+    await page.waitForSelector('#saved:not([hidden]), #save-problem .problem, #confirm-problem .problem');
+    expect(await text(page, '#save-problem') + await text(page, '#confirm-problem')).toBe('');
     const revisionId = await page.$eval('#saved', (e) => (e as HTMLElement).dataset.revision!);
     expect((await t.call('GET', `/api/v1/revisions/${revisionId}`)).body.input).toEqual(rich);
 
@@ -593,10 +599,9 @@ it('takes a tolerance class and a gearbox by keyboard, in the order of the sheet
   await checkPage(page, 'design-form-gearbox');
 
   n = await evaluationNumber(page);
-  await typeInto(page, '#f-note', 'Gearbox 5:1 and tolerance class 7H/7e.');
-  await enterOn(page, '#save-submit', false);
-  await page.waitForSelector('#saved:not([hidden]), #save-problem .problem');
-  expect(await text(page, '#save-problem')).toBe('');
+  await submitRevision(page, 'Gearbox 5:1 and tolerance class 7H/7e.');
+  await page.waitForSelector('#saved:not([hidden]), #save-problem .problem, #confirm-problem .problem');
+  expect(await text(page, '#save-problem') + await text(page, '#confirm-problem')).toBe('');
   const revisionId = await page.$eval('#saved', (e) => (e as HTMLElement).dataset.revision!);
   const stored = (await t.call('GET', `/api/v1/revisions/${revisionId}`)).body.input;
   expect(stored.thread.toleranceClass).toBe('7H/7e');
@@ -662,5 +667,6 @@ it('never puts a token or a password in a URL, and the pages raise no script or 
   expect(visitedUrls.filter((u) => secrets.some((s) => u.includes(s) || u.includes(encodeURIComponent(s))))).toEqual([]);
   expect(visitedUrls.filter((u) => !u.startsWith(t.baseUrl + '/') && !/^(about:|blob:|data:)/.test(u))).toEqual([]);
   // refused requests (422 while a field is wrong) are logged by Chromium as failed loads; nothing else may be
-  expect(consoleProblems.filter((m) => !/status of (401|403|422)/.test(m))).toEqual([]);
+  // and the form's look-up of a draft that does not exist yet (404 from GET /api/v1/calculations/:id/draft)
+  expect(consoleProblems.filter((m) => !/status of (401|403|422)/.test(m) && !/status of 404 .*\/api\/v1\/calculations\/[0-9a-f-]+\/draft$/.test(m))).toEqual([]);
 });

@@ -207,28 +207,38 @@ it('lets a checking engineer sign in, find the revision in the queue, read its r
   await screenshot(page, 'review/pages-revision', { fullPage: true });
   expect(await seriousViolations(page)).toEqual([]);
 
-  // approving without a signature is refused, naming it
+  // no decision is preset; approving without acknowledging the warning is refused at the field, in words, with the focus there
+  expect(await page.$$eval('input[name="decision"]:checked', (r) => r.length)).toBe(0);
+  await page.click('input[name="decision"][value="approve"]');
   await page.type('#decision-comment', 'Checked at both ends of the friction range.');
   await page.click('#decision-submit');
   await page.waitForSelector('#decision-problem .problem');
-  expect(await text(page, '#decision-problem')).toMatch(/Signature not accepted[\s\S]*HTTP 403[\s\S]*signature a decision is an electronic signature/);
-  expect(await page.$eval('#signature-password', (e) => e.getAttribute('aria-invalid'))).toBe('true');
-  // approving without acknowledging the warning is refused, with the field path shown
-  await page.type('#signature-password', t.accounts.reviewer.password);
-  await page.click('#decision-submit');
-  await page.waitForSelector('#decision-problem .problem');
-  const refusal = await text(page, '#decision-problem');
-  expect(refusal).toContain('The request has invalid fields');
-  expect(refusal).toContain('HTTP 422');
-  expect(refusal).toMatch(/acknowledgements\s+warning "friction-source-assumed" must be acknowledged with a comment/);
+  let refusal = await text(page, '#decision-problem');
+  expect(refusal).toMatch(/Not recorded: 1 field to complete\s+Acknowledge warning friction-source-assumed: give the reason for accepting this warning in at least 20 characters/);
+  expect(refusal).not.toMatch(/HTTP/);
   expect(await page.$eval('#ack-0', (e) => e.getAttribute('aria-invalid'))).toBe('true');
+  expect(await page.evaluate(() => document.activeElement?.id)).toBe('ack-0');
+  // "ok" is not a reason: refused the same way (and by the service: test/reviews/review-workflow.e2e-spec.ts)
+  await page.type('#ack-0', 'ok');
+  await page.click('#decision-submit');
+  await page.waitForFunction(() => document.getElementById('ack-0-error') !== null);
+  expect(await text(page, '#ack-0-error')).toMatch(/at least 20 characters/);
   expect((await t.call('GET', `/api/v1/revisions/${revisionId}`)).body.review.state).toBe('submitted');
   const decisionPanel = await page.$('#decision');
   await screenshot(decisionPanel!, 'review/pages-approve-refused');
   expect(await seriousViolations(page)).toEqual([]);
 
+  // acknowledged, but without a signature: the service refuses it, naming the signature in words
+  await page.type('#ack-0', ': friction test scheduled with the nut supplier; the range covers it.');
+  await page.click('#decision-submit');
+  await page.waitForSelector('#decision-problem .problem');
+  refusal = await text(page, '#decision-problem');
+  expect(refusal).toMatch(/Signature not accepted[\s\S]*Electronic signature: a decision is an electronic signature/);
+  expect(refusal).not.toMatch(/HTTP/);
+  expect(await page.$eval('#signature-password', (e) => e.getAttribute('aria-invalid'))).toBe('true');
+  expect(await page.evaluate(() => document.activeElement?.id)).toBe('signature-password');
+
   // acknowledged and signed with the reviewer's own password: approved, the signature shown
-  await page.type('#ack-0', 'Friction test scheduled with the nut supplier; the range covers it.');
   await page.type('#signature-password', t.accounts.reviewer.password);
   await page.click('#decision-submit');
   await page.waitForSelector('#decision-done:not([hidden])');
@@ -275,12 +285,12 @@ it('shows the four-eyes refusal when a checker tries to approve their own revisi
   await page.waitForSelector('#decision:not([hidden])');
   expect(await text(page, '#revision-header')).toMatch(/Author\s+Second checker \(test\)/);
   expect(await page.$$('#acknowledgements textarea')).toHaveLength(0); // a clear design has no warning
+  await page.click('input[name="decision"][value="approve"]');
   await page.type('#signature-password', t.accounts.checkerAuthor.password);
   await page.click('#decision-submit');
   await page.waitForSelector('#decision-problem .problem');
   const refusal = await text(page, '#decision-problem');
   expect(refusal).toContain('Four-eyes rule');
-  expect(refusal).toContain('HTTP 403');
   expect(refusal).toContain('a revision must be decided by a reviewer other than its author');
   expect((await t.call('GET', `/api/v1/revisions/${ownRevisionId}`)).body.review.state).toBe('submitted');
   await screenshot((await page.$('#decision'))!, 'review/pages-four-eyes');

@@ -5,7 +5,7 @@
  * holds the attacks on those).
  */
 import { Client } from 'pg';
-import { clearDesign, warningDesign } from '../support/designs';
+import { changedDesign, clearDesign, warningDesign } from '../support/designs';
 import { countRecords, startTestApp, type TestApp } from '../support/harness';
 
 let t: TestApp;
@@ -47,7 +47,7 @@ it('serves the whole workflow as the runtime role', async () => {
   expect(next.status).toBe(201);
   const approved = await t.call('POST', `/api/v1/revisions/${next.body.revisionId}/decisions`, { decision: 'approve' }, { as: 'reviewer' });
   expect(approved.status).toBe(201);
-  const third = await t.call('POST', `/api/v1/calculations/${opened.body.calculationId}/revisions`, { design: clearDesign, note: 'to withdraw' });
+  const third = await t.call('POST', `/api/v1/calculations/${opened.body.calculationId}/revisions`, { design: changedDesign(clearDesign, 'to withdraw'), note: 'to withdraw' });
   expect((await t.call('POST', `/api/v1/revisions/${third.body.revisionId}/withdraw`, {})).status).toBe(200);
   const moved = await t.call('POST', `/api/v1/calculations/${opened.body.calculationId}/reassignments`, { userId: t.users.author2 }, { as: 'admin' });
   expect(moved.status).toBe(201);
@@ -83,6 +83,13 @@ it('refuses UPDATE, DELETE, TRUNCATE, ALTER TABLE ... DISABLE TRIGGER and DROP t
     [`INSERT INTO reauthentication_uses (reauthentication_id) SELECT id FROM reauthentications LIMIT 1`, /permission denied/],
     [`SELECT secret_hash FROM sessions`, /permission denied/],
     [`SELECT seal_key FROM sessions`, /permission denied/],
+    // the Argon2id hashes are not the runtime role's to read (an offline guessing attack needs them)
+    [`SELECT hash FROM password_credentials`, /permission denied/],
+    [`SELECT * FROM password_credentials`, /permission denied/],
+    // passkeys: a key, a challenge or a challenge's use written by the runtime role would sign in or sign as anyone
+    [`INSERT INTO passkey_credentials (id, user_id, credential_id, public_key, rp_id, counter, label) SELECT gen_random_uuid(), id, 'x', 'y', 'localhost', 0, 'k' FROM users LIMIT 1`, /permission denied/],
+    [`INSERT INTO passkey_challenges (id, user_id, purpose, challenge, rp_id, expires_at) SELECT gen_random_uuid(), id, 'register', repeat('a', 43), 'localhost', now() + interval '1 hour' FROM users LIMIT 1`, /permission denied/],
+    [`INSERT INTO passkey_challenge_uses (challenge_id) SELECT id FROM passkey_challenges LIMIT 1`, /permission denied/],
   ];
   for (const [sql, error] of refused) {
     await expect(t.db.query(sql)).rejects.toThrow(error);
@@ -93,6 +100,8 @@ it('refuses UPDATE, DELETE, TRUNCATE, ALTER TABLE ... DISABLE TRIGGER and DROP t
   await expect(
     t.db.query(`SELECT leadline_start_session($1, gen_random_uuid(), $2, $3, 'k', 'password', now(), now() + interval '1 hour')`, ['a'.repeat(64), t.users.reviewer, 'b'.repeat(64)]),
   ).rejects.toThrow(/started by the service/);
+  // ... and a password hash is read only with it
+  await expect(t.db.query(`SELECT leadline_password_hash($1, $2)`, ['a'.repeat(64), t.users.reviewer])).rejects.toThrow(/read by the service only/);
   expect(await countRecords(t.db)).toEqual(before);
   expect((await t.call('GET', `/api/v1/products/${productId}/verify`)).body.valid).toBe(true);
 });

@@ -1,6 +1,7 @@
 /**
  * The record store through HTTP on real databases: PostgreSQL and embedded PGlite run the same suite.
  */
+import { changedDesign } from '../support/designs';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { DEFAULT_RULE_SET } from '@leadline/rules';
@@ -48,7 +49,7 @@ describe.each(BACKENDS)('records on %s', (backend) => {
   it('numbers revisions contiguously [POST /api/v1/calculations/:id/revisions]', async () => {
     const first = await open('numbering');
     for (let i = 0; i < 3; i++) {
-      const r = await t.call('POST', `/api/v1/calculations/${first.body.calculationId}/revisions`, { design, note: `change ${i}` });
+      const r = await t.call('POST', `/api/v1/calculations/${first.body.calculationId}/revisions`, { design: changedDesign(design, i), note: `change ${i}` });
       expect(r.status).toBe(201);
     }
     const list = await t.call('GET', `/api/v1/calculations/${first.body.calculationId}/revisions`);
@@ -58,7 +59,7 @@ describe.each(BACKENDS)('records on %s', (backend) => {
   it('hashes in the database exactly as verification does, whatever the note contains', async () => {
     const first = await open('awkward notes');
     const note = 'quote " backslash \\ tab \t newline \n control \u0001 \u001f DEL \u007f slash / \u2028 é 😀 日本';
-    const r = await t.call('POST', `/api/v1/calculations/${first.body.calculationId}/revisions`, { design, note });
+    const r = await t.call('POST', `/api/v1/calculations/${first.body.calculationId}/revisions`, { design: changedDesign(design, 'notes'), note });
     expect(r.status).toBe(201);
     expect((await t.call('GET', `/api/v1/revisions/${r.body.revisionId}`)).body.note).toBe(note);
     expect((await t.call('GET', `/api/v1/products/${productId}/verify`)).body).toMatchObject({ valid: true, firstBrokenLink: null });
@@ -67,7 +68,7 @@ describe.each(BACKENDS)('records on %s', (backend) => {
   it('lands 50 concurrent submissions with contiguous revision numbers', async () => {
     const first = await open('concurrency');
     const results = await Promise.all(
-      Array.from({ length: 50 }, (_, i) => t.call('POST', `/api/v1/calculations/${first.body.calculationId}/revisions`, { design, note: `burst ${i}` })),
+      Array.from({ length: 50 }, (_, i) => t.call('POST', `/api/v1/calculations/${first.body.calculationId}/revisions`, { design: changedDesign(design, i), note: `burst ${i}` })),
     );
     expect(results.map((r) => r.status)).toEqual(Array(50).fill(201));
     const numbers = results.map((r) => r.body.revision).sort((a, b) => a - b);

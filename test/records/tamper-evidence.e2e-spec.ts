@@ -15,7 +15,7 @@ import { loadConfig } from '../../apps/api/src/infra/config';
 import { linkHash, TS_TEXT } from '../../apps/api/src/records/chain';
 import { ServiceKeys } from '../../apps/api/src/records/service-keys';
 import { prepareSubmission, RecordStore } from '../../apps/api/src/records/record-store';
-import { clearDesign, warningDesign } from '../support/designs';
+import { changedDesign, clearDesign, warningDesign } from '../support/designs';
 import { BACKENDS, countRecords, startTestApp, type TestApp } from '../support/harness';
 
 const ACK = [{ finding: 'friction-source-assumed', comment: 'Range brackets the handbook values; test to confirm.' }];
@@ -168,7 +168,7 @@ describe.each(BACKENDS)('tamper evidence on %s', (backend) => {
     const [event] = await t.db.query<{ type: string; actor_id: string; data: { to: { id: string } } }>(`SELECT type, actor_id, data FROM events WHERE id = $1`, [moved.body.eventId]);
     expect(event).toMatchObject({ type: 'calculation-reassigned', actor_id: t.users.admin, data: { to: { id: t.users.author2 } } });
     expect((await t.call('POST', url, { design: clearDesign }, { as: 'author' })).status).toBe(403);
-    const taken = await t.call('POST', url, { design: clearDesign, note: 'continued' }, { as: 'author2' });
+    const taken = await t.call('POST', url, { design: changedDesign(clearDesign, 'continued'), note: 'continued' }, { as: 'author2' });
     expect(taken.status).toBe(201);
     expect(taken.body.revision).toBe(2);
     expect(await verify(p)).toMatchObject({ valid: true, firstBrokenLink: null });

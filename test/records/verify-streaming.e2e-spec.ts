@@ -2,7 +2,7 @@
  * Verification streams the chain: bounded batches, each its own statement, the event loop
  * and (on the embedded database) the one connection free between batches, consistent up to the head seen at start.
  */
-import { clearDesign } from '../support/designs';
+import { changedDesign, clearDesign } from '../support/designs';
 import { BACKENDS, startTestApp, type TestApp } from '../support/harness';
 import { RecordStore } from '../../apps/api/src/records/record-store';
 
@@ -17,7 +17,7 @@ describe.each(BACKENDS)('streamed verification on %s', (backend) => {
     productId = (await t.call('POST', '/api/v1/products', { code: `STREAM-${backend}`, name: 'Streamfield (test product)' })).body.id;
     calculationId = (await t.call('POST', `/api/v1/products/${productId}/calculations`, { title: 'many revisions', design: clearDesign })).body.calculationId;
     for (let i = 0; i < 40; i++) {
-      const r = await t.call('POST', `/api/v1/calculations/${calculationId}/revisions`, { design: clearDesign, note: `r${i}` });
+      const r = await t.call('POST', `/api/v1/calculations/${calculationId}/revisions`, { design: changedDesign(clearDesign, i), note: `r${i}` });
       expect(r.status).toBe(201);
     }
   });
@@ -61,7 +61,7 @@ describe.each(BACKENDS)('streamed verification on %s', (backend) => {
     });
     await headRead;
     t.db.query = original;
-    const submitted = await t.call('POST', `/api/v1/calculations/${calculationId}/revisions`, { design: clearDesign, note: 'during verify' });
+    const submitted = await t.call('POST', `/api/v1/calculations/${calculationId}/revisions`, { design: changedDesign(clearDesign, 'during verify'), note: 'during verify' });
     order.push('submission');
     expect(submitted.status).toBe(201);
     const health = await t.call('GET', '/health');

@@ -11,7 +11,7 @@ import { request as httpRequest } from 'node:http';
 import { PdfRenderer } from '../../apps/api/src/infra/pdf/browser-pool';
 import { ReportInputService } from '../../apps/api/src/reports/report-input.service';
 import { ReportRenderer } from '../../apps/api/src/reports/report-renderer';
-import { warningDesign } from '../support/designs';
+import { changedDesign, warningDesign } from '../support/designs';
 import { countRecords, startTestApp, type TestApp } from '../support/harness';
 import { pdfText } from '../support/pdf-text';
 import { appendComments } from '../support/seed-records';
@@ -134,7 +134,7 @@ describe('a revision with 1,000 comments, and the PDF queue', () => {
     const long = await openRevision(t, 'CM-2');
     const revisionIds = [long.revision];
     for (let i = 2; i <= 60; i++) {
-      const res = await t.call('POST', `/api/v1/calculations/${long.calculation}/revisions`, { design: warningDesign, note: `revision ${i}` });
+      const res = await t.call('POST', `/api/v1/calculations/${long.calculation}/revisions`, { design: changedDesign(warningDesign, i), note: `revision ${i}` });
       expect(res.status).toBe(201);
       revisionIds.push(res.body.revisionId);
     }

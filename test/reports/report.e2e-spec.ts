@@ -18,7 +18,9 @@ let productId: string;
 let record: any;
 
 beforeAll(async () => {
-  t = await startTestApp('postgres', { LEADLINE_CHROMIUM_PATH: '/usr/bin/chromium' });
+  // The queue's wait is raised: ten PDFs wait behind each other on a loaded 2-core machine for longer than the
+  // default 20 s, and this suite is about sharing one browser, not the time-out (test/hardening/pdf-queue.e2e-spec.ts)
+  t = await startTestApp('postgres', { LEADLINE_CHROMIUM_PATH: '/usr/bin/chromium', LEADLINE_PDF_QUEUE_WAIT_MS: '300000' });
   const product = (await t.call('POST', '/api/v1/products', { code: 'KL-8', name: 'Kestrel KL-8 vehicle lift (test product)' })).body.id;
   productId = product;
   const opened = await t.call('POST', `/api/v1/products/${product}/calculations`, { title: 'Column screw', design: warningDesign });

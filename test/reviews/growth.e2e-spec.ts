@@ -7,7 +7,7 @@ import { DEFAULT_RULE_SET } from '@leadline/rules';
 import { EmbeddedStatistics } from '../../apps/api/src/infra/database/statistics';
 import { prepareSubmission } from '../../apps/api/src/records/record-store';
 import { auditPageSql } from '../../apps/api/src/reviews/audit.service';
-import { clearDesign, warningDesign } from '../support/designs';
+import { changedDesign, clearDesign, warningDesign } from '../support/designs';
 import { BACKENDS, startTestApp, type TestApp } from '../support/harness';
 import { appendRevisions } from '../support/seed-records';
 
@@ -141,11 +141,11 @@ describe.each(BACKENDS)('growth-safe reads on %s', (backend) => {
     // a: 15 revisions, the last awaiting; b: one revision, approved; c: two revisions, the last withdrawn; d: one awaiting, by another author
     const a = await t.call('POST', `/api/v1/products/${product}/calculations`, { title: 'a', design: clearDesign });
     let aLatest = a.body.revisionId;
-    for (let i = 2; i <= 15; i++) aLatest = (await t.call('POST', `/api/v1/calculations/${a.body.calculationId}/revisions`, { design: clearDesign, note: `a ${i}` })).body.revisionId;
+    for (let i = 2; i <= 15; i++) aLatest = (await t.call('POST', `/api/v1/calculations/${a.body.calculationId}/revisions`, { design: changedDesign(clearDesign, i), note: `a ${i}` })).body.revisionId;
     const b = await t.call('POST', `/api/v1/products/${product}/calculations`, { title: 'b', design: clearDesign });
     expect((await t.call('POST', `/api/v1/revisions/${b.body.revisionId}/decisions`, { decision: 'approve' }, { as: 'reviewer' })).status).toBe(201);
     const c = await t.call('POST', `/api/v1/products/${product}/calculations`, { title: 'c', design: clearDesign });
-    const c2 = await t.call('POST', `/api/v1/calculations/${c.body.calculationId}/revisions`, { design: clearDesign });
+    const c2 = await t.call('POST', `/api/v1/calculations/${c.body.calculationId}/revisions`, { design: changedDesign(clearDesign, 2) });
     expect((await t.call('POST', `/api/v1/revisions/${c2.body.revisionId}/withdraw`, {})).status).toBe(200);
     const d = await t.call('POST', `/api/v1/products/${product}/calculations`, { title: 'd', design: warningDesign }, { as: 'author2' });
 

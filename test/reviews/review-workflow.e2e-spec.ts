@@ -2,7 +2,7 @@
  * The review workflow through HTTP against real PostgreSQL: submit, reject with field comments, resubmit,
  * approve with acknowledged warnings, audit trail and chain verification; four-eyes; blocking findings; races.
  */
-import { blockedDesign, warningDesign } from '../support/designs';
+import { blockedDesign, changedDesign, warningDesign } from '../support/designs';
 import { startTestApp, type TestApp } from '../support/harness';
 
 let t: TestApp;
@@ -37,7 +37,7 @@ it('carries a calculation from submission through rejection and resubmission to 
   expect((await t.call('GET', `/api/v1/revisions/${rev1}`)).body.review.state).toBe('rejected');
 
   // Author submits revision 2 and comments; revision 1 stays rejected
-  const rev2res = await t.call('POST', `/api/v1/calculations/${opened.body.calculationId}/revisions`, { design: warningDesign, note: 'friction test booked; range kept' });
+  const rev2res = await t.call('POST', `/api/v1/calculations/${opened.body.calculationId}/revisions`, { design: changedDesign(warningDesign, 'friction test booked'), note: 'friction test booked; range kept' });
   expect(rev2res.body.revision).toBe(2);
   const rev2 = rev2res.body.revisionId;
   expect((await t.call('POST', `/api/v1/revisions/${rev2}/comments`, { text: 'Test report to follow.' })).status).toBe(201);
@@ -88,14 +88,15 @@ it('carries a calculation from submission through rejection and resubmission to 
   expect(verify.body).toMatchObject({ valid: true, links: 9 });
 
   const diff = await t.call('GET', `/api/v1/revisions/${rev2}/diff?against=${rev1}`, undefined, { as: 'reviewer' });
-  expect(diff.body.inputs).toEqual([]);
+  // revision 2 changed only the thread friction's reference (a submission equal to the previous one is refused)
+  expect(diff.body.inputs).toEqual([expect.objectContaining({ path: 'friction.thread.source.reference' })]);
   expect(diff.body.sameCalculation).toBe(true);
 });
 
 it('refuses self-approval [POST /api/v1/revisions/:id/decisions]', async () => {
   const opened = await t.call('POST', `/api/v1/products/${productId}/calculations`, { title: 'self check', design: warningDesign }, { as: 'reviewer2' });
   const res = await t.call('POST', `/api/v1/revisions/${opened.body.revisionId}/decisions`, {
-    decision: 'approve', comment: 'mine', acknowledgements: [{ finding: 'friction-source-assumed', comment: 'fine' }],
+    decision: 'approve', comment: 'mine', acknowledgements: [{ finding: 'friction-source-assumed', comment: 'Range brackets the handbook values.' }],
   }, { as: 'reviewer2' });
   expect(res.status).toBe(403);
   expect(res.body.title).toBe('Four-eyes rule');
@@ -119,7 +120,7 @@ it('leaves exactly one decision when 20 approve/reject calls race on one revisio
   const calls = Array.from({ length: 20 }, (_, i) =>
     t.call('POST', `/api/v1/revisions/${id}/decisions`, i % 2
       ? { decision: 'reject', comment: `reject ${i}` }
-      : { decision: 'approve', comment: `approve ${i}`, acknowledgements: [{ finding: 'friction-source-assumed', comment: 'ok' }] },
+      : { decision: 'approve', comment: `approve ${i}`, acknowledgements: [{ finding: 'friction-source-assumed', comment: 'Range brackets the handbook values.' }] },
     { as: i % 4 < 2 ? 'reviewer' : 'reviewer2' }),
   );
   const results = await Promise.all(calls);
@@ -148,7 +149,7 @@ it('lets only the author withdraw, and only before a decision [POST /api/v1/revi
 
 it('marks older revisions superseded and refuses decisions on them', async () => {
   const opened = await t.call('POST', `/api/v1/products/${productId}/calculations`, { title: 'supersede', design: warningDesign });
-  await t.call('POST', `/api/v1/calculations/${opened.body.calculationId}/revisions`, { design: warningDesign });
+  await t.call('POST', `/api/v1/calculations/${opened.body.calculationId}/revisions`, { design: changedDesign(warningDesign, 2) });
   const old = await t.call('GET', `/api/v1/revisions/${opened.body.revisionId}`);
   expect(old.body.review.state).toBe('superseded');
   const res = await t.call('POST', `/api/v1/revisions/${opened.body.revisionId}/decisions`, { decision: 'reject', comment: 'x' }, { as: 'reviewer' });

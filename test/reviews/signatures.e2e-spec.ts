@@ -131,3 +131,33 @@ it('refuses a signature method the site does not accept (LEADLINE_SIGNATURE_METH
     await only.close();
   }
 });
+
+it('reads roles as the identity events say: a reviewer role granted after creation decides and verifies; a calculation is handed only to a current, active author', async () => {
+  // an author who is later also made a checking engineer (role-granted after user-created)
+  const late = (await t.call('POST', '/api/v1/users', { name: 'Late checker (test)', email: 'late@signatures.example.com', roles: ['author'] }, { as: 'admin' })).body;
+  await t.call('POST', '/api/v1/account/activate', { activationCode: late.activationCode, password: 'the late checker has a long one' }, { as: 'anonymous' });
+  expect((await t.call('POST', `/api/v1/users/${late.id}/roles`, { roles: ['author', 'reviewer'] }, { as: 'admin' })).status).toBeLessThan(300);
+  const session = await t.signIn('late@signatures.example.com', 'the late checker has a long one');
+  const id = await submitted();
+  const decided = await t.call('POST', decisions(id), { decision: 'approve', signature: { method: 'password', password: 'the late checker has a long one' } }, { session });
+  expect(decided.status).toBe(201);
+  // verify judges the decision by the roles the signer held at the decision (not by the roles given at creation)
+  expect((await t.call('GET', `/api/v1/products/${productId}/verify`, undefined, { as: 'reviewer' })).body).toMatchObject({ valid: true });
+  // and a later revocation does not turn the past decision into a break
+  expect((await t.call('POST', `/api/v1/users/${late.id}/roles`, { roles: ['author'] }, { as: 'admin' })).status).toBeLessThan(300);
+  expect((await t.call('GET', `/api/v1/products/${productId}/verify`, undefined, { as: 'reviewer' })).body).toMatchObject({ valid: true });
+
+  // reassignment: to the user who holds the author role now, yes; to one whose author role was revoked, or who is
+  // deactivated, no (the service and leadline_append_event read the same current roles)
+  const calculation = (await t.call('GET', `/api/v1/revisions/${id}`, undefined, { as: 'author' })).body.calculationId;
+  const reassign = (userId: string) => t.call('POST', `/api/v1/calculations/${calculation}/reassignments`, { userId, reason: 'roles test' }, { as: 'admin' });
+  expect((await reassign(late.id)).status).toBe(201);
+  const former = (await t.call('POST', '/api/v1/users', { name: 'Former author (test)', roles: ['author'] }, { as: 'admin' })).body;
+  expect((await t.call('POST', `/api/v1/users/${former.id}/roles`, { roles: ['reviewer'] }, { as: 'admin' })).status).toBeLessThan(300);
+  const refused = await reassign(former.id);
+  expect(refused.status).toBe(422);
+  expect(refused.body.errors[0].path).toBe('userId');
+  const gone = (await t.call('POST', '/api/v1/users', { name: 'Departed author (test)', roles: ['author'] }, { as: 'admin' })).body;
+  expect((await t.call('POST', `/api/v1/users/${gone.id}/deactivate`, undefined, { as: 'admin' })).status).toBeLessThan(300);
+  expect((await reassign(gone.id)).status).toBe(422);
+});

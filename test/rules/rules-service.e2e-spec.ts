@@ -3,7 +3,7 @@
  * rule sets created never edited, and the impact report of another rule-set version.
  */
 import { DEFAULT_RULE_SET } from '@leadline/rules';
-import { blockedDesign, clearDesign, positioningDesign, warningDesign } from '../support/designs';
+import { blockedDesign, changedDesign, clearDesign, positioningDesign, warningDesign } from '../support/designs';
 import { startTestApp, type TestApp } from '../support/harness';
 
 let t: TestApp;
@@ -95,7 +95,8 @@ it('judges new submissions by an adopted rule set, while earlier revisions keep 
   const adopted = await t.call('POST', '/api/v1/rule-sets/2027.03-1/adopt', { note: 'test adoption' }, { as: 'admin' });
   expect(adopted.status).toBe(200);
   expect(adopted.body.current).toBe('2027.03-1');
-  const after = (await t.call('POST', `/api/v1/calculations/${before.calculationId}/revisions`, { design: clearDesign })).body;
+  // the same figures with the friction reference restated: a new revision must change the design
+  const after = (await t.call('POST', `/api/v1/calculations/${before.calculationId}/revisions`, { design: changedDesign(clearDesign, 're-judged') })).body;
   expect(after.verdict).toBe('blocked'); // the synthetic strict buckling minimum of 2027.03-1
   expect((await t.call('GET', `/api/v1/revisions/${after.revisionId}`)).body.ruleSetVersion).toBe('2027.03-1');
   expect((await t.call('GET', `/api/v1/revisions/${before.revisionId}`)).body.ruleSetVersion).toBe(DEFAULT_RULE_SET.version);

@@ -235,6 +235,36 @@ describe('POST /api/v1/sizing', () => {
     expect(await countRecords(t.db)).toEqual(before);
   });
 
+  it('search.verdicts ["clear"] lists only the clear candidates, in the order of the unfiltered list; an unknown verdict is 422 naming the field', async () => {
+    const all = await size({ requirements: TEXTBOOK_JACK, search: { limit: 500, majorDiameter: { max: '120 mm' } } });
+    // The textbook jack has both kinds among its passing screws, so the filter has something to remove
+    expect(all.candidates.some((c: any) => c.verdict === 'needs-acknowledgement')).toBe(true);
+    expect(all.candidates.some((c: any) => c.verdict === 'clear')).toBe(true);
+    const clear = await size({ requirements: TEXTBOOK_JACK, search: { limit: 500, majorDiameter: { max: '120 mm' }, verdicts: ['clear'] } });
+    expect(clear.candidates.length).toBeGreaterThan(0);
+    expect(clear.candidates.every((c: any) => c.verdict === 'clear')).toBe(true);
+    const key = (c: any) => `${c.size}/${c.starts}`;
+    const clearInAll = all.candidates.filter((c: any) => c.verdict === 'clear').map(key);
+    // Every clear screw of the unfiltered list is listed, in the same order; a screw listed there as needing
+    // acknowledgement at its best nut has no clear nut length, so nothing else can appear
+    expect(clear.candidates.map(key)).toEqual(clearInAll);
+    expect(clear.candidates.map((c: any) => c.rank)).toEqual(clear.candidates.map((_: unknown, i: number) => i + 1));
+    // The counts still cover every candidate searched
+    expect(clear.passed).toBe(all.passed);
+    for (const c of clear.candidates.slice(0, 3)) expect((await evaluation(c.design)).verdict).toBe('clear');
+
+    const before = await countRecords(t.db);
+    for (const verdicts of [['approved'], ['blocked'], [], 'clear']) {
+      const r = await t.call('POST', '/api/v1/sizing', { requirements: TEXTBOOK_JACK, search: { verdicts } });
+      expect(r.status).toBe(422);
+      expect(r.headers['content-type']).toContain('application/problem+json');
+      expect(r.body.errors.map((e: { path: string }) => e.path)[0]).toMatch(/^search\.verdicts/);
+    }
+    const named = await t.call('POST', '/api/v1/sizing', { requirements: TEXTBOOK_JACK, search: { verdicts: ['clear', 'approved'] } });
+    expect(named.body.errors).toEqual([{ path: 'search.verdicts.1', message: expect.stringContaining('needs-acknowledgement') }]);
+    expect(await countRecords(t.db)).toEqual(before);
+  });
+
   it("answers the README's request (test/fixtures/ok/sizing-jack.json) with five ranked screws that pass when submitted", async () => {
     const body = JSON.parse(readFileSync(join(__dirname, '../fixtures/ok/sizing-jack.json'), 'utf8'));
     const answer = await size(body);

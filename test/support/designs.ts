@@ -31,3 +31,15 @@ export const blockedDesign = {
 
 /** The blocked design on positioning duty: not self-locking is only information there. */
 export const positioningDesign = { ...blockedDesign, duty: { ...blockedDesign.duty, kind: 'positioning' } };
+
+/**
+ * The design with its thread friction's reference told apart by `label`: a changed design with the same figures and
+ * verdict, for tests that submit several revisions (a submission equal to the previous revision is refused with 409).
+ */
+export function changedDesign<T extends { friction: { thread: unknown } }>(design: T, label: string | number): T {
+  const thread = design.friction.thread as { source: { kind: string; reference: string } };
+  return {
+    ...design,
+    friction: { ...design.friction, thread: { ...thread, source: { ...thread.source, reference: `${thread.source.reference} (${label})` } } },
+  };
+}

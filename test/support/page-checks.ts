@@ -15,6 +15,20 @@ const HEIGHT: Record<number, number> = { 1280: 900, 768: 1000 };
 /** scrollWidth <= clientWidth: the page has no sideways scrolling. */
 export const fitsWidth = (page: Page) => page.evaluate(() => document.documentElement.scrollWidth <= document.documentElement.clientWidth);
 
+/** What sticks out past the window's right edge (for a failure's message): the outermost such elements. */
+export const overflowing = (page: Page) =>
+  page.evaluate(() => {
+    const width = document.documentElement.clientWidth;
+    const out: string[] = [];
+    for (const e of Array.from(document.querySelectorAll('body *'))) {
+      const r = e.getBoundingClientRect();
+      if (r.right > width + 0.5 && !(e.parentElement && e.parentElement.getBoundingClientRect().right > width + 0.5)) {
+        out.push(`${e.tagName.toLowerCase()}${e.id ? '#' + e.id : ''}${e.className && typeof e.className === 'string' ? '.' + e.className.split(' ').join('.') : ''} (right ${Math.round(r.right)})`);
+      }
+    }
+    return out.slice(0, 8);
+  });
+
 /**
  * Checks the page at each width and returns to the first. `name` labels failures and screenshots
  * (artifacts/<name>-<width>.png).
@@ -24,7 +38,8 @@ export async function checkPage(page: Page, name: string, widths: readonly numbe
   for (const [i, width] of widths.entries()) {
     if (i > 0 || start.width !== width) await page.setViewport({ width, height: HEIGHT[width] ?? 900 });
     if (i === 0 || FULL_RUN) expect({ name, width, violations: await seriousViolations(page) }).toEqual({ name, width, violations: [] });
-    expect({ name, width, fits: await fitsWidth(page) }).toEqual({ name, width, fits: true });
+    const fits = await fitsWidth(page);
+    expect({ name, width, fits, overflowing: fits ? [] : await overflowing(page) }).toEqual({ name, width, fits: true, overflowing: [] });
     await screenshot(page, `${name}-${width}`);
   }
   if (page.viewport()?.width !== start.width) await page.setViewport(start);

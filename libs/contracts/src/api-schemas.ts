@@ -174,11 +174,27 @@ export const revisionReviewSchema = z.object({
   signature: signatureSchema.nullable(),
 });
 
+/**
+ * The shortest acknowledgement of a warning accepted with an approval: a reason the next reader can act on
+ * ("Friction test booked with the supplier"), not a token word such as "ok" (common practice for sign-off notes).
+ */
+export const ACKNOWLEDGEMENT_MIN_LENGTH = 20;
+
+/** One thing said on a revision: a comment (general, or on an input field or a finding), a decision's comment, an acknowledgement, a withdrawal's comment. */
+export const remarkSchema = z.object({
+  kind: z.enum(['comment', 'decision', 'acknowledgement', 'withdrawal']),
+  by: actorSchema.nullable(),
+  at: z.string(),
+  text: z.string(),
+  target: z.union([z.object({ field: z.string() }), z.object({ finding: z.string() })]).nullable(),
+});
+
 /** A revision as the revision routes answer it: the record and its review state. */
 export const revisionWithReviewSchema = revisionRecordSchema.extend({ review: revisionReviewSchema });
 
 /** One revision (GET /revisions/:id): with its checks under the rule set it was judged by, derived on reading. */
 export const revisionWithChecksSchema = revisionWithReviewSchema.extend({
+  review: revisionReviewSchema.extend({ remarks: z.array(remarkSchema).describe('what was said on the revision, oldest first') }),
   checks: z.array(checkSchema).describe('the checks of the rule set the revision was judged by, from its stored evaluation'),
   governing: governingSchema,
 });

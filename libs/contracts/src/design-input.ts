@@ -34,15 +34,17 @@ function quantity(dimension: Dimension, description: string) {
 
 const length = (d: string) => quantity('length', d);
 const coefficient = z.number().min(0, 'friction coefficient must be within 0..1').max(1, 'friction coefficient must be within 0..1');
+const lowest = coefficient.describe('lowest friction coefficient of the range');
+const highest = coefficient.describe('highest friction coefficient of the range');
 
 export const frictionSourceSchema = z.strictObject({
-  kind: z.enum(['handbook', 'test', 'supplier', 'assumed']),
-  reference: z.string().min(1, 'name the handbook, test report or supplier document').max(500),
+  kind: z.enum(['handbook', 'test', 'supplier', 'assumed']).describe('kind of friction source: handbook, test, supplier or assumed'),
+  reference: z.string().min(1, 'name the handbook, test report or supplier document').max(500).describe('friction source reference: the handbook, test report or supplier document'),
 });
 
 /** A friction range typed in, or a reference to a friction-library entry. */
 export const frictionRangeSchema = z.union([
-  z.strictObject({ min: coefficient, max: coefficient, source: frictionSourceSchema }),
+  z.strictObject({ min: lowest, max: highest, source: frictionSourceSchema }),
   z.strictObject({ entry: z.string().min(1).max(100).describe('id of a friction-library entry (GET /api/v1/friction-sources)') }),
 ]);
 
@@ -551,4 +553,45 @@ function normalizeDesign(input: Parsed): DesignParseResult {
       unitSystem: us > si ? 'US' : 'SI',
     },
   };
+}
+
+/**
+ * A design input field's name in words, from the contract's own description of it (the text before its first
+ * comma, colon or bracket: "nut.length" -> "Nut length"), else its path in words ("friction › thread › min").
+ * Array indices are skipped ("nut.allowablePressureBySpeed.0.allowablePressure").
+ */
+export function designFieldLabel(path: string): string {
+  let node: z.ZodType | undefined = designInputSchema;
+  let description: string | undefined;
+  const parts = path.replace(/^design\./, '').split('.');
+  for (const part of parts) {
+    node = node && childOf(node, part);
+    if (!node) break;
+    description = node.description ?? unwrapped(node).description;
+  }
+  const words = node && description ? description.split(/[,:(]/)[0].trim() : '';
+  // a friction range reads the same on both surfaces: name the surface
+  const surface = parts[0] === 'friction' && parts[1] ? parts[1] + ' friction — ' : '';
+  const text = surface + words;
+  if (words) return text.charAt(0).toUpperCase() + text.slice(1);
+  return parts.filter((p) => !/^\d+$/.test(p)).join(' › ');
+}
+
+function unwrapped(node: z.ZodType): z.ZodType {
+  let n = node as z.ZodType & { unwrap?: () => z.ZodType };
+  while (n instanceof z.ZodOptional || n instanceof z.ZodNullable || n instanceof z.ZodDefault) n = (n as z.ZodOptional<z.ZodType>).unwrap();
+  return n;
+}
+
+function childOf(node: z.ZodType, key: string): z.ZodType | undefined {
+  const n = unwrapped(node);
+  if (n instanceof z.ZodArray) return /^\d+$/.test(key) ? (n.element as z.ZodType) : undefined;
+  if (n instanceof z.ZodObject) return (n.shape as Record<string, z.ZodType>)[key];
+  if (n instanceof z.ZodUnion || n instanceof z.ZodDiscriminatedUnion) {
+    for (const option of n.options as z.ZodType[]) {
+      const found = childOf(option, key);
+      if (found) return found;
+    }
+  }
+  return undefined;
 }

@@ -4,6 +4,7 @@
  * field a design accepts is accepted here with the same name and the same validation.
  * Field names are a contract: add fields, never rename.
  */
+import { VERDICTS } from '@leadline/presentation';
 import { z } from 'zod';
 import { checkSchema } from './checks';
 import { collarSchema, designInputSchema } from './design-input';
@@ -16,6 +17,9 @@ export type SizingForm = (typeof SIZING_FORMS)[number];
 
 export const SIZING_OBJECTIVES = ['smallest-diameter', 'lowest-torque', 'highest-efficiency', 'lightest'] as const;
 export type SizingObjective = (typeof SIZING_OBJECTIVES)[number];
+
+/** The verdicts a listed candidate can have, named as the presentation names verdicts (a blocked one never passes) */
+export const SIZING_VERDICTS = Object.keys(VERDICTS).filter((v) => v !== 'blocked') as [string, ...string[]];
 
 export const SIZING_DEFAULTS = {
   forms: ['trapezoidal', 'acme'] as SizingForm[],
@@ -77,6 +81,9 @@ export const sizingSearchSchema = z.strictObject({
   objective: z.enum(SIZING_OBJECTIVES).optional().describe('how candidates are ranked (default smallest-diameter)'),
   limit: z.number().int('limit must be a whole number').min(1, 'limit must be at least 1').max(500, 'limit must not exceed 500').optional()
     .describe('most candidates listed (default 20)'),
+  verdicts: z.array(z.enum(SIZING_VERDICTS, { error: `a verdict is one of ${SIZING_VERDICTS.join(', ')}` }))
+    .min(1, 'name at least one verdict').max(SIZING_VERDICTS.length).optional()
+    .describe('list only candidates with these verdicts, e.g. ["clear"] (default: every passing candidate)'),
 });
 
 export const sizingRequestSchema = z.strictObject({

@@ -12,6 +12,7 @@ import {
   type SizingForm,
   type SizingObjective,
   type SizingRequirements,
+  type Verdict,
 } from '@leadline/contracts';
 import { INCH, iso2903Row, MM, parseQuantity, QuantityError, THREAD_SIZES, TOLERANCE_CLASSES, type Design, type ThreadSize } from '@leadline/mechanics';
 import type { z } from 'zod';
@@ -27,6 +28,8 @@ export interface SizingPlan {
   readonly nutLengthRatios: readonly number[];
   readonly objective: SizingObjective;
   readonly limit: number;
+  /** Verdicts a listed candidate may have (search.verdicts); null lists every passing candidate */
+  readonly verdicts: readonly Verdict[] | null;
   /** Tolerance class by thread form (search.toleranceClass); a form without one uses the basic profile */
   readonly toleranceClass: Readonly<Partial<Record<SizingForm, string>>>;
 }
@@ -168,6 +171,7 @@ export function parseSizingRequest(raw: unknown): SizingParseResult {
       nutLengthRatios: unique(search.nutLength?.ratios ?? SIZING_DEFAULTS.nutLengthRatios).sort((a, b) => a - b),
       objective: search.objective ?? SIZING_DEFAULTS.objective,
       limit: search.limit ?? SIZING_DEFAULTS.limit,
+      verdicts: search.verdicts ? unique(search.verdicts as Verdict[]) : null,
       toleranceClass,
     },
   };

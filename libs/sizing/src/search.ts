@@ -210,6 +210,8 @@ export function* searchSteps(plan: SizingPlan, ruleSet: RuleSet): Generator<void
           continue;
         }
         passed++;
+        // search.verdicts: a nut length whose verdict is not asked for is counted as passing but never listed
+        if (plan.verdicts !== null && !plan.verdicts.includes(j.verdict)) continue;
         if (pick === null || VERDICT_ORDER[j.verdict] < VERDICT_ORDER[pick.verdict]) {
           pick = { design: j.design, evaluation: withoutTrace(j.evaluation), findings: j.findings, verdict: j.verdict, size, starts, ratio: ratios[k] };
         }

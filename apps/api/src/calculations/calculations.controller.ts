@@ -1,4 +1,4 @@
-import { Body, Controller, Get, Headers, HttpCode, Param, Post, Query, Res } from '@nestjs/common';
+import { Body, Controller, Get, Headers, HttpCode, Param, Post, Put, Query, Res } from '@nestjs/common';
 import { UserLimit } from '../infra/http/user-limits';
 import type { FastifyReply } from 'fastify';
 import type { Actor } from '@leadline/contracts';
@@ -6,13 +6,30 @@ import { Roles } from '../identities/auth.guard';
 import { CurrentActor } from '../infra/http/actor';
 import { ReviewsService } from '../reviews/reviews.service';
 import { CalculationsService } from './calculations.service';
+import { DraftsService } from './drafts.service';
 
 @Controller('api/v1')
 export class CalculationsController {
   constructor(
     private readonly calculations: CalculationsService,
     private readonly reviews: ReviewsService,
+    private readonly drafts: DraftsService,
   ) {}
+
+  /** Saves the owner's draft of the design (insert-only: a new row each time; the newest is the draft). Never reviewed. */
+  @Put('calculations/:id/draft')
+  @Roles('author')
+  @HttpCode(200)
+  saveDraft(@Param('id') calculationId: string, @Body() body: unknown, @CurrentActor() actor: Actor) {
+    return this.drafts.save(calculationId, body, actor);
+  }
+
+  /** The owner's newest draft of the design (404 when there is none). */
+  @Get('calculations/:id/draft')
+  @Roles('author')
+  draft(@Param('id') calculationId: string, @CurrentActor() actor: Actor) {
+    return this.drafts.get(calculationId, actor);
+  }
 
   /** Opens a calculation (one screw position) with revision 1. */
   @Post('products/:id/calculations')
@@ -79,11 +96,11 @@ export class CalculationsController {
     };
   }
 
-  /** One revision: input as submitted, evaluation, findings, versions and hashes. */
+  /** One revision: input as submitted, evaluation, findings, versions and hashes; its review state and what was said on it. */
   @Get('revisions/:id')
   async revision(@Param('id') id: string) {
-    const [record, review] = await Promise.all([this.calculations.revision(id), this.reviews.state(id)]);
+    const [record, review, remarks] = await Promise.all([this.calculations.revision(id), this.reviews.state(id), this.reviews.remarks(id)]);
     const { checks, governing } = await this.calculations.checksOf(record);
-    return { ...record, checks, governing, review: { state: review.state, decidedBy: review.decidedBy, decidedAt: review.decidedAt, signature: review.signature } };
+    return { ...record, checks, governing, review: { state: review.state, decidedBy: review.decidedBy, decidedAt: review.decidedAt, signature: review.signature, remarks } };
   }
 }

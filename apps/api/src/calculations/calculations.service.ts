@@ -13,6 +13,7 @@ import { Assessment, AssessmentService } from '../evaluations/assessment.service
 import { Database, type Queryer } from '../infra/database/database.service';
 import { notFound, ProblemError, validate, ValidationProblem } from '../infra/http/problem';
 import { checkUuid } from '../products/products.service';
+import { CURRENT_ROLES, USER_ACTIVE } from '../identities/identities.service';
 import { TS_TEXT } from '../records/chain';
 import { checkKey, findIdempotent, requestHash, storeIdempotent, type StoredResponse } from '../records/idempotency';
 import { prepareSubmission, RecordStore, type RevisionRow } from '../records/record-store';
@@ -137,13 +138,41 @@ export class CalculationsService {
     const assessment = this.assessor.assess(input.design, this.ruleSets.current(), 'design.');
     const prepared = prepareSubmission(submission(assessment, input.design, input.note ?? null));
     return this.idempotent(`revise:${calculationId}:${actor?.id ?? '-'}`, idempotencyKey, body, async (q) => {
-      // The append reads the calculation's product and locks its head (404 when there is no such calculation)
-      const revision = await this.records.appendRevision(q, null, calculationId, prepared, actor);
+      const [calc] = await q.query<{ product_id: string }>(`SELECT product_id FROM calculations WHERE id = $1`, [calculationId]);
+      if (!calc) throw notFound(`calculation ${calculationId}`);
+      // Under the head's lock, so two identical submissions racing each other cannot both pass
+      const cursor = await this.records.lockHead(q, calc.product_id);
+      if (!cursor) throw notFound(`product ${calc.product_id}`);
+      await this.refuseUnchanged(q, calculationId, prepared.json.normalized, actor);
+      const revision = await this.records.appendRevision(q, calc.product_id, calculationId, prepared, actor, cursor);
       return {
         status: 201,
         body: { calculationId, revisionId: revision.id, revision: revision.revision, verdict: assessment.verdict, hash: revision.hash },
       };
     });
+  }
+
+  /**
+   * A submission whose normalized design equals the previous revision's is refused (409 naming that revision): a
+   * revision records a change, and an accidental resubmission must not pass for one. Checked here, not in
+   * leadline_append_revision, because bulk test and benchmark state appends one stored design many times through
+   * the record function. The owner check comes first, so a stranger learns nothing of the design.
+   */
+  private async refuseUnchanged(q: Queryer, calculationId: string, normalized: string, actor: Actor | null): Promise<void> {
+    const owner = await this.owner(q, calculationId);
+    if (owner && actor && owner.id !== actor.id) return; // leadline_append_revision refuses it with 403
+    const [previous] = await q.query<{ id: string; revision: number; same: boolean }>(
+      `SELECT id, revision, normalized::jsonb = $2::jsonb AS same FROM revisions WHERE calculation_id = $1 ORDER BY revision DESC LIMIT 1`,
+      [calculationId, normalized],
+    );
+    if (previous?.same) {
+      const n = Number(previous.revision);
+      throw new ProblemError(409, 'Unchanged design', `the design equals revision ${n} (${previous.id}): change an input before submitting a new revision`, {
+        revision: n,
+        revisionId: previous.id,
+        errors: [{ path: 'design', message: `equals revision ${n} (${previous.id}): nothing changed` }],
+      });
+    }
   }
 
   /**
@@ -153,8 +182,13 @@ export class CalculationsService {
   async reassign(calculationId: string, body: unknown, actor: Actor) {
     const calc = await this.get(calculationId);
     const input = validate(reassignSchema, body);
-    const [user] = await this.db.query<{ id: string; name: string; roles: string[] }>(`SELECT id, name, roles FROM users WHERE id = $1`, [input.userId]);
+    // roles and deactivation as the identity events say (the record function checks the same)
+    const [user] = await this.db.query<{ id: string; name: string; roles: string[]; active: boolean }>(
+      `SELECT u.id, u.name, ${CURRENT_ROLES('u')} AS roles, ${USER_ACTIVE('u')} AS active FROM users u WHERE u.id = $1`,
+      [input.userId],
+    );
     if (!user) throw new ValidationProblem([{ path: 'userId', message: `no user ${input.userId}` }]);
+    if (!user.active) throw new ValidationProblem([{ path: 'userId', message: `${user.name} is deactivated` }]);
     if (!user.roles.includes('author')) throw new ValidationProblem([{ path: 'userId', message: `${user.name} does not have the author role` }]);
     return this.db.transaction(async (q) => {
       const cursor = (await this.records.lockHead(q, calc.productId))!;

@@ -33,7 +33,7 @@ export const signInSchema = z.strictObject({
   password: z.string().min(1).max(PASSWORD_MAX),
 });
 
-export type SessionMethod = 'password' | 'oidc';
+export type SessionMethod = 'password' | 'oidc' | 'passkey';
 
 /** What a sign-in hands to the controller: the cookie to set and who signed in. */
 export interface SignedIn {
@@ -105,9 +105,12 @@ export class AccountsService {
     return { userId: user.id, email: user.email, passwordSet: true };
   }
 
-  /** The user's current password hash (newest credential), or null. */
+  /**
+   * The user's current password hash (newest credential), or null: only through leadline_password_hash with the
+   * service credential (the runtime role cannot read the column).
+   */
   private async passwordHash(userId: string): Promise<string | null> {
-    const [row] = await this.db.query<{ hash: string }>(`SELECT hash FROM password_credentials WHERE user_id = $1 ORDER BY created_at DESC, id DESC LIMIT 1`, [userId]);
+    const [row] = await this.db.query<{ hash: string | null }>(`SELECT leadline_password_hash($1, $2) AS hash`, [await this.keys.serviceCredential(), userId]);
     return row?.hash ?? null;
   }
 

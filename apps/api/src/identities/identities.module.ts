@@ -6,13 +6,15 @@ import { AuthGuard } from './auth.guard';
 import { ReauthenticationsService } from './reauthentications.service';
 import { OidcController } from './oidc.controller';
 import { OidcService } from './oidc.service';
+import { PasskeysController } from './passkeys.controller';
+import { PasskeysService } from './passkeys.service';
 import { IdentitiesController, IdentityEventsController } from './identities.controller';
 import { IdentitiesService } from './identities.service';
 
 @Global()
 @Module({
-  controllers: [IdentitiesController, IdentityEventsController, AccountsController, OidcController],
-  providers: [IdentitiesService, AccountsService, ReauthenticationsService, OidcService, AuthGuard, { provide: APP_GUARD, useExisting: AuthGuard }],
-  exports: [IdentitiesService, AccountsService, ReauthenticationsService, AuthGuard],
+  controllers: [IdentitiesController, IdentityEventsController, AccountsController, OidcController, PasskeysController],
+  providers: [IdentitiesService, AccountsService, ReauthenticationsService, OidcService, PasskeysService, AuthGuard, { provide: APP_GUARD, useExisting: AuthGuard }],
+  exports: [IdentitiesService, AccountsService, ReauthenticationsService, PasskeysService, AuthGuard],
 })
 export class IdentitiesModule {}

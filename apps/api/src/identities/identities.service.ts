@@ -27,7 +27,7 @@ export const ROLES = ['author', 'reviewer', 'admin'] as const;
 export type Role = (typeof ROLES)[number];
 
 /** How the caller proved who they are on this request. */
-export type AuthMethod = 'token' | 'password' | 'oidc';
+export type AuthMethod = 'token' | 'password' | 'oidc' | 'passkey';
 
 export interface Principal {
   id: string;

@@ -5,7 +5,7 @@ import { isIP } from 'node:net';
 import { z } from 'zod';
 
 /** How a decision may be signed (docs/reliability.md, electronic signatures). */
-export const SIGNATURE_METHODS = ['password', 'oidc'] as const;
+export const SIGNATURE_METHODS = ['password', 'oidc', 'passkey'] as const;
 export type SignatureMethod = (typeof SIGNATURE_METHODS)[number];
 
 const flag = z
@@ -118,10 +118,10 @@ export const configSchema = z.object({
   LEADLINE_SESSION_ABSOLUTE_HOURS: z.coerce.number().int().min(1).max(7 * 24).default(8),
   /** Hours an activation or password-reset code stays valid */
   LEADLINE_ACTIVATION_HOURS: z.coerce.number().int().min(1).max(30 * 24).default(72),
-  /** Signature methods a decision accepts (comma list of password, oidc) */
+  /** Signature methods a decision accepts (comma list of password, oidc, passkey) */
   LEADLINE_SIGNATURE_METHODS: z
     .string()
-    .default('password,oidc')
+    .default('password,oidc,passkey')
     .transform((v, ctx) => {
       const list = [...new Set(v.split(',').map((m) => m.trim()).filter(Boolean))];
       const bad = list.filter((m) => !(SIGNATURE_METHODS as readonly string[]).includes(m));

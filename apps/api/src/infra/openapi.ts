@@ -13,10 +13,11 @@ import { z, type ZodType } from 'zod';
 import { ruleSetDefinitionSchema } from '@leadline/rules';
 import { checkpointSchema } from '../checkpoints/checkpoints.service';
 import { addRevisionSchema, openCalculationSchema, reassignSchema, revisionsQuerySchema } from '../calculations/calculations.service';
+import { draftSchema, saveDraftSchema } from '../calculations/drafts.service';
 import { auditQuerySchema } from '../reviews/audit.service';
 import { createTokenSchema, createUserSchema, identityEventsQuerySchema, setRolesSchema } from '../identities/identities.service';
 import { activateSchema, signInSchema } from '../identities/accounts.service';
-import { createProductSchema } from '../products/products.service';
+import { createProductSchema, productListSchema } from '../products/products.service';
 import { commentSchema, decisionSchema, withdrawSchema } from '../reviews/reviews.service';
 import { impactSchema } from '../rules/impact.service';
 import { recheckResponseSchema, recheckSchema } from '../rules/recheck.service';
@@ -55,7 +56,14 @@ export const ROUTES: Route[] = [
   { method: 'post', path: '/api/v1/evaluations', summary: 'Evaluate a design (stateless, nothing stored)', tag: 'evaluations', request: designInputSchema, response: evaluationResponseSchema, status: 200 },
   { method: 'post', path: '/api/v1/sizing', summary: 'Search the standard sizes for screws that pass stated requirements, ranked, with the rules that stopped the rest (stateless)', tag: 'sizing', request: sizingRequestSchema, response: sizingResponseSchema, status: 200 },
   { method: 'post', path: '/api/v1/products', summary: 'Register a product', tag: 'products', request: createProductSchema, response: productSchema, status: 201 },
-  { method: 'get', path: '/api/v1/products', summary: 'List products (limit, offset; q: code or name contains)', tag: 'products', response: z.object({ items: z.array(productSchema), total: z.number(), limit: z.number(), offset: z.number() }) },
+  {
+    method: 'get', path: '/api/v1/products', summary: 'List and search products (limit, offset; q: code, name, calculation title, thread size or author contains; state: latest revision of a calculation in this review state)', tag: 'products',
+    query: productListSchema,
+    response: z.object({
+      items: z.array(productSchema.extend({ matchedBy: z.array(z.enum(['code', 'name', 'calculation', 'size', 'author'])).describe('what q matched (empty without q)') })),
+      total: z.number(), limit: z.number(), offset: z.number(),
+    }),
+  },
   { method: 'get', path: '/api/v1/products/{id}', summary: 'One product with its calculations', tag: 'products', response: productSchema.extend({ calculations: z.array(calculationSchema) }) },
   { method: 'post', path: '/api/v1/evaluations/charts', summary: "The report's torque-friction and column charts (SVG) of an unsaved design (?units=SI|US); nothing stored", tag: 'evaluations', request: designInputSchema, response: z.object({ unitSystem: z.enum(['SI', 'US']), torqueFriction: z.string(), column: z.string().nullable() }), status: 200 },
   {
@@ -73,7 +81,9 @@ export const ROUTES: Route[] = [
   { method: 'get', path: '/api/v1/products/{id}/verify', summary: "Recompute the product's hash chain", tag: 'records', response: chainVerificationSchema },
   { method: 'post', path: '/api/v1/products/{id}/calculations', summary: 'Open a calculation with revision 1', tag: 'calculations', request: openCalculationSchema.extend({ design: designInputSchema }), response: submissionResultSchema, status: 201, idempotent: true },
   { method: 'get', path: '/api/v1/calculations/{id}', summary: 'One calculation', tag: 'calculations', response: calculationSchema },
-  { method: 'post', path: '/api/v1/calculations/{id}/revisions', summary: 'Submit the next revision', tag: 'calculations', request: addRevisionSchema.extend({ design: designInputSchema }), response: submissionResultSchema, status: 201, idempotent: true },
+  { method: 'post', path: '/api/v1/calculations/{id}/revisions', summary: "Submit the next revision (409 naming the previous revision when the design equals its design)", tag: 'calculations', request: addRevisionSchema.extend({ design: designInputSchema }), response: submissionResultSchema, status: 201, idempotent: true },
+  { method: 'put', path: '/api/v1/calculations/{id}/draft', summary: "Save the owner's draft of the design (validated as a submission's; stored insert-only, the newest wins; never reviewed)", tag: 'calculations', request: saveDraftSchema.extend({ design: designInputSchema }), response: draftSchema, status: 200 },
+  { method: 'get', path: '/api/v1/calculations/{id}/draft', summary: "The owner's newest draft of the design, and whether it equals the latest revision's (404 when none)", tag: 'calculations', response: draftSchema },
   { method: 'post', path: '/api/v1/calculations/{id}/reassignments', summary: 'Hand a calculation to another author (admin; a chained event); only its owner may submit revisions (403 otherwise)', tag: 'calculations', request: reassignSchema, status: 201 },
   {
     method: 'get', path: '/api/v1/calculations/{id}/revisions', summary: "A calculation's revisions, oldest first, cursor-paged (after, limit; view=summary gives light items)", tag: 'calculations',

@@ -18,6 +18,12 @@ export class AccountPagesController {
     return sendPage(reply, this.pages.render('sign-in'));
   }
 
+  /** The signed-in user's own account: their passkeys. */
+  @Get('account')
+  account(@Res({ passthrough: true }) reply: FastifyReply) {
+    return sendPage(reply, this.pages.render('account'));
+  }
+
   /** Users, roles, deactivation, password resets and tokens (admin). */
   @Get('admin/users')
   users(@Res({ passthrough: true }) reply: FastifyReply) {

@@ -7,6 +7,7 @@ import { browserModuleSource } from '@leadline/presentation';
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { TOLERANCE_CLASSES } from '@leadline/mechanics';
+import { ACKNOWLEDGEMENT_MIN_LENGTH } from '@leadline/contracts';
 import { CAUTION_TEXT } from '../reports/report-model';
 import { Templates, type Template } from '../infra/templates';
 
@@ -36,6 +37,7 @@ export const PAGE_SPECS = {
   'design-form': { title: 'Screw design', script: 'design-form.js' },
   'sign-in': { title: 'Sign in', script: 'sign-in.js' },
   'admin-users': { title: 'Users', script: 'admin-users.js' },
+  account: { title: 'Your account', script: 'account.js' },
 } as const satisfies Record<string, PageSpec>;
 
 export type PageName = keyof typeof PAGE_SPECS;
@@ -117,6 +119,7 @@ export class PageRenderer {
       frictionSurfaces: [{ surface: 'thread' }, { surface: 'collar' }],
       toleranceOptions: TOLERANCE_OPTIONS,
       pressureSteps: [{ n: 1, i: 0 }, { n: 2, i: 1 }, { n: 3, i: 2 }],
+      acknowledgementMinLength: ACKNOWLEDGEMENT_MIN_LENGTH,
     });
   }
 

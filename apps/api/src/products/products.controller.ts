@@ -26,7 +26,7 @@ export class ProductsController {
   @Get()
   list(@Query() query: unknown) {
     const page = validate(productListSchema, query);
-    return this.products.list(page.limit, page.offset, page.q || undefined);
+    return this.products.list(page.limit, page.offset, page.q || undefined, page.state);
   }
 
   @Get(':id')

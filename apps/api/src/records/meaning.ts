@@ -2,12 +2,13 @@
  * What a chain must mean, checked link by link in chain order (verify streams the links through `MeaningState`):
  * a revision's stored verdict follows from its stored findings and names a stored, valid rule set; a decision obeys the
  * review rules as they stood at its link: the decided revision is earlier in the chain, is the latest revision of its
- * calculation and undecided, the decider holds the reviewer role, is no admin, is not the author and did not act with
+ * calculation and undecided, the decider is a user on record, active and holding the reviewer role at the decision's time (identity events), is no admin, is not the author and did not act with
  * a token the author issued, and an approval has no blocking finding and acknowledges every warning; a withdrawal is
  * the author's, of the latest undecided revision. The same rules the service and the database functions enforce when
  * the links are written (reviews/reviews.service.ts, migrations/20261204230000); pure, no I/O.
  */
 import type { Finding, Verdict } from '@leadline/contracts';
+import { passkeySignatureProblem, type RegisteredPasskey, type StoredAssertion } from './passkey-signature';
 
 /** The verdict a list of findings gives: blocked by any blocking finding, else needs-acknowledgement by any warning. */
 export function verdictOf(findings: readonly Pick<Finding, 'severity'>[]): Verdict {
@@ -17,9 +18,15 @@ export function verdictOf(findings: readonly Pick<Finding, 'severity'>[]): Verdi
 
 /** Facts from outside the chain that the rules read: users' roles, who issued a token, which rule sets are valid. */
 export interface MeaningRules {
-  rolesOf(userId: string): readonly string[] | null;
+  /**
+   * The deciding user of a decision event as the identity record stood at that event's time: their roles (the newest
+   * role events before it) and whether they were active; null when the event's actor is no user on record
+   */
+  signerAt(eventId: string): { roles: readonly string[]; active: boolean } | null;
   tokenIssuer(tokenId: string): string | null | undefined;
   ruleSetValid(version: string): boolean;
+  /** A registered passkey by credential id, with its registration time (TS_TEXT), or null */
+  passkeyOf(credentialId: string): (RegisteredPasskey & { createdAt: string }) | null;
 }
 
 interface RevisionFacts {
@@ -29,6 +36,7 @@ interface RevisionFacts {
   blocking: boolean;
   warnings: string[];
   closed: boolean;
+  hash: string | null;
 }
 
 export interface MeaningLink {
@@ -45,6 +53,10 @@ export interface MeaningLink {
   actorId: string | null;
   tokenId: string | null;
   data?: unknown;
+  /** the link's hash (a decision's signature names its revision's) */
+  hash?: string | null;
+  /** the link's time (TS_TEXT) */
+  createdAt?: string | null;
 }
 
 export class MeaningState {
@@ -78,6 +90,7 @@ export class MeaningState {
       blocking: findings.some((f) => f.severity === 'blocking'),
       warnings: findings.filter((f) => f.severity === 'warning').map((f) => f.ruleId),
       closed: false,
+      hash: l.hash ?? null,
     });
     this.latest.set(l.calculationId ?? '', Math.max(this.latest.get(l.calculationId ?? '') ?? 0, l.revision ?? 0));
     return null;
@@ -91,8 +104,11 @@ export class MeaningState {
     if (l.type === 'withdrawn') {
       if (l.actorId !== rev.authorId) return `revision ${rev.revision} was withdrawn by someone other than its author`;
     } else {
-      const roles = l.actorId ? this.rules.rolesOf(l.actorId) : null;
-      if (!roles || !roles.includes('reviewer')) return `the ${l.type} event was made by a user without the reviewer role`;
+      const signer = l.actorId ? this.rules.signerAt(l.id) : null;
+      if (!signer) return `the ${l.type} event names a decider who is no user on record`;
+      if (!signer.active) return `the ${l.type} event was made by a user who was deactivated at the time`;
+      const roles = signer.roles;
+      if (!roles.includes('reviewer')) return `the ${l.type} event was made by a user without the reviewer role`;
       if (roles.includes('admin')) return `the ${l.type} event was made by an admin identity`;
       if (rev.authorId !== null && l.actorId === rev.authorId) return `revision ${rev.revision} was decided by its own author`;
       if (rev.authorId !== null && l.tokenId && this.rules.tokenIssuer(l.tokenId) === rev.authorId) {
@@ -106,8 +122,29 @@ export class MeaningState {
         const missing = rev.warnings.find((w) => !acks.some((a) => a.finding === w));
         if (missing) return `revision ${rev.revision} was approved without acknowledging warning "${missing}"`;
       }
+      const unsigned = this.signatureProblem(l, rev);
+      if (unsigned) return unsigned;
     }
     rev.closed = true;
     return null;
+  }
+
+  /**
+   * A decision's signature (decisions recorded before signatures carry none): it names the decided revision's hash,
+   * and a passkey signature verifies with the signer's own passkey, registered before the decision.
+   */
+  private signatureProblem(l: MeaningLink, rev: RevisionFacts): string | null {
+    const sig = (l.data as { signature?: { method?: string; revisionHash?: string; passkey?: StoredAssertion } } | null)?.signature;
+    if (!sig) return null;
+    if (rev.hash !== null && sig.revisionHash !== rev.hash) return `the ${l.type} event's signature names another record than revision ${rev.revision}`;
+    if (sig.method !== 'passkey') return null;
+    const assertion = sig.passkey;
+    if (!assertion || typeof assertion.credentialId !== 'string') return `the ${l.type} event's passkey signature carries no assertion`;
+    const key = this.rules.passkeyOf(assertion.credentialId);
+    if (!key) return `the ${l.type} event's passkey is not registered`;
+    if (key.userId !== l.actorId) return `the ${l.type} event was signed with another person's passkey`;
+    if (l.createdAt && key.createdAt > l.createdAt) return `the ${l.type} event was signed with a passkey registered after it`;
+    const problem = passkeySignatureProblem(assertion, key, sig.revisionHash ?? '');
+    return problem ? `the ${l.type} event: ${problem}` : null;
   }
 }

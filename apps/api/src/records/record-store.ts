@@ -344,8 +344,19 @@ export class RecordStore implements OnModuleInit {
 
   /** What the meaning check reads beyond the chain: deciders' roles, issuers of their tokens, valid rule sets. */
   private async meaningRules(productId: string, headSeq: number): Promise<MeaningRules> {
-    const users = await this.db.query<{ id: string; roles: string[] }>(
-      `SELECT u.id, u.roles FROM users u WHERE u.id IN (SELECT e.actor_id FROM events e WHERE e.product_id = $1 AND e.seq <= $2 AND e.type IN ('approved', 'rejected'))`,
+    // each decider as the identity record stood at the decision (the newest role and deactivation events before it;
+    // users.roles for roles no event names, as leadline_user_roles reads them)
+    const signers = await this.db.query<{ event_id: string; roles: string[]; active: boolean }>(
+      `SELECT e.id AS event_id,
+              ARRAY(SELECT r FROM unnest(ARRAY['author', 'reviewer', 'admin']) AS r WHERE COALESCE(
+                (SELECT ce.type = 'role-granted' FROM identity_events ce WHERE ce.subject_user_id = u.id AND ce.type IN ('role-granted', 'role-revoked')
+                    AND ce.data->>'role' = r AND ce.created_at <= e.created_at ORDER BY ce.seq DESC NULLS LAST, ce.created_at DESC, ce.id DESC LIMIT 1),
+                r = ANY (u.roles))) AS roles,
+              NOT COALESCE((SELECT ae.type = 'user-deactivated' FROM identity_events ae WHERE ae.subject_user_id = u.id
+                  AND ae.type IN ('user-deactivated', 'user-reactivated') AND ae.created_at <= e.created_at
+                ORDER BY ae.seq DESC NULLS LAST, ae.created_at DESC, ae.id DESC LIMIT 1), false) AS active
+         FROM events e JOIN users u ON u.id = e.actor_id AND u.created_at <= e.created_at
+        WHERE e.product_id = $1 AND e.seq <= $2 AND e.type IN ('approved', 'rejected')`,
       [productId, headSeq],
     );
     const tokens = await this.db.query<{ id: string; created_by: string | null }>(
@@ -356,11 +367,18 @@ export class RecordStore implements OnModuleInit {
       `SELECT s.version, s.definition FROM rule_sets s WHERE s.version IN (SELECT DISTINCT r.rule_set_version FROM revisions r WHERE r.product_id = $1 AND r.seq <= $2)`,
       [productId, headSeq],
     );
+    const passkeys = await this.db.query<{ credential_id: string; user_id: string; public_key: string; rp_id: string; created_at: string }>(
+      `SELECT k.credential_id, k.user_id, k.public_key, k.rp_id, ${TS_TEXT('k.created_at')} AS created_at FROM passkey_credentials k
+        WHERE k.credential_id IN (SELECT e.data->'signature'->'passkey'->>'credentialId' FROM events e
+                                   WHERE e.product_id = $1 AND e.seq <= $2 AND e.type IN ('approved', 'rejected') AND e.data->'signature'->>'method' = 'passkey')`,
+      [productId, headSeq],
+    );
+    const keys = new Map(passkeys.map((k) => [k.credential_id, { userId: k.user_id, publicKey: k.public_key, rpId: k.rp_id, createdAt: k.created_at }]));
     const valid = new Set<string>();
     for (const r of sets) if (await this.ruleSetValid(r.version, r.definition)) valid.add(r.version);
-    const roles = new Map(users.map((u) => [u.id, u.roles]));
+    const signerAt = new Map(signers.map((u) => [u.event_id, { roles: u.roles, active: u.active }]));
     const issuers = new Map(tokens.map((t) => [t.id, t.created_by]));
-    return { rolesOf: (id) => roles.get(id) ?? null, tokenIssuer: (id) => issuers.get(id), ruleSetValid: (v) => valid.has(v) };
+    return { signerAt: (id) => signerAt.get(id) ?? null, tokenIssuer: (id) => issuers.get(id), ruleSetValid: (v) => valid.has(v), passkeyOf: (id) => keys.get(id) ?? null };
   }
 
   /**
@@ -442,13 +460,13 @@ function meaningLinkOf(l: Link): Parameters<MeaningState['check']>[0] {
     const r = l.row;
     return {
       kind: 'revision', id: r.id, calculationId: r.calculation_id, revision: Number(r.revision), verdict: r.verdict, ruleSetVersion: r.rule_set_version,
-      findings: r.findings, actorId: (r.author as { id?: string } | null)?.id ?? null, tokenId: r.token_id ?? null,
+      findings: r.findings, actorId: (r.author as { id?: string } | null)?.id ?? null, tokenId: r.token_id ?? null, hash: r.hash,
     };
   }
   const e = l.row;
   return {
     kind: 'event', id: e.id, type: e.type, calculationId: e.calculation_id, revisionId: e.revision_id,
-    actorId: (e.actor as { id?: string } | null)?.id ?? null, tokenId: e.token_id ?? null, data: e.data,
+    actorId: (e.actor as { id?: string } | null)?.id ?? null, tokenId: e.token_id ?? null, data: e.data, createdAt: e.created_at,
   };
 }
 

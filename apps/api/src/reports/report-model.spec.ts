@@ -2,6 +2,7 @@ import { FORMULAS } from '@leadline/mechanics';
 import { formatNumber } from '@leadline/presentation';
 import { harrowgateReportInput, harrowgateUsReportInput } from './fixtures/harrowgate.fixture';
 import { buildReportView, mathHtml, mathText } from './report-model';
+import { sectionNotesText } from './report-renderer';
 
 describe('buildReportView', () => {
   const input = harrowgateReportInput();
@@ -116,7 +117,7 @@ describe('buildReportView', () => {
     expect(usLines.find((l) => l.path === 'torque.collar.atMaxFriction')?.substitution).toMatch(/^T_c = 5200 lbf × 0\.08 × 2\.25 in \/ 2 = /);
     const column = us.sections.find((s) => s.id === 'column');
     expect(column?.chart).toBeNull();
-    expect(column?.notes[0]).toMatch(/tension/);
+    expect(sectionNotesText(column ?? { notes: null })[0]).toMatch(/tension/);
     expect(us.unitSystemLabel).toBe('US customary');
   });
 });

@@ -6,6 +6,7 @@
 import { Templates } from '../infra/templates';
 import { renderReportCharts, yieldToEventLoop, type ReportCharts } from './charts';
 import { buildReportView, CAUTION_SHORT, type ReportInput, type ReportView } from './report-model';
+import type { CalcSection } from './report-view';
 
 export { findTemplatesDir } from '../infra/templates';
 
@@ -63,6 +64,18 @@ export class ReportRenderer {
     await yieldToEventLoop();
     return { view, charts, html: this.renderHtml(view, charts, options) };
   }
+}
+
+/**
+ * A calculation section's notes as the report words them, in plain text (markup dropped, entities decoded): one
+ * string per paragraph. For readers of the view that print no HTML, and for the tests of the wording.
+ */
+export function sectionNotesText(section: Pick<CalcSection, 'notes'>, templatesDir?: string): string[] {
+  if (section.notes === null) return [];
+  const html = Templates.of(templatesDir).template<unknown>(section.notes.partial)(section.notes.facts);
+  const entities: Record<string, string> = { amp: '&', lt: '<', gt: '>', quot: '"', '#39': "'", '#x27': "'", '#x3D': '=', '#x60': '`' };
+  return [...html.matchAll(/<p[^>]*>([\s\S]*?)<\/p>/g)].map((m) =>
+    m[1].replace(/<[^>]+>/g, '').replace(/&(amp|lt|gt|quot|#39|#x27|#x3D|#x60);/g, (_e, name: string) => entities[name]).replace(/\s+/g, ' ').trim());
 }
 
 /** Running header and footer text of a report's PDF pages. */

@@ -5,6 +5,7 @@
  */
 import type { ReportInput } from './report-model';
 import { buildReportView } from './report-model';
+import { sectionNotesText } from './report-renderer';
 import { harrowgateReportInput, harrowgateUsReportInput, HARROWGATE_INPUT } from './fixtures/harrowgate.fixture';
 import { parseDesign } from '@leadline/contracts';
 import { evaluate } from '@leadline/mechanics';
@@ -23,7 +24,7 @@ function withDesign(raw: unknown): ReportInput {
   };
 }
 
-const notesOf = (input: ReportInput, id: string) => buildReportView(input).sections.find((s) => s.id === id)?.notes ?? [];
+const notesOf = (input: ReportInput, id: string) => sectionNotesText(buildReportView(input).sections.find((s) => s.id === id) ?? { notes: null });
 
 describe('report: thread corrections', () => {
   it('names the Table 8-4 class and rubbing speed that applied (Tr 32x6 at 90 rpm: hoisting screw, 0.137 m/s = 27 ft/min)', () => {

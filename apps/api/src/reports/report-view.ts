@@ -91,11 +91,17 @@ export interface CalcLine {
   readonly findings: readonly FindingRef[];
 }
 
+/** A section's notes: the partial (templates/reports/sections/notes-<id>.hbs) that words them and the facts it prints. */
+export interface SectionNotes {
+  readonly partial: string;
+  readonly facts: Readonly<Record<string, unknown>>;
+}
+
 export interface CalcSection {
   readonly id: string;
   readonly number: string;
   readonly title: string;
-  readonly notes: readonly string[];
+  readonly notes: SectionNotes | null;
   readonly lines: readonly CalcLine[];
   /** Which chart belongs under this section */
   readonly chart: 'torqueFriction' | 'column' | null;

@@ -10,6 +10,7 @@ import { Roles } from '../identities/auth.guard';
 import { CurrentActor, CurrentRoles } from '../infra/http/actor';
 import { ProblemError, validate } from '../infra/http/problem';
 import { ProductsService } from '../products/products.service';
+import { designFieldLabel } from '@leadline/contracts';
 import { resultPresentation } from '../reports/sections/calculation';
 import { AuditService, auditQuerySchema, changes, flatten } from './audit.service';
 import { ReviewsService } from './reviews.service';
@@ -29,8 +30,16 @@ export class ReviewsController {
   @Roles('reviewer')
   @HttpCode(201)
   async decide(@Param('id') id: string, @Body() body: unknown, @CurrentActor() actor: Actor, @CurrentRoles() roles: string[], @Req() req: FastifyRequest & { principal: Principal }) {
-    const decided = await this.reviews.decide(id, body, actor, roles, { principal: req.principal, client: clientKey(req.ip) });
+    const decided = await this.reviews.decide(id, body, actor, roles, { principal: req.principal, client: clientKey(req.ip), hostname: req.hostname });
     return { ...decided, checkpoint: await this.checkpoints.afterDecision(decided.productId, decided.seq, decided.hash, decided.decidedAt) };
+  }
+
+  /** A challenge for signing this revision with your passkey: {challengeId, revisionHash, options} for navigator.credentials.get. */
+  @Post('revisions/:id/passkey-challenges')
+  @Roles('reviewer')
+  @HttpCode(201)
+  passkeyChallenge(@Param('id') id: string, @Req() req: FastifyRequest & { principal: Principal }) {
+    return this.reviews.passkeyChallenge(id, req.principal, req.hostname);
   }
 
   /** A comment without a decision, general or on an input field or a finding. */
@@ -90,7 +99,8 @@ export class ReviewsController {
       revision: { id: to.id, revision: to.revision, calculationId: to.calculationId },
       against: { id: from.id, revision: from.revision, calculationId: from.calculationId },
       sameCalculation: to.calculationId === from.calculationId,
-      inputs: changes(flatten(from.input), flatten(to.input)),
+      // each changed input with its name in words (from the design input's contract)
+      inputs: changes(flatten(from.input), flatten(to.input)).map((c) => ({ ...c, label: designFieldLabel(c.path) })),
       frictionSources: changes(flatten(friction(from)), flatten(friction(to))),
       // each changed result with the report's label for its path and the kind of quantity it is (to print it with its unit)
       // A figure one revision's engine did not compute is named as such (an earlier engine), not shown as a null value

@@ -4,6 +4,7 @@
  */
 import { Inject, Injectable } from '@nestjs/common';
 import type { Actor, Finding, ReviewState } from '@leadline/contracts';
+import { ACKNOWLEDGEMENT_MIN_LENGTH } from '@leadline/contracts';
 import { z } from 'zod';
 import { APP_CONFIG, type AppConfig } from '../infra/config';
 import { Database, PG_UNIQUE_VIOLATION, pgErrorCode, type Queryer } from '../infra/database/database.service';
@@ -19,6 +20,8 @@ import { AccountsService } from '../identities/accounts.service';
 import type { Principal } from '../identities/identities.service';
 import { ReauthenticationsService } from '../identities/reauthentications.service';
 import { PASSWORD_MAX } from '../identities/passwords';
+import { authenticationResponseSchema, PasskeysService } from '../identities/passkeys.service';
+import type { StoredAssertion } from '../records/passkey-signature';
 
 export const targetSchema = z.union([
   z.strictObject({ field: z.string().min(1).max(200).describe('input field path, e.g. "thread.pitch"') }),
@@ -34,15 +37,29 @@ export const signatureSchema = z.discriminatedUnion('method', [
     method: z.literal('oidc'),
     reauthentication: z.uuid().optional().describe('id of the fresh identity-provider login (default: your newest unused one for this revision; GET /api/v1/auth/oidc/start?purpose=sign&revision=)'),
   }),
+  z.strictObject({
+    method: z.literal('passkey'),
+    challengeId: z.uuid().describe('the challenge of POST /api/v1/revisions/:id/passkey-challenges'),
+    response: authenticationResponseSchema.describe("your passkey's assertion over that challenge (navigator.credentials.get, as JSON)"),
+  }),
 ]);
 
 export const decisionSchema = z.strictObject({
   decision: z.enum(['approve', 'reject']),
   signature: signatureSchema.optional().describe('required: the decider signs with something only they hold'),
   comment: z.string().max(8000).optional(),
-  acknowledgements: z.array(z.strictObject({ finding: z.string().min(1).max(100), comment: z.string().trim().min(1, 'an acknowledgement needs a comment').max(4000) })).max(100).optional(),
+  acknowledgements: z.array(z.strictObject({ finding: z.string().min(1).max(100), comment: z.string().trim().min(1, 'an acknowledgement needs a comment').min(ACKNOWLEDGEMENT_MIN_LENGTH, `give the reason for accepting this warning in at least ${ACKNOWLEDGEMENT_MIN_LENGTH} characters`).max(4000) })).max(100).optional(),
   comments: z.array(commentSchema).max(100).optional().describe('comments attached to input fields or findings'),
 });
+
+/** One thing said on a revision (GET /revisions/:id, review.remarks). */
+export interface Remark {
+  kind: 'comment' | 'decision' | 'acknowledgement' | 'withdrawal';
+  by: Actor | null;
+  at: string;
+  text: string;
+  target: { field: string } | { finding: string } | null;
+}
 
 export const withdrawSchema = z.strictObject({ comment: z.string().max(8000).optional() }).optional();
 
@@ -69,6 +86,8 @@ export interface SignerContext {
   principal: Principal;
   /** Client address key of the failure limiter */
   client: string;
+  /** The request's host name (the passkeys' relying party when LEADLINE_PUBLIC_URL is unset) */
+  hostname: string;
 }
 
 /** A second decision that lost the race for the revision's one closure (its primary key). */
@@ -99,7 +118,35 @@ export class ReviewsService {
     @Inject(APP_CONFIG) private readonly config: AppConfig,
     private readonly accounts: AccountsService,
     private readonly reauthentications: ReauthenticationsService,
+    private readonly passkeys: PasskeysService,
   ) {}
+
+  /**
+   * What was said on a revision, oldest first, as events up to the product's head: comments (general or on an input
+   * field or a finding), the decision's comment, its acknowledgements and comments, and a withdrawal's comment.
+   */
+  async remarks(revisionId: string): Promise<Remark[]> {
+    const rows = await this.db.query<{ type: string; actor: Actor | null; at: string; data: Record<string, any> }>(
+      `SELECT e.type, e.actor, ${TS_TEXT('e.created_at')} AS at, e.data FROM events e
+        WHERE e.revision_id = $1 AND e.type IN ('comment', 'approved', 'rejected', 'withdrawn')
+          AND e.seq <= (SELECT h.seq FROM chain_heads h WHERE h.product_id = e.product_id)
+        ORDER BY e.seq`,
+      [checkUuid(revisionId, 'revision')],
+    );
+    const out: Remark[] = [];
+    for (const e of rows) {
+      const data = e.data ?? {};
+      if (e.type === 'comment') {
+        out.push({ kind: 'comment', by: e.actor, at: e.at, text: data.text, target: data.target ?? null });
+        continue;
+      }
+      const kind = e.type === 'withdrawn' ? 'withdrawal' : 'decision';
+      if (data.comment) out.push({ kind, by: e.actor, at: e.at, text: data.comment, target: null });
+      for (const a of data.acknowledgements ?? []) out.push({ kind: 'acknowledgement', by: e.actor, at: e.at, text: a.comment, target: { finding: a.finding } });
+      for (const c of data.comments ?? []) out.push({ kind: 'comment', by: e.actor, at: e.at, text: c.text, target: c.target ?? null });
+    }
+    return out;
+  }
 
   async state(id: string, q: Queryer = this.db): Promise<RevisionState> {
     const [r] = await this.states(q, 'r.id = $1', [checkUuid(id, 'revision')]);
@@ -161,7 +208,7 @@ export class ReviewsService {
     }
     const input = validate(decisionSchema, body);
     const head = await this.state(revisionId);
-    await this.checkSignature(input.signature, signer, head);
+    const assertion = await this.checkSignature(input.signature, signer, head);
     return this.db.transaction(async (q) => {
       const cursor = (await this.records.lockHead(q, head.productId))!;
       const rev = await this.state(revisionId, q);
@@ -200,7 +247,10 @@ export class ReviewsService {
       }
       const kind = input.decision === 'approve' ? 'approved' : 'rejected';
       const [{ hash: revisionHash }] = await q.query<{ hash: string }>(`SELECT hash FROM revisions WHERE id = $1`, [rev.id]);
-      const signature = { signerId: actor.id, printedName: actor.name, meaning: SIGNATURE_MEANING[kind], method: input.signature!.method, revisionHash };
+      const signature = {
+        signerId: actor.id, printedName: actor.name, meaning: SIGNATURE_MEANING[kind], method: input.signature!.method, revisionHash,
+        ...(assertion ? { passkey: assertion } : {}),
+      };
       const event = await this.records.appendEvent(q, cursor, {
         productId: rev.productId, type: kind, calculationId: rev.calculationId, revisionId: rev.id, actor,
         data: { revision: rev.revision, comment: input.comment ?? null, acknowledgements, comments, signature },
@@ -216,7 +266,7 @@ export class ReviewsService {
    * Nobody signs for anyone else: the decider acts with their own session or a token they issued themselves, and
    * signs with something only they hold, checked now. Refusals are 403 naming `signature`.
    */
-  private async checkSignature(signature: z.infer<typeof signatureSchema> | undefined, signer: SignerContext, rev: RevisionState): Promise<void> {
+  private async checkSignature(signature: z.infer<typeof signatureSchema> | undefined, signer: SignerContext, rev: RevisionState): Promise<StoredAssertion | null> {
     const p = signer.principal;
     const refuse = (path: string, detail: string): never => {
       throw new ProblemError(403, 'Signature not accepted', detail, { errors: [{ path, message: detail }] });
@@ -231,9 +281,33 @@ export class ReviewsService {
     }
     if (sig.method === 'password') {
       if (!(await this.accounts.verifySignerPassword(p.id, sig.password, signer.client))) refuse('signature.password', 'not your password');
-      return;
+      return null;
+    }
+    if (sig.method === 'passkey') {
+      return this.passkeys.sign(sig, p, { id: rev.id, hash: await this.revisionHash(rev.id) }, this.passkeys.relyingParty(signer.hostname), refuse);
     }
     await this.reauthentications.consume(sig.reauthentication, p, rev.id, refuse);
+    return null;
+  }
+
+  private async revisionHash(id: string): Promise<string> {
+    const [row] = await this.db.query<{ hash: string }>(`SELECT hash FROM revisions WHERE id = $1`, [id]);
+    return row.hash;
+  }
+
+  /**
+   * A challenge for signing a revision with a passkey (reviewer): bound to the revision's record hash, one use,
+   * answered by navigator.credentials.get and sent back as signature {method: "passkey", challengeId, response}.
+   */
+  async passkeyChallenge(revisionId: string, principal: Principal, hostname: string) {
+    if (!this.config.LEADLINE_SIGNATURE_METHODS.includes('passkey')) {
+      throw new ProblemError(403, 'Signature not accepted', `this site accepts signatures by ${this.config.LEADLINE_SIGNATURE_METHODS.join(', ')}`, {
+        errors: [{ path: 'signature.method', message: 'passkey signatures are not accepted here' }],
+      });
+    }
+    const rev = await this.state(revisionId);
+    if (rev.state !== 'submitted') throw new ProblemError(409, 'Revision is not awaiting review', `revision ${rev.revision} is ${rev.state}`, { state: rev.state });
+    return this.passkeys.signingOptions(principal, rev.id, await this.revisionHash(rev.id), this.passkeys.relyingParty(hostname));
   }
 
   async comment(revisionId: string, body: unknown, actor: Actor) {

@@ -11,6 +11,7 @@ export const SIGNATURE_MEANING = { approved: 'approved as checking engineer', re
 export const SIGNATURE_METHOD_LABELS: Readonly<Record<string, string>> = {
   password: 'password, given again at signing',
   oidc: 'identity provider, fresh login at signing',
+  passkey: 'passkey, used at signing over the record hash',
 };
 
 /** A decision's signature as the API and the reports show it. */

@@ -30,7 +30,8 @@ async function openRecorded(app: INestApplicationContext, productId: string, tit
   const prepared = prepareSubmission({
     input: recorded.input, normalized: recorded.normalized, evaluation: recorded.evaluation, findings: recorded.findings,
     verdict: recorded.verdict, engineVersion: recorded.engineVersion, ruleSetVersion: recorded.ruleSetVersion,
-    note: `Demo history: judged by engine ${recorded.engineVersion} under rule set ${recorded.ruleSetVersion}, before the corrections of rule set 2026.12-2.`,
+    // A note as an engineer writes one (the demo shows no internal wording)
+    note: `Approved as judged then: engine ${recorded.engineVersion}, rule set ${recorded.ruleSetVersion}. Later rule sets check the threads more strictly.`,
   });
   return db.transaction(async (q) => {
     const cursor = await records.lockHead(q, productId);
@@ -116,7 +117,7 @@ export async function seedDemo(app: INestApplicationContext, options: SeedOption
   const session = signedIn ? await accountsService.resolveSession(signedIn.cookie) : null;
   const reviewerPrincipal = session?.principal ?? (await identities.authenticate(tokens.find((t) => t.name === 'Checking engineer (demo)')!.token))!;
   const reviewer = actingAs({ id: users.get('Checking engineer (demo)')!.id, name: 'Checking engineer (demo)' }, reviewerPrincipal);
-  const signer = { principal: reviewerPrincipal, client: 'demo seed' };
+  const signer = { principal: reviewerPrincipal, client: 'demo seed', hostname: 'localhost' };
   const signature = { method: 'password', password: checkerPassword };
   const products = app.get(ProductsService);
   const calculations = app.get(CalculationsService);

@@ -56,7 +56,7 @@ export async function migrateServer(config: MigrationConfig, logger = new Logger
 }
 
 /**
- * SELECT on the tables (tokens without token_hash, sessions without secret_hash and seal_key), INSERT on idempotency_keys only, EXECUTE on the functions;
+ * SELECT on the tables (tokens without token_hash, sessions without secret_hash and seal_key, password_credentials without hash), INSERT on idempotency_keys only, EXECUTE on the functions;
  * everything else revoked. Every record, identity and rule row is written by the SECURITY DEFINER functions of
  * migrations/20261204230000, which check the acting credential and the invariants (docs/reliability.md, "Threat model").
  */
@@ -83,8 +83,13 @@ export async function grantRuntime(q: { query(sql: string, params?: unknown[]): 
   }
 }
 
-/** Columns the runtime role may not read: the stored credentials (and a session's seal key, which makes its cookies). */
-export const HIDDEN_COLUMNS: Readonly<Record<string, readonly string[]>> = { tokens: ['token_hash'], sessions: ['secret_hash', 'seal_key'] };
+/** Columns the runtime role may not read: the stored credentials (and a session's seal key, which makes its cookies), the password hashes. */
+export const HIDDEN_COLUMNS: Readonly<Record<string, readonly string[]>> = {
+  tokens: ['token_hash'],
+  sessions: ['secret_hash', 'seal_key'],
+  // the Argon2id hashes: read through leadline_password_hash with the service credential (migrations/20261206030100)
+  password_credentials: ['hash'],
+};
 
 /** Functions only the record functions call (migrations/20261204230200). */
 export const INTERNAL_FUNCTIONS = ['leadline_ledger_next(text, bigint, text, text, text)', 'leadline_put_identity_events(uuid, uuid, jsonb)'];
@@ -102,7 +107,8 @@ export async function grantQueue(q: { query(sql: string): Promise<unknown> }, ro
   await q.query(`GRANT SELECT, INSERT ON queue.jobs, queue.webhook_endpoints, queue.webhook_attempts, queue.mail_preferences, queue.rendered_files TO ${r}`);
   await q.query(`GRANT EXECUTE ON FUNCTION queue.claim(text, text[], integer, timestamptz, integer), queue.finish(uuid, text, text, jsonb, text, timestamptz),
     queue.report_progress(uuid, text, jsonb, timestamptz), queue.extend_lease(uuid, text, timestamptz), queue.failures_blocked(text, text, integer, integer, timestamptz),
-    queue.record_failure(text, text, integer, timestamptz), queue.take_allowance(text, text, double precision, timestamptz), queue.disable_endpoint(uuid, text), queue.rotate_endpoint_secret(uuid, text) TO ${r}`);
+    queue.record_failure(text, text, integer, timestamptz), queue.take_allowance(text, text, double precision, timestamptz),
+    queue.take_allowances(text, text, double precision, timestamptz, integer), queue.disable_endpoint(uuid, text), queue.rotate_endpoint_secret(uuid, text) TO ${r}`);
 }
 
 /** Warns when the service's own connection is a superuser or owns the record tables (it could then rewrite them). */

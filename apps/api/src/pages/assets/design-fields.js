@@ -6,6 +6,7 @@
  * and pitch, library entry or typed range, kind of collar, buttress).
  */
 import { $ } from './lib-dom.js';
+import { quantity } from './lib-format.js';
 
 const SURFACES = ['thread', 'collar'];
 
@@ -282,6 +283,7 @@ export function fillDesign(d) {
   set('f-gear-eff', gb.efficiency);
   set('f-gear-rev', gb.reverseEfficiency);
   syncVisibility();
+  showDefaults();
 }
 
 /**
@@ -362,4 +364,68 @@ export function fieldFor(path) {
     p = p.includes('.') ? p.slice(0, p.lastIndexOf('.')) : '';
   }
   return null;
+}
+
+/*
+ * Defaults in words: an optional field the material library fills when it is left empty shows, below it, the value
+ * the library gives and its source, labelled as a default (never as placeholder text, which reads as if entered).
+ * The material fields show the library material's name beside its id.
+ */
+const DEFAULTS = {
+  'f-nut-p': { part: 'nut', describe: function (m) {
+    if (m.pressureBySpeed && m.pressureBySpeed.length) {
+      return m.pressureBySpeed.filter(function (s) { return s.allowablePressure !== null; }).map(function (s) {
+        return quantity(s.allowablePressure, 'pressure', 'SI') + (s.upToRubbingSpeed === null ? ' above' : ' up to ' + quantity(s.upToRubbingSpeed, 'slidingSpeed', 'SI'));
+      }).join('; ') + ' of rubbing speed (the step for the design\'s speed is used) · source: ' + m.pressureBySpeed[0].source;
+    }
+    return m.allowablePressure === null ? null : quantity(m.allowablePressure, 'pressure', 'SI') + ' · source: ' + m.allowablePressureSource;
+  } },
+  'f-nut-pv': { part: 'nut', describe: function (m) { return m.allowablePv === null ? null : quantity(m.allowablePv, 'pv', 'SI') + ' · source: ' + m.allowablePvSource; } },
+  'f-nut-yield': { part: 'nut', describe: function (m) { return m.yieldStrength === null ? null : quantity(m.yieldStrength, 'stress', 'SI') + ' · source: ' + m.yieldSource; } },
+  'f-screw-yield': { part: 'screw', describe: function (m) { return quantity(m.yieldStrength, 'stress', 'SI') + ' · source: ' + m.source; } },
+  'f-screw-modulus': { part: 'screw', describe: function (m) { return quantity(m.elasticModulus, 'modulus', 'SI') + ' · source: ' + m.source; } },
+  'f-screw-density': { part: 'screw', describe: function (m) { return quantity(m.density, 'density', 'SI') + ' · source: ' + m.source; } },
+};
+
+let library = null;
+
+/** The library material a material field names, or null. */
+function materialOf(part) {
+  if (!library) return null;
+  const id = $('f-' + part + '-material').value.trim();
+  return (part === 'nut' ? library.nuts : library.screws).find(function (m) { return m.id === id; }) || null;
+}
+
+/** Writes each default line and each material's name from the library and the fields as they stand. */
+export function showDefaults() {
+  if (!library) return;
+  ['nut', 'screw'].forEach(function (part) {
+    const named = $('f-' + part + '-material-name');
+    if (!named) return;
+    const m = materialOf(part);
+    const id = $('f-' + part + '-material').value.trim();
+    named.textContent = m ? 'Library material: ' + m.name + ' (id ' + m.id + ').' : id ? '"' + id + '" is not a library material: give the values below.' : '';
+    named.hidden = named.textContent === '';
+  });
+  Object.keys(DEFAULTS).forEach(function (id) {
+    const line = $(id + '-default');
+    if (!line) return;
+    const m = materialOf(DEFAULTS[id].part);
+    const words = m ? DEFAULTS[id].describe(m) : null;
+    const empty = $(id).value.trim() === '';
+    line.textContent = words ? (empty ? 'Default (left empty): ' : 'Library value, replaced by yours: ') + words + ' (' + m.name + ')' : '';
+    line.hidden = line.textContent === '';
+  });
+}
+
+/** Gives the form the material library for its default lines; they follow every edit. */
+export function useLibrary(materials) {
+  library = materials;
+  const form = $('design-form');
+  if (form && !form.dataset.defaultsWatched) {
+    form.dataset.defaultsWatched = 'true';
+    form.addEventListener('input', showDefaults);
+    form.addEventListener('change', showDefaults);
+  }
+  showDefaults();
 }

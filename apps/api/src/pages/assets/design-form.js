@@ -2,16 +2,19 @@
  * The design form (/design/products/:id/new, /design/calculations/:id/revise[?from=<revision id>]): the design
  * in the trade's words, evaluated live while typing (POST /evaluations, debounced ~150 ms, stale answers
  * discarded), the report's charts for the unsaved design (POST /evaluations/charts), field errors at the field,
- * save as a new calculation or a new revision with an Idempotency-Key, and JSON import/export of the design input.
+ * save as a new calculation, drafts of the next revision (PUT/GET /calculations/:id/draft, restored on opening),
+ * submission as a separate step whose confirmation names what changed since the latest revision and asks for a note
+ * (with an Idempotency-Key), and JSON import/export of the design input.
  */
 import { api, download, newIdempotencyKey, saveBlob } from './lib-api.js';
 import { $, el } from './lib-dom.js';
-import { badge, VERDICTS } from './lib-format.js';
+import { badge, time, VERDICTS } from './lib-format.js';
 import { clearFieldErrors, clearProblem, fieldErrors, showFieldErrors, showProblem } from './lib-problem.js';
 import { startPage } from './lib-session.js';
-import { fieldFor, fillDesign, keptInWords, readDesign, syncVisibility } from './design-fields.js';
+import { fieldFor, fillDesign, keptInWords, readDesign, syncVisibility, useLibrary } from './design-fields.js';
 import { renderResults, showChart } from './design-results.js';
 import { takeDraft } from './lib-draft.js';
+import { changedFields, changeRow, checkFigure, labelOf } from './design-changes.js';
 
 const DEBOUNCE_MS = 150;
 
@@ -54,6 +57,7 @@ async function loadLibrary() {
   $('f-screw-list').replaceChildren(...materials.screws.map(function (m) {
     return el('option', { value: m.id }, m.name);
   }));
+  useLibrary(materials);
 }
 
 /** Where the form stands: a new calculation of a product, or the next revision of a calculation. */
@@ -70,7 +74,19 @@ async function loadContext() {
   const from = (wanted && revisions.items.find(function (r) {
     return r.id === wanted;
   })) || revisions.items[revisions.items.length - 1];
-  return { mode: 'revise', product: product, calculation: calculation, from: from, latest: revisions.items[revisions.items.length - 1] };
+  // the author's own draft of the next revision, unless a revision was asked for by ?from=
+  let saved = null;
+  if (!wanted) {
+    try {
+      saved = await api('/api/v1/calculations/' + encodeURIComponent(calculation.id) + '/draft');
+    } catch (err) {
+      if (!err || err.status !== 404) throw err;
+    }
+  }
+  const latest = revisions.items[revisions.items.length - 1];
+  // a draft saved before the latest revision was submitted has been overtaken by it (timestamps: the same exact format)
+  if (saved && latest && saved.savedAt < latest.createdAt) saved = null;
+  return { mode: 'revise', product: product, calculation: calculation, from: from, latest: latest, saved: saved };
 }
 
 function showContext(ctx) {
@@ -80,15 +96,24 @@ function showContext(ctx) {
     $('design-heading').textContent = 'New calculation for ' + ctx.product.code;
     $('design-context').textContent = 'Enter the design; the results follow as you type. Saving opens the calculation with revision 1 and submits it for review.';
     $('title-field').hidden = false;
-    $('note-field').hidden = true;
+    $('save-draft').hidden = true;
+    $('draft-help').hidden = true;
     $('save-submit').textContent = 'Save as a new calculation and submit for review';
   } else {
     $('design-heading').textContent = ctx.product.code + ' · ' + ctx.calculation.title + ' · revision ' + (ctx.latest.revision + 1);
-    $('design-context').textContent = 'Prefilled from revision ' + ctx.from.revision + '. Saving stores revision ' + (ctx.latest.revision + 1) + ' and submits it for review; revision ' + ctx.latest.revision + ' is then superseded.';
-    $('title-field').hidden = true;
-    $('note-field').hidden = false;
-    $('save-submit').textContent = 'Save as revision ' + (ctx.latest.revision + 1) + ' and submit for review';
+    $('design-context').textContent = ctx.saved
+      ? 'Restored your draft saved ' + time(ctx.saved.savedAt) + ' UTC (not submitted). Submitting stores revision ' + (ctx.latest.revision + 1) + ' for review; revision ' + ctx.latest.revision + ' is then superseded.'
+      : 'Prefilled from revision ' + ctx.from.revision + '. Submitting stores revision ' + (ctx.latest.revision + 1) + ' for review; revision ' + ctx.latest.revision + ' is then superseded.';
+    showReviseControls(ctx);
   }
+}
+
+/** The save panel of a calculation that exists: drafts, and submission of the next revision as a separate step. */
+function showReviseControls(ctx) {
+  $('title-field').hidden = true;
+  $('save-draft').hidden = false;
+  $('draft-help').hidden = false;
+  $('save-submit').textContent = 'Review and submit revision ' + (ctx.latest.revision + 1) + '…';
 }
 
 /** Names, in words, the loaded fields the form has no control for: they are saved and exported unchanged. */
@@ -113,7 +138,18 @@ async function designPage() {
   showContext(ctx);
   const draft = ctx.mode === 'open' ? takeDraft() : null; // a design handed over by another page (screw selection)
   if (draft) $('design-context').textContent = 'Filled from ' + draft.origin + '. ' + $('design-context').textContent;
-  if (ctx.from) fillDesign(ctx.from.input);
+  // what the latest revision reads as through this form (fields the form fills in by default included): the
+  // baseline the submit confirmation compares with, so only the author's own changes are listed
+  let baseline = null;
+  if (ctx.latest) {
+    fillDesign(ctx.latest.input);
+    syncVisibility();
+    baseline = readDesign();
+  }
+  if (ctx.saved) {
+    fillDesign(ctx.saved.design);
+    $('f-note').value = ctx.saved.note || '';
+  } else if (ctx.from) fillDesign(ctx.from.input);
   else if (draft) fillDesign(draft.design);
   else fillDesign({ thread: { form: 'trapezoidal', starts: 1 }, friction: { thread: { entry: $('f-thread-entry').value }, collar: { entry: $('f-collar-entry').value } }, collar: { kind: 'annular', model: 'uniform-wear' }, screw: { ends: 'fixed-free' }, duty: { kind: 'lifting', brake: false } });
   showKept();
@@ -248,17 +284,38 @@ async function designPage() {
   // ---- save ----
   let key = null;
   let keyFor = null;
+  let submitted = null; // the design just submitted: the form offers no submission until it changes
   const saveForm = $('save-form');
-  saveForm.addEventListener('submit', async function (event) {
-    event.preventDefault();
-    const button = $('save-submit');
+  const locate = function (p) {
+    if (p === 'title') return $('f-title');
+    if (p === 'note') return $('f-note');
+    return fieldFor(p);
+  };
+
+  function showRefusal(slot, err) {
+    showProblem(slot, err, {
+      label: function (p) {
+        if (p === 'design') return 'Design';
+        if (p === 'title') return 'Calculation title';
+        if (p === 'note') return 'Revision note';
+        return labelOf(p);
+      },
+    });
+    const errors = fieldErrors(err);
+    const unplaced = showFieldErrors(document.getElementById('design'), errors, locate, { focus: true });
+    if (unplaced.length === errors.length) {
+      slot.scrollIntoView({ block: 'center' });
+      slot.setAttribute('tabindex', '-1');
+      slot.focus({ preventScroll: true });
+    }
+  }
+
+  /** Stores the body (a new calculation, or the next revision) once per content: a retry reuses its key. */
+  async function store(body, button, slot) {
     if (button.disabled) return;
-    button.disabled = true; // a second click while this one is on its way does nothing
-    const slot = $('save-problem');
+    button.disabled = true; // a second press while this one is on its way does nothing
     clearProblem(slot);
     clearFieldErrors(document.getElementById('design'));
-    const body = ctx.mode === 'open' ? { title: $('f-title').value.trim(), design: readDesign() } : { design: readDesign() };
-    if (ctx.mode === 'revise' && $('f-note').value.trim()) body.note = $('f-note').value.trim();
     const text = JSON.stringify(body);
     if (text !== keyFor) {
       key = newIdempotencyKey(); // the same content keeps its key, so a retry stores nothing new
@@ -267,21 +324,100 @@ async function designPage() {
     const path = ctx.mode === 'open' ? '/api/v1/products/' + encodeURIComponent(ctx.product.id) + '/calculations' : '/api/v1/calculations/' + encodeURIComponent(ctx.calculation.id) + '/revisions';
     try {
       const stored = await api(path, { method: 'POST', body: body, headers: { 'idempotency-key': key } });
-      showSaved(stored);
+      showSaved(stored, body.design);
     } catch (err) {
-      showProblem(slot, err);
-      const unplaced = showFieldErrors(document.getElementById('design'), fieldErrors(err), function (p) {
-        if (p === 'title') return $('f-title');
-        if (p === 'note') return $('f-note');
-        return fieldFor(p);
-      }, { focus: true });
-      if (unplaced.length === fieldErrors(err).length) slot.scrollIntoView({ block: 'center' });
+      showRefusal(slot, err);
+    } finally {
+      button.disabled = false;
+      markSubmittable();
+    }
+  }
+
+  saveForm.addEventListener('submit', function (event) {
+    event.preventDefault();
+    if (ctx.mode === 'open') {
+      store({ title: $('f-title').value.trim(), design: readDesign() }, $('save-submit'), $('save-problem'));
+    } else {
+      openConfirm();
+    }
+  });
+
+  // drafts: PUT /calculations/:id/draft, for the author alone; never reviewed
+  $('save-draft').addEventListener('click', async function () {
+    const button = $('save-draft');
+    if (button.disabled || ctx.mode !== 'revise') return;
+    button.disabled = true;
+    const slot = $('save-problem');
+    clearProblem(slot);
+    clearFieldErrors(document.getElementById('design'));
+    const body = { design: readDesign() };
+    if ($('f-note').value.trim()) body.note = $('f-note').value.trim();
+    try {
+      const saved = await api('/api/v1/calculations/' + encodeURIComponent(ctx.calculation.id) + '/draft', { method: 'PUT', body: body });
+      $('draft-status').textContent = 'Draft saved ' + time(saved.savedAt) + ' UTC. It is not submitted' + (saved.latestRevision && saved.latestRevision.sameDesign ? '; its design equals revision ' + saved.latestRevision.revision + '.' : '.');
+      $('draft-status').dataset.draft = saved.id;
+    } catch (err) {
+      $('draft-status').textContent = 'Draft not saved.';
+      showRefusal(slot, err);
     } finally {
       button.disabled = false;
     }
   });
 
-  function showSaved(stored) {
+  // ---- the submission: a separate step that names what changed and asks for a note ----
+  const confirmPanel = $('confirm');
+  function openConfirm() {
+    const next = ctx.latest.revision + 1;
+    const design = readDesign();
+    const changes = changedFields(baseline || ctx.latest.input, design);
+    clearProblem($('confirm-problem'));
+    $('confirm-heading').textContent = 'Submit revision ' + next + ' for review';
+    $('confirm-before-heading').textContent = 'Revision ' + ctx.latest.revision;
+    $('confirm-changes-caption').textContent = 'Inputs changed since revision ' + ctx.latest.revision;
+    $('confirm-changes').tBodies[0].replaceChildren(...changes.map(changeRow));
+    $('confirm-changes').hidden = changes.length === 0;
+    $('confirm-summary').textContent = changes.length
+      ? countWords(changes.length, 'input') + ' changed since revision ' + ctx.latest.revision + '. Submitting stores revision ' + next + ' and sends it to a checking engineer; revision ' + ctx.latest.revision + ' is then superseded.'
+      : 'Nothing has changed since revision ' + ctx.latest.revision + ': there is nothing to submit. Change the design, or keep editing.';
+    const before = ctx.latest.governing;
+    const now = last && last.governing;
+    $('confirm-governing').replaceChildren(
+      el('strong', {}, 'Governing check: '),
+      now ? now.label + ' ' + checkFigure(now) : 'not evaluated yet',
+      before ? ' (revision ' + ctx.latest.revision + ': ' + before.label + ' ' + checkFigure(before) + ')' : '',
+      last ? el('span', {}, '. Verdict of the rules: ', badge('verdict', last.verdict, VERDICTS)) : '',
+      ctx.latest.verdict ? el('span', {}, ' (revision ' + ctx.latest.revision + ': ', badge('verdict', ctx.latest.verdict, VERDICTS), ').') : '',
+    );
+    $('note-field').hidden = changes.length === 0;
+    $('confirm-submit').hidden = changes.length === 0;
+    $('confirm-submit').textContent = 'Submit revision ' + next;
+    confirmPanel.hidden = false;
+    $('confirm-heading').focus();
+  }
+  $('confirm-cancel').addEventListener('click', function () {
+    confirmPanel.hidden = true;
+    $('save-submit').focus();
+  });
+  $('confirm-submit').addEventListener('click', function () {
+    const note = $('f-note').value.trim();
+    if (!note) {
+      showFieldErrors(confirmPanel, [{ path: 'note', message: 'Say what changed and why: the checking engineer reads the note first.' }], locate, { focus: true });
+      return;
+    }
+    store({ design: readDesign(), note: note }, $('confirm-submit'), $('confirm-problem'));
+  });
+
+  /** After a submission the form offers the next one only once the design has changed. */
+  function markSubmittable() {
+    const button = $('save-submit');
+    const same = submitted !== null && JSON.stringify(readDesign()) === submitted;
+    button.disabled = same;
+    if (same) $('draft-status').textContent = 'Revision ' + ctx.latest.revision + ' is submitted. Change the design to prepare revision ' + (ctx.latest.revision + 1) + '.';
+  }
+  form.addEventListener('input', markSubmittable);
+  form.addEventListener('change', markSubmittable);
+
+  function showSaved(stored, design) {
     const done = $('saved');
     const report = '/review/revisions/' + encodeURIComponent(stored.revisionId);
     const pdf = el('button', { type: 'button', id: 'saved-pdf' }, 'Download its PDF report');
@@ -295,28 +431,38 @@ async function designPage() {
     );
     done.dataset.revision = stored.revisionId;
     done.hidden = false;
-    done.scrollIntoView({ block: 'nearest' });
+    const latest = { id: stored.revisionId, revision: stored.revision, input: design, verdict: stored.verdict, governing: last ? last.governing : null };
     if (ctx.mode === 'open') {
-      // the calculation exists now: a further save is its next revision
-      ctx = { mode: 'revise', product: ctx.product, calculation: { id: stored.calculationId, title: body_title() }, from: null, latest: { revision: stored.revision } };
-      $('title-field').hidden = true;
-      $('note-field').hidden = false;
-      $('save-submit').textContent = 'Save as revision ' + (stored.revision + 1) + ' and submit for review';
+      // the calculation exists now: a further save is a draft or its next revision
+      ctx = { mode: 'revise', product: ctx.product, calculation: { id: stored.calculationId, title: body_title() }, from: null, latest: latest };
     } else {
-      ctx.latest = { revision: stored.revision };
-      $('save-submit').textContent = 'Save as revision ' + (stored.revision + 1) + ' and submit for review';
+      ctx.latest = latest;
     }
+    showReviseControls(ctx);
+    baseline = design;
+    // the note belonged to the revision just stored; the form offers no submission until the design changes
+    $('f-note').value = '';
+    confirmPanel.hidden = true;
+    submitted = JSON.stringify(design);
+    markSubmittable();
+    done.scrollIntoView({ block: 'nearest' });
+    done.setAttribute('tabindex', '-1');
+    done.focus({ preventScroll: true });
   }
   function body_title() {
     return $('f-title').value.trim();
   }
 
-  if (ctx.from || draft) {
+  if (ctx.from || draft || ctx.saved) {
     form.querySelectorAll('[data-path]').forEach(function (input) {
       touched.add(input.id);
     });
   }
   evaluateNow();
+}
+
+function countWords(n, noun) {
+  return n + ' ' + noun + (n === 1 ? '' : 's');
 }
 
 startPage(designPage);

@@ -1,14 +1,17 @@
 /*
  * Find a screw for a duty (/design/sizing): the requirements form, POST /api/v1/sizing, the ranked screws with the
- * governing check of each, the headroom of the best three, what stopped the rest, and "open as a new calculation",
- * which hands the chosen screw's design input to the design form of a product (lib-draft.js: sessionStorage).
+ * governing check and the warning checks of each (the candidate's own `governing` and `checks`), sortable, the
+ * headroom of the best three, what stopped the rest, and "open as a new calculation", which hands the chosen screw's
+ * design input to the design form of a product, chosen or registered on the spot (lib-draft.js: sessionStorage).
+ * The form's state is kept for the tab (lib-recent.js), so going to another page and back finds the duty as it was.
  */
-import { api, ApiError } from './lib-api.js';
+import { api } from './lib-api.js';
 import { $, el, fillTable } from './lib-dom.js';
 import { badge, percent, quantity, sig, VERDICTS } from './lib-format.js';
 import { clearFieldErrors, clearProblem, fieldErrors, showFieldErrors, showProblem } from './lib-problem.js';
 import { startPage } from './lib-session.js';
 import { putDraft } from './lib-draft.js';
+import { lastProduct, rememberProduct, savedDuty, saveDuty } from './lib-recent.js';
 
 function option(value, label) {
   return el('option', { value: value }, label);
@@ -83,6 +86,7 @@ function readRequest() {
     objective: $('s-objective').value,
     limit: Number($('s-limit').value),
   };
+  if ($('s-only-clear').checked) search.verdicts = ['clear'];
   const majorDiameter = {};
   if (text('s-dmin')) majorDiameter.min = text('s-dmin');
   if (text('s-dmax')) majorDiameter.max = text('s-dmax');
@@ -112,28 +116,44 @@ function fieldFor(path) {
 
 const RULE_TITLES = {};
 
-/** "1.31 against ≥ 1" / "0.62 against ≤ 1": a check's value and its blocking limit, in words. */
-function governingText(g, checks) {
+/** The governing check of a row: its label, value and blocking limit, and the rule that makes it. */
+function governingText(g) {
   if (!g) return el('span', { class: 'muted' }, 'no numeric check applies');
   const against = (g.limitKind === 'minimum' ? 'at least ' : 'at most ') + sig(g.limit);
-  // Checks past their warning level are named beside the governing one: the row's warning comes from them
-  const warned = (checks || []).filter(function (c) { return c.status === 'warning' && c.id !== g.id; });
-  const warnings = warned.length === 0 ? [] : [el('span', { class: 'muted' }, ' · warning: ' + warned.map(function (c) {
-    return c.shortLabel + (c.value === null ? ' not computed' : ' ' + sig(c.value) + ' (warning level ' + sig(c.warnLimit) + ')');
-  }).join('; '))];
-  return el.apply(null, ['span', {}, el('strong', {}, g.label), ' ', sig(g.value), ' (limit ' + against + ')', el('span', { class: 'muted' }, ' · ' + g.ruleId)].concat(warnings));
+  return el('span', {}, el('strong', {}, g.label), ' ', sig(g.value), ' (limit ' + against + ')', el('span', { class: 'muted' }, ' · ' + g.ruleId));
 }
 
-function renderAnswer(answer, onOpen) {
-  const n = answer.candidates.length;
-  $('answer-status').textContent =
-    answer.passed + ' of ' + answer.searched + ' candidates pass (' + answer.evaluations + ' evaluated, ' + answer.pruned + ' decided without an evaluation of their own); ' +
-    n + (n === 1 ? ' screw is' : ' screws are') + ' listed, ranked by ' + answer.objective.replace(/-/g, ' ') + '. Rule set ' + answer.ruleSetVersion + ', engine ' + answer.engineVersion + '.';
+/** The checks past their warning level (status "warning" in the candidate's checks): why a row needs acknowledgement. */
+function warningText(checks) {
+  const warned = (checks || []).filter(function (c) { return c.status === 'warning'; });
+  if (warned.length === 0) return el('span', { class: 'muted' }, 'none');
+  return el.apply(null, ['span', {}].concat(warned.map(function (c, i) {
+    return el('span', { class: 'warned', 'data-check': c.id }, i > 0 ? '; ' : '', el('strong', {}, c.label), ' ',
+      c.value === null ? 'not computed' : sig(c.value) + (c.warnLimit === null ? '' : ' (warning level ' + sig(c.warnLimit) + ')'));
+  })));
+}
+
+/** The candidates in the order the sort buttons ask for (a copy; the answer's rank order is kept). */
+function sorted(candidates, sort) {
+  const key = function (c) {
+    return sort.by === 'rank' ? c.rank : c.figures[sort.by];
+  };
+  return candidates.slice().sort(function (a, b) {
+    return (sort.descending ? key(b) - key(a) : key(a) - key(b)) || a.rank - b.rank;
+  });
+}
+
+function renderRows(candidates, sort, onOpen) {
+  document.querySelectorAll('#candidates th[data-sort]').forEach(function (th) {
+    const by = th.getAttribute('data-sort');
+    if (by === sort.by) th.setAttribute('aria-sort', sort.descending ? 'descending' : 'ascending');
+    else th.removeAttribute('aria-sort');
+  });
   fillTable(
     $('candidates'),
-    answer.candidates.map(function (c) {
+    sorted(candidates, sort).map(function (c) {
       const f = c.figures;
-      const open = el('button', { type: 'button', class: 'quiet', 'data-rank': c.rank }, 'Open as a new calculation');
+      const open = el('button', { type: 'button', class: 'quiet', 'data-rank': c.rank }, 'Open');
       open.setAttribute('aria-label', 'Open as a new calculation: ' + c.size + ', ' + c.starts + ' start' + (c.starts > 1 ? 's' : '') + ', nut ' + c.nutLength);
       open.addEventListener('click', function () {
         onOpen(c, open);
@@ -142,20 +162,28 @@ function renderAnswer(answer, onOpen) {
         'tr',
         { 'data-rank': c.rank },
         el('td', { class: 'num' }, c.rank),
-        el('th', { scope: 'row' }, c.size),
-        el('td', { class: 'num' }, c.starts),
-        el('td', { class: 'nowrap' }, c.nutLength),
-        el('td', {}, badge('verdict', c.verdict, VERDICTS)),
-        el('td', { class: 'governing' }, governingText(c.governing, c.checks)),
-        el('td', { class: 'num nowrap' }, quantity(f.raiseTorque, 'torque', 'SI')),
+        el('th', { scope: 'row' }, el('span', { class: 'nowrap' }, c.size), el('br'),
+          el('span', { class: 'muted small' }, c.starts + ' start' + (c.starts > 1 ? 's' : '') + ', nut ' + c.nutLength)),
+        el('td', { class: 'verdict' }, badge('verdict', c.verdict, VERDICTS)),
+        el('td', { class: 'governing' }, governingText(c.governing)),
+        el('td', { class: 'warns' }, warningText(c.checks)),
+        el('td', { class: 'num' }, quantity(f.raiseTorque, 'torque', 'SI')),
         el('td', { class: 'num' }, percent(f.efficiency)),
-        el('td', { class: 'num' }, sig(f.lowestStrengthSafetyFactor), el('span', { class: 'muted' }, ' ' + f.lowestStrengthCheck)),
-        el('td', { class: 'num nowrap' }, sig(f.massPerMetre) + ' kg/m'),
+        el('td', { class: 'num' }, sig(f.lowestStrengthSafetyFactor), el('br'), el('span', { class: 'muted small' }, f.lowestStrengthCheck)),
+        el('td', { class: 'num' }, sig(f.massPerMetre) + ' kg/m'),
         el('td', {}, open),
       );
     }),
     $('candidates-empty'),
   );
+}
+
+function renderAnswer(answer, onlyClear, sort, onOpen) {
+  const n = answer.candidates.length;
+  $('answer-status').textContent =
+    answer.passed + ' of ' + answer.searched + ' candidates pass (' + answer.evaluations + ' evaluated, ' + answer.pruned + ' decided without an evaluation of their own); ' +
+    n + (n === 1 ? ' screw is' : ' screws are') + ' listed' + (onlyClear ? ' (only clear ones)' : '') + ', ranked by ' + answer.objective.replace(/-/g, ' ') + '. Rule set ' + answer.ruleSetVersion + ', engine ' + answer.engineVersion + '.';
+  renderRows(answer.candidates, sort, onOpen);
   $('headroom').replaceChildren.apply(
     $('headroom'),
     answer.headroom.length
@@ -178,6 +206,56 @@ function renderAnswer(answer, onOpen) {
   $('answer').hidden = false;
 }
 
+/** Every control of the form by a stable key: its id, or its name and value for the checkbox groups. */
+function controls() {
+  return Array.from($('sizing-form').querySelectorAll('input, select')).map(function (c) {
+    return { key: c.id || c.name + ':' + c.value, control: c };
+  });
+}
+
+function keepDuty(searched) {
+  const state = {};
+  controls().forEach(function (x) {
+    state[x.key] = x.control.type === 'checkbox' ? x.control.checked : x.control.value;
+  });
+  saveDuty({ controls: state, searched: searched });
+}
+
+/** Puts back the form as this tab left it; true when a search had been run then. */
+function restoreDuty() {
+  const saved = savedDuty();
+  if (!saved) return false;
+  controls().forEach(function (x) {
+    if (!Object.prototype.hasOwnProperty.call(saved.controls, x.key)) return;
+    const value = saved.controls[x.key];
+    if (x.control.type === 'checkbox') x.control.checked = value === true;
+    else if (x.control.tagName !== 'SELECT' || x.control.querySelector('option[value="' + String(value).replace(/"/g, '') + '"]')) x.control.value = String(value);
+  });
+  return saved.searched === true;
+}
+
+const NEW_PRODUCT = '(new)';
+
+/** The product chooser: the products listed, the one used last chosen (else the newest), and "register a new one". */
+async function fillProducts() {
+  const select = $('open-product');
+  const products = await api('/api/v1/products?limit=200');
+  const items = products.items.slice();
+  const last = lastProduct();
+  if (last && !items.some(function (p) { return p.id === last; })) {
+    try {
+      items.push(await api('/api/v1/products/' + encodeURIComponent(last)));
+    } catch (err) {
+      // the product remembered is not readable here any more: offer the others
+    }
+  }
+  select.replaceChildren.apply(select, items.map(function (p) {
+    return option(p.id, p.code + ' — ' + p.name);
+  }).concat([option(NEW_PRODUCT, 'Register a new product…')]));
+  const chosen = last && items.some(function (p) { return p.id === last; }) ? last : items.length ? items[items.length - 1].id : NEW_PRODUCT;
+  select.value = chosen;
+}
+
 async function sizingPage() {
   try {
     await loadLibrary();
@@ -189,6 +267,7 @@ async function sizingPage() {
     showProblem($('sizing-problem'), err);
     return;
   }
+  const searchedBefore = restoreDuty();
   const syncCollar = function () {
     const none = $('s-collar-kind').value === 'none';
     $('s-collar-ratio-field').hidden = none;
@@ -196,43 +275,87 @@ async function sizingPage() {
   $('s-collar-kind').addEventListener('change', syncCollar);
   syncCollar();
 
+  let answer = null;
+  let onlyClear = false;
+  const sort = { by: 'rank', descending: false };
   let chosen = null;
   let returnFocus = null;
   const openPanel = $('open');
+  const openForm = $('open-form');
+  const syncNew = function () {
+    $('open-new').hidden = $('open-product').value !== NEW_PRODUCT;
+  };
+  $('open-product').addEventListener('change', syncNew);
+
   async function onOpen(candidate, button) {
     chosen = candidate;
     returnFocus = button;
     clearProblem($('open-problem'));
+    clearFieldErrors(openForm);
     $('open-what').textContent = 'Rank ' + candidate.rank + ': ' + candidate.size + ', ' + candidate.starts + ' start' + (candidate.starts > 1 ? 's' : '') + ', nut ' + candidate.nutLength + ' (' + VERDICTS[candidate.verdict] + ').';
     openPanel.hidden = false;
     try {
-      const products = await api('/api/v1/products?limit=200');
-      $('open-product').replaceChildren.apply($('open-product'), products.items.map(function (p) {
-        return option(p.id, p.code + ' — ' + p.name);
-      }));
-      $('open-submit').disabled = products.items.length === 0;
-      if (products.items.length === 0) showProblem($('open-problem'), new ApiError(0, { title: 'No product is registered yet', detail: 'Register one on the Products page first.' }));
+      await fillProducts();
     } catch (err) {
       showProblem($('open-problem'), err);
     }
-    $('open-product').focus();
+    syncNew();
+    openPanel.scrollIntoView({ block: 'center' });
+    $('open-product').focus({ preventScroll: true });
   }
   $('open-cancel').addEventListener('click', function () {
     openPanel.hidden = true;
     if (returnFocus) returnFocus.focus();
   });
-  $('open-form').addEventListener('submit', function (event) {
+  openForm.addEventListener('submit', async function (event) {
     event.preventDefault();
-    const product = $('open-product').value;
-    if (!chosen || !product) return;
+    if (!chosen) return;
+    const slot = $('open-problem');
+    clearProblem(slot);
+    clearFieldErrors(openForm);
+    let product = $('open-product').value;
+    const submit = $('open-submit');
+    submit.disabled = true;
+    try {
+      if (product === NEW_PRODUCT) {
+        const registered = await api('/api/v1/products', { method: 'POST', body: { code: $('open-code').value.trim(), name: $('open-name').value.trim() } });
+        product = registered.id;
+      }
+    } catch (err) {
+      showProblem(slot, err);
+      showFieldErrors(openForm, fieldErrors(err), function (path) {
+        return openForm.querySelector('[data-path="' + String(path).replace(/"/g, '') + '"]');
+      }, { focus: true });
+      submit.disabled = false;
+      return;
+    }
+    rememberProduct(product);
     putDraft(chosen.design, 'screw selection: rank ' + chosen.rank + ', ' + chosen.size + ', ' + chosen.starts + ' start' + (chosen.starts > 1 ? 's' : '') + ', nut ' + chosen.nutLength);
     location.assign('/design/products/' + encodeURIComponent(product) + '/new');
   });
 
+  document.querySelectorAll('#candidates th[data-sort] button').forEach(function (button) {
+    button.addEventListener('click', function () {
+      const by = button.parentElement.getAttribute('data-sort');
+      // the first press sorts by the column, best first (the larger efficiency and factor, the smaller torque and mass)
+      if (sort.by === by) sort.descending = !sort.descending;
+      else {
+        sort.by = by;
+        sort.descending = by === 'efficiency' || by === 'lowestStrengthSafetyFactor';
+      }
+      if (answer) renderRows(answer.candidates, sort, onOpen);
+    });
+  });
+
   const form = $('sizing-form');
+  form.addEventListener('input', function () {
+    keepDuty(false);
+  });
+  form.addEventListener('change', function () {
+    keepDuty(false);
+  });
   let asked = 0;
-  form.addEventListener('submit', async function (event) {
-    event.preventDefault();
+  async function search(focusAnswer) {
     const mine = ++asked;
     const slot = $('sizing-problem');
     const button = $('sizing-submit');
@@ -241,11 +364,17 @@ async function sizingPage() {
     button.disabled = true;
     $('answer-status').textContent = 'Searching…';
     try {
-      const answer = await api('/api/v1/sizing', { method: 'POST', body: readRequest() });
+      const request = readRequest();
+      const found = await api('/api/v1/sizing', { method: 'POST', body: request });
       if (mine !== asked) return;
+      answer = found;
+      onlyClear = Boolean(request.search.verdicts);
+      sort.by = 'rank';
+      sort.descending = false;
       openPanel.hidden = true;
-      renderAnswer(answer, onOpen);
-      $('answer-heading').focus();
+      renderAnswer(answer, onlyClear, sort, onOpen);
+      keepDuty(true);
+      if (focusAnswer) $('answer-heading').focus();
     } catch (err) {
       if (mine !== asked) return;
       $('answer').hidden = true;
@@ -254,7 +383,13 @@ async function sizingPage() {
     } finally {
       button.disabled = false;
     }
+  }
+  form.addEventListener('submit', function (event) {
+    event.preventDefault();
+    search(true);
   });
+  // Back on the page after a search: the same duty's answer again
+  if (searchedBefore) await search(false);
 }
 
 startPage(sizingPage);

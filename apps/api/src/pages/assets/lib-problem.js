@@ -5,16 +5,22 @@
 import { ApiError } from './lib-api.js';
 import { el } from './lib-dom.js';
 
-/** Shows a refusal in `slot`: title and status, then each field path with its message (or the detail). */
-export function showProblem(slot, err) {
+/**
+ * Shows a refusal in `slot`: title and status, then each field path with its message (or the detail).
+ * options.label(path): the field's name in words (or null to show the path); with it, the title is the refusal's
+ * detail when there are no field errors, and the HTTP status is left out (the words say what to do).
+ */
+export function showProblem(slot, err, options) {
+  const label = options && options.label;
   const problem = err instanceof ApiError ? err.problem : { title: 'Something went wrong', detail: String(err && err.message) };
   const box = el('div', { class: 'problem' });
-  box.append(el('p', { class: 'problem-title' }, problem.title || 'Request refused', err && err.status ? el('span', { class: 'status' }, ' HTTP ' + err.status) : null));
+  box.append(el('p', { class: 'problem-title' }, problem.title || 'Request refused', err && err.status && !label ? el('span', { class: 'status' }, ' HTTP ' + err.status) : null));
   const errors = Array.isArray(problem.errors) ? problem.errors : [];
   if (errors.length) {
     const list = el('ul', { class: 'field-errors' });
     errors.forEach(function (issue) {
-      list.append(el('li', {}, el('code', {}, String(issue.path)), ' ', String(issue.message)));
+      const words = label ? label(String(issue.path)) : null;
+      list.append(el('li', {}, words ? el('strong', {}, words + ':') : el('code', {}, String(issue.path)), ' ', String(issue.message)));
     });
     box.append(list);
   } else if (problem.detail) {

@@ -1,9 +1,14 @@
-/* One revision under review (/review/revisions/:id): header, report frame, findings, decision form. */
-import { api, download } from './lib-api.js';
+/*
+ * One revision under review (/review/revisions/:id): header, the changes since the previous revision (inputs and
+ * results, that revision's decision and comments), what was said on this one, report frame, findings with the
+ * comments on each, and the decision form (no preset decision; a blocked revision offers only Reject).
+ */
+import { api, ApiError, download } from './lib-api.js';
 import { $, el, pathId } from './lib-dom.js';
-import { badge, STATES, time, verdictBadge } from './lib-format.js';
+import { badge, percent, quantity, sig, STATES, time, verdictBadge } from './lib-format.js';
 import { renderFindings, sortedFindings } from './lib-findings.js';
-import { clearProblem, showProblem } from './lib-problem.js';
+import { passkeysAvailable, usePasskey } from './lib-passkey.js';
+import { clearFieldErrors, clearProblem, showFieldErrors, showProblem } from './lib-problem.js';
 import { currentUser, startPage } from './lib-session.js';
 
 /**
@@ -48,16 +53,31 @@ function textField(id, labelNodes, hint, extraAttrs) {
 }
 
 function setUpDecision(rev, reload) {
+  const minLength = Number($('acknowledgements').dataset.minLength || 0);
+  const blocking = rev.findings.filter(function (f) {
+    return f.severity === 'blocking';
+  });
   const warnings = rev.findings.filter(function (f) {
     return f.severity === 'warning';
   });
+  const form = $('decision-form');
   const acks = $('acknowledgements');
   acks.replaceChildren();
-  acks.classList.toggle('empty', warnings.length === 0);
-  if (warnings.length) {
-    acks.append(el('p', { class: 'small' }, 'An approval must acknowledge every warning with a comment.'));
+  if (blocking.length) {
+    // it cannot be approved: say so, name the blocking findings first, offer only Reject
+    $('blocked-notice').replaceChildren(
+      el('strong', {}, 'This revision cannot be approved: '),
+      blocking.length + ' blocking finding' + (blocking.length === 1 ? '' : 's') + ' (' + blocking.map(function (f) { return f.ruleId; }).join(', ') + '). Only a rejection can be recorded; say what must change.',
+    );
+    $('blocked-notice').hidden = false;
+    $('approve-choice').remove();
+    form.querySelector('input[name="decision"][value="reject"]').checked = true;
+  }
+  acks.classList.toggle('empty', warnings.length === 0 || blocking.length > 0);
+  if (warnings.length && !blocking.length) {
+    acks.append(el('p', { class: 'small' }, 'An approval must acknowledge every warning with its reason, at least ' + minLength + ' characters (e.g. "Friction test booked with the supplier").'));
     warnings.forEach(function (f, i) {
-      acks.append(textField('ack-' + i, ['Acknowledge warning ', el('code', {}, f.ruleId), ' ', el('span', { class: 'required' }, '(required)')], f.message, { 'data-finding': f.ruleId, 'aria-required': 'true' }));
+      acks.append(textField('ack-' + i, ['Acknowledge warning ', el('code', {}, f.ruleId), ' ', el('span', { class: 'required' }, '(required, at least ' + minLength + ' characters)')], f.message, { 'data-finding': f.ruleId, 'aria-required': 'true' }));
     });
   }
   const commentFields = $('finding-comment-fields');
@@ -67,55 +87,109 @@ function setUpDecision(rev, reload) {
   });
   $('finding-comments').hidden = rev.findings.length === 0;
 
-  const form = $('decision-form');
   const slot = $('decision-problem');
   function chosen() {
-    return form.querySelector('input[name="decision"]:checked').value;
+    const checked = form.querySelector('input[name="decision"]:checked');
+    return checked ? checked.value : null;
   }
   function sync() {
-    const approving = chosen() === 'approve';
-    acks.hidden = !approving;
-    $('decision-comment').setAttribute('aria-required', approving ? 'false' : 'true');
-    $('decision-submit').textContent = approving ? 'Approve revision ' + rev.revision : 'Reject revision ' + rev.revision;
+    const decision = chosen();
+    acks.hidden = decision !== 'approve';
+    $('decision-comment').setAttribute('aria-required', decision === 'reject' ? 'true' : 'false');
+    $('decision-submit').textContent = decision === 'approve' ? 'Approve revision ' + rev.revision : decision === 'reject' ? 'Reject revision ' + rev.revision : 'Sign and record decision';
   }
   form.querySelectorAll('input[name="decision"]').forEach(function (radio) {
     radio.addEventListener('change', sync);
   });
   sync();
 
+  let sentAcks = [];
+  let sentComments = [];
+  /** The box a field path names, for the message at the field and the focus. */
+  function locate(path) {
+    let m;
+    if (path === 'decision') return form.querySelector('input[name="decision"]');
+    if (path === 'comment') return $('decision-comment');
+    if (/^signature/.test(path)) return passkeySigner() ? $('signature-passkey') : $('signature-password-field').hidden ? $('signature-oidc-start') : $('signature-password');
+    if (path === 'acknowledgements') {
+      return Array.from(acks.querySelectorAll('textarea')).find(function (area) { return area.value.trim().length < minLength; }) || acks.querySelector('textarea');
+    }
+    if ((m = /^acknowledgements\.(\d+)/.exec(path))) return sentAcks[m[1]] || null;
+    if ((m = /^comments\.(\d+)/.exec(path))) return sentComments[m[1]] || null;
+    return null;
+  }
+  /** A field path in words, for the summary above the button. */
+  function label(path) {
+    if (/^signature/.test(path)) return 'Electronic signature';
+    const box = locate(path);
+    if (box && box.type === 'radio') return 'Decision';
+    if (box && box.id) {
+      const l = document.querySelector('label[for="' + box.id + '"]');
+      if (l) return l.textContent.replace(/\s*\(.*\)\s*$/, '').trim();
+    }
+    if (/^signature/.test(path)) return 'Electronic signature';
+    return path;
+  }
+  function refuse(err) {
+    showProblem(slot, err, { label: label });
+    const errors = (err.problem && err.problem.errors) || [];
+    const unplaced = showFieldErrors(form, errors, locate, { focus: true });
+    if (errors.length === 0 || unplaced.length === errors.length) {
+      slot.setAttribute('tabindex', '-1');
+      slot.focus();
+    }
+  }
+
   form.addEventListener('submit', async function (event) {
     event.preventDefault();
     clearProblem(slot);
-    form.querySelectorAll('[aria-invalid]').forEach(function (node) {
-      node.removeAttribute('aria-invalid');
-    });
+    clearFieldErrors(form);
     const decision = chosen();
+    const issues = [];
+    if (!decision) issues.push({ path: 'decision', message: 'choose Approve or Reject' });
     const body = { decision: decision };
     const comment = $('decision-comment').value.trim();
     if (comment) body.comment = comment;
-    const sentAcks = [];
+    else if (decision === 'reject') issues.push({ path: 'comment', message: 'a rejection says what must change' });
+    sentAcks = [];
     if (decision === 'approve') {
       acks.querySelectorAll('textarea').forEach(function (area) {
         if (area.value.trim()) sentAcks.push(area);
+        if (area.value.trim().length < minLength) issues.push({ path: 'acknowledgements', message: 'give the reason for accepting this warning in at least ' + minLength + ' characters', box: area });
       });
       if (sentAcks.length) body.acknowledgements = sentAcks.map(function (area) {
         return { finding: area.dataset.finding, comment: area.value.trim() };
       });
     }
-    const sentComments = [];
+    sentComments = [];
     commentFields.querySelectorAll('textarea').forEach(function (area) {
       if (area.value.trim()) sentComments.push(area);
     });
     if (sentComments.length) body.comments = sentComments.map(function (area) {
       return { text: area.value.trim(), target: { finding: area.dataset.finding } };
     });
+    if (issues.length) {
+      // said here before anything is sent, in the same words and places as the service's refusal
+      const boxes = issues.map(function (i) { return i.box || locate(i.path); });
+      const shown = issues.map(function (i, k) { return { path: String(k), message: i.message }; });
+      const words = function (k) {
+        const box = boxes[Number(k)];
+        if (box && box.type === 'radio') return 'Decision';
+        const l = box && box.id ? document.querySelector('label[for="' + box.id + '"]') : null;
+        return l ? l.textContent.replace(/\s*\(.*\)\s*$/, '').trim() : null;
+      };
+      showProblem(slot, new ApiError(0, { title: 'Not recorded: ' + issues.length + ' field' + (issues.length === 1 ? '' : 's') + ' to complete', errors: shown }), { label: words });
+      showFieldErrors(form, shown, function (k) { return boxes[Number(k)]; }, { focus: true });
+      return;
+    }
     // signed at the identity provider (a fresh login for this revision), or with the password given now; without
     // either the service refuses the unsigned decision itself (403 naming signature)
-    if (oidcSigner()) body.signature = { method: 'oidc' };
-    else if ($('signature-password').value) body.signature = { method: 'password', password: $('signature-password').value };
     const button = $('decision-submit');
     button.disabled = true;
     try {
+      if (passkeySigner()) body.signature = await passkeySignature(rev.id);
+      else if (oidcSigner()) body.signature = { method: 'oidc' };
+      else if ($('signature-password').value) body.signature = { method: 'password', password: $('signature-password').value };
       const result = await api('/api/v1/revisions/' + encodeURIComponent(rev.id) + '/decisions', { method: 'POST', body: body });
       $('decision').hidden = true;
       const done = $('decision-done');
@@ -126,30 +200,132 @@ function setUpDecision(rev, reload) {
       reload();
     } catch (err) {
       $('signature-password').value = '';
-      showProblem(slot, err);
-      markInvalid(err, sentAcks, sentComments, acks);
-      if (((err.problem && err.problem.errors) || []).some(function (i) { return /^signature/.test(String(i.path)); })) $('signature-password').setAttribute('aria-invalid', 'true');
-      slot.scrollIntoView({ block: 'nearest' });
+      refuse(err && err.name === 'NotAllowedError'
+        ? new ApiError(0, { title: 'Not recorded: the passkey did not sign', errors: [{ path: 'signature', message: 'the passkey did not sign (cancelled or timed out)' }] })
+        : err);
     } finally {
       button.disabled = false;
     }
   });
 }
 
-/** Points the field paths of a 422 back at the boxes they came from. */
-function markInvalid(err, sentAcks, sentComments, acks) {
-  const errors = (err.problem && err.problem.errors) || [];
-  errors.forEach(function (issue) {
-    const path = String(issue.path);
-    let m;
-    if (path === 'comment') $('decision-comment').setAttribute('aria-invalid', 'true');
-    else if (path === 'acknowledgements') {
-      acks.querySelectorAll('textarea').forEach(function (area) {
-        if (!area.value.trim()) area.setAttribute('aria-invalid', 'true');
-      });
-    } else if ((m = /^acknowledgements\.(\d+)/.exec(path)) && sentAcks[m[1]]) sentAcks[m[1]].setAttribute('aria-invalid', 'true');
-    else if ((m = /^comments\.(\d+)/.exec(path)) && sentComments[m[1]]) sentComments[m[1]].setAttribute('aria-invalid', 'true');
+/** What a remark is about, in words. */
+function remarkTarget(target) {
+  if (!target) return '';
+  return 'field' in target ? ' on ' + designLabel(target.field) : ' on finding ' + target.finding;
+}
+
+const REMARK_KINDS = { comment: 'Comment', decision: 'Decision comment', acknowledgement: 'Acknowledgement', withdrawal: 'Withdrawal' };
+
+/** One remark as a list item: who, what kind, on what, when, and the text. */
+function remarkItem(r) {
+  return el('li', { class: 'remark remark-' + r.kind },
+    el('strong', {}, REMARK_KINDS[r.kind] || r.kind), remarkTarget(r.target), ' — ', r.by ? r.by.name : 'unknown', ', ', time(r.at), ' UTC: ',
+    el('span', { class: 'remark-text' }, r.text));
+}
+
+/** Input field paths in words, from the comparison (GET /revisions/:id/diff names each changed input). */
+const fieldLabels = {};
+function designLabel(path) {
+  return fieldLabels[path.replace(/^design\./, '')] || path;
+}
+
+/** What was said on this revision, and each finding's comments beside it. */
+function renderRemarks(rev) {
+  const remarks = rev.review.remarks || [];
+  $('remarks').replaceChildren(...remarks.map(remarkItem));
+  $('remarks-section').hidden = remarks.length === 0;
+  document.querySelectorAll('#findings li[data-rule]').forEach(function (li) {
+    const on = remarks.filter(function (r) { return r.target && r.target.finding === li.dataset.rule; });
+    const old = li.querySelector('.finding-remarks');
+    if (old) old.remove();
+    if (on.length) li.append(el('ul', { class: 'finding-remarks remarks', 'aria-label': 'Comments on ' + li.dataset.rule }, ...on.map(remarkItem)));
   });
+}
+
+/** Whether the signer chose their passkey. */
+function passkeySigner() {
+  return !$('signature-passkey-field').hidden && $('signature-passkey').checked;
+}
+
+/** A passkey signature over this revision's record hash: the service's one-use challenge, signed by the authenticator. */
+async function passkeySignature(revisionId) {
+  const challenge = await api('/api/v1/revisions/' + encodeURIComponent(revisionId) + '/passkey-challenges', { method: 'POST' });
+  return { method: 'passkey', challengeId: challenge.challengeId, response: await usePasskey(challenge.options) };
+}
+
+/** Offers the passkey when this browser can use one and the signer has one here (chosen already after a passkey sign-in). */
+async function setUpPasskeySignature() {
+  if (!passkeysAvailable()) return;
+  const keys = (await api('/api/v1/account/passkeys')).items.filter(function (k) { return k.rpId === location.hostname; });
+  if (keys.length === 0) return;
+  $('signature-passkey-field').hidden = false;
+  const me = currentUser();
+  $('signature-passkey').checked = Boolean(me && me.authMethod === 'passkey');
+  const sync = function () {
+    $('signature-password-field').hidden = $('signature-passkey').checked || oidcSigner();
+  };
+  $('signature-passkey').addEventListener('change', sync);
+  sync();
+}
+
+function checkFigure(c) {
+  if (!c || c.value === null || c.value === undefined) return 'not computed';
+  return c.quantity === 'fraction' ? percent(c.value) : sig(c.value);
+}
+
+/** "Changes since revision N": inputs and results, that revision's decision and comments, and the compare link. */
+async function renderChanges(rev) {
+  if (rev.revision < 2) return;
+  const list = await api('/api/v1/calculations/' + encodeURIComponent(rev.calculationId) + '/revisions?view=summary&after=' + (rev.revision - 2) + '&limit=1');
+  const previous = list.items[0];
+  if (!previous || previous.revision !== rev.revision - 1) return;
+  const [diff, before] = await Promise.all([
+    api('/api/v1/revisions/' + encodeURIComponent(rev.id) + '/diff?against=' + encodeURIComponent(previous.id)),
+    api('/api/v1/revisions/' + encodeURIComponent(previous.id)),
+  ]);
+  const n = previous.revision;
+  diff.inputs.forEach(function (c) { fieldLabels[c.path] = c.label; });
+  $('changes-heading').textContent = 'Changes since revision ' + n;
+  const state = before.review;
+  $('previous-review').replaceChildren(
+    'Revision ' + n + ': ', badge('state', state.state, STATES),
+    state.decidedBy ? ' by ' + state.decidedBy.name + ' at ' + time(state.decidedAt) + ' UTC' : '',
+    before.note ? '. Its note: ' + before.note : '', '.',
+  );
+  const remarks = state.remarks || [];
+  $('previous-remarks').replaceChildren(...(remarks.length ? remarks.map(remarkItem) : [el('li', { class: 'muted' }, 'Nothing was said on revision ' + n + '.')]));
+  $('previous-remarks').setAttribute('aria-label', 'What was said on revision ' + n);
+  $('changes-governing').replaceChildren(
+    el('strong', {}, 'Governing check: '),
+    rev.governing ? rev.governing.label + ' ' + checkFigure(rev.governing) : 'none',
+    ' (revision ' + n + ': ' + (before.governing ? before.governing.label + ' ' + checkFigure(before.governing) : 'none') + '). Verdict of the rules: ',
+    verdictBadge(rev.verdict, rev.review.state), ' (revision ' + n + ': ', verdictBadge(before.verdict, state.state), ').',
+  );
+  ['inputs', 'results'].forEach(function (part) {
+    $('changes-' + part + '-caption').textContent = (part === 'inputs' ? 'Inputs' : 'Results') + ' changed since revision ' + n;
+    $('changes-' + part + '-before').textContent = 'Revision ' + n;
+    $('changes-' + part + '-after').textContent = 'Revision ' + rev.revision;
+  });
+  const onField = function (path) {
+    return remarks.concat(rev.review.remarks || []).filter(function (r) { return r.target && r.target.field && r.target.field.replace(/^design\./, '') === path; });
+  };
+  const shown = function (v) {
+    return v === undefined || v === null || v === '' ? '(not given)' : v === true ? 'yes' : v === false ? 'no' : String(v);
+  };
+  $('changes-inputs').tBodies[0].replaceChildren(...(diff.inputs.length ? diff.inputs.map(function (c) {
+    const said = onField(c.path);
+    return el('tr', { 'data-path': c.path }, el('th', { scope: 'row' }, c.label, said.length ? el('ul', { class: 'remarks small' }, ...said.map(remarkItem)) : null), el('td', {}, shown(c.from)), el('td', {}, shown(c.to)));
+  }) : [el('tr', {}, el('td', { colspan: 3 }, 'No input changed.'))]));
+  $('changes-results').tBodies[0].replaceChildren(...(diff.results.length ? diff.results.map(function (c) {
+    const value = function (v, missing) {
+      return missing ? 'not computed by its engine' : c.quantity ? quantity(v, c.quantity, 'SI') : shown(v);
+    };
+    return el('tr', { 'data-path': c.path }, el('th', { scope: 'row' }, c.label || c.path), el('td', {}, value(c.from, c.notComputed === 'from')), el('td', {}, value(c.to, c.notComputed === 'to')));
+  }) : [el('tr', {}, el('td', { colspan: 3 }, 'No result changed.'))]));
+  $('compare-link').setAttribute('href', '/design/calculations/' + encodeURIComponent(rev.calculationId) + '#compare');
+  $('compare-link').textContent = 'Compare revisions ' + n + ' and ' + rev.revision + ' side by side';
+  $('changes').hidden = false;
 }
 
 /** A user signed in at the identity provider signs there too (a fresh login, max_age=0), not with a password. */
@@ -178,6 +354,7 @@ async function revisionPage() {
     const rev = await api(base);
     const related = await Promise.all([api('/api/v1/products/' + encodeURIComponent(rev.productId)), api('/api/v1/calculations/' + encodeURIComponent(rev.calculationId))]);
     renderHeader(rev, related[0], related[1]);
+    renderRemarks(rev);
     return { rev: rev, product: related[0] };
   }
   try {
@@ -185,7 +362,13 @@ async function revisionPage() {
     const rev = loaded.rev;
     $('audit-link').setAttribute('href', '/review/products/' + encodeURIComponent(rev.productId) + '/audit');
     renderFindings($('findings'), rev.findings);
+    renderRemarks(rev);
     $('revision').hidden = false;
+    try {
+      await renderChanges(rev);
+    } catch (err) {
+      showProblem(problemSlot, err);
+    }
     const me = currentUser();
     if (rev.review.state === 'submitted' && me && !me.roles.includes('reviewer')) {
       const done = $('decision-done');
@@ -193,6 +376,9 @@ async function revisionPage() {
       done.hidden = false;
     } else if (rev.review.state === 'submitted') {
       setUpProviderSignature(rev.id);
+      setUpPasskeySignature().catch(function (err) {
+        showProblem(problemSlot, err);
+      });
       setUpDecision(rev, function () {
         loadHeader().catch(function (err) {
           showProblem(problemSlot, err);

@@ -4,6 +4,7 @@
  */
 import { ApiError, request } from './lib-api.js';
 import { $ } from './lib-dom.js';
+import { passkeysAvailable, usePasskey } from './lib-passkey.js';
 import { clearProblem, showProblem } from './lib-problem.js';
 
 /** The page to return to: a path of this site only (never another origin). */
@@ -37,6 +38,7 @@ function start() {
     clearProblem(slot);
     location.assign(nextPath());
   });
+  setUpPasskey();
   $('activate-form').addEventListener('submit', async function (event) {
     event.preventDefault();
     const slot = $('activate-problem');
@@ -56,6 +58,31 @@ function start() {
     } catch (err) {
       showProblem(slot, err);
     }
+  });
+}
+
+/** Sign-in with a passkey the user added on their account page (the authenticator offers it; no email needed). */
+function setUpPasskey() {
+  const button = $('passkey-sign-in');
+  if (!passkeysAvailable()) {
+    button.disabled = true;
+    $('passkey-sign-in-note').textContent = 'Passkeys need HTTPS (or localhost) and a browser that supports them.';
+    return;
+  }
+  button.addEventListener('click', async function () {
+    const slot = $('sign-in-problem');
+    button.disabled = true;
+    try {
+      const start = await request('/api/v1/sessions/passkey/options', { method: 'POST', public: true });
+      const response = await usePasskey(start.options);
+      await request('/api/v1/sessions/passkey', { method: 'POST', body: { challengeId: start.challengeId, response: response }, public: true });
+    } catch (err) {
+      showProblem(slot, err && err.name === 'NotAllowedError' ? { message: 'No passkey was used (cancelled or timed out).' } : err);
+      button.disabled = false;
+      return;
+    }
+    clearProblem(slot);
+    location.assign(nextPath());
   });
 }
 

@@ -1,12 +1,14 @@
 /**
- * Section 4 of the report, the calculation: every traced result in reading order with its registered formula, the values substituted and its source, and each section's notes on the design.
+ * Section 4 of the report, the calculation: every traced result in reading order with its registered formula, the values
+ * substituted and its source; each section's notes are facts here (calculation-notes.ts) and sentences in templates.
  */
 import type { Finding } from '@leadline/contracts';
-import { FORMULAS, type Design, type Evaluation, type FrictionRange } from '@leadline/mechanics';
-import { coefficient, formatNumber, formatQuantity, sig, unitSymbol, type QuantityKind, type UnitSystem } from '@leadline/presentation';
+import { FORMULAS, type Design, type Evaluation } from '@leadline/mechanics';
+import { formatNumber, formatQuantity, sig, unitSymbol, type QuantityKind, type UnitSystem } from '@leadline/presentation';
 import { PRESENTATION, SYMBOL_KINDS, type Substituted } from '../formula-presentation';
 import { escapeHtml, mathHtml, mathText } from '../markup';
 import type { CalcLine, CalcSection, FindingRef } from '../report-view';
+import { sectionNotes } from './calculation-notes';
 
 // ---------------------------------------------------------------------------------------------------------
 // Labels
@@ -203,130 +205,6 @@ export function calcLine(path: string, evaluation: Evaluation, system: UnitSyste
   };
 }
 
-export function sectionNotes(id: string, design: Design, e: Evaluation, system: UnitSystem): string[] {
-  const q = (si: number, kind: QuantityKind) => formatQuantity(si, kind, system);
-  const fr = (r: FrictionRange | null) => (r ? `${coefficient(r.min)} to ${coefficient(r.max)}` : 'none');
-  switch (id) {
-    case 'geometry':
-      return [`${e.geometry.standard}${e.geometry.size ? `, size ${e.geometry.size}` : ''}; ${e.geometry.starts} start${e.geometry.starts > 1 ? 's' : ''}.`];
-    case 'torque':
-      return [
-        `Axial load F = ${q(design.load.axial, 'force')} (${design.load.sense}). Thread friction f = ${fr(design.friction.thread)}; collar friction f_c = ${fr(design.friction.collar)} (${design.collar.kind}${design.collar.kind === 'annular' ? `, ${design.collar.model}` : ''} collar).`,
-        'Negative lowering torque: the load drives the screw down and the drive or a brake must hold it.',
-      ];
-    case 'self-locking':
-      return [
-        e.selfLocking.locks
-          ? `The thread holds the load at the lowest friction in the range: f_min = ${coefficient(design.friction.thread.min)} exceeds the boundary cos α_n tan λ = ${sig(e.selfLocking.boundaryFriction)}.`
-          : `The thread does not hold the load at the lowest friction: f_min = ${coefficient(design.friction.thread.min)} is at or below the boundary cos α_n tan λ = ${sig(e.selfLocking.boundaryFriction)}; the load back-drives the screw.`,
-        `Collar friction is ignored here (the safe side). Brake fitted: ${design.duty.brake ? 'yes' : 'no'}. Vibration expected: ${design.duty.vibration ? 'yes' : 'no'}.`,
-      ];
-    case 'threads':
-      return threadNotes(design, e, system);
-    case 'column': {
-      const b = e.buckling;
-      if (!b.applies) return ['The screw is in tension: column buckling does not apply.'];
-      return [
-        `Unsupported length L = ${q(design.screw.unsupportedLength, 'length')}, ends ${design.screw.ends}, end-condition constant C = ${sig(b.endConditionConstant)} (${b.endConditionBasis}); k = d_r / 4 on the root diameter.`,
-        `Regime: ${b.regime === 'euler' ? 'Euler, since l/k is at or above the transition slenderness' : 'Johnson, since l/k is below the transition slenderness'}.`,
-      ];
-    }
-    case 'brake': {
-      const b = e.brake;
-      if (!b) return ['This evaluation was made by an engine version that did not report brake figures.'];
-      return [
-        'The brake must hold the load when thread friction is lost (vibration, lubrication, wear): T_0 = F l / (2π), the lowering torque in the limit f → 0; collar friction is ignored (the safe side).',
-        `Brake fitted: ${design.duty.brake ? 'yes' : 'no'}${design.duty.brake ? `, on the ${b.location}` : ''}; rated torque ${b.ratedTorque === null ? 'not stated' : q(b.ratedTorque, 'torque')}. A reverse efficiency at or below zero means the load cannot drive the screw at minimum friction.`,
-      ];
-    }
-    case 'whirl': {
-      const cs = e.criticalSpeed;
-      const span = cs.span ?? design.screw.unsupportedLength;
-      const ends = cs.ends ?? design.screw.ends;
-      const notes = [`Uniform shaft on the root diameter between supports L = ${q(span, 'length')}${design.screw.whirlSpan != null ? ' (stated whirl span)' : ' (the column length)'}, ends ${ends}${design.screw.whirlEnds != null ? ' (stated for whirl)' : ''}, β₁L = ${sig(cs.frequencyFactor)}. Axial load and gyroscopic effects are neglected.`];
-      if (cs.partlyFixed) {
-        notes.push(`Fixed ends taken as only partly fixed (common practice, the same partial fixity as the recommended column constant C = ${sig(cs.partlyFixed.endConditionConstant)}): a simply supported shaft over L / √C, (β₁L)′ = π√C = ${sig(cs.partlyFixed.frequencyFactor)}, ${sig(cs.partlyFixed.factor)} × the classical critical speed. The whirl check uses the lower speed.`);
-      }
-      return notes;
-    }
-    case 'wear':
-      return wearNotes(design, e, system);
-    case 'power': {
-      if (!design.drive) return ['No drive torque given.'];
-      const d = e.drive;
-      const gb = design.drive.gearbox ?? null;
-      const notes = [`Drive torque available at start: ${q(design.drive.availableTorque, 'torque')}${gb ? ' at the motor' : ''}.`];
-      if (d?.loadMassBasis === 'not-included') notes.push('Load mass not given and not lifting duty: the load inertia is not included in the acceleration torque.');
-      if (d?.loadMassBasis === 'weight') notes.push('Load mass taken from the lifted weight, m = F / g_n.');
-      if (d && d.angularAcceleration === null) notes.push('No acceleration given: the peak torque is the steady raise torque.');
-      if (gb) notes.push(`Gearbox ratio ${sig(gb.ratio)}, forward efficiency ${sig(gb.efficiency)}, reverse efficiency ${sig(gb.reverseEfficiency)}; motor and gearbox inertia are not included.`);
-      notes.push('The drive check uses the peak torque at the motor, not the steady torque.');
-      return notes;
-    }
-    default:
-      return [];
-  }
-}
-
-/** Thread-stress notes: load share, root fillet, stripping planes and the nut's own threads. */
-export function threadNotes(design: Design, e: Evaluation, system: UnitSystem): string[] {
-  const notes = [
-    'First thread carries max(0.38 F, F / n_t) (after Marshek; the mean share governs below 2.6 engaged threads); even sharing F / n_t is printed for comparison. ' +
-      'The root von Mises stress is taken at the worse of the two root fillets (the bending stress has one sign on each).',
-  ];
-  const st = e.stresses.stripping as Partial<Evaluation['stresses']['stripping']>;
-  if (st.screwArea !== undefined && st.nutArea !== undefined) {
-    notes.push(
-      `Stripping on the standard shear planes: the screw's threads on the cylinder at the nut's minor diameter D1 = ${formatQuantity(e.geometry.nutMinorDiameter, 'length', system)} ` +
-        `(area ${formatQuantity(st.screwArea, 'area', system)}), the nut's threads at the screw's major diameter (area ${formatQuantity(st.nutArea, 'area', system)}); both judged against 0.577 S_y of their own material.`,
-    );
-  } else {
-    notes.push('Stripping is judged against 0.577 S_y (this evaluation was made by an engine version with the earlier shear planes).');
-  }
-  if (e.stresses.nutThread) {
-    notes.push(
-      design.nut.yieldStrength === null
-        ? "The nut's own threads (root bending and shear) cannot be judged: the nut has no yield strength on record."
-        : `The nut's own threads are judged against the nut's yield strength ${formatQuantity(design.nut.yieldStrength, 'stress', system)} with the same minimum factors as the screw threads.`,
-    );
-  }
-  return notes;
-}
-
-/** Nut-wear notes: the material as entered, and which allowable pressure applied at which rubbing speed. */
-export function wearNotes(design: Design, e: Evaluation, system: UnitSystem): string[] {
-  const q = (si: number, kind: QuantityKind) => formatQuantity(si, kind, system);
-  const w = e.wear;
-  const material =
-    design.nut.material === null
-      ? 'not named'
-      : design.nut.materialSource === 'design'
-        ? `${design.nut.material} (the design's own material, as entered)`
-        : design.nut.material;
-  const notes = [`Nut material: ${material}; allowable pV ${design.nut.allowablePv === null ? 'not known' : q(design.nut.allowablePv, 'pv')}.`];
-  if (w.allowablePressureBasis === 'any-speed') {
-    notes.push(`Allowable pressure ${q(w.allowablePressure as number, 'pressure')}: the design's own single value, used at any rubbing speed (handbook allowables fall steeply with speed).`);
-  } else if (w.allowablePressureBasis === 'speed-rated') {
-    notes.push(
-      `Allowable pressure ${w.allowablePressure === null ? 'not known' : q(w.allowablePressure, 'pressure')} for the class "${w.allowablePressureClass}"` +
-        `${w.slidingVelocity === null ? '' : ` at a rubbing speed of ${q(w.slidingVelocity, 'slidingSpeed')}`} (${w.allowablePressureSource}).`,
-    );
-    const steps = design.nut.pressureBySpeed ?? [];
-    if (steps.length > 0) {
-      notes.push(
-        'Allowable against rubbing speed: ' +
-          steps
-            .map((s) => `${s.allowablePressure === null ? 'none published' : q(s.allowablePressure, 'pressure')} ${s.upToRubbingSpeed === null ? 'above' : `up to ${q(s.upToRubbingSpeed, 'slidingSpeed')}`}`)
-            .join('; ') +
-          '.',
-      );
-    }
-  } else {
-    notes.push(`Allowable pressure ${w.allowablePressure === null ? 'not known' : q(w.allowablePressure, 'pressure')}.`);
-  }
-  return notes;
-}
-
 export function buildSections(design: Design, e: Evaluation, system: UnitSystem, findings: readonly Finding[]): CalcSection[] {
   const paths = Object.keys(e.trace).sort((a, b) => pathOrder(a) - pathOrder(b) || a.localeCompare(b));
   const taken = new Set<string>();
@@ -349,7 +227,7 @@ export function buildSections(design: Design, e: Evaluation, system: UnitSystem,
   const rest = paths.filter((p) => !taken.has(p));
   if (rest.length > 0) {
     n++;
-    sections.push({ id: 'other', number: `4.${n}`, title: 'Further results', notes: [], lines: rest.map((p) => calcLine(p, e, system, findings)), chart: null });
+    sections.push({ id: 'other', number: `4.${n}`, title: 'Further results', notes: null, lines: rest.map((p) => calcLine(p, e, system, findings)), chart: null });
   }
   return sections;
 }

@@ -104,7 +104,8 @@ export function minimumMaterialRows(g: Evaluation['geometry'], system: UnitSyste
   const mm = g.minimumMaterial;
   if (!mm) return [];
   if (mm.toleranceClass === null) {
-    return [{ label: 'Tolerance class', value: 'none named: the checks use the basic profile; the minimum-material diameters of any class are lower for the screw and higher for the nut, so real stresses are somewhat higher' }];
+    // What the engine recorded as its basis: for most forms the basic profile, for Acme the root every class shares
+    return [{ label: 'Tolerance class', value: `none named; the checks use the ${mm.basis}` }];
   }
   const L = (si: number) => formatQuantity(si, 'length', system);
   return [
@@ -112,6 +113,22 @@ export function minimumMaterialRows(g: Evaluation['geometry'], system: UnitSyste
     { label: 'Minimum-material screw diameters: major, pitch, minor', value: `${L(mm.majorDiameter)}, ${L(mm.pitchDiameter)}, ${L(mm.minorDiameter)}` },
     { label: 'Minimum-material nut diameters: minor D1, pitch D2', value: `${L(mm.nutMinorDiameter)}, ${L(mm.nutPitchDiameter)}` },
     { label: 'Flank engagement at minimum material (d_min − D1_max) / 2', value: L(mm.engagedHeight) },
+  ];
+}
+
+/**
+ * The minor diameter, and which root the body, column and whirl checks used: the evaluation's minimum-material root
+ * when it recorded one that differs from the basic minor diameter (a tolerance class, or Acme without a class from
+ * engine 1.2 on), else the basic one (earlier engines recorded no minimum-material diameters).
+ */
+export function minorDiameterRows(g: Evaluation['geometry'], L: (si: number) => string): KeyValue[] {
+  const used = g.minimumMaterial?.minorDiameter ?? g.minorDiameter;
+  if (Math.abs(used - g.minorDiameter) <= 1e-12 * g.minorDiameter) {
+    return [{ label: 'Minor diameter d_r (the section of the body, column and whirl checks)', value: L(g.minorDiameter) }];
+  }
+  return [
+    { label: 'Basic minor diameter d_r (not used by the checks)', value: L(g.minorDiameter) },
+    { label: 'Minimum-material minor diameter d_r,min (the section of the body, column and whirl checks)', value: L(used) },
   ];
 }
 
@@ -131,7 +148,7 @@ export function geometryRows(e: Evaluation, system: UnitSystem, engineVersion: s
     { label: 'Starts n_s', value: String(g.starts) },
     { label: 'Lead l', value: L(g.lead) },
     { label: 'Mean diameter d_m', value: L(g.meanDiameter) },
-    { label: 'Minor diameter d_r (the section of the body, column and whirl checks)', value: L(g.minorDiameter) },
+    ...minorDiameterRows(g, L),
     { label: 'Minor-diameter area π d_r² / 4', value: g.minorDiameterArea === undefined ? older : formatQuantity(g.minorDiameterArea, 'area', system) },
     ...(g.tensileStressArea == null
       ? []
