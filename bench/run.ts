@@ -9,10 +9,12 @@
  *   workbench: in Chromium, input change in the design form to results panel updated, p50/p95 over 50 edits
  *   sizing: the full default screw-selection search vs its evaluations alone, and over HTTP
  *   5. PDF report render with a warm browser vs bare page.pdf of the same HTML                            goal <= 1.5x
+ *   design-files: design files rendered by queue workers with 1, 2 and 4 workers (files a second, ratios to one),
+ *      and POST /api/v1/evaluations at rest vs while design files render (p99 side by side)
  * Rounds alternate baseline and subject so machine noise hits both alike, after a 1 s warm-up of each. Requires PostgreSQL:
  * DATABASE_URL (default postgres://postgres@127.0.0.1:5432/postgres); scratch databases are created and dropped.
  * Settings: BENCH_SECONDS (5), BENCH_ROUNDS (3), BENCH_GROWTH_MAX (100000); BENCH_QUICK=1 means 2 s, 1 round, 10k.
- * `node dist/bench/run.js engine|http|growth|workbench|sizing|pdf` runs one part. A full run writes its figures into
+ * `node dist/bench/run.js engine|http|growth|design-files|workbench|sizing|pdf` runs one part. A full run writes its figures into
  * docs/performance.md (between the bench markers) with the commit measured.
  */
 import 'reflect-metadata';
@@ -241,6 +243,12 @@ async function main() {
     results.push(...g.stages.map((s) => ({ name: 'growth stage', ...s })), g.download, g.queue, g.startup);
   }
 
+  if (!only || only === 'design-files') {
+    const { benchDesignFiles } = await import('./design-files.bench');
+    results.push(...(await withScratchDatabase('designfiles', (url) => benchDesignFiles({
+      url, design: JSON.parse(design), seconds, rounds, load: (u, method, body, as, duration) => load(u, method, body, as, duration),
+    }))));
+  }
   if (!only || only === 'workbench') results.push(await (await import('./workbench.bench')).benchWorkbench());
   if (!only || only === 'sizing') results.push(await (await import('./sizing.bench')).benchSizing());
 

@@ -618,6 +618,61 @@ async function queueDelivery(): Promise<Figures> {
   }
 }
 
+/**
+ * A design-file job whose instance is killed (SIGKILL) while it renders: another instance takes it once the lease
+ * (LEADLINE_QUEUE_LEASE_SECONDS, short here) has run out, and the file is rendered once and kept.
+ */
+async function queueDesignFile(): Promise<Figures> {
+  const began = Date.now();
+  const db = await createDatabase(SERVER_URL);
+  const LEASE = 6;
+  const env = { DATABASE_URL: db.url, LEADLINE_DB_POOL: '5', LEADLINE_QUEUE_POLL_MS: '500', LEADLINE_QUEUE_LEASE_SECONDS: String(LEASE) };
+  const job = async (id: string) =>
+    withClient(db.url, async (q) => (await q.query(`SELECT state, attempts, locked_by, result FROM queue.jobs WHERE id = $1`, [id])).rows[0] as
+      { state: string; attempts: number; locked_by: string | null; result: { fileId: string; href: string; reused: boolean } | null } | undefined);
+  try {
+    const a = await startService(PORT_BASE + 7, { ...env, LEADLINE_WORKERS: '1' });
+    const actors = await setupActors(a.url);
+    const { productId } = await openCalculation(a.url, actors.author, 'QD-1', 12);
+    const accepted = await call(a.url, 'POST', `/api/v1/products/${productId}/design-files`, actors.reviewer, { paper: 'A4' });
+    if (accepted.status !== 202) throw new Error(`design-files: ${accepted.status} ${JSON.stringify(accepted.body)}`);
+    const id = accepted.body.jobId as string;
+    // kill the instance as soon as it holds the job
+    const deadline = Date.now() + 30_000;
+    let taken = await job(id);
+    while (taken?.state !== 'running' && Date.now() < deadline) {
+      await sleep(10);
+      taken = await job(id);
+    }
+    await stopService(a, 'SIGKILL');
+    const killed = Date.now();
+    const afterKill = await job(id);
+    const b = await startService(PORT_BASE + 8, { ...env, LEADLINE_WORKERS: '2' });
+    let done = await job(id);
+    while (done?.state !== 'done' && done?.state !== 'failed' && Date.now() < killed + 90_000) {
+      await sleep(200);
+      done = await job(id);
+    }
+    const retakenAfterSeconds = (Date.now() - killed) / 1000;
+    const status = await call(b.url, 'GET', `/api/v1/jobs/${id}`, actors.author);
+    const file = done?.result ? await call(b.url, 'GET', done.result.href, actors.author, undefined, 60_000) : null;
+    const pdf = file?.status === 200 && Buffer.isBuffer(file.body) && file.body.subarray(0, 5).toString() === '%PDF-';
+    const files = await withClient(db.url, async (q) => (await q.query(`SELECT count(*)::int AS n FROM queue.rendered_files WHERE subject_id = $1`, [productId])).rows[0].n as number);
+    await stopService(b, 'SIGKILL');
+    return {
+      scenario: 'queue: design-file job survives kill -9 of the instance rendering it',
+      pass: afterKill?.state === 'running' && afterKill.attempts === 1 && done?.state === 'done' && done.attempts === 2 && status.body?.state === 'done' && pdf && files === 1,
+      seconds: (Date.now() - began) / 1000,
+      leaseSeconds: LEASE, stateAtKill: afterKill?.state ?? 'missing', attemptsAtKill: afterKill?.attempts ?? 0,
+      finalState: done?.state ?? 'missing', attempts: done?.attempts ?? 0, doneSecondsAfterKill: Number(retakenAfterSeconds.toFixed(1)),
+      pdfDownloaded: pdf, filesStored: files,
+    };
+  } finally {
+    for (const svc of started) await stopService(svc, 'SIGKILL');
+    await db.drop();
+  }
+}
+
 /** Process ids of the service's Chromium (its direct children running the browser binary). */
 function chromiumChildren(pid: number): number[] {
   const out: number[] = [];
@@ -692,6 +747,7 @@ const SCENARIOS: Record<string, () => Promise<Figures>> = {
   'two-processes': twoProcesses,
   'kill-chromium': killChromium,
   'queue-delivery': queueDelivery,
+  'queue-design-file': queueDesignFile,
 };
 
 function commit(): string {
@@ -730,7 +786,8 @@ function writeDocs(results: Figures[]): void {
     'exactly one decision per raced revision (201 + 409), one closure row each, chain valid. Chromium — requests caught by the kill',
     'answer a problem+json error or a PDF (a retry on a fresh browser), never hang; the next requests get PDFs. Queue — webhook',
     'messages of events committed by a process killed before running any job all arrive after a restart; with two processes running',
-    'jobs every message arrives once (by webhook-id).',
+    'jobs every message arrives once (by webhook-id). Design file — the process rendering a design-file job is killed (SIGKILL) while',
+    'it holds the job; another process takes it once the lease has run out (attempt 2), renders it, and the PDF downloads; one file is kept.',
     '',
   ];
   const section = lines.join('\n');

@@ -31,7 +31,7 @@ beforeAll(async () => {
   t = await startTestApp('pglite', { LEADLINE_SMTP_URL: `smtp://127.0.0.1:${port}`, LEADLINE_MAIL_FROM: 'Leadline <leadline@example.test>', LEADLINE_PUBLIC_URL: PUBLIC_URL });
   for (const [who, email, enabled] of [['author', 'author@example.test', true], ['reviewer', 'checker@example.test', true], ['reviewer2', 'second@example.test', false]] as const) {
     const res = await t.call('PUT', '/api/v1/me/notifications', { email, enabled }, { as: who });
-    expect(res.body).toEqual({ email, enabled });
+    expect(res.body).toEqual({ email, enabled, sendsTo: enabled ? email : null });
   }
 });
 afterAll(async () => {
@@ -78,4 +78,31 @@ it('sends nothing to a user whose mail is off, and nothing for their own acts', 
   await t.app.get(QueueService).drain();
   expect(mails.map(to)).toEqual([['checker@example.test']]);
   expect((await t.call('PUT', '/api/v1/me/notifications', { email: 'not an address', enabled: true }, { as: 'author' })).body.errors[0].path).toBe('email');
+});
+
+it('falls back to the account\'s own email when no notification address is set, and sends nothing once mail is off', async () => {
+  // author2 never set a preference: mail is on, to the account's email
+  expect((await t.call('GET', '/api/v1/me/notifications', undefined, { as: 'author2' })).body).toEqual({ email: null, enabled: true, sendsTo: t.emails.author2 });
+  const productId = (await t.call('POST', '/api/v1/products', { code: 'ML-9', name: 'Marlow ML-9 scissor lift (test product)' }, { as: 'author2' })).body.id;
+  const first = await t.call('POST', `/api/v1/products/${productId}/calculations`, { title: 'Third lift screw', design: warningDesign }, { as: 'author2' });
+  await t.app.get(QueueService).drain();
+  mails.length = 0;
+  expect((await t.call('POST', `/api/v1/revisions/${first.body.revisionId}/comments`, { text: 'Seen.' }, { as: 'reviewer' })).status).toBe(201);
+  await t.app.get(QueueService).drain();
+  expect(mails.map(to)).toEqual([[t.emails.author2]]);
+  expect(mails[0].subject).toBe('Third lift screw (ML-9), revision 1: commented on');
+
+  // a preference with mail on and no address of its own also uses the account's email
+  expect((await t.call('PUT', '/api/v1/me/notifications', { email: null, enabled: true }, { as: 'author2' })).body).toEqual({ email: null, enabled: true, sendsTo: t.emails.author2 });
+  mails.length = 0;
+  expect((await t.call('POST', `/api/v1/revisions/${first.body.revisionId}/comments`, { text: 'Seen again.' }, { as: 'reviewer' })).status).toBe(201);
+  await t.app.get(QueueService).drain();
+  expect(mails.map(to)).toEqual([[t.emails.author2]]);
+
+  // mail off: nothing, whatever addresses exist
+  expect((await t.call('PUT', '/api/v1/me/notifications', { email: null, enabled: false }, { as: 'author2' })).body).toEqual({ email: null, enabled: false, sendsTo: null });
+  mails.length = 0;
+  expect((await t.call('POST', `/api/v1/revisions/${first.body.revisionId}/comments`, { text: 'Third note.' }, { as: 'reviewer' })).status).toBe(201);
+  await t.app.get(QueueService).drain();
+  expect(mails).toEqual([]);
 });

@@ -2,7 +2,9 @@
  * Notification mail (nodemailer over LEADLINE_SMTP_URL): reviewers when a revision awaits review, the author when
  * their revision is decided or commented on. A mail names the calculation, the product, the state and a link to the
  * page (LEADLINE_PUBLIC_URL); never design content (inputs, results or comment text). Each user chooses by their
- * preference (PUT /api/v1/me/notifications); without an address or with mail off, nothing is sent to them.
+ * preference (PUT /api/v1/me/notifications): mail goes to the preference's address, or to the account's own email
+ * (users.email) when the preference names none or the user never set one; with mail off, or with neither address,
+ * nothing is sent to them.
  * Mails are queue jobs, so a mail server that is down delays them and loses none.
  */
 import { Inject, Injectable, OnApplicationShutdown } from '@nestjs/common';
@@ -13,6 +15,7 @@ import { Database, type Queryer } from '../infra/database/database.service';
 import { validate } from '../infra/http/problem';
 import { QueueService, type Job } from '../queue/queue.service';
 import type { OutboxEvent } from '../webhooks/webhooks.service';
+import { USER_ACTIVE } from '../identities/identities.service';
 
 interface MailPayload {
   to: string;
@@ -45,15 +48,20 @@ export class MailService implements OnApplicationShutdown {
     queue.handle('mail.send', (job) => this.send(job as Job<MailPayload>));
   }
 
-  async preference(userId: string): Promise<{ email: string | null; enabled: boolean }> {
-    const [row] = await this.db.query<{ email: string | null; enabled: boolean }>(
-      `SELECT email, enabled FROM queue.mail_preferences WHERE user_id = $1 ORDER BY set_at DESC, id DESC LIMIT 1`,
+  /** The user's preference; `sendsTo` is where their mail goes now (their own address, or the account's email). */
+  async preference(userId: string): Promise<{ email: string | null; enabled: boolean; sendsTo: string | null }> {
+    const [row] = await this.db.query<{ email: string | null; enabled: boolean; account_email: string | null }>(
+      `SELECT m.email, coalesce(m.enabled, true) AS enabled, u.email AS account_email
+         FROM users u LEFT JOIN LATERAL (
+           SELECT email, enabled FROM queue.mail_preferences WHERE user_id = u.id ORDER BY set_at DESC, id DESC LIMIT 1) m ON true
+        WHERE u.id = $1`,
       [userId],
     );
-    return row ? { email: row.email ?? null, enabled: row.enabled } : { email: null, enabled: false };
+    if (!row) return { email: null, enabled: true, sendsTo: null };
+    return { email: row.email ?? null, enabled: row.enabled, sendsTo: row.enabled ? row.email ?? row.account_email ?? null : null };
   }
 
-  async setPreference(userId: string, body: unknown): Promise<{ email: string | null; enabled: boolean }> {
+  async setPreference(userId: string, body: unknown): Promise<{ email: string | null; enabled: boolean; sendsTo: string | null }> {
     const input = validate(mailPreferenceSchema, body);
     await this.db.query(`INSERT INTO queue.mail_preferences (user_id, email, enabled) VALUES ($1, $2, $3)`, [userId, input.email, input.enabled]);
     return this.preference(userId);
@@ -72,15 +80,18 @@ export class MailService implements OnApplicationShutdown {
       [revisionId, event.data.eventId ?? null],
     );
     if (!rev) return;
-    // Mail preferences: the latest row of each user; the one who acted is not told of their own act
+    // Each active user's latest preference (none: mail on); the address set there, else the account's email; the one
+    // who acted is not told of their own act
     const recipients = await q.query<{ user_id: string; email: string }>(
-      `SELECT DISTINCT ON (m.user_id) m.user_id, m.email, m.enabled
-         FROM queue.mail_preferences m JOIN users u ON u.id = m.user_id
+      `SELECT u.id AS user_id, coalesce(m.email, u.email) AS email
+         FROM users u LEFT JOIN LATERAL (
+           SELECT p.email, p.enabled FROM queue.mail_preferences p WHERE p.user_id = u.id ORDER BY p.set_at DESC, p.id DESC LIMIT 1) m ON true
         WHERE (CASE WHEN $3::text = 'reviewers' THEN 'reviewer' = ANY (u.roles) ELSE u.id = $1::uuid END)
-          AND u.id IS DISTINCT FROM $2::uuid
-        ORDER BY m.user_id, m.set_at DESC, m.id DESC`,
+          AND u.id IS DISTINCT FROM $2::uuid AND ${USER_ACTIVE('u')}
+          AND coalesce(m.enabled, true) AND coalesce(m.email, u.email) IS NOT NULL
+        ORDER BY u.id`,
       [rule.to === 'author' ? rev.author_id : null, rev.actor_id, rule.to],
-    ).then((rows) => rows.filter((r: any) => r.enabled && r.email));
+    );
     const base = (this.config.LEADLINE_PUBLIC_URL ?? `http://127.0.0.1:${this.config.PORT}`).replace(/\/+$/, '');
     const link = rule.to === 'reviewers' ? `${base}/review/revisions/${revisionId}` : `${base}/design/calculations/${rev.calculation_id}`;
     const subject = `${rev.title} (${rev.code}), revision ${rev.revision}: ${rule.state}`;
