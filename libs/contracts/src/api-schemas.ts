@@ -186,7 +186,9 @@ export const remarkSchema = z.object({
   by: actorSchema.nullable(),
   at: z.string(),
   text: z.string(),
-  target: z.union([z.object({ field: z.string() }), z.object({ finding: z.string() })]).nullable(),
+  // one object with either key (OpenAPI 3.0 allows `nullable` only beside a `type`, so not a nullable union)
+  target: z.object({ field: z.string().optional(), finding: z.string().optional() }).nullable()
+    .describe('what the remark is on: a design field (`field`) or a finding (`finding`, its rule id); null for the revision as a whole'),
 });
 
 /** A revision as the revision routes answer it: the record and its review state. */
