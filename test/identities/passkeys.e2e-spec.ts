@@ -211,6 +211,7 @@ it('verify names a passkey decision whose signature does not match the key store
   }, { as: 'reviewer' });
   expect(signed.status).toBe(201);
   expect((await t.call('GET', `/api/v1/products/${product}/verify`, undefined, { as: 'reviewer' })).body.valid).toBe(true);
+  expect((await t.call('GET', '/api/v1/identity-events/verify', undefined, { as: 'admin' })).body).toMatchObject({ valid: true });
   // the database owner swaps the reviewer's stored public key for the second user's (around the immutability trigger)
   const credentialId = signed.body.signature.passkey.credentialId;
   await t.db.transaction(async (q) => {
@@ -223,6 +224,9 @@ it('verify names a passkey decision whose signature does not match the key store
   const verify = (await t.call('GET', `/api/v1/products/${product}/verify`, undefined, { as: 'reviewer' })).body;
   expect(verify.valid).toBe(false);
   expect(verify.firstBrokenLink).toMatchObject({ id: signed.body.eventId, reason: expect.stringContaining('does not verify with the signer\'s registered public key') });
+  // the identity chain's check names the swapped row too: its passkey-registered event holds the key as registered
+  const identities = (await t.call('GET', '/api/v1/identity-events/verify', undefined, { as: 'admin' })).body;
+  expect(identities).toMatchObject({ valid: false, firstBrokenLink: { kind: 'passkey', reason: expect.stringContaining('not borne out by a passkey-registered event') } });
 });
 
 it('refuses a passkey signature whose counter did not advance (a cloned authenticator), and takes one that did', async () => {
