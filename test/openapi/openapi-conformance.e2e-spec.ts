@@ -153,6 +153,12 @@ const CALLS: Record<string, Calls> = {
   },
   'POST /api/v1/sessions/passkey/options': {
     ok: (c) => c.t.call('POST', '/api/v1/sessions/passkey/options', undefined, { as: 'anonymous' }),
+    bad: async (c) => {
+      // the 31st challenge within a minute from one address
+      let res = await c.t.call('POST', '/api/v1/sessions/passkey/options', undefined, { as: 'anonymous', ip: '10.7.0.2' });
+      for (let i = 0; i < 30 && res.status === 201; i++) res = await c.t.call('POST', '/api/v1/sessions/passkey/options', undefined, { as: 'anonymous', ip: '10.7.0.2' });
+      return res;
+    },
   },
   'POST /api/v1/sessions/passkey': {
     ok: async (c) => {
@@ -339,8 +345,7 @@ async function endpoint(c: Ctx): Promise<string> {
   return res.body.id;
 }
 
-// public, no input: nothing to refuse (sign-in options are a fresh challenge for anyone)
-const NO_4XX = new Set(['GET /health', 'GET /api/v1/checkpoints/public-key', 'POST /api/v1/sessions/passkey/options']);
+const NO_4XX = new Set(['GET /health', 'GET /api/v1/checkpoints/public-key']);
 
 interface Operation {
   key: string;
