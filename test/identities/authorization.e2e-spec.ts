@@ -11,6 +11,7 @@ import { QueueService } from '../../apps/api/src/queue/queue.service';
 import { changedDesign, clearDesign, warningDesign } from '../support/designs';
 import { TEXTBOOK_JACK as SIZING_REQUIREMENTS } from '../support/sizing';
 import { startTestApp, type TestApp, type Who } from '../support/harness';
+import { softPasskey } from '../support/soft-passkey';
 
 const logLines: string[] = [];
 const capture = new Writable({
@@ -38,6 +39,11 @@ beforeAll(async () => {
   ids.decideRevision = (await open('authz decide')).revisionId;
   ids.withdrawRevision = (await open('authz withdraw')).revisionId;
   ids.reassignCalculation = (await open('authz reassign')).calculationId;
+  ids.passkeyRevision = (await open('authz passkey')).revisionId;
+  // the reviewer's own passkey (a signing challenge is offered to the passkeys of the one asking)
+  const session = await t.signIn(t.emails.reviewer, t.passwords.reviewer);
+  const options = await t.call('POST', '/api/v1/account/passkeys/options', undefined, { session });
+  expect((await t.call('POST', '/api/v1/account/passkeys', { challengeId: options.body.challengeId, response: softPasskey().register(options.body.options, 'http://localhost') }, { session })).status).toBe(201);
   checkpoint = (await t.call('POST', `/api/v1/products/${ids.product}/checkpoints`, {}, { as: 'reviewer' })).body;
   ids.webhook = (await t.call('POST', '/api/v1/webhooks', { url: 'https://93.184.215.14/hooks', events: ['calculation.opened'] }, { as: 'admin' })).body.id;
   // a design file rendered by the queue (drained here: the harness runs no workers)
@@ -79,6 +85,7 @@ const TABLE: Row[] = [
   { method: 'GET', path: '/api/v1/revisions/{id}/diff', url: () => `/api/v1/revisions/${ids.revision}/diff?against=${ids.revision}`, allowed: ALL },
   { method: 'POST', path: '/api/v1/revisions/{id}/comments', url: () => `/api/v1/revisions/${ids.revision}/comments`, body: () => ({ text: 'note' }), allowed: ['author', 'reviewer'] },
   { method: 'POST', path: '/api/v1/revisions/{id}/decisions', url: () => `/api/v1/revisions/${ids.decideRevision}/decisions`, body: () => ({ decision: 'reject', comment: 'not yet (test)' }), allowed: ['reviewer'] },
+  { method: 'POST', path: '/api/v1/revisions/{id}/passkey-challenges', url: () => `/api/v1/revisions/${ids.passkeyRevision}/passkey-challenges`, allowed: ['reviewer'] },
   { method: 'POST', path: '/api/v1/revisions/{id}/withdraw', url: () => `/api/v1/revisions/${ids.withdrawRevision}/withdraw`, body: () => ({}), allowed: ['author'] },
   { method: 'GET', path: '/api/v1/reviews/queue', url: () => '/api/v1/reviews/queue', allowed: ALL },
   { method: 'GET', path: '/api/v1/rule-sets', url: () => '/api/v1/rule-sets', allowed: ALL },

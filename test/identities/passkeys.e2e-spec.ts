@@ -13,6 +13,7 @@ import { testBrowser, type TestBrowser } from '../support/browser';
 import { startTestApp, type TestApp } from '../support/harness';
 import { signInByKeyboard, tabTo, typeInto } from '../support/keyboard';
 import { checkPage } from '../support/page-checks';
+import { softPasskey } from '../support/soft-passkey';
 
 let t: TestApp;
 let browser: TestBrowser;
@@ -210,6 +211,7 @@ it('verify names a passkey decision whose signature does not match the key store
   }, { as: 'reviewer' });
   expect(signed.status).toBe(201);
   expect((await t.call('GET', `/api/v1/products/${product}/verify`, undefined, { as: 'reviewer' })).body.valid).toBe(true);
+  expect((await t.call('GET', '/api/v1/identity-events/verify', undefined, { as: 'admin' })).body).toMatchObject({ valid: true });
   // the database owner swaps the reviewer's stored public key for the second user's (around the immutability trigger)
   const credentialId = signed.body.signature.passkey.credentialId;
   await t.db.transaction(async (q) => {
@@ -222,4 +224,45 @@ it('verify names a passkey decision whose signature does not match the key store
   const verify = (await t.call('GET', `/api/v1/products/${product}/verify`, undefined, { as: 'reviewer' })).body;
   expect(verify.valid).toBe(false);
   expect(verify.firstBrokenLink).toMatchObject({ id: signed.body.eventId, reason: expect.stringContaining('does not verify with the signer\'s registered public key') });
+  // the identity chain's check names the swapped row too: its passkey-registered event holds the key as registered
+  const identities = (await t.call('GET', '/api/v1/identity-events/verify', undefined, { as: 'admin' })).body;
+  expect(identities).toMatchObject({ valid: false, firstBrokenLink: { kind: 'passkey', reason: expect.stringContaining('not borne out by a passkey-registered event') } });
+});
+
+it('refuses a passkey signature whose counter did not advance (a cloned authenticator), and takes one that did', async () => {
+  // a checker of their own with a software passkey (test/support/soft-passkey.ts) registered from their own session
+  const user = (await t.call('POST', '/api/v1/users', { name: 'Counter checker (test)', email: 'counter@passkeys.example.com', roles: ['reviewer'] }, { as: 'admin' })).body;
+  await t.call('POST', '/api/v1/account/activate', { activationCode: user.activationCode, password: 'the counter checker password' }, { as: 'anonymous' });
+  const session = await t.signIn('counter@passkeys.example.com', 'the counter checker password');
+  const key = softPasskey();
+  key.counter = 7;
+  const options = await t.call('POST', '/api/v1/account/passkeys/options', undefined, { session });
+  expect(options.status).toBe(201);
+  const registered = await t.call('POST', '/api/v1/account/passkeys', { challengeId: options.body.challengeId, response: key.register(options.body.options, 'http://localhost'), label: 'Software key' }, { session });
+  expect(registered.status).toBe(201);
+  // a registration challenge is used once
+  const twice = await t.call('POST', '/api/v1/account/passkeys', { challengeId: options.body.challengeId, response: key.register(options.body.options, 'http://localhost') }, { session });
+  expect(twice.status).toBe(403);
+
+  const signWith = async (revisionId: string, counter: number) => {
+    const challenge = await t.call('POST', `/api/v1/revisions/${revisionId}/passkey-challenges`, undefined, { session });
+    expect(challenge.status).toBe(201);
+    key.counter = counter;
+    return t.call('POST', `/api/v1/revisions/${revisionId}/decisions`, { decision: 'approve', signature: { method: 'passkey', challengeId: challenge.body.challengeId, response: key.assert(challenge.body.options, 'http://localhost') } }, { session });
+  };
+  const first = await submitted();
+  expect((await signWith(first, 7)).status).toBe(403); // not above the counter at registration
+  expect((await signWith(first, 8)).status).toBe(201);
+  const second = await submitted();
+  const stale = await signWith(second, 8);
+  expect(stale.status).toBe(403);
+  expect(stale.body.errors[0]).toMatchObject({ path: 'signature.response', message: expect.stringMatching(/counter/) });
+  expect((await signWith(second, 9)).status).toBe(201);
+  // an assertion made on another site is refused
+  const third = await submitted();
+  const challenge = await t.call('POST', `/api/v1/revisions/${third}/passkey-challenges`, undefined, { session });
+  key.counter = 10;
+  const phished = await t.call('POST', `/api/v1/revisions/${third}/decisions`, { decision: 'approve', signature: { method: 'passkey', challengeId: challenge.body.challengeId, response: key.assert(challenge.body.options, 'https://localhost.example.net') } }, { session });
+  expect(phished.status).toBe(403);
+  expect(phished.body.detail).toMatch(/another site/);
 });

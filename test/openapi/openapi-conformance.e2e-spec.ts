@@ -13,6 +13,7 @@ import { changedDesign, clearDesign, warningDesign } from '../support/designs';
 import { TEXTBOOK_JACK } from '../support/sizing';
 import { startTestApp, type TestApp } from '../support/harness';
 import { QueueService } from '../../apps/api/src/queue/queue.service';
+import { softPasskey } from '../support/soft-passkey';
 
 type Answer = Awaited<ReturnType<TestApp['call']>>;
 
@@ -29,6 +30,10 @@ interface Ctx {
   freshRevision(design?: unknown): Promise<string>;
   /** A calculation opened by the author (for one-shot calls: reassignment) */
   freshCalculation(): Promise<string>;
+  /** The reviewer's software passkey (test/support/soft-passkey.ts) */
+  passkey: ReturnType<typeof softPasskey>;
+  /** Registers the reviewer's passkey from their own session (once; answers the registration) */
+  addPasskey(): Promise<Answer>;
 }
 
 interface Calls {
@@ -145,6 +150,42 @@ const CALLS: Record<string, Calls> = {
       return c.t.call('POST', '/api/v1/account/activate', { activationCode: created.body.activationCode, password: 'a password of the conformance user' }, { as: 'anonymous' });
     },
     bad: (c) => c.t.call('POST', '/api/v1/account/activate', { activationCode: 'act_unknown', password: 'short' }, { as: 'anonymous' }),
+  },
+  'GET /api/v1/account/passkeys': {
+    ok: (c) => c.t.call('GET', '/api/v1/account/passkeys', undefined, { as: 'reviewer' }),
+    bad: (c) => c.t.call('GET', '/api/v1/account/passkeys', undefined, { as: 'anonymous' }),
+  },
+  'POST /api/v1/account/passkeys/options': {
+    ok: async (c) => c.t.call('POST', '/api/v1/account/passkeys/options', undefined, { session: await c.t.signIn(c.t.emails.author, c.t.passwords.author) }),
+    bad: (c) => c.t.call('POST', '/api/v1/account/passkeys/options', undefined, { as: 'author' }),
+  },
+  'POST /api/v1/account/passkeys': {
+    ok: (c) => c.addPasskey(),
+    bad: async (c) => c.t.call('POST', '/api/v1/account/passkeys', { challengeId: MISSING, response: {} }, { session: await c.t.signIn(c.t.emails.author, c.t.passwords.author) }),
+  },
+  'POST /api/v1/sessions/passkey/options': {
+    ok: (c) => c.t.call('POST', '/api/v1/sessions/passkey/options', undefined, { as: 'anonymous' }),
+    bad: async (c) => {
+      // the 31st challenge within a minute from one address
+      let res = await c.t.call('POST', '/api/v1/sessions/passkey/options', undefined, { as: 'anonymous', ip: '10.7.0.2' });
+      for (let i = 0; i < 30 && res.status === 201; i++) res = await c.t.call('POST', '/api/v1/sessions/passkey/options', undefined, { as: 'anonymous', ip: '10.7.0.2' });
+      return res;
+    },
+  },
+  'POST /api/v1/sessions/passkey': {
+    ok: async (c) => {
+      await c.addPasskey();
+      const options = await c.t.call('POST', '/api/v1/sessions/passkey/options', undefined, { as: 'anonymous' });
+      return c.t.call('POST', '/api/v1/sessions/passkey', { challengeId: options.body.challengeId, response: c.passkey.assert(options.body.options, 'http://localhost') }, { as: 'anonymous' });
+    },
+    bad: (c) => c.t.call('POST', '/api/v1/sessions/passkey', { challengeId: MISSING, response: c.passkey.assert({ challenge: 'x', rpId: 'localhost' }, 'http://localhost') }, { as: 'anonymous', ip: '10.7.0.1' }),
+  },
+  'POST /api/v1/revisions/{id}/passkey-challenges': {
+    ok: async (c) => {
+      await c.addPasskey();
+      return c.t.call('POST', `/api/v1/revisions/${await c.freshRevision()}/passkey-challenges`, undefined, { as: 'reviewer' });
+    },
+    bad: (c) => c.t.call('POST', `/api/v1/revisions/${MISSING}/passkey-challenges`, undefined, { as: 'reviewer' }),
   },
   'POST /api/v1/account/tokens': {
     ok: async (c) => c.t.call('POST', '/api/v1/account/tokens', { label: 'conformance' }, { session: await c.t.signIn(c.t.emails.author, c.t.passwords.author) }),
@@ -387,7 +428,17 @@ describe('OpenAPI document conformance', () => {
         const r = await t.call('POST', `/api/v1/products/${product.body.id}/calculations`, { title: 'to hand over', design: clearDesign });
         return r.body.calculationId;
       },
+      passkey: softPasskey(),
+      addPasskey() {
+        registered ??= (async () => {
+          const session = await t.signIn(t.emails.reviewer, t.passwords.reviewer);
+          const options = await t.call('POST', '/api/v1/account/passkeys/options', undefined, { session });
+          return t.call('POST', '/api/v1/account/passkeys', { challengeId: options.body.challengeId, response: ctx.passkey.register(options.body.options, 'http://localhost') }, { session });
+        })();
+        return registered;
+      },
     };
+    let registered: Promise<Answer> | null = null;
     expect(Object.values(ctx).every((v) => v !== undefined)).toBe(true);
   });
   afterAll(() => t?.close());

@@ -9,6 +9,7 @@ import { testBrowser } from '../support/browser';
 import { warningDesign } from '../support/designs';
 import { startTestApp, type TestApp } from '../support/harness';
 import { pdfText } from '../support/pdf-text';
+import { softPasskey } from '../support/soft-passkey';
 
 
 
@@ -119,4 +120,26 @@ it('serves 10 concurrent PDF requests with one browser process', async () => {
   expect(results.map((r) => r.status)).toEqual(Array(10).fill(200));
   for (const r of results) expect(r.raw.subarray(0, 5).toString()).toBe('%PDF-');
   expect(pdf.browserLaunches).toBe(Math.max(launchesBefore, 1));
+});
+
+it('prints the signature block of a decision signed with a passkey: its method and fingerprint [GET /api/v1/revisions/:id/report.pdf]', async () => {
+  const key = softPasskey();
+  const session = await t.signIn(t.emails.reviewer, t.passwords.reviewer);
+  const options = await t.call('POST', '/api/v1/account/passkeys/options', undefined, { session });
+  expect((await t.call('POST', '/api/v1/account/passkeys', { challengeId: options.body.challengeId, response: key.register(options.body.options, 'http://localhost') }, { session })).status).toBe(201);
+  const opened = await t.call('POST', `/api/v1/products/${productId}/calculations`, { title: 'Passkey-signed screw', design: warningDesign });
+  const challenge = await t.call('POST', `/api/v1/revisions/${opened.body.revisionId}/passkey-challenges`, undefined, { session });
+  key.counter = 1;
+  const decided = await t.call('POST', `/api/v1/revisions/${opened.body.revisionId}/decisions`, {
+    decision: 'reject', comment: 'Measure the friction first.',
+    signature: { method: 'passkey', challengeId: challenge.body.challengeId, response: key.assert(challenge.body.options, 'http://localhost') },
+  }, { session });
+  expect(decided.status).toBe(201);
+  const signed = (await t.call('GET', `/api/v1/revisions/${opened.body.revisionId}`)).body.review.signature;
+  const res = await t.call('GET', `/api/v1/revisions/${opened.body.revisionId}/report.pdf`);
+  expect(res.status).toBe(200);
+  const flat = (await pdfText(res.raw)).text.replace(/\s+/g, ' ');
+  for (const part of ['Electronic signatures', 'Checking engineer (test)', 'rejected as checking engineer', `${signed.signedAt.slice(0, 10)} ${signed.signedAt.slice(11)}`, 'passkey, used at signing over the record hash', signed.fingerprint]) {
+    expect(flat).toContain(part);
+  }
 });

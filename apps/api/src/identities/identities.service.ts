@@ -419,7 +419,8 @@ export class IdentitiesService implements OnModuleInit {
   /**
    * Checks the identity chain like a product chain: every link's hash, previous hash and MAC in order, the head, and
    * the rows it accounts for since it began (each user with its user-created event and roles, each keyed token with
-   * its token-issued event, each revocation with its token-revoked event). Names the first mismatch.
+   * its token-issued event, each revocation with its token-revoked event, each password credential with its
+   * password-set event, each passkey with its passkey-registered event and key). Names the first mismatch.
    */
   async verifyIdentities(): Promise<{ valid: boolean; links: number; headHash: string | null; firstBrokenLink: { seq: number; kind: string; id: string; reason: string } | null }> {
     const [head] = await this.db.query<{ seq: string; hash: string; started_at: string }>(`SELECT seq, hash, started_at FROM ledger_heads WHERE ledger = 'identity'`);
@@ -464,6 +465,21 @@ export class IdentitiesService implements OnModuleInit {
       [head.started_at],
     );
     if (revocation) return broken(0, 'revocation', revocation.token_id, 'the revocation is not borne out by a token-revoked event of the identity chain');
+    // a password credential needs the password-set event of its code; a passkey, its passkey-registered event with
+    // the very key (a key swapped in the table signs nothing verify accepts, and is named here too)
+    const [password] = await this.db.query<{ id: string }>(
+      `SELECT p.id FROM password_credentials p WHERE NOT EXISTS (
+         SELECT 1 FROM identity_events e WHERE e.seq IS NOT NULL AND e.type = 'password-set' AND e.subject_user_id = p.user_id
+            AND e.data->>'codeId' = p.activation_id::text) ORDER BY p.created_at LIMIT 1`,
+    );
+    if (password) return broken(0, 'password', password.id, 'the password credential is not borne out by a password-set event of the identity chain');
+    const [passkey] = await this.db.query<{ id: string }>(
+      `SELECT k.id FROM passkey_credentials k WHERE NOT EXISTS (
+         SELECT 1 FROM identity_events e WHERE e.seq IS NOT NULL AND e.type = 'passkey-registered' AND e.subject_user_id = k.user_id
+            AND e.data = jsonb_build_object('passkeyId', k.id, 'credentialId', k.credential_id, 'publicKey', k.public_key, 'rpId', k.rp_id, 'label', k.label))
+        ORDER BY k.created_at LIMIT 1`,
+    );
+    if (passkey) return broken(0, 'passkey', passkey.id, 'the passkey row is not borne out by a passkey-registered event of the identity chain');
     return { valid: true, links: expected - 1, headHash: previous, firstBrokenLink: null };
   }
 

@@ -41,13 +41,13 @@ export class PasskeysController {
     return this.passkeys.register(req.principal!, body, this.passkeys.relyingParty(req.hostname));
   }
 
-  /** Options for signing in with a passkey: {challengeId, options} for navigator.credentials.get. */
+  /** Options for signing in with a passkey: {challengeId, options} for navigator.credentials.get (30 a minute per address, then 429). */
   @Public()
   @Post('sessions/passkey/options')
   @HttpCode(201)
   signInOptions(@Req() req: Req, @Res({ passthrough: true }) reply: FastifyReply) {
     reply.header('cache-control', 'no-store');
-    return this.passkeys.signInOptions(this.passkeys.relyingParty(req.hostname));
+    return this.passkeys.signInOptions(this.passkeys.relyingParty(req.hostname), clientKey(req.ip));
   }
 
   /** Signs in with a passkey: {challengeId, response}; sets the session cookie like POST /api/v1/sessions. */

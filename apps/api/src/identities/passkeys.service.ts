@@ -25,10 +25,14 @@ import { signingChallenge, type StoredAssertion } from '../records/passkey-signa
 import { ServiceKeys } from '../records/service-keys';
 import { TS_TEXT } from '../records/chain';
 import { AccountsService, type SignedIn } from './accounts.service';
+import { FailureLimiter } from './failure-limiter';
 import { CURRENT_ROLES, USER_ACTIVE, type Principal, type Role } from './identities.service';
 
 /** How long a passkey challenge is accepted [ms] (WebAuthn Level 2 §15.1 recommends 300 s to 600 s with user verification). */
 export const PASSKEY_CHALLENGE_MS = 5 * 60_000;
+
+/** Sign-in challenges per client address and minute (common practice: well above a person's retries). */
+export const SIGN_IN_OPTIONS_PER_MINUTE = 30;
 
 /** COSE algorithms offered (RFC 9053): ES256 and RS256, which every platform authenticator supports. */
 const ALGORITHMS = [-7, -257];
@@ -100,13 +104,18 @@ interface KeyRow {
 
 @Injectable()
 export class PasskeysService {
+  /** Sign-in challenges need no sign-in and each stores a row: counted per client address, shared by every instance. */
+  readonly optionsLimiter: FailureLimiter;
+
   constructor(
     private readonly db: Database,
     private readonly accounts: AccountsService,
     private readonly keys: ServiceKeys,
     @Inject(APP_CONFIG) private readonly config: AppConfig,
     @Inject(CLOCK) private readonly clock: Clock,
-  ) {}
+  ) {
+    this.optionsLimiter = new FailureLimiter(db, 'passkey-options', SIGN_IN_OPTIONS_PER_MINUTE, 60_000);
+  }
 
   /** The relying party for a request's host (`hostname`, without the port). */
   relyingParty(hostname: string): RelyingParty {
@@ -247,7 +256,10 @@ export class PasskeysService {
   }
 
   /** Options for signing in with a passkey (discoverable: the authenticator offers the user's passkeys). */
-  async signInOptions(rp: RelyingParty) {
+  async signInOptions(rp: RelyingParty, client: string) {
+    const wait = await this.optionsLimiter.blocked(client, this.clock.now());
+    if (wait > 0) throw new ProblemError(429, 'Too many sign-in challenges', `too many passkey sign-in challenges from this address; try again in ${wait} s`, { retryAfter: wait });
+    await this.optionsLimiter.fail(client, this.clock.now());
     const options = await generateAuthenticationOptions({ rpID: rp.rpId, userVerification: 'required', timeout: PASSKEY_CHALLENGE_MS });
     const challengeId = await this.issueChallenge(await this.keys.serviceCredential(), 'sign-in', options.challenge, rp, null);
     return { challengeId, options };

@@ -17,6 +17,7 @@ import { draftSchema, saveDraftSchema } from '../calculations/drafts.service';
 import { auditQuerySchema } from '../reviews/audit.service';
 import { createTokenSchema, createUserSchema, identityEventsQuerySchema, setRolesSchema } from '../identities/identities.service';
 import { activateSchema, signInSchema } from '../identities/accounts.service';
+import { passkeySignInSchema, registerPasskeySchema } from '../identities/passkeys.service';
 import { createProductSchema, productListSchema } from '../products/products.service';
 import { commentSchema, decisionSchema, withdrawSchema } from '../reviews/reviews.service';
 import { impactSchema } from '../rules/impact.service';
@@ -121,6 +122,12 @@ export const ROUTES: Route[] = [
   { method: 'delete', path: '/api/v1/sessions/current', summary: 'Sign out of the current page session (X-CSRF-Token required)', tag: 'identities', status: 204 },
   { method: 'post', path: '/api/v1/account/activate', summary: 'Set your own password with the one-time {activationCode} an admin handed over (no token needed)', tag: 'identities', request: activateSchema },
   { method: 'post', path: '/api/v1/account/tokens', summary: 'Issue a token to yourself for an API client, from a signed-in page session (returned once)', tag: 'identities', request: createTokenSchema.unwrap(), status: 201 },
+  { method: 'get', path: '/api/v1/account/passkeys', summary: 'Your own passkeys (label, credential id, relying party, when added)', tag: 'identities' },
+  { method: 'post', path: '/api/v1/account/passkeys/options', summary: 'Options for adding a passkey, from your own page session: {challengeId, options} for navigator.credentials.create (one use, 5 minutes)', tag: 'identities', status: 201 },
+  { method: 'post', path: '/api/v1/account/passkeys', summary: "Add a passkey: {challengeId, response (the authenticator's answer as JSON), label?}, from your own page session; a passkey-registered identity event", tag: 'identities', request: registerPasskeySchema, status: 201 },
+  { method: 'post', path: '/api/v1/sessions/passkey/options', summary: 'Options for signing in with a passkey: {challengeId, options} for navigator.credentials.get (no token needed)', tag: 'identities', status: 201, public: true },
+  { method: 'post', path: '/api/v1/sessions/passkey', summary: 'Sign in with a passkey {challengeId, response}: sets the HttpOnly session cookie of the pages (no token needed)', tag: 'identities', request: passkeySignInSchema, status: 201, public: true },
+  { method: 'post', path: '/api/v1/revisions/{id}/passkey-challenges', summary: "A challenge for signing this revision with your passkey (SHA-256 of its record hash and a nonce; one use): {challengeId, revisionHash, options} (reviewer)", tag: 'reviews', status: 201 },
   { method: 'post', path: '/api/v1/users/{id}/tokens', summary: 'Issue a token, returned once (admin)', tag: 'identities', request: createTokenSchema.unwrap(), status: 201 },
   { method: 'get', path: '/api/v1/users/{id}/tokens', summary: "A user's tokens, without secrets (admin)", tag: 'identities' },
   { method: 'post', path: '/api/v1/users/{id}/tokens/{tokenId}/revoke', summary: 'Revoke a token at once (admin)', tag: 'identities' },
