@@ -186,7 +186,7 @@ export const remarkSchema = z.object({
   by: actorSchema.nullable(),
   at: z.string(),
   text: z.string(),
-  target: z.union([z.object({ field: z.string() }), z.object({ finding: z.string() })]).nullable(),
+  target: z.object({ field: z.string().optional(), finding: z.string().optional() }).nullable().describe('the input field or the finding it is on (one of the two), or null'),
 });
 
 /** A revision as the revision routes answer it: the record and its review state. */
@@ -194,7 +194,7 @@ export const revisionWithReviewSchema = revisionRecordSchema.extend({ review: re
 
 /** One revision (GET /revisions/:id): with its checks under the rule set it was judged by, derived on reading. */
 export const revisionWithChecksSchema = revisionWithReviewSchema.extend({
-  review: revisionReviewSchema.extend({ remarks: z.array(remarkSchema).describe('what was said on the revision, oldest first') }),
+  remarks: z.array(remarkSchema).describe('what was said on the revision, oldest first'),
   checks: z.array(checkSchema).describe('the checks of the rule set the revision was judged by, from its stored evaluation'),
   governing: governingSchema,
 });

@@ -92,7 +92,7 @@ export class CalculationsController {
         const c = checks[i];
         return c === null
           ? { ...r, review: { state: s.state, decidedBy: s.decidedBy, decidedAt: s.decidedAt, signature: s.signature } }
-          : { ...r, checks: c.checks, governing: c.governing, review: { state: s.state, decidedBy: s.decidedBy, decidedAt: s.decidedAt, signature: s.signature, remarks: remarks?.get(r.id) ?? [] } };
+          : { ...r, checks: c.checks, governing: c.governing, remarks: remarks?.get(r.id) ?? [], review: { state: s.state, decidedBy: s.decidedBy, decidedAt: s.decidedAt, signature: s.signature } };
       }),
       nextCursor: page.nextCursor,
     };
@@ -103,6 +103,6 @@ export class CalculationsController {
   async revision(@Param('id') id: string) {
     const [record, review, remarks] = await Promise.all([this.calculations.revision(id), this.reviews.state(id), this.reviews.remarks(id)]);
     const { checks, governing } = await this.calculations.checksOf(record);
-    return { ...record, checks, governing, review: { state: review.state, decidedBy: review.decidedBy, decidedAt: review.decidedAt, signature: review.signature, remarks } };
+    return { ...record, checks, governing, remarks, review: { state: review.state, decidedBy: review.decidedBy, decidedAt: review.decidedAt, signature: review.signature } };
   }
 }

@@ -45,7 +45,7 @@ export const decisionSchema = z.strictObject({
   comments: z.array(commentSchema).max(100).optional().describe('comments attached to input fields or findings'),
 });
 
-/** One thing said on a revision (GET /revisions/:id, review.remarks). */
+/** One thing said on a revision (GET /revisions/:id, remarks). */
 export interface Remark {
   kind: 'comment' | 'decision' | 'acknowledgement' | 'withdrawal';
   by: Actor | null;
