@@ -196,7 +196,7 @@ export const revisionWithReviewSchema = revisionRecordSchema.extend({ review: re
 
 /** One revision (GET /revisions/:id): with its checks under the rule set it was judged by, derived on reading. */
 export const revisionWithChecksSchema = revisionWithReviewSchema.extend({
-  review: revisionReviewSchema.extend({ remarks: z.array(remarkSchema).describe('what was said on the revision, oldest first') }),
+  remarks: z.array(remarkSchema).describe('what was said on the revision, oldest first'),
   checks: z.array(checkSchema).describe('the checks of the rule set the revision was judged by, from its stored evaluation'),
   governing: governingSchema,
 });

@@ -82,6 +82,8 @@ export class CalculationsController {
     const page = await this.calculations.revisionsPage(calculationId, query);
     if (page.items.length === 0) return page;
     const states = await this.reviews.statesOfCalculation(calculationId, { from: page.items[0].revision, to: page.items[page.items.length - 1].revision });
+    // full items carry what GET /revisions/:id carries, remarks included (one read for the page)
+    const remarks = 'evaluation' in page.items[0] ? await this.reviews.remarksOf(page.items.map((r) => r.id)) : null;
     // A full revision carries its checks as GET /revisions/:id does (derived from the record under its rule set)
     const checks = await Promise.all(page.items.map((r) => ('evaluation' in r ? this.calculations.checksOf(r) : null)));
     return {
@@ -90,7 +92,7 @@ export class CalculationsController {
         const c = checks[i];
         return c === null
           ? { ...r, review: { state: s.state, decidedBy: s.decidedBy, decidedAt: s.decidedAt, signature: s.signature } }
-          : { ...r, checks: c.checks, governing: c.governing, review: { state: s.state, decidedBy: s.decidedBy, decidedAt: s.decidedAt, signature: s.signature } };
+          : { ...r, checks: c.checks, governing: c.governing, remarks: remarks?.get(r.id) ?? [], review: { state: s.state, decidedBy: s.decidedBy, decidedAt: s.decidedAt, signature: s.signature } };
       }),
       nextCursor: page.nextCursor,
     };
@@ -101,6 +103,6 @@ export class CalculationsController {
   async revision(@Param('id') id: string) {
     const [record, review, remarks] = await Promise.all([this.calculations.revision(id), this.reviews.state(id), this.reviews.remarks(id)]);
     const { checks, governing } = await this.calculations.checksOf(record);
-    return { ...record, checks, governing, review: { state: review.state, decidedBy: review.decidedBy, decidedAt: review.decidedAt, signature: review.signature, remarks } };
+    return { ...record, checks, governing, remarks, review: { state: review.state, decidedBy: review.decidedBy, decidedAt: review.decidedAt, signature: review.signature } };
   }
 }

@@ -52,7 +52,7 @@ export const decisionSchema = z.strictObject({
   comments: z.array(commentSchema).max(100).optional().describe('comments attached to input fields or findings'),
 });
 
-/** One thing said on a revision (GET /revisions/:id, review.remarks). */
+/** One thing said on a revision (GET /revisions/:id, remarks). */
 export interface Remark {
   kind: 'comment' | 'decision' | 'acknowledgement' | 'withdrawal';
   by: Actor | null;
@@ -126,15 +126,22 @@ export class ReviewsService {
    * field or a finding), the decision's comment, its acknowledgements and comments, and a withdrawal's comment.
    */
   async remarks(revisionId: string): Promise<Remark[]> {
-    const rows = await this.db.query<{ type: string; actor: Actor | null; at: string; data: Record<string, any> }>(
-      `SELECT e.type, e.actor, ${TS_TEXT('e.created_at')} AS at, e.data FROM events e
-        WHERE e.revision_id = $1 AND e.type IN ('comment', 'approved', 'rejected', 'withdrawn')
+    return (await this.remarksOf([checkUuid(revisionId, 'revision')])).get(revisionId) ?? [];
+  }
+
+  /** The remarks of several revisions (a page of a calculation's revisions) in one read of the events' revision index. */
+  async remarksOf(revisionIds: readonly string[]): Promise<Map<string, Remark[]>> {
+    const byRevision = new Map<string, Remark[]>(revisionIds.map((id) => [id, []]));
+    if (revisionIds.length === 0) return byRevision;
+    const rows = await this.db.query<{ revision_id: string; type: string; actor: Actor | null; at: string; data: Record<string, any> }>(
+      `SELECT e.revision_id, e.type, e.actor, ${TS_TEXT('e.created_at')} AS at, e.data FROM events e
+        WHERE e.revision_id = ANY ($1::uuid[]) AND e.type IN ('comment', 'approved', 'rejected', 'withdrawn')
           AND e.seq <= (SELECT h.seq FROM chain_heads h WHERE h.product_id = e.product_id)
         ORDER BY e.seq`,
-      [checkUuid(revisionId, 'revision')],
+      [revisionIds],
     );
-    const out: Remark[] = [];
     for (const e of rows) {
+      const out = byRevision.get(e.revision_id)!;
       const data = e.data ?? {};
       if (e.type === 'comment') {
         out.push({ kind: 'comment', by: e.actor, at: e.at, text: data.text, target: data.target ?? null });
@@ -145,7 +152,7 @@ export class ReviewsService {
       for (const a of data.acknowledgements ?? []) out.push({ kind: 'acknowledgement', by: e.actor, at: e.at, text: a.comment, target: { finding: a.finding } });
       for (const c of data.comments ?? []) out.push({ kind: 'comment', by: e.actor, at: e.at, text: c.text, target: c.target ?? null });
     }
-    return out;
+    return byRevision;
   }
 
   async state(id: string, q: Queryer = this.db): Promise<RevisionState> {

@@ -232,7 +232,7 @@ function designLabel(path) {
 
 /** What was said on this revision, and each finding's comments beside it. */
 function renderRemarks(rev) {
-  const remarks = rev.review.remarks || [];
+  const remarks = rev.remarks || [];
   $('remarks').replaceChildren(...remarks.map(remarkItem));
   $('remarks-section').hidden = remarks.length === 0;
   document.querySelectorAll('#findings li[data-rule]').forEach(function (li) {
@@ -293,7 +293,7 @@ async function renderChanges(rev) {
     state.decidedBy ? ' by ' + state.decidedBy.name + ' at ' + time(state.decidedAt) + ' UTC' : '',
     before.note ? '. Its note: ' + before.note : '', '.',
   );
-  const remarks = state.remarks || [];
+  const remarks = before.remarks || [];
   $('previous-remarks').replaceChildren(...(remarks.length ? remarks.map(remarkItem) : [el('li', { class: 'muted' }, 'Nothing was said on revision ' + n + '.')]));
   $('previous-remarks').setAttribute('aria-label', 'What was said on revision ' + n);
   $('changes-governing').replaceChildren(
@@ -308,7 +308,7 @@ async function renderChanges(rev) {
     $('changes-' + part + '-after').textContent = 'Revision ' + rev.revision;
   });
   const onField = function (path) {
-    return remarks.concat(rev.review.remarks || []).filter(function (r) { return r.target && r.target.field && r.target.field.replace(/^design\./, '') === path; });
+    return remarks.concat(rev.remarks || []).filter(function (r) { return r.target && r.target.field && r.target.field.replace(/^design\./, '') === path; });
   };
   const shown = function (v) {
     return v === undefined || v === null || v === '' ? '(not given)' : v === true ? 'yes' : v === false ? 'no' : String(v);
