@@ -24,3 +24,14 @@ export async function seriousViolations(page: Page): Promise<AxeViolation[]> {
   });
   return violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');
 }
+
+/** What axe could not decide on the current page ("needs review"): rule id, impact and the nodes, for a test to explain. */
+export async function needsReview(page: Page): Promise<AxeViolation[]> {
+  const loaded = await page.evaluate(() => typeof (window as unknown as { axe?: unknown }).axe === 'object');
+  if (!loaded) await page.evaluate(source);
+  return page.evaluate(async () => {
+    const axe = (window as unknown as { axe: { run(ctx: unknown, opts: unknown): Promise<{ incomplete: { id: string; impact: string | null; help: string; nodes: { target: unknown[] }[] }[] }> } }).axe;
+    const r = await axe.run(document, { resultTypes: ['incomplete'] });
+    return r.incomplete.map((v) => ({ id: v.id, impact: v.impact, help: v.help, nodes: v.nodes.map((n) => JSON.stringify(n.target)) }));
+  });
+}

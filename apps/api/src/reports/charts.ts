@@ -254,6 +254,9 @@ export async function specToSvg(spec: Spec, idPrefix: string, label: string): Pr
         .replace(/\s+xmlns(:xlink)?="[^"]*"/g, '')
         .replace(/id="(clip\d+)"/g, (_m, id: string) => `id="${local(id)}"`)
         .replace(/url\(#(clip\d+)\)/g, (_m, id: string) => `url(#${local(id)})`)
+        // One image with one name: the roles vega still gives some mark groups (graphics-symbol) would each need a
+        // name of their own (axe svg-img-alt); the chart is described by its label and its figure caption
+        .replace(/\s(?:role|aria-roledescription)="[^"]*"/g, '')
         .replace(/<svg /, `<svg role="img" aria-label="${label.replace(/[&<>"]/g, '')}" `)
     );
   } finally {

@@ -103,8 +103,9 @@ describe('buildReportView', () => {
     expect(view.events.map((ev) => ev.typeLabel)).toEqual(['Revision submitted', 'Comment', 'Comment', 'Approved']);
     expect(view.events[1].text).toMatch(/grease schedule/);
     expect(view.history.map((h) => [h.revision, h.current])).toEqual([[1, false], [2, true]]);
-    expect(view.input.asEntered).toContainEqual({ path: 'thread.size', value: 'Tr 32x6' });
-    expect(view.input.engineUnits).toContainEqual({ path: 'load.axial', value: '28000', unit: 'N' });
+    // by the design input's own label, the engine's value in the design's unit system (the fixture's 28 kN)
+    expect(view.input.asEntered).toContainEqual({ path: 'thread.size', label: 'Standard size', value: 'Tr 32x6' });
+    expect(view.input.engineUnits).toContainEqual({ path: 'load.axial', label: 'Axial load', value: '28.0 kN' });
     expect(view.input.friction[0]).toMatchObject({ range: '0.10 to 0.16', sourceKind: 'handbook' });
   });
 

@@ -4,13 +4,13 @@
  * gives the same view (generatedAt is an input), so the report of a stored revision can be reproduced.
  */
 import type { Severity } from '@leadline/contracts';
-import { formatDate, STATES_IN_FULL, VERDICTS_IN_FULL, wordFor, type UnitSystem } from '@leadline/presentation';
+import { formatDate, formatQuantity, STATES_IN_FULL, VERDICTS_IN_FULL, wordFor, type UnitSystem } from '@leadline/presentation';
 import { governingCheck } from '@leadline/rules';
 import { CAUTION_SHORT, CAUTION_TEXT, type InputRow, type KeyValue, type ReportInput, type ReportView } from './report-view';
 import { buildSections } from './sections/calculation';
 import { actorName, buildEvents, buildSignatures } from './sections/review';
 import { buildChecks, buildFindingGroups, buildSafetyFactors } from './sections/checks';
-import { engineUnitRows, flatten, frictionRows, geometryRows, materialRows } from './sections/inputs';
+import { engineValueRows, flatten, frictionRows, geometryRows, inputLabel, materialRows } from './sections/inputs';
 
 import { buildSummary, conventionsOf } from './sections/summary';
 
@@ -19,6 +19,18 @@ export * from './report-view';
 
 // ---------------------------------------------------------------------------------------------------------
 // The view
+
+/** The screw on page 1: its standard size, or form, major diameter and pitch, and the number of starts. */
+function screwSize(g: ReportInput['revision']['evaluation']['geometry'], system: UnitSystem): string {
+  const L = (si: number) => formatQuantity(si, 'length', system);
+  const size = g.size ?? `${g.form} ${L(g.majorDiameter)} × ${L(g.pitch)}`;
+  return `${size}, ${g.starts} start${g.starts === 1 ? '' : 's'}`;
+}
+
+/** The signatures in one line for the title block (the full block is in the review record). */
+function signatureLine(signatures: readonly { printedName: string; meaning: string; signedAt: string }[]): string {
+  return signatures.length === 0 ? 'none yet' : signatures.map((s) => `${s.printedName}, ${s.meaning.toLowerCase()}, ${s.signedAt}`).join('; ');
+}
 
 /** Prepares everything the calculation report prints. */
 export function buildReportView(input: ReportInput): ReportView {
@@ -35,12 +47,14 @@ export function buildReportView(input: ReportInput): ReportView {
     { label: 'Product', value: `${product.code}, ${product.name}` },
     { label: 'Calculation', value: calculation.title, note: calculation.id },
     { label: 'Revision', value: String(revision.revision), note: revision.note ?? undefined },
+    { label: 'Screw size', value: screwSize(e.geometry, system) },
     { label: 'Review state', value: wordFor(STATES_IN_FULL, input.state) },
     { label: 'Verdict of the rules', value: wordFor(VERDICTS_IN_FULL, revision.verdict) },
     { label: 'Author', value: actorName(revision.author) },
     { label: 'Submitted', value: formatDate(revision.createdAt) },
     { label: 'Reviewer', value: actorName(input.reviewer) },
     { label: 'Decided', value: formatDate(input.decidedAt) },
+    { label: 'Signatures', value: signatureLine(buildSignatures(input.events)) },
     { label: 'Report generated', value: formatDate(input.generatedAt) },
     { label: 'Record hash', value: revision.hash, mono: true },
   ];
@@ -73,9 +87,9 @@ export function buildReportView(input: ReportInput): ReportView {
       asEntered: (() => {
         const rows: InputRow[] = [];
         flatten(revision.input, '', rows);
-        return rows;
+        return rows.map((r) => ({ ...r, label: inputLabel(r.path) }));
       })(),
-      engineUnits: engineUnitRows(design),
+      engineUnits: engineValueRows(design, system),
       friction: frictionRows(design),
       materials: materialRows(design, revision.input, system),
       geometry: geometryRows(e, system, revision.engineVersion),

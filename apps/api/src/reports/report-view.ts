@@ -190,6 +190,8 @@ export interface InputRow {
   readonly path: string;
   readonly value: string;
   readonly unit?: string;
+  /** The field in words (the design input's declarations) */
+  readonly label?: string;
 }
 
 export interface FrictionRow {

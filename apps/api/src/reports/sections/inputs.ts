@@ -3,6 +3,7 @@
  */
 import { FRICTION_LIBRARY, findNutMaterial, findScrewMaterial, type Design, type Evaluation, type FrictionRange } from '@leadline/mechanics';
 import { coefficient, formatQuantity, siRecord, sig, type QuantityKind, type UnitSystem } from '@leadline/presentation';
+import { designInputSchema } from '@leadline/contracts';
 import type { FrictionRow, InputRow, KeyValue, MaterialRow } from '../report-view';
 
 // ---------------------------------------------------------------------------------------------------------
@@ -24,9 +25,82 @@ export function flatten(value: unknown, prefix: string, out: InputRow[]): void {
 export const SI_UNIT_OF: Record<string, string> = {
   majorDiameter: 'm', pitch: 'm', meanDiameter: 'm', outerDiameter: 'm', innerDiameter: 'm', length: 'm', unsupportedLength: 'm',
   axial: 'N', allowablePressure: 'Pa', yieldStrength: 'Pa', elasticModulus: 'Pa', allowablePv: 'Pa·m/s', density: 'kg/m³',
-  speed: 'rpm', linearSpeed: 'm/s', availableTorque: 'N·m', loadFlankAngle: '°',
+  speed: 'rpm', linearSpeed: 'm/s', upToRubbingSpeed: 'm/s', availableTorque: 'N·m', loadFlankAngle: '°',
   whirlSpan: 'm', brakeTorque: 'N·m', loadMass: 'kg', accelerationTime: 's', acceleration: 'm/s²',
 };
+
+/** The quantity kind of each engine unit, to print an engine value in the report's unit system. */
+const KIND_OF_SI_UNIT: Record<string, QuantityKind> = {
+  m: 'length', N: 'force', Pa: 'stress', 'Pa·m/s': 'pv', 'kg/m³': 'density', rpm: 'rpm', 'm/s': 'slidingSpeed', 'N·m': 'torque',
+  '°': 'angle', kg: 'mass', s: 'time', 'm/s²': 'linearAcceleration',
+};
+
+type Node = { def?: { type?: string; innerType?: Node; element?: Node; options?: Node[] }; shape?: Record<string, Node>; description?: string };
+
+/** The schema a design-input path names (through optional, default, nullable, arrays and unions), or null. */
+function schemaAt(path: readonly string[]): Node | null {
+  let node: Node | undefined = designInputSchema as unknown as Node;
+  const unwrap = (n: Node | undefined): Node | undefined => {
+    while (n && n.def && n.def.innerType) n = n.def.innerType;
+    return n;
+  };
+  for (const key of path) {
+    node = unwrap(node);
+    if (!node) return null;
+    if (/^\d+$/.test(key) && node.def?.element) {
+      node = node.def.element;
+      continue;
+    }
+    const options: Node[] = node.def?.options ?? [node];
+    node = options.map((o) => unwrap(o)?.shape?.[key]).find((x) => x !== undefined);
+  }
+  return node ?? null;
+}
+
+/**
+ * A field of the design input in words, from the design input's own declarations (libs/contracts design-input.ts:
+ * the description each field carries, before its unit hint); a field declared without one is named by its key.
+ */
+export function inputLabel(path: string): string {
+  const keys = path.replace(/\[(\d+)\]/g, '.$1').split('.').filter(Boolean);
+  let node = schemaAt(keys);
+  let description: string | undefined;
+  while (node && description === undefined) {
+    description = node.description;
+    node = node.def?.innerType ?? null;
+  }
+  const step = keys.find((k) => /^\d+$/.test(k));
+  // the words before the unit hint, an example or a note: "nut length (engaged): <hint>" -> "nut length"
+  const words = description
+    ? description.split(/: |; |,? e\.g\./)[0].replace(/\s*\([^)]*\)/g, '').replace(/\s*\([^)]*$/, '').trim()
+    : (keys.filter((k) => !/^\d+$/.test(k)).pop() ?? path).replace(/([a-z])([A-Z])/g, '$1 $2').toLowerCase();
+  const text = words.charAt(0).toUpperCase() + words.slice(1);
+  return step === undefined ? text : `${text} (step ${Number(step) + 1})`;
+}
+
+/** The values the engine used, each by its label, in the report's unit system (rounded as the report rounds). */
+export function engineValueRows(design: Design, system: UnitSystem): InputRow[] {
+  const rows: InputRow[] = [];
+  const walk = (value: unknown, prefix: string): void => {
+    if (prefix === 'friction') return; // printed with its sources in its own table
+    if (value !== null && typeof value === 'object') {
+      for (const [k, v] of Object.entries(value as Record<string, unknown>)) walk(v, prefix ? `${prefix}.${k}` : k);
+      return;
+    }
+    if (value === null || value === undefined) return; // not given: nothing the engine used
+    const key = prefix.split('.').pop() as string;
+    const unit = SI_UNIT_OF[key] ?? (/Strength$/.test(key) ? 'Pa' : undefined);
+    const kind = key === 'elasticModulus' ? 'modulus' : unit ? KIND_OF_SI_UNIT[unit] : undefined;
+    const text = typeof value !== 'number' ? String(value)
+      : kind ? formatQuantity(value, kind, system)
+        : unit ? `${siRecord(value)} ${unit}`
+          : Number.isInteger(value) ? String(value) : sig(value);
+    // the normalized design keeps the input's names, except the pressure steps taken from the library
+    rows.push({ path: prefix, label: inputLabel(prefix.replace(/^nut\.pressureBySpeed/, 'nut.allowablePressureBySpeed')), value: text });
+  };
+  walk(design, '');
+  return rows;
+}
 
 export function engineUnitRows(design: Design): InputRow[] {
   const rows: InputRow[] = [];
@@ -105,7 +179,7 @@ export function minimumMaterialRows(g: Evaluation['geometry'], system: UnitSyste
   if (!mm) return [];
   if (mm.toleranceClass === null) {
     // What the engine recorded as its basis: for most forms the basic profile, for Acme the root every class shares
-    return [{ label: 'Tolerance class', value: `none named; the checks use the ${mm.basis}` }];
+    return [{ label: 'Tolerance class', value: mm.basis }];
   }
   const L = (si: number) => formatQuantity(si, 'length', system);
   return [
