@@ -171,7 +171,11 @@ describe('POST /api/v1/sizing', () => {
   it('the textbook jack with the default search: ranked by diameter, at most 20, with headroom for the best three', async () => {
     const answer = await size({ requirements: TEXTBOOK_JACK });
     expect(answer.objective).toBe('smallest-diameter');
-    expect(answer.candidates).toHaveLength(20);
+    // the default limit 20 cuts the full list (limit 500) at its head; under rule set 2026.12-3 fatigue of the thread root
+    // leaves fewer than 20 screws for the 80 kN jack, so the full list is shorter than the limit here
+    const all = await size({ requirements: TEXTBOOK_JACK, search: { limit: 500 } });
+    expect(all.candidates.length).toBeGreaterThan(3);
+    expect(answer.candidates.map((c: any) => c.size)).toEqual(all.candidates.slice(0, 20).map((c: any) => c.size));
     expect(answer.pruned).toBeGreaterThan(0);
     expect(answer.headroom).toHaveLength(3);
     expect(answer.ruleSetVersion).toBe((await t.call('GET', '/api/v1/rule-sets')).body.current);

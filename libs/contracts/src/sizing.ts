@@ -42,9 +42,18 @@ export const sizingRequirementsSchema = z.strictObject({
   duty: design.duty,
   friction: design.friction,
   collar: z.union([collarRatioSchema, collarSchema]).describe('a collar as in a design, or { kind, meanDiameterRatio }'),
-  // The nut body's outside diameter and flange depend on the thread size the search picks: not a requirement
+  // The nut body's outside diameter follows the thread size the search picks: given as a multiple of it; no flange
   nut: design.nut.omit({ length: true, outsideDiameter: true, flange: true })
-    .describe('nut material and optional allowables as in a design; the search sets the length (the body and flange follow the size chosen)'),
+    .extend({
+      outsideDiameterRatio: z
+        .number()
+        .finite()
+        .min(1.2, "the nut body's outside diameter must be at least 1.2 x the screw major diameter (ratio >= 1.2)")
+        .max(5, 'a nut body above 5 x the major diameter is not a power-screw nut (ratio <= 5)')
+        .optional()
+        .describe("the nut body's outside diameter as a multiple of the screw major diameter, e.g. 1.6 (for the nut body and heat checks)"),
+    })
+    .describe('nut material and optional allowables as in a design; the search sets the length and, from outsideDiameterRatio, the outside diameter'),
   screw: design.screw,
   drive: design.drive,
 });

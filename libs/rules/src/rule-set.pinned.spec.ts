@@ -45,8 +45,8 @@ describe('default thresholds, pinned with their basis', () => {
     });
   });
 
-  it('2026.12-2 stays the start default; 2026.12-3 keeps every 2026.12-2 threshold, plus the groups of the engine 1.2 checks', () => {
-    expect(DEFAULT_RULE_SET).toBe(RULE_SET_2026_12_2);
+  it('2026.12-3 is the start default; it keeps every 2026.12-2 threshold, plus the groups of the engine 1.2 checks', () => {
+    expect(DEFAULT_RULE_SET).toBe(RULE_SET_2026_12_3);
     expect(RULE_SET_2026_12_3.thresholds).toEqual({
       ...RULE_SET_2026_12_2.thresholds,
       // strength on lifting duty with the dynamic factor phi_2 (EN 13001-2 Sec. 4.2.2.2, from memory)

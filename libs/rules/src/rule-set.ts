@@ -304,10 +304,11 @@ export const BUILT_IN_RULE_SETS: readonly RuleSet[] = Object.freeze([RULE_SET_20
 
 /**
  * The rule set new submissions are judged by until an admin adopts another (POST /api/v1/rule-sets/:version/adopt).
- * 2026.12-3 is built in and adoptable; it is not yet the start default because it blocks every lifting design that lacks
- * the engine 1.2 inputs (nut outside diameter, safety nut or wear limit, load cycles, duty), stored demo work included.
+ * 2026.12-3: on lifting duty a check that cannot be made blocks where its failure can release the load, and is information
+ * otherwise (engine-not-computed.rule.ts, DEVELOPERS.md "Rule set 2026.12-3"); revisions stored under earlier versions keep
+ * their verdicts, and the impact report and re-check show which approved ones it would change.
  */
-export const DEFAULT_RULE_SET: RuleSet = RULE_SET_2026_12_2;
+export const DEFAULT_RULE_SET: RuleSet = RULE_SET_2026_12_3;
 
 /** Whether strength checks on lifting duty read the dynamic factors (2026.12-3 on). */
 export function dynamicFactorOnLifting(t: Thresholds): boolean {
