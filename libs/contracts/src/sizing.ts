@@ -109,7 +109,7 @@ export const sizingFiguresSchema = z.object({
   raiseTorque: z.number().describe('raise torque at maximum friction, collar included [N*m]'),
   efficiency: z.number().describe('efficiency at minimum friction, collar included [-]'),
   selfLockingMargin: z.number().describe('f_min / (cos alpha_n tan lambda) [-]'),
-  lowestStrengthSafetyFactor: z.number().describe('lowest static factor of safety of body, first-thread root, stripping and the nut thread root [-]'),
+  lowestStrengthSafetyFactor: z.number().describe('lowest factor of safety of the strength checks (body, first-thread root, stripping, nut thread root, nut body, worn thread), with the dynamic factor on lifting where the rule set says so [-]'),
   lowestStrengthCheck: z.string().describe('which strength check gives the lowest factor'),
   bucklingFactor: nnum.describe('P_cr / F; null in tension'),
   speedRatio: nnum.describe('operating over first critical speed; null without a speed'),
