@@ -566,7 +566,9 @@ it('takes a tolerance class and a gearbox by keyboard, in the order of the sheet
   await typeInto(page, '#f-gear-eff', '1.5');
   await typeInto(page, '#f-gear-rev', '0.85');
   // the refusal (problem+json) is shown at the field its path names
+  // (an earlier live evaluation, sent while the fields were half typed, may mark the field first: wait for the final answer's message)
   await page.waitForSelector('#f-gear-eff[aria-invalid="true"]');
+  await page.waitForFunction(() => (document.getElementById('f-gear-eff-error')?.textContent ?? '').includes('efficiency must be within 0..1'));
   expect(await text(page, '#f-gear-eff-error')).toContain('efficiency must be within 0..1');
   await checkPage(page, 'design-form-gearbox-error');
   await page.focus('#f-gear-ratio');

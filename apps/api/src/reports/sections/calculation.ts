@@ -91,6 +91,38 @@ export const PATH_LABELS: readonly (readonly [string, string])[] = [
   ['safetyFactors.strippingNut', 'Safety factor against stripping the nut threads'],
   ['safetyFactors.nutThreadRoot', "Safety factor of the nut's own thread root"],
   ['safetyFactors.buckling', 'Buckling safety factor'],
+  // Engine 1.2 groups
+  ['nutBody.axialStress', 'Axial stress in the nut body'],
+  ['nutBody.radialForce', 'Radial push of the first thread on the nut body'],
+  ['nutBody.borePressure', 'Pressure on the nut bore over one pitch'],
+  ['nutBody.hoopStress', 'Hoop stress at the nut bore (Lamé)'],
+  ['nutBody.vonMises', 'von Mises stress in the nut body'],
+  ['nutBody.flange.shear', 'Shear of the flange at the nut body'],
+  ['nutBody.flange.bending', 'Bending of the flange at the nut body'],
+  ['safetyNut.strippingScrew', 'Stripping shear of the screw threads in the safety nut'],
+  ['safetyNut.strippingNut', 'Stripping shear of the safety nut threads'],
+  ['wornThread.wornNutThickness', 'Nut thread thickness worn by the wear allowed'],
+  ['wornThread.strippingNut', 'Stripping shear of the worn nut threads'],
+  ['operation.travelTime', 'Travel time of one stroke'],
+  ['operation.motorPower', 'Motor power at maximum friction'],
+  ['operation.heatPerCycle', 'Heat of friction per cycle (raise and lower one stroke)'],
+  ['operation.runningPowerLoss', 'Friction loss while running'],
+  ['operation.meanPowerLoss', 'Mean friction loss over the duty'],
+  ['thermal.nutSurfaceArea', 'Outside surface of the nut'],
+  ['thermal.temperatureRise', 'Steady temperature rise of the nut'],
+  ['wearLife.slidingDistance', 'Sliding distance until the wear allowed'],
+  ['wearLife.cycles', 'Wear life in cycles'],
+  ['dynamics.dynamicFactor', 'Dynamic factor on the lifted load'],
+  ['stopping.inertia', 'Inertia at the screw while stopping'],
+  ['stopping.stoppingAngle', 'Screw rotation while stopping a descending load'],
+  ['stopping.brakeEnergy', 'Energy the brake absorbs'],
+  ['fatigue.screwRoot.enduranceLimit', 'Endurance limit of the screw at its root'],
+  ['fatigue.screwRoot.safetyFactor', 'Fatigue factor of safety at the screw root (Goodman)'],
+  ['fatigue.nutThread.safetyFactor', 'Fatigue factor of safety of the nut threads (Goodman)'],
+  ['collarBearing.bearingPressure', 'Bearing pressure on the collar annulus'],
+  ['collarBearing.ratingLife', 'Basic rating life L10 of the thrust bearing'],
+  ['collarBearing.ratingLifeHours', 'Basic rating life L10 in running hours'],
+  ['collarBearing.staticSafetyFactor', 'Static safety of the thrust bearing'],
 ];
 export const LABEL_OF = new Map(PATH_LABELS);
 export const ORDER_OF = new Map(PATH_LABELS.map(([p], i) => [p, i]));
@@ -106,7 +138,25 @@ export const SECTIONS: readonly { id: string; title: string; prefixes: readonly 
   { id: 'whirl', title: 'Whirling speed', prefixes: ['criticalSpeed.'], chart: null },
   { id: 'wear', title: 'Nut wear', prefixes: ['wear.'], chart: null },
   { id: 'power', title: 'Speed, power and drive', prefixes: ['power.', 'drive.'], chart: null },
+  { id: 'nut-body', title: 'Nut body and flange', prefixes: ['nutBody.'], chart: null },
+  { id: 'safety-nut', title: 'Safety nut and worn thread', prefixes: ['safetyNut.', 'wornThread.'], chart: null },
+  { id: 'operation', title: 'Operation, duty cycle and heat', prefixes: ['operation.', 'thermal.'], chart: null },
+  { id: 'wear-life', title: 'Wear life', prefixes: ['wearLife.'], chart: null },
+  { id: 'dynamics', title: 'Lifting dynamics and stopping', prefixes: ['dynamics.', 'stopping.'], chart: null },
+  { id: 'fatigue', title: 'Fatigue', prefixes: ['fatigue.'], chart: null },
+  { id: 'collar-bearing', title: 'The collar as a bearing', prefixes: ['collarBearing.'], chart: null },
 ];
+
+/** The evaluation groups (engine 1.2) each such section reports, for its "not computed" notes. */
+const NOT_COMPUTED_GROUPS: Readonly<Record<string, readonly string[]>> = {
+  'nut-body': ['nutBody'],
+  'safety-nut': ['safetyNut', 'wornThread'],
+  operation: ['operation', 'thermal', 'wear.pvAtTemperature'],
+  'wear-life': ['wearLife'],
+  dynamics: ['dynamics', 'stopping'],
+  fatigue: ['fatigue'],
+  'collar-bearing': ['collarBearing'],
+};
 
 
 // ---------------------------------------------------------------------------------------------------------
@@ -263,9 +313,47 @@ export function sectionNotes(id: string, design: Design, e: Evaluation, system: 
       notes.push('The drive check uses the peak torque at the motor, not the steady torque.');
       return notes;
     }
+    case 'operation':
+      return [...operationNotes(design, e, system), ...notComputedNotes(id, e)];
+    case 'nut-body':
+    case 'safety-nut':
+    case 'wear-life':
+    case 'dynamics':
+    case 'fatigue':
+    case 'collar-bearing':
+      return notComputedNotes(id, e);
     default:
       return [];
   }
+}
+
+/** Operation and heat: the duty the heat balance reads, and the basis of its mean loss. */
+export function operationNotes(design: Design, e: Evaluation, system: UnitSystem): string[] {
+  const o = e.operation;
+  if (!o) return ['This evaluation was made by an engine version that did not report operation and heat figures.'];
+  const d = design.duty;
+  const duty = [
+    d.stroke != null ? `stroke ${formatQuantity(d.stroke, 'length', system)}` : 'no stroke',
+    d.cyclesPerHour != null ? `${sig(d.cyclesPerHour)} cycles per hour` : null,
+    d.dutyCycle != null ? `duty cycle ${formatQuantity(d.dutyCycle, 'percent', system)}` : null,
+  ].filter((x): x is string => x !== null);
+  const notes = [`Duty: ${duty.join(', ')}.`];
+  if (o.meanPowerLossBasis === 'cycles-per-hour') notes.push('The mean friction loss is the heat per cycle times the cycles per hour (the larger of the two estimates when a duty cycle is also given).');
+  if (o.meanPowerLossBasis === 'duty-cycle') notes.push('The mean friction loss is the running loss times the duty cycle (the larger of the two estimates when cycles per hour are also given).');
+  if (e.thermal) {
+    notes.push(
+      `All friction heat is taken into the nut and shed by its outside surface in still air (the safe side); the ambient temperature is ${e.thermal.ambientBasis === 'stated' ? 'as stated' : 'the default upper ambient of IEC 60204-1 (from memory)'}.`,
+    );
+  }
+  return notes;
+}
+
+/** What the engine could not compute for a section's groups, each with the inputs to give. */
+export function notComputedNotes(id: string, e: Evaluation): string[] {
+  const groups = NOT_COMPUTED_GROUPS[id] ?? [];
+  return (e.notComputed ?? [])
+    .filter((n) => groups.some((g) => n.subject === g || n.subject.startsWith(`${g}.`)))
+    .map((n) => `Not computed (${n.subject}): give ${n.missing.join('; ')}. ${n.reason.charAt(0).toUpperCase()}${n.reason.slice(1)}.`);
 }
 
 /** Thread-stress notes: load share, root fillet, stripping planes and the nut's own threads. */
@@ -335,7 +423,8 @@ export function buildSections(design: Design, e: Evaluation, system: UnitSystem,
   for (const s of SECTIONS) {
     const mine = paths.filter((p) => !taken.has(p) && s.prefixes.some((prefix) => p.startsWith(prefix)));
     mine.forEach((p) => taken.add(p));
-    if (mine.length === 0 && s.id !== 'column') continue;
+    // A 1.2 group's section also stands for what could not be computed (its notes say what to give)
+    if (mine.length === 0 && s.id !== 'column' && notComputedNotes(s.id, e).length === 0) continue;
     n++;
     sections.push({
       id: s.id,
