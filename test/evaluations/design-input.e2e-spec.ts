@@ -103,6 +103,6 @@ it('refuses a design life in a unit that is not a time, or beyond any machine, w
   expect((await t.call('POST', '/api/v1/rule-sets/2026.12-4/adopt', {}, { as: 'admin' })).status).toBe(200);
   const judged = bearingLife((await t.call('POST', '/api/v1/evaluations', rolling)).body);
   expect(judged?.status).toBe('warning');
-  expect(judged?.value).toBeCloseTo(((60 / 18) ** 3 * 1e6) / 60 / 20000, 6);
+  expect(judged?.value).toBeCloseTo(((60 / 18) ** 3 * 1e6) / (60 * 60) / 20000, 6); // revolutions / (60 rev/min x 60 min/h) = hours
   expect((await t.call('POST', '/api/v1/rule-sets/2026.12-3/adopt', {}, { as: 'admin' })).status).toBe(200);
 });

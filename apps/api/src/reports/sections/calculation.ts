@@ -334,7 +334,7 @@ export function operationNotes(design: Design, e: Evaluation, system: UnitSystem
   const d = design.duty;
   const duty = [
     d.stroke != null ? `stroke ${formatQuantity(d.stroke, 'length', system)}` : 'no stroke',
-    d.cyclesPerHour != null ? `${sig(d.cyclesPerHour)} cycles per hour` : null,
+    d.cyclesPerHour != null ? `${formatNumber(d.cyclesPerHour, 'count', system)} cycles per hour` : null,
     d.dutyCycle != null ? `duty cycle ${formatQuantity(d.dutyCycle, 'percent', system)}` : null,
   ].filter((x): x is string => x !== null);
   const notes = [`Duty: ${duty.join(', ')}.`];
