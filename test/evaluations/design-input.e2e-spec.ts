@@ -82,3 +82,27 @@ it('blocks a lifting design whose nut has no yield strength, naming the missing 
   expect(f).toMatchObject({ severity: 'blocking', measured: null });
   expect(f.message).toMatch(/nut\.yieldStrength is missing/);
 });
+
+it('refuses a design life in a unit that is not a time, or beyond any machine, with 422 naming duty.designLife, storing nothing; judges it under rule set 2026.12-4 once adopted [POST /api/v1/evaluations]', async () => {
+  const before = await countRecords(t.db);
+  for (const designLife of ['5000 kg', '1e12 h']) {
+    const res = await t.call('POST', '/api/v1/evaluations', { ...design, duty: { ...design.duty, designLife } });
+    expect(res.status).toBe(422);
+    expect(res.body.errors.map((e: { path: string }) => e.path)).toEqual(['duty.designLife']);
+  }
+  expect(await countRecords(t.db)).toEqual(before);
+  // A rolling thrust bearing of L10 = (60 / 18)^3 = 37.04 million revolutions at 60 rpm runs 10,288 h (ISO 281, from memory;
+  // hand arithmetic): against 20,000 h its life ratio is 0.514, a warning under 2026.12-4, nothing under 2026.12-3
+  const rolling = {
+    ...design,
+    collar: { kind: 'rolling', meanDiameter: '60 mm', dynamicRating: '60 kN', staticRating: '150 kN', rollingElement: 'ball', ratingSource: 'invented catalogue values for the test' },
+    duty: { ...design.duty, designLife: '20000 h' },
+  };
+  const bearingLife = (body: { checks: { id: string; value: number | null; status: string }[] }) => body.checks.find((c) => c.id === 'collar-bearing-life');
+  expect(bearingLife((await t.call('POST', '/api/v1/evaluations', rolling)).body)).toBeUndefined();
+  expect((await t.call('POST', '/api/v1/rule-sets/2026.12-4/adopt', {}, { as: 'admin' })).status).toBe(200);
+  const judged = bearingLife((await t.call('POST', '/api/v1/evaluations', rolling)).body);
+  expect(judged?.status).toBe('warning');
+  expect(judged?.value).toBeCloseTo(((60 / 18) ** 3 * 1e6) / (60 * 60) / 20000, 6); // revolutions / (60 rev/min x 60 min/h) = hours
+  expect((await t.call('POST', '/api/v1/rule-sets/2026.12-3/adopt', {}, { as: 'admin' })).status).toBe(200);
+});

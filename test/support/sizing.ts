@@ -16,15 +16,17 @@ import fc from 'fast-check';
  * offers trapezoidal and Acme sizes under Leadline's rule set (lifting factor 3 on yield), so its answer is larger.
  * The book's 18 MPa is one nut value used at any speed (engine 1.1); at 10 rev/min the smallest answer (about 95 mm)
  * rubs at about 9 ft/min, within the screw-jack class of Shigley Table 8-4 anyway; the nut's own threads are checked on
- * the book's 100 MPa.
+ * the book's 100 MPa. The inputs of the lifting checks of rule set 2026.12-3 are our choices too (invented): a nut body of
+ * 1.6 d, 1 mm of wear allowed before the nut is replaced, 10,000 lifts, a screw tensile strength of 400 MPa (twice the
+ * book's elastic strength) and a nut fatigue strength of 60 MPa.
  */
 export const TEXTBOOK_JACK = {
   load: { axial: '80 kN', sense: 'compression' },
-  duty: { kind: 'lifting', speed: '10 rpm', brake: false },
+  duty: { kind: 'lifting', speed: '10 rpm', brake: false, cycles: 10000 },
   friction: { thread: { entry: 'thread/steel-bronze/dry' }, collar: { entry: 'collar/soft-steel-cast-iron' } },
   collar: { kind: 'plain', meanDiameterRatio: 1.6 },
-  nut: { material: 'bronze', allowablePressure: '18 MPa', yieldStrength: '100 MPa' },
-  screw: { yieldStrength: '200 MPa', elasticModulus: '210 GPa', density: '7850 kg/m^3', unsupportedLength: '400 mm', ends: 'fixed-free' },
+  nut: { material: 'bronze', allowablePressure: '18 MPa', yieldStrength: '100 MPa', outsideDiameterRatio: 1.6, allowableWear: '1 mm', fatigueStrength: '80 MPa' },
+  screw: { yieldStrength: '200 MPa', tensileStrength: '600 MPa', elasticModulus: '210 GPa', density: '7850 kg/m^3', unsupportedLength: '400 mm', ends: 'fixed-free' },
 } as const;
 
 /**
@@ -81,7 +83,7 @@ export const requirementsArbitrary = fc.record({
   }),
   friction: fc.record({ thread: fc.constantFrom(...THREAD_FRICTION).map((entry) => ({ entry })), collar: fc.constantFrom(...COLLAR_FRICTION).map((entry) => ({ entry })) }),
   collar: fc.record({ kind: fc.constantFrom('plain', 'rolling'), meanDiameterRatio: fc.constantFrom(1.3, 1.6, 2) }),
-  nut: fc.record({ material: fc.constantFrom('bronze', 'manganese-bronze', 'aluminum-bronze') }),
+  nut: fc.record({ material: fc.constantFrom('bronze', 'manganese-bronze', 'aluminum-bronze'), outsideDiameterRatio: fc.constantFrom(1.5, 2) }),
   screw: fc.record({
     material: fc.constantFrom('steel-1045-cd', 'steel-4140-qt650', 'steel-1018-cd'),
     unsupportedLength: fc.integer({ min: 100, max: 2000 }).map((mm) => `${mm} mm`),

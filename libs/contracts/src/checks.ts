@@ -6,13 +6,16 @@ import { z } from 'zod';
 
 export const CHECK_STATUSES = ['pass', 'warning', 'fail', 'not-computed'] as const;
 
+/** What a check is about, for grouping (libs/rules CheckGroup is this list). */
+export const CHECK_GROUPS = ['holding', 'strength', 'column', 'speed', 'wear', 'drive', 'fatigue', 'bearing', 'heat'] as const;
+
 export const checkSchema = z
   .object({
     id: z.string().describe('check id (the rule id where the rule makes one check)'),
     ruleId: z.string().describe('the rule that makes the check'),
     label: z.string().describe('what is checked, in words'),
     shortLabel: z.string(),
-    group: z.enum(['holding', 'strength', 'column', 'speed', 'wear', 'drive']),
+    group: z.enum(CHECK_GROUPS),
     quantity: z.enum(['factor', 'fraction']).describe('factor: a dimensionless factor or margin; fraction: a share of an allowable'),
     subject: z.string().describe('evaluation path of the value'),
     value: z.number().nullable().describe('null: not computed (see status)'),

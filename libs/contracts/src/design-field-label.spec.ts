@@ -5,7 +5,7 @@ describe('designFieldLabel', () => {
     expect(designFieldLabel('load.axial')).toBe('Axial load');
     expect(designFieldLabel('design.nut.length')).toBe('Nut length');
     expect(designFieldLabel('collar.outerDiameter')).toBe('Collar outer diameter'); // inside a discriminated union
-    expect(designFieldLabel('nut.allowablePressureBySpeed.0.allowablePressure')).toBe('Allowable mean bearing pressure up to that rubbing speed');
+    expect(designFieldLabel('nut.allowablePressureBySpeed.0.allowablePressure')).toBe('Allowable mean bearing pressure up to that rubbing speed (step 1)');
   });
 
   it('names the surface of a friction range, and falls back to the path in words', () => {

@@ -160,6 +160,7 @@ export const designInputSchema = z.strictObject({
     hoistingClass: z.enum(HOISTING_CLASSES).optional().describe('hoisting class of EN 13001-2 for the dynamic factor on lifting duty (default HC2)'),
     dynamicFactor: z.number().finite().min(1, 'a dynamic factor is at least 1').max(10).optional().describe('dynamic factor on the lifted load (overrides the hoisting class)'),
     brakeResponseTime: quantity('time', 'time from the stop command until the brake holds').optional(),
+    designLife: quantity('serviceTime', 'running time (screw turning) the nut thread and a rolling thrust bearing must last, e.g. "5000 h"; the wear life and the bearing L10 life are held against it').optional(),
   }),
   drive: z
     .strictObject({
@@ -258,6 +259,7 @@ export const PLAUSIBLE_RANGE: Readonly<Record<Dimension, { readonly min: number;
   pv: { min: 1e-3, max: 1e10, text: '1 mPa*m/s to 10 GPa*m/s', reason: 'bearing pV limits are of the order of 1e6 to 1e7 Pa*m/s' },
   mass: { min: 1e-6, max: 1e9, text: '1 mg to 1,000,000 t', reason: 'the force bound divided by standard gravity, rounded up' },
   time: { min: 1e-6, max: 1e6, text: '1 us to 1e6 s', reason: 'an acceleration takes between microseconds and days' },
+  serviceTime: { min: 1, max: 1e10, text: '1 s to 1e10 s', reason: 'about 300 years, beyond any machine' },
   linearAcceleration: { min: 1e-6, max: 1e5, text: '1 um/s^2 to 1e5 m/s^2', reason: 'about 10,000 g, beyond any screw drive' },
   temperature: { min: 1, max: 2000, text: '1 K to 2000 K', reason: 'absolute zero below, steel melts below 2000 K' },
   inertia: { min: 1e-12, max: 1e6, text: '1e-12 to 1e6 kg*m^2', reason: 'from the smallest servo rotor to far beyond any screw drive' },
@@ -286,7 +288,7 @@ function normalizeDesign(input: Parsed): DesignParseResult {
       return NaN;
     }
     if (r.usCustomary) us++;
-    else if (dimension !== 'rotationalSpeed' && dimension !== 'angle' && dimension !== 'time') si++;
+    else if (dimension !== 'rotationalSpeed' && dimension !== 'angle' && dimension !== 'time' && dimension !== 'serviceTime') si++;
     return r.si;
   };
   const opt = (text: string | undefined, dimension: Dimension, path: string): number | null =>
@@ -506,6 +508,7 @@ function normalizeDesign(input: Parsed): DesignParseResult {
     hoistingClass: d.hoistingClass ?? null,
     dynamicFactor: d.dynamicFactor ?? null,
     brakeResponseTime: opt(d.brakeResponseTime, 'time', 'duty.brakeResponseTime'),
+    designLife: opt(d.designLife, 'serviceTime', 'duty.designLife'),
   };
   if (d.brakeResponseTime !== undefined && !d.brake) issues.push({ path: 'duty.brakeResponseTime', message: 'a brake response time needs duty.brake true' });
 
@@ -558,7 +561,7 @@ function normalizeDesign(input: Parsed): DesignParseResult {
 /**
  * A design input field's name in words, from the contract's own description of it (the text before its first
  * comma, colon or bracket: "nut.length" -> "Nut length"), else its path in words ("friction › thread › min").
- * Array indices are skipped ("nut.allowablePressureBySpeed.0.allowablePressure").
+ * An array index numbers the element from 1 ("nut.allowablePressureBySpeed.0.allowablePressure" -> "... (step 1)").
  */
 export function designFieldLabel(path: string): string {
   let node: z.ZodType | undefined = designInputSchema;
@@ -573,8 +576,11 @@ export function designFieldLabel(path: string): string {
   // a friction range reads the same on both surfaces: name the surface
   const surface = parts[0] === 'friction' && parts[1] ? parts[1] + ' friction — ' : '';
   const text = surface + words;
-  if (words) return text.charAt(0).toUpperCase() + text.slice(1);
-  return parts.filter((p) => !/^\d+$/.test(p)).join(' › ');
+  // an element of a list (a pressure step) is numbered from 1, as a sheet numbers its rows
+  const index = parts.find((p) => /^\d+$/.test(p));
+  const step = index === undefined ? '' : ` (step ${Number(index) + 1})`;
+  if (words) return text.charAt(0).toUpperCase() + text.slice(1) + step;
+  return parts.filter((p) => !/^\d+$/.test(p)).join(' › ') + step;
 }
 
 function unwrapped(node: z.ZodType): z.ZodType {

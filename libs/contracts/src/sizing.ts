@@ -46,9 +46,18 @@ export const sizingRequirementsSchema = z.strictObject({
   duty: design.duty,
   friction: design.friction,
   collar: z.union([collarRatioSchema, collarSchema]).describe('a collar as in a design, or { kind, meanDiameterRatio }'),
-  // The nut body's outside diameter and flange depend on the thread size the search picks: not a requirement
+  // The nut body's outside diameter follows the thread size the search picks: given as a multiple of it; no flange
   nut: design.nut.omit({ length: true, outsideDiameter: true, flange: true })
-    .describe('nut material and optional allowables as in a design; the search sets the length (the body and flange follow the size chosen)'),
+    .extend({
+      outsideDiameterRatio: z
+        .number()
+        .finite()
+        .min(1.2, "the nut body's outside diameter must be at least 1.2 x the screw major diameter (ratio >= 1.2)")
+        .max(5, 'a nut body above 5 x the major diameter is not a power-screw nut (ratio <= 5)')
+        .optional()
+        .describe("the nut body's outside diameter as a multiple of the screw major diameter, e.g. 1.6 (for the nut body and heat checks)"),
+    })
+    .describe('nut material and optional allowables as in a design; the search sets the length and, from outsideDiameterRatio, the outside diameter'),
   screw: design.screw,
   drive: design.drive,
 });
@@ -107,7 +116,7 @@ export const sizingFiguresSchema = z.object({
   raiseTorque: z.number().describe('raise torque at maximum friction, collar included [N*m]'),
   efficiency: z.number().describe('efficiency at minimum friction, collar included [-]'),
   selfLockingMargin: z.number().describe('f_min / (cos alpha_n tan lambda) [-]'),
-  lowestStrengthSafetyFactor: z.number().describe('lowest static factor of safety of body, first-thread root, stripping and the nut thread root [-]'),
+  lowestStrengthSafetyFactor: z.number().describe('lowest factor of safety of the strength checks (body, first-thread root, stripping, nut thread root, nut body, worn thread), with the dynamic factor on lifting where the rule set says so [-]'),
   lowestStrengthCheck: z.string().describe('which strength check gives the lowest factor'),
   bucklingFactor: nnum.describe('P_cr / F; null in tension'),
   speedRatio: nnum.describe('operating over first critical speed; null without a speed'),

@@ -132,6 +132,8 @@ export interface Design {
     readonly dynamicFactor?: number | null;
     /** Time from the stop command until the brake holds [s] */
     readonly brakeResponseTime?: number | null;
+    /** Running time the nut thread and a rolling thrust bearing must last [s] (rule set 2026.12-4 holds the lives against it) */
+    readonly designLife?: number | null;
   };
   readonly drive: {
     /** Torque the drive delivers at start [N*m]: at the motor shaft when a gearbox is given, else at the screw */

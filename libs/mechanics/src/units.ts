@@ -35,7 +35,8 @@ export type Dimension =
   | 'linearAcceleration'
   | 'temperature'
   | 'inertia'
-  | 'specificWearRate';
+  | 'specificWearRate'
+  | 'serviceTime';
 
 /** mathjs base-dimension exponents: [MASS, LENGTH, TIME, CURRENT, TEMPERATURE, LUMINOUS, AMOUNT, ANGLE, BIT]. */
 const DIMENSIONS: Record<Dimension, number[]> = {
@@ -54,6 +55,8 @@ const DIMENSIONS: Record<Dimension, number[]> = {
   temperature: [0, 0, 0, 0, 1, 0, 0, 0, 0],
   inertia: [1, 2, 0, 0, 0, 0, 0, 0, 0],
   specificWearRate: [-1, 1, 2, 0, 0, 0, 0, 0, 0],
+  // a time too, told apart only for its plausible range (hours of service rather than seconds of motion)
+  serviceTime: [0, 0, 1, 0, 0, 0, 0, 0, 0],
 };
 
 /** What a dimension is called in error messages, with example units. */
@@ -73,6 +76,7 @@ export const DIMENSION_HINT: Record<Dimension, string> = {
   temperature: 'a temperature such as "20 degC", "68 degF" or "293.15 K"',
   inertia: 'a mass moment of inertia such as "0.002 kg*m^2" or "5 lb*in^2"',
   specificWearRate: 'a specific wear rate such as "1e-6 mm^3/(N*m)"',
+  serviceTime: 'a running time such as "5000 h"',
 };
 
 /**
@@ -91,6 +95,11 @@ interface ResolvedUnit {
 }
 
 const resolved = new Map<string, ResolvedUnit | Error>();
+
+/** The dimension a unit resolves to: a service time is a time (the two differ only in their plausible range). */
+function baseDimension(d: Dimension): Dimension {
+  return d === 'serviceTime' ? 'time' : d;
+}
 
 function resolveUnit(unitText: string): ResolvedUnit | Error {
   const cached = resolved.get(unitText);
@@ -139,7 +148,7 @@ export function parseQuantity(text: string, dimension: Dimension): Quantity | Qu
   if (!Number.isFinite(value)) return new QuantityError(`"${text}" is not a finite number`);
   const unit = resolveUnit(match[2]);
   if (unit instanceof Error) return new QuantityError(`${unit.message}; expected ${DIMENSION_HINT[dimension]}`);
-  if (unit.dimension !== dimension) {
+  if (unit.dimension !== baseDimension(dimension)) {
     return new QuantityError(`"${text}" is not ${DIMENSION_HINT[dimension]}`);
   }
   // Temperatures carry an offset (degC, degF): converted by mathjs to kelvin, never by a factor alone
@@ -152,7 +161,7 @@ export function parseQuantity(text: string, dimension: Dimension): Quantity | Qu
 /** Converts an SI value (engine units) into the given unit text, for reports. */
 export function fromSi(si: number, unitText: string, dimension: Dimension): number {
   const unit = resolveUnit(unitText);
-  if (unit instanceof Error || unit.dimension !== dimension) {
+  if (unit instanceof Error || unit.dimension !== baseDimension(dimension)) {
     throw new Error(`cannot express ${dimension} in "${unitText}"`);
   }
   if (dimension === 'temperature') return math.unit(si, 'K').toNumber(unitText);

@@ -4,6 +4,7 @@
  * the rule decides with `assessCheck`, and everything else that speaks of checks (the answer's `checks` and
  * `governing`, the re-check, the screw search, the report, the pages) reads the same declarations. Pure.
  */
+import type { CHECK_GROUPS } from '@leadline/contracts';
 import type { Design, Evaluation } from '@leadline/mechanics';
 import type { RuleContext } from './rule';
 
@@ -21,7 +22,7 @@ export type CheckStatus = 'pass' | 'warning' | 'fail' | 'not-computed';
 export type CheckQuantity = 'factor' | 'fraction';
 
 /** What a check is about, for grouping (the report's lowest strength factor is over the 'strength' group). */
-export type CheckGroup = 'holding' | 'strength' | 'column' | 'speed' | 'wear' | 'drive' | 'fatigue' | 'bearing' | 'heat';
+export type CheckGroup = (typeof CHECK_GROUPS)[number];
 
 /** Severity of the rule's finding in a case the declaration names. */
 export type CheckSeverity = 'blocking' | 'warning' | 'info';

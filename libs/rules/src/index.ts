@@ -34,5 +34,7 @@ export * from './rules/screw-root-fatigue.rule';
 export * from './rules/nut-thread-fatigue.rule';
 export * from './rules/collar-bearing-pressure.rule';
 export * from './rules/collar-bearing-static.rule';
+export * from './rules/wear-life-design-life.rule';
+export * from './rules/collar-bearing-life.rule';
 export * from './rules/engine-not-computed.rule';
 export * from './margins';

@@ -30,6 +30,8 @@ import { screwRootFatigueRule } from './rules/screw-root-fatigue.rule';
 import { nutThreadFatigueRule } from './rules/nut-thread-fatigue.rule';
 import { collarBearingPressureRule } from './rules/collar-bearing-pressure.rule';
 import { collarBearingStaticRule } from './rules/collar-bearing-static.rule';
+import { collarBearingLifeRule } from './rules/collar-bearing-life.rule';
+import { wearLifeDesignLifeRule } from './rules/wear-life-design-life.rule';
 import { engineNotComputedRule } from './rules/engine-not-computed.rule';
 
 export const RULE_REGISTRY: readonly Rule[] = Object.freeze([
@@ -59,6 +61,8 @@ export const RULE_REGISTRY: readonly Rule[] = Object.freeze([
   nutThreadFatigueRule,
   collarBearingPressureRule,
   collarBearingStaticRule,
+  wearLifeDesignLifeRule,
+  collarBearingLifeRule,
   engineNotComputedRule,
 ]);
 

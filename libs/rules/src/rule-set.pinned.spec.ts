@@ -3,7 +3,7 @@
  * the default rule set, so without this test a changed default would pass them silently. Changing a number here is a
  * new rule-set version (never an edit of a stored one) and needs its basis stated in rule-set.ts.
  */
-import { BUILT_IN_RULE_SETS, DEFAULT_RULE_SET, RULE_SET_2026_12_1, RULE_SET_2026_12_2, RULE_SET_2026_12_3 } from './rule-set';
+import { BUILT_IN_RULE_SETS, DEFAULT_RULE_SET, RULE_SET_2026_12_1, RULE_SET_2026_12_2, RULE_SET_2026_12_3, RULE_SET_2026_12_4 } from './rule-set';
 
 /** The thresholds of 2026.12-1, each with its basis (rule-set.ts states the same). */
 const PINNED_2026_12_1 = {
@@ -45,8 +45,8 @@ describe('default thresholds, pinned with their basis', () => {
     });
   });
 
-  it('2026.12-2 stays the start default; 2026.12-3 keeps every 2026.12-2 threshold, plus the groups of the engine 1.2 checks', () => {
-    expect(DEFAULT_RULE_SET).toBe(RULE_SET_2026_12_2);
+  it('2026.12-3 is the start default; it keeps every 2026.12-2 threshold, plus the groups of the engine 1.2 checks', () => {
+    expect(DEFAULT_RULE_SET).toBe(RULE_SET_2026_12_3);
     expect(RULE_SET_2026_12_3.thresholds).toEqual({
       ...RULE_SET_2026_12_2.thresholds,
       // strength on lifting duty with the dynamic factor phi_2 (EN 13001-2 Sec. 4.2.2.2, from memory)
@@ -68,7 +68,16 @@ describe('default thresholds, pinned with their basis', () => {
     });
   });
 
+  it('2026.12-4 keeps every 2026.12-3 threshold, plus the design-life group', () => {
+    expect(RULE_SET_2026_12_4.version).toBe('2026.12-4');
+    expect(RULE_SET_2026_12_4.thresholds).toEqual({
+      ...RULE_SET_2026_12_3.thresholds,
+      // wear life and bearing L10 life at least the design life, else a warning (common practice)
+      designLife: { minLifeRatio: 1 },
+    });
+  });
+
   it('the service stores every built-in version, oldest first', () => {
-    expect(BUILT_IN_RULE_SETS.map((r) => r.version)).toEqual(['2026.12-1', '2026.12-2', '2026.12-3']);
+    expect(BUILT_IN_RULE_SETS.map((r) => r.version)).toEqual(['2026.12-1', '2026.12-2', '2026.12-3', '2026.12-4']);
   });
 });

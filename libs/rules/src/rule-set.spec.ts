@@ -3,14 +3,14 @@ import { BUILT_IN_RULE_SETS, DEFAULT_RULE_SET, RULE_SET_2026_12_1, RULE_SET_2026
 const clone = <T>(x: T): T => JSON.parse(JSON.stringify(x)) as T;
 
 describe('rule-set definition', () => {
-  it('the default rule set is version 2026.12-2 and 2026.12-3 passes its own schema', () => {
-    expect(DEFAULT_RULE_SET.version).toBe('2026.12-2');
+  it('the default rule set is version 2026.12-3 and passes its own schema', () => {
+    expect(DEFAULT_RULE_SET.version).toBe('2026.12-3');
     expect(ruleSetDefinitionSchema.parse(RULE_SET_2026_12_3)).toEqual(RULE_SET_2026_12_3);
     expect(ruleSetDefinitionSchema.parse(DEFAULT_RULE_SET)).toEqual(DEFAULT_RULE_SET);
   });
 
   it('2026.12-1 stays built in and parses to itself, without the groups added in 2026.12-2', () => {
-    expect(BUILT_IN_RULE_SETS.map((r) => r.version)).toEqual(['2026.12-1', '2026.12-2', '2026.12-3']);
+    expect(BUILT_IN_RULE_SETS.map((r) => r.version)).toEqual(['2026.12-1', '2026.12-2', '2026.12-3', '2026.12-4']);
     const stored = clone(RULE_SET_2026_12_1); // as stored in rule_sets.definition (JSON)
     expect(Object.keys(stored.thresholds)).not.toContain('nutThreads');
     expect(Object.keys(stored.thresholds)).not.toContain('missingValues');

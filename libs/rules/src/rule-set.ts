@@ -118,6 +118,13 @@ export const thresholdsSchema = z
       })
       .optional()
       .describe('added in 2026.12-3; absent in earlier versions (the engine-not-computed rule then does not run)'),
+    // Added in 2026.12-4 with the design-life input (duty.designLife); optional so that earlier versions parse and judge as before.
+    designLife: z
+      .strictObject({
+        minLifeRatio: positive('smallest wear life or bearing L10 life as a multiple of duty.designLife; below it warns (the part is replaced earlier)'),
+      })
+      .optional()
+      .describe('added in 2026.12-4; absent in earlier versions (the design-life rules then do not run)'),
   })
   .superRefine((t, ctx) => {
     const issue = (path: PropertyKey[], message: string) => ctx.addIssue({ code: 'custom', path, message });
@@ -299,15 +306,37 @@ export const RULE_SET_2026_12_3: RuleSet = {
   },
 };
 
+/**
+ * Rule set 2026.12-4: every 2026.12-3 threshold unchanged, plus the wear life and the rolling thrust bearing's L10 life held
+ * against the design life (duty.designLife). A design without a design life is judged exactly as under 2026.12-3; built
+ * in and adoptable, not the start default.
+ */
+export const RULE_SET_2026_12_4: RuleSet = {
+  version: '2026.12-4',
+  description:
+    'The wear life and the rolling thrust bearing L10 life against the design life (duty.designLife): a life short of it warns; ' +
+    'every 2026.12-3 threshold kept.',
+  thresholds: {
+    ...RULE_SET_2026_12_3.thresholds,
+    designLife: {
+      // Common practice: the wear life and the L10 life (90 % reliability, ISO 281) should reach the stated design life; a
+      // shorter life warns rather than blocks, because the worn-thread check and the bearing's static check guard the load
+      // and a shorter life means an earlier replacement.
+      minLifeRatio: 1,
+    },
+  },
+};
+
 /** Rule sets built into the service, oldest first; the service stores each of them at start. */
-export const BUILT_IN_RULE_SETS: readonly RuleSet[] = Object.freeze([RULE_SET_2026_12_1, RULE_SET_2026_12_2, RULE_SET_2026_12_3]);
+export const BUILT_IN_RULE_SETS: readonly RuleSet[] = Object.freeze([RULE_SET_2026_12_1, RULE_SET_2026_12_2, RULE_SET_2026_12_3, RULE_SET_2026_12_4]);
 
 /**
  * The rule set new submissions are judged by until an admin adopts another (POST /api/v1/rule-sets/:version/adopt).
- * 2026.12-3 is built in and adoptable; it is not yet the start default because it blocks every lifting design that lacks
- * the engine 1.2 inputs (nut outside diameter, safety nut or wear limit, load cycles, duty), stored demo work included.
+ * 2026.12-3: on lifting duty a check that cannot be made blocks where its failure can release the load, and is information
+ * otherwise (engine-not-computed.rule.ts, DEVELOPERS.md "Rule set 2026.12-3"); revisions stored under earlier versions keep
+ * their verdicts, and the impact report and re-check show which approved ones it would change.
  */
-export const DEFAULT_RULE_SET: RuleSet = RULE_SET_2026_12_2;
+export const DEFAULT_RULE_SET: RuleSet = RULE_SET_2026_12_3;
 
 /** Whether strength checks on lifting duty read the dynamic factors (2026.12-3 on). */
 export function dynamicFactorOnLifting(t: Thresholds): boolean {

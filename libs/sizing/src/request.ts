@@ -23,6 +23,8 @@ export interface SizingPlan {
   readonly base: Design;
   /** Collar mean diameter = ratio x major diameter, or null when the collar is fixed by the requirements */
   readonly collarRatio: number | null;
+  /** requirements.nut.outsideDiameterRatio: the nut body's outside diameter as a multiple of the major diameter, or null */
+  readonly nutOutsideRatio: number | null;
   readonly sizes: readonly ThreadSize[];
   readonly starts: readonly number[];
   readonly nutLengthRatios: readonly number[];
@@ -82,16 +84,23 @@ export function candidateInput(plan: SizingPlan, size: ThreadSize, starts: numbe
     load: r.load,
     friction: r.friction,
     collar,
-    nut: { length: lengthText(nutLengthRatio * size.majorDiameter, size), ...r.nut },
+    nut: nutInput(r.nut, lengthText(nutLengthRatio * size.majorDiameter, size), (ratio) => lengthText(ratio * size.majorDiameter, size)),
     screw: r.screw,
     duty: r.duty,
     ...(r.drive ? { drive: r.drive } : {}),
   } as DesignInput;
 }
 
+/** A design's nut from the requirements' nut: the length given, the outside-diameter ratio turned into a length. */
+function nutInput(nut: SizingRequirements['nut'], length: string, lengthOf: (ratio: number) => string): DesignInput['nut'] {
+  const { outsideDiameterRatio, ...rest } = nut;
+  return { length, ...rest, ...(outsideDiameterRatio !== undefined ? { outsideDiameter: lengthOf(outsideDiameterRatio) } : {}) } as DesignInput['nut'];
+}
+
 /** Where a design-input field sits in the sizing request. */
 function requestPath(designPath: string): string {
   if (designPath.startsWith('collar.meanDiameter')) return 'requirements.collar.meanDiameterRatio';
+  if (designPath === 'nut.outsideDiameter') return 'requirements.nut.outsideDiameterRatio';
   return `requirements.${designPath}`;
 }
 
@@ -112,7 +121,7 @@ export function parseSizingRequest(raw: unknown): SizingParseResult {
     load: requirements.load,
     friction: requirements.friction,
     collar: collarRatio === null ? requirements.collar : { kind: requirements.collar.kind, meanDiameter: `${collarRatio * 100} mm` },
-    nut: { length: '200 mm', ...requirements.nut },
+    nut: nutInput(requirements.nut, '200 mm', (ratio) => `${ratio * 100} mm`),
     screw: requirements.screw,
     duty: requirements.duty,
     ...(requirements.drive ? { drive: requirements.drive } : {}),
@@ -166,6 +175,7 @@ export function parseSizingRequest(raw: unknown): SizingParseResult {
       requirements,
       base: parsed.design,
       collarRatio,
+      nutOutsideRatio: requirements.nut.outsideDiameterRatio ?? null,
       sizes,
       starts: unique(search.starts ?? SIZING_DEFAULTS.starts).sort((a, b) => a - b),
       nutLengthRatios: unique(search.nutLength?.ratios ?? SIZING_DEFAULTS.nutLengthRatios).sort((a, b) => a - b),

@@ -60,7 +60,7 @@ export interface SizingResult {
  * design equals what parsing that input gives and POST /evaluations reproduces the search's verdict and figures.
  */
 export function candidateDesign(plan: SizingPlan, size: ThreadSize, starts: number, nutLengthRatio: number): Design {
-  return withThread(plan.base, size, starts, ratioLength(size, nutLengthRatio), collarFor(plan, size), classFor(plan, size));
+  return withThread(plan.base, size, starts, ratioLength(size, nutLengthRatio), collarFor(plan, size), classFor(plan, size), outsideFor(plan, size));
 }
 
 /**
@@ -93,11 +93,18 @@ function collarFor(plan: SizingPlan, size: ThreadSize): Design['collar'] {
   return { kind: c.kind, meanDiameter: ratioLength(size, plan.collarRatio) };
 }
 
-function withThread(base: Design, size: ThreadSize, starts: number, length: number, collar: Design['collar'], toleranceClass: string | null): Design {
+/** The nut body's outside diameter of a candidate: ratio x major diameter read from its text, or none. */
+function outsideFor(plan: SizingPlan, size: ThreadSize): number | null {
+  return plan.nutOutsideRatio === null ? null : ratioLength(size, plan.nutOutsideRatio);
+}
+
+function withThread(
+  base: Design, size: ThreadSize, starts: number, length: number, collar: Design['collar'], toleranceClass: string | null, outsideDiameter: number | null,
+): Design {
   return {
     ...base,
     thread: { form: size.form, size: size.designation, majorDiameter: size.majorDiameter, pitch: size.pitch, starts, loadFlankAngle: null, toleranceClass },
-    nut: { ...base.nut, length },
+    nut: { ...base.nut, length, outsideDiameter },
     collar,
   };
 }
@@ -191,12 +198,13 @@ export function* searchSteps(plan: SizingPlan, ruleSet: RuleSet): Generator<void
   for (const size of plan.sizes) {
     const collar = collarFor(plan, size);
     const toleranceClass = classFor(plan, size);
+    const outsideDiameter = outsideFor(plan, size);
     const lengths = ratios.map((r) => ratioLength(size, r));
     for (const starts of plan.starts) {
       searched += ratios.length;
       let pick: Passing | null = null;
       for (let k = 0; k < ratios.length; k++) {
-        const j = judged(withThread(plan.base, size, starts, lengths[k], collar, toleranceClass), ruleSet);
+        const j = judged(withThread(plan.base, size, starts, lengths[k], collar, toleranceClass, outsideDiameter), ruleSet);
         evaluations++;
         const blockedBy = firstBlockingRule(j.findings);
         if (blockedBy !== null) {

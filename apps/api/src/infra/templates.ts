@@ -29,6 +29,8 @@ export class Templates {
   private static compilationsCount = 0;
   private readonly hbs = Handlebars.create();
   private readonly compiled = new Map<string, Template<never>>();
+  /** Each partial's source as registered (Handlebars replaces its own copy by a compiled function on first use). */
+  private readonly partialSources = new Map<string, string>();
 
   private constructor(readonly dir: string) {
     const hbs = this.hbs;
@@ -44,7 +46,9 @@ export class Templates {
         if (!file.endsWith('.hbs')) continue;
         const name = basename(file, '.hbs');
         if (hbs.partials[name] !== undefined) throw new Error(`two partials are named "${name}" (${folder})`);
-        hbs.registerPartial(name, readFileSync(join(folder, file), 'utf8'));
+        const source = readFileSync(join(folder, file), 'utf8');
+        this.partialSources.set(name, source);
+        hbs.registerPartial(name, source);
       }
     }
   }
@@ -69,7 +73,7 @@ export class Templates {
     let t = this.compiled.get(name);
     if (t === undefined) {
       const file = join(this.dir, `${name}.hbs`);
-      const source = existsSync(file) ? readFileSync(file, 'utf8') : (this.hbs.partials[name] as string | undefined);
+      const source = existsSync(file) ? readFileSync(file, 'utf8') : this.partialSources.get(name);
       if (typeof source !== 'string') throw new Error(`no template or partial "${name}" in ${this.dir}`);
       t = this.hbs.compile(source, name.startsWith('pages/') ? { strict: true } : { strict: false, preventIndent: true });
       this.compiled.set(name, t);

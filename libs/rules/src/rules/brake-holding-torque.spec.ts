@@ -3,7 +3,7 @@
  * and just below the factor; the missing-torque warning on lifting duty; absent from rule set 2026.12-1.
  * T_0 expected values are computed by hand from F l / (2 pi) (Shigley 10th ed., Eq. (8-4) with e = 1).
  */
-import { RULE_SET_2026_12_1, RULE_SET_2026_12_2 } from '../rule-set';
+import { RULE_SET_2026_12_1, RULE_SET_2026_12_2, RULE_SET_2026_12_3 } from '../rule-set';
 import { contextOf, evaluated, FAST_AXIS_INPUT, JACK_INPUT, JUST, withDuty } from '../testing/designs';
 import { brakeHoldingTorque } from './brake-holding-torque.rule';
 
@@ -70,6 +70,23 @@ describe('brake-holding-torque', () => {
     expect(f?.severity).toBe('blocking'); // 4 / 2.2282 = 1.80 < 2
     expect(f?.message).toMatch(/at the motor shaft/);
     expect(brakeHoldingTorque(contextOf(evaluated(withDuty(input, { brakeTorque: '4.6 N*m' }))))).toBeNull(); // 2.06 >= 2
+  });
+
+  it('the recalculation case: 2-start Tr 30x6 lifting 8 kN through 10:1 (reverse efficiency 0.6), 3 N*m motor brake holds 1.96 times: blocked under the default', () => {
+    // T_0 = 8000 x 0.012 / (2 pi) = 15.2789 N*m (Shigley 10th ed., Eq. (8-4) with e = 1); at the motor / 10 = 1.52789 N*m;
+    // 3 / 1.52789 = 1.9635 (hand arithmetic), below the factor 2 (crediting eta_r = 0.6 gave 3.27 and passed)
+    const input = withDuty(
+      {
+        ...JACK_INPUT, thread: { form: 'trapezoidal', size: 'Tr 30x6', starts: 2 }, load: { axial: '8 kN', sense: 'compression' },
+        drive: { availableTorque: '20 N*m', gearbox: { ratio: 10, efficiency: 0.9, reverseEfficiency: 0.6 } },
+      },
+      { brake: true, brakeTorque: '3 N*m', brakeLocation: 'motor', speed: '100 rpm' },
+    );
+    for (const rs of [RULE_SET_2026_12_2, RULE_SET_2026_12_3]) {
+      const f = brakeHoldingTorque(contextOf(evaluated(input), rs.thresholds));
+      expect(f?.severity).toBe('blocking');
+      expect(f?.measured as number).toBeCloseTo(1.9635, 4);
+    }
   });
 
   it('is not run under rule set 2026.12-1 (old revisions keep being judged as before)', () => {

@@ -32,7 +32,11 @@ export const collarBearingPressureRule = limitRule({
     'collarBearing.maxPressureRatio of the allowable. Only in rule sets with the collarBearing group (2026.12-3 on).',
   check: COLLAR_BEARING_PRESSURE_CHECK,
   what: 'Collar bearing pressure (share of the allowable)',
-  missing: () => 'collar.kind "annular" with collar.outerDiameter and collar.innerDiameter, and collar.allowablePressure',
+  // Name only what is absent: an annular collar lacks only its allowable
+  missing: ({ design }) =>
+    design.collar.kind === 'annular'
+      ? 'collar.allowablePressure'
+      : 'collar.kind "annular" with collar.outerDiameter and collar.innerDiameter, and collar.allowablePressure',
   consequence: 'Above its allowable pressure the collar loses its lubricant film, galls and wears fast.',
   remedy: 'Enlarge the collar annulus, choose a collar pair with a higher allowable, or fit a rolling thrust bearing.',
   nutIndependent: true,

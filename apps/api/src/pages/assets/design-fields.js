@@ -19,9 +19,9 @@ const CONTROLLED = {
   load: { axial: true, sense: true },
   friction: { thread: true, collar: true },
   collar: true,
-  nut: { length: true, material: true, allowablePressure: true, allowablePressureBySpeed: stepsFit, allowablePv: true, yieldStrength: true },
+  nut: { length: true, material: true, allowablePressure: true, allowablePressureBySpeed: stepsFit, allowablePv: true, yieldStrength: true, outsideDiameter: true, allowableWear: true, fatigueStrength: true },
   screw: { material: true, yieldStrength: true, elasticModulus: true, density: true, unsupportedLength: true, ends: true, endConditionBasis: true, whirlSpan: true, whirlEnds: true },
-  duty: { kind: true, speed: true, linearSpeed: true, brake: true, brakeTorque: true, vibration: true, brakeLocation: true },
+  duty: { kind: true, speed: true, linearSpeed: true, brake: true, brakeTorque: true, vibration: true, brakeLocation: true, cycles: true },
   drive: { availableTorque: true, loadMass: true, accelerationTime: true, acceleration: true, gearbox: { ratio: true, efficiency: true, reverseEfficiency: true } },
 };
 
@@ -175,6 +175,9 @@ export function readDesign() {
   if (steps.length) design.nut.allowablePressureBySpeed = steps;
   optional(design.nut, 'allowablePv', text('f-nut-pv'));
   optional(design.nut, 'yieldStrength', text('f-nut-yield'));
+  optional(design.nut, 'outsideDiameter', text('f-nut-outside'));
+  optional(design.nut, 'allowableWear', text('f-nut-wear'));
+  optional(design.nut, 'fatigueStrength', text('f-nut-fatigue'));
   optional(design.screw, 'material', text('f-screw-material'));
   optional(design.screw, 'yieldStrength', text('f-screw-yield'));
   optional(design.screw, 'elasticModulus', text('f-screw-modulus'));
@@ -189,6 +192,8 @@ export function readDesign() {
   design.duty.brake = $('f-brake').checked;
   optional(design.duty, 'brakeTorque', text('f-brake-torque'));
   optional(design.duty, 'brakeLocation', $('f-brake-location').value);
+  const cycles = coefficient(text('f-cycles'));
+  if (cycles !== undefined) design.duty.cycles = cycles; // text that is not a number goes to the API, which names the field
   design.duty.vibration = $('f-vibration').checked;
   const drive = {};
   optional(drive, 'availableTorque', text('f-drive'));
@@ -255,6 +260,9 @@ export function fillDesign(d) {
   }
   set('f-nut-pv', nut.allowablePv);
   set('f-nut-yield', nut.yieldStrength);
+  set('f-nut-outside', nut.outsideDiameter);
+  set('f-nut-wear', nut.allowableWear);
+  set('f-nut-fatigue', nut.fatigueStrength);
   const s = d.screw || {};
   set('f-screw-material', s.material);
   set('f-screw-yield', s.yieldStrength);
@@ -272,6 +280,7 @@ export function fillDesign(d) {
   $('f-brake').checked = duty.brake === true;
   set('f-brake-torque', duty.brakeTorque);
   set('f-brake-location', duty.brakeLocation);
+  set('f-cycles', duty.cycles);
   $('f-vibration').checked = duty.vibration === true;
   const dr = d.drive || {};
   set('f-drive', dr.availableTorque);

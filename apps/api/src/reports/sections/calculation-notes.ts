@@ -4,12 +4,31 @@
  * templates/reports/sections/notes-<section id>.hbs; a section without such a template has no notes.
  */
 import type { Design, Evaluation, FrictionRange } from '@leadline/mechanics';
-import { coefficient, formatQuantity, sig, type QuantityKind, type UnitSystem } from '@leadline/presentation';
+import { coefficient, formatNumber, formatQuantity, sig, type QuantityKind, type UnitSystem } from '@leadline/presentation';
 import type { SectionNotes } from '../report-view';
 
 type Facts = Record<string, unknown>;
 
 const notes = (id: string, facts: Facts): SectionNotes => ({ partial: `notes-${id}`, facts });
+
+/** The evaluation groups (engine 1.2) each such section reports, for its "not computed" notes. */
+const NOT_COMPUTED_GROUPS: Readonly<Record<string, readonly string[]>> = {
+  'nut-body': ['nutBody'],
+  'safety-nut': ['safetyNut', 'wornThread'],
+  operation: ['operation', 'thermal', 'wear.pvAtTemperature'],
+  'wear-life': ['wearLife'],
+  dynamics: ['dynamics', 'stopping'],
+  fatigue: ['fatigue'],
+  'collar-bearing': ['collarBearing'],
+};
+
+/** What the engine could not compute for a section's groups, each with the inputs to give. */
+export function notComputedOf(id: string, e: Evaluation): { subject: string; missing: string; reason: string }[] {
+  const groups = NOT_COMPUTED_GROUPS[id] ?? [];
+  return (e.notComputed ?? [])
+    .filter((n) => groups.some((g) => n.subject === g || n.subject.startsWith(`${g}.`)))
+    .map((n) => ({ subject: n.subject, missing: n.missing.join('; '), reason: `${n.reason.charAt(0).toUpperCase()}${n.reason.slice(1)}` }));
+}
 
 /** The notes of a calculation section, or null when the section has none. */
 export function sectionNotes(id: string, design: Design, e: Evaluation, system: UnitSystem): SectionNotes | null {
@@ -78,6 +97,26 @@ export function sectionNotes(id: string, design: Design, e: Evaluation, system: 
         gearbox: gb ? { ratio: sig(gb.ratio), efficiency: sig(gb.efficiency), reverseEfficiency: sig(gb.reverseEfficiency) } : null,
       });
     }
+    case 'operation': {
+      const o = e.operation;
+      const d = design.duty;
+      const duty = [
+        d.stroke != null ? `stroke ${q(d.stroke, 'length')}` : 'no stroke',
+        d.cyclesPerHour != null ? `${formatNumber(d.cyclesPerHour, 'count', system)} cycles per hour` : null,
+        d.dutyCycle != null ? `duty cycle ${q(d.dutyCycle, 'percent')}` : null,
+      ].filter((x): x is string => x !== null);
+      return notes(id, {
+        computed: o !== undefined, duty: duty.join(', '), basis: o?.meanPowerLossBasis ?? null,
+        thermal: e.thermal ? { ambientStated: e.thermal.ambientBasis === 'stated' } : null, notComputed: notComputedOf(id, e),
+      });
+    }
+    case 'nut-body':
+    case 'safety-nut':
+    case 'wear-life':
+    case 'dynamics':
+    case 'fatigue':
+    case 'collar-bearing':
+      return { partial: 'notes-not-computed', facts: { notComputed: notComputedOf(id, e) } };
     default:
       return null;
   }

@@ -8,7 +8,7 @@ import { formatNumber, formatQuantity, sig, unitSymbol, type QuantityKind, type 
 import { PRESENTATION, SYMBOL_KINDS, type Substituted } from '../formula-presentation';
 import { escapeHtml, mathHtml, mathText } from '../markup';
 import type { CalcLine, CalcSection, FindingRef } from '../report-view';
-import { sectionNotes } from './calculation-notes';
+import { notComputedOf, sectionNotes } from './calculation-notes';
 
 // ---------------------------------------------------------------------------------------------------------
 // Labels
@@ -93,6 +93,38 @@ export const PATH_LABELS: readonly (readonly [string, string])[] = [
   ['safetyFactors.strippingNut', 'Safety factor against stripping the nut threads'],
   ['safetyFactors.nutThreadRoot', "Safety factor of the nut's own thread root"],
   ['safetyFactors.buckling', 'Buckling safety factor'],
+  // Engine 1.2 groups
+  ['nutBody.axialStress', 'Axial stress in the nut body'],
+  ['nutBody.radialForce', 'Radial push of the first thread on the nut body'],
+  ['nutBody.borePressure', 'Pressure on the nut bore over one pitch'],
+  ['nutBody.hoopStress', 'Hoop stress at the nut bore (Lamé)'],
+  ['nutBody.vonMises', 'von Mises stress in the nut body'],
+  ['nutBody.flange.shear', 'Shear of the flange at the nut body'],
+  ['nutBody.flange.bending', 'Bending of the flange at the nut body'],
+  ['safetyNut.strippingScrew', 'Stripping shear of the screw threads in the safety nut'],
+  ['safetyNut.strippingNut', 'Stripping shear of the safety nut threads'],
+  ['wornThread.wornNutThickness', 'Nut thread thickness worn by the wear allowed'],
+  ['wornThread.strippingNut', 'Stripping shear of the worn nut threads'],
+  ['operation.travelTime', 'Travel time of one stroke'],
+  ['operation.motorPower', 'Motor power at maximum friction'],
+  ['operation.heatPerCycle', 'Heat of friction per cycle (raise and lower one stroke)'],
+  ['operation.runningPowerLoss', 'Friction loss while running'],
+  ['operation.meanPowerLoss', 'Mean friction loss over the duty'],
+  ['thermal.nutSurfaceArea', 'Outside surface of the nut'],
+  ['thermal.temperatureRise', 'Steady temperature rise of the nut'],
+  ['wearLife.slidingDistance', 'Sliding distance until the wear allowed'],
+  ['wearLife.cycles', 'Wear life in cycles'],
+  ['dynamics.dynamicFactor', 'Dynamic factor on the lifted load'],
+  ['stopping.inertia', 'Inertia at the screw while stopping'],
+  ['stopping.stoppingAngle', 'Screw rotation while stopping a descending load'],
+  ['stopping.brakeEnergy', 'Energy the brake absorbs'],
+  ['fatigue.screwRoot.enduranceLimit', 'Endurance limit of the screw at its root'],
+  ['fatigue.screwRoot.safetyFactor', 'Fatigue factor of safety at the screw root (Goodman)'],
+  ['fatigue.nutThread.safetyFactor', 'Fatigue factor of safety of the nut threads (Goodman)'],
+  ['collarBearing.bearingPressure', 'Bearing pressure on the collar annulus'],
+  ['collarBearing.ratingLife', 'Basic rating life L10 of the thrust bearing'],
+  ['collarBearing.ratingLifeHours', 'Basic rating life L10 in running hours'],
+  ['collarBearing.staticSafetyFactor', 'Static safety of the thrust bearing'],
 ];
 export const LABEL_OF = new Map(PATH_LABELS);
 export const ORDER_OF = new Map(PATH_LABELS.map(([p], i) => [p, i]));
@@ -108,7 +140,15 @@ export const SECTIONS: readonly { id: string; title: string; prefixes: readonly 
   { id: 'whirl', title: 'Whirling speed', prefixes: ['criticalSpeed.'], chart: null },
   { id: 'wear', title: 'Nut wear', prefixes: ['wear.'], chart: null },
   { id: 'power', title: 'Speed, power and drive', prefixes: ['power.', 'drive.'], chart: null },
+  { id: 'nut-body', title: 'Nut body and flange', prefixes: ['nutBody.'], chart: null },
+  { id: 'safety-nut', title: 'Safety nut and worn thread', prefixes: ['safetyNut.', 'wornThread.'], chart: null },
+  { id: 'operation', title: 'Operation, duty cycle and heat', prefixes: ['operation.', 'thermal.'], chart: null },
+  { id: 'wear-life', title: 'Wear life', prefixes: ['wearLife.'], chart: null },
+  { id: 'dynamics', title: 'Lifting dynamics and stopping', prefixes: ['dynamics.', 'stopping.'], chart: null },
+  { id: 'fatigue', title: 'Fatigue', prefixes: ['fatigue.'], chart: null },
+  { id: 'collar-bearing', title: 'The collar as a bearing', prefixes: ['collarBearing.'], chart: null },
 ];
+
 
 
 // ---------------------------------------------------------------------------------------------------------
@@ -213,7 +253,8 @@ export function buildSections(design: Design, e: Evaluation, system: UnitSystem,
   for (const s of SECTIONS) {
     const mine = paths.filter((p) => !taken.has(p) && s.prefixes.some((prefix) => p.startsWith(prefix)));
     mine.forEach((p) => taken.add(p));
-    if (mine.length === 0 && s.id !== 'column') continue;
+    // A 1.2 group's section also stands for what could not be computed (its notes say what to give)
+    if (mine.length === 0 && s.id !== 'column' && notComputedOf(s.id, e).length === 0) continue;
     n++;
     sections.push({
       id: s.id,

@@ -3,7 +3,7 @@
  */
 import { FRICTION_LIBRARY, findNutMaterial, findScrewMaterial, type Design, type Evaluation, type FrictionRange } from '@leadline/mechanics';
 import { coefficient, formatQuantity, siRecord, sig, type QuantityKind, type UnitSystem } from '@leadline/presentation';
-import { designInputSchema } from '@leadline/contracts';
+import { designFieldLabel } from '@leadline/contracts';
 import type { FrictionRow, InputRow, KeyValue, MaterialRow } from '../report-view';
 
 // ---------------------------------------------------------------------------------------------------------
@@ -35,47 +35,13 @@ const KIND_OF_SI_UNIT: Record<string, QuantityKind> = {
   '°': 'angle', kg: 'mass', s: 'time', 'm/s²': 'linearAcceleration',
 };
 
-type Node = { def?: { type?: string; innerType?: Node; element?: Node; options?: Node[] }; shape?: Record<string, Node>; description?: string };
-
-/** The schema a design-input path names (through optional, default, nullable, arrays and unions), or null. */
-function schemaAt(path: readonly string[]): Node | null {
-  let node: Node | undefined = designInputSchema as unknown as Node;
-  const unwrap = (n: Node | undefined): Node | undefined => {
-    while (n && n.def && n.def.innerType) n = n.def.innerType;
-    return n;
-  };
-  for (const key of path) {
-    node = unwrap(node);
-    if (!node) return null;
-    if (/^\d+$/.test(key) && node.def?.element) {
-      node = node.def.element;
-      continue;
-    }
-    const options: Node[] = node.def?.options ?? [node];
-    node = options.map((o) => unwrap(o)?.shape?.[key]).find((x) => x !== undefined);
-  }
-  return node ?? null;
-}
 
 /**
- * A field of the design input in words, from the design input's own declarations (libs/contracts design-input.ts:
- * the description each field carries, before its unit hint); a field declared without one is named by its key.
+ * A field of the design input in words: the contract's one label of it (designFieldLabel, from the description each
+ * field carries), with the report's "[i]" array paths read as the contract's dotted ones.
  */
 export function inputLabel(path: string): string {
-  const keys = path.replace(/\[(\d+)\]/g, '.$1').split('.').filter(Boolean);
-  let node = schemaAt(keys);
-  let description: string | undefined;
-  while (node && description === undefined) {
-    description = node.description;
-    node = node.def?.innerType ?? null;
-  }
-  const step = keys.find((k) => /^\d+$/.test(k));
-  // the words before the unit hint, an example or a note: "nut length (engaged): <hint>" -> "nut length"
-  const words = description
-    ? description.split(/: |; |,? e\.g\./)[0].replace(/\s*\([^)]*\)/g, '').replace(/\s*\([^)]*$/, '').trim()
-    : (keys.filter((k) => !/^\d+$/.test(k)).pop() ?? path).replace(/([a-z])([A-Z])/g, '$1 $2').toLowerCase();
-  const text = words.charAt(0).toUpperCase() + words.slice(1);
-  return step === undefined ? text : `${text} (step ${Number(step) + 1})`;
+  return designFieldLabel(path.replace(/\[(\d+)\]/g, '.$1'));
 }
 
 /** The values the engine used, each by its label, in the report's unit system (rounded as the report rounds). */
