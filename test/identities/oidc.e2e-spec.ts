@@ -126,6 +126,7 @@ it('signs a decision after a fresh login at the provider (max_age=0), once', asy
   await page.waitForSelector('#signature-oidc:not([hidden])');
   expect(await page.$eval('#signature-password-field', (e) => (e as HTMLElement).hidden)).toBe(true);
   // recording before the fresh login is refused
+  await page.click('input[name="decision"][value="approve"]'); // no decision is preset
   await page.click('#decision-submit');
   await page.waitForSelector('#decision-problem .problem');
   expect(await page.$eval('#decision-problem', (e) => (e as HTMLElement).innerText)).toMatch(/Signature not accepted[\s\S]*no fresh login/);
@@ -138,6 +139,7 @@ it('signs a decision after a fresh login at the provider (max_age=0), once', asy
   await page.waitForSelector('#decision:not([hidden])');
   expect(page.url()).toBe(`${t.baseUrl}/review/revisions/${revisionId}#signed-at-provider`);
   expect(await page.$eval('#signature-oidc-status', (e) => e.textContent)).toContain('Identity confirmed');
+  await page.click('input[name="decision"][value="approve"]'); // no decision is preset
   await page.click('#decision-submit');
   await page.waitForSelector('#decision-done:not([hidden])');
   const revision = (await t.call('GET', `/api/v1/revisions/${revisionId}`)).body;
@@ -159,8 +161,9 @@ it('refuses the signature when the provider\'s auth_time is older than the start
   await page.waitForSelector('#decision:not([hidden])');
   expect(page.url()).toBe(`${t.baseUrl}/review/revisions/${revisionId}#provider-login-too-old`);
   expect(await t.db.query(`SELECT 1 FROM reauthentications WHERE revision_id = $1`, [revisionId])).toEqual([]);
+  await page.click('input[name="decision"][value="approve"]'); // no decision is preset
   await page.click('#decision-submit');
   await page.waitForSelector('#decision-problem .problem');
-  expect(await page.$eval('#decision-problem', (e) => (e as HTMLElement).innerText)).toMatch(/HTTP 403/);
+  expect(await page.$eval('#decision-problem', (e) => (e as HTMLElement).innerText)).toMatch(/Signature not accepted/);
   expect((await t.call('GET', `/api/v1/revisions/${revisionId}`)).body.review.state).toBe('submitted');
 });

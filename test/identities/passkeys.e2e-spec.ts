@@ -121,6 +121,8 @@ it('adds a passkey from the reviewer\'s own session, signs in with it and signs 
   expect(await page.$eval('#signature-passkey', (c) => (c as HTMLInputElement).checked)).toBe(true);
   expect(await page.$eval('#signature-password-field', (f) => (f as HTMLElement).hidden)).toBe(true);
   await checkPage(page, 'passkeys/revision');
+  await tabTo(page, 'input[name="decision"][value="approve"]'); // no decision is preset: chosen by keyboard
+  await page.keyboard.press('Space');
   await typeInto(page, '#decision-comment', 'Checked; signed with my passkey.');
   await tabTo(page, '#decision-submit');
   await page.keyboard.press('Enter');

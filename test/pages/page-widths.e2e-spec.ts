@@ -8,7 +8,7 @@
 import type { Page } from 'puppeteer-core';
 import { screenshot } from '../support/artifacts';
 import { testBrowser, type TestBrowser } from '../support/browser';
-import { clearDesign, warningDesign } from '../support/designs';
+import { changedDesign, clearDesign, warningDesign } from '../support/designs';
 import { signInByKeyboard } from '../support/keyboard';
 import { overflowing } from '../support/page-checks';
 import { startPagesApp, type PagesApp } from './pages-app';
@@ -29,8 +29,9 @@ beforeAll(async () => {
   const opened = (await t.call('POST', `/api/v1/products/${productId}/calculations`, { title: 'Carriage lift screw, left column, with a title that runs long', design: clearDesign })).body;
   calculationId = opened.calculationId;
   expect((await t.call('POST', `/api/v1/revisions/${opened.revisionId}/decisions`, { decision: 'approve', comment: 'Checked against the supplier sheet.' }, 'reviewer')).status).toBe(201);
-  for (const note of ['friction from an estimate until the supplier answers', 'the estimate replaced by the same value, for the record']) {
-    const r = await t.call('POST', `/api/v1/calculations/${calculationId}/revisions`, { design: warningDesign, note });
+  for (const [i, note] of ['friction from an estimate until the supplier answers', 'the estimate replaced by the supplier sheet\'s value'].entries()) {
+    // each revision changes the design: a submission equal to the previous revision is refused (409)
+    const r = await t.call('POST', `/api/v1/calculations/${calculationId}/revisions`, { design: changedDesign(warningDesign, `widths ${i + 1}`), note });
     expect(r.status).toBe(201);
     revisionId = r.body.revisionId;
   }
