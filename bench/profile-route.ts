@@ -9,10 +9,8 @@ import { execFile } from 'node:child_process';
 import { readFileSync } from 'node:fs';
 import { Session } from 'node:inspector/promises';
 import { join } from 'node:path';
-import { Client } from 'pg';
-import { createApp } from '../apps/api/src/app.factory';
-import { BaselineModule, setFixedResponse } from './baseline.module';
-import { BENCH_UNLIMITED } from './limits';
+import { setFixedResponse } from './baseline.module';
+import { startBenchApp, withScratchDatabase } from './scratch';
 
 const root = join(__dirname, '../..');
 const design = readFileSync(join(root, 'test/fixtures/ok/trapezoidal-jack.json'), 'utf8');
@@ -54,22 +52,8 @@ function load(url: string, token: string): Promise<{ rps: number; total: number 
 }
 
 async function main() {
-  const serverUrl = process.env.DATABASE_URL ?? 'postgres://postgres@127.0.0.1:5432/postgres';
-  const name = `leadline_profile_${process.pid}`;
-  const admin = new Client({ connectionString: serverUrl });
-  admin.on('error', () => undefined);
-  await admin.connect();
-  await admin.query(`CREATE DATABASE ${name}`);
-  const u = new URL(serverUrl);
-  u.pathname = `/${name}`;
-  try {
-    const adminToken = `ll_bench_admin_${process.pid}_${'x'.repeat(16)}`;
-    const { app } = await createApp({ env: { LOG_LEVEL: 'warn', LEADLINE_DEMO_SEED: 'false', LEADLINE_ADMIN_TOKEN: adminToken, DATABASE_URL: u.toString(), ...BENCH_UNLIMITED }, extraModules: [BaselineModule] });
-    await app.listen({ port: 0, host: '127.0.0.1' });
-    const base = `http://127.0.0.1:${(app.getHttpServer().address() as { port: number }).port}`;
-    const asAdmin = { authorization: `Bearer ${adminToken}`, 'content-type': 'application/json' };
-    const user = await (await fetch(`${base}/api/v1/users`, { method: 'POST', headers: asAdmin, body: JSON.stringify({ name: 'Benchmark author', roles: ['author'] }) })).json();
-    const token = (await (await fetch(`${base}/api/v1/users/${user.id}/tokens`, { method: 'POST', headers: asAdmin, body: '{}' })).json()).token as string;
+  await withScratchDatabase('profile', async (url) => {
+    const { app, base, token } = await startBenchApp({ DATABASE_URL: url });
     const answer = await (await fetch(`${base}/api/v1/evaluations`, { method: 'POST', headers: { 'content-type': 'application/json', authorization: `Bearer ${token}` }, body: design })).text();
     setFixedResponse(answer);
 
@@ -96,10 +80,7 @@ async function main() {
     for (const r of rows.filter((x) => Math.abs(x.extraUs) >= 1 || x.subjectUs >= 5)) console.log(JSON.stringify(r));
     session.disconnect();
     await app.close();
-  } finally {
-    await admin.query(`DROP DATABASE IF EXISTS ${name} WITH (FORCE)`);
-    await admin.end();
-  }
+  });
 }
 
 main().then(() => process.exit(0), (err) => {

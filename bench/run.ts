@@ -21,18 +21,16 @@ import 'reflect-metadata';
 import { execFile, execSync } from 'node:child_process';
 import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { Client } from 'pg';
 import { parseDesign } from '@leadline/contracts';
 import { evaluate } from '@leadline/mechanics';
 import { judge, DEFAULT_RULE_SET } from '@leadline/rules';
-import { createApp } from '../apps/api/src/app.factory';
 import { Database } from '../apps/api/src/infra/database/database.service';
 import { prepareSubmission, RecordStore } from '../apps/api/src/records/record-store';
-import { BaselineModule, BENCH_ROWS_DDL, setBenchRow, setFixedResponse } from './baseline.module';
+import { BENCH_ROWS_DDL, setBenchRow, setFixedResponse } from './baseline.module';
 import { benchDbFloor } from './db-floor';
 import { benchGrowth } from './growth';
 import { verdictOf } from '@leadline/rules';
-import { BENCH_UNLIMITED } from './limits';
+import { startBenchApp, withScratchDatabase } from './scratch';
 
 const root = join(__dirname, '../..');
 const design = readFileSync(join(root, 'test/fixtures/ok/trapezoidal-jack.json'), 'utf8');
@@ -110,15 +108,9 @@ function engineMicros(): { perEvaluationUs: number } {
 }
 
 async function http(env: Record<string, string>) {
-  const admin = `ll_bench_admin_${process.pid}_${'x'.repeat(16)}`;
-  const { app } = await createApp({ env: { LOG_LEVEL: 'warn', LEADLINE_DEMO_SEED: 'false', LEADLINE_ADMIN_TOKEN: admin, ...BENCH_UNLIMITED, ...env }, extraModules: [BaselineModule] });
-  await app.listen({ port: 0, host: '127.0.0.1' });
-  const address = app.getHttpServer().address() as { port: number };
-  const base = `http://127.0.0.1:${address.port}`;
-  const asAdmin = { authorization: `Bearer ${admin}`, 'content-type': 'application/json' };
-  const user = await (await fetch(`${base}/api/v1/users`, { method: 'POST', headers: asAdmin, body: JSON.stringify({ name: 'Benchmark author', roles: ['author'] }) })).json();
-  token = (await (await fetch(`${base}/api/v1/users/${user.id}/tokens`, { method: 'POST', headers: asAdmin, body: '{}' })).json()).token;
-  return { app, base, user: { id: user.id as string, name: 'Benchmark author' } };
+  const started = await startBenchApp(env);
+  token = started.token;
+  return started;
 }
 
 async function post(url: string, body: unknown) {
@@ -137,24 +129,6 @@ function benchSubmission() {
     input: raw, normalized: parsed.design, evaluation: { ...evaluation, findings }, findings, verdict: verdictOf(findings),
     engineVersion: '1', ruleSetVersion: DEFAULT_RULE_SET.version, note: 'bench',
   };
-}
-
-/** A scratch database on the server, dropped afterwards. */
-async function withScratchDatabase<T>(suffix: string, body: (url: string) => Promise<T>): Promise<T> {
-  const serverUrl = process.env.DATABASE_URL ?? 'postgres://postgres@127.0.0.1:5432/postgres';
-  const name = `leadline_bench_${suffix}_${process.pid}`;
-  const admin = new Client({ connectionString: serverUrl });
-  admin.on('error', () => undefined);
-  await admin.connect();
-  await admin.query(`CREATE DATABASE ${name}`);
-  const u = new URL(serverUrl);
-  u.pathname = `/${name}`;
-  try {
-    return await body(u.toString());
-  } finally {
-    await admin.query(`DROP DATABASE IF EXISTS ${name} WITH (FORCE)`);
-    await admin.end();
-  }
 }
 
 async function benchHttp(url: string) {

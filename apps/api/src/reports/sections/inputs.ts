@@ -44,17 +44,24 @@ export function inputLabel(path: string): string {
   return designFieldLabel(path.replace(/\[(\d+)\]/g, '.$1'));
 }
 
-/** The values the engine used, each by its label, in the report's unit system (rounded as the report rounds). */
-export function engineValueRows(design: Design, system: UnitSystem): InputRow[] {
-  const rows: InputRow[] = [];
+/** Every leaf of the normalized design with its path and key, but the friction (printed with its sources in its own table). */
+function designLeaves(design: Design, visit: (path: string, key: string, value: unknown) => void): void {
   const walk = (value: unknown, prefix: string): void => {
-    if (prefix === 'friction') return; // printed with its sources in its own table
+    if (prefix === 'friction') return;
     if (value !== null && typeof value === 'object') {
       for (const [k, v] of Object.entries(value as Record<string, unknown>)) walk(v, prefix ? `${prefix}.${k}` : k);
       return;
     }
+    visit(prefix, prefix.split('.').pop() as string, value);
+  };
+  walk(design, '');
+}
+
+/** The values the engine used, each by its label, in the report's unit system (rounded as the report rounds). */
+export function engineValueRows(design: Design, system: UnitSystem): InputRow[] {
+  const rows: InputRow[] = [];
+  designLeaves(design, (path, key, value) => {
     if (value === null || value === undefined) return; // not given: nothing the engine used
-    const key = prefix.split('.').pop() as string;
     const unit = SI_UNIT_OF[key] ?? (/Strength$/.test(key) ? 'Pa' : undefined);
     const kind = key === 'elasticModulus' ? 'modulus' : unit ? KIND_OF_SI_UNIT[unit] : undefined;
     const text = typeof value !== 'number' ? String(value)
@@ -62,25 +69,18 @@ export function engineValueRows(design: Design, system: UnitSystem): InputRow[] 
         : unit ? `${siRecord(value)} ${unit}`
           : Number.isInteger(value) ? String(value) : sig(value);
     // the normalized design keeps the input's names, except the pressure steps taken from the library
-    rows.push({ path: prefix, label: inputLabel(prefix.replace(/^nut\.pressureBySpeed/, 'nut.allowablePressureBySpeed')), value: text });
-  };
-  walk(design, '');
+    rows.push({ path, label: inputLabel(path.replace(/^nut\.pressureBySpeed/, 'nut.allowablePressureBySpeed')), value: text });
+  });
   return rows;
 }
 
+/** The values the engine used in its own SI units, as the record stores them. */
 export function engineUnitRows(design: Design): InputRow[] {
   const rows: InputRow[] = [];
-  const walk = (value: unknown, prefix: string): void => {
-    if (prefix === 'friction') return; // printed with its sources in its own table
-    if (value !== null && typeof value === 'object') {
-      for (const [k, v] of Object.entries(value as Record<string, unknown>)) walk(v, prefix ? `${prefix}.${k}` : k);
-      return;
-    }
-    const key = prefix.split('.').pop() as string;
-    if (typeof value === 'number') rows.push({ path: prefix, value: siRecord(value), unit: SI_UNIT_OF[key] ?? '' });
-    else rows.push({ path: prefix, value: value === null ? '—' : String(value), unit: '' });
-  };
-  walk(design, '');
+  designLeaves(design, (path, key, value) => {
+    if (typeof value === 'number') rows.push({ path, value: siRecord(value), unit: SI_UNIT_OF[key] ?? '' });
+    else rows.push({ path, value: value === null || value === undefined ? '—' : String(value), unit: '' });
+  });
   return rows;
 }
 
