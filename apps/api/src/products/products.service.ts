@@ -4,7 +4,7 @@ import type { Acting } from '../records/record-store';
 import { z } from 'zod';
 import { Database, PG_UNIQUE_VIOLATION, pgErrorCode } from '../infra/database/database.service';
 import { ProblemError, notFound, validate } from '../infra/http/problem';
-import { TS_TEXT } from '../records/chain';
+import { EVENT_ROW_JSON, TS_TEXT } from '../records/chain';
 import { RecordStore, type EventRow } from '../records/record-store';
 import { displayableName, type ReviewState } from '@leadline/contracts';
 import { STATES } from '@leadline/presentation';
@@ -116,10 +116,7 @@ export class ProductsService {
     if (ids.length === 0) return new Set();
     const latest = await this.db.query<{ product_id: string; closure: string | null; event: EventRow | null }>(
       `SELECT DISTINCT ON (r.calculation_id) r.product_id, c.kind AS closure,
-              CASE WHEN e.id IS NOT NULL THEN json_build_object('id', e.id, 'product_id', e.product_id, 'seq', e.seq, 'type', e.type,
-                'calculation_id', e.calculation_id, 'revision_id', e.revision_id, 'actor', e.actor, 'data', e.data,
-                'created_at', ${TS_TEXT('e.created_at')}, 'hash', e.hash, 'previous_hash', e.previous_hash, 'link_version', e.link_version,
-                'token_id', e.token_id, 'mac', e.mac) END AS event
+              ${EVENT_ROW_JSON('e')} AS event
          FROM revisions r
          LEFT JOIN revision_closures c ON c.revision_id = r.id
          LEFT JOIN events e ON e.id = c.event_id AND e.revision_id = r.id AND e.type = c.kind

@@ -11,6 +11,13 @@ import canonicalize from 'canonicalize';
 /** SQL that renders a timestamptz exactly (microseconds, UTC) so the hashed text survives a round trip. */
 export const TS_TEXT = (column: string) => `to_char(${column} AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.US"Z"')`;
 
+/** An event row of alias `e` as one JSON value (an EventRow), or null where the join found none. */
+export const EVENT_ROW_JSON = (e: string) =>
+  `CASE WHEN ${e}.id IS NOT NULL THEN json_build_object('id', ${e}.id, 'product_id', ${e}.product_id, 'seq', ${e}.seq, 'type', ${e}.type,
+                'calculation_id', ${e}.calculation_id, 'revision_id', ${e}.revision_id, 'actor', ${e}.actor, 'data', ${e}.data,
+                'created_at', ${TS_TEXT(`${e}.created_at`)}, 'hash', ${e}.hash, 'previous_hash', ${e}.previous_hash, 'link_version', ${e}.link_version,
+                'token_id', ${e}.token_id, 'mac', ${e}.mac) END`;
+
 /** Hash of one chain link. The record is taken in its JSON form, as stored. */
 export function linkHash(record: Record<string, unknown>, previousHash: string | null): string {
   const text = canonicalize({ record: JSON.parse(JSON.stringify(record)), previousHash });

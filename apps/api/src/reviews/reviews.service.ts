@@ -10,7 +10,7 @@ import { APP_CONFIG, type AppConfig } from '../infra/config';
 import { Database, PG_UNIQUE_VIOLATION, pgErrorCode, type Queryer } from '../infra/database/database.service';
 import { ProblemError, ValidationProblem, notFound, validate } from '../infra/http/problem';
 import { checkUuid } from '../products/products.service';
-import { TS_TEXT } from '../records/chain';
+import { EVENT_ROW_JSON, TS_TEXT } from '../records/chain';
 import { RecordStore, type Acting, type EventRow } from '../records/record-store';
 import { checkCommentRate } from './comment-limit';
 import { SIGNATURE_MEANING, signatureOf, type Signature } from './signature';
@@ -180,10 +180,7 @@ export class ReviewsService {
       `SELECT r.id, r.product_id, r.calculation_id, r.revision, (r.author->>'id')::uuid AS author_id, r.findings, r.input::text AS input,
               CASE WHEN e.id IS NOT NULL THEN c.kind END AS closure,
               ${SUPERSEDED('r')} AS superseded, ${TS_TEXT('e.created_at')} AS decided_at,
-              CASE WHEN e.id IS NOT NULL THEN json_build_object('id', e.id, 'product_id', e.product_id, 'seq', e.seq, 'type', e.type,
-                'calculation_id', e.calculation_id, 'revision_id', e.revision_id, 'actor', e.actor, 'data', e.data,
-                'created_at', ${TS_TEXT('e.created_at')}, 'hash', e.hash, 'previous_hash', e.previous_hash, 'link_version', e.link_version,
-                'token_id', e.token_id, 'mac', e.mac) END AS event
+              ${EVENT_ROW_JSON('e')} AS event
          FROM revisions r
          LEFT JOIN revision_closures c ON c.revision_id = r.id
          LEFT JOIN events e ON e.id = c.event_id AND e.revision_id = r.id AND e.type = c.kind
