@@ -2,7 +2,7 @@ import { FORMULAS } from '@leadline/mechanics';
 import { formatNumber } from '@leadline/presentation';
 import { harrowgateReportInput, harrowgateUsReportInput } from './fixtures/harrowgate.fixture';
 import { buildReportView, mathHtml, mathText } from './report-model';
-import { sectionNotesText } from './report-renderer';
+import { ReportRenderer, sectionNotesText } from './report-renderer';
 
 describe('buildReportView', () => {
   const input = harrowgateReportInput();
@@ -107,6 +107,28 @@ describe('buildReportView', () => {
     expect(view.input.asEntered).toContainEqual({ path: 'thread.size', label: 'Standard size', value: 'Tr 32x6' });
     expect(view.input.engineUnits).toContainEqual({ path: 'load.axial', label: 'Axial load', value: '28.0 kN' });
     expect(view.input.friction[0]).toMatchObject({ range: '0.10 to 0.16', sourceKind: 'handbook' });
+  });
+
+  it('prints what was said in a decision readably: each comment with the input or finding it is on, each acknowledgement', () => {
+    const approved = input.events.find((ev) => ev.type === 'approved')!;
+    const said = {
+      ...input,
+      events: input.events.map((ev) => ev !== approved ? ev : {
+        ...ev,
+        data: {
+          ...ev.data,
+          comment: 'Approved for the north lift only.',
+          comments: [{ text: 'Check the nut length against the supplier drawing.', target: { field: 'nut.length' } }],
+          acknowledgements: [{ finding: 'nut-bearing-pressure', comment: 'Pressure accepted: the nut is replaced at every annual inspection.' }],
+        },
+      }),
+    };
+    const html = new ReportRenderer().renderHtml(buildReportView(said), { torqueFriction: null, column: null, safetyFactors: null });
+    const record = html.slice(html.indexOf('class="events"')).replace(/<[^>]+>/g, ' ').replace(/\s+/g, ' ');
+    expect(record).toContain('Decision comment: Approved for the north lift only.');
+    expect(record).toContain('On the input “Nut length”: Check the nut length against the supplier drawing.');
+    expect(record).toContain('Acknowledging the finding nut-bearing-pressure: Pressure accepted: the nut is replaced at every annual inspection.');
+    expect(record).not.toMatch(/comments: text:|target: field:/);
   });
 
   it('answers a US-customary design in US units, and leaves out buckling in tension', () => {

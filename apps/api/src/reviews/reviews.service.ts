@@ -22,6 +22,7 @@ import { ReauthenticationsService } from '../identities/reauthentications.servic
 import { PASSWORD_MAX } from '../identities/passwords';
 import { authenticationResponseSchema, PasskeysService } from '../identities/passkeys.service';
 import type { StoredAssertion } from '../records/passkey-signature';
+import { remarksOfEvent, type Remark } from './remarks';
 
 export const targetSchema = z.union([
   z.strictObject({ field: z.string().min(1).max(200).describe('input field path, e.g. "thread.pitch"') }),
@@ -52,14 +53,7 @@ export const decisionSchema = z.strictObject({
   comments: z.array(commentSchema).max(100).optional().describe('comments attached to input fields or findings'),
 });
 
-/** One thing said on a revision (GET /revisions/:id, remarks). */
-export interface Remark {
-  kind: 'comment' | 'decision' | 'acknowledgement' | 'withdrawal';
-  by: Actor | null;
-  at: string;
-  text: string;
-  target: { field: string } | { finding: string } | null;
-}
+export type { Remark } from './remarks';
 
 export const withdrawSchema = z.strictObject({ comment: z.string().max(8000).optional() }).optional();
 
@@ -140,18 +134,7 @@ export class ReviewsService {
         ORDER BY e.seq`,
       [revisionIds],
     );
-    for (const e of rows) {
-      const out = byRevision.get(e.revision_id)!;
-      const data = e.data ?? {};
-      if (e.type === 'comment') {
-        out.push({ kind: 'comment', by: e.actor, at: e.at, text: data.text, target: data.target ?? null });
-        continue;
-      }
-      const kind = e.type === 'withdrawn' ? 'withdrawal' : 'decision';
-      if (data.comment) out.push({ kind, by: e.actor, at: e.at, text: data.comment, target: null });
-      for (const a of data.acknowledgements ?? []) out.push({ kind: 'acknowledgement', by: e.actor, at: e.at, text: a.comment, target: { finding: a.finding } });
-      for (const c of data.comments ?? []) out.push({ kind: 'comment', by: e.actor, at: e.at, text: c.text, target: c.target ?? null });
-    }
+    for (const e of rows) byRevision.get(e.revision_id)!.push(...remarksOfEvent(e.type, e.actor, e.at, e.data));
     return byRevision;
   }
 

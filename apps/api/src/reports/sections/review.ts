@@ -1,7 +1,8 @@
 /**
  * Sections 7 and 8 of the report: the review record (events of this revision) and the revision history.
  */
-import type { Actor, ProductEvent } from '@leadline/contracts';
+import { designFieldLabel, type Actor, type ProductEvent } from '@leadline/contracts';
+import { remarksOfEvent, remarkTarget } from '../../reviews/remarks';
 import { EVENTS, formatDate, wordFor } from '@leadline/presentation';
 import { SIGNATURE_METHOD_LABELS, signatureOf, type Signature } from '../../reviews/signature';
 import type { EventView, SignatureView } from '../report-view';
@@ -39,14 +40,25 @@ export function buildSignatures(events: readonly ProductEvent[]): SignatureView[
     }));
 }
 
+/** The event data the review record prints as remarks or in the signature block, not as details. */
+const SHOWN_ELSEWHERE = new Set(['text', 'comment', 'comments', 'acknowledgements', 'target', 'signature']);
+
 export function buildEvents(events: readonly ProductEvent[]): EventView[] {
   return [...events]
     .sort((a, b) => a.seq - b.seq)
     .map((ev) => {
       const textKey = TEXT_KEYS.find((k) => typeof ev.data[k] === 'string');
+      // a target of a shape the remarks do not read stays in the details, printed as stored
       const details = Object.entries(ev.data)
-        .filter(([k]) => k !== textKey)
+        .filter(([k, v]) => !SHOWN_ELSEWHERE.has(k) || (k === 'target' && v != null && remarkTarget(v) === null))
         .map(([k, v]) => `${k}: ${scalarText(v)}`);
+      // what was said, each remark with what it is on (the same reading as the revision routes' `remarks`)
+      const remarks = remarksOfEvent(ev.type, ev.actor, ev.createdAt, ev.data).map((r) => ({
+        kind: r.kind,
+        text: r.text,
+        onField: r.target && 'field' in r.target ? designFieldLabel(r.target.field) : null,
+        onFinding: r.target && 'finding' in r.target ? r.target.finding : null,
+      }));
       return {
         seq: ev.seq,
         type: ev.type,
@@ -54,6 +66,8 @@ export function buildEvents(events: readonly ProductEvent[]): EventView[] {
         actor: actorName(ev.actor),
         at: formatDate(ev.createdAt),
         text: textKey ? (ev.data[textKey] as string) : null,
+        remarks,
+        signed: ev.data.signature !== undefined && ev.data.signature !== null,
         details,
       };
     });
