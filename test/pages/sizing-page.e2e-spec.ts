@@ -90,9 +90,12 @@ it('finds a screw for a stated duty and opens it as a new calculation, by keyboa
 
   // A unit of the wrong kind: the refusal is shown at the field and the field gets the focus.
   await typeInto(page, '#s-load', '20 kg');
-  await typeInto(page, '#s-length', '800 mm');
+  await typeInto(page, '#s-length', '600 mm');
   await chooseOption(page, '#s-ends', 'fixed-free');
   await chooseOption(page, '#s-duty', 'lifting');
+  // a quenched and tempered screw for a lifting jack of the form's 10 000 load cycles: the root fatigue check of rule set
+  // 2026.12-3 stops the cold-drawn sizes of this duty
+  await chooseOption(page, '#s-screw-material', 'steel-4140-qt650');
   await typeInto(page, '#s-torque', '200 N*m');
   await typeInto(page, '#s-limit', '12');
   await tabTo(page, '#sizing-submit');
@@ -107,7 +110,7 @@ it('finds a screw for a stated duty and opens it as a new calculation, by keyboa
   await page.keyboard.down('Control');
   await page.keyboard.press('a');
   await page.keyboard.up('Control');
-  await page.keyboard.type('20 kN');
+  await page.keyboard.type('18 kN');
   await tabTo(page, '#sizing-submit');
   await page.keyboard.press('Enter');
   await page.waitForSelector('#candidates:not([hidden])');
@@ -115,7 +118,7 @@ it('finds a screw for a stated duty and opens it as a new calculation, by keyboa
 
   // The table is the API's answer to the request the page sent: same screws, verdicts in words, governing checks.
   const sent = JSON.parse(sizingBodies[sizingBodies.length - 1]);
-  expect(sent.requirements.load.axial).toBe('20 kN');
+  expect(sent.requirements.load.axial).toBe('18 kN');
   expect(sent.search.limit).toBe(12);
   const answer = (await t.call('POST', '/api/v1/sizing', sent)).body;
   expect(answer.candidates.length).toBeGreaterThan(0);
@@ -196,7 +199,7 @@ it('finds a screw for a stated duty and opens it as a new calculation, by keyboa
   expect(await value('f-size')).toBe(chosen.design.thread.size);
   expect(await value('f-starts')).toBe(String(chosen.starts));
   expect(await value('f-nut-length')).toBe(chosen.design.nut.length);
-  expect(await value('f-load')).toBe('20 kN');
+  expect(await value('f-load')).toBe('18 kN');
   expect(await value('f-collar-mean')).toBe(chosen.design.collar.meanDiameter);
   expect(await text(page, '#design-context')).toContain(chosen.size);
   expect(await page.evaluate(() => sessionStorage.getItem('leadline.designDraft'))).toBeNull();

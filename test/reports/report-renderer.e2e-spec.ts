@@ -78,14 +78,15 @@ describe('calculation report: HTML and PDF in real Chromium', () => {
     expect(compact).toContain(input.revision.previousHash as string);
   });
 
-  it('PDF: key inputs as entered and in engine units, with friction sources', () => {
+  it('PDF: key inputs as entered and as the engine used them, with friction sources', () => {
     expect(text).toContain(HARROWGATE_INPUT.thread.size);
     expect(text).toContain(HARROWGATE_INPUT.load.axial);
     expect(text).toContain(HARROWGATE_INPUT.screw.unsupportedLength);
     expect(text).toContain('thread/steel-bronze/oil');
     expect(text).toContain('Harrowgate bench test HLS-TR-117');
     expect(text).toContain('0.10 to 0.16');
-    expect(text).toContain('28000'); // axial load in N in the engine-units table
+    // the values the engine used, by label in the design's unit system (28 kN entered, 28 000 N in the engine)
+    expect(text).toMatch(/2\.2 Values the engine used[\s\S]*Axial load load\.axial 28\.0 kN/);
   });
 
   it('PDF: results as the view formats them, and those match the stored evaluation', () => {

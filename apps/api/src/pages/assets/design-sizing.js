@@ -74,6 +74,15 @@ function readRequest() {
   if (text('s-speed')) requirements.duty.speed = text('s-speed');
   if (collarKind !== 'none') requirements.friction.collar = { entry: $('s-collar-friction').value };
   if (text('s-nut-pressure')) requirements.nut.allowablePressure = text('s-nut-pressure');
+  // numbers stay text when they do not read as one, so the service names the field that is wrong
+  const number = function (id) {
+    const n = Number(text(id));
+    return text(id) !== '' && Number.isFinite(n) ? n : text(id);
+  };
+  if (text('s-nut-od-ratio')) requirements.nut.outsideDiameterRatio = number('s-nut-od-ratio');
+  if (text('s-nut-wear')) requirements.nut.allowableWear = text('s-nut-wear');
+  if (text('s-nut-fatigue')) requirements.nut.fatigueStrength = text('s-nut-fatigue');
+  if (text('s-cycles')) requirements.duty.cycles = number('s-cycles');
   if (text('s-torque')) requirements.drive = { availableTorque: text('s-torque') };
   const checked = function (name) {
     return Array.from(document.querySelectorAll('input[name="' + name + '"]:checked')).map(function (i) {
