@@ -71,7 +71,8 @@ it('documents /health and the public key as public in OpenAPI, and every other o
   expect(doc.paths['/api/v1/checkpoints/public-key'].get.security).toEqual([]);
   const overridden = Object.entries(doc.paths as Record<string, Record<string, { security?: unknown }>>)
     .flatMap(([path, ops]) => Object.entries(ops).filter(([, op]) => op.security !== undefined).map(([method]) => `${method.toUpperCase()} ${path}`));
-  expect(overridden.sort()).toEqual(['GET /api/v1/checkpoints/public-key', 'GET /health']);
+  // the two passkey sign-in steps need no session or token: documented as public
+  expect(overridden.sort()).toEqual(['GET /api/v1/checkpoints/public-key', 'GET /health', 'POST /api/v1/sessions/passkey', 'POST /api/v1/sessions/passkey/options']);
   // and the service agrees: both answer without a token, a secured route does not
   expect((await t.call('GET', '/health', undefined, { as: 'anonymous' })).status).toBe(200);
   expect((await t.call('GET', '/api/v1/checkpoints/public-key', undefined, { as: 'anonymous' })).status).toBe(200);

@@ -27,6 +27,9 @@ export const SI_UNIT_OF: Record<string, string> = {
   axial: 'N', allowablePressure: 'Pa', yieldStrength: 'Pa', elasticModulus: 'Pa', allowablePv: 'Pa·m/s', density: 'kg/m³',
   speed: 'rpm', linearSpeed: 'm/s', upToRubbingSpeed: 'm/s', availableTorque: 'N·m', loadFlankAngle: '°',
   whirlSpan: 'm', brakeTorque: 'N·m', loadMass: 'kg', accelerationTime: 's', acceleration: 'm/s²',
+  // engine 1.2 inputs: the nut body, safety nut, wear, duty and bearing ratings
+  outsideDiameter: 'm', thickness: 'm', gap: 'm', allowableWear: 'm', stroke: 'm', dynamicRating: 'N', staticRating: 'N',
+  brakeResponseTime: 's',
 };
 
 /** The quantity kind of each engine unit, to print an engine value in the report's unit system. */
