@@ -1,19 +1,16 @@
 import { Body, Controller, HttpCode, Post, Query, Res } from '@nestjs/common';
 import type { FastifyReply } from 'fastify';
-import { evaluationResponseSchema } from '@leadline/contracts';
 import { UserLimit } from '../infra/http/user-limits';
-import { compileSerializer } from '../infra/http/response-serializer';
 import { AssessmentService } from './assessment.service';
 import { RuleSetsService } from '../rules/rule-sets.service';
 
 /**
- * The answer's serializer, compiled from its documented schema (infra/http/response-serializer.ts) on first use:
- * compiling takes 0.1-0.3 s, which a process that never evaluates (a worker, a test file) should not pay.
+ * The answer as JSON text. JSON.stringify, not a serializer compiled from the schema: on answers the engine has just
+ * built, a compiled serializer (fast-json-stringify) took about three times JSON.stringify's time, although it was
+ * faster on one answer written again and again (docs/performance.md, "The evaluation route").
  */
-let compiled: ((value: unknown) => string) | null = null;
 export function writeEvaluationAnswer(answer: Record<string, unknown>): string {
-  if (compiled === null) compiled = compileSerializer(evaluationResponseSchema);
-  return compiled(answer);
+  return JSON.stringify(answer);
 }
 
 @Controller('api/v1/evaluations')
