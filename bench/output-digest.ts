@@ -11,7 +11,7 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { parseDesign } from '@leadline/contracts';
 import { evaluate } from '@leadline/mechanics';
-import { DEFAULT_RULE_SET, judge } from '@leadline/rules';
+import { DEFAULT_RULE_SET, judgeWithChecks } from '@leadline/rules';
 
 type Json = Record<string, any>; // eslint-disable-line @typescript-eslint/no-explicit-any
 
@@ -52,8 +52,10 @@ for (let i = 0; i < n; i++) {
   if (!parsed.success) continue;
   accepted++;
   const evaluation = evaluate(parsed.design);
-  const findings = judge(parsed.design, evaluation, DEFAULT_RULE_SET);
+  // As the evaluation route judges: findings, the declared checks and the governing check
+  const { findings, checks, governing } = judgeWithChecks(parsed.design, evaluation, DEFAULT_RULE_SET);
   for (const f of findings) byRule[f.ruleId] = (byRule[f.ruleId] ?? 0) + 1;
   hash.update(JSON.stringify(parsed.design)).update('\n').update(JSON.stringify(evaluation)).update('\n').update(JSON.stringify(findings)).update('\n');
+  hash.update(JSON.stringify(checks)).update('\n').update(JSON.stringify(governing)).update('\n');
 }
 console.log(JSON.stringify({ generated: n, accepted, findingsByRule: byRule, digest: hash.digest('hex') }));

@@ -95,6 +95,18 @@ function past(value: number, limit: number, kind: LimitKind, strict: boolean): b
 
 /** Judges one declared check; null when it does not apply. */
 export function assessCheck(d: CheckDeclaration, ctx: RuleContext): Check | null {
+  // One judgement assesses each declaration once: the checks list and the rule deciding by it share the result
+  const memo = ctx.assessed;
+  if (memo === undefined) return assessFresh(d, ctx);
+  let c = memo.get(d);
+  if (c === undefined) {
+    c = assessFresh(d, ctx);
+    memo.set(d, c);
+  }
+  return c;
+}
+
+function assessFresh(d: CheckDeclaration, ctx: RuleContext): Check | null {
   if (!d.applies(ctx)) return null;
   const value = numberOrNull(d.value(ctx));
   const limit = d.limit(ctx);

@@ -4,13 +4,17 @@ import type { Design, Evaluation } from '@leadline/mechanics';
 import { assessCheck, governingCheck, type Check } from './check';
 import { CHECK_DECLARATIONS, RULE_REGISTRY } from './registry';
 import { DEFAULT_RULE_SET, type RuleSet, type Thresholds } from './rule-set';
+import type { RuleContext } from './rule';
 
 /**
  * All findings for a design under a rule set, in registry order, at most one per rule id.
  * The rule set is taken as already validated (ruleSetDefinitionSchema).
  */
 export function judge(design: Design, evaluation: Evaluation, ruleSet: RuleSet = DEFAULT_RULE_SET): Finding[] {
-  const ctx = { design, evaluation, thresholds: ruleSet.thresholds };
+  return findingsOf({ design, evaluation, thresholds: ruleSet.thresholds });
+}
+
+function findingsOf(ctx: RuleContext): Finding[] {
   const findings: Finding[] = [];
   for (const rule of RULE_REGISTRY) {
     const finding = rule.check(ctx);
@@ -21,7 +25,10 @@ export function judge(design: Design, evaluation: Evaluation, ruleSet: RuleSet =
 
 /** Every declared check that applies to the design under the thresholds, judged, in registry order. */
 export function checksOf(design: Design, evaluation: Evaluation, thresholds: Thresholds): Check[] {
-  const ctx = { design, evaluation, thresholds };
+  return declaredChecks({ design, evaluation, thresholds });
+}
+
+function declaredChecks(ctx: RuleContext): Check[] {
   const checks: Check[] = [];
   for (const d of CHECK_DECLARATIONS) {
     const c = assessCheck(d, ctx);
@@ -39,8 +46,10 @@ export interface Judgement {
 
 /** judge() plus the declared checks and the governing check, from the same declarations the rules decide by. */
 export function judgeWithChecks(design: Design, evaluation: Evaluation, ruleSet: RuleSet = DEFAULT_RULE_SET): Judgement {
-  const findings = judge(design, evaluation, ruleSet);
-  const checks = checksOf(design, evaluation, ruleSet.thresholds);
+  // One context with a memo: each declaration is assessed once, for the checks list and for the rule that decides by it
+  const ctx: RuleContext = { design, evaluation, thresholds: ruleSet.thresholds, assessed: new Map() };
+  const checks = declaredChecks(ctx);
+  const findings = findingsOf(ctx);
   return { findings, checks, governing: governingCheck(checks) };
 }
 

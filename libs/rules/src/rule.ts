@@ -8,13 +8,15 @@
  */
 import type { Finding } from '@leadline/contracts';
 import type { Design, DutyKind, Evaluation } from '@leadline/mechanics';
-import type { CheckDeclaration } from './check';
+import type { Check, CheckDeclaration } from './check';
 import type { Thresholds } from './rule-set';
 
 export interface RuleContext {
   readonly design: Design;
   readonly evaluation: Evaluation;
   readonly thresholds: Thresholds;
+  /** Checks already assessed in this judgement, by declaration (judgeWithChecks; a Check is never changed once made) */
+  readonly assessed?: Map<CheckDeclaration, Check | null>;
 }
 
 export type RuleCheck = (ctx: RuleContext) => Finding | null;
