@@ -1,6 +1,6 @@
 /**
- * The database side of a durable submission alone, with no HTTP and no engine: the service's one append call
- * (RecordStore.appendRevision, i.e. leadline_append_revision) from 50 clients over 50 products on a raw pool of 10,
+ * The database side of a durable submission alone, with no HTTP and no engine: the service's transaction (the chain
+ * head locked, then RecordStore.appendRevision, i.e. leadline_append_revision) from 50 clients over 50 products on a raw pool of 10,
  * side by side with a bare INSERT of the same stored bytes (a revision-sized row) on the same pool. This is the floor
  * the HTTP submission cannot beat.
  */
@@ -26,13 +26,27 @@ async function drive(seconds: number, op: () => Promise<unknown>): Promise<numbe
 export async function benchDbFloor(url: string, records: RecordStore, targets: [string, string][], acting: { id: string; name: string }, real: PreparedSubmission, seconds: number, rounds: number) {
   const pool = new Pool({ connectionString: url, max: 10 });
   pool.on('error', () => undefined); // an idle client dropped by the server must not crash the run
-  const q: Queryer = { query: async (sql, params) => (await pool.query(sql, params)).rows };
   try {
-    const empty = { ...real, json: { input: '{}', normalized: '{}', evaluation: '{}', findings: '[]' }, content: 'empty' };
+    const empty = { ...real, json: { input: '{}', normalized: '{}', evaluation: '{}', findings: '[]' }, content: 'empty', verdict: 'clear' as const }; // no findings: the record function requires the verdict they give
     let k = 0;
-    const append = (s: PreparedSubmission) => () => {
+    // As the service appends (CalculationsService.addRevision): one transaction that locks the product's chain head,
+    // then the record function; a link is timed by its transaction's clock, so the call cannot run outside one
+    const append = (s: PreparedSubmission) => async () => {
       const [p, c] = targets[k++ % targets.length];
-      return records.appendRevision(q, p, c, s, acting as never);
+      const client = await pool.connect();
+      const tq: Queryer = { query: async (sql, params) => (await client.query(sql, params)).rows };
+      try {
+        await client.query('BEGIN');
+        const cursor = await records.lockHead(tq, p);
+        if (!cursor) throw new Error(`no chain head for product ${p}`);
+        await records.appendRevision(tq, p, c, s, acting as never, cursor);
+        await client.query('COMMIT');
+      } catch (err) {
+        await client.query('ROLLBACK');
+        throw err;
+      } finally {
+        client.release();
+      }
     };
     const author = JSON.stringify(acting);
     const insert = () => {
