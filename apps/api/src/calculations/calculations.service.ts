@@ -138,13 +138,16 @@ export class CalculationsService {
     const assessment = this.assessor.assess(input.design, this.ruleSets.current(), 'design.');
     const prepared = prepareSubmission(submission(assessment, input.design, input.note ?? null));
     return this.idempotent(`revise:${calculationId}:${actor?.id ?? '-'}`, idempotencyKey, body, async (q) => {
-      const [calc] = await q.query<{ product_id: string }>(`SELECT product_id FROM calculations WHERE id = $1`, [calculationId]);
-      if (!calc) throw notFound(`calculation ${calculationId}`);
-      // Under the head's lock, so two identical submissions racing each other cannot both pass
-      const cursor = await this.records.lockHead(q, calc.product_id);
-      if (!cursor) throw notFound(`product ${calc.product_id}`);
-      await this.refuseUnchanged(q, calculationId, prepared.json.normalized, actor);
-      const revision = await this.records.appendRevision(q, calc.product_id, calculationId, prepared, actor, cursor);
+      // Four statements in all: the head locked (found through the calculation), who owns it with its latest
+      // revision, the record function; the calculation's revisions only grow under this lock, so the latest read
+      // here is the one the new revision follows
+      const locked = await this.records.lockHeadOfCalculation(q, calculationId);
+      if (!locked) throw notFound(`calculation ${calculationId}`);
+      const latest = await this.ownerAndLatest(q, calculationId, prepared.json.normalized);
+      refuseUnchanged(latest, actor);
+      const revision = await this.records.appendRevision(q, locked.productId, calculationId, prepared, actor, locked.cursor, {
+        nextRevision: (latest.revision ?? 0) + 1,
+      });
       return {
         status: 201,
         body: { calculationId, revisionId: revision.id, revision: revision.revision, verdict: assessment.verdict, hash: revision.hash },
@@ -153,27 +156,20 @@ export class CalculationsService {
   }
 
   /**
-   * A submission whose normalized design equals the previous revision's is refused (409 naming that revision): a
-   * revision records a change, and an accidental resubmission must not pass for one. Checked here, not in
-   * leadline_append_revision, because bulk test and benchmark state appends one stored design many times through
-   * the record function. The owner check comes first, so a stranger learns nothing of the design.
+   * The owner of a calculation with its latest revision, and whether that revision's normalized design equals the
+   * given one (`jsonb` equality: "18 kN" equals "18000 N"), in one statement.
    */
-  private async refuseUnchanged(q: Queryer, calculationId: string, normalized: string, actor: Actor | null): Promise<void> {
-    const owner = await this.owner(q, calculationId);
-    if (owner && actor && owner.id !== actor.id) return; // leadline_append_revision refuses it with 403
-    const [previous] = await q.query<{ id: string; revision: number; same: boolean }>(
-      `SELECT id, revision, normalized::jsonb = $2::jsonb AS same FROM revisions WHERE calculation_id = $1 ORDER BY revision DESC LIMIT 1`,
+  private async ownerAndLatest(q: Queryer, calculationId: string, normalized: string): Promise<LatestRevision> {
+    const [row] = await q.query<{ owner: Actor | null; id: string | null; revision: number | null; same: boolean | null }>(
+      `SELECT ${OWNER_OF('$1')} AS owner, p.id, p.revision, p.same
+         FROM (SELECT 1) one LEFT JOIN LATERAL (
+           SELECT r.id, r.revision, r.normalized::jsonb = $2::jsonb AS same FROM revisions r WHERE r.calculation_id = $1 ORDER BY r.revision DESC LIMIT 1
+         ) p ON true`,
       [calculationId, normalized],
     );
-    if (previous?.same) {
-      const n = Number(previous.revision);
-      throw new ProblemError(409, 'Unchanged design', `the design equals revision ${n} (${previous.id}): change an input before submitting a new revision`, {
-        revision: n,
-        revisionId: previous.id,
-        errors: [{ path: 'design', message: `equals revision ${n} (${previous.id}): nothing changed` }],
-      });
-    }
+    return { owner: row?.owner ?? null, id: row?.id ?? null, revision: row?.revision === null || row?.revision === undefined ? null : Number(row.revision), same: row?.same === true };
   }
+
 
   /**
    * Hands a calculation to another author (admin): a calculation-reassigned event on the product's chain, which
@@ -205,12 +201,7 @@ export class CalculationsService {
 
   /** Who may add revisions: the user of the latest calculation-reassigned event, else the one who opened it. */
   async owner(q: Queryer, calculationId: string): Promise<Actor | null> {
-    const [row] = await q.query<{ owner: Actor | null }>(
-      `SELECT coalesce(
-         (SELECT e.data->'to' FROM events e WHERE e.calculation_id = $1 AND e.type = 'calculation-reassigned' ORDER BY e.seq DESC LIMIT 1),
-         (SELECT e.actor FROM events e WHERE e.calculation_id = $1 AND e.type = 'calculation-opened' ORDER BY e.seq LIMIT 1)) AS owner`,
-      [calculationId],
-    );
+    const [row] = await q.query<{ owner: Actor | null }>(`SELECT ${OWNER_OF('$1')} AS owner`, [calculationId]);
     return row?.owner ?? null;
   }
 
@@ -308,4 +299,38 @@ function submission(a: Assessment, input: unknown, note: string | null) {
     ruleSetVersion: a.ruleSetVersion,
     note,
   };
+}
+
+/**
+ * Who may add revisions to a calculation (SQL expression over the calculation id `param`): the user of its latest
+ * calculation-reassigned event, else the one who opened it (leadline_append_revision decides by the same).
+ */
+const OWNER_OF = (param: string): string => `coalesce(
+  (SELECT e.data->'to' FROM events e WHERE e.calculation_id = ${param} AND e.type = 'calculation-reassigned' ORDER BY e.seq DESC LIMIT 1),
+  (SELECT e.actor FROM events e WHERE e.calculation_id = ${param} AND e.type = 'calculation-opened' ORDER BY e.seq LIMIT 1))`;
+
+interface LatestRevision {
+  readonly owner: Actor | null;
+  /** The latest revision (null: none yet) and whether its design equals the submitted one */
+  readonly id: string | null;
+  readonly revision: number | null;
+  readonly same: boolean;
+}
+
+/**
+ * A submission whose normalized design equals the previous revision's is refused (409 naming that revision): a
+ * revision records a change, and an accidental resubmission must not pass for one. Checked by the service, not in
+ * leadline_append_revision, because bulk test and benchmark state appends one stored design many times through
+ * the record function. The owner check comes first, so a stranger learns nothing of the design.
+ */
+function refuseUnchanged(latest: LatestRevision, actor: Actor | null): void {
+  if (latest.owner && actor && latest.owner.id !== actor.id) return; // leadline_append_revision refuses it with 403
+  if (latest.same && latest.revision !== null) {
+    const n = latest.revision;
+    throw new ProblemError(409, 'Unchanged design', `the design equals revision ${n} (${latest.id}): change an input before submitting a new revision`, {
+      revision: n,
+      revisionId: latest.id,
+      errors: [{ path: 'design', message: `equals revision ${n} (${latest.id}): nothing changed` }],
+    });
+  }
 }

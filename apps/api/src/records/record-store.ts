@@ -116,6 +116,19 @@ export class RecordStore implements OnModuleInit {
     return { seq: Number(rows[0].seq), hash: rows[0].hash === '' ? null : rows[0].hash, now: rows[0].now };
   }
 
+  /**
+   * Locks the chain head of a calculation's product for the rest of the transaction, found through the calculation
+   * in the same statement: the product and the cursor, or null when there is no such calculation.
+   */
+  async lockHeadOfCalculation(q: Queryer, calculationId: string): Promise<{ productId: string; cursor: ChainCursor } | null> {
+    const rows = await q.query<{ product_id: string; seq: string; hash: string; now: string }>(
+      `SELECT c.product_id, h.seq, h.hash, h.now FROM calculations c CROSS JOIN LATERAL leadline_lock_head(c.product_id) h WHERE c.id = $1`,
+      [calculationId],
+    );
+    if (rows.length === 0) return null;
+    return { productId: rows[0].product_id, cursor: { seq: Number(rows[0].seq), hash: rows[0].hash === '' ? null : rows[0].hash, now: rows[0].now } };
+  }
+
   /** Runs a record function call; its refusals become HTTP problems. */
   private async call(q: Queryer, sql: string, params: unknown[]): Promise<void> {
     try {
@@ -197,22 +210,32 @@ export class RecordStore implements OnModuleInit {
     s: PreparedSubmission,
     acting: Acting | null,
     cursor?: ChainCursor,
+    known?: { readonly nextRevision: number },
   ): Promise<AppendedRevision> {
-    if (q instanceof Database) return q.transaction((tq) => this.appendRevision(tq, productId, calculationId, s, acting, cursor));
-    const [calc] = await q.query<{ product_id: string }>(`SELECT product_id FROM calculations WHERE id = $1`, [calculationId]);
-    if (!calc || (productId !== null && calc.product_id !== productId)) throw notFound(productId === null ? `calculation ${calculationId}` : `product ${productId}`);
-    const head = cursor ?? (await this.lockHead(q, calc.product_id));
-    if (!head) throw notFound(`product ${calc.product_id}`);
-    const [{ next }] = await q.query<{ next: number }>(`SELECT coalesce(max(revision), 0) + 1 AS next FROM revisions WHERE calculation_id = $1`, [calculationId]);
+    if (q instanceof Database) return q.transaction((tq) => this.appendRevision(tq, productId, calculationId, s, acting, cursor, known));
+    // With `known`, the caller found the product through the calculation and read its latest revision under this
+    // head's lock (one statement less each; leadline_append_revision still refuses a product or number that does not follow)
+    const trusted = known !== undefined && cursor !== undefined && productId !== null;
+    let product = productId;
+    if (!trusted) {
+      const [calc] = await q.query<{ product_id: string }>(`SELECT product_id FROM calculations WHERE id = $1`, [calculationId]);
+      if (!calc || (productId !== null && calc.product_id !== productId)) throw notFound(productId === null ? `calculation ${calculationId}` : `product ${productId}`);
+      product = calc.product_id;
+    }
+    const head = cursor ?? (await this.lockHead(q, product as string));
+    if (!head) throw notFound(`product ${product}`);
+    const next = trusted
+      ? known.nextRevision
+      : Number((await q.query<{ next: number }>(`SELECT coalesce(max(revision), 0) + 1 AS next FROM revisions WHERE calculation_id = $1`, [calculationId]))[0].next);
     const { actor, tokenId } = splitActing(acting);
     const revision: RevisionLink = {
-      kind: 'revision', id: randomUUID(), productId: calc.product_id, calculationId, revision: Number(next), seq: head.seq + 1, note: s.note,
+      kind: 'revision', id: randomUUID(), productId: product as string, calculationId, revision: next, seq: head.seq + 1, note: s.note,
       content: s.content, verdict: s.verdict, engineVersion: s.engineVersion, ruleSetVersion: s.ruleSetVersion, author: actor,
       createdAt: head.now, linkVersion: LINK_VERSION, tokenId,
     };
     const hash = linkHash(revision as unknown as Record<string, unknown>, head.hash);
     const event: EventLink = {
-      kind: 'event', id: randomUUID(), productId: calc.product_id, seq: head.seq + 2, type: 'revision-submitted', calculationId, revisionId: revision.id,
+      kind: 'event', id: randomUUID(), productId: product as string, seq: head.seq + 2, type: 'revision-submitted', calculationId, revisionId: revision.id,
       actor, data: { note: s.note, revision: revision.revision, revisionHash: hash, verdict: s.verdict }, createdAt: head.now, linkVersion: LINK_VERSION, tokenId,
     };
     const eventHash = linkHash(event as unknown as Record<string, unknown>, hash);
