@@ -29,8 +29,13 @@ import { z } from 'zod';
  * checked once, while converting, in normalizeDesign (one parse per value per request).
  */
 function quantity(dimension: Dimension, description: string) {
-  return z.string().max(64).describe(`${description}: ${DIMENSION_HINT[dimension]}`);
+  const schema = z.string().max(64).describe(`${description}: ${DIMENSION_HINT[dimension]}`);
+  FIELD_DIMENSION.set(schema, dimension);
+  return schema;
 }
+
+/** The dimension of each quantity field of the design input, kept by its schema (read by designFieldDimension). */
+const FIELD_DIMENSION = new WeakMap<z.ZodType, Dimension>();
 
 const length = (d: string) => quantity('length', d);
 const coefficient = z.number().min(0, 'friction coefficient must be within 0..1').max(1, 'friction coefficient must be within 0..1');
@@ -581,6 +586,34 @@ export function designFieldLabel(path: string): string {
   const step = index === undefined ? '' : ` (step ${Number(index) + 1})`;
   if (words) return text.charAt(0).toUpperCase() + text.slice(1) + step;
   return parts.filter((p) => !/^\d+$/.test(p)).join(' › ') + step;
+}
+
+/**
+ * The dimension of a field of the design input ("duty.designLife" -> "serviceTime"), as its schema declares it; null
+ * for a field that is not a quantity (a count, a coefficient, a ratio, a word) or not a field. The normalized design
+ * holds each quantity in the engine's unit of its dimension (libs/mechanics units.ts; angles in degrees, speeds in
+ * rev/min), so this is also the unit of a normalized value.
+ */
+export function designFieldDimension(path: string): Dimension | null {
+  let node: z.ZodType | undefined = designInputSchema;
+  for (const part of path.replace(/^design\./, '').split('.')) {
+    node = node && childOf(node, part);
+    if (!node) return null;
+  }
+  return dimensionOf(node);
+}
+
+function dimensionOf(node: z.ZodType): Dimension | null {
+  const n = unwrapped(node);
+  const own = FIELD_DIMENSION.get(n);
+  if (own !== undefined) return own;
+  if (n instanceof z.ZodUnion) {
+    for (const option of n.options as z.ZodType[]) {
+      const found = dimensionOf(option);
+      if (found !== null) return found;
+    }
+  }
+  return null;
 }
 
 function unwrapped(node: z.ZodType): z.ZodType {

@@ -53,12 +53,13 @@ describe('display units', () => {
   // Each kind's display unit as the engine's units library spells it (libs/mechanics units.ts)
   const ENGINE: Partial<Record<server.QuantityKind, [string, Parameters<typeof fromSi>[2]]>> = {
     length: ['mm', 'length'], force: ['kN', 'force'], stress: ['MPa', 'stress'], pressure: ['MPa', 'stress'], modulus: ['GPa', 'stress'],
-    torque: ['N*m', 'torque'], travelSpeed: ['m/min', 'linearSpeed'], pv: ['MPa*m/s', 'pv'],
+    torque: ['N*m', 'torque'], travelSpeed: ['m/min', 'linearSpeed'], pv: ['MPa*m/s', 'pv'], serviceTime: ['h', 'serviceTime'],
+    specificWearRate: ['mm^3/(N*m)', 'specificWearRate'],
   };
   const ENGINE_US: Partial<Record<server.QuantityKind, [string, Parameters<typeof fromSi>[2]]>> = {
     length: ['in', 'length'], force: ['lbf', 'force'], stress: ['ksi', 'stress'], pressure: ['psi', 'stress'], modulus: ['Mpsi', 'stress'],
     torque: ['lbf*in', 'torque'], travelSpeed: ['in/min', 'linearSpeed'], slidingSpeed: ['ft/min', 'linearSpeed'], pv: ['psi*ft/min', 'pv'],
-    density: ['lb/in^3', 'density'],
+    density: ['lb/in^3', 'density'], serviceTime: ['h', 'serviceTime'], specificWearRate: ['in^3/(lbf*in)', 'specificWearRate'],
   };
   it.each([
     ['SI', ENGINE],
@@ -66,6 +67,16 @@ describe('display units', () => {
   ] as const)('%s factors equal the engine units library', (system, table) => {
     for (const [kind, [unit, dimension]] of Object.entries(table) as [server.QuantityKind, [string, Parameters<typeof fromSi>[2]]][]) {
       expect({ kind, factor: server.toDisplay(1, kind, system) / fromSi(1, unit, dimension) }).toEqual({ kind, factor: expect.closeTo(1, 12) });
+    }
+  });
+
+  // A temperature has an offset as well as a factor: held to the units library at the two fixed points of water
+  it.each([
+    ['SI', 'degC'],
+    ['US', 'degF'],
+  ] as const)('%s temperatures equal the engine units library (273.15 K and 373.15 K)', (system, unit) => {
+    for (const kelvin of [273.15, 373.15]) {
+      expect(server.toDisplay(kelvin, 'temperature', system)).toBeCloseTo(fromSi(kelvin, unit, 'temperature'), 9);
     }
   });
 });

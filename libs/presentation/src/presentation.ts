@@ -99,7 +99,7 @@ export type UnitSystem = 'SI' | 'US';
 export type QuantityKind =
   | 'length' | 'area' | 'force' | 'stress' | 'pressure' | 'modulus' | 'torque' | 'power' | 'rpm' | 'revPerSecond'
   | 'travelSpeed' | 'slidingSpeed' | 'pv' | 'density' | 'angle' | 'coefficient' | 'ratio' | 'percent' | 'count' | 'mass'
-  | 'inertia' | 'angularAcceleration' | 'linearAcceleration' | 'time';
+  | 'inertia' | 'angularAcceleration' | 'linearAcceleration' | 'time' | 'serviceTime' | 'temperature' | 'specificWearRate';
 
 /**
  * Display unit of each kind: its symbol and the factor from the SI value (display = SI × factor). US factors are
@@ -113,6 +113,7 @@ export const DISPLAY_UNITS: Readonly<Record<UnitSystem, Readonly<Record<Quantity
     torque: ['N·m', 1], power: ['W', 1], rpm: ['rpm', 1], revPerSecond: ['rev/s', 1], travelSpeed: ['m/min', 60], slidingSpeed: ['m/s', 1],
     pv: ['MPa·m/s', 1e-6], density: ['kg/m³', 1], angle: ['°', 1], coefficient: ['', 1], ratio: ['', 1], percent: ['%', 100], count: ['', 1],
     mass: ['kg', 1], inertia: ['kg·cm²', 1e4], angularAcceleration: ['rad/s²', 1], linearAcceleration: ['m/s²', 1], time: ['s', 1],
+    serviceTime: ['h', 1 / 3600], temperature: ['°C', 1], specificWearRate: ['mm³/(N·m)', 1e9],
   },
   US: {
     length: ['in', 1 / 0.0254], area: ['in²', 1 / (0.0254 * 0.0254)], force: ['lbf', 1 / 4.4482216152605],
@@ -122,8 +123,18 @@ export const DISPLAY_UNITS: Readonly<Record<UnitSystem, Readonly<Record<Quantity
     slidingSpeed: ['ft/min', 60 / 0.3048], pv: ['psi·ft/min', ((0.0254 * 0.0254) / 4.4482216152605) * (60 / 0.3048)],
     density: ['lb/in³', (0.0254 * 0.0254 * 0.0254) / 0.45359237], angle: ['°', 1], coefficient: ['', 1], ratio: ['', 1], percent: ['%', 100],
     count: ['', 1], mass: ['lb', 1 / 0.45359237], inertia: ['lb·in²', 1 / (0.45359237 * 0.0254 * 0.0254)], angularAcceleration: ['rad/s²', 1],
-    linearAcceleration: ['in/s²', 1 / 0.0254], time: ['s', 1],
+    linearAcceleration: ['in/s²', 1 / 0.0254], time: ['s', 1], serviceTime: ['h', 1 / 3600], temperature: ['°F', 1.8],
+    specificWearRate: ['in³/(lbf·in)', 4.4482216152605 / (0.0254 * 0.0254)],
   },
+};
+
+/**
+ * The offset a kind's display unit adds after its factor (display = SI × factor + offset): only temperatures, from
+ * kelvin, have one (°C = K − 273.15; °F = 1.8 K − 459.67, NIST SP 811, 2008, B.8).
+ */
+export const DISPLAY_OFFSETS: Readonly<Record<UnitSystem, Readonly<Partial<Record<QuantityKind, number>>>>> = {
+  SI: { temperature: -273.15 },
+  US: { temperature: -459.67 },
 };
 
 /** Display unit symbol of a kind in a system ('' for dimensionless kinds). */
@@ -133,7 +144,7 @@ export function unitSymbol(kind: QuantityKind, system: UnitSystem): string {
 
 /** Converts an SI value to the display unit of its kind. */
 export function toDisplay(si: number, kind: QuantityKind, system: UnitSystem): number {
-  return si * (DISPLAY_UNITS[system] ?? DISPLAY_UNITS.SI)[kind][1];
+  return si * (DISPLAY_UNITS[system] ?? DISPLAY_UNITS.SI)[kind][1] + ((DISPLAY_OFFSETS[system] ?? DISPLAY_OFFSETS.SI)[kind] ?? 0);
 }
 
 /** The number alone, converted and rounded as Leadline prints it; "—" when there is none. */

@@ -1,7 +1,7 @@
 import { parseDesign, type DesignInput } from '@leadline/contracts';
 import { evaluate } from '@leadline/mechanics';
 import { formatQuantity } from '@leadline/presentation';
-import { geometryRows } from './inputs';
+import { engineValueRows, geometryRows } from './inputs';
 
 const IN = 0.0254; // exact by definition (NIST SP 811, 2008, B.8)
 
@@ -45,5 +45,37 @@ describe('geometry rows: which root the body, column and whirl checks used, from
     expect(rows['Basic minor diameter d_r (not used by the checks)']).toBe(formatQuantity(0.032, 'length', 'SI'));
     expect(e.geometry.minimumMaterial.minorDiameter).toBeLessThan(0.032);
     expect(rows['Minimum-material minor diameter d_r,min (the section of the body, column and whirl checks)']).toBe(formatQuantity(e.geometry.minimumMaterial.minorDiameter, 'length', 'SI'));
+  });
+});
+
+describe('engine values: each with the unit its field declares, in the report\'s system', () => {
+  const parsed = parseDesign({
+    thread: { form: 'trapezoidal', size: 'Tr 40x7' },
+    load: { axial: '25 kN', sense: 'compression' },
+    friction: { thread: { min: 0.15, max: 0.15, source: { kind: 'handbook', reference: 'single value for the test' } } },
+    collar: { kind: 'none' },
+    nut: { length: '60 mm', material: 'bronze' },
+    screw: { material: 'steel-1045-cd', unsupportedLength: '1 m', ends: 'pinned-pinned' },
+    duty: { kind: 'lifting', brake: false, designLife: '5000 h', ambientTemperature: '40 degC' },
+  } as DesignInput);
+  if (!parsed.success) throw new Error(JSON.stringify(parsed.issues));
+  const rows = (system: 'SI' | 'US') => Object.fromEntries(engineValueRows(parsed.design, system).map((r) => [r.path, r.value]));
+
+  it('a design life in hours, not the seconds the engine works in', () => {
+    expect(parsed.design.duty.designLife).toBe(5000 * 3600);
+    expect(rows('SI')['duty.designLife']).toBe('5000 h');
+  });
+
+  it('a temperature in degrees Celsius or Fahrenheit, not kelvin: 40 degC = 104 degF (NIST SP 811, 2008, B.8: t/degF = 1.8 t/degC + 32)', () => {
+    expect(rows('SI')['duty.ambientTemperature']).toBe('40.0 °C');
+    expect(rows('US')['duty.ambientTemperature']).toBe('104.0 °F'); // four significant figures, as the report rounds
+  });
+
+  it('every number the engine used has a unit, or is a count', () => {
+    const leaf = (path: string): unknown => path.split('.').reduce<unknown>((o, k) => (o as Record<string, unknown>)[k], parsed.design);
+    for (const [path, value] of Object.entries(rows('SI'))) {
+      if (typeof leaf(path) !== 'number' || /^\d+$/.test(value)) continue; // a word, or a count (thread starts, cycles)
+      expect({ path, value }).toEqual({ path, value: expect.stringMatching(/\d \S/) });
+    }
   });
 });

@@ -1,9 +1,9 @@
 /**
  * Section 2 of the report, the design input: as entered, in engine units, friction with its sources, materials and the thread geometry.
  */
-import { FRICTION_LIBRARY, findNutMaterial, findScrewMaterial, type Design, type Evaluation, type FrictionRange } from '@leadline/mechanics';
-import { coefficient, formatQuantity, siRecord, sig, type QuantityKind, type UnitSystem } from '@leadline/presentation';
-import { designFieldLabel } from '@leadline/contracts';
+import { FRICTION_LIBRARY, findNutMaterial, findScrewMaterial, type Design, type Dimension, type Evaluation, type FrictionRange } from '@leadline/mechanics';
+import { coefficient, formatQuantity, sig, type QuantityKind, type UnitSystem } from '@leadline/presentation';
+import { designFieldDimension, designFieldLabel } from '@leadline/contracts';
 import type { FrictionRow, InputRow, KeyValue, MaterialRow } from '../report-view';
 
 // ---------------------------------------------------------------------------------------------------------
@@ -21,23 +21,15 @@ export function flatten(value: unknown, prefix: string, out: InputRow[]): void {
   out.push({ path: prefix || '(input)', value: value === null || value === undefined ? '—' : String(value) });
 }
 
-/** Engine units of normalized-design leaves, by field name. */
-export const SI_UNIT_OF: Record<string, string> = {
-  majorDiameter: 'm', pitch: 'm', meanDiameter: 'm', outerDiameter: 'm', innerDiameter: 'm', length: 'm', unsupportedLength: 'm',
-  axial: 'N', allowablePressure: 'Pa', yieldStrength: 'Pa', elasticModulus: 'Pa', allowablePv: 'Pa·m/s', density: 'kg/m³',
-  speed: 'rpm', linearSpeed: 'm/s', upToRubbingSpeed: 'm/s', availableTorque: 'N·m', loadFlankAngle: '°',
-  whirlSpan: 'm', brakeTorque: 'N·m', loadMass: 'kg', accelerationTime: 's', acceleration: 'm/s²',
-  // engine 1.2 inputs: the nut body, safety nut, wear, duty and bearing ratings
-  outsideDiameter: 'm', thickness: 'm', gap: 'm', allowableWear: 'm', stroke: 'm', dynamicRating: 'N', staticRating: 'N',
-  brakeResponseTime: 's',
+/**
+ * How the report prints a quantity of each dimension the design input declares (designFieldDimension): the kind of
+ * the presentation module, which holds its display units in either system.
+ */
+const KIND_OF_DIMENSION: Readonly<Record<Dimension, QuantityKind>> = {
+  length: 'length', force: 'force', stress: 'stress', torque: 'torque', density: 'density', rotationalSpeed: 'rpm',
+  linearSpeed: 'slidingSpeed', angle: 'angle', pv: 'pv', mass: 'mass', time: 'time', linearAcceleration: 'linearAcceleration',
+  temperature: 'temperature', inertia: 'inertia', specificWearRate: 'specificWearRate', serviceTime: 'serviceTime',
 };
-
-/** The quantity kind of each engine unit, to print an engine value in the report's unit system. */
-const KIND_OF_SI_UNIT: Record<string, QuantityKind> = {
-  m: 'length', N: 'force', Pa: 'stress', 'Pa·m/s': 'pv', 'kg/m³': 'density', rpm: 'rpm', 'm/s': 'slidingSpeed', 'N·m': 'torque',
-  '°': 'angle', kg: 'mass', s: 'time', 'm/s²': 'linearAcceleration',
-};
-
 
 /**
  * A field of the design input in words: the contract's one label of it (designFieldLabel, from the description each
@@ -60,29 +52,22 @@ function designLeaves(design: Design, visit: (path: string, key: string, value: 
   walk(design, '');
 }
 
-/** The values the engine used, each by its label, in the report's unit system (rounded as the report rounds). */
+/**
+ * The values the engine used, each by its label, in the report's unit system (rounded as the report rounds). The
+ * unit of each comes from the dimension its field declares in the design input; the normalized design names the
+ * library's pressure steps `pressureBySpeed` where the input names them `allowablePressureBySpeed`.
+ */
 export function engineValueRows(design: Design, system: UnitSystem): InputRow[] {
   const rows: InputRow[] = [];
   designLeaves(design, (path, key, value) => {
-    if (value === null || value === undefined) return; // not given: nothing the engine used
-    const unit = SI_UNIT_OF[key] ?? (/Strength$/.test(key) ? 'Pa' : undefined);
-    const kind = key === 'elasticModulus' ? 'modulus' : unit ? KIND_OF_SI_UNIT[unit] : undefined;
+    const field = path.replace(/^nut\.pressureBySpeed/, 'nut.allowablePressureBySpeed');
+    const dimension = typeof value === 'number' ? designFieldDimension(field) : null;
+    // the elastic modulus is a stress in parsing, printed in GPa as handbooks list it
+    const kind = dimension === null ? undefined : key === 'elasticModulus' ? 'modulus' : KIND_OF_DIMENSION[dimension];
     const text = typeof value !== 'number' ? String(value)
       : kind ? formatQuantity(value, kind, system)
-        : unit ? `${siRecord(value)} ${unit}`
-          : Number.isInteger(value) ? String(value) : sig(value);
-    // the normalized design keeps the input's names, except the pressure steps taken from the library
-    rows.push({ path, label: inputLabel(path.replace(/^nut\.pressureBySpeed/, 'nut.allowablePressureBySpeed')), value: text });
-  });
-  return rows;
-}
-
-/** The values the engine used in its own SI units, as the record stores them. */
-export function engineUnitRows(design: Design): InputRow[] {
-  const rows: InputRow[] = [];
-  designLeaves(design, (path, key, value) => {
-    if (typeof value === 'number') rows.push({ path, value: siRecord(value), unit: SI_UNIT_OF[key] ?? '' });
-    else rows.push({ path, value: value === null || value === undefined ? '—' : String(value), unit: '' });
+        : Number.isInteger(value) ? String(value) : sig(value);
+    rows.push({ path, label: inputLabel(field), value: text });
   });
   return rows;
 }
