@@ -1,12 +1,9 @@
 /**
  * nut-thread-fatigue: Goodman factor of at least 1.5 (common practice).
  */
-import type { Evaluation } from '@leadline/mechanics';
 import { FULL_LIFTING_INPUT } from '../testing/designs';
 import { limitCases } from '../testing/limit-cases';
 import { nutThreadFatigueRule } from './nut-thread-fatigue.rule';
-
-type Mutable<T> = { -readonly [K in keyof T]: Mutable<T[K]> };
 
 describe('nut-thread-fatigue', () => {
   limitCases({
@@ -16,10 +13,6 @@ describe('nut-thread-fatigue', () => {
     kind: 'minimum',
     past: 'blocking',
     group: 'fatigue',
-    withValue: (e, v) => {
-      const m = e as Mutable<Evaluation>;
-      m.fatigue!.nutThread!.safetyFactor = v;
-      return e;
-    },
+    subject: 'fatigue.nutThread.safetyFactor',
   });
 });

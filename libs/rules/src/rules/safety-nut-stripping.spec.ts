@@ -1,12 +1,9 @@
 /**
  * safety-nut-stripping: limit 3.0, the lifting strength minimum (common practice by analogy with ASME BTH-1, from memory).
  */
-import type { Evaluation } from '@leadline/mechanics';
 import { FULL_LIFTING_INPUT } from '../testing/designs';
 import { limitCases } from '../testing/limit-cases';
 import { safetyNutStrippingRule } from './safety-nut-stripping.rule';
-
-type Mutable<T> = { -readonly [K in keyof T]: Mutable<T[K]> };
 
 describe('safety-nut-stripping', () => {
   limitCases({
@@ -16,10 +13,6 @@ describe('safety-nut-stripping', () => {
     kind: 'minimum',
     past: 'blocking',
     group: 'safetyNut',
-    withValue: (e, v) => {
-      const m = e as Mutable<Evaluation>;
-      m.dynamics!.safetyFactors.safetyNutStripping = v;
-      return e;
-    },
+    subject: 'dynamics.safetyFactors.safetyNutStripping',
   });
 });

@@ -1,12 +1,9 @@
 /**
  * screw-root-fatigue: Goodman factor of at least 1.5 (common practice).
  */
-import type { Evaluation } from '@leadline/mechanics';
 import { FULL_LIFTING_INPUT } from '../testing/designs';
 import { limitCases } from '../testing/limit-cases';
 import { screwRootFatigueRule } from './screw-root-fatigue.rule';
-
-type Mutable<T> = { -readonly [K in keyof T]: Mutable<T[K]> };
 
 describe('screw-root-fatigue', () => {
   limitCases({
@@ -16,10 +13,6 @@ describe('screw-root-fatigue', () => {
     kind: 'minimum',
     past: 'blocking',
     group: 'fatigue',
-    withValue: (e, v) => {
-      const m = e as Mutable<Evaluation>;
-      m.fatigue!.screwRoot!.safetyFactor = v;
-      return e;
-    },
+    subject: 'fatigue.screwRoot.safetyFactor',
   });
 });

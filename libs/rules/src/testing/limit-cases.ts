@@ -17,15 +17,29 @@ export interface LimitCases {
   readonly kind: 'minimum' | 'maximum';
   /** Severity past the limit */
   readonly past: 'blocking' | 'warning';
-  /** Sets the value the check reads into a copy of the evaluation */
-  readonly withValue: (e: Evaluation, v: number) => Evaluation;
+  /**
+   * The evaluation path the check must read (its declared subject on lifting duty), e.g. "dynamics.safetyFactors.nutBody";
+   * the value is set there, unless `withValue` sets it where the check derives it from several figures
+   */
+  readonly subject?: string;
+  /** Sets the value the check reads into a copy of the evaluation (for a check whose value is not one figure) */
+  readonly withValue?: (e: Evaluation, v: number) => Evaluation;
   /** The engine 1.2 group the check reads, deleted to stand for an older evaluation */
   readonly group: keyof Evaluation;
 }
 
 export function limitCases(c: LimitCases): void {
   const e = evaluated(c.input);
-  const judgeAt = (v: number) => c.rule.check({ design: e.design, evaluation: c.withValue(structuredClone(e.evaluation), v), thresholds: RULE_SET_2026_12_3.thresholds });
+  if (!c.withValue && !c.subject) throw new Error(`${c.rule.id}: limitCases needs the subject the check reads, or withValue`);
+  const withValue = c.withValue ?? atPath(c.subject as string);
+
+  if (c.subject) {
+    it(`reads ${c.subject}`, () => {
+      const declarations = c.rule.checks ?? [];
+      expect(declarations.map((d) => d.subject({ design: e.design, evaluation: e.evaluation, thresholds: RULE_SET_2026_12_3.thresholds }))).toEqual([c.subject]);
+    });
+  }
+  const judgeAt = (v: number) => c.rule.check({ design: e.design, evaluation: withValue(structuredClone(e.evaluation), v), thresholds: RULE_SET_2026_12_3.thresholds });
   const inside = c.kind === 'minimum' ? JUST.above(c.limit) : JUST.below(c.limit);
   const outside = c.kind === 'minimum' ? JUST.below(c.limit) : JUST.above(c.limit);
 
@@ -47,7 +61,7 @@ export function limitCases(c: LimitCases): void {
 
   it('rule sets 2026.12-1 and 2026.12-2 do not run it (they judge their revisions as before)', () => {
     for (const rs of [RULE_SET_2026_12_1, RULE_SET_2026_12_2]) {
-      expect(c.rule.check({ design: e.design, evaluation: c.withValue(structuredClone(e.evaluation), outside), thresholds: rs.thresholds })).toBeNull();
+      expect(c.rule.check({ design: e.design, evaluation: withValue(structuredClone(e.evaluation), outside), thresholds: rs.thresholds })).toBeNull();
     }
   });
 
@@ -59,4 +73,15 @@ export function limitCases(c: LimitCases): void {
     const f = c.rule.check({ design: e.design, evaluation: older as unknown as Evaluation, thresholds: RULE_SET_2026_12_3.thresholds });
     if (f !== null) expect(f.measured).toBeNull();
   });
+}
+
+/** Sets a value at an evaluation path ("a.b.c") of a copy the caller made. */
+function atPath(subject: string): (evaluation: Evaluation, v: number) => Evaluation {
+  const path = subject.split('.');
+  return (evaluation, v) => {
+    let node = evaluation as unknown as Record<string, unknown>;
+    for (const key of path.slice(0, -1)) node = node[key] as Record<string, unknown>;
+    node[path[path.length - 1]] = v;
+    return evaluation;
+  };
 }
