@@ -24,6 +24,18 @@ export function passkeysAvailable() {
   return Boolean(window.isSecureContext && window.PublicKeyCredential && navigator.credentials);
 }
 
+/** A credential as the JSON the service reads (WebAuthn Level 3's PublicKeyCredentialJSON shape), with its response's fields. */
+function asJson(credential, response) {
+  return {
+    id: credential.id,
+    rawId: toText(credential.rawId),
+    type: credential.type,
+    response: response,
+    clientExtensionResults: credential.getClientExtensionResults(),
+    authenticatorAttachment: credential.authenticatorAttachment || undefined,
+  };
+}
+
 function descriptors(list) {
   return (list || []).map(function (c) {
     return { id: toBytes(c.id), type: 'public-key', transports: c.transports };
@@ -40,18 +52,11 @@ export async function createPasskey(options) {
     }),
   });
   const r = credential.response;
-  return {
-    id: credential.id,
-    rawId: toText(credential.rawId),
-    type: credential.type,
-    response: {
-      clientDataJSON: toText(r.clientDataJSON),
-      attestationObject: toText(r.attestationObject),
-      transports: typeof r.getTransports === 'function' ? r.getTransports() : undefined,
-    },
-    clientExtensionResults: credential.getClientExtensionResults(),
-    authenticatorAttachment: credential.authenticatorAttachment || undefined,
-  };
+  return asJson(credential, {
+    clientDataJSON: toText(r.clientDataJSON),
+    attestationObject: toText(r.attestationObject),
+    transports: typeof r.getTransports === 'function' ? r.getTransports() : undefined,
+  });
 }
 
 /** Signs a challenge with a passkey (sign-in, or signing a revision); answers the assertion as JSON. */
@@ -63,17 +68,10 @@ export async function usePasskey(options) {
     }),
   });
   const r = credential.response;
-  return {
-    id: credential.id,
-    rawId: toText(credential.rawId),
-    type: credential.type,
-    response: {
-      clientDataJSON: toText(r.clientDataJSON),
-      authenticatorData: toText(r.authenticatorData),
-      signature: toText(r.signature),
-      userHandle: r.userHandle ? toText(r.userHandle) : undefined,
-    },
-    clientExtensionResults: credential.getClientExtensionResults(),
-    authenticatorAttachment: credential.authenticatorAttachment || undefined,
-  };
+  return asJson(credential, {
+    clientDataJSON: toText(r.clientDataJSON),
+    authenticatorData: toText(r.authenticatorData),
+    signature: toText(r.signature),
+    userHandle: r.userHandle ? toText(r.userHandle) : undefined,
+  });
 }
