@@ -11,7 +11,7 @@
 import fc from 'fast-check';
 import { checkAsyncProperty, FULL_RUN, runs } from '../support/property';
 import { clearDesign } from '../support/designs';
-import { startTestApp, type TestApp } from '../support/harness';
+import { startTestApp, type StartOptions, type TestApp } from '../support/harness';
 
 export type Json = null | boolean | number | string | Json[] | { [k: string]: Json };
 
@@ -212,8 +212,8 @@ export interface FuzzTarget {
   close(): Promise<void>;
 }
 
-export async function startFuzzTarget(code: string, env: Record<string, string> = {}): Promise<FuzzTarget> {
-  const t = await startTestApp('postgres', env);
+export async function startFuzzTarget(code: string, env: Record<string, string> = {}, options: StartOptions = {}): Promise<FuzzTarget> {
+  const t = await startTestApp('postgres', env, undefined, options);
   const tables = await t.db.query<{ table_name: string }>(
     `SELECT table_name FROM information_schema.tables WHERE table_schema = 'public' AND table_type = 'BASE TABLE' ORDER BY 1`,
   );
