@@ -2,7 +2,7 @@
 import fc from 'fast-check';
 import { clearDesign } from '../support/designs';
 import { SEED } from '../support/property';
-import { fuzz, FUZZ_TIMEOUT_MS, mutate, mutations, startFuzzTarget, type FuzzTarget } from './fuzz-support';
+import { fuzz, FUZZ_TIMEOUT_MS, mutate, mutations, startFuzzTarget, type FuzzTarget, type Json } from './fuzz-support';
 
 let target: FuzzTarget;
 beforeAll(async () => (target = await startFuzzTarget('FZ-D')));
@@ -13,7 +13,7 @@ it(`drafts: no 5xx, every rejection names a field, no row written [PUT /api/v1/c
   await fuzz(
     target,
     fc.asyncProperty(mutations, fc.boolean(), async (ops, withNote) => {
-      const body = withNote ? { design: clearDesign, note: 'a draft being fuzzed' } : { design: clearDesign };
+      const body: Json = withNote ? { design: clearDesign, note: 'a draft being fuzzed' } : { design: clearDesign };
       const res = await target.check('PUT', `/api/v1/calculations/${target.calculationId}/draft`, mutate(body, ops));
       if (res.status < 300) accepted++;
     }) as never,
