@@ -27,6 +27,7 @@ import { HidPasswordHashesAndReadCurrentRoles20261206030100 } from './2026120603
 import { CreatedRenderedFiles20261206050000 } from './20261206050000-created-rendered-files';
 import { CreatedSharedLimitCounters20261206050100 } from './20261206050100-created-shared-limit-counters';
 import { LeasedPerUserAllowances20261206060000 } from './20261206060000-leased-per-user-allowances';
+import { CreatedDesignFileJobIndex20261207020000 } from './20261207020000-created-design-file-job-index';
 
 export const MIGRATIONS = [
   CreatedRecordTables20261201220000,
@@ -57,4 +58,5 @@ export const MIGRATIONS = [
   CreatedRenderedFiles20261206050000,
   CreatedSharedLimitCounters20261206050100,
   LeasedPerUserAllowances20261206060000,
+  CreatedDesignFileJobIndex20261207020000,
 ];

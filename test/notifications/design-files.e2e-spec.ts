@@ -50,6 +50,11 @@ it('answers 202 with the job location; a worker renders the file with progress; 
   expect(done.result).toMatchObject({ fileName: 'design-file-DF-7.pdf', reused: false, recordHash: await headHash() });
   expect(done.result.href).toBe(`/api/v1/products/${productId}/design-files/${done.result.fileId}`);
 
+  // the product's design-file jobs, newest first: this one done and current (it prints the chain head as it stands)
+  const listed = await t.call('GET', `/api/v1/products/${productId}/design-files`, undefined, { as: 'author' });
+  expect(listed.status).toBe(200);
+  expect(listed.body.items[0]).toMatchObject({ id: accepted.body.jobId, state: 'done', paper: 'A4', status: accepted.body.status, current: true, result: done.result });
+
   const file = await t.call('GET', done.result.href, undefined, { as: 'author' });
   expect(file.status).toBe(200);
   expect(file.headers['content-type']).toBe('application/pdf');
@@ -78,8 +83,10 @@ it('reuses the rendering of the same record and renders again once the chain has
   expect(again.progress).toBeNull();
   expect(await files()).toBe(before);
 
-  // a comment is a new link on the product's chain: a new head hash, a new file
+  // a comment is a new link on the product's chain: a new head hash, a new file; the file before no longer current
   expect((await t.call('POST', `/api/v1/revisions/${revisionId}/comments`, { text: 'Filed with the technical file.' }, { as: 'author' })).status).toBe(201);
+  const stale = (await t.call('GET', `/api/v1/products/${productId}/design-files`, undefined, { as: 'author' })).body.items[0];
+  expect(stale).toMatchObject({ id: again.id, state: 'done', current: false });
   const moved = await ask();
   expect(moved.result.reused).toBe(false);
   expect(moved.result.recordHash).toBe(await headHash());
@@ -92,6 +99,8 @@ it('refuses a bad paper naming the field, an unknown product, and shows no job t
   expect(bad.status).toBe(422);
   expect(JSON.stringify(bad.body)).toContain('paper');
   expect((await t.call('POST', `/api/v1/products/00000000-0000-4000-8000-000000000000/design-files`, {})).status).toBe(404);
+  expect((await t.call('GET', `/api/v1/products/00000000-0000-4000-8000-000000000000/design-files`)).status).toBe(404);
+  expect((await t.call('GET', `/api/v1/products/not-a-uuid/design-files`)).status).toBe(404); // as every product route answers a malformed id
   expect((await t.call('GET', `/api/v1/products/${productId}/design-files/00000000-0000-4000-8000-000000000000`)).status).toBe(404);
   const [event] = await t.db.query<{ id: string }>(`SELECT id FROM queue.jobs WHERE kind = 'event' LIMIT 1`);
   expect((await t.call('GET', `/api/v1/jobs/${event.id}`)).status).toBe(404);

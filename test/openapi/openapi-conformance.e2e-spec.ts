@@ -314,6 +314,13 @@ const CALLS: Record<string, Calls> = {
     ok: (c) => c.t.call('POST', `/api/v1/products/${c.productId}/design-files`, { paper: 'Letter' }, { as: 'reviewer' }),
     bad: (c) => c.t.call('POST', `/api/v1/products/${c.productId}/design-files`, { paper: 'A0' }, { as: 'reviewer' }),
   },
+  'GET /api/v1/products/{id}/design-files': {
+    ok: async (c) => {
+      await designFileJob(c);
+      return c.t.call('GET', `/api/v1/products/${c.productId}/design-files`);
+    },
+    bad: (c) => c.t.call('GET', `/api/v1/products/${MISSING}/design-files`),
+  },
   'GET /api/v1/jobs/{id}': {
     ok: async (c) => c.t.call('GET', `/api/v1/jobs/${(await designFileJob(c)).id}`),
     bad: (c) => c.t.call('GET', `/api/v1/jobs/${MISSING}`),

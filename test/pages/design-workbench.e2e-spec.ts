@@ -403,7 +403,20 @@ it('takes a design from a new product to an approved second revision and its des
   expect(await author.$eval('#design-file-progress', (p) => (p as HTMLProgressElement).hidden)).toBe(false);
   expect(await author.$eval('#download-design-file', (b) => (b as HTMLButtonElement).hidden)).toBe(true);
   await checkPage(author, 'product-design-file-waiting');
+  // the product page opened again (a reload, another tab) finds the job still waiting and follows it too
+  const again = await author.browserContext().newPage();
+  await again.setViewport({ width: 1280, height: 900 });
+  await again.goto(`${t.baseUrl}/design/products/${productId}`);
+  await again.waitForFunction(() => /^Waiting for a worker/.test(document.getElementById('download-status')!.textContent ?? ''));
+  expect(await again.$eval('#design-file-progress', (p) => (p as HTMLProgressElement).hidden)).toBe(false);
   await t.app.get(QueueService).drain();
+  await again.waitForSelector('#download-design-file:not([hidden])');
+  expect(await text(again, '#download-status')).toBe('Design file ready: design-file-BW-40.pdf.');
+  // found on opening, not asked for on this page: the focus stays where the reader is
+  expect(await again.evaluate(() => document.activeElement?.id ?? '')).not.toBe('download-design-file');
+  await again.close();
+  // the tab that asked (in front again: a hidden tab's timers are throttled) shows the file ready
+  await author.bringToFront();
   await author.waitForSelector('#download-design-file:not([hidden])');
   expect(await text(author, '#download-status')).toBe('Design file ready: design-file-BW-40.pdf.');
   // the offer takes the focus: Enter downloads it

@@ -38,6 +38,15 @@ export const designFileJobSchema = z.object({
   finishedAt: z.string().nullable(),
 });
 
+/** GET /api/v1/products/:id/design-files: the product's newest design-file jobs, each as GET /api/v1/jobs/:id shows it. */
+export const designFileJobListSchema = z.object({
+  items: z.array(designFileJobSchema.extend({
+    paper: z.enum(['A4', 'Letter']),
+    status: z.string().describe('where to follow the job (GET /api/v1/jobs/:id)'),
+    current: z.boolean().describe('done, and its file prints the record as it stands now (the product\'s chain head)'),
+  })),
+});
+
 interface DesignFilePayload {
   productId: string;
   paper: 'A4' | 'Letter';
@@ -82,6 +91,27 @@ export class DesignFileJobs {
     const { paper } = validate(designFileRequestSchema, body ?? {});
     const jobId = await this.queue.enqueue(this.db, DESIGN_FILE_JOB, { productId, paper } satisfies DesignFilePayload, { createdBy: userId, maxAttempts: 5 });
     return { jobId: jobId!, paper };
+  }
+
+  /**
+   * The product's newest design-file jobs (at most `limit`), newest first: a page that was reloaded finds the file it
+   * asked for still being prepared, or ready; `current` says whether a done file prints the record as it stands now.
+   */
+  async recent(productId: string, limit = 5): Promise<z.infer<typeof designFileJobListSchema>> {
+    await this.products.get(productId);
+    const jobs = await this.queue.recent(DESIGN_FILE_JOB, 'productId', productId, limit);
+    const [head] = await this.db.query<{ hash: string }>(`SELECT hash FROM chain_heads WHERE product_id = $1`, [productId]);
+    return {
+      items: jobs.map((job) => {
+        const result = job.result as DesignFileResult | null;
+        return {
+          id: job.id, kind: job.kind, state: job.state, attempts: job.attempts, progress: job.progress as DesignFileProgress | null, result,
+          error: job.error, createdAt: job.createdAt, finishedAt: job.finishedAt,
+          paper: (job.payload as DesignFilePayload).paper, status: `/api/v1/jobs/${job.id}`,
+          current: job.state === 'done' && result !== null && head !== undefined && result.recordHash === head.hash,
+        };
+      }),
+    };
   }
 
   /** A stored design file of this product. */

@@ -59,6 +59,12 @@ export class DesignFileController {
     return { jobId, state: 'ready', paper, status };
   }
 
+  /** The product's newest design-file jobs (five), newest first, each with its state, progress and result. */
+  @Get(':id/design-files')
+  listDesignFiles(@Param('id') id: string) {
+    return this.jobs.recent(checkUuid(id, 'product'));
+  }
+
   /** A design file a worker rendered (the href in its job's result). */
   @Get(':id/design-files/:fileId')
   async renderedDesignFile(@Param('id') id: string, @Param('fileId') fileId: string, @Res({ passthrough: true }) reply: FastifyReply) {

@@ -25,7 +25,7 @@ import { recheckResponseSchema, recheckSchema } from '../rules/recheck.service';
 import { adoptSchema } from '../rules/rule-sets.service';
 import { mailPreferenceSchema } from '../notifications/mail.service';
 import { createEndpointSchema } from '../webhooks/webhooks.service';
-import { designFileAcceptedSchema, designFileJobSchema, designFileRequestSchema } from '../design-file/design-file-jobs.service';
+import { designFileAcceptedSchema, designFileJobListSchema, designFileJobSchema, designFileRequestSchema } from '../design-file/design-file-jobs.service';
 
 const json = (schema: ZodType, io: 'input' | 'output') => z.toJSONSchema(schema, { io, target: 'openapi-3.0', unrepresentable: 'any' });
 
@@ -71,6 +71,7 @@ export const ROUTES: Route[] = [
     method: 'post', path: '/api/v1/products/{id}/design-files', tag: 'reports', request: designFileRequestSchema, response: designFileAcceptedSchema, status: 202,
     summary: 'Render the design file in the background (a queue worker on any instance): 202 with the job\'s address in the Location header and the body\'s status; a file of the same record (chain head hash) is reused',
   },
+  { method: 'get', path: '/api/v1/products/{id}/design-files', summary: "The product's newest design-file jobs (five), newest first: state, progress, the file when done and whether it prints the record as it stands", tag: 'reports', response: designFileJobListSchema },
   { method: 'get', path: '/api/v1/jobs/{id}', summary: 'A queued design file: state, progress and, when done, the file\'s href', tag: 'reports', response: designFileJobSchema },
   { method: 'get', path: '/api/v1/products/{id}/design-files/{fileId}', summary: 'A design file a worker rendered (the href of its job\'s result)', tag: 'reports', produces: ['application/pdf'] },
   { method: 'get', path: '/api/v1/products/{id}/design-file.pdf', summary: "Design file, PDF: cover sheet, each calculation's latest approved report, audit trail, hash-chain check (?paper=A4|Letter)", tag: 'reports', produces: ['application/pdf'] },

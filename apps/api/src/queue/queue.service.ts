@@ -66,6 +66,17 @@ export interface JobView {
 
 export const JOB_CHANNEL = 'leadline_jobs';
 
+const JOB_COLUMNS = 'id, kind, state, attempts, progress, result, last_error, created_by, created_at, finished_at';
+
+/** A queue.jobs row (JOB_COLUMNS) as its creator sees it. */
+function jobView(row: Record<string, any>): JobView {
+  return {
+    id: row.id, kind: row.kind, state: row.state, attempts: row.attempts, progress: row.progress ?? null, result: row.result ?? null,
+    error: row.last_error ?? null, createdBy: row.created_by ?? null,
+    createdAt: new Date(row.created_at).toISOString(), finishedAt: row.finished_at ? new Date(row.finished_at).toISOString() : null,
+  };
+}
+
 @Injectable()
 export class QueueService implements OnApplicationBootstrap, OnApplicationShutdown {
   private readonly logger = new Logger('queue');
@@ -119,16 +130,20 @@ export class QueueService implements OnApplicationBootstrap, OnApplicationShutdo
   }
 
   async get(id: string): Promise<JobView | null> {
-    const [row] = await this.db.query<Record<string, any>>(
-      `SELECT id, kind, state, attempts, progress, result, last_error, created_by, created_at, finished_at FROM queue.jobs WHERE id = $1`,
-      [id],
+    const [row] = await this.db.query<Record<string, any>>(`SELECT ${JOB_COLUMNS} FROM queue.jobs WHERE id = $1`, [id]);
+    return row ? jobView(row) : null;
+  }
+
+  /**
+   * The newest jobs of one kind whose payload names `value` under `key` (a product's design files), newest first,
+   * each with its payload.
+   */
+  async recent(kind: string, key: string, value: string, limit: number): Promise<(JobView & { payload: unknown })[]> {
+    const rows = await this.db.query<Record<string, any>>(
+      `SELECT ${JOB_COLUMNS}, payload FROM queue.jobs WHERE kind = $1 AND payload->>$2 = $3 ORDER BY created_at DESC, id LIMIT $4`,
+      [kind, key, value, limit],
     );
-    if (!row) return null;
-    return {
-      id: row.id, kind: row.kind, state: row.state, attempts: row.attempts, progress: row.progress ?? null, result: row.result ?? null,
-      error: row.last_error ?? null, createdBy: row.created_by ?? null,
-      createdAt: new Date(row.created_at).toISOString(), finishedAt: row.finished_at ? new Date(row.finished_at).toISOString() : null,
-    };
+    return rows.map((row) => ({ ...jobView(row), payload: row.payload }));
   }
 
   /**

@@ -1,7 +1,9 @@
 /*
  * The product page's design file panel: asks a queue worker for the file (POST .../design-files, 202 with the job's
  * address), follows the job (GET /api/v1/jobs/:id) showing its progress in words and on a progress bar, and offers
- * the download when the file is ready (fetched with the session, saved from a blob: address).
+ * the download when the file is ready (fetched with the session, saved from a blob: address). On opening, the page
+ * finds the newest job of the product (GET .../design-files): one still waiting or running is followed again, and a
+ * file ready for the record as it stands is offered, so a reload loses nothing.
  */
 import { api, download } from './lib-api.js';
 import { $ } from './lib-dom.js';
@@ -24,14 +26,15 @@ export function designFilePanel(productId) {
   let following = false;
   let ready = null;
 
-  function show(job) {
+  /** Shows a job's state; true when it has ended. `quiet`: found on opening the page, so focus stays where it is. */
+  function show(job, quiet) {
     if (job.state === 'done') {
       bar.value = 100;
       bar.hidden = true;
       ready = job.result;
       status.textContent = 'Design file ready: ' + job.result.fileName + (job.result.reused ? ' (the record is unchanged since it was prepared)' : '') + '.';
       offer.hidden = false;
-      offer.focus();
+      if (!quiet) offer.focus();
       return true;
     }
     if (job.state === 'failed') {
@@ -50,10 +53,10 @@ export function designFilePanel(productId) {
     return false;
   }
 
-  async function follow(address) {
+  async function follow(address, quiet) {
     try {
       const job = await api(address);
-      if (!show(job)) setTimeout(follow, POLL_MS, address);
+      if (!show(job, quiet)) setTimeout(follow, POLL_MS, address, quiet);
       else following = false;
     } catch (err) {
       following = false;
@@ -83,5 +86,20 @@ export function designFilePanel(productId) {
 
   offer.addEventListener('click', function () {
     if (ready) download(ready.href, ready.fileName, status);
+  });
+
+  // A file asked for before this page was opened (a reload, another tab): follow it, or offer it when it is current
+  api('/api/v1/products/' + encodeURIComponent(productId) + '/design-files').then(function (list) {
+    const newest = list.items[0];
+    if (!newest || following || ready) return;
+    if (newest.state === 'ready' || newest.state === 'running') {
+      following = true;
+      show(newest, true);
+      follow(newest.status, true);
+    } else if (newest.state === 'done' && newest.current) {
+      show(newest, true);
+    }
+  }, function () {
+    // nothing to resume: the panel works as before
   });
 }
