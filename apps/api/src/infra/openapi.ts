@@ -99,7 +99,7 @@ export const ROUTES: Route[] = [
   { method: 'get', path: '/api/v1/friction-sources', summary: 'Friction coefficient ranges with their sources', tag: 'library' },
   { method: 'get', path: '/api/v1/materials', summary: 'Screw and nut materials', tag: 'library' },
   { method: 'post', path: '/api/v1/revisions/{id}/decisions', summary: "Approve or reject: an electronic signature with the decider's own credential (signature), by a reviewer who is not the author, with their own session or self-issued token; warnings acknowledged; no blocking findings", tag: 'reviews', request: decisionSchema, status: 201 },
-  { method: 'post', path: '/api/v1/revisions/{id}/comments', summary: 'Comment, general or on an input field or a finding', tag: 'reviews', request: commentSchema, status: 201 },
+  { method: 'post', path: '/api/v1/revisions/{id}/comments', summary: 'Comment, general or on an input field (target.field), a finding (target.finding) or a result (target.result: one of the revision\'s checks)', tag: 'reviews', request: commentSchema, status: 201 },
   { method: 'post', path: '/api/v1/revisions/{id}/withdraw', summary: 'Withdraw by the author before a decision', tag: 'reviews', request: withdrawSchema.unwrap() },
   { method: 'get', path: '/api/v1/reviews/queue', summary: 'Revisions awaiting review, oldest first (productId, calculationId, verdict, authorId)', tag: 'reviews' },
   { method: 'get', path: '/api/v1/products/{id}/audit', summary: 'Audit trail (after, limit; format=csv|json downloads the whole trail, streamed)', tag: 'reviews', query: auditQuerySchema, produces: ['application/json', 'text/csv'] },
