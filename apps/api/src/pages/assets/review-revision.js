@@ -14,10 +14,19 @@ import { currentUser, startPage } from './lib-session.js';
 import { CHECK_STATUSES, formatQuantity, wordFor } from './lib-presentation.js';
 
 /**
- * The report goes into a sandboxed frame (no scripts, opaque origin) through srcdoc, which inherits this page's
- * policy. The service renders it for this page: its style blocks carry this response's style nonce and it has no
- * style attributes, so it is shown exactly as served.
+ * The report is shown in the page itself, as the service renders it for embedding (report.html?part=embedded): its
+ * styles nested under its own box and carrying this response's style nonce, its ids prefixed, no style attributes
+ * and no script. It is parsed by DOMParser (an inert document: nothing in it runs) and moved in as it was served;
+ * the page's policy (script-src 'self', style-src 'self' plus the nonce) holds for it as for the page.
  */
+async function showReport(base) {
+  const html = await api(base + '/report.html?part=embedded&idPrefix=report-&styleNonce=' + encodeURIComponent(styleNonce()), { as: 'text', accept: 'text/html' });
+  const parsed = new DOMParser().parseFromString(html, 'text/html');
+  $('report-body').replaceChildren(...Array.from(parsed.head.childNodes), ...Array.from(parsed.body.childNodes));
+  $('report-status').textContent = '';
+  $('report-status').hidden = true;
+}
+
 function styleNonce() {
   const meta = document.querySelector('meta[name="leadline-style-nonce"]');
   return meta ? meta.content : '';
@@ -528,8 +537,7 @@ async function revisionPage() {
     $('download-pdf').addEventListener('click', function () {
       download(base + '/report.pdf', loaded.product.code + '-rev' + rev.revision + '.pdf', $('download-status'));
     });
-    const frame = $('report-frame');
-    frame.srcdoc = await api(base + '/report.html?styleNonce=' + encodeURIComponent(styleNonce()), { as: 'text', accept: 'text/html' });
+    await showReport(base);
   } catch (err) {
     showProblem(problemSlot, err);
   }
