@@ -127,7 +127,7 @@ it('serves the page shells without data, with a strict Content-Security-Policy a
   }
   const nonces = await Promise.all([1, 2].map(async () => (await fetch(`${t.baseUrl}/review/revisions/${revisionId}`)).headers.get('content-security-policy')));
   expect(nonces[0]).not.toBe(nonces[1]); // a fresh nonce per response
-  for (const name of ['lib-api.js', 'lib-dom.js', 'lib-problem.js', 'lib-format.js', 'lib-session.js', 'review-queue.js', 'review-revision.js', 'review-audit.js']) {
+  for (const name of ['lib-api.js', 'lib-dom.js', 'lib-problem.js', 'lib-format.js', 'lib-session.js', 'review-queue.js', 'review-revision.js', 'review-remarks.js', 'review-audit.js']) {
     const script = await fetch(`${t.baseUrl}/review/assets/${name}`);
     expect(script.headers.get('content-type')).toBe('text/javascript; charset=utf-8');
     expect(await script.text()).not.toMatch(/innerHTML|insertAdjacentHTML|document\.write|localStorage|document\.cookie/);
