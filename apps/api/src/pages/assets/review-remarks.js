@@ -55,7 +55,6 @@ export function renderRemarks(rev) {
   });
 }
 
-
 /** The changed inputs' names, from the comparison (GET /revisions/:id/diff), for the remarks and the comment form. */
 export function rememberFieldLabels(inputs) {
   inputs.forEach(function (c) { fieldLabels[c.path] = c.label; });
@@ -96,7 +95,6 @@ function renderResults(rev) {
   }));
   $('results-section').hidden = checks.length === 0;
 }
-
 
 /** Each changed input's comments (on this revision and the previous one) beside it in the changes table. */
 export function renderInputRemarks(rev) {
@@ -185,4 +183,3 @@ export function setUpComment(rev, reload) {
   });
   $('comment').hidden = false;
 }
-
