@@ -1,7 +1,7 @@
 /*
  * One revision under review (/review/revisions/:id): header, the changes since the previous revision (inputs and
- * results, that revision's decision and comments), what was said on this one, report frame, findings and results
- * (the revision's checks) with the comments on each, a comment on the revision, an input, a finding or a result,
+ * results, that revision's decision and comments), what was said on this one, the calculation report in the page,
+ * findings and results (the revision's checks) with the comments on each and the comment form (review-remarks.js),
  * and the decision form (no preset decision; a blocked revision offers only Reject).
  */
 import { api, ApiError, download } from './lib-api.js';
