@@ -301,7 +301,7 @@ it('takes a design from a new product to an approved second revision and its des
   // the report link: the author reads the report; the decision form is the checking engineer's alone
   await enterOn(author, '#saved-report');
   await author.waitForSelector('#revision:not([hidden])');
-  await author.waitForFunction(() => document.getElementById('report-frame')!.getAttribute('srcdoc') !== null);
+  await author.waitForSelector('#report-body .report-doc h2');
   expect(await text(author, '#decision-done')).toBe('This revision awaits review; a checking engineer records the decision.');
   expect(await author.$eval('#decision', (d) => (d as HTMLElement).hidden)).toBe(true);
 

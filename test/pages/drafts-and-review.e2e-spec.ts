@@ -3,15 +3,16 @@
  * PostgreSQL, by keyboard only, at 1280 and 390 px: the author saves a draft, finds it again, changes it and submits
  * it through the confirmation that names what changed and asks for a note; an unchanged design is not offered for
  * submission and, written differently, is refused by the service (409) naming the revision it equals; the checking
- * engineer sees the changes since the previous revision with that revision's decision and comments, decides, and
- * reads their own comments on the page; a blocked revision says it cannot be approved and offers only Reject.
+ * engineer sees the changes since the previous revision with that revision's decision and comments, comments on a
+ * result (one of the revision's checks) and on a changed input, each shown beside what it is on, decides, and reads
+ * their own comments on the page; a blocked revision says it cannot be approved and offers only Reject.
  * Every page state: axe-core and no sideways scrolling at its width (test/support/page-checks.ts).
  */
 import type { Page } from 'puppeteer-core';
 import { testBrowser, type TestBrowser } from '../support/browser';
 import { blockedDesign, changedDesign, warningDesign } from '../support/designs';
 import { checkPage as checkPageAt } from '../support/page-checks';
-import { signInByKeyboard, tabTo, typeInto } from '../support/keyboard';
+import { chooseOption, signInByKeyboard, tabTo, typeInto } from '../support/keyboard';
 import { startPagesApp, type PagesApp } from './pages-app';
 
 const WIDTHS = [1280, 390] as const;
@@ -209,7 +210,34 @@ describe.each(WIDTHS)('at %i px', (width) => {
     expect(await page.$eval('#compare-link', (a) => a.getAttribute('href'))).toBe(`/design/calculations/${ids.calculationId}#compare`);
     expect(await page.$$eval('input[name="decision"]:checked', (r) => r.length)).toBe(0);
     await page.waitForSelector('#decision:not([hidden])');
+    await page.waitForSelector('#report-body .report-doc h2');
     await checkPage(page, 'review-changes');
+
+    // a comment on a result, by keyboard: the button beside the check's row chooses it in the labelled list
+    const stored = (await t.call('GET', `/api/v1/revisions/${revision2}`)).body;
+    const result = stored.governing as { id: string; label: string };
+    await enterOn(page, `#results tr[data-result="${result.id}"] button.comment-on`);
+    expect(await focusedId(page)).toBe('comment-text');
+    expect(await page.$eval('#comment-target', (s) => (s as HTMLSelectElement).value)).toBe(`result:${result.id}`);
+    await page.keyboard.type('Governing margin: say what it rests on.');
+    await enterOn(page, '#comment-submit');
+    await page.waitForFunction(() => /^Comment added/.test(document.getElementById('comment-status')!.textContent ?? ''));
+    expect(await text(page, '#comment-status')).toBe(`Comment added on result ${result.label}.`);
+    await page.waitForSelector(`#results tr[data-result="${result.id}"] ul.remarks`);
+    expect(await text(page, `#results tr[data-result="${result.id}"] th`)).toMatch(/Comment on result .+ — Checking engineer \(test\), .* UTC: Governing margin: say what it rests on\./);
+    // a comment on a changed input, chosen in the list by keyboard: shown beside the input in the changes
+    await chooseOption(page, '#comment-target', 'field:nut.length');
+    await typeInto(page, '#comment-text', '70 mm noted.');
+    await enterOn(page, '#comment-submit');
+    await page.waitForFunction(() => /70 mm noted\./.test((document.querySelector('#changes-inputs tr[data-path="nut.length"] th') as HTMLElement).innerText));
+    // a comment without text is refused at its field, before anything is sent
+    await enterOn(page, '#comment-submit');
+    await page.waitForSelector('#comment-problem .problem');
+    expect(await text(page, '#comment-problem')).toMatch(/Comment: write the comment first/);
+    expect(await focusedId(page)).toBe('comment-text');
+    const remarks = (await t.call('GET', `/api/v1/revisions/${revision2}`)).body.remarks;
+    expect(remarks.map((r: { target: unknown }) => r.target)).toEqual([{ result: result.id }, { field: 'nut.length' }]);
+    await checkPage(page, 'review-commented');
 
     // deciding without choosing: the decision is named in words and takes the focus
     await typeInto(page, '#decision-comment', 'Friction test report still missing.');
@@ -225,11 +253,13 @@ describe.each(WIDTHS)('at %i px', (width) => {
     expect(await text(page, '#decision-done')).toMatch(/^Revision 2 rejected at .* UTC, signed by Checking engineer \(test\)/);
     // the reviewer's own comment, readable on the page
     await page.waitForFunction(() => !document.getElementById('remarks-section')!.hidden);
-    expect(await text(page, '#remarks')).toMatch(/^Decision comment — Checking engineer \(test\), .* UTC: Friction test report still missing\.$/);
+    await page.waitForFunction(() => document.querySelectorAll('#remarks li').length === 3);
+    expect(await text(page, '#remarks li:last-child')).toMatch(/^Decision comment — Checking engineer \(test\), .* UTC: Friction test report still missing\.$/);
+    expect(await text(page, '#remarks li:first-child')).toMatch(new RegExp(`^Comment on result ${result.label.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')} — `));
     await checkPage(page, 'review-decided');
   }
 
-  it('a draft saved, changed and submitted; an unchanged submission refused; the reviewer sees the changes since the previous revision and its comments [PUT /api/v1/calculations/:id/draft, POST /api/v1/calculations/:id/revisions, POST /api/v1/revisions/:id/decisions]', async () => {
+  it('a draft saved, changed and submitted; an unchanged submission refused; the reviewer sees the changes since the previous revision and its comments, comments on a result and an input by keyboard [PUT /api/v1/calculations/:id/draft, POST /api/v1/calculations/:id/revisions, POST /api/v1/revisions/:id/decisions]', async () => {
     ids = await rejectedFirstRevision(`DS-${width}`);
     await draftSavedChangedSubmitted();
     await unchangedSubmissionRefused();

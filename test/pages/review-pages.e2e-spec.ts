@@ -115,7 +115,7 @@ it('serves the page shells without data, with a strict Content-Security-Policy a
     const html = await res.text();
     expect({ path, status: res.status, type: res.headers.get('content-type') }).toEqual({ path, status: 200, type: 'text/html; charset=utf-8' });
     const csp = res.headers.get('content-security-policy') ?? '';
-    for (const directive of ["default-src 'self'", "script-src 'self'", "img-src 'self' data:", "frame-src 'self' data: about:", "font-src 'none'", "form-action 'none'"]) {
+    for (const directive of ["default-src 'self'", "script-src 'self'", "img-src 'self' data:", "frame-src 'none'", "font-src 'none'", "form-action 'none'"]) {
       expect(csp).toContain(directive);
     }
     expect(csp).toMatch(/style-src 'self'( 'nonce-[0-9a-f]{32}')?;/);
@@ -127,7 +127,7 @@ it('serves the page shells without data, with a strict Content-Security-Policy a
   }
   const nonces = await Promise.all([1, 2].map(async () => (await fetch(`${t.baseUrl}/review/revisions/${revisionId}`)).headers.get('content-security-policy')));
   expect(nonces[0]).not.toBe(nonces[1]); // a fresh nonce per response
-  for (const name of ['lib-api.js', 'lib-dom.js', 'lib-problem.js', 'lib-format.js', 'lib-session.js', 'review-queue.js', 'review-revision.js', 'review-audit.js']) {
+  for (const name of ['lib-api.js', 'lib-dom.js', 'lib-problem.js', 'lib-format.js', 'lib-session.js', 'review-queue.js', 'review-revision.js', 'review-remarks.js', 'review-audit.js']) {
     const script = await fetch(`${t.baseUrl}/review/assets/${name}`);
     expect(script.headers.get('content-type')).toBe('text/javascript; charset=utf-8');
     expect(await script.text()).not.toMatch(/innerHTML|insertAdjacentHTML|document\.write|localStorage|document\.cookie/);
@@ -179,19 +179,32 @@ it('lets a checking engineer sign in, find the revision in the queue, read its r
   expect(header).toMatch(/Author\s+Design author \(test\)/);
   const record = (await t.call('GET', `/api/v1/revisions/${revisionId}`)).body;
   expect(header).toContain(record.hash);
-  const report = await page.waitForFrame((f) => f.url() === 'about:srcdoc');
-  await report.waitForSelector('h2');
-  expect(await text(report, 'body')).toContain('Column screw');
-  // the report's own styles apply inside the frame: the service put the page's nonce on its <style>, and its column
-  // widths are classes of that style block (no style attribute, which the page's policy would refuse)
-  const styled = await report.evaluate(() => ({
-    h2Border: getComputedStyle(document.querySelector('h2')!).borderBottomStyle,
-    widths: Array.from(document.querySelectorAll('col[class^="w"]')).filter((c) => /%$/.test(getComputedStyle(c).width) || parseFloat(getComputedStyle(c).width) > 0).length,
-    scripts: document.scripts.length,
-  }));
-  expect(styled).toEqual({ h2Border: 'solid', widths: expect.any(Number), scripts: 0 });
+  // the report in the page itself, at the main column's full width, as the service rendered it for this page
+  await page.waitForSelector('#report-body .report-doc h2');
+  expect(await text(page, '#report-body')).toContain('Column screw');
+  // the report's own styles apply inside its box only: the service put the page's nonce on its <style>, its rules are
+  // nested under .report-doc (the page's own headings keep the page's look), its column widths are classes of that
+  // style block (no style attribute, which the page's policy would refuse), its ids are prefixed, and nothing in it runs
+  const styled = await page.evaluate(() => {
+    const box = document.getElementById('report-body')!;
+    const main = document.querySelector('main')!;
+    const reportH2 = box.querySelector('h2')!;
+    const pageH2 = document.getElementById('findings-heading')!;
+    return {
+      nonce: box.querySelector('style')!.nonce === document.querySelector<HTMLMetaElement>('meta[name="leadline-style-nonce"]')!.content,
+      reportH2Size: getComputedStyle(reportH2).fontSize,
+      pageH2Size: getComputedStyle(pageH2).fontSize,
+      widths: Array.from(box.querySelectorAll('col[class^="w"]')).filter((c) => parseFloat(getComputedStyle(c).width) > 0).length,
+      styleAttributes: box.querySelectorAll('[style]').length,
+      scripts: box.querySelectorAll('script').length,
+      unprefixedIds: Array.from(box.querySelectorAll('[id]')).filter((e) => !e.id.startsWith('report-')).map((e) => e.id),
+      fullWidth: Math.abs(box.getBoundingClientRect().width - (main.clientWidth - parseFloat(getComputedStyle(main).paddingLeft) - parseFloat(getComputedStyle(main).paddingRight))) <= 1,
+    };
+  });
+  expect(styled).toEqual({ nonce: true, reportH2Size: expect.any(String), pageH2Size: expect.any(String), widths: expect.any(Number), styleAttributes: 0, scripts: 0, unprefixedIds: [], fullWidth: true });
+  expect(styled.reportH2Size).not.toBe(styled.pageH2Size);
   expect(styled.widths).toBeGreaterThan(10);
-  expect(await page.$eval('#report-frame', (f) => f.getAttribute('sandbox'))).toBe('');
+  expect(await page.$('iframe')).toBeNull();
   const warning = await text(page, `#findings li[data-rule="${WARNING}"]`);
   expect(warning).toMatch(/^Warning/);
   expect(warning).toContain('assumed');

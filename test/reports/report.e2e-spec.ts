@@ -143,3 +143,31 @@ it('prints the signature block of a decision signed with a passkey: its method a
     expect(flat).toContain(part);
   }
 });
+
+it('answers a fragment for a page to embed: the styles nested under the report\'s box with the page\'s nonce, then the body with every id prefixed [GET /api/v1/revisions/:id/report.html?part=embedded]', async () => {
+  const nonce = 'bm9uY2Utb2YtdGhlLXBhZ2U';
+  const res = await t.call('GET', `/api/v1/revisions/${revisionId}/report.html?part=embedded&idPrefix=report-&styleNonce=${nonce}`);
+  expect(res.status).toBe(200);
+  expect(res.headers['content-type']).toBe('text/html; charset=utf-8');
+  const html = res.text;
+  expect(html).not.toMatch(/<!DOCTYPE|<html|<head>|<body|<script|style=/i);
+  expect(html.match(/<style[^>]*>/g)).toEqual([`<style nonce="${nonce}">`]);
+  // every rule sits inside the one .report-doc block, so none reaches the embedding page
+  const css = html.slice(html.indexOf('>', html.indexOf('<style')) + 1, html.indexOf('</style>')).replace(/\/\*[\s\S]*?\*\//g, '').trim();
+  expect(css.startsWith('.report-doc {')).toBe(true);
+  expect(css.endsWith('}')).toBe(true);
+  const depths: number[] = [];
+  for (const c of css) depths.push((depths.at(-1) ?? 0) + (c === '{' ? 1 : c === '}' ? -1 : 0));
+  expect(depths.slice(css.indexOf('{'), -1).every((d) => d > 0)).toBe(true);
+  expect(depths.at(-1)).toBe(0);
+  expect(html).toContain('<div class="report-doc">');
+  const ids = [...html.matchAll(/\sid="([^"]+)"/g)].map((m) => m[1]);
+  expect(ids.length).toBeGreaterThan(5);
+  expect(ids.filter((id) => !id.startsWith('report-'))).toEqual([]);
+  expect(html).toContain('Column screw');
+  // the whole document is still the default, and a bad prefix is refused naming it
+  expect((await t.call('GET', `/api/v1/revisions/${revisionId}/report.html`)).text).toMatch(/^<!DOCTYPE html>/);
+  const bad = await t.call('GET', `/api/v1/revisions/${revisionId}/report.html?part=embedded&idPrefix=1"x`);
+  expect(bad.status).toBe(422);
+  expect(bad.body.errors[0].path).toBe('idPrefix');
+});

@@ -4,6 +4,7 @@
  */
 import { blockedDesign, changedDesign, warningDesign } from '../support/designs';
 import { startTestApp, type TestApp } from '../support/harness';
+import { mathHtml } from '../../apps/api/src/reports/markup';
 
 let t: TestApp;
 let productId: string;
@@ -170,4 +171,53 @@ it('validates comment targets against the revision', async () => {
   expect(inDecision.status).toBe(422);
   expect(inDecision.body.errors[0].path).toBe('comments.0.target.field');
   expect((await t.call('GET', `/api/v1/revisions/${opened.body.revisionId}`)).body.review.state).toBe('submitted');
+});
+
+it('takes a comment on a result (one of the revision\'s checks), refuses an unknown one storing nothing, and prints it in the report by the check\'s label [POST /api/v1/revisions/:id/comments]', async () => {
+  const opened = await t.call('POST', `/api/v1/products/${productId}/calculations`, { title: 'result comments', design: warningDesign });
+  const id = opened.body.revisionId;
+  const before = (await t.call('GET', `/api/v1/revisions/${id}`)).body;
+  const check = before.checks.find((c: { value: number | null }) => c.value !== null);
+  expect(check).toBeDefined();
+  const verifiedBefore = (await t.call('GET', `/api/v1/products/${productId}/verify`)).body;
+
+  const unknown = await t.call('POST', `/api/v1/revisions/${id}/comments`, { text: 'x', target: { result: 'no-such-check' } }, { as: 'reviewer' });
+  expect(unknown.status).toBe(422);
+  expect(unknown.body.errors).toEqual([{ path: 'target.result', message: expect.stringContaining(check.id) }]);
+  const inDecision = await t.call('POST', `/api/v1/revisions/${id}/decisions`, {
+    decision: 'reject', comment: 'see result', comments: [{ text: 'x', target: { result: 'no-such-check' } }],
+  }, { as: 'reviewer' });
+  expect(inDecision.status).toBe(422);
+  expect(inDecision.body.errors[0].path).toBe('comments.0.target.result');
+  // nothing stored: the chain did not move, the revision still awaits review
+  expect((await t.call('GET', `/api/v1/products/${productId}/verify`)).body.links).toBe(verifiedBefore.links);
+
+  const said = await t.call('POST', `/api/v1/revisions/${id}/comments`, { text: 'Margin thin for a platform; say why it is enough.', target: { result: check.id } }, { as: 'reviewer' });
+  expect(said.status).toBe(201);
+  const after = (await t.call('GET', `/api/v1/revisions/${id}`)).body;
+  expect(after.remarks).toEqual([expect.objectContaining({ kind: 'comment', text: 'Margin thin for a platform; say why it is enough.', target: { result: check.id } })]);
+  expect(after.review.state).toBe('submitted');
+  // the audit trail names what the comment is on, and the author's own work carries the target as stored
+  const csv = (await t.call('GET', `/api/v1/products/${productId}/audit?format=csv`, undefined, { as: 'reviewer' })).text;
+  expect(csv).toContain(`comment on revision 1 (result ${check.id}): Margin thin for a platform; say why it is enough.`);
+  const mine = (await t.call('GET', '/api/v1/me/revisions?limit=100')).body.items.find((r: { revisionId: string }) => r.revisionId === id);
+  expect(mine.comments).toEqual([expect.objectContaining({ text: 'Margin thin for a platform; say why it is enough.', target: { result: check.id } })]);
+
+  // a rejection carrying a result comment
+  const rejected = await t.call('POST', `/api/v1/revisions/${id}/decisions`, {
+    decision: 'reject', comment: 'Raise the margin.', comments: [{ text: 'Governing: lengthen the nut.', target: { result: check.id } }],
+  }, { as: 'reviewer' });
+  expect(rejected.status).toBe(201);
+  expect((await t.call('GET', `/api/v1/revisions/${id}`)).body.remarks.filter((r: { target: unknown }) => r.target !== null)).toHaveLength(2);
+  expect((await t.call('GET', `/api/v1/products/${productId}/verify`)).body.valid).toBe(true);
+
+  // the report names the result by the check's label, with its value and limit as its check table prints them
+  const report = await t.call('GET', `/api/v1/revisions/${id}/report.html`, undefined, { as: 'reviewer' });
+  expect(report.status).toBe(200);
+  const html = report.text.slice(report.text.indexOf('class="events"'));
+  expect(html).toContain(`On the result “${mathHtml(check.label)}” (`);
+  const record = html.replace(/<[^>]+>/g, '').replace(/\s+/g, ' ');
+  expect(record).toMatch(/” \([^()]+ against [≥≤] [^()]+\): Margin thin for a platform; say why it is enough\./);
+  expect(record).toContain('Governing: lengthen the nut.');
+  expect(record).not.toMatch(/target: result/);
 });

@@ -180,15 +180,15 @@ export const revisionReviewSchema = z.object({
  */
 export const ACKNOWLEDGEMENT_MIN_LENGTH = 20;
 
-/** One thing said on a revision: a comment (general, or on an input field or a finding), a decision's comment, an acknowledgement, a withdrawal's comment. */
+/** One thing said on a revision: a comment (general, or on an input field, a finding or a result), a decision's comment, an acknowledgement, a withdrawal's comment. */
 export const remarkSchema = z.object({
   kind: z.enum(['comment', 'decision', 'acknowledgement', 'withdrawal']),
   by: actorSchema.nullable(),
   at: z.string(),
   text: z.string(),
   // one object with either key (OpenAPI 3.0 allows `nullable` only beside a `type`, so not a nullable union)
-  target: z.object({ field: z.string().optional(), finding: z.string().optional() }).nullable()
-    .describe('what the remark is on: a design field (`field`) or a finding (`finding`, its rule id); null for the revision as a whole'),
+  target: z.object({ field: z.string().optional(), finding: z.string().optional(), result: z.string().optional() }).nullable()
+    .describe('what the remark is on: a design field (`field`), a finding (`finding`, its rule id) or a result (`result`, the id of one of the revision\'s `checks`); null for the revision as a whole'),
 });
 
 /** A revision as the revision routes answer it: the record and its review state. */

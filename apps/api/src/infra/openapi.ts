@@ -20,6 +20,7 @@ import { activateSchema, signInSchema } from '../identities/accounts.service';
 import { passkeySignInSchema, registerPasskeySchema } from '../identities/passkeys.service';
 import { createProductSchema, productListSchema } from '../products/products.service';
 import { commentSchema, decisionSchema, withdrawSchema } from '../reviews/reviews.service';
+import { htmlQuerySchema } from '../reports/reports.controller';
 import { impactSchema } from '../rules/impact.service';
 import { recheckResponseSchema, recheckSchema } from '../rules/recheck.service';
 import { adoptSchema } from '../rules/rule-sets.service';
@@ -100,12 +101,12 @@ export const ROUTES: Route[] = [
   { method: 'get', path: '/api/v1/friction-sources', summary: 'Friction coefficient ranges with their sources', tag: 'library' },
   { method: 'get', path: '/api/v1/materials', summary: 'Screw and nut materials', tag: 'library' },
   { method: 'post', path: '/api/v1/revisions/{id}/decisions', summary: "Approve or reject: an electronic signature with the decider's own credential (signature), by a reviewer who is not the author, with their own session or self-issued token; warnings acknowledged; no blocking findings", tag: 'reviews', request: decisionSchema, status: 201 },
-  { method: 'post', path: '/api/v1/revisions/{id}/comments', summary: 'Comment, general or on an input field or a finding', tag: 'reviews', request: commentSchema, status: 201 },
+  { method: 'post', path: '/api/v1/revisions/{id}/comments', summary: 'Comment, general or on an input field (target.field), a finding (target.finding) or a result (target.result: one of the revision\'s checks)', tag: 'reviews', request: commentSchema, status: 201 },
   { method: 'post', path: '/api/v1/revisions/{id}/withdraw', summary: 'Withdraw by the author before a decision', tag: 'reviews', request: withdrawSchema.unwrap() },
   { method: 'get', path: '/api/v1/reviews/queue', summary: 'Revisions awaiting review, oldest first (productId, calculationId, verdict, authorId)', tag: 'reviews' },
   { method: 'get', path: '/api/v1/products/{id}/audit', summary: 'Audit trail (after, limit; format=csv|json downloads the whole trail, streamed)', tag: 'reviews', query: auditQuerySchema, produces: ['application/json', 'text/csv'] },
   { method: 'get', path: '/api/v1/revisions/{id}/diff', summary: 'What changed against ?against=<revision id>', tag: 'reviews' },
-  { method: 'get', path: '/api/v1/revisions/{id}/report.html', summary: 'Calculation report, HTML', tag: 'reports', produces: ['text/html'] },
+  { method: 'get', path: '/api/v1/revisions/{id}/report.html', summary: 'Calculation report, HTML: a whole document, or (part=embedded) a fragment a page puts inside itself (styles nested under .report-doc with the page\'s styleNonce, ids prefixed with idPrefix)', tag: 'reports', query: htmlQuerySchema, produces: ['text/html'] },
   { method: 'get', path: '/api/v1/revisions/{id}/report.pdf', summary: 'Calculation report, PDF (?paper=A4|Letter)', tag: 'reports', produces: ['application/pdf'] },
   { method: 'get', path: '/api/v1/rule-sets', summary: 'Rule-set versions, the current one, the rules and adoptions', tag: 'rules' },
   { method: 'post', path: '/api/v1/rule-sets', summary: 'Create a new rule-set version (never edits one)', tag: 'rules', request: ruleSetDefinitionSchema, status: 201 },

@@ -37,7 +37,7 @@ describe('PageRenderer', () => {
 describe('contentSecurityPolicy', () => {
   it('allows nothing from outside, no inline code, no fonts, no form submission', () => {
     expect(contentSecurityPolicy()).toBe(
-      "default-src 'self'; script-src 'self'; style-src 'self'; img-src 'self' data:; font-src 'none'; frame-src 'self' data: about:; " +
+      "default-src 'self'; script-src 'self'; style-src 'self'; img-src 'self' data:; font-src 'none'; frame-src 'none'; " +
         "object-src 'none'; base-uri 'none'; form-action 'none'; frame-ancestors 'none'",
     );
     expect(contentSecurityPolicy('00ff')).toContain("style-src 'self' 'nonce-00ff';");

@@ -59,8 +59,8 @@ const CONTENT_TYPES: Record<string, string> = { '.js': 'text/javascript; charset
 /**
  * The pages' Content-Security-Policy: nothing from outside, no inline script or style, no plugins, no form
  * submission (forms are handled by the script, so a token can never be submitted into a URL).
- * The revision page adds a per-response nonce to style-src: its report frame (srcdoc) inherits this policy,
- * and the script marks the report's own styles with the nonce so that they apply inside the frame.
+ * The revision page adds a per-response nonce to style-src: the report it shows in the page itself is rendered by
+ * the service with that nonce on its style blocks (report.html?part=embedded). No page shows a frame.
  */
 export function contentSecurityPolicy(styleNonce?: string): string {
   return [
@@ -69,7 +69,7 @@ export function contentSecurityPolicy(styleNonce?: string): string {
     `style-src 'self'${styleNonce ? ` 'nonce-${styleNonce}'` : ''}`,
     "img-src 'self' data:",
     "font-src 'none'",
-    "frame-src 'self' data: about:",
+    "frame-src 'none'",
     "object-src 'none'",
     "base-uri 'none'",
     "form-action 'none'",

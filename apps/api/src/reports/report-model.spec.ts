@@ -109,8 +109,9 @@ describe('buildReportView', () => {
     expect(view.input.friction[0]).toMatchObject({ range: '0.10 to 0.16', sourceKind: 'handbook' });
   });
 
-  it('prints what was said in a decision readably: each comment with the input or finding it is on, each acknowledgement', () => {
+  it('prints what was said in a decision readably: each comment with the input, finding or result it is on, each acknowledgement', () => {
     const approved = input.events.find((ev) => ev.type === 'approved')!;
+    const result = input.checks.find((c) => c.value !== null)!;
     const said = {
       ...input,
       events: input.events.map((ev) => ev !== approved ? ev : {
@@ -118,7 +119,10 @@ describe('buildReportView', () => {
         data: {
           ...ev.data,
           comment: 'Approved for the north lift only.',
-          comments: [{ text: 'Check the nut length against the supplier drawing.', target: { field: 'nut.length' } }],
+          comments: [
+            { text: 'Check the nut length against the supplier drawing.', target: { field: 'nut.length' } },
+            { text: 'Margin enough for the duty.', target: { result: result.id } },
+          ],
           acknowledgements: [{ finding: 'nut-bearing-pressure', comment: 'Pressure accepted: the nut is replaced at every annual inspection.' }],
         },
       }),
@@ -128,7 +132,10 @@ describe('buildReportView', () => {
     expect(record).toContain('Decision comment: Approved for the north lift only.');
     expect(record).toContain('On the input “Nut length”: Check the nut length against the supplier drawing.');
     expect(record).toContain('Acknowledging the finding nut-bearing-pressure: Pressure accepted: the nut is replaced at every annual inspection.');
-    expect(record).not.toMatch(/comments: text:|target: field:/);
+    // a result by the check's label with its value and limit as the check table (section 5) prints them
+    const row = buildReportView(said).safetyFactors.find((f) => f.key === result.id)!;
+    expect(html).toContain(`On the result “${mathHtml(result.label)}” (${row.valueText} against ${row.limitText}):</span> Margin enough for the duty.`);
+    expect(record).not.toMatch(/comments: text:|target: field:|target: result:/);
   });
 
   it('answers a US-customary design in US units, and leaves out buckling in tension', () => {

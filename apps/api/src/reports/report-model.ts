@@ -98,7 +98,7 @@ export function buildReportView(input: ReportInput): ReportView {
     safetyFactors: factors,
     checks: buildChecks(findings, system),
     findingGroups: buildFindingGroups(findings, input.events, system),
-    events: buildEvents(input.events),
+    events: buildEvents(input.events, factors),
     signatures: buildSignatures(input.events),
     historyOmitted: input.omittedHistory
       ? `Listed: the revisions around this one. Not listed: ${input.omittedHistory.before} earlier and ${input.omittedHistory.after} later ` +

@@ -33,6 +33,8 @@ export interface EmbedOptions {
   readonly styleNonce?: string | null;
   /** Only the body (for a document that brings its own head and styles) */
   readonly bodyOnly?: boolean;
+  /** The body with its own styles nested under its box (`.report-doc`), to embed in a page without styling the page */
+  readonly embedded?: boolean;
 }
 
 type ReportContext = { view: ReportView; charts: ReportCharts; idPrefix: string; styleNonce: string | null };
@@ -44,6 +46,7 @@ export class ReportRenderer {
     this.templates = Templates.of(options.templatesDir);
     this.templates.template('reports/calculation-report');
     this.templates.template('report-body');
+    this.templates.template('reports/calculation-report-embedded');
   }
 
   /** HTML of a prepared view with its charts: the whole document, or its body only. */
@@ -51,7 +54,8 @@ export class ReportRenderer {
     const idPrefix = options.idPrefix ?? '';
     if (!/^[A-Za-z0-9-]*$/.test(idPrefix)) throw new Error(`id prefix "${idPrefix}" may hold letters, digits and hyphens only`);
     const context: ReportContext = { view, charts, idPrefix, styleNonce: options.styleNonce ?? null };
-    return this.templates.template<ReportContext>(options.bodyOnly ? 'report-body' : 'reports/calculation-report')(context);
+    const name = options.embedded ? 'reports/calculation-report-embedded' : options.bodyOnly ? 'report-body' : 'reports/calculation-report';
+    return this.templates.template<ReportContext>(name)(context);
   }
 
   /** Builds the view and charts of one revision and renders the HTML. */

@@ -174,8 +174,11 @@ export interface EventView {
   readonly actor: string;
   readonly at: string;
   readonly text: string | null;
-  /** What was said in the event, each with the input field (its label) or the finding it is on */
-  readonly remarks: readonly { readonly kind: string; readonly text: string; readonly onField: string | null; readonly onFinding: string | null }[];
+  /** What was said in the event, each with the input field (its label), the finding or the result (a check) it is on */
+  readonly remarks: readonly {
+    readonly kind: string; readonly text: string; readonly onField: string | null; readonly onFinding: string | null;
+    readonly onResult: { readonly id: string; readonly label: string; readonly valueText: string | null; readonly limitText: string | null } | null;
+  }[];
   /** The event is a signed decision (its signature block is printed with the signatures) */
   readonly signed: boolean;
   readonly details: readonly string[];

@@ -14,13 +14,21 @@ import { ReportRenderer, reportPdfLabels } from './report-renderer';
 
 const pdfQuerySchema = z.object({ paper: z.enum(['A4', 'Letter']).default('A4') });
 
-/** A page that embeds the report (the review page's frame) names its style nonce; the report's style blocks carry it. */
+/**
+ * A page that embeds the report (the review page) names its style nonce; the report's style blocks carry it. With
+ * part=embedded the answer is a fragment for the page itself: the styles nested under the report's own box and the
+ * body, every id prefixed with idPrefix.
+ */
 export const htmlQuerySchema = z.object({
   styleNonce: z
     .string()
     .regex(/^[A-Za-z0-9+/_-]{16,64}={0,2}$/, 'a style nonce is 16 to 64 base64 characters')
     .optional()
     .describe("the embedding page's Content-Security-Policy style nonce, put on the report's <style> blocks"),
+  part: z.enum(['document', 'embedded']).default('document')
+    .describe('document: a whole HTML document (default); embedded: a fragment to put inside a page (styles nested under .report-doc, then the body)'),
+  idPrefix: z.string().regex(/^[A-Za-z][A-Za-z0-9-]{0,31}$/, 'an id prefix is a letter, then up to 31 letters, digits or hyphens').optional()
+    .describe('prefixed to every id of the report (embedded: so its ids never clash with the page\'s)'),
 });
 
 /** The calculation report of a revision, as HTML and as PDF (Chromium, one browser reused). */
@@ -35,8 +43,8 @@ export class ReportsController {
 
   @Get(':id/report.html')
   async html(@Param('id') id: string, @Query() query: unknown, @Res({ passthrough: true }) reply: FastifyReply) {
-    const { styleNonce } = validate(htmlQuerySchema, query);
-    const { html } = await this.renderer.render(await this.inputs.forRevision(id), { styleNonce: styleNonce ?? null });
+    const { styleNonce, part, idPrefix } = validate(htmlQuerySchema, query);
+    const { html } = await this.renderer.render(await this.inputs.forRevision(id), { styleNonce: styleNonce ?? null, idPrefix, embedded: part === 'embedded' });
     // A static document: sandboxed (no script, opaque origin), nothing loaded from anywhere, never sniffed
     reply.header('content-type', 'text/html; charset=utf-8').header('content-security-policy', REPORT_CSP).header('x-content-type-options', 'nosniff');
     return html;

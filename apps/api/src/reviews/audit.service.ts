@@ -59,7 +59,7 @@ function describe(type: string, data: Record<string, any>, revision: number | nu
     case 'revision-submitted':
       return `revision ${data.revision} submitted for review (${data.verdict})`;
     case 'comment':
-      return `comment on revision ${data.revision}${data.target ? ` (${data.target.field ?? data.target.finding})` : ''}: ${data.text}`;
+      return `comment on revision ${data.revision}${data.target ? ` (${data.target.field ?? data.target.finding ?? `result ${data.target.result}`})` : ''}: ${data.text}`;
     case 'approved':
       return `revision ${data.revision} approved${data.acknowledgements?.length ? ` acknowledging ${data.acknowledgements.map((a: { finding: string }) => a.finding).join(', ')}` : ''}${data.comment ? `: ${data.comment}` : ''}`;
     case 'rejected':

@@ -1,5 +1,6 @@
 /**
- * What was said on a revision, read from its events: a comment (on the revision, an input field or a finding), a
+ * What was said on a revision, read from its events: a comment (on the revision, an input field, a finding or a
+ * result: one of the revision's numeric checks, by its id), a
  * decision's or withdrawal's comment, and each acknowledgement of a warning. One reading for the revision routes
  * (`remarks`), the review page and the report's review record.
  */
@@ -11,15 +12,16 @@ export interface Remark {
   by: Actor | null;
   at: string;
   text: string;
-  target: { field: string } | { finding: string } | null;
+  target: { field: string } | { finding: string } | { result: string } | null;
 }
 
-/** A stored target as the remark's target: an input field or a finding, else null (an unknown shape is not guessed). */
+/** A stored target as the remark's target: an input field, a finding or a result, else null (an unknown shape is not guessed). */
 export function remarkTarget(t: unknown): Remark['target'] {
   if (t === null || typeof t !== 'object') return null;
   const o = t as Record<string, unknown>;
   if (typeof o.field === 'string') return { field: o.field };
   if (typeof o.finding === 'string') return { finding: o.finding };
+  if (typeof o.result === 'string') return { result: o.result };
   return null;
 }
 

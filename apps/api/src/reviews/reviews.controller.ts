@@ -42,7 +42,7 @@ export class ReviewsController {
     return this.reviews.passkeyChallenge(id, req.principal, req.hostname);
   }
 
-  /** A comment without a decision, general or on an input field or a finding. */
+  /** A comment without a decision, general or on an input field, a finding or a result (one of the revision's checks). */
   @Post('revisions/:id/comments')
   @Roles('author', 'reviewer')
   @HttpCode(201)

@@ -23,10 +23,12 @@ import { PASSWORD_MAX } from '../identities/passwords';
 import { authenticationResponseSchema, PasskeysService } from '../identities/passkeys.service';
 import type { StoredAssertion } from '../records/passkey-signature';
 import { remarksOfEvent, type Remark } from './remarks';
+import { CalculationsService } from '../calculations/calculations.service';
 
 export const targetSchema = z.union([
   z.strictObject({ field: z.string().min(1).max(200).describe('input field path, e.g. "thread.pitch"') }),
   z.strictObject({ finding: z.string().min(1).max(100).describe('rule id of one of the revision\'s findings') }),
+  z.strictObject({ result: z.string().min(1).max(100).describe('id of one of the revision\'s numeric checks (its `checks`, e.g. "screw-strength")') }),
 ]);
 
 export const commentSchema = z.strictObject({ text: z.string().trim().min(1, 'a comment needs text').max(8000), target: targetSchema.optional() });
@@ -50,7 +52,7 @@ export const decisionSchema = z.strictObject({
   signature: signatureSchema.optional().describe('required: the decider signs with something only they hold'),
   comment: z.string().max(8000).optional(),
   acknowledgements: z.array(z.strictObject({ finding: z.string().min(1).max(100), comment: z.string().trim().min(1, 'an acknowledgement needs a comment').min(ACKNOWLEDGEMENT_MIN_LENGTH, `give the reason for accepting this warning in at least ${ACKNOWLEDGEMENT_MIN_LENGTH} characters`).max(4000) })).max(100).optional(),
-  comments: z.array(commentSchema).max(100).optional().describe('comments attached to input fields or findings'),
+  comments: z.array(commentSchema).max(100).optional().describe('comments attached to input fields, findings or results'),
 });
 
 export type { Remark } from './remarks';
@@ -113,6 +115,7 @@ export class ReviewsService {
     private readonly accounts: AccountsService,
     private readonly reauthentications: ReauthenticationsService,
     private readonly passkeys: PasskeysService,
+    private readonly calculations: CalculationsService,
   ) {}
 
   /**
@@ -195,6 +198,7 @@ export class ReviewsService {
     }
     const input = validate(decisionSchema, body);
     const head = await this.state(revisionId);
+    const results = await this.resultIds(head.id, input.comments ?? []);
     const assertion = await this.checkSignature(input.signature, signer, head);
     return this.db.transaction(async (q) => {
       const cursor = (await this.records.lockHead(q, head.productId))!;
@@ -212,7 +216,7 @@ export class ReviewsService {
         throw new ProblemError(409, 'Revision is not awaiting review', `revision ${rev.revision} is ${rev.state}`, { state: rev.state });
       }
       const comments = input.comments ?? [];
-      this.checkTargets(rev, comments.map((c, i) => ({ comment: c, path: `comments.${i}.target` })));
+      this.checkTargets(rev, comments.map((c, i) => ({ comment: c, path: `comments.${i}.target` })), results);
       const acknowledgements = input.acknowledgements ?? [];
       if (input.decision === 'approve') {
         const blocking = rev.findings.filter((f) => f.severity === 'blocking');
@@ -300,7 +304,7 @@ export class ReviewsService {
   async comment(revisionId: string, body: unknown, actor: Actor) {
     const input = validate(commentSchema, body);
     const head = await this.state(revisionId);
-    this.checkTargets(head, [{ comment: input, path: 'target' }]);
+    this.checkTargets(head, [{ comment: input, path: 'target' }], await this.resultIds(head.id, [input]));
     return this.db.transaction(async (q) => {
       const cursor = (await this.records.lockHead(q, head.productId))!;
       await checkCommentRate(q, { perRevisionPerMinute: this.config.LEADLINE_COMMENTS_PER_REVISION_PER_MINUTE, perUserPerMinute: this.config.LEADLINE_COMMENTS_PER_USER_PER_MINUTE }, head.id, actor.id);
@@ -329,8 +333,19 @@ export class ReviewsService {
     });
   }
 
-  /** Comment targets must name a field of the submitted input or one of the revision's findings. */
-  private checkTargets(rev: RevisionState, comments: readonly { comment: z.infer<typeof commentSchema>; path: string }[]): void {
+  /**
+   * The ids of the revision's numeric checks (the `checks` its routes answer, derived from the rules' declarations
+   * under the rule set it was judged by), read only when a comment is on a result. Read before any transaction: the
+   * stored revision never changes, and the embedded database serves one statement at a time.
+   */
+  private async resultIds(revisionId: string, comments: readonly z.infer<typeof commentSchema>[]): Promise<ReadonlySet<string>> {
+    if (!comments.some((c) => c.target !== undefined && 'result' in c.target)) return new Set();
+    const { checks } = await this.calculations.checksOf(await this.calculations.revision(revisionId));
+    return new Set(checks.map((c) => c.id));
+  }
+
+  /** Comment targets must name a field of the submitted input, one of the revision's findings or one of its checks. */
+  private checkTargets(rev: RevisionState, comments: readonly { comment: z.infer<typeof commentSchema>; path: string }[], results: ReadonlySet<string>): void {
     const issues: { path: string; message: string }[] = [];
     for (const { comment, path } of comments) {
       const t = comment.target;
@@ -341,6 +356,10 @@ export class ReviewsService {
           node = node !== null && typeof node === 'object' ? (node as Record<string, unknown>)[part] : undefined;
         }
         if (node === undefined) issues.push({ path: `${path}.field`, message: `"${t.field}" is not a field of revision ${rev.revision}'s input` });
+      } else if ('result' in t) {
+        if (!results.has(t.result)) {
+          issues.push({ path: `${path}.result`, message: `"${t.result}" is not a result of revision ${rev.revision}: name one of its checks (${[...results].join(', ') || 'none'})` });
+        }
       } else if (!rev.findings.some((f) => f.ruleId === t.finding)) {
         issues.push({ path: `${path}.finding`, message: `"${t.finding}" is not a finding of revision ${rev.revision}` });
       }

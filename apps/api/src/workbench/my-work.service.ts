@@ -21,7 +21,7 @@ export interface ReviewerComment {
   at: string;
   kind: 'decision' | 'comment';
   text: string;
-  target: { field?: string; finding?: string } | null;
+  target: { field?: string; finding?: string; result?: string } | null;
 }
 
 export interface MyRevision {

@@ -1,7 +1,8 @@
 /*
  * One revision under review (/review/revisions/:id): header, the changes since the previous revision (inputs and
- * results, that revision's decision and comments), what was said on this one, report frame, findings with the
- * comments on each, and the decision form (no preset decision; a blocked revision offers only Reject).
+ * results, that revision's decision and comments), what was said on this one, the calculation report in the page,
+ * findings and results (the revision's checks) with the comments on each and the comment form (review-remarks.js),
+ * and the decision form (no preset decision; a blocked revision offers only Reject).
  */
 import { api, ApiError, download } from './lib-api.js';
 import { $, el, pathId } from './lib-dom.js';
@@ -10,12 +11,22 @@ import { renderFindings, sortedFindings } from './lib-findings.js';
 import { passkeysAvailable, usePasskey } from './lib-passkey.js';
 import { clearFieldErrors, clearProblem, showFieldErrors, showProblem } from './lib-problem.js';
 import { currentUser, startPage } from './lib-session.js';
+import { remarkItem, rememberFieldLabels, rememberPreviousRemarks, renderInputRemarks, renderRemarks, setUpComment } from './review-remarks.js';
 
 /**
- * The report goes into a sandboxed frame (no scripts, opaque origin) through srcdoc, which inherits this page's
- * policy. The service renders it for this page: its style blocks carry this response's style nonce and it has no
- * style attributes, so it is shown exactly as served.
+ * The report is shown in the page itself, as the service renders it for embedding (report.html?part=embedded): its
+ * styles nested under its own box and carrying this response's style nonce, its ids prefixed, no style attributes
+ * and no script. It is parsed by DOMParser (an inert document: nothing in it runs) and moved in as it was served;
+ * the page's policy (script-src 'self', style-src 'self' plus the nonce) holds for it as for the page.
  */
+async function showReport(base) {
+  const html = await api(base + '/report.html?part=embedded&idPrefix=report-&styleNonce=' + encodeURIComponent(styleNonce()), { as: 'text', accept: 'text/html' });
+  const parsed = new DOMParser().parseFromString(html, 'text/html');
+  $('report-body').replaceChildren(...Array.from(parsed.head.childNodes), ...Array.from(parsed.body.childNodes));
+  $('report-status').textContent = '';
+  $('report-status').hidden = true;
+}
+
 function styleNonce() {
   const meta = document.querySelector('meta[name="leadline-style-nonce"]');
   return meta ? meta.content : '';
@@ -209,40 +220,6 @@ function setUpDecision(rev, reload) {
   });
 }
 
-/** What a remark is about, in words. */
-function remarkTarget(target) {
-  if (!target) return '';
-  return 'field' in target ? ' on ' + designLabel(target.field) : ' on finding ' + target.finding;
-}
-
-const REMARK_KINDS = { comment: 'Comment', decision: 'Decision comment', acknowledgement: 'Acknowledgement', withdrawal: 'Withdrawal' };
-
-/** One remark as a list item: who, what kind, on what, when, and the text. */
-function remarkItem(r) {
-  return el('li', { class: 'remark remark-' + r.kind },
-    el('strong', {}, REMARK_KINDS[r.kind] || r.kind), remarkTarget(r.target), ' — ', r.by ? r.by.name : 'unknown', ', ', time(r.at), ' UTC: ',
-    el('span', { class: 'remark-text' }, r.text));
-}
-
-/** Input field paths in words, from the comparison (GET /revisions/:id/diff names each changed input). */
-const fieldLabels = {};
-function designLabel(path) {
-  return fieldLabels[path.replace(/^design\./, '')] || path;
-}
-
-/** What was said on this revision, and each finding's comments beside it. */
-function renderRemarks(rev) {
-  const remarks = rev.remarks || [];
-  $('remarks').replaceChildren(...remarks.map(remarkItem));
-  $('remarks-section').hidden = remarks.length === 0;
-  document.querySelectorAll('#findings li[data-rule]').forEach(function (li) {
-    const on = remarks.filter(function (r) { return r.target && r.target.finding === li.dataset.rule; });
-    const old = li.querySelector('.finding-remarks');
-    if (old) old.remove();
-    if (on.length) li.append(el('ul', { class: 'finding-remarks remarks', 'aria-label': 'Comments on ' + li.dataset.rule }, ...on.map(remarkItem)));
-  });
-}
-
 /** Whether the signer chose their passkey. */
 function passkeySigner() {
   return !$('signature-passkey-field').hidden && $('signature-passkey').checked;
@@ -285,7 +262,7 @@ async function renderChanges(rev) {
     api('/api/v1/revisions/' + encodeURIComponent(previous.id)),
   ]);
   const n = previous.revision;
-  diff.inputs.forEach(function (c) { fieldLabels[c.path] = c.label; });
+  rememberFieldLabels(diff.inputs);
   $('changes-heading').textContent = 'Changes since revision ' + n;
   const state = before.review;
   $('previous-review').replaceChildren(
@@ -294,6 +271,7 @@ async function renderChanges(rev) {
     before.note ? '. Its note: ' + before.note : '', '.',
   );
   const remarks = before.remarks || [];
+  rememberPreviousRemarks(remarks);
   $('previous-remarks').replaceChildren(...(remarks.length ? remarks.map(remarkItem) : [el('li', { class: 'muted' }, 'Nothing was said on revision ' + n + '.')]));
   $('previous-remarks').setAttribute('aria-label', 'What was said on revision ' + n);
   $('changes-governing').replaceChildren(
@@ -307,16 +285,13 @@ async function renderChanges(rev) {
     $('changes-' + part + '-before').textContent = 'Revision ' + n;
     $('changes-' + part + '-after').textContent = 'Revision ' + rev.revision;
   });
-  const onField = function (path) {
-    return remarks.concat(rev.remarks || []).filter(function (r) { return r.target && r.target.field && r.target.field.replace(/^design\./, '') === path; });
-  };
   const shown = function (v) {
     return v === undefined || v === null || v === '' ? '(not given)' : v === true ? 'yes' : v === false ? 'no' : String(v);
   };
   $('changes-inputs').tBodies[0].replaceChildren(...(diff.inputs.length ? diff.inputs.map(function (c) {
-    const said = onField(c.path);
-    return el('tr', { 'data-path': c.path }, el('th', { scope: 'row' }, c.label, said.length ? el('ul', { class: 'remarks small' }, ...said.map(remarkItem)) : null), el('td', {}, shown(c.from)), el('td', {}, shown(c.to)));
+    return el('tr', { 'data-path': c.path }, el('th', { scope: 'row' }, c.label), el('td', {}, shown(c.from)), el('td', {}, shown(c.to)));
   }) : [el('tr', {}, el('td', { colspan: 3 }, 'No input changed.'))]));
+  renderInputRemarks(rev);
   $('changes-results').tBodies[0].replaceChildren(...(diff.results.length ? diff.results.map(function (c) {
     const value = function (v, missing) {
       return missing ? 'not computed by its engine' : c.quantity ? quantity(v, c.quantity, 'SI') : shown(v);
@@ -370,6 +345,12 @@ async function revisionPage() {
       showProblem(problemSlot, err);
     }
     const me = currentUser();
+    const reloadRemarks = function () {
+      loadHeader().catch(function (err) {
+        showProblem(problemSlot, err);
+      });
+    };
+    if (me && (me.roles.includes('reviewer') || me.roles.includes('author'))) setUpComment(rev, reloadRemarks);
     if (rev.review.state === 'submitted' && me && !me.roles.includes('reviewer')) {
       const done = $('decision-done');
       done.textContent = 'This revision awaits review; a checking engineer records the decision.';
@@ -379,11 +360,7 @@ async function revisionPage() {
       setUpPasskeySignature().catch(function (err) {
         showProblem(problemSlot, err);
       });
-      setUpDecision(rev, function () {
-        loadHeader().catch(function (err) {
-          showProblem(problemSlot, err);
-        });
-      });
+      setUpDecision(rev, reloadRemarks);
       $('decision').hidden = false;
     } else {
       const done = $('decision-done');
@@ -393,8 +370,10 @@ async function revisionPage() {
     $('download-pdf').addEventListener('click', function () {
       download(base + '/report.pdf', loaded.product.code + '-rev' + rev.revision + '.pdf', $('download-status'));
     });
-    const frame = $('report-frame');
-    frame.srcdoc = await api(base + '/report.html?styleNonce=' + encodeURIComponent(styleNonce()), { as: 'text', accept: 'text/html' });
+    await showReport(base).catch(function (err) {
+      $('report-status').textContent = 'The report could not be shown here; the PDF report above has the same content.';
+      throw err;
+    });
   } catch (err) {
     showProblem(problemSlot, err);
   }

@@ -5,7 +5,7 @@ import { designFieldLabel, type Actor, type ProductEvent } from '@leadline/contr
 import { remarksOfEvent, remarkTarget } from '../../reviews/remarks';
 import { EVENTS, formatDate, wordFor } from '@leadline/presentation';
 import { SIGNATURE_METHOD_LABELS, signatureOf, type Signature } from '../../reviews/signature';
-import type { EventView, SignatureView } from '../report-view';
+import type { EventView, SafetyFactorRow, SignatureView } from '../report-view';
 
 // ---------------------------------------------------------------------------------------------------------
 // Events and history
@@ -43,7 +43,12 @@ export function buildSignatures(events: readonly ProductEvent[]): SignatureView[
 /** The event data the review record prints as remarks or in the signature block, not as details. */
 const SHOWN_ELSEWHERE = new Set(['text', 'comment', 'comments', 'acknowledgements', 'target', 'signature']);
 
-export function buildEvents(events: readonly ProductEvent[]): EventView[] {
+/**
+ * The review record's events, each remark with what it is on: an input by its label, a finding by its rule id, a
+ * result by its check's label with its value and limit as the check table prints them (`results`: that table's rows).
+ */
+export function buildEvents(events: readonly ProductEvent[], results: readonly SafetyFactorRow[] = []): EventView[] {
+  const byId = new Map(results.map((r) => [r.key, r]));
   return [...events]
     .sort((a, b) => a.seq - b.seq)
     .map((ev) => {
@@ -58,6 +63,7 @@ export function buildEvents(events: readonly ProductEvent[]): EventView[] {
         text: r.text,
         onField: r.target && 'field' in r.target ? designFieldLabel(r.target.field) : null,
         onFinding: r.target && 'finding' in r.target ? r.target.finding : null,
+        onResult: r.target && 'result' in r.target ? resultOf(r.target.result, byId) : null,
       }));
       return {
         seq: ev.seq,
@@ -71,6 +77,12 @@ export function buildEvents(events: readonly ProductEvent[]): EventView[] {
         details,
       };
     });
+}
+
+/** A result a remark is on, as the check table prints it; an id the table lacks is printed as the id. */
+function resultOf(id: string, byId: ReadonlyMap<string, SafetyFactorRow>): EventView['remarks'][number]['onResult'] {
+  const row = byId.get(id);
+  return row ? { id, label: row.label, valueText: row.valueText, limitText: row.limitText } : { id, label: id, valueText: null, limitText: null };
 }
 
 export const actorName = (a: Actor | null | undefined): string => a?.name ?? '—';
