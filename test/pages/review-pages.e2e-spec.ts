@@ -205,6 +205,11 @@ it('lets a checking engineer sign in, find the revision in the queue, read its r
   expect(styled.reportH2Size).not.toBe(styled.pageH2Size);
   expect(styled.widths).toBeGreaterThan(10);
   expect(await page.$('iframe')).toBeNull();
+  // revision 1 changes nothing against an earlier one: the comment list offers every input as entered, by its label
+  await page.waitForSelector('#comment-target optgroup[label="Inputs"] option[value="field:load.axial"]');
+  expect(await text(page, '#comment-target option[value="field:load.axial"]')).toBe(
+    `Input: Axial load (${record.input.load.axial})`,
+  );
   const warning = await text(page, `#findings li[data-rule="${WARNING}"]`);
   expect(warning).toMatch(/^Warning/);
   expect(warning).toContain('assumed');

@@ -221,3 +221,19 @@ it('takes a comment on a result (one of the revision\'s checks), refuses an unkn
   expect(record).toContain('Governing: lengthen the nut.');
   expect(record).not.toMatch(/target: result/);
 });
+
+it('lists every input of a revision as entered, each with its label, and takes a comment on any of them [GET /api/v1/revisions/:id]', async () => {
+  const opened = await t.call('POST', `/api/v1/products/${productId}/calculations`, { title: 'input comments', design: warningDesign });
+  const record = (await t.call('GET', `/api/v1/revisions/${opened.body.revisionId}`)).body;
+  const fields = record.inputFields as { path: string; label: string; value: string }[];
+  // the input as submitted, field by field: the path a comment's target names, the label, the text as typed
+  expect(fields).toContainEqual({ path: 'load.axial', label: 'Axial load', value: warningDesign.load.axial });
+  expect(fields).toContainEqual({ path: 'friction.thread.min', label: 'Thread friction — lowest friction coefficient of the range', value: String(warningDesign.friction.thread.min) });
+  expect(fields.map((f) => f.path)).toEqual(expect.arrayContaining(['thread.size', 'nut.length', 'screw.material', 'duty.kind']));
+  expect(fields.every((f) => !f.label.includes('›'))).toBe(true); // every field has a label of its own
+  // each of them may carry a comment (revision 1: nothing changed against an earlier one)
+  for (const f of [fields[0], fields[fields.length - 1]]) {
+    const said = await t.call('POST', `/api/v1/revisions/${opened.body.revisionId}/comments`, { text: `On ${f.label}.`, target: { field: f.path } }, { as: 'reviewer' });
+    expect(said.status).toBe(201);
+  }
+});

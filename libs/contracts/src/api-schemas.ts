@@ -201,6 +201,12 @@ export const revisionWithChecksSchema = revisionWithReviewSchema.extend({
   governing: governingSchema,
 });
 
+/** GET /api/v1/revisions/:id: one revision with its checks and remarks, and every field of its input in words. */
+export const revisionDetailSchema = revisionWithChecksSchema.extend({
+  inputFields: z.array(z.object({ path: z.string(), label: z.string(), value: z.string() }))
+    .describe('every field of the input as entered, with its label: what a comment\'s target `field` may name'),
+});
+
 export const chainVerificationSchema = z.object({
   productId: z.string().uuid(), valid: z.boolean(), links: z.number().int(), headHash: z.string().nullable(),
   firstBrokenLink: z.object({ seq: z.number(), kind: z.enum(['revision', 'event', 'product', 'calculation', 'closure']), id: z.string(), reason: z.string() }).nullable(),

@@ -1,4 +1,7 @@
-import { designFieldDimension, designFieldLabel } from './design-input';
+import fc from 'fast-check';
+import { designInputArbitrary } from '../../rules/src/testing/arbitrary';
+import { checkProperty } from '../../../test/support/property';
+import { designFieldDimension, designFieldLabel, designInputFields } from './design-input';
 
 describe('designFieldLabel', () => {
   it('names a field by the contract\'s description of it', () => {
@@ -31,5 +34,30 @@ describe('designFieldDimension', () => {
     expect(designFieldDimension('friction.thread.min')).toBeNull();
     expect(designFieldDimension('duty.kind')).toBeNull();
     expect(designFieldDimension('not.a.field')).toBeNull();
+  });
+});
+
+describe('designInputFields', () => {
+  it('lists each field as entered with its path and label, list elements numbered by their index', () => {
+    const fields = designInputFields({
+      thread: { form: 'trapezoidal', size: 'Tr 40x7' },
+      load: { axial: '25 kN', sense: 'compression' },
+      nut: { length: '60 mm', allowablePressureBySpeed: [{ upToRubbingSpeed: '0.05 m/s', allowablePressure: '17 MPa' }] },
+      duty: { kind: 'lifting', brake: false },
+    });
+    expect(fields).toContainEqual({ path: 'load.axial', label: 'Axial load', value: '25 kN' });
+    expect(fields).toContainEqual({ path: 'duty.brake', label: 'Brake fitted', value: 'false' });
+    expect(fields).toContainEqual({ path: 'nut.allowablePressureBySpeed.0.allowablePressure', label: 'Allowable mean bearing pressure up to that rubbing speed (step 1)', value: '17 MPa' });
+    expect(fields.map((f) => f.path)).toEqual(['thread.form', 'thread.size', 'load.axial', 'load.sense', 'nut.length',
+      'nut.allowablePressureBySpeed.0.upToRubbingSpeed', 'nut.allowablePressureBySpeed.0.allowablePressure', 'duty.kind', 'duty.brake']);
+  });
+
+  it('gives every field of generated designs a label of its own (a description in the contract), never the path in words', () => {
+    checkProperty(
+      fc.property(designInputArbitrary, (input) => {
+        for (const f of designInputFields(input)) expect({ path: f.path, label: f.label }).toEqual({ path: f.path, label: expect.not.stringContaining('›') });
+      }),
+      { numRuns: 200 },
+    );
   });
 });

@@ -56,32 +56,32 @@ export const frictionRangeSchema = z.union([
 const collarAllowable = () => quantity('stress', 'allowable mean bearing pressure of the collar pair (from the handbook or supplier)').optional();
 
 export const collarSchema = z.discriminatedUnion('kind', [
-  z.strictObject({ kind: z.literal('plain'), meanDiameter: length('collar mean diameter'), allowablePressure: collarAllowable() }),
+  z.strictObject({ kind: z.literal('plain').describe('thrust collar type'), meanDiameter: length('collar mean diameter'), allowablePressure: collarAllowable() }),
   z.strictObject({
-    kind: z.literal('annular'),
+    kind: z.literal('annular').describe('thrust collar type'),
     outerDiameter: length('collar outer diameter'),
     innerDiameter: length('collar inner diameter'),
-    model: z.enum(['uniform-wear', 'uniform-pressure']),
+    model: z.enum(['uniform-wear', 'uniform-pressure']).describe('collar friction model'),
     allowablePressure: collarAllowable(),
   }),
   z.strictObject({
-    kind: z.literal('rolling'),
+    kind: z.literal('rolling').describe('thrust collar type'),
     meanDiameter: length('bearing mean diameter'),
     dynamicRating: quantity('force', 'basic dynamic axial load rating C_a from the bearing data').optional(),
     staticRating: quantity('force', 'basic static axial load rating C_0a from the bearing data').optional(),
     rollingElement: z.enum(['ball', 'roller']).optional().describe('rolling elements: "ball" (life exponent 3) or "roller" (10/3, the default)'),
     ratingSource: z.string().min(1).max(500).optional().describe('where the ratings come from: catalogue, designation, page'),
   }),
-  z.strictObject({ kind: z.literal('none') }),
+  z.strictObject({ kind: z.literal('none').describe('thrust collar type') }),
 ]);
 
 export const designInputSchema = z.strictObject({
   thread: z.strictObject({
-    form: z.enum(THREAD_FORMS),
+    form: z.enum(THREAD_FORMS).describe('thread form'),
     size: z.string().max(40).optional().describe('standard size, e.g. "Tr 24x5", "1-1/2-4 ACME", "M20" (GET /api/v1/thread-sizes)'),
     majorDiameter: length('major (nominal) diameter').optional(),
     pitch: length('pitch (axial distance between adjacent threads)').optional(),
-    starts: z.number().int('starts must be a whole number').min(1, 'starts must be at least 1').max(12).optional(),
+    starts: z.number().int('starts must be a whole number').min(1, 'starts must be at least 1').max(12).optional().describe('number of thread starts (default 1)'),
     loadFlankAngle: z.union([z.number(), quantity('angle', 'load-flank angle')]).optional().describe('buttress only: 3 or 7 deg'),
     toleranceClass: z
       .string()
@@ -89,7 +89,7 @@ export const designInputSchema = z.strictObject({
       .optional()
       .describe('tolerance class, nut/screw: "7H/7e" (ISO 2903, trapezoidal) or "2G", "3G", "4G" (ASME B1.5, Acme); the checks then use its minimum-material diameters'),
   }),
-  load: z.strictObject({ axial: quantity('force', 'axial load'), sense: z.enum(['compression', 'tension']) }),
+  load: z.strictObject({ axial: quantity('force', 'axial load'), sense: z.enum(['compression', 'tension']).describe('load sense in the screw') }),
   friction: z.strictObject({ thread: frictionRangeSchema, collar: frictionRangeSchema.optional() }),
   collar: collarSchema,
   nut: z.strictObject({
@@ -143,18 +143,18 @@ export const designInputSchema = z.strictObject({
     elasticModulus: quantity('stress', 'elastic modulus').optional(),
     density: quantity('density', 'mass density').optional(),
     unsupportedLength: length('unsupported length between supports (column and shaft length)'),
-    ends: z.enum(END_CONDITIONS),
-    endConditionBasis: z.enum(['recommended', 'theoretical']).optional(),
+    ends: z.enum(END_CONDITIONS).describe('screw end conditions, for the column and whirl checks'),
+    endConditionBasis: z.enum(['recommended', 'theoretical']).optional().describe('end-condition constants used: the recommended design values (default) or the theoretical ones'),
     whirlSpan: length('rotating span between the bearings, for whirl (default: screw.unsupportedLength)').optional(),
     whirlEnds: z.enum(END_CONDITIONS).optional().describe('end conditions of the rotating span, for whirl (default: screw.ends)'),
     tensileStrength: quantity('stress', 'minimum tensile strength, for fatigue (overrides the material)').optional(),
   }),
   duty: z.strictObject({
-    kind: z.enum(['lifting', 'positioning', 'clamping']),
+    kind: z.enum(['lifting', 'positioning', 'clamping']).describe('duty'),
     speed: quantity('rotationalSpeed', 'screw rotational speed').optional(),
     linearSpeed: quantity('linearSpeed', 'nut travel speed').optional(),
-    brake: z.boolean(),
-    vibration: z.boolean().optional(),
+    brake: z.boolean().describe('brake fitted'),
+    vibration: z.boolean().optional().describe('vibration or shock at the screw (self-locking is then not relied on)'),
     brakeTorque: quantity('torque', 'rated static torque of the brake, at the shaft it sits on (needs duty.brake true)').optional(),
     brakeLocation: z.enum(['screw', 'motor']).optional().describe('shaft the brake sits on: "screw" (default) or "motor" (ahead of drive.gearbox)'),
     stroke: length('travel of the nut per stroke').optional(),
@@ -601,6 +601,31 @@ export function designFieldDimension(path: string): Dimension | null {
     if (!node) return null;
   }
   return dimensionOf(node);
+}
+
+/** One field of a design input as entered: its dotted path, its label (designFieldLabel) and the value as typed. */
+export interface DesignInputField {
+  readonly path: string;
+  readonly label: string;
+  readonly value: string;
+}
+
+/**
+ * Every field of a design input as it was entered (the verbatim input of a revision), in its own order, each with
+ * its label: what a reviewer may comment on (a comment's target `field` names one of these paths).
+ */
+export function designInputFields(input: unknown): DesignInputField[] {
+  const out: DesignInputField[] = [];
+  const walk = (value: unknown, path: string): void => {
+    if (value !== null && typeof value === 'object') {
+      const entries = Array.isArray(value) ? value.map((v, i) => [String(i), v] as const) : Object.entries(value as Record<string, unknown>);
+      for (const [k, v] of entries) walk(v, path ? `${path}.${k}` : k);
+      return;
+    }
+    if (path) out.push({ path, label: designFieldLabel(path), value: value === null || value === undefined ? '—' : String(value) });
+  };
+  walk(input, '');
+  return out;
 }
 
 function dimensionOf(node: z.ZodType): Dimension | null {

@@ -1,7 +1,7 @@
 import { Body, Controller, Get, Headers, HttpCode, Param, Post, Put, Query, Res } from '@nestjs/common';
 import { UserLimit } from '../infra/http/user-limits';
 import type { FastifyReply } from 'fastify';
-import type { Actor } from '@leadline/contracts';
+import { designInputFields, type Actor } from '@leadline/contracts';
 import { Roles } from '../identities/auth.guard';
 import { CurrentActor } from '../infra/http/actor';
 import { ReviewsService } from '../reviews/reviews.service';
@@ -103,6 +103,9 @@ export class CalculationsController {
   async revision(@Param('id') id: string) {
     const [record, review, remarks] = await Promise.all([this.calculations.revision(id), this.reviews.state(id), this.reviews.remarks(id)]);
     const { checks, governing } = await this.calculations.checksOf(record);
-    return { ...record, checks, governing, remarks, review: { state: review.state, decidedBy: review.decidedBy, decidedAt: review.decidedAt, signature: review.signature } };
+    return {
+      ...record, checks, governing, remarks, review: { state: review.state, decidedBy: review.decidedBy, decidedAt: review.decidedAt, signature: review.signature },
+      inputFields: designInputFields(record.input),
+    };
   }
 }

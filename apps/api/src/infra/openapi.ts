@@ -6,7 +6,7 @@ import type { INestApplication } from '@nestjs/common';
 import { SwaggerModule, type OpenAPIObject } from '@nestjs/swagger';
 import {
   calculationSchema, chainVerificationSchema, designInputSchema, evaluationResponseSchema, identityVerificationSchema,
-  problemSchema, productSchema, revisionReviewSchema, revisionWithChecksSchema, submissionResultSchema,
+  problemSchema, productSchema, revisionDetailSchema, revisionReviewSchema, revisionWithChecksSchema, submissionResultSchema,
 } from '@leadline/contracts';
 import { sizingRequestSchema, sizingResponseSchema } from '@leadline/contracts';
 import { z, type ZodType } from 'zod';
@@ -96,7 +96,7 @@ export const ROUTES: Route[] = [
       nextCursor: z.number().int().nullable().describe('the last revision number of this page when more follow, else null'),
     }),
   },
-  { method: 'get', path: '/api/v1/revisions/{id}', summary: 'One revision: input as submitted, evaluation, findings, versions, hashes', tag: 'calculations', response: revisionWithChecksSchema },
+  { method: 'get', path: '/api/v1/revisions/{id}', summary: 'One revision: input as submitted (and each of its fields in words), evaluation, findings, versions, hashes', tag: 'calculations', response: revisionDetailSchema },
   { method: 'get', path: '/api/v1/thread-sizes', summary: 'Standard thread sizes', tag: 'library' },
   { method: 'get', path: '/api/v1/friction-sources', summary: 'Friction coefficient ranges with their sources', tag: 'library' },
   { method: 'get', path: '/api/v1/materials', summary: 'Screw and nut materials', tag: 'library' },

@@ -1,7 +1,7 @@
 /*
  * What was said on a revision under review, beside what it is on (review-revision.js's comment panels): the list of
  * remarks, the comments on each finding, each changed input and each result (the revision's checks, with their value,
- * limit and status), and the comment form whose labelled list chooses the target (the revision, a changed input, a
+ * limit and status), and the comment form whose labelled list chooses the target (the revision, an input (changed ones first), a
  * finding or a result; the button beside a result chooses it too).
  */
 import { api, ApiError } from './lib-api.js';
@@ -34,14 +34,18 @@ export function remarkItem(r) {
     el('span', { class: 'remark-text' }, r.text));
 }
 
-/** Input field paths in words, from the comparison (GET /revisions/:id/diff names each changed input). */
+/** Changed input field paths in words, from the comparison (GET /revisions/:id/diff names each changed input). */
 const fieldLabels = {};
+/** Every input field of the revision in words (its `inputFields`: the input as entered, each field labelled). */
+const inputLabels = {};
 function designLabel(path) {
-  return fieldLabels[path.replace(/^design\./, '')] || path;
+  const bare = path.replace(/^design\./, '');
+  return fieldLabels[bare] || inputLabels[bare] || path;
 }
 
 /** What was said on this revision, and each comment beside what it is on: a finding, a result or a changed input. */
 export function renderRemarks(rev) {
+  (rev.inputFields || []).forEach(function (f) { inputLabels[f.path] = f.label; });
   const remarks = rev.remarks || [];
   $('remarks').replaceChildren(...remarks.map(remarkItem));
   $('remarks-section').hidden = remarks.length === 0;
@@ -120,6 +124,11 @@ export function setUpComment(rev, reload) {
     el('option', { value: '' }, 'This revision as a whole'),
     group('Inputs changed since the previous revision', Object.keys(fieldLabels).map(function (path) {
       return el('option', { value: 'field:' + path }, 'Input: ' + fieldLabels[path]);
+    })),
+    group(Object.keys(fieldLabels).length ? 'Other inputs' : 'Inputs', (rev.inputFields || []).filter(function (f) {
+      return !(f.path in fieldLabels);
+    }).map(function (f) {
+      return el('option', { value: 'field:' + f.path }, 'Input: ' + f.label + ' (' + f.value + ')');
     })),
     group('Findings', sortedFindings(rev.findings).map(function (f) {
       return el('option', { value: 'finding:' + f.ruleId }, 'Finding: ' + f.ruleId);
