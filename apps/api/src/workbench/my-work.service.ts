@@ -9,6 +9,7 @@ import { Database } from '../infra/database/database.service';
 import { RecordStore, type EventRow } from '../records/record-store';
 import { validate } from '../infra/http/problem';
 import { TS_TEXT } from '../records/chain';
+import { remarksOfEvent } from '../reviews/remarks';
 import { SUPERSEDED } from '../reviews/reviews.service';
 
 export const myRevisionsQuerySchema = z.object({
@@ -88,12 +89,11 @@ export class MyWorkService {
     });
     const items = sealed.filter((r) => !q.state || r.state === q.state).map((r): MyRevision => {
       const state = r.state as ReviewState;
+      // read as the revision routes read them (reviews/remarks.ts); an author is told comments and decisions
       const comments: ReviewerComment[] = [];
       for (const e of (typeof r.remarks === 'string' ? JSON.parse(r.remarks) : r.remarks) as { type: string; actor: any; at: string; data: any }[]) {
-        if (e.type === 'comment') comments.push({ by: e.actor, at: e.at, kind: 'comment', text: e.data.text, target: e.data.target ?? null });
-        else {
-          if (e.data.comment) comments.push({ by: e.actor, at: e.at, kind: 'decision', text: e.data.comment, target: null });
-          for (const c of e.data.comments ?? []) comments.push({ by: e.actor, at: e.at, kind: 'comment', text: c.text, target: c.target ?? null });
+        for (const m of remarksOfEvent(e.type, e.actor, e.at, e.data)) {
+          if (m.kind === 'comment' || m.kind === 'decision') comments.push({ by: m.by, at: m.at, kind: m.kind, text: m.text, target: m.target });
         }
       }
       const findings = { blocking: 0, warning: 0, info: 0 };
