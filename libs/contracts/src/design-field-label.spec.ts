@@ -8,6 +8,9 @@ describe('designFieldLabel', () => {
     expect(designFieldLabel('load.axial')).toBe('Axial load');
     expect(designFieldLabel('design.nut.length')).toBe('Nut length');
     expect(designFieldLabel('collar.outerDiameter')).toBe('Collar outer diameter'); // inside a discriminated union
+    // with the input at hand, from the option it chose: a rolling bearing's mean diameter, not a plain collar's
+    expect(designFieldLabel('collar.meanDiameter')).toBe('Collar mean diameter');
+    expect(designFieldLabel('collar.meanDiameter', { collar: { kind: 'rolling', meanDiameter: '32 mm' } })).toBe('Bearing mean diameter');
     expect(designFieldLabel('nut.allowablePressureBySpeed.0.allowablePressure')).toBe('Allowable mean bearing pressure up to that rubbing speed (step 1)');
   });
 

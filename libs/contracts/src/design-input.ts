@@ -568,12 +568,15 @@ function normalizeDesign(input: Parsed): DesignParseResult {
  * comma, colon or bracket: "nut.length" -> "Nut length"), else its path in words ("friction › thread › min").
  * An array index numbers the element from 1 ("nut.allowablePressureBySpeed.0.allowablePressure" -> "... (step 1)").
  */
-export function designFieldLabel(path: string): string {
+export function designFieldLabel(path: string, input?: unknown): string {
   let node: z.ZodType | undefined = designInputSchema;
   let description: string | undefined;
   const parts = path.replace(/^design\./, '').split('.');
+  // with the input at hand, a field inside a choice (the collar's kind) is read from the option the input chose
+  let value: unknown = input;
   for (const part of parts) {
-    node = node && childOf(node, part);
+    node = node && childOf(node, part, value);
+    value = value !== null && typeof value === 'object' ? (value as Record<string, unknown>)[part] : undefined;
     if (!node) break;
     description = node.description ?? unwrapped(node).description;
   }
@@ -622,7 +625,7 @@ export function designInputFields(input: unknown): DesignInputField[] {
       for (const [k, v] of entries) walk(v, path ? `${path}.${k}` : k);
       return;
     }
-    if (path) out.push({ path, label: designFieldLabel(path), value: value === null || value === undefined ? '—' : String(value) });
+    if (path) out.push({ path, label: designFieldLabel(path, input), value: value === null || value === undefined ? '—' : String(value) });
   };
   walk(input, '');
   return out;
@@ -641,17 +644,29 @@ function dimensionOf(node: z.ZodType): Dimension | null {
   return null;
 }
 
+/** The option of a discriminated union whose discriminator literal the value carries. */
+function chosenOption(u: z.ZodDiscriminatedUnion, value: Record<string, unknown>): z.ZodType | undefined {
+  const discriminator = (u.def as { discriminator: string }).discriminator;
+  return (u.options as z.ZodType[]).find((option) => {
+    const literal = unwrapped(option) instanceof z.ZodObject ? ((unwrapped(option) as z.ZodObject).shape as Record<string, z.ZodType>)[discriminator] : undefined;
+    return literal instanceof z.ZodLiteral && (literal.values as Set<unknown>).has(value[discriminator]);
+  });
+}
+
 function unwrapped(node: z.ZodType): z.ZodType {
   let n = node as z.ZodType & { unwrap?: () => z.ZodType };
   while (n instanceof z.ZodOptional || n instanceof z.ZodNullable || n instanceof z.ZodDefault) n = (n as z.ZodOptional<z.ZodType>).unwrap();
   return n;
 }
 
-function childOf(node: z.ZodType, key: string): z.ZodType | undefined {
+function childOf(node: z.ZodType, key: string, value?: unknown): z.ZodType | undefined {
   const n = unwrapped(node);
   if (n instanceof z.ZodArray) return /^\d+$/.test(key) ? (n.element as z.ZodType) : undefined;
   if (n instanceof z.ZodObject) return (n.shape as Record<string, z.ZodType>)[key];
   if (n instanceof z.ZodUnion || n instanceof z.ZodDiscriminatedUnion) {
+    // the option whose discriminator the value carries, when there is a value to tell (else the first that has the key)
+    const chosen = n instanceof z.ZodDiscriminatedUnion && value !== null && typeof value === 'object' ? chosenOption(n, value as Record<string, unknown>) : undefined;
+    if (chosen) return childOf(chosen, key);
     for (const option of n.options as z.ZodType[]) {
       const found = childOf(option, key);
       if (found) return found;

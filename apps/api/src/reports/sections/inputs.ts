@@ -35,8 +35,8 @@ const KIND_OF_DIMENSION: Readonly<Record<Dimension, QuantityKind>> = {
  * A field of the design input in words: the contract's one label of it (designFieldLabel, from the description each
  * field carries), with the report's "[i]" array paths read as the contract's dotted ones.
  */
-export function inputLabel(path: string): string {
-  return designFieldLabel(path.replace(/\[(\d+)\]/g, '.$1'));
+export function inputLabel(path: string, input?: unknown): string {
+  return designFieldLabel(path.replace(/\[(\d+)\]/g, '.$1'), input);
 }
 
 /** Every leaf of the normalized design with its path and key, but the friction (printed with its sources in its own table). */
@@ -67,7 +67,7 @@ export function engineValueRows(design: Design, system: UnitSystem): InputRow[] 
     const text = typeof value !== 'number' ? String(value)
       : kind ? formatQuantity(value, kind, system)
         : Number.isInteger(value) ? String(value) : sig(value);
-    rows.push({ path, label: inputLabel(field), value: text });
+    rows.push({ path, label: inputLabel(field, design), value: text });
   });
   return rows;
 }
