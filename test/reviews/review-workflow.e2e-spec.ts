@@ -201,7 +201,7 @@ it('takes a comment on a result (one of the revision\'s checks), refuses an unkn
   const csv = (await t.call('GET', `/api/v1/products/${productId}/audit?format=csv`, undefined, { as: 'reviewer' })).text;
   expect(csv).toContain(`comment on revision 1 (result ${check.id}): Margin thin for a platform; say why it is enough.`);
   const mine = (await t.call('GET', '/api/v1/me/revisions?limit=100')).body.items.find((r: { revisionId: string }) => r.revisionId === id);
-  expect(mine.comments).toEqual([expect.objectContaining({ text: 'Margin thin for a platform; say why it is enough.', target: { result: check.id } })]);
+  expect(mine.comments).toEqual([expect.objectContaining({ text: 'Margin thin for a platform; say why it is enough.', target: { result: check.id }, on: `result “${check.label}”` })]);
 
   // a rejection carrying a result comment
   const rejected = await t.call('POST', `/api/v1/revisions/${id}/decisions`, {

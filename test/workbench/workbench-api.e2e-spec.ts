@@ -53,6 +53,8 @@ it("lists the author's revisions by state with the reviewer's reasons and whethe
     ['comment', 'Which supplier?'],
   ]);
   expect(rejected.comments[1].target).toEqual({ field: 'friction.thread.source.reference' });
+  expect(rejected.comments[1].on).toBe('input “Thread friction — friction source reference”'); // the field's label (the contract's description)
+  expect(rejected.comments[0].on).toBeNull(); // the decision's own comment is on the revision as a whole
   expect(all[0]).toMatchObject({ canWithdraw: true, note: 'friction from the supplier sheet', comments: [] });
   expect((await t.call('GET', '/api/v1/me/revisions?state=approved')).body.items.map((i: { revisionId: string }) => i.revisionId)).toEqual([approvedId]);
   expect((await t.call('GET', '/api/v1/me/revisions', undefined, { as: 'author2' })).body.items).toEqual([]);

@@ -73,6 +73,11 @@ export const CHECK_DECLARATIONS: readonly CheckDeclaration[] = Object.freeze(RUL
 export const NUT_INDEPENDENT_RULES: ReadonlySet<string> = new Set(RULE_REGISTRY.filter((r) => r.nutIndependent === true).map((r) => r.id));
 
 /** Checks whose value does not change with the axial load (CheckDeclaration.loadIndependent). */
+/** A declared check's label by its id (the id itself for one no declaration has, e.g. of a later rule set). */
+export function checkLabel(id: string): string {
+  return CHECK_DECLARATIONS.find((d) => d.id === id)?.label ?? id;
+}
+
 export const LOAD_INDEPENDENT_CHECKS: ReadonlySet<string> = new Set(CHECK_DECLARATIONS.filter((d) => d.loadIndependent === true).map((d) => d.id));
 
 /** The rules as the API lists them: id, title, basis, description. */

@@ -28,7 +28,7 @@ function item(r, reload) {
   if (r.comments.length) {
     const list = el('ul', { class: 'remarks', 'aria-label': "Reviewer's comments on revision " + r.revision });
     r.comments.forEach(function (c) {
-      const on = c.target ? (c.target.field ? ' on field ' + c.target.field : c.target.result ? ' on result ' + c.target.result : ' on finding ' + c.target.finding) : '';
+      const on = c.on ? ' on ' + c.on : '';
       list.append(el('li', {}, el('strong', {}, (c.kind === 'decision' ? 'Decision comment' : 'Comment') + on + ' (' + (c.by ? c.by.name : '–') + '): '), c.text));
     });
     li.append(list);
