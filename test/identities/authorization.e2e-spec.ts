@@ -115,6 +115,7 @@ const TABLE: Row[] = [
   { method: 'GET', path: '/api/v1/products/{id}/design-file.pdf', url: () => `/api/v1/products/${ids.product}/design-file.pdf`, allowed: ALL },
   { method: 'POST', path: '/api/v1/products/{id}/design-files', url: () => `/api/v1/products/${ids.product}/design-files`, body: () => ({}), allowed: ALL },
   { method: 'GET', path: '/api/v1/jobs/{id}', url: () => `/api/v1/jobs/${ids.designFileJob}`, allowed: ALL },
+  { method: 'GET', path: '/api/v1/products/{id}/design-files', url: () => `/api/v1/products/${ids.product}/design-files`, allowed: ALL },
   { method: 'GET', path: '/api/v1/products/{id}/design-files/{fileId}', url: () => ids.designFileHref, allowed: ALL },
   { method: 'GET', path: '/api/v1/me', url: () => '/api/v1/me', allowed: ALL },
   { method: 'GET', path: '/api/v1/me/revisions', url: () => '/api/v1/me/revisions', allowed: ALL },
