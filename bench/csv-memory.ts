@@ -17,6 +17,7 @@ import { Database } from '../apps/api/src/infra/database/database.service';
 import { prepareSubmission, RecordStore } from '../apps/api/src/records/record-store';
 import { ServiceKeys } from '../apps/api/src/records/service-keys';
 import { BENCH_UNLIMITED } from './limits';
+import { withScratchDatabase } from './scratch';
 
 const root = join(__dirname, '../..');
 const sizes = (process.env.BENCH_CSV_SIZES ?? '10000,100000').split(',').map(Number);
@@ -25,23 +26,20 @@ const port = Number(process.env.BENCH_PORT ?? 3261);
 const rssMB = (pid: number) => Number(/VmRSS:\s+(\d+)/.exec(readFileSync(`/proc/${pid}/status`, 'utf8'))![1]) / 1024;
 
 async function main() {
-  const serverUrl = process.env.DATABASE_URL ?? 'postgres://postgres@127.0.0.1:5432/postgres';
-  const name = `leadline_bench_csv_${process.pid}`;
-  const admin = new Client({ connectionString: serverUrl });
-  admin.on('error', () => undefined);
-  await admin.connect();
-  await admin.query(`CREATE DATABASE ${name}`);
-  const u = new URL(serverUrl);
-  u.pathname = `/${name}`;
+  await withScratchDatabase('csv', run);
+}
+
+/** The run on a scratch database of its own (`url`), dropped afterwards by withScratchDatabase. */
+async function run(url: string) {
   const adminToken = `ll_bench_admin_${process.pid}_${'c'.repeat(16)}`;
   // BENCH_SERVER_HEAP_MB caps the server's V8 old space: a download that finishes under a cap smaller than the file
   // holds a bounded live set, whatever the RSS peaks (which include garbage V8 has not collected yet)
   const heapFlags = process.env.BENCH_SERVER_HEAP_MB ? [`--max-old-space-size=${process.env.BENCH_SERVER_HEAP_MB}`] : [];
   const server = spawn(process.execPath, [...heapFlags, join(root, 'dist/apps/api/src/main.js')], {
-    env: { ...process.env, DATABASE_URL: u.toString(), PORT: String(port), LEADLINE_ADMIN_TOKEN: adminToken, LEADLINE_DEMO_SEED: 'false', LOG_LEVEL: 'error', ...BENCH_UNLIMITED },
+    env: { ...process.env, DATABASE_URL: url, PORT: String(port), LEADLINE_ADMIN_TOKEN: adminToken, LEADLINE_DEMO_SEED: 'false', LOG_LEVEL: 'error', ...BENCH_UNLIMITED },
     stdio: ['ignore', 'ignore', 'inherit'],
   });
-  const db = new Client({ connectionString: u.toString() });
+  const db = new Client({ connectionString: url });
   db.on('error', () => undefined);
   let stopSeeder: () => Promise<unknown> = async () => undefined;
   const base = `http://127.0.0.1:${port}`;
@@ -67,11 +65,11 @@ async function main() {
     await db.connect();
     // seeded through the service's chain writer (hash, MAC, record function), with the record key the server uses
     // (both run in this folder: <LEADLINE_DATA_DIR>/record-key)
-    const seeder = new DataSource({ type: 'postgres', url: u.toString(), poolSize: 2, logging: false });
+    const seeder = new DataSource({ type: 'postgres', url: url, poolSize: 2, logging: false });
     await seeder.initialize();
     stopSeeder = () => seeder.destroy();
     const seedDb = new Database(seeder, false);
-    const store = new RecordStore(seedDb, new ServiceKeys(seedDb, loadConfig({ DATABASE_URL: u.toString() })));
+    const store = new RecordStore(seedDb, new ServiceKeys(seedDb, loadConfig({ DATABASE_URL: url })));
     const owner = { id: user.id as string, name: 'CSV author' };
     let revisions = 1;
     const idle = rssMB(server.pid!);
@@ -103,8 +101,6 @@ async function main() {
     await stopSeeder().catch(() => undefined);
     await db.end().catch(() => undefined);
     await new Promise((r) => setTimeout(r, 500));
-    await admin.query(`DROP DATABASE IF EXISTS ${name} WITH (FORCE)`);
-    await admin.end();
   }
 }
 
