@@ -170,7 +170,6 @@ export class CalculationsService {
     return { owner: row?.owner ?? null, id: row?.id ?? null, revision: row?.revision === null || row?.revision === undefined ? null : Number(row.revision), same: row?.same === true };
   }
 
-
   /**
    * Hands a calculation to another author (admin): a calculation-reassigned event on the product's chain, which
    * leadline_append_revision reads (under the same head lock) to decide who may add revisions.

@@ -92,6 +92,17 @@ export interface AppendedRevision {
   createdAt: string;
 }
 
+/** A row of leadline_lock_head: the head's seq, its hash ('' before the first link) and the transaction's time. */
+interface HeadRow {
+  seq: string;
+  hash: string;
+  now: string;
+}
+
+function cursorOf(row: HeadRow): ChainCursor {
+  return { seq: Number(row.seq), hash: row.hash === '' ? null : row.hash, now: row.now };
+}
+
 @Injectable()
 export class RecordStore implements OnModuleInit {
   constructor(
@@ -111,9 +122,8 @@ export class RecordStore implements OnModuleInit {
 
   /** Locks the product's chain head for the rest of the transaction. */
   async lockHead(q: Queryer, productId: string): Promise<ChainCursor | null> {
-    const rows = await q.query<{ seq: string; hash: string; now: string }>(`SELECT seq, hash, now FROM leadline_lock_head($1)`, [productId]);
-    if (rows.length === 0) return null;
-    return { seq: Number(rows[0].seq), hash: rows[0].hash === '' ? null : rows[0].hash, now: rows[0].now };
+    const rows = await q.query<HeadRow>(`SELECT seq, hash, now FROM leadline_lock_head($1)`, [productId]);
+    return rows.length === 0 ? null : cursorOf(rows[0]);
   }
 
   /**
@@ -121,12 +131,11 @@ export class RecordStore implements OnModuleInit {
    * in the same statement: the product and the cursor, or null when there is no such calculation.
    */
   async lockHeadOfCalculation(q: Queryer, calculationId: string): Promise<{ productId: string; cursor: ChainCursor } | null> {
-    const rows = await q.query<{ product_id: string; seq: string; hash: string; now: string }>(
+    const rows = await q.query<HeadRow & { product_id: string }>(
       `SELECT c.product_id, h.seq, h.hash, h.now FROM calculations c CROSS JOIN LATERAL leadline_lock_head(c.product_id) h WHERE c.id = $1`,
       [calculationId],
     );
-    if (rows.length === 0) return null;
-    return { productId: rows[0].product_id, cursor: { seq: Number(rows[0].seq), hash: rows[0].hash === '' ? null : rows[0].hash, now: rows[0].now } };
+    return rows.length === 0 ? null : { productId: rows[0].product_id, cursor: cursorOf(rows[0]) };
   }
 
   /** Runs a record function call; its refusals become HTTP problems. */
