@@ -52,24 +52,11 @@ interface DesignFilePayload {
   paper: 'A4' | 'Letter';
 }
 
-/** What a done design-file job holds as its result. */
-export interface DesignFileResult {
-  fileId: string;
-  fileName: string;
-  bytes: number;
-  recordHash: string | null;
-  /** True when an earlier rendering of the same record was reused */
-  reused: boolean;
-  href: string;
-}
-
+type DesignFileJob = z.infer<typeof designFileJobSchema>;
+/** What a done design-file job holds as its result (`reused`: an earlier rendering of the same record was reused). */
+export type DesignFileResult = NonNullable<DesignFileJob['result']>;
 /** Progress as the product page shows it: a stage, how far, and the words for it. */
-export interface DesignFileProgress {
-  stage: 'assembling' | 'rendering' | 'storing';
-  done: number;
-  total: number;
-  message: string;
-}
+export type DesignFileProgress = NonNullable<DesignFileJob['progress']>;
 
 @Injectable()
 export class DesignFileJobs {
@@ -100,7 +87,7 @@ export class DesignFileJobs {
   async recent(productId: string, limit = 5): Promise<z.infer<typeof designFileJobListSchema>> {
     await this.products.get(productId);
     const jobs = await this.queue.recent(DESIGN_FILE_JOB, 'productId', productId, limit);
-    const [head] = await this.db.query<{ hash: string }>(`SELECT hash FROM chain_heads WHERE product_id = $1`, [productId]);
+    const head = await this.headHash(productId);
     return {
       items: jobs.map((job) => {
         const result = job.result as DesignFileResult | null;
@@ -108,7 +95,7 @@ export class DesignFileJobs {
           id: job.id, kind: job.kind, state: job.state, attempts: job.attempts, progress: job.progress as DesignFileProgress | null, result,
           error: job.error, createdAt: job.createdAt, finishedAt: job.finishedAt,
           paper: (job.payload as DesignFilePayload).paper, status: `/api/v1/jobs/${job.id}`,
-          current: job.state === 'done' && result !== null && head !== undefined && result.recordHash === head.hash,
+          current: job.state === 'done' && result !== null && head !== null && result.recordHash === head,
         };
       }),
     };
@@ -153,8 +140,14 @@ export class DesignFileJobs {
 
   /** The file already rendered for the product's current chain head, if any. */
   private async stored(productId: string, paper: string): Promise<Omit<DesignFileResult, 'reused'> | null> {
+    const head = await this.headHash(productId);
+    return head ? this.byHash(productId, paper, head) : null;
+  }
+
+  /** The hash of the product's chain head (the record a design file prints), or null before its first link. */
+  private async headHash(productId: string): Promise<string | null> {
     const [head] = await this.db.query<{ hash: string }>(`SELECT hash FROM chain_heads WHERE product_id = $1`, [productId]);
-    return head?.hash ? this.byHash(productId, paper, head.hash) : null;
+    return head?.hash || null;
   }
 
   private byHash(productId: string, paper: string, hash: string): Promise<Omit<DesignFileResult, 'reused'> | null> {
