@@ -62,7 +62,7 @@ describe('engine values: each with the unit its field declares, in the report\'s
   const rows = (system: 'SI' | 'US') => Object.fromEntries(engineValueRows(parsed.design, system).map((r) => [r.path, r.value]));
 
   it('a design life in hours, not the seconds the engine works in', () => {
-    expect(parsed.design.duty.designLife).toBe(5000 * 3600);
+    expect(parsed.design.duty.designLife).toBe(5000 * 3600); // 1 h = 3600 s (BIPM, The International System of Units, 9th ed., Table 8)
     expect(rows('SI')['duty.designLife']).toBe('5000 h');
   });
 
