@@ -26,6 +26,7 @@ import { evaluate } from '@leadline/mechanics';
 import { judge, DEFAULT_RULE_SET } from '@leadline/rules';
 import { Database } from '../apps/api/src/infra/database/database.service';
 import { prepareSubmission, RecordStore } from '../apps/api/src/records/record-store';
+import { EvaluationPool } from '../apps/api/src/evaluations/evaluation-pool';
 import { BENCH_ROWS_DDL, setBenchRow, setFixedResponse } from './baseline.module';
 import { benchDbFloor } from './db-floor';
 import { benchGrowth } from './growth';
@@ -45,6 +46,9 @@ interface Run {
   p50: number;
   p99: number;
   errors: number;
+  total: number;
+  /** CPU time of this process (the service: every thread, its worker threads included) per request, in µs */
+  cpuUs: number;
 }
 
 let token = '';
@@ -54,10 +58,13 @@ async function load(url: string | string[], method: 'GET' | 'POST', body?: strin
   const urls = Array.isArray(url) ? url : [url];
   const headers = { ...(body ? { 'content-type': 'application/json' } : {}), authorization: `Bearer ${as}` };
   const options = JSON.stringify({ urls, method, body, headers, connections, seconds: duration });
+  const cpu = process.cpuUsage();
   const out = await new Promise<string>((resolve, reject) => {
     execFile(process.execPath, [join(__dirname, 'load.js'), options], { maxBuffer: 1 << 20 }, (err, stdout) => (err ? reject(err) : resolve(stdout)));
   });
-  return JSON.parse(out.trim().split('\n').pop() as string) as Run;
+  const used = process.cpuUsage(cpu);
+  const run = JSON.parse(out.trim().split('\n').pop() as string) as Omit<Run, 'cpuUs'>;
+  return { ...run, cpuUs: (used.user + used.system) / Math.max(1, run.total) };
 }
 
 /** A load to run side by side: called with a duration in seconds (default BENCH_SECONDS). */
@@ -84,6 +91,9 @@ async function sideBySide(name: string, baseline: LoadSpec, subject: LoadSpec) {
     subjectP50ms: +mean(s, 'p50').toFixed(1),
     baselineP99ms: +mean(b, 'p99').toFixed(1),
     subjectP99ms: +mean(s, 'p99').toFixed(1),
+    // The service's CPU per request over all its threads (the load generator is another process)
+    baselineCpuUs: Math.round(mean(b, 'cpuUs')),
+    subjectCpuUs: Math.round(mean(s, 'cpuUs')),
     errors: s.reduce((a, x) => a + x.errors, 0) + b.reduce((a, x) => a + x.errors, 0),
     rounds: s.map((x, i) => +(x.rps / b[i].rps).toFixed(3)),
   };
@@ -140,7 +150,13 @@ async function benchHttp(url: string) {
   setFixedResponse(JSON.stringify(await post(`${base}/api/v1/evaluations`, JSON.parse(design))));
   results.push(await sideBySide('public I/O floor (same body in, fixed same-size body out, no auth) vs hello-world', at(`${base}/bench/hello`, 'GET'), at(`${base}/bench/io-floor`, 'POST', design)));
   results.push(await sideBySide('authenticated I/O floor (auth, same body parsed, fresh Evaluation-sized object serialized) vs public floor', at(`${base}/bench/io-floor`, 'POST', design), at(`${base}/bench/io-floor-auth`, 'POST', design)));
-  results.push(await sideBySide('POST /api/v1/evaluations vs the authenticated I/O floor', at(`${base}/bench/io-floor-auth`, 'POST', design), at(`${base}/api/v1/evaluations`, 'POST', design)));
+  const threads = app.get(EvaluationPool).threads;
+  results.push(await sideBySide(`POST /api/v1/evaluations vs the authenticated I/O floor (${threads} evaluation thread${threads === 1 ? '' : 's'})`, at(`${base}/bench/io-floor-auth`, 'POST', design), at(`${base}/api/v1/evaluations`, 'POST', design)));
+  // Reference: the same route on a second service that assesses in the request's thread (LEADLINE_EVALUATION_THREADS=0)
+  const single = await startBenchApp({ DATABASE_URL: url, LEADLINE_EVALUATION_THREADS: '0' });
+  const asSingle = (path: string): LoadSpec => (duration) => load(`${single.base}${path}`, 'POST', design, single.token, duration);
+  results.push(await sideBySide('POST /api/v1/evaluations assessed in the request thread (LEADLINE_EVALUATION_THREADS=0) vs its authenticated I/O floor (reference)', asSingle('/bench/io-floor-auth'), asSingle('/api/v1/evaluations')));
+  await single.app.close();
   results.push(await sideBySide('POST /api/v1/evaluations vs hello-world', at(`${base}/bench/hello`, 'GET'), at(`${base}/api/v1/evaluations`, 'POST', design)));
   // Durable submissions: spread over 50 products (engineers working on different equipment), and all on one
   // calculation (the worst case: every append waits for the same product's chain head).

@@ -10,7 +10,7 @@ import fc from 'fast-check';
 import { designInputArbitrary } from '../../../../libs/rules/src/testing/arbitrary';
 import { checkProperty } from '../../../../test/support/property';
 import { AssessmentService } from './assessment.service';
-import { evaluationAnswer, writeEvaluationAnswer } from './evaluations.controller';
+import { evaluationAnswer, writeEvaluationAnswer } from './evaluation-answer';
 
 const assessor = new AssessmentService();
 

@@ -2,6 +2,7 @@
  * Configuration: read once from the environment, validated at boot, typed. Nothing else reads process.env.
  */
 import { isIP } from 'node:net';
+import { availableParallelism } from 'node:os';
 import { z } from 'zod';
 
 /** How a decision may be signed (docs/reliability.md, electronic signatures). */
@@ -84,6 +85,11 @@ export const configSchema = z.object({
   LEADLINE_SUBMISSIONS_PER_USER_PER_MINUTE: z.coerce.number().int().min(1).default(60),
   /** PDFs (report.pdf, design-file.pdf) one user may ask for per minute (429 with Retry-After above) */
   LEADLINE_PDFS_PER_USER_PER_MINUTE: z.coerce.number().int().min(1).default(20),
+  /**
+   * Worker threads that assess designs for POST /api/v1/evaluations, so that the request's thread only reads and
+   * writes; 0: assessed in the request's thread. Default: one less than the processors Node may use, 1 to 4
+   */
+  LEADLINE_EVALUATION_THREADS: z.coerce.number().int().min(0).max(64).default(Math.min(4, Math.max(0, availableParallelism() - 1))),
   /** Pool size for PostgreSQL */
   LEADLINE_DB_POOL: z.coerce.number().int().min(1).max(100).default(10),
   /**
