@@ -16,6 +16,13 @@ import { answerEvaluation, type EvaluationOutcome, type EvaluationTask } from '.
 const WORKER = 'evaluation.worker.js';
 
 /**
+ * Tasks handed to a thread before it has answered the last: with one at a time the thread waits for the request's
+ * thread to take each answer before it gets the next, and the two take turns instead of working side by side
+ * (measured: 0.8 of the route's floor with 1, above it with 16; docs/performance.md).
+ */
+const TASKS_AHEAD_PER_THREAD = 16;
+
+/**
  * The worker's file: beside this module in the built service; from the TypeScript sources (the test suite) the built
  * file of the same tree, which README's test command builds before it runs.
  */
@@ -69,7 +76,7 @@ export class EvaluationPool implements OnModuleDestroy {
       minThreads: this.threads,
       maxThreads: this.threads,
       idleTimeout: Number.POSITIVE_INFINITY,
-      concurrentTasksPerWorker: 16,
+      concurrentTasksPerWorker: TASKS_AHEAD_PER_THREAD,
     });
     return this.pool;
   }
