@@ -1,7 +1,9 @@
 /**
  * Where a route's time goes: the service in-process with the baseline routes, a CPU profile of the server (inspector,
  * 100 µs sampling) during autocannon load on POST /api/v1/evaluations and then on its authenticated I/O floor, and
- * the self time per request of each group of code (subject minus floor). Not part of `npm run bench`; run after
+ * the self time per request of each group of code (subject minus floor). The inspector samples the main thread only,
+ * so the route assesses in the request's thread here (LEADLINE_EVALUATION_THREADS=0 unless set): the profile shows the
+ * assessment's own cost, which the service normally runs on its worker threads. Not part of `npm run bench`; run after
  * `npm run build`:  node dist/bench/profile-route.js   (BENCH_SECONDS, default 8; DATABASE_URL as bench/run.ts).
  */
 import 'reflect-metadata';
@@ -53,7 +55,7 @@ function load(url: string, token: string): Promise<{ rps: number; total: number 
 
 async function main() {
   await withScratchDatabase('profile', async (url) => {
-    const { app, base, token } = await startBenchApp({ DATABASE_URL: url });
+    const { app, base, token } = await startBenchApp({ DATABASE_URL: url, LEADLINE_EVALUATION_THREADS: process.env.LEADLINE_EVALUATION_THREADS ?? '0' });
     const answer = await (await fetch(`${base}/api/v1/evaluations`, { method: 'POST', headers: { 'content-type': 'application/json', authorization: `Bearer ${token}` }, body: design })).text();
     setFixedResponse(answer);
 
