@@ -26,7 +26,12 @@ export async function benchWorkbench(): Promise<Record<string, unknown>> {
   await app.listen({ port: 0, host: '127.0.0.1' });
   const base = `http://127.0.0.1:${(app.getHttpServer().address() as { port: number }).port}`;
   const asAdmin = { authorization: `Bearer ${admin}`, 'content-type': 'application/json' };
-  const user = await (await fetch(`${base}/api/v1/users`, { method: 'POST', headers: asAdmin, body: JSON.stringify({ name: 'Benchmark author', roles: ['author'] }) })).json();
+  // An author with a password: the page signs in as people do (a session cookie; pages keep no credential in script storage)
+  const email = 'author@bench.invalid';
+  const password = `bench-${process.pid}-correct-horse-battery`;
+  const user = await (await fetch(`${base}/api/v1/users`, { method: 'POST', headers: asAdmin, body: JSON.stringify({ name: 'Benchmark author', email, roles: ['author'] }) })).json();
+  const activated = await fetch(`${base}/api/v1/account/activate`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ activationCode: user.activationCode, password }) });
+  if (activated.status !== 200) throw new Error(`activating the benchmark author answered ${activated.status}`);
   const token = (await (await fetch(`${base}/api/v1/users/${user.id}/tokens`, { method: 'POST', headers: asAdmin, body: '{}' })).json()).token as string;
   const asAuthor = { authorization: `Bearer ${token}`, 'content-type': 'application/json' };
   const product = await (await fetch(`${base}/api/v1/products`, { method: 'POST', headers: asAuthor, body: JSON.stringify({ code: 'BENCH-W', name: 'workbench benchmark' }) })).json();
@@ -36,8 +41,10 @@ export async function benchWorkbench(): Promise<Record<string, unknown>> {
   try {
     const page = await browser.newPage();
     await page.setViewport({ width: 1280, height: 900 });
-    await page.goto(`${base}/design`);
-    await page.evaluate((tok) => sessionStorage.setItem('leadline.reviewToken', tok), token);
+    await page.goto(`${base}/sign-in`);
+    await page.waitForSelector('#sign-in-form');
+    const signedIn = await page.evaluate(async (who) => (await fetch('/api/v1/sessions', { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(who) })).status, { email, password });
+    if (signedIn !== 201) throw new Error(`signing in the benchmark author answered ${signedIn}`);
     // the next revision's form, prefilled from revision 1 (the fixture design)
     await page.goto(`${base}/design/calculations/${calc.calculationId}/revise`);
     await page.waitForFunction(() => document.getElementById('results-status')?.dataset.current === 'true');
