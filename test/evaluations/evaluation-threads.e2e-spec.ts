@@ -3,7 +3,7 @@
  * assessing in the request's thread (LEADLINE_EVALUATION_THREADS=0), through HTTP on two services: the answers are the
  * same bytes for generated designs of every form and duty with and without the trace, concurrent requests each get
  * their own design's answer, a refused design is the same 422 naming the field, and a rule set adopted while the
- * threads run is the one they judge by. (A property of the wiring: the figures are the engine's, tested against
+ * threads run is the one they judge by; a thread that dies is replaced. (A property of the wiring: the figures are the engine's, tested against
  * published sources in libs/mechanics.)
  */
 import { readFileSync } from 'node:fs';
@@ -13,6 +13,7 @@ import { parseDesign } from '@leadline/contracts';
 import { designInputArbitrary } from '../../libs/rules/src/testing/arbitrary';
 import { sampleWithSeed } from '../support/property';
 import { startTestApp, type TestApp } from '../support/harness';
+import { EvaluationPool } from '../../apps/api/src/evaluations/evaluation-pool';
 
 const jack = JSON.parse(readFileSync(join(__dirname, '../fixtures/ok/trapezoidal-jack.json'), 'utf8'));
 const designs = [jack, ...sampleWithSeed(designInputArbitrary, 60).filter((d) => parseDesign(d).success)];
@@ -71,6 +72,19 @@ it('refuses a design on the thread with the same 422 naming the field as in the 
   expect((await evaluate(threaded, cases[0])).body.errors[0].path).toBe('screw.unsupportedLength');
 });
 
+it('replaces a thread that dies: the evaluations after it are answered', async () => {
+  expect((await evaluate(threaded, jack)).status).toBe(200); // the threads start with the first evaluation
+  const pool = (threaded.app.get(EvaluationPool) as unknown as { pool: { threads: { threadId: number; terminate(): Promise<number> }[] } | null }).pool;
+  expect(pool?.threads.length).toBe(1);
+  const first = pool!.threads[0].threadId;
+  await pool!.threads[0].terminate();
+  const after = await evaluate(threaded, jack);
+  expect(after.status).toBe(200);
+  expect(after.text).toBe((await evaluate(inRequest, jack)).text);
+  expect(pool!.threads.map((w) => w.threadId)).not.toContain(first);
+});
+
+// Last in the file: it changes the adopted rule set of both services.
 it('judges by a rule set adopted while the threads run (the threads are sent the new set)', async () => {
   const before = await evaluate(threaded, jack);
   expect(before.body.ruleSetVersion).toBe(DEFAULT_RULE_SET.version);

@@ -198,7 +198,7 @@ describe.each(WIDTHS)('at %i px', (width) => {
     const said = await text(page, '#previous-remarks');
     expect(said).toContain('Decision comment — Checking engineer (test)');
     expect(said).toContain('The nut is short for this load; lengthen it.');
-    expect(said).toMatch(/Comment on Nut length — Checking engineer \(test\), .* UTC: At least 70 mm of engagement, please\./);
+    expect(said).toMatch(/Comment on input “Nut length” — Checking engineer \(test\), .* UTC: At least 70 mm of engagement, please\./);
     expect(said).toMatch(/Comment on finding friction-source-assumed — .*Book the friction test before the next revision\./);
     // inputs by their names with the values as entered (units included); results with labels and units
     expect(await text(page, '#changes-inputs tr[data-path="nut.length"]')).toMatch(/^Nut length[\s\S]*At least 70 mm of engagement[\s\S]*60 mm\s+70 mm$/);
@@ -222,7 +222,7 @@ describe.each(WIDTHS)('at %i px', (width) => {
     await page.keyboard.type('Governing margin: say what it rests on.');
     await enterOn(page, '#comment-submit');
     await page.waitForFunction(() => /^Comment added/.test(document.getElementById('comment-status')!.textContent ?? ''));
-    expect(await text(page, '#comment-status')).toBe(`Comment added on result ${result.label}.`);
+    expect(await text(page, '#comment-status')).toBe(`Comment added on result “${result.label}”.`);
     await page.waitForSelector(`#results tr[data-result="${result.id}"] ul.remarks`);
     expect(await text(page, `#results tr[data-result="${result.id}"] th`)).toMatch(/Comment on result .+ — Checking engineer \(test\), .* UTC: Governing margin: say what it rests on\./);
     // a comment on a changed input, chosen in the list by keyboard: shown beside the input in the changes
@@ -255,7 +255,7 @@ describe.each(WIDTHS)('at %i px', (width) => {
     await page.waitForFunction(() => !document.getElementById('remarks-section')!.hidden);
     await page.waitForFunction(() => document.querySelectorAll('#remarks li').length === 3);
     expect(await text(page, '#remarks li:last-child')).toMatch(/^Decision comment — Checking engineer \(test\), .* UTC: Friction test report still missing\.$/);
-    expect(await text(page, '#remarks li:first-child')).toMatch(new RegExp(`^Comment on result ${result.label.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')} — `));
+    expect(await text(page, '#remarks li:first-child')).toMatch(new RegExp(`^Comment on result “${result.label.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')}” — `));
     await checkPage(page, 'review-decided');
   }
 

@@ -194,8 +194,10 @@ it('takes a comment on a result (one of the revision\'s checks), refuses an unkn
 
   const said = await t.call('POST', `/api/v1/revisions/${id}/comments`, { text: 'Margin thin for a platform; say why it is enough.', target: { result: check.id } }, { as: 'reviewer' });
   expect(said.status).toBe(201);
+  // what it is on, in the one wording of the revision routes, My work and the review page (reviews/remarks.ts)
+  expect(said.body.on).toBe(`result “${check.label}”`);
   const after = (await t.call('GET', `/api/v1/revisions/${id}`)).body;
-  expect(after.remarks).toEqual([expect.objectContaining({ kind: 'comment', text: 'Margin thin for a platform; say why it is enough.', target: { result: check.id } })]);
+  expect(after.remarks).toEqual([expect.objectContaining({ kind: 'comment', text: 'Margin thin for a platform; say why it is enough.', target: { result: check.id }, on: `result “${check.label}”` })]);
   expect(after.review.state).toBe('submitted');
   // the audit trail names what the comment is on, and the author's own work carries the target as stored
   const csv = (await t.call('GET', `/api/v1/products/${productId}/audit?format=csv`, undefined, { as: 'reviewer' })).text;
@@ -235,5 +237,9 @@ it('lists every input of a revision as entered, each with its label, and takes a
   for (const f of [fields[0], fields[fields.length - 1]]) {
     const said = await t.call('POST', `/api/v1/revisions/${opened.body.revisionId}/comments`, { text: `On ${f.label}.`, target: { field: f.path } }, { as: 'reviewer' });
     expect(said.status).toBe(201);
+    expect(said.body.on).toBe(`input “${f.label}”`);
   }
+  // the remarks word each input as the list of inputs labels it
+  const remarks = (await t.call('GET', `/api/v1/revisions/${opened.body.revisionId}`)).body.remarks as { on: string }[];
+  expect(remarks.map((r) => r.on)).toEqual([fields[0], fields[fields.length - 1]].map((f) => `input “${f.label}”`));
 });

@@ -189,6 +189,8 @@ export const remarkSchema = z.object({
   // one object with either key (OpenAPI 3.0 allows `nullable` only beside a `type`, so not a nullable union)
   target: z.object({ field: z.string().optional(), finding: z.string().optional(), result: z.string().optional() }).nullable()
     .describe('what the remark is on: a design field (`field`), a finding (`finding`, its rule id) or a result (`result`, the id of one of the revision\'s `checks`); null for the revision as a whole'),
+  on: z.string().nullable()
+    .describe('what the remark is on, in words: an input by its label (`input “…”`), a finding by its rule id, a result by its check\'s label (`result “…”`); null for the revision as a whole'),
 });
 
 /** A revision as the revision routes answer it: the record and its review state. */

@@ -4,7 +4,8 @@
  * decision's or withdrawal's comment, and each acknowledgement of a warning. One reading for the revision routes
  * (`remarks`), the review page and the report's review record.
  */
-import type { Actor } from '@leadline/contracts';
+import { designFieldLabel, type Actor } from '@leadline/contracts';
+import { checkLabel } from '@leadline/rules';
 
 /** One thing said on a revision (GET /revisions/:id, remarks). */
 export interface Remark {
@@ -13,6 +14,30 @@ export interface Remark {
   at: string;
   text: string;
   target: { field: string } | { finding: string } | { result: string } | null;
+  /** What it is on, in words (remarkOn); null for the revision as a whole */
+  on: string | null;
+}
+
+/**
+ * What a remark is on, in words, the one wording of the review page, My work and the revision routes: an input by its
+ * label (from the option the input chose, when the revision's input is given), a finding by its rule id, a result by
+ * its check's label; null for the revision as a whole.
+ */
+export function remarkOn(target: Remark['target'], input?: unknown): string | null {
+  if (target === null) return null;
+  if ('field' in target) return `input “${designFieldLabel(target.field, input)}”`;
+  if ('finding' in target) return `finding ${target.finding}`;
+  return `result “${checkLabel(target.result)}”`;
+}
+
+/** Remarks on inputs worded from the revision's own input (a field inside a choice by the option it chose). */
+export function withInputWords(remarks: readonly Remark[], input: unknown): Remark[] {
+  return remarks.map((r) => (r.target !== null && 'field' in r.target ? { ...r, on: remarkOn(r.target, input) } : r));
+}
+
+/** A remark with its words (the one constructor of a Remark). */
+function remark(kind: Remark['kind'], by: Actor | null, at: string, text: string, target: Remark['target']): Remark {
+  return { kind, by, at, text, target, on: remarkOn(target) };
 }
 
 /** A stored target as the remark's target: an input field, a finding or a result, else null (an unknown shape is not guessed). */
@@ -28,12 +53,12 @@ export function remarkTarget(t: unknown): Remark['target'] {
 /** The remarks of one event of the review workflow (none for an event that says nothing). */
 export function remarksOfEvent(type: string, by: Actor | null, at: string, data: Record<string, any> | null): Remark[] {
   const d = data ?? {};
-  if (type === 'comment') return typeof d.text === 'string' ? [{ kind: 'comment', by, at, text: d.text, target: remarkTarget(d.target) }] : [];
+  if (type === 'comment') return typeof d.text === 'string' ? [remark('comment', by, at, d.text, remarkTarget(d.target))] : [];
   if (type !== 'approved' && type !== 'rejected' && type !== 'withdrawn') return [];
   const out: Remark[] = [];
   const kind = type === 'withdrawn' ? 'withdrawal' : 'decision';
-  if (typeof d.comment === 'string' && d.comment) out.push({ kind, by, at, text: d.comment, target: null });
-  for (const a of d.acknowledgements ?? []) out.push({ kind: 'acknowledgement', by, at, text: a.comment, target: { finding: a.finding } });
-  for (const c of d.comments ?? []) out.push({ kind: 'comment', by, at, text: c.text, target: remarkTarget(c.target) });
+  if (typeof d.comment === 'string' && d.comment) out.push(remark(kind, by, at, d.comment, null));
+  for (const a of d.acknowledgements ?? []) out.push(remark('acknowledgement', by, at, a.comment, { finding: a.finding }));
+  for (const c of d.comments ?? []) out.push(remark('comment', by, at, c.text, remarkTarget(c.target)));
   return out;
 }

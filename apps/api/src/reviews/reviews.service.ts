@@ -22,7 +22,7 @@ import { ReauthenticationsService } from '../identities/reauthentications.servic
 import { PASSWORD_MAX } from '../identities/passwords';
 import { authenticationResponseSchema, PasskeysService } from '../identities/passkeys.service';
 import type { StoredAssertion } from '../records/passkey-signature';
-import { remarksOfEvent, type Remark } from './remarks';
+import { remarkOn, remarksOfEvent, remarkTarget, type Remark } from './remarks';
 import { CalculationsService } from '../calculations/calculations.service';
 
 export const targetSchema = z.union([
@@ -312,7 +312,8 @@ export class ReviewsService {
         productId: head.productId, type: 'comment', calculationId: head.calculationId, revisionId: head.id, actor,
         data: { revision: head.revision, text: input.text, target: input.target ?? null },
       });
-      return { eventId: event.id, hash: event.hash, createdAt: event.createdAt };
+      // what it is on, worded as the revision's remarks word it (an input from the option this input chose)
+      return { eventId: event.id, hash: event.hash, createdAt: event.createdAt, on: remarkOn(remarkTarget(input.target ?? null), head.input) };
     });
   }
 

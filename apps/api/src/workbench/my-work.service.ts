@@ -3,8 +3,7 @@
  * reviewer's comments on it (a rejection's reasons), newest first.
  */
 import { Injectable } from '@nestjs/common';
-import { designFieldLabel, type Finding, type ReviewState } from '@leadline/contracts';
-import { checkLabel } from '@leadline/rules';
+import type { Finding, ReviewState } from '@leadline/contracts';
 import { z } from 'zod';
 import { Database } from '../infra/database/database.service';
 import { RecordStore, type EventRow } from '../records/record-store';
@@ -24,16 +23,8 @@ export interface ReviewerComment {
   kind: 'decision' | 'comment';
   text: string;
   target: { field?: string; finding?: string; result?: string } | null;
-  /** What it is on, in words: "input “Axial load”", "finding nut-pv", "result “Nut pV over its limit, pV / pV_allow”" */
+  /** What it is on, in words (reviews/remarks.ts remarkOn): "input “Axial load”", "finding nut-pv", "result “Nut pV over its limit, pV / pV_allow”" */
   on: string | null;
-}
-
-/** A comment's target in words: an input by its label, a finding by its rule id, a result by its check's label. */
-function onWords(target: ReviewerComment['target']): string | null {
-  if (!target) return null;
-  if (target.field !== undefined) return `input “${designFieldLabel(target.field)}”`;
-  if (target.finding !== undefined) return `finding ${target.finding}`;
-  return target.result !== undefined ? `result “${checkLabel(target.result)}”` : null;
 }
 
 export interface MyRevision {
@@ -104,7 +95,7 @@ export class MyWorkService {
       const comments: ReviewerComment[] = [];
       for (const e of (typeof r.remarks === 'string' ? JSON.parse(r.remarks) : r.remarks) as { type: string; actor: any; at: string; data: any }[]) {
         for (const m of remarksOfEvent(e.type, e.actor, e.at, e.data)) {
-          if (m.kind === 'comment' || m.kind === 'decision') comments.push({ by: m.by, at: m.at, kind: m.kind, text: m.text, target: m.target, on: onWords(m.target) });
+          if (m.kind === 'comment' || m.kind === 'decision') comments.push({ by: m.by, at: m.at, kind: m.kind, text: m.text, target: m.target, on: m.on });
         }
       }
       const findings = { blocking: 0, warning: 0, info: 0 };

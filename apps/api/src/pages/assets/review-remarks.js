@@ -11,18 +11,9 @@ import { sortedFindings } from './lib-findings.js';
 import { clearFieldErrors, clearProblem, showFieldErrors, showProblem } from './lib-problem.js';
 import { CHECK_STATUSES, formatQuantity, wordFor } from './lib-presentation.js';
 
-/** What a remark is about, in words. */
-function remarkTarget(target) {
-  if (!target) return '';
-  if ('field' in target) return ' on ' + designLabel(target.field);
-  if ('result' in target) return ' on result ' + resultLabel(target.result);
-  return ' on finding ' + target.finding;
-}
-
-/** The revision's checks by id (GET /revisions/:id answers them, from the rules' declarations), for their labels. */
-const checksById = {};
-function resultLabel(id) {
-  return checksById[id] ? checksById[id].label : id;
+/** What a remark is on, in the service's words (its `on`: reviews/remarks.ts), or nothing for the revision as a whole. */
+function remarkOn(on) {
+  return on ? ' on ' + on : '';
 }
 
 const REMARK_KINDS = { comment: 'Comment', decision: 'Decision comment', acknowledgement: 'Acknowledgement', withdrawal: 'Withdrawal' };
@@ -30,22 +21,15 @@ const REMARK_KINDS = { comment: 'Comment', decision: 'Decision comment', acknowl
 /** One remark as a list item: who, what kind, on what, when, and the text. */
 export function remarkItem(r) {
   return el('li', { class: 'remark remark-' + r.kind },
-    el('strong', {}, REMARK_KINDS[r.kind] || r.kind), remarkTarget(r.target), ' — ', r.by ? r.by.name : 'unknown', ', ', time(r.at), ' UTC: ',
+    el('strong', {}, REMARK_KINDS[r.kind] || r.kind), remarkOn(r.on), ' — ', r.by ? r.by.name : 'unknown', ', ', time(r.at), ' UTC: ',
     el('span', { class: 'remark-text' }, r.text));
 }
 
 /** Changed input field paths in words, from the comparison (GET /revisions/:id/diff names each changed input). */
 const fieldLabels = {};
-/** Every input field of the revision in words (its `inputFields`: the input as entered, each field labelled). */
-const inputLabels = {};
-function designLabel(path) {
-  const bare = path.replace(/^design\./, '');
-  return fieldLabels[bare] || inputLabels[bare] || path;
-}
 
 /** What was said on this revision, and each comment beside what it is on: a finding, a result or a changed input. */
 export function renderRemarks(rev) {
-  (rev.inputFields || []).forEach(function (f) { inputLabels[f.path] = f.label; });
   const remarks = rev.remarks || [];
   $('remarks').replaceChildren(...remarks.map(remarkItem));
   $('remarks-section').hidden = remarks.length === 0;
@@ -83,7 +67,6 @@ function renderResults(rev) {
   const checks = rev.checks || [];
   const remarks = rev.remarks || [];
   const system = rev.normalized && rev.normalized.unitSystem === 'US' ? 'US' : 'SI';
-  checks.forEach(function (c) { checksById[c.id] = c; });
   $('results').tBodies[0].replaceChildren(...checks.map(function (c, i) {
     const on = remarks.filter(function (r) { return r.target && r.target.result === c.id; });
     const governing = rev.governing && rev.governing.id === c.id;
@@ -108,7 +91,7 @@ export function renderInputRemarks(rev) {
     const th = tr.querySelector('th');
     const old = th.querySelector('.input-remarks');
     if (old) old.remove();
-    if (said.length) th.append(el('ul', { class: 'input-remarks remarks small', 'aria-label': 'Comments on ' + designLabel(path) }, ...said.map(remarkItem)));
+    if (said.length) th.append(el('ul', { class: 'input-remarks remarks small', 'aria-label': 'Comments on ' + (fieldLabels[path] || path) }, ...said.map(remarkItem)));
   });
 }
 
@@ -180,9 +163,9 @@ export function setUpComment(rev, reload) {
     const button = $('comment-submit');
     button.disabled = true;
     try {
-      await api('/api/v1/revisions/' + encodeURIComponent(rev.id) + '/comments', { method: 'POST', body: body });
+      const added = await api('/api/v1/revisions/' + encodeURIComponent(rev.id) + '/comments', { method: 'POST', body: body });
       $('comment-text').value = '';
-      $('comment-status').textContent = 'Comment added' + (body.target ? remarkTarget(body.target) : ' on the revision') + '.';
+      $('comment-status').textContent = 'Comment added' + (added.on ? remarkOn(added.on) : ' on the revision') + '.';
       reload();
     } catch (err) {
       refuse(err);
