@@ -28,6 +28,7 @@ import { CreatedRenderedFiles20261206050000 } from './20261206050000-created-ren
 import { CreatedSharedLimitCounters20261206050100 } from './20261206050100-created-shared-limit-counters';
 import { LeasedPerUserAllowances20261206060000 } from './20261206060000-leased-per-user-allowances';
 import { CreatedDesignFileJobIndex20261207020000 } from './20261207020000-created-design-file-job-index';
+import { CreatedCalculationOpenedEventIndex20261207030000 } from './20261207030000-created-calculation-opened-event-index';
 
 export const MIGRATIONS = [
   CreatedRecordTables20261201220000,
@@ -59,4 +60,5 @@ export const MIGRATIONS = [
   CreatedSharedLimitCounters20261206050100,
   LeasedPerUserAllowances20261206060000,
   CreatedDesignFileJobIndex20261207020000,
+  CreatedCalculationOpenedEventIndex20261207030000,
 ];
