@@ -5,7 +5,6 @@ import { designInputFields, type Actor } from '@leadline/contracts';
 import { Roles } from '../identities/auth.guard';
 import { CurrentActor } from '../infra/http/actor';
 import { ReviewsService } from '../reviews/reviews.service';
-import { withInputWords } from '../reviews/remarks';
 import { CalculationsService } from './calculations.service';
 import { DraftsService } from './drafts.service';
 
@@ -93,7 +92,7 @@ export class CalculationsController {
         const c = checks[i];
         return c === null
           ? { ...r, review: { state: s.state, decidedBy: s.decidedBy, decidedAt: s.decidedAt, signature: s.signature } }
-          : { ...r, checks: c.checks, governing: c.governing, remarks: withInputWords(remarks?.get(r.id) ?? [], 'input' in r ? r.input : undefined), review: { state: s.state, decidedBy: s.decidedBy, decidedAt: s.decidedAt, signature: s.signature } };
+          : { ...r, checks: c.checks, governing: c.governing, remarks: remarks?.get(r.id) ?? [], review: { state: s.state, decidedBy: s.decidedBy, decidedAt: s.decidedAt, signature: s.signature } };
       }),
       nextCursor: page.nextCursor,
     };
@@ -105,7 +104,7 @@ export class CalculationsController {
     const [record, review, remarks] = await Promise.all([this.calculations.revision(id), this.reviews.state(id), this.reviews.remarks(id)]);
     const { checks, governing } = await this.calculations.checksOf(record);
     return {
-      ...record, checks, governing, remarks: withInputWords(remarks, record.input), review: { state: review.state, decidedBy: review.decidedBy, decidedAt: review.decidedAt, signature: review.signature },
+      ...record, checks, governing, remarks, review: { state: review.state, decidedBy: review.decidedBy, decidedAt: review.decidedAt, signature: review.signature },
       inputFields: designInputFields(record.input),
     };
   }

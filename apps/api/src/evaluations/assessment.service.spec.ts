@@ -7,7 +7,8 @@ import * as mechanics from '@leadline/mechanics';
 import { RULE_SET_2026_12_2 } from '@leadline/rules';
 import { clearDesign } from '../../../../test/support/designs';
 import { ValidationProblem } from '../infra/http/problem';
-import { AssessmentService, nonFiniteFigure } from './assessment.service';
+import { AssessmentService } from './assessment.service';
+import { nonFiniteFigure } from './assess-design';
 
 jest.mock('@leadline/mechanics', () => {
   const actual = jest.requireActual('@leadline/mechanics');

@@ -8,8 +8,6 @@ import type { RuleSet } from '@leadline/rules';
 import { ValidationProblem } from '../infra/http/problem';
 import { assessDesign, type Assessment } from './assess-design';
 
-export { assessDesign, nonFiniteFigure, type Assessment, type AssessmentProblem } from './assess-design';
-
 @Injectable()
 export class AssessmentService {
   /** @param pathPrefix - prefix for field paths in errors, e.g. "design." when the input is nested */

@@ -31,11 +31,11 @@ const inWorker = !isMainThread;
 
 /** The task's answer (the pool calls it by name). */
 export function answerEvaluation(task: EvaluationTask): EvaluationOutcome {
-  if (task.ruleSet) {
+  if (task.ruleSet && !ruleSets.has(task.ruleSetKey)) {
     if (ruleSets.size >= RULE_SETS_KEPT) ruleSets.delete(ruleSets.keys().next().value as string);
     ruleSets.set(task.ruleSetKey, task.ruleSet);
   }
-  const ruleSet = ruleSets.get(task.ruleSetKey);
+  const ruleSet = task.ruleSet ?? ruleSets.get(task.ruleSetKey);
   if (ruleSet === undefined) return { ruleSetWanted: task.ruleSetKey };
   const outcome = assessDesign(task.body, ruleSet);
   if ('problems' in outcome) return { problems: outcome.problems };

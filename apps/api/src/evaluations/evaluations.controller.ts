@@ -19,9 +19,9 @@ export class EvaluationsController {
   @HttpCode(200)
   @UserLimit('evaluations')
   async evaluate(@Body() body: unknown, @Res({ passthrough: true }) reply: FastifyReply, @Query('trace') trace?: string): Promise<Buffer> {
-    const text = await this.pool.answer(body, this.ruleSets.current(), trace === 'true');
+    const json = await this.pool.answer(body, this.ruleSets.current(), trace === 'true');
     reply.header('content-type', 'application/json; charset=utf-8');
-    return text;
+    return json;
   }
 }
 

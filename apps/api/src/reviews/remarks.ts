@@ -30,14 +30,9 @@ export function remarkOn(target: Remark['target'], input?: unknown): string | nu
   return `result “${checkLabel(target.result)}”`;
 }
 
-/** Remarks on inputs worded from the revision's own input (a field inside a choice by the option it chose). */
-export function withInputWords(remarks: readonly Remark[], input: unknown): Remark[] {
-  return remarks.map((r) => (r.target !== null && 'field' in r.target ? { ...r, on: remarkOn(r.target, input) } : r));
-}
-
-/** A remark with its words (the one constructor of a Remark). */
-function remark(kind: Remark['kind'], by: Actor | null, at: string, text: string, target: Remark['target']): Remark {
-  return { kind, by, at, text, target, on: remarkOn(target) };
+/** A remark with its words (the one constructor of a Remark); `input` is the revision's input, when at hand. */
+function remark(kind: Remark['kind'], by: Actor | null, at: string, text: string, target: Remark['target'], input: unknown): Remark {
+  return { kind, by, at, text, target, on: remarkOn(target, input) };
 }
 
 /** A stored target as the remark's target: an input field, a finding or a result, else null (an unknown shape is not guessed). */
@@ -50,15 +45,18 @@ export function remarkTarget(t: unknown): Remark['target'] {
   return null;
 }
 
-/** The remarks of one event of the review workflow (none for an event that says nothing). */
-export function remarksOfEvent(type: string, by: Actor | null, at: string, data: Record<string, any> | null): Remark[] {
+/**
+ * The remarks of one event of the review workflow (none for an event that says nothing); with the revision's input
+ * an input inside a choice is worded from the option it chose.
+ */
+export function remarksOfEvent(type: string, by: Actor | null, at: string, data: Record<string, any> | null, input?: unknown): Remark[] {
   const d = data ?? {};
-  if (type === 'comment') return typeof d.text === 'string' ? [remark('comment', by, at, d.text, remarkTarget(d.target))] : [];
+  if (type === 'comment') return typeof d.text === 'string' ? [remark('comment', by, at, d.text, remarkTarget(d.target), input)] : [];
   if (type !== 'approved' && type !== 'rejected' && type !== 'withdrawn') return [];
   const out: Remark[] = [];
   const kind = type === 'withdrawn' ? 'withdrawal' : 'decision';
-  if (typeof d.comment === 'string' && d.comment) out.push(remark(kind, by, at, d.comment, null));
-  for (const a of d.acknowledgements ?? []) out.push(remark('acknowledgement', by, at, a.comment, { finding: a.finding }));
-  for (const c of d.comments ?? []) out.push(remark('comment', by, at, c.text, remarkTarget(c.target)));
+  if (typeof d.comment === 'string' && d.comment) out.push(remark(kind, by, at, d.comment, null, input));
+  for (const a of d.acknowledgements ?? []) out.push(remark('acknowledgement', by, at, a.comment, { finding: a.finding }, input));
+  for (const c of d.comments ?? []) out.push(remark('comment', by, at, c.text, remarkTarget(c.target), input));
   return out;
 }

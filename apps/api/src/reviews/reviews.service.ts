@@ -130,14 +130,15 @@ export class ReviewsService {
   async remarksOf(revisionIds: readonly string[]): Promise<Map<string, Remark[]>> {
     const byRevision = new Map<string, Remark[]>(revisionIds.map((id) => [id, []]));
     if (revisionIds.length === 0) return byRevision;
-    const rows = await this.db.query<{ revision_id: string; type: string; actor: Actor | null; at: string; data: Record<string, any> }>(
-      `SELECT e.revision_id, e.type, e.actor, ${TS_TEXT('e.created_at')} AS at, e.data FROM events e
+    // with each event the revision's input, by which a comment on an input inside a choice is worded
+    const rows = await this.db.query<{ revision_id: string; type: string; actor: Actor | null; at: string; data: Record<string, any>; input: unknown }>(
+      `SELECT e.revision_id, e.type, e.actor, ${TS_TEXT('e.created_at')} AS at, e.data, r.input FROM events e JOIN revisions r ON r.id = e.revision_id
         WHERE e.revision_id = ANY ($1::uuid[]) AND e.type IN ('comment', 'approved', 'rejected', 'withdrawn')
           AND e.seq <= (SELECT h.seq FROM chain_heads h WHERE h.product_id = e.product_id)
         ORDER BY e.seq`,
       [revisionIds],
     );
-    for (const e of rows) byRevision.get(e.revision_id)!.push(...remarksOfEvent(e.type, e.actor, e.at, e.data));
+    for (const e of rows) byRevision.get(e.revision_id)!.push(...remarksOfEvent(e.type, e.actor, e.at, e.data, e.input));
     return byRevision;
   }
 
